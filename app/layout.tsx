@@ -1,0 +1,20 @@
+import type { Metadata, Viewport } from "next";
+import localFont from "next/font/local";
+import "./globals.css";
+
+const inter = localFont({ src: "../node_modules/@fontsource-variable/inter/files/inter-latin-wght-normal.woff2", variable: "--font-inter", display: "swap" });
+
+export const metadata: Metadata = {
+  title: { default: "Rhizomorph", template: "%s · Rhizomorph" },
+  description: "Pooled harvest records and strain trials for a mushroom growers' cooperative",
+};
+
+export const viewport: Viewport = { width: "device-width", initialScale: 1, themeColor: "#2e5e4e" };
+
+export default function RootLayout({ children }: { children: React.ReactNode }) {
+  return (
+    <html lang="en" className={inter.variable}>
+      <body className="min-h-screen font-sans antialiased">{children}</body>
+    </html>
+  );
+}

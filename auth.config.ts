@@ -1,0 +1,35 @@
+import type { NextAuthConfig } from "next-auth";
+
+/** Paths anyone may open without signing in. */
+export const publicPaths = ["/sign-in", "/forbidden", "/accept-invitation", "/reset-password", "/cautions"];
+
+export const sessionMaxAgeSeconds = 8 * 60 * 60;
+
+export function isPublicPath(pathname: string): boolean {
+  return publicPaths.some((path) => pathname === path || pathname.startsWith(`${path}/`));
+}
+
+/** The part of the configuration the proxy needs; no database, no password hashing. */
+export const authConfig = {
+  pages: { signIn: "/sign-in" },
+  // A working day; a session older than this has to sign in again.
+  session: { strategy: "jwt", maxAge: sessionMaxAgeSeconds },
+  providers: [],
+  callbacks: {
+    authorized({ auth, request }) {
+      const { pathname } = request.nextUrl;
+      if (isPublicPath(pathname) || auth?.user) return true;
+      if (pathname.startsWith("/api/")) {
+        return Response.json({ error: "unauthenticated", message: "Sign in first." }, { status: 401 });
+      }
+      return false;
+    },
+  },
+  logger: {
+    // Failed sign-ins are expected and audited; they need no stack trace in the server log.
+    error(error) {
+      if (error.name === "CredentialsSignin" || error.name === "RateLimitedSignin") return;
+      console.error(error);
+    },
+  },
+} satisfies NextAuthConfig;

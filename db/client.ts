@@ -1,0 +1,78 @@
+import { sql } from "drizzle-orm";
+import { drizzle, type NodePgDatabase } from "drizzle-orm/node-postgres";
+import { Pool } from "pg";
+import * as schema from "./schema";
+import type { MemberRole } from "@/lib/auth/permissions";
+
+export type Database = NodePgDatabase<typeof schema>;
+export type Transaction = Parameters<Parameters<Database["transaction"]>[0]>[0];
+
+/** Who is asking. Policies read these three settings; an unset one matches nothing. */
+export interface FarmContext {
+  userId: string | null;
+  farmId: string | null;
+  role: MemberRole | "anonymous" | null;
+}
+
+interface Pools {
+  app: Database;
+  analyst: Database;
+  appPool: Pool;
+  analystPool: Pool;
+}
+
+function requireEnv(name: string): string {
+  const value = process.env[name];
+  if (!value) throw new Error(`${name} is not set: start the app with npm start (or npm test)`);
+  return value;
+}
+
+// One pool per role, kept on globalThis so dev reloads and test files share it.
+const globalForDb = globalThis as unknown as { rhizomorphPools?: Pools };
+
+function pools(): Pools {
+  if (!globalForDb.rhizomorphPools) {
+    const appPool = new Pool({ connectionString: requireEnv("DATABASE_URL"), max: 10 });
+    const analystPool = new Pool({ connectionString: requireEnv("ANALYST_DATABASE_URL"), max: 4 });
+    globalForDb.rhizomorphPools = {
+      appPool,
+      analystPool,
+      app: drizzle(appPool, { schema }),
+      analyst: drizzle(analystPool, { schema }),
+    };
+  }
+  return globalForDb.rhizomorphPools;
+}
+
+/** The statement that sets the member context; exported so tests can check it binds its values. */
+export function farmContextStatement(context: FarmContext) {
+  return sql`select set_config('app.user_id', ${context.userId ?? ""}, true),
+    set_config('app.farm_id', ${context.farmId ?? ""}, true),
+    set_config('app.role', ${context.role ?? ""}, true)`;
+}
+
+/**
+ * The one way into the database for a request: a transaction as rhizo_app with the caller's
+ * user, farm and role set for row-level security. The settings are transaction-local, so they
+ * never leak to the next user of a pooled connection.
+ */
+export async function withFarmContext<T>(context: FarmContext, work: (tx: Transaction) => Promise<T>): Promise<T> {
+  return pools().app.transaction(async (tx) => {
+    await tx.execute(farmContextStatement(context));
+    return work(tx);
+  });
+}
+
+/**
+ * The pooled-analysis path: rhizo_analyst reads across farms. Only lib/data/pooled-* may call
+ * it, and what it returns must be aggregates.
+ */
+export async function withAnalystAccess<T>(work: (tx: Transaction) => Promise<T>): Promise<T> {
+  return pools().analyst.transaction(async (tx) => work(tx));
+}
+
+export async function closeDatabase(): Promise<void> {
+  const current = globalForDb.rhizomorphPools;
+  globalForDb.rhizomorphPools = undefined;
+  if (current) await Promise.all([current.appPool.end(), current.analystPool.end()]);
+}

@@ -1,0 +1,85 @@
+import { sql } from "drizzle-orm";
+import { bigserial, boolean, check, index, integer, pgTable, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
+import { displayUnits, farmStatus, memberRole, tokenPurpose } from "./enums";
+
+/** The single row of co-op-wide settings (id is always 1). */
+export const cooperativeSettings = pgTable(
+  "cooperative_settings",
+  {
+    id: integer("id").primaryKey().default(1),
+    name: text("name").notNull(),
+    region: text("region").notNull().default(""),
+    minimumFarms: integer("minimum_farms").notNull().default(3),
+    showPerFarmEstimates: boolean("show_per_farm_estimates").notNull().default(false),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [check("cooperative_settings_single_row", sql`${t.id} = 1`), check("minimum_farms_at_least_two", sql`${t.minimumFarms} >= 2`)],
+);
+
+export const farms = pgTable(
+  "farms",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    name: text("name").notNull(),
+    region: text("region").notNull().default(""),
+    contactEmail: text("contact_email"),
+    status: farmStatus("status").notNull().default("active"),
+    joinedAt: timestamp("joined_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex("farms_name_unique").on(t.name)],
+);
+
+export const users = pgTable(
+  "users",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    email: text("email").notNull(),
+    name: text("name").notNull(),
+    passwordHash: text("password_hash"),
+    role: memberRole("role").notNull(),
+    farmId: uuid("farm_id").references(() => farms.id, { onDelete: "cascade" }),
+    active: boolean("active").notNull().default(true),
+    displayUnits: displayUnits("display_units").notNull().default("metric"),
+    notifyReminders: boolean("notify_reminders").notNull().default(true),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    lastSignInAt: timestamp("last_sign_in_at", { withTimezone: true }),
+  },
+  (t) => [
+    uniqueIndex("users_email_unique").on(sql`lower(${t.email})`),
+    index("users_farm_idx").on(t.farmId),
+    // Farm people belong to a farm; the coordinator and observers belong to the co-op.
+    check("users_farm_matches_role", sql`(${t.role} in ('farm_manager', 'grower')) = (${t.farmId} is not null)`),
+  ],
+);
+
+/** Every sign-in attempt, kept so that rate limits hold across restarts. */
+export const signInAttempts = pgTable(
+  "sign_in_attempts",
+  {
+    id: bigserial("id", { mode: "number" }).primaryKey(),
+    email: text("email").notNull(),
+    ip: text("ip").notNull(),
+    succeeded: boolean("succeeded").notNull(),
+    attemptedAt: timestamp("attempted_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("sign_in_attempts_email_idx").on(t.email, t.attemptedAt), index("sign_in_attempts_ip_idx").on(t.ip, t.attemptedAt)],
+);
+
+/** One-time links for invitations and password resets; only a hash of the token is stored. */
+export const accessTokens = pgTable(
+  "access_tokens",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    purpose: tokenPurpose("purpose").notNull(),
+    tokenHash: text("token_hash").notNull(),
+    email: text("email").notNull(),
+    userId: uuid("user_id").references(() => users.id, { onDelete: "cascade" }),
+    farmId: uuid("farm_id").references(() => farms.id, { onDelete: "cascade" }),
+    role: memberRole("role"),
+    createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+    usedAt: timestamp("used_at", { withTimezone: true }),
+  },
+  (t) => [uniqueIndex("access_tokens_hash_unique").on(t.tokenHash)],
+);

@@ -1,0 +1,126 @@
+import { sql } from "drizzle-orm";
+import {
+  bigserial, boolean, check, customType, date, index, integer, jsonb, numeric, pgTable, text, timestamp, uniqueIndex, uuid,
+} from "drizzle-orm/pg-core";
+import { farms, users } from "./cooperative";
+import { uploadOutcome } from "./enums";
+import { strains, substrateRecipes, treatments } from "./registries";
+import { trialArms } from "./trials";
+
+const bytea = customType<{ data: Buffer; driverData: Buffer }>({ dataType: () => "bytea" });
+
+/** Every file a farm sends is kept, whatever became of it. */
+export const uploads = pgTable(
+  "uploads",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
+    uploadedBy: uuid("uploaded_by").references(() => users.id, { onDelete: "set null" }),
+    uploadedAt: timestamp("uploaded_at", { withTimezone: true }).notNull().defaultNow(),
+    fileName: text("file_name").notNull(),
+    content: bytea("content").notNull(),
+    sha256: text("sha256").notNull(),
+    sizeBytes: integer("size_bytes").notNull(),
+    schemaVersion: integer("schema_version").notNull().default(1),
+    outcome: uploadOutcome("outcome").notNull().default("received"),
+    rowCount: integer("row_count").notNull().default(0),
+    report: jsonb("report"),
+    options: jsonb("options"),
+    committedAt: timestamp("committed_at", { withTimezone: true }),
+  },
+  (t) => [index("uploads_farm_sha_idx").on(t.farmId, t.sha256), index("uploads_farm_time_idx").on(t.farmId, t.uploadedAt)],
+);
+
+const massColumns = (prefix: string) => ({
+  grams: numeric(`${prefix}_g`, { mode: "number" }),
+  asWritten: text(`${prefix}_as_written`),
+  unit: text(`${prefix}_unit`),
+});
+
+export const blocks = pgTable(
+  "blocks",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
+    code: text("code").notNull(),
+    strainId: uuid("strain_id").notNull().references(() => strains.id),
+    substrateRecipeId: uuid("substrate_recipe_id").references(() => substrateRecipes.id),
+    fruitingMethodId: uuid("fruiting_method_id").references(() => treatments.id),
+    trialArmId: uuid("trial_arm_id").references(() => trialArms.id),
+    inoculatedOn: date("inoculated_on"),
+    wetMassG: massColumns("wet_mass").grams,
+    wetMassAsWritten: massColumns("wet_mass").asWritten,
+    wetMassUnit: massColumns("wet_mass").unit,
+    moisture: numeric("moisture", { mode: "number" }),
+    contaminated: boolean("contaminated").notNull().default(false),
+    contaminatedOn: date("contaminated_on"),
+    spentMassG: massColumns("spent_mass").grams,
+    spentMassAsWritten: massColumns("spent_mass").asWritten,
+    spentMassUnit: massColumns("spent_mass").unit,
+    notes: text("notes").notNull().default(""),
+    lastUploadId: uuid("last_upload_id").references(() => uploads.id, { onDelete: "set null" }),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    uniqueIndex("blocks_farm_code_unique").on(t.farmId, t.code),
+    index("blocks_strain_idx").on(t.strainId),
+    check("blocks_wet_mass_not_negative", sql`${t.wetMassG} >= 0`),
+    check("blocks_spent_mass_not_negative", sql`${t.spentMassG} >= 0`),
+    check("blocks_moisture_range", sql`${t.moisture} >= 0 and ${t.moisture} < 1`),
+  ],
+);
+
+export const harvests = pgTable(
+  "harvests",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    // Repeated from the block so row-level security needs no join.
+    farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
+    blockId: uuid("block_id").notNull().references(() => blocks.id, { onDelete: "cascade" }),
+    flush: integer("flush").notNull(),
+    harvestedOn: date("harvested_on"),
+    freshMassG: numeric("fresh_mass_g", { mode: "number" }).notNull(),
+    freshMassAsWritten: text("fresh_mass_as_written"),
+    freshMassUnit: text("fresh_mass_unit"),
+    dryMassG: numeric("dry_mass_g", { mode: "number" }),
+    dryMassAsWritten: text("dry_mass_as_written"),
+    dryMassUnit: text("dry_mass_unit"),
+    uploadId: uuid("upload_id").references(() => uploads.id, { onDelete: "set null" }),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    uniqueIndex("harvests_block_flush_unique").on(t.blockId, t.flush),
+    index("harvests_farm_idx").on(t.farmId),
+    check("harvests_flush_positive", sql`${t.flush} >= 1`),
+    check("harvests_fresh_mass_not_negative", sql`${t.freshMassG} >= 0`),
+    check("harvests_dry_mass_not_negative", sql`${t.dryMassG} >= 0`),
+  ],
+);
+
+/** Values that a later upload or correction replaced: who, when, old and new, from which upload. */
+export const valueChanges = pgTable(
+  "value_changes",
+  {
+    id: bigserial("id", { mode: "number" }).primaryKey(),
+    farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
+    blockId: uuid("block_id").notNull().references(() => blocks.id, { onDelete: "cascade" }),
+    flush: integer("flush"),
+    field: text("field").notNull(),
+    oldValue: text("old_value"),
+    newValue: text("new_value"),
+    uploadId: uuid("upload_id").references(() => uploads.id, { onDelete: "set null" }),
+    changedBy: uuid("changed_by").references(() => users.id, { onDelete: "set null" }),
+    changedAt: timestamp("changed_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("value_changes_block_idx").on(t.blockId, t.changedAt)],
+);
+
+/** What a farm chose last time: its column mapping and default mass unit. */
+export const farmImportPreferences = pgTable("farm_import_preferences", {
+  farmId: uuid("farm_id").primaryKey().references(() => farms.id, { onDelete: "cascade" }),
+  columnMapping: jsonb("column_mapping").$type<Record<string, string>>().notNull().default({}),
+  defaultMassUnit: text("default_mass_unit"),
+  updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+});

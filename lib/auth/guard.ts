@@ -1,0 +1,106 @@
+import "server-only";
+import { cache } from "react";
+import { redirect } from "next/navigation";
+import { NextResponse } from "next/server";
+import type { z } from "zod";
+import { auth } from "@/auth";
+import type { FarmContext } from "@/db/client";
+import { loadMember, type Member } from "@/lib/data/members";
+import { AppError, isAppError } from "@/lib/errors";
+import { can, type Action } from "./permissions";
+
+/** The signed-in member, read fresh from the database once per request (roles are data). */
+export const currentMember = cache(async (): Promise<Member | null> => {
+  const session = await auth();
+  if (!session?.user?.id) return null;
+  const member = await loadMember(session.user.id);
+  return member?.active ? member : null;
+});
+
+export function farmContextOf(member: Member): FarmContext {
+  return { userId: member.id, farmId: member.farmId, role: member.role };
+}
+
+/** The one guard: throws unless a signed-in member may do `action`. */
+export async function authorize(action: Action): Promise<Member> {
+  const member = await currentMember();
+  if (!member) throw new AppError("unauthenticated", "Your session has ended. Sign in again.");
+  if (!can(member.role, action)) throw new AppError("forbidden", "Your role does not allow this.");
+  return member;
+}
+
+/** For pages: the same check, turned into a redirect to sign-in or to the forbidden page. */
+export async function requirePage(action: Action): Promise<Member> {
+  try {
+    return await authorize(action);
+  } catch (error) {
+    if (isAppError(error) && error.code === "unauthenticated") redirect("/sign-in");
+    if (isAppError(error) && error.code === "forbidden") redirect("/forbidden");
+    throw error;
+  }
+}
+
+export function errorResponse(error: unknown): NextResponse {
+  if (isAppError(error)) {
+    return NextResponse.json({ error: error.code, message: error.message, problems: error.fieldProblems }, { status: error.status });
+  }
+  console.error(error);
+  return NextResponse.json({ error: "internal", message: "Something went wrong on our side. Try again; if it keeps happening, tell the coordinator." }, { status: 500 });
+}
+
+type RouteHandler<Params> = (request: Request, context: { member: Member; params: Params }) => Promise<Response>;
+
+/** Wraps every route handler: authorises, runs, and maps errors to JSON with the right status. */
+export function guardedRoute<Params = Record<string, string>>(action: Action, handler: RouteHandler<Params>) {
+  return async (request: Request, routeContext: { params: Promise<Params> }): Promise<Response> => {
+    try {
+      const member = await authorize(action);
+      return await handler(request, { member, params: await routeContext.params });
+    } catch (error) {
+      return errorResponse(error);
+    }
+  };
+}
+
+export type ActionState = {
+  status: "idle" | "ok" | "error";
+  message?: string;
+  fieldErrors?: Record<string, string[]>;
+};
+
+/**
+ * Wraps every server action: authorises, validates the form with zod, runs, and returns a
+ * state the form can show next to its fields. Never throws to the client.
+ */
+export function guardedAction<Schema extends z.ZodType>(
+  action: Action,
+  schema: Schema,
+  run: (input: z.infer<Schema>, member: Member) => Promise<ActionState | void>,
+) {
+  return async (_previous: ActionState, formData: FormData): Promise<ActionState> => {
+    let member: Member;
+    try {
+      member = await authorize(action);
+    } catch (error) {
+      return { status: "error", message: isAppError(error) ? error.message : "Sign in again." };
+    }
+    const parsed = schema.safeParse(Object.fromEntries(formData));
+    if (!parsed.success) {
+      const fieldErrors: Record<string, string[]> = {};
+      for (const issue of parsed.error.issues) {
+        const field = issue.path.join(".") || "form";
+        (fieldErrors[field] ??= []).push(issue.message);
+      }
+      return { status: "error", message: "Some fields need attention.", fieldErrors };
+    }
+    try {
+      return (await run(parsed.data, member)) ?? { status: "ok" };
+    } catch (error) {
+      if (isAppError(error)) {
+        const fieldErrors = Object.fromEntries(error.fieldProblems.map((problem) => [problem.field, [problem.message]]));
+        return { status: "error", message: error.message, fieldErrors };
+      }
+      throw error;
+    }
+  };
+}

@@ -1,0 +1,55 @@
+import fc from "fast-check";
+import { describe, expect, it } from "vitest";
+import {
+  chiSquareUpperTail,
+  fUpperTail,
+  logGamma,
+  regularizedBeta,
+  studentTLowerTail,
+  studentTQuantile,
+} from "./distributions";
+
+describe("distribution functions", () => {
+  it("log-gamma hits factorials and √π", () => {
+    expect(logGamma(0.5)).toBeCloseTo(0.5 * Math.log(Math.PI), 14);
+    expect(logGamma(11)).toBeCloseTo(Math.log(3628800), 13);
+    expect(logGamma(1)).toBeCloseTo(0, 14);
+  });
+
+  it("chi-square with 2 df has the exact tail e^(−x/2)", () => {
+    for (const x of [0.1, 1, 8, 40, 120]) {
+      expect(chiSquareUpperTail(x, 2) / Math.exp(-x / 2)).toBeCloseTo(1, 12);
+    }
+  });
+
+  it("F(1, d) tail equals the two-sided t tail with d df", () => {
+    for (const [t, d] of [[2.1, 7], [0.4, 30], [9, 3]]) {
+      expect(fUpperTail(t * t, 1, d)).toBeCloseTo(2 * (1 - studentTLowerTail(t, d)), 13);
+    }
+  });
+
+  it("the incomplete beta is symmetric: I_x(a, b) = 1 − I_{1−x}(b, a)", () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: 0.001, max: 0.999, noNaN: true }),
+        fc.double({ min: 0.1, max: 200, noNaN: true }),
+        fc.double({ min: 0.1, max: 200, noNaN: true }),
+        (x, a, b) => {
+          expect(regularizedBeta(x, a, b)).toBeCloseTo(1 - regularizedBeta(1 - x, b, a), 11);
+        },
+      ),
+    );
+  });
+
+  it("the t quantile inverts the t distribution", () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: 0.001, max: 0.999, noNaN: true }),
+        fc.double({ min: 1, max: 5000, noNaN: true }),
+        (p, df) => {
+          expect(studentTLowerTail(studentTQuantile(p, df), df)).toBeCloseTo(p, 12);
+        },
+      ),
+    );
+  });
+});

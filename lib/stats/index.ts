@@ -1,0 +1,25 @@
+export { StatsInputError, type StatsInputErrorCode } from "./errors";
+export { describe, type Description } from "./describe";
+export { meanCI, meanCIFromSummary, welchTest, type MeanInterval, type WelchResult } from "./intervals";
+export { oneWayAnova, type OneWayAnova } from "./anova";
+export {
+  blockedAnova,
+  type AdjustedMean,
+  type AnovaTerm,
+  type BlockedAnova,
+  type BlockedAnovaObservation,
+} from "./blocked-anova";
+export { tukeyHsd, type TukeyComparison } from "./tukey";
+export { holm } from "./holm";
+export { wilsonInterval, type ProportionInterval } from "./wilson";
+export { metaAnalysis, type MetaAnalysis, type PooledEstimate } from "./meta-analysis";
+export { sampleSizeTwoMeans, powerTwoMeans, type SampleSize } from "./sample-size";
+export { biologicalEfficiency, dryMass, massLoss } from "./efficiency";
+export {
+  flushProfile,
+  forecastRemaining,
+  type FlushProfile,
+  type FlushRecord,
+  type FlushShare,
+  type RemainingYield,
+} from "./flush-profile";

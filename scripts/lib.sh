@@ -1,0 +1,93 @@
+# Shared by the start, test and database scripts: where things live and how to reach them.
+# Sourced, not run. Every value can be overridden from the environment so that several
+# checkouts (or several people on one machine) can run side by side.
+set -euo pipefail
+
+ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
+cd "$ROOT"
+
+say() { printf '\033[1;32m▸\033[0m %s\n' "$*"; }
+fail() { printf '\033[1;31m✗ %s\033[0m\n' "$*" >&2; exit 1; }
+
+PG_PORT="${RHIZO_PG_PORT:-54329}"
+PG_HOST=127.0.0.1
+
+# The cluster must sit where the postgres system user can reach it. A clone under a
+# folder that user cannot enter (such as /root) falls back to /var/tmp.
+pick_data_dir() {
+  if [ -n "${RHIZO_DATA_DIR:-}" ]; then echo "$RHIZO_DATA_DIR"; return; fi
+  if id postgres >/dev/null 2>&1 && ! runuser -u postgres -- test -x "$ROOT" 2>/dev/null; then
+    echo "/var/tmp/rhizomorph-$(printf '%s' "$ROOT" | sha256sum | cut -c1-12)"
+  else
+    echo "$ROOT/.data"
+  fi
+}
+DATA_DIR="$(pick_data_dir)"
+PG_DIR="$DATA_DIR/pg"
+PG_DATA="$PG_DIR/data"
+SECRETS_FILE="$DATA_DIR/secrets.env"
+
+pg_bin() {
+  local version
+  version="$(ls /usr/lib/postgresql 2>/dev/null | sort -V | tail -n 1)"
+  [ -n "$version" ] && echo "/usr/lib/postgresql/$version/bin"
+}
+
+# Passwords and the sign-in secret are made once per checkout and kept out of git.
+load_secrets() {
+  mkdir -p "$DATA_DIR"
+  if [ ! -f "$SECRETS_FILE" ]; then
+    umask 077
+    {
+      echo "PG_SUPERUSER_PASSWORD=$(openssl rand -hex 16)"
+      echo "RHIZO_OWNER_PASSWORD=$(openssl rand -hex 16)"
+      echo "RHIZO_APP_PASSWORD=$(openssl rand -hex 16)"
+      echo "RHIZO_ANALYST_PASSWORD=$(openssl rand -hex 16)"
+      echo "AUTH_SECRET=$(openssl rand -base64 32)"
+    } >"$SECRETS_FILE"
+  fi
+  set -a
+  # shellcheck disable=SC1090
+  . "$SECRETS_FILE"
+  set +a
+}
+
+# Exports the connection strings and settings the app, the migrations and the tests read.
+export_app_env() {
+  local database="$1" app_port="$2" smtp_port="$3"
+  load_secrets
+  export RHIZO_DATABASE="$database"
+  export DATABASE_URL="postgres://rhizo_app:$RHIZO_APP_PASSWORD@$PG_HOST:$PG_PORT/$database"
+  export ANALYST_DATABASE_URL="postgres://rhizo_analyst:$RHIZO_ANALYST_PASSWORD@$PG_HOST:$PG_PORT/$database"
+  export OWNER_DATABASE_URL="postgres://rhizo_owner:$RHIZO_OWNER_PASSWORD@$PG_HOST:$PG_PORT/$database"
+  export SUPERUSER_DATABASE_URL="postgres://postgres:$PG_SUPERUSER_PASSWORD@$PG_HOST:$PG_PORT/postgres"
+  export APP_PORT="$app_port"
+  export APP_URL="http://127.0.0.1:$app_port"
+  export AUTH_TRUST_HOST=true
+  export SMTP_HOST=127.0.0.1
+  export SMTP_PORT="$smtp_port"
+  export MAIL_FROM="Rhizomorph <no-reply@rhizomorph.invalid>"
+  export NEXT_TELEMETRY_DISABLED=1
+}
+
+# npm ci only when package-lock.json changed since the last install.
+ensure_dependencies() {
+  local stamp="node_modules/.rhizomorph-lock-hash" want
+  want="$(sha256sum package-lock.json | cut -c1-64)"
+  if [ -f "$stamp" ] && [ "$(cat "$stamp")" = "$want" ]; then
+    say "Dependencies already installed"
+  else
+    say "Installing dependencies (npm ci)"
+    npm ci --no-audit --no-fund --loglevel=error
+    echo "$want" >"$stamp"
+  fi
+}
+
+wait_for_port() {
+  local port="$1" what="$2" tries=0
+  until (exec 3<>"/dev/tcp/127.0.0.1/$port") 2>/dev/null; do
+    tries=$((tries + 1))
+    [ "$tries" -gt 300 ] && fail "$what did not start on port $port"
+    sleep 0.2
+  done
+}

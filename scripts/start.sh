@@ -1,0 +1,60 @@
+#!/usr/bin/env bash
+# npm start: everything from a fresh clone to the demo co-op on http://127.0.0.1:3000.
+# A second run reuses the installed packages, the cluster, the data and the build.
+. "$(dirname "$0")/lib.sh"
+. "$ROOT/scripts/db.sh"
+
+DATABASE="${RHIZO_DB_NAME:-rhizomorph}"
+export_app_env "$DATABASE" "${RHIZO_APP_PORT:-3000}" "${RHIZO_SMTP_PORT:-2525}"
+
+ensure_dependencies
+ensure_postgres_installed
+init_cluster
+start_cluster
+ensure_roles_and_database "$DATABASE"
+say "Applying database migrations"
+npx tsx scripts/migrate.ts
+say "Loading the demo co-op if the database is empty"
+npx tsx db/seed.ts
+
+start_mail_catcher() {
+  if (exec 3<>"/dev/tcp/127.0.0.1/$SMTP_PORT") 2>/dev/null; then
+    say "Mail catcher already listening on 127.0.0.1:$SMTP_PORT"
+    return
+  fi
+  say "Starting the local mail catcher on 127.0.0.1:$SMTP_PORT"
+  npx tsx scripts/mail-catcher.ts >"$DATA_DIR/mail-catcher.log" 2>&1 &
+  MAIL_CATCHER_PID=$!
+  wait_for_port "$SMTP_PORT" "The mail catcher"
+}
+MAIL_CATCHER_PID=""
+start_mail_catcher
+trap '[ -n "$MAIL_CATCHER_PID" ] && kill "$MAIL_CATCHER_PID" 2>/dev/null' EXIT
+
+DIST_DIR="${NEXT_DIST_DIR:-.next}"
+build_is_current() {
+  [ -f "$DIST_DIR/BUILD_ID" ] || return 1
+  [ -z "$(find app components lib db auth.ts auth.config.ts proxy.ts next.config.ts package-lock.json public \
+    -newer "$DIST_DIR/BUILD_ID" -not -path 'db/migrations/*' -print -quit 2>/dev/null)" ]
+}
+if build_is_current; then
+  say "The app build is up to date"
+else
+  say "Building the app (about a minute)"
+  npx next build
+fi
+
+cat <<MSG
+
+  Rhizomorph is running at http://127.0.0.1:$APP_PORT
+
+  Demo sign-ins (password for all: alder-valley-demo)
+    coordinator   coordinator@aldervalley.example
+    farm manager  manager@fernbrook.example
+    grower        grower@fernbrook.example
+    observer      observer@extension.example
+
+  Stop with Ctrl-C; stop the database with: npm run db:stop
+
+MSG
+npx next start --hostname 127.0.0.1 --port "$APP_PORT"

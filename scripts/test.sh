@@ -1,0 +1,70 @@
+#!/usr/bin/env bash
+# npm test: sets everything up against a fresh test database, then runs the unit,
+# integration and browser tests. Exit code 0 only if all passed.
+# `bash scripts/test.sh unit integration` runs only the phases named.
+. "$(dirname "$0")/lib.sh"
+. "$ROOT/scripts/db.sh"
+
+PHASES=("$@")
+[ ${#PHASES[@]} -eq 0 ] && PHASES=(unit integration e2e)
+wants() { [[ " ${PHASES[*]} " == *" $1 "* ]]; }
+
+DATABASE="${RHIZO_TEST_DB:-rhizomorph_test}"
+export_app_env "$DATABASE" "${RHIZO_TEST_APP_PORT:-3100}" "${RHIZO_TEST_SMTP_PORT:-2625}"
+export NEXT_DIST_DIR="${NEXT_DIST_DIR:-.next-test}"
+export RHIZO_TEST_RESULTS="$ROOT/test-results"
+mkdir -p "$RHIZO_TEST_RESULTS"
+
+ensure_dependencies
+if wants e2e && [ ! -x /usr/bin/chromium ]; then
+  say "Installing Chromium from Debian's packages"
+  apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium >/dev/null
+fi
+
+BACKGROUND_PIDS=()
+cleanup() { for pid in "${BACKGROUND_PIDS[@]}"; do kill "$pid" 2>/dev/null || true; done; }
+trap cleanup EXIT
+
+if wants integration || wants e2e; then
+  ensure_postgres_installed
+  init_cluster
+  start_cluster
+  say "Creating a fresh test database ($DATABASE)"
+  drop_database "$DATABASE"
+  ensure_roles_and_database "$DATABASE"
+  say "Applying database migrations"
+  npx tsx scripts/migrate.ts
+  say "Loading the demo co-op"
+  npx tsx db/seed.ts
+  say "Starting the mail catcher on 127.0.0.1:$SMTP_PORT"
+  npx tsx scripts/mail-catcher.ts >"$RHIZO_TEST_RESULTS/mail-catcher.log" 2>&1 &
+  BACKGROUND_PIDS+=($!)
+  wait_for_port "$SMTP_PORT" "The mail catcher"
+fi
+
+STATUS=0
+run_project() {
+  say "Running $1 tests"
+  npx vitest run --project "$1" --reporter=default --reporter=json --outputFile="$RHIZO_TEST_RESULTS/vitest-$1.json" || STATUS=1
+}
+
+wants unit && run_project unit
+wants integration && run_project integration
+
+if wants e2e; then
+  say "Building the app for the browser tests"
+  if npx next build >"$RHIZO_TEST_RESULTS/next-build.log" 2>&1; then
+    say "Starting the app on 127.0.0.1:$APP_PORT"
+    npx next start --hostname 127.0.0.1 --port "$APP_PORT" >"$RHIZO_TEST_RESULTS/next-server.log" 2>&1 &
+    BACKGROUND_PIDS+=($!)
+    wait_for_port "$APP_PORT" "The app"
+    run_project e2e
+  else
+    tail -n 40 "$RHIZO_TEST_RESULTS/next-build.log"
+    echo "The app did not build; browser tests not run."
+    STATUS=1
+  fi
+fi
+
+node scripts/test-summary.mjs "$RHIZO_TEST_RESULTS" "${PHASES[@]}" || STATUS=1
+exit "$STATUS"
