@@ -43,7 +43,6 @@ export const { handlers, auth, signIn, signOut } = NextAuth({
     }),
   ],
   callbacks: {
-    ...authConfig.callbacks,
     jwt({ token, user }) {
       if (user?.id) token.memberId = user.id;
       return token;

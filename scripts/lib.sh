@@ -85,9 +85,16 @@ ensure_dependencies() {
 
 wait_for_port() {
   local port="$1" what="$2" tries=0
-  until (exec 3<>"/dev/tcp/127.0.0.1/$port") 2>/dev/null; do
+  until port_in_use "$port"; do
     tries=$((tries + 1))
     [ "$tries" -gt 300 ] && fail "$what did not start on port $port"
     sleep 0.2
   done
+}
+
+port_in_use() { (exec 3<>"/dev/tcp/127.0.0.1/$1") 2>/dev/null; }
+
+ensure_port_free() {
+  port_in_use "$1" && fail "Port $1 is already in use: stop whatever is listening there (an earlier run?) and try again"
+  return 0
 }

@@ -18,18 +18,18 @@ say "Loading the demo co-op if the database is empty"
 npx tsx db/seed.ts
 
 start_mail_catcher() {
-  if (exec 3<>"/dev/tcp/127.0.0.1/$SMTP_PORT") 2>/dev/null; then
+  if port_in_use "$SMTP_PORT"; then
     say "Mail catcher already listening on 127.0.0.1:$SMTP_PORT"
     return
   fi
   say "Starting the local mail catcher on 127.0.0.1:$SMTP_PORT"
-  npx tsx scripts/mail-catcher.ts >"$DATA_DIR/mail-catcher.log" 2>&1 &
+  setsid npx tsx scripts/mail-catcher.ts >"$DATA_DIR/mail-catcher.log" 2>&1 &
   MAIL_CATCHER_PID=$!
   wait_for_port "$SMTP_PORT" "The mail catcher"
 }
 MAIL_CATCHER_PID=""
 start_mail_catcher
-trap '[ -n "$MAIL_CATCHER_PID" ] && kill "$MAIL_CATCHER_PID" 2>/dev/null' EXIT
+trap '[ -n "$MAIL_CATCHER_PID" ] && kill -- "-$MAIL_CATCHER_PID" 2>/dev/null' EXIT
 
 DIST_DIR="${NEXT_DIST_DIR:-.next}"
 build_is_current() {

@@ -15,7 +15,9 @@ for (const phase of phases) {
   }
   const report = JSON.parse(readFileSync(file, "utf8"));
   passed += report.numPassedTests;
-  failed += report.numFailedTests + (report.numFailedTestSuites ?? 0);
+  // A file that failed to load reports no tests of its own: count it as one failure.
+  const brokenFiles = report.testResults.filter((file) => file.status === "failed" && file.assertionResults.length === 0).length;
+  failed += report.numFailedTests + brokenFiles;
   console.log(`${phase}: ${report.numPassedTests} passed, ${report.numFailedTests} failed`);
 }
 console.log(`${passed} passed, ${failed} failed`);

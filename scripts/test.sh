@@ -22,7 +22,8 @@ if wants e2e && [ ! -x /usr/bin/chromium ]; then
 fi
 
 BACKGROUND_PIDS=()
-cleanup() { for pid in "${BACKGROUND_PIDS[@]}"; do kill "$pid" 2>/dev/null || true; done; }
+# Background servers run in sessions of their own, so stopping one stops its children too.
+cleanup() { for pid in "${BACKGROUND_PIDS[@]}"; do kill -- "-$pid" 2>/dev/null || true; done; }
 trap cleanup EXIT
 
 if wants integration || wants e2e; then
@@ -37,7 +38,8 @@ if wants integration || wants e2e; then
   say "Loading the demo co-op"
   npx tsx db/seed.ts
   say "Starting the mail catcher on 127.0.0.1:$SMTP_PORT"
-  npx tsx scripts/mail-catcher.ts >"$RHIZO_TEST_RESULTS/mail-catcher.log" 2>&1 &
+  ensure_port_free "$SMTP_PORT"
+  setsid npx tsx scripts/mail-catcher.ts >"$RHIZO_TEST_RESULTS/mail-catcher.log" 2>&1 &
   BACKGROUND_PIDS+=($!)
   wait_for_port "$SMTP_PORT" "The mail catcher"
 fi
@@ -45,7 +47,9 @@ fi
 STATUS=0
 run_project() {
   say "Running $1 tests"
-  npx vitest run --project "$1" --reporter=default --reporter=json --outputFile="$RHIZO_TEST_RESULTS/vitest-$1.json" || STATUS=1
+  # RHIZO_VITEST_ARGS narrows a run to some files, e.g. "tests/integration/season-logs".
+  # shellcheck disable=SC2086
+  npx vitest run --project "$1" --reporter=default --reporter=json --outputFile="$RHIZO_TEST_RESULTS/vitest-$1.json" ${RHIZO_VITEST_ARGS:-} || STATUS=1
 }
 
 wants unit && run_project unit
@@ -55,7 +59,8 @@ if wants e2e; then
   say "Building the app for the browser tests"
   if npx next build >"$RHIZO_TEST_RESULTS/next-build.log" 2>&1; then
     say "Starting the app on 127.0.0.1:$APP_PORT"
-    npx next start --hostname 127.0.0.1 --port "$APP_PORT" >"$RHIZO_TEST_RESULTS/next-server.log" 2>&1 &
+    ensure_port_free "$APP_PORT"
+    setsid npx next start --hostname 127.0.0.1 --port "$APP_PORT" >"$RHIZO_TEST_RESULTS/next-server.log" 2>&1 &
     BACKGROUND_PIDS+=($!)
     wait_for_port "$APP_PORT" "The app"
     run_project e2e

@@ -3,7 +3,6 @@ import { currentMember } from "@/lib/auth/guard";
 import { roleLabels } from "@/lib/auth/permissions";
 import { navigationFor } from "@/lib/navigation";
 import { AppNavigation } from "./_components/app-navigation";
-import { signOutAction } from "./actions";
 
 export default async function SignedInLayout({ children }: { children: React.ReactNode }) {
   const member = await currentMember();
@@ -16,7 +15,6 @@ export default async function SignedInLayout({ children }: { children: React.Rea
         memberName={member.name}
         roleLabel={roleLabels[member.role]}
         farmName={member.farmName}
-        signOutAction={signOutAction}
       />
       <main id="main" className="mx-auto w-full max-w-6xl flex-1 px-4 py-6 sm:px-8 sm:py-10">
         {children}

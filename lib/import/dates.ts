@@ -12,7 +12,7 @@ export type DateReading =
   | { kind: "either"; dmy: string; mdy: string }
   | { kind: "error"; error: string };
 
-const isoDate = /^(\d{4})[-/.](\d{1,2})[-/.](\d{1,2})(?:[T ]\d{1,2}:\d{2}(?::\d{2}(?:\.\d+)?)?(?:Z|[+-]\d{2}:?\d{2})?)?$/;
+const isoDate = /^(\d{4})[-/.](\d{1,2})[-/.](\d{1,2})(?:[T ]\d{1,2}:\d{2}(?::\d{2}(?:\.\d+)?)?(?:Z|[+-]\d{2}:?\d{2})?)?$/i;
 const numericDate = /^(\d{1,2})([./-])(\d{1,2})\2(\d{4}|\d{2})(?: \d{1,2}:\d{2}(?::\d{2})?)?$/;
 const compactDate = /^(\d{4})(\d{2})(\d{2})$/;
 const serialNumber = /^\d{1,6}(?:[.,]\d+)?$/;

@@ -137,7 +137,7 @@ export function mapHeaders(headers: readonly string[], given: Record<string, str
       taken.add(target);
     });
   };
-  assign((name) => (sureNames.get(name) === undefined ? undefined : sureNames.get(name)), "synonym");
+  assign((name) => sureNames.get(name), "synonym");
   for (const column of columns) {
     if (column.how === "synonym" && (seasonLogColumnNames as readonly string[]).includes(column.header.trim().toLowerCase())) column.how = "exact";
   }
@@ -160,7 +160,7 @@ export function mapHeaders(headers: readonly string[], given: Record<string, str
 
 function nearestName(name: string): SeasonLogColumnName | null {
   if (name.length < 5) return null;
-  const allowed = name.length >= 9 ? 2 : 1;
+  const allowed = name.length >= 6 ? 2 : 1;
   let best: SeasonLogColumnName | null = null;
   let bestDistance = allowed + 1;
   for (const [candidate, column] of sureNameList) {

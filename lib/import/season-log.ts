@@ -12,7 +12,7 @@ import { CsvTokenizer, type Delimiter, sampleRows, sniffDecimal, sniffDelimiter 
 import { type DateOrder, type DateReading, describeOrder, readDate, wrongOrderMessage } from "./dates";
 import { ByteDecoder, type TextEncodingName } from "./encoding";
 import { type HeaderMapping, mapHeaders } from "./headers";
-import type { SeasonLogColumnName } from "./schema";
+import { type SeasonLogColumnName, seasonLogColumnNames } from "./schema";
 import { StrainRegister } from "./strains";
 
 export interface MassAsWritten {
@@ -119,6 +119,7 @@ export interface SeasonLogParser {
 
 const sniffLength = 64 * 1024;
 const longestCell = 10_000;
+const mostRowsAboveHeader = 9;
 const longestValueInReport = 200;
 const mostInternedTexts = 20_000;
 const mostCachedDates = 50_000;
@@ -137,8 +138,25 @@ const contaminatedOnBit = 4;
 
 type BlockAttribute = "substrate" | "trialCode" | "arm" | "inoculatedOn" | "wetBlockGrams" | "moisture" | "fruitingMethod" | "contaminatedOn" | "spentGrams" | "strainCode";
 
+/** Position of each block attribute in `BlockState.source`. */
+const slot: Readonly<Record<BlockAttribute, number>> = {
+  strainCode: 0,
+  substrate: 1,
+  trialCode: 2,
+  arm: 3,
+  inoculatedOn: 4,
+  wetBlockGrams: 5,
+  moisture: 6,
+  fruitingMethod: 7,
+  contaminatedOn: 8,
+  spentGrams: 9,
+};
+// Block states are many in a large file: arrays made whole (not grown by push) hold no spare room.
+const noHarvests: readonly number[] = [];
+
 interface BlockAttributeRule {
   field: BlockAttribute;
+  slot: number;
   column: SeasonLogColumnName;
   words: string;
   same: (a: SeasonRecord, b: SeasonRecord) => boolean;
@@ -153,48 +171,38 @@ const shownMass = (written: "wetBlockAsWritten" | "spentAsWritten") => (record: 
 
 // Block columns compared between rows while reading; the dates wait for the file's date order.
 const rowBlockAttributes: readonly BlockAttributeRule[] = [
-  { field: "strainCode", column: "strain", words: "strain", same: sameText("strainCode"), shown: shownText("strainCode") },
-  { field: "substrate", column: "substrate", words: "substrate", same: sameText("substrate"), shown: shownText("substrate") },
-  { field: "trialCode", column: "trial", words: "trial", same: sameText("trialCode"), shown: shownText("trialCode") },
-  { field: "arm", column: "arm", words: "trial arm", same: sameText("arm"), shown: shownText("arm") },
-  { field: "wetBlockGrams", column: "block_wet_weight", words: "wet block weight", same: sameMass("wetBlockGrams"), shown: shownMass("wetBlockAsWritten") },
+  { field: "strainCode", slot: slot.strainCode, column: "strain", words: "strain", same: sameText("strainCode"), shown: shownText("strainCode") },
+  { field: "substrate", slot: slot.substrate, column: "substrate", words: "substrate", same: sameText("substrate"), shown: shownText("substrate") },
+  { field: "trialCode", slot: slot.trialCode, column: "trial", words: "trial", same: sameText("trialCode"), shown: shownText("trialCode") },
+  { field: "arm", slot: slot.arm, column: "arm", words: "trial arm", same: sameText("arm"), shown: shownText("arm") },
+  { field: "wetBlockGrams", slot: slot.wetBlockGrams, column: "block_wet_weight", words: "wet block weight", same: sameMass("wetBlockGrams"), shown: shownMass("wetBlockAsWritten") },
   {
     field: "moisture",
+    slot: slot.moisture,
     column: "substrate_moisture",
     words: "substrate moisture",
     same: (a, b) => Math.abs((a.moisture as number) - (b.moisture as number)) <= moistureTolerance,
     shown: (record) => `${Math.round((record.moisture as number) * 1000) / 10} %`,
   },
-  { field: "fruitingMethod", column: "fruiting_method", words: "fruiting method", same: sameText("fruitingMethod"), shown: shownText("fruitingMethod") },
-  { field: "spentGrams", column: "spent_weight", words: "spent block weight", same: sameMass("spentGrams"), shown: shownMass("spentAsWritten") },
+  { field: "fruitingMethod", slot: slot.fruitingMethod, column: "fruiting_method", words: "fruiting method", same: sameText("fruitingMethod"), shown: shownText("fruitingMethod") },
+  { field: "spentGrams", slot: slot.spentGrams, column: "spent_weight", words: "spent block weight", same: sameMass("spentGrams"), shown: shownMass("spentAsWritten") },
 ];
 const dateBlockAttributes: readonly BlockAttributeRule[] = [
-  { field: "inoculatedOn", column: "inoculated_on", words: "inoculation date", same: sameText("inoculatedOn"), shown: shownText("inoculatedOn") },
-  { field: "contaminatedOn", column: "contaminated_on", words: "contamination date", same: sameText("contaminatedOn"), shown: shownText("contaminatedOn") },
-];
-const filledFromBlock: readonly (readonly (keyof SeasonRecord)[])[] = [
-  ["substrate"],
-  ["trialCode"],
-  ["arm"],
-  ["inoculatedOn"],
-  ["wetBlockGrams", "wetBlockAsWritten"],
-  ["moisture"],
-  ["fruitingMethod"],
-  ["contaminatedOn"],
-  ["spentGrams", "spentAsWritten"],
+  { field: "inoculatedOn", slot: slot.inoculatedOn, column: "inoculated_on", words: "inoculation date", same: sameText("inoculatedOn"), shown: shownText("inoculatedOn") },
+  { field: "contaminatedOn", slot: slot.contaminatedOn, column: "contaminated_on", words: "contamination date", same: sameText("contaminatedOn"), shown: shownText("contaminatedOn") },
 ];
 
 interface BlockState {
   /** The code as first written; rows of the block share this one string. */
   code: string;
   firstLine: number;
-  /** Index of the first record that gave each block attribute a value. */
-  source: Map<BlockAttribute, number>;
+  /** Index of the first record that gave each block attribute a value (by `slot`), or -1. */
+  source: number[];
   /** The first yes/no written in the contaminated column, and its line. */
   contaminated: boolean | null;
   contaminatedLine: number;
-  flushes: number[];
-  flushLines: number[];
+  /** Flush number and line of each harvest, in pairs: [flush, line, flush, line …]. */
+  harvests: readonly number[];
   freshGrams: number;
 }
 
@@ -268,6 +276,7 @@ class SeasonLogReader implements SeasonLogParser {
   private format: "long" | "wide" = "long";
   private readRows = true;
   private readonly plan = new Map<SeasonLogColumnName, ColumnPlan>();
+  private columns: Readonly<Record<SeasonLogColumnName, ColumnPlan>> = columnsFrom(this.plan);
   private wide: WideFlush[] = [];
   private readonly records: SeasonRecord[] = [];
   private readonly issues: SeasonLogIssue[] = [];
@@ -301,6 +310,7 @@ class SeasonLogReader implements SeasonLogParser {
   private firstDayFirst: { line: number; column: string; value: string } | null = null;
   private firstMonthFirst: { line: number; column: string; value: string } | null = null;
   private firstEither: { line: number; column: string; value: string } | null = null;
+  private readonly rowsAboveHeader: { line: number; text: string }[] = [];
   private readonly onRow = (cells: string[], line: number) => this.row(cells, line);
 
   constructor(options: SeasonLogParserOptions) {
@@ -312,7 +322,7 @@ class SeasonLogReader implements SeasonLogParser {
   write(chunk: string | Uint8Array): void {
     if (this.ended) return;
     this.bytes += chunk.length;
-    this.text(this.decodeChunk(chunk, false), false);
+    this.text(this.decodeChunk(chunk), false);
   }
 
   end(): SeasonLogResult {
@@ -338,12 +348,12 @@ class SeasonLogReader implements SeasonLogParser {
 
   private decidedOrder: DateOrder | "ambiguous" | null = null;
 
-  private decodeChunk(chunk: string | Uint8Array, final: boolean): string {
+  private decodeChunk(chunk: string | Uint8Array): string {
     if (typeof chunk === "string") {
       this.encoding ??= "text";
       return this.encoding === "text" && this.bytes === chunk.length && chunk.charCodeAt(0) === 0xfeff ? chunk.slice(1) : chunk;
     }
-    const text = this.decoder.decode(chunk, final);
+    const text = this.decoder.decode(chunk, false);
     this.encoding = this.decoder.encoding;
     return text;
   }
@@ -410,22 +420,33 @@ class SeasonLogReader implements SeasonLogParser {
   }
 
   private header(cells: string[], line: number): void {
-    this.headerLine = line;
     let width = cells.length;
     while (width > 0 && cells[width - 1].trim() === "") width--;
-    this.headerWidth = width;
     const headers = cells.slice(0, width).map((cell) => cell.trim());
     const mapped = mapHeaders(headers, this.options.mapping);
     const { badTargets, ...mapping } = mapped;
+    const matchesNothing = mapping.columns.every((column) => column.target === null || column.target === "ignore");
+    // Sheets often carry a title or a farm name above the header: look a few rows further down.
+    if (matchesNothing && this.rowsAboveHeader.length < mostRowsAboveHeader) {
+      this.rowsAboveHeader.push({ line, text: headers.join(" ") });
+      return;
+    }
+    if (matchesNothing && this.rowsAboveHeader.length > 0) {
+      const first = this.rowsAboveHeader[0];
+      this.headerLine = first.line;
+      this.readRows = false;
+      this.report(first.line, "error", `Line ${first.line} should name the columns, but none of the first ${mostRowsAboveHeader + 1} rows names a season-log column (the first starts "${shorten(first.text)}"). Put the column names in the first row (block_id, strain, flush, fresh_weight …; download the template to see them), or choose the columns in the mapping step.`);
+      return;
+    }
+    if (this.rowsAboveHeader.length > 0) {
+      const lines = this.rowsAboveHeader.map((row) => row.line).join(", ");
+      this.report(this.rowsAboveHeader[0].line, "warning", `Line${this.rowsAboveHeader.length > 1 ? "s" : ""} ${lines} above the header on line ${line} name no season-log columns and were skipped (the first says "${shorten(this.rowsAboveHeader[0].text)}"). If they hold data, move the header to the top.`);
+    }
+    this.headerLine = line;
+    this.headerWidth = width;
     this.mapping = mapping;
     for (const target of badTargets) {
       this.report(line, "error", `The column mapping names "${shorten(target)}", which is not a column of the season-log schema. Choose one of the schema's columns (such as block_id or fresh_weight), or "ignore".`);
-    }
-    const oversized = headers.findIndex((header) => header.length > longestCell);
-    if (mapping.columns.every((column) => column.target === null || column.target === "ignore") || oversized !== -1) {
-      this.readRows = false;
-      this.report(line, "error", `Line ${line} should name the columns, but none of its headers is a season-log column (it starts "${shorten(headers[0] ?? "")}"). Put the column names in the first row (block_id, strain, flush, fresh_weight …; download the template to see them), or choose the columns in the mapping step.`);
-      return;
     }
     const wide = new Map<number, WideFlush>();
     const dateColumns = new Map<number, ColumnPlan>();
@@ -443,6 +464,7 @@ class SeasonLogReader implements SeasonLogParser {
       else weight.date = date;
     }
     this.wide = [...wide.values()].sort((a, b) => a.flush - b.flush);
+    this.columns = columnsFrom(this.plan);
     for (const missing of mapping.missingRequired) {
       this.readRows = false;
       const words = missing === "block_id" ? "the block code" : "the strain";
@@ -458,6 +480,7 @@ class SeasonLogReader implements SeasonLogParser {
       if (this.plan.has("dry_weight")) {
         this.report(line, "warning", `Line ${line}, column "${this.plan.get("dry_weight")?.header}": with one column per flush, a single dry weight cannot be given to a flush, so the column is ignored. Upload dry weights as one row per harvest.`, this.plan.get("dry_weight")?.header);
         this.plan.delete("dry_weight");
+        this.columns = columnsFrom(this.plan);
       }
       if (this.wide.every((flush) => flush.date === null)) {
         this.report(line, "warning", `The file has one column per flush and no harvest dates, so its flushes are stored without dates. If you have the dates, add a column per flush such as "Flush 1 date".`);
@@ -476,14 +499,15 @@ class SeasonLogReader implements SeasonLogParser {
   }
 
   private column(name: SeasonLogColumnName): ColumnPlan {
-    return this.plan.get(name) ?? absent;
+    return this.columns[name];
   }
 
   private intern(text: string): string {
     const known = this.interned.get(text);
     if (known !== undefined) return known;
-    if (this.interned.size < mostInternedTexts) this.interned.set(text, text);
-    return text;
+    const copy = ownCopy(text);
+    if (this.interned.size < mostInternedTexts) this.interned.set(copy, copy);
+    return copy;
   }
 
   private mass(cells: string[], column: ColumnPlan, line: number): MassValue {
@@ -494,18 +518,18 @@ class SeasonLogReader implements SeasonLogParser {
       this.cellIssue(line, column, text, "error", reading.error);
       return null;
     }
-    return { grams: reading.grams, written: { value: text, unit: reading.unit } };
+    return { grams: reading.grams, written: { value: ownCopy(text), unit: reading.unit } };
   }
 
-  /** A date as "YYYY-MM-DD", or the text itself when it waits for the file's date order (flagged in `pending`). */
+  /** A date as "YYYY-MM-DD", or the text itself when it waits for the file's date order (flagged for the row). */
   private date(cells: string[], column: ColumnPlan, line: number, bit: number): string | null {
     const text = cell(cells, column.index);
     if (text === "") return null;
     let reading = this.dates.get(text);
     if (reading === undefined) {
       reading = readDate(text);
-      if (reading.kind !== "date" && reading.kind !== "error") this.dates.set(text, reading);
-      else if (this.dates.size < mostCachedDates) this.dates.set(text, reading);
+      if (reading.kind !== "date" && reading.kind !== "error") this.dates.set(ownCopy(text), reading);
+      else if (this.dates.size < mostCachedDates) this.dates.set(ownCopy(text), reading);
     }
     switch (reading.kind) {
       case "date":
@@ -526,7 +550,7 @@ class SeasonLogReader implements SeasonLogParser {
         break;
     }
     this.rowPendingDates |= bit;
-    return text;
+    return ownCopy(text);
   }
 
   private optionalText(cells: string[], column: ColumnPlan): string | null {
@@ -581,7 +605,7 @@ class SeasonLogReader implements SeasonLogParser {
     row.arm = this.optionalText(cells, this.column("arm"));
     row.fruitingMethod = this.optionalText(cells, this.column("fruiting_method"));
     const notesText = cell(cells, this.column("notes").index);
-    row.notes = notesText === "" ? null : notesText;
+    row.notes = notesText === "" ? null : ownCopy(notesText);
     row.pendingDates = this.rowPendingDates;
     const first = this.records.length;
     if (this.format === "wide") {
@@ -703,23 +727,24 @@ class SeasonLogReader implements SeasonLogParser {
     return reading.fraction;
   }
 
-  private blockState(code: string, line: number): BlockState {
-    let block = this.blocks.get(code);
+  private blockState(written: string, line: number): BlockState {
+    let block = this.blocks.get(written);
     if (block === undefined) {
-      block = { code, firstLine: line, source: new Map(), contaminated: null, contaminatedLine: 0, flushes: [], flushLines: [], freshGrams: 0 };
+      const code = ownCopy(written);
+      block = { code, firstLine: line, source: [-1, -1, -1, -1, -1, -1, -1, -1, -1, -1], contaminated: null, contaminatedLine: 0, harvests: noHarvests, freshGrams: 0 };
       this.blocks.set(code, block);
     }
     return block;
   }
 
   private addFlush(block: BlockState, record: SeasonRecord, flush: number, line: number): void {
-    const earlier = block.flushes.indexOf(flush);
+    let earlier = -1;
+    for (let index = 0; index < block.harvests.length; index += 2) if (block.harvests[index] === flush) earlier = block.harvests[index + 1];
     if (earlier !== -1) {
       const column = this.format === "wide" ? (this.wide.find((wide) => wide.flush === flush)?.weight ?? absent) : this.column("flush");
-      this.cellIssue(line, column, String(flush), "error", `block ${record.blockCode} has flush ${flush} twice: on line ${block.flushLines[earlier]} and here. Delete the duplicate row, or correct the flush number.`);
+      this.cellIssue(line, column, String(flush), "error", `block ${record.blockCode} has flush ${flush} twice: on line ${earlier} and here. Delete the duplicate row, or correct the flush number.`);
     } else {
-      block.flushes.push(flush);
-      block.flushLines.push(line);
+      block.harvests = [...block.harvests, flush, line];
     }
     if (record.freshGrams !== null) block.freshGrams += record.freshGrams;
   }
@@ -728,14 +753,19 @@ class SeasonLogReader implements SeasonLogParser {
     const record = this.records[recordIndex];
     for (const rule of rowBlockAttributes) {
       if (record[rule.field] === null || (rule.field === "strainCode" && record.strainCode === "")) continue;
-      const source = block.source.get(rule.field);
-      if (source === undefined) {
-        block.source.set(rule.field, recordIndex);
+      const source = block.source[rule.slot];
+      if (source === -1) {
+        block.source[rule.slot] = recordIndex;
         continue;
       }
       const earlier = this.records[source];
       if (!rule.same(earlier, record)) this.disagreement(rule, record, earlier);
     }
+    // Rows of one block repeat its weights: keep one copy so a large file holds less.
+    const wetSource = this.records[block.source[slot.wetBlockGrams]];
+    if (wetSource !== undefined && record.wetBlockAsWritten !== null && wetSource.wetBlockAsWritten?.value === record.wetBlockAsWritten.value) this.shareWeights(recordIndex, "wet", wetSource);
+    const spentSource = this.records[block.source[slot.spentGrams]];
+    if (spentSource !== undefined && record.spentAsWritten !== null && spentSource.spentAsWritten?.value === record.spentAsWritten.value) this.shareWeights(recordIndex, "spent", spentSource);
     if (contaminated !== null) {
       if (block.contaminated === null) {
         block.contaminated = contaminated;
@@ -746,7 +776,15 @@ class SeasonLogReader implements SeasonLogParser {
       }
     }
     for (const rule of dateBlockAttributes) {
-      if (record[rule.field] !== null && !block.source.has(rule.field)) block.source.set(rule.field, recordIndex);
+      if (record[rule.field] !== null && block.source[rule.slot] === -1) block.source[rule.slot] = recordIndex;
+    }
+  }
+
+  private shareWeights(from: number, which: "wet" | "spent", source: SeasonRecord): void {
+    for (let index = from; index < this.records.length; index++) {
+      const record = this.records[index];
+      if (which === "wet") record.wetBlockAsWritten = source.wetBlockAsWritten;
+      else record.spentAsWritten = source.spentAsWritten;
     }
   }
 
@@ -828,6 +866,10 @@ class SeasonLogReader implements SeasonLogParser {
       const line = this.tokenizer.unclosedQuoteLine;
       this.report(line, "error", `Line ${line}: a quotation mark opened on this line is never closed, so the rest of the file was read as one value. Close the quote, or remove the stray quotation mark.`);
     }
+    if (this.headerLine === 0 && this.rowsAboveHeader.length > 0) {
+      const first = this.rowsAboveHeader[0];
+      this.report(first.line, "error", `Line ${first.line} should name the columns, but no row of the file names a season-log column (the first starts "${shorten(first.text)}"). Put the column names in the first row (block_id, strain, flush, fresh_weight …; download the template to see them), or choose the columns in the mapping step.`);
+    }
     if (this.headerLine === 0) {
       if (this.issues.length === 0) this.report(1, "error", "The file is empty. Export the season log from your spreadsheet as CSV (with the column names in the first row) and upload that file.");
       this.issues.sort((a, b) => a.line - b.line);
@@ -861,68 +903,95 @@ class SeasonLogReader implements SeasonLogParser {
     }
     for (const [code, block] of this.blocks) this.blockTotals(code, block);
     this.issues.sort((a, b) => a.line - b.line);
+    this.blocks.clear();
+    this.interned.clear();
+    this.dates.clear();
+    this.moistures.clear();
+    this.strainChecks.clear();
+    this.pendingDates = new Uint8Array(0);
   }
 
   private blockAtFinish(block: BlockState, record: SeasonRecord, index: number): void {
     for (const rule of dateBlockAttributes) {
-      const source = block.source.get(rule.field);
-      if (record[rule.field] === null || source === undefined || source === index) continue;
+      const source = block.source[rule.slot];
+      if (record[rule.field] === null || source === -1 || source === index) continue;
       const earlier = this.records[source];
       if (earlier[rule.field] !== null && earlier.line !== record.line && !rule.same(earlier, record)) this.disagreement(rule, record, earlier);
     }
-    for (const fields of filledFromBlock) {
-      if (record[fields[0]] !== null) continue;
-      const source = block.source.get(fields[0] as BlockAttribute);
-      if (source === undefined) continue;
-      const from = this.records[source] as unknown as Record<string, unknown>;
-      for (const field of fields) (record as unknown as Record<string, unknown>)[field] = from[field];
+    const source = block.source;
+    const records = this.records;
+    if (record.substrate === null && source[slot.substrate] !== -1) record.substrate = records[source[slot.substrate]].substrate;
+    if (record.trialCode === null && source[slot.trialCode] !== -1) record.trialCode = records[source[slot.trialCode]].trialCode;
+    if (record.arm === null && source[slot.arm] !== -1) record.arm = records[source[slot.arm]].arm;
+    if (record.inoculatedOn === null && source[slot.inoculatedOn] !== -1) record.inoculatedOn = records[source[slot.inoculatedOn]].inoculatedOn;
+    if (record.wetBlockGrams === null && source[slot.wetBlockGrams] !== -1) {
+      record.wetBlockGrams = records[source[slot.wetBlockGrams]].wetBlockGrams;
+      record.wetBlockAsWritten = records[source[slot.wetBlockGrams]].wetBlockAsWritten;
+    }
+    if (record.moisture === null && source[slot.moisture] !== -1) record.moisture = records[source[slot.moisture]].moisture;
+    if (record.fruitingMethod === null && source[slot.fruitingMethod] !== -1) record.fruitingMethod = records[source[slot.fruitingMethod]].fruitingMethod;
+    if (record.contaminatedOn === null && source[slot.contaminatedOn] !== -1) record.contaminatedOn = records[source[slot.contaminatedOn]].contaminatedOn;
+    if (record.spentGrams === null && source[slot.spentGrams] !== -1) {
+      record.spentGrams = records[source[slot.spentGrams]].spentGrams;
+      record.spentAsWritten = records[source[slot.spentGrams]].spentAsWritten;
     }
     record.contaminated = block.contaminated ?? record.contaminatedOn !== null;
     if (record.harvestedOn !== null && record.inoculatedOn !== null && record.harvestedOn < record.inoculatedOn) {
       const column = this.harvestDateColumn(record);
       this.cellIssue(record.line, column, record.harvestedOn, "error", `flush ${record.flush} of block ${record.blockCode} was harvested on ${record.harvestedOn}, before the block was inoculated (${record.inoculatedOn}). Correct the harvest date or the inoculation date.`);
     }
-    if (block.contaminated === false && record.contaminatedOn !== null && block.source.get("contaminatedOn") === index) {
+    if (block.contaminated === false && record.contaminatedOn !== null && block.source[slot.contaminatedOn] === index) {
       const column = this.column("contaminated_on");
       this.cellIssue(record.line, column, record.contaminatedOn, "warning", `block ${record.blockCode} has a contamination date (${record.contaminatedOn}) but is marked not contaminated on line ${block.contaminatedLine}. Mark it contaminated, or clear the date.`);
     }
   }
 
   private futureDates(record: SeasonRecord): void {
-    const checks: [string | null, ColumnPlan, string][] = [
-      [record.harvestedOn, this.harvestDateColumn(record), "harvest date"],
-      [record.inoculatedOn, this.column("inoculated_on"), "inoculation date"],
-      [record.contaminatedOn, this.column("contaminated_on"), "contamination date"],
-    ];
-    for (const [date, column, words] of checks) {
-      if (date === null || date <= this.today || column.index === -1) continue;
-      if (!this.firstReport(record.line, column)) continue;
-      this.cellIssue(record.line, column, date, "warning", `the ${words} ${date} is in the future (today is ${this.today}). Check the date; with day-first and month-first dates, also check the date order.`);
-    }
+    if (record.harvestedOn !== null && record.harvestedOn > this.today) this.futureDate(record, record.harvestedOn, this.harvestDateColumn(record), "harvest date");
+    if (record.inoculatedOn !== null && record.inoculatedOn > this.today) this.futureDate(record, record.inoculatedOn, this.column("inoculated_on"), "inoculation date");
+    if (record.contaminatedOn !== null && record.contaminatedOn > this.today) this.futureDate(record, record.contaminatedOn, this.column("contaminated_on"), "contamination date");
+  }
+
+  private futureDate(record: SeasonRecord, date: string, column: ColumnPlan, words: string): void {
+    if (column.index === -1 || !this.firstReport(record.line, column)) return;
+    this.cellIssue(record.line, column, date, "warning", `the ${words} ${date} is in the future (today is ${this.today}). Check the date; with day-first and month-first dates, also check the date order.`);
   }
 
   private blockTotals(code: string, block: BlockState): void {
-    if (block.flushes.length > 0) {
-      const largest = Math.max(...block.flushes);
+    const flushes = block.harvests.filter((_, index) => index % 2 === 0);
+    if (flushes.length > 0) {
+      const largest = Math.max(...flushes);
       const missing: number[] = [];
-      for (let flush = 1; flush < largest; flush++) if (!block.flushes.includes(flush)) missing.push(flush);
+      for (let flush = 1; flush < largest; flush++) if (!flushes.includes(flush)) missing.push(flush);
       if (missing.length > 0) {
-        const after = Math.min(...block.flushes.filter((flush) => flush > missing[0]));
-        const line = block.flushLines[block.flushes.indexOf(after)];
+        const after = Math.min(...flushes.filter((flush) => flush > missing[0]));
+        const line = block.harvests[block.harvests.indexOf(after) + 1];
         const column = this.format === "wide" ? (this.wide.find((wide) => wide.flush === after)?.weight ?? absent) : this.column("flush");
-        const recorded = [...block.flushes].sort((a, b) => a - b).join(", ");
+        const recorded = [...flushes].sort((a, b) => a - b).join(", ");
         this.cellIssue(line, column, String(after), "warning", `block ${code} has flushes ${recorded} but no flush ${missing.join(", ")}. Add the missing flush, or renumber the flushes.`);
       }
     }
-    const wetSource = block.source.get("wetBlockGrams");
-    const moistureSource = block.source.get("moisture");
-    if (wetSource === undefined || moistureSource === undefined || block.freshGrams === 0) return;
+    const wetSource = block.source[slot.wetBlockGrams];
+    const moistureSource = block.source[slot.moisture];
+    if (wetSource === -1 || moistureSource === -1 || block.freshGrams === 0) return;
     const dryGrams = drySubstrateGrams(this.records[wetSource].wetBlockGrams as number, this.records[moistureSource].moisture as number);
     if (dryGrams <= 0 || block.freshGrams <= highestPlausibleEfficiency * dryGrams) return;
     const efficiency = Math.round((block.freshGrams / dryGrams) * 100);
     const column = this.format === "wide" ? (this.wide[0]?.weight ?? absent) : this.column("fresh_weight");
     this.cellIssue(block.firstLine, column, formatMass(block.freshGrams, "metric"), "warning", `block ${code} gave ${formatMass(block.freshGrams, "metric")} fresh in all from ${formatMass(dryGrams, "metric")} of dry substrate: a biological efficiency of ${efficiency} %, above the 250 % that blocks plausibly reach. Check this block's weights, their units and its moisture.`);
   }
+}
+
+function columnsFrom(plan: ReadonlyMap<SeasonLogColumnName, ColumnPlan>): Record<SeasonLogColumnName, ColumnPlan> {
+  const columns = {} as Record<SeasonLogColumnName, ColumnPlan>;
+  for (const name of seasonLogColumnNames) columns[name] = plan.get(name) ?? absent;
+  return columns;
+}
+
+// V8 keeps a substring of 13 or more characters as a view of the text it was cut from, so
+// one note kept from each chunk would keep the whole file in memory; a copy lets the chunk go.
+function ownCopy(text: string): string {
+  return text.length < 13 ? text : (JSON.parse(JSON.stringify(text)) as string);
 }
 
 function cell(cells: readonly string[], index: number): string {

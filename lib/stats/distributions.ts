@@ -3,7 +3,7 @@
 // reproduce R's printed digits, so the t, F, chi-square and noncentral t tails used by
 // lib/stats are computed here. Normal quantiles and the studentized range come from jstat,
 // whose implementations are accurate (see shared/REFERENCES.md).
-import { jStat } from "jstat";
+import jStat from "jstat";
 
 const LANCZOS_G = 7;
 const LANCZOS = [

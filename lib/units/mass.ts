@@ -108,7 +108,7 @@ export function readMass(text: string, options: MassOptions = {}): MassReading {
   }
   if (unit === undefined) {
     return {
-      error: `"${text.trim()}" has no unit. Write the unit after the number (for example "${text.trim()} kg"), put it in the column header (for example "Wet block (kg)"), or choose a default unit for the upload.`,
+      error: `"${text.trim()}" has no unit. Write the unit after the number (for example "${text.trim()} g"), name it in the column header (for example "Fresh weight (g)"), or choose a default unit for the upload.`,
     };
   }
   return { grams: value * gramsPerUnit[unit], unit };

@@ -13,8 +13,14 @@ const digitsOnly = /^\d*$/;
 export function parseDecimalNumber(text: string, decimal: DecimalMark = "."): number | null {
   let mark: string = decimal;
   let markAt = text.lastIndexOf(mark);
-  if (markAt === -1) {
-    const other = decimal === "." ? "," : ".";
+  const other = decimal === "." ? "," : ".";
+  const otherLast = text.lastIndexOf(other);
+  if (markAt !== -1 && otherLast > markAt) {
+    // Both marks written: the last one is the decimal mark whatever the file uses ("1.234,5").
+    mark = other;
+    markAt = otherLast;
+    if (text.indexOf(mark) !== markAt) return null;
+  } else if (markAt === -1) {
     const otherAt = text.indexOf(other);
     if (otherAt !== -1 && otherAt === text.lastIndexOf(other) && text.length - otherAt - 1 !== 3) {
       mark = other;

@@ -1,5 +1,6 @@
 "use client";
 
+import { signOut } from "next-auth/react";
 import Link from "next/link";
 import { usePathname } from "next/navigation";
 import { useState } from "react";
@@ -9,10 +10,9 @@ interface Props {
   memberName: string;
   roleLabel: string;
   farmName: string | null;
-  signOutAction: () => Promise<void>;
 }
 
-export function AppNavigation({ items, memberName, roleLabel, farmName, signOutAction }: Props) {
+export function AppNavigation({ items, memberName, roleLabel, farmName }: Props) {
   const pathname = usePathname();
   const [open, setOpen] = useState(false);
   return (
@@ -62,11 +62,15 @@ export function AppNavigation({ items, memberName, roleLabel, farmName, signOutA
           <Link href="/cautions" className="mt-3 block text-oat-200 underline">
             Safety cautions
           </Link>
-          <form action={signOutAction} className="mt-3">
-            <button type="submit" className="min-h-11 rounded-lg border border-oat-50/40 px-3 hover:bg-moss-700">
-              Sign out
-            </button>
-          </form>
+          {/* Through Auth.js's own endpoint, where the proxy cannot renew the cookie being cleared;
+              then a relative redirect, because Auth.js would name the host "localhost". */}
+          <button
+            type="button"
+            onClick={() => void signOut({ redirect: false }).then(() => window.location.assign("/sign-in?signedOut=1"))}
+            className="mt-3 min-h-11 rounded-lg border border-oat-50/40 px-3 hover:bg-moss-700"
+          >
+            Sign out
+          </button>
         </div>
       </nav>
     </aside>

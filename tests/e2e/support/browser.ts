@@ -1,0 +1,40 @@
+import { mkdtempSync, mkdirSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { chromium, type BrowserContext, type Page } from "playwright-core";
+
+export const appUrl = process.env.APP_URL ?? "http://127.0.0.1:3100";
+export const screenshotDir = path.join(process.env.RHIZO_TEST_RESULTS ?? "test-results", "screenshots");
+
+/** Debian's Chromium, headless, with the background services that would call out switched off. */
+export async function openBrowser(viewport = { width: 1280, height: 900 }): Promise<BrowserContext> {
+  mkdirSync(screenshotDir, { recursive: true });
+  return chromium.launchPersistentContext(mkdtempSync(path.join(tmpdir(), "rhizomorph-chromium-")), {
+    executablePath: "/usr/bin/chromium",
+    headless: true,
+    viewport,
+    args: [
+      "--no-sandbox",
+      "--disable-gpu",
+      "--disable-quic",
+      "--no-first-run",
+      "--disable-background-networking",
+      "--disable-component-update",
+      "--disable-sync",
+    ],
+  });
+}
+
+export async function screenshot(page: Page, name: string): Promise<void> {
+  await page.screenshot({ path: path.join(screenshotDir, `${name}.png`), fullPage: true });
+}
+
+/** Fails the test on any error the page logs (a 404 asset, a hydration error, a thrown exception). */
+export function collectPageErrors(page: Page): string[] {
+  const errors: string[] = [];
+  page.on("pageerror", (error) => errors.push(error.message));
+  page.on("console", (message) => {
+    if (message.type() === "error") errors.push(message.text());
+  });
+  return errors;
+}

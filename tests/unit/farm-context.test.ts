@@ -1,0 +1,22 @@
+import { PgDialect } from "drizzle-orm/pg-core";
+import { describe, expect, it } from "vitest";
+import { farmContextStatement } from "@/db/client";
+
+const dialect = new PgDialect();
+
+describe("the statement that sets a request's farm context", () => {
+  it("binds the user, farm and role as parameters and never writes them into the SQL", () => {
+    const hostile = "x'); drop table blocks; --";
+    const query = dialect.sqlToQuery(farmContextStatement({ userId: hostile, farmId: hostile, role: "grower" }));
+    expect(query.sql).not.toContain(hostile);
+    expect(query.sql).not.toContain("grower");
+    expect(query.params).toEqual([hostile, hostile, "grower"]);
+    expect(query.sql.match(/\$\d/g)).toEqual(["$1", "$2", "$3"]);
+  });
+
+  it("sets each value for the transaction only (is_local = true), so a pooled connection never keeps it", () => {
+    const query = dialect.sqlToQuery(farmContextStatement({ userId: null, farmId: null, role: null }));
+    expect(query.sql.match(/set_config\('app\.(user_id|farm_id|role)', \$\d, true\)/g)).toHaveLength(3);
+    expect(query.params).toEqual(["", "", ""]);
+  });
+});
