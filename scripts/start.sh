@@ -7,6 +7,7 @@
 DATABASE="${RHIZO_DB_NAME:-rhizomorph}"
 export_app_env "$DATABASE" "${RHIZO_APP_PORT:-3000}" "${RHIZO_SMTP_PORT:-2525}"
 
+port_in_use "$APP_PORT" && fail "Port $APP_PORT is already in use (is Rhizomorph already running?). Stop it first, or choose another port with RHIZO_APP_PORT."
 ensure_dependencies
 ensure_postgres_installed
 init_cluster
