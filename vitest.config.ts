@@ -1,7 +1,7 @@
 import path from "node:path";
 import { defineConfig } from "vitest/config";
 
-const alias = { "@": path.resolve(__dirname), "server-only": path.resolve(__dirname, "tests/support/server-only.ts") };
+const alias = { "@": path.resolve(import.meta.dirname), "server-only": path.resolve(import.meta.dirname, "tests/support/server-only.ts") };
 
 export default defineConfig({
   resolve: { alias },

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { BrowserContext } from "playwright-core";
-import { appUrl, collectPageErrors, openBrowser, screenshot } from "./support/browser";
+import { appUrl, collectPageErrors, openBrowser, screenshot, seriousAccessibilityProblems } from "./support/browser";
 import { AppShell, SignInPage } from "./support/pages";
 
 // What each demo member must see in the menu, and a page their role may not open.
@@ -58,7 +58,24 @@ describe("signing in as each role", () => {
     expect(wrongPassword).toContain("do not match");
     expect(unknownEmail).toBe(wrongPassword);
     await screenshot(page, "sign-in-refused");
+    expect(await seriousAccessibilityProblems(page)).toEqual([]);
     await page.close();
+  });
+
+  it("fits a phone: the menu folds away behind a button", async () => {
+    const phone = await openBrowser({ width: 390, height: 844 });
+    try {
+      const page = await phone.newPage();
+      await new SignInPage(page).signIn("grower@fernbrook.example");
+      const menuButton = page.getByRole("button", { name: "Menu" });
+      await menuButton.waitFor();
+      expect(await page.getByRole("navigation", { name: "Main" }).isVisible()).toBe(false);
+      await menuButton.click();
+      expect(await page.getByRole("link", { name: "Season logs" }).isVisible()).toBe(true);
+      await screenshot(page, "phone-menu-grower");
+    } finally {
+      await phone.close();
+    }
   });
 
   for (const member of roles) {
@@ -70,6 +87,7 @@ describe("signing in as each role", () => {
       await shell.waitUntilSignedIn();
       expect(await shell.menuLabels()).toEqual(member.menu);
       await screenshot(page, `role-${member.role}`);
+      expect(await seriousAccessibilityProblems(page)).toEqual([]);
 
       await page.goto(`${appUrl}${member.forbidden}`);
       await page.waitForURL(/\/forbidden/);

@@ -38,3 +38,12 @@ export function collectPageErrors(page: Page): string[] {
   });
   return errors;
 }
+
+/** Accessibility problems axe-core rates serious or critical (WCAG 2 A and AA rules). */
+export async function seriousAccessibilityProblems(page: Page): Promise<string[]> {
+  const { default: AxeBuilder } = await import("@axe-core/playwright");
+  const results = await new AxeBuilder({ page }).withTags(["wcag2a", "wcag2aa"]).analyze();
+  return results.violations
+    .filter((violation) => violation.impact === "serious" || violation.impact === "critical")
+    .map((violation) => `${violation.id}: ${violation.help} (${violation.nodes.length} places)`);
+}
