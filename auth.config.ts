@@ -1,7 +1,7 @@
 import type { NextAuthConfig } from "next-auth";
 
 /** Paths anyone may open without signing in. */
-export const publicPaths = ["/sign-in", "/forbidden", "/accept-invitation", "/reset-password", "/cautions"];
+export const publicPaths = ["/sign-in", "/forbidden", "/accept-invitation", "/reset-password", "/cautions", "/unsubscribe"];
 
 export const sessionMaxAgeSeconds = 8 * 60 * 60;
 

@@ -64,8 +64,9 @@ export async function withFarmContext<T>(context: FarmContext, work: (tx: Transa
 }
 
 /**
- * The pooled-analysis path: rhizo_analyst reads across farms. Only lib/data/pooled-* may call
- * it, and what it returns must be aggregates.
+ * The pooled-analysis path: rhizo_analyst reads across farms. Only data-layer functions that
+ * compute co-op aggregates may call it (pooled results, trial analysis and progress counts,
+ * registry usage counts), and what they return must be aggregates, never a farm's rows.
  */
 export async function withAnalystAccess<T>(work: (tx: Transaction) => Promise<T>): Promise<T> {
   return pools().analyst.transaction(async (tx) => work(tx));

@@ -3,11 +3,12 @@
  * npm start / npm test when the database is empty. Co-op-level rows go in as the owner;
  * each farm's own blocks and harvests go in through withFarmContext, as the app would.
  */
-import { count } from "drizzle-orm";
+import { count, sql } from "drizzle-orm";
 import { drizzle } from "drizzle-orm/node-postgres";
 import { Pool } from "pg";
-import { closeDatabase, withFarmContext } from "./client";
+import { closeDatabase, withAnalystAccess, withFarmContext } from "./client";
 import * as schema from "./schema";
+import { publishDemoTrial } from "./seed-trials";
 import { hashPassword } from "@/lib/auth/password";
 import { seededRandom, type Random } from "@/lib/random";
 
@@ -270,6 +271,9 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
         console.log(`  ${farm.name}: ${plans.length} blocks, ${harvestRows.length} harvests`);
       });
     }
+    // The co-op's pooled statistics, as the analyst role computes them after each upload.
+    await withAnalystAccess((tx) => tx.execute(sql`select pooled_refresh_all()`));
+    await publishDemoTrial(owner, "T-2026-01", new Date(`${today}T09:00:00Z`));
   } finally {
     await pool.end();
   }

@@ -19,6 +19,7 @@ export const navigationItems: NavigationItem[] = [
   { href: "/activity", label: "Activity log", action: "audit:read-coop" },
   { href: "/farm-activity", label: "Activity log", action: "audit:read-farm" },
   { href: "/outgoing-mail", label: "Outgoing mail", action: "mail:read-outgoing" },
+  { href: "/settings/cooperative", label: "Co-op settings", action: "settings:manage" },
   { href: "/settings", label: "Settings", action: "account:manage" },
 ];
 

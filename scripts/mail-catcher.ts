@@ -8,6 +8,8 @@ const port = Number(process.env.SMTP_PORT ?? 2525);
 const url = process.env.OWNER_DATABASE_URL;
 if (!url) throw new Error("OWNER_DATABASE_URL is not set: start the mail catcher through npm start or npm test");
 const pool = new Pool({ connectionString: url, max: 2 });
+// The test run recreates its database between phases; an idle connection then ends, and the pool opens a new one.
+pool.on("error", (error) => console.error(`mail catcher: database connection ended (${error.message})`));
 
 const server = new SMTPServer({
   authOptional: true,

@@ -26,10 +26,9 @@ BACKGROUND_PIDS=()
 cleanup() { for pid in "${BACKGROUND_PIDS[@]}"; do kill -- "-$pid" 2>/dev/null || true; done; }
 trap cleanup EXIT
 
-if wants integration || wants e2e; then
-  ensure_postgres_installed
-  init_cluster
-  start_cluster
+# Each phase that needs the database gets a fresh one, so what one phase's tests wrote
+# (uploads, withdrawals, new farms) cannot change what the next phase sees.
+fresh_database() {
   say "Creating a fresh test database ($DATABASE)"
   drop_database "$DATABASE"
   ensure_roles_and_database "$DATABASE"
@@ -37,6 +36,12 @@ if wants integration || wants e2e; then
   npx tsx scripts/migrate.ts
   say "Loading the demo co-op"
   npx tsx db/seed.ts
+}
+
+if wants integration || wants e2e; then
+  ensure_postgres_installed
+  init_cluster
+  start_cluster
   say "Starting the mail catcher on 127.0.0.1:$SMTP_PORT"
   ensure_port_free "$SMTP_PORT"
   setsid npx tsx scripts/mail-catcher.ts >"$RHIZO_TEST_RESULTS/mail-catcher.log" 2>&1 &
@@ -53,11 +58,15 @@ run_project() {
 }
 
 wants unit && run_project unit
-wants integration && run_project integration
+if wants integration; then
+  fresh_database
+  run_project integration
+fi
 
 if wants e2e; then
   say "Building the app for the browser tests"
   if npx next build >"$RHIZO_TEST_RESULTS/next-build.log" 2>&1; then
+    fresh_database
     say "Starting the app on 127.0.0.1:$APP_PORT"
     ensure_port_free "$APP_PORT"
     setsid npx next start --hostname 127.0.0.1 --port "$APP_PORT" >"$RHIZO_TEST_RESULTS/next-server.log" 2>&1 &

@@ -1,4 +1,5 @@
 import { redirect } from "next/navigation";
+import { QueryProvider } from "@/components/query-provider";
 import { currentMember } from "@/lib/auth/guard";
 import { roleLabels } from "@/lib/auth/permissions";
 import { navigationFor } from "@/lib/navigation";
@@ -17,7 +18,7 @@ export default async function SignedInLayout({ children }: { children: React.Rea
         farmName={member.farmName}
       />
       <main id="main" className="mx-auto w-full max-w-6xl flex-1 px-4 py-6 sm:px-8 sm:py-10">
-        {children}
+        <QueryProvider>{children}</QueryProvider>
       </main>
     </div>
   );

@@ -5,3 +5,4 @@ export * from "./trials";
 export * from "./season";
 export * from "./audit";
 export * from "./mail";
+export * from "./pooled";

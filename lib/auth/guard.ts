@@ -4,8 +4,9 @@ import { redirect } from "next/navigation";
 import { NextResponse } from "next/server";
 import type { z } from "zod";
 import { auth } from "@/auth";
-import type { FarmContext } from "@/db/client";
-import { loadMember, type Member } from "@/lib/data/members";
+import { farmContextOf, loadMember, type Member } from "@/lib/data/members";
+
+export { farmContextOf };
 import { AppError, isAppError } from "@/lib/errors";
 import { can, type Action } from "./permissions";
 
@@ -16,10 +17,6 @@ export const currentMember = cache(async (): Promise<Member | null> => {
   const member = await loadMember(session.user.id);
   return member?.active ? member : null;
 });
-
-export function farmContextOf(member: Member): FarmContext {
-  return { userId: member.id, farmId: member.farmId, role: member.role };
-}
 
 /** The one guard: throws unless a signed-in member may do `action`. */
 export async function authorize(action: Action): Promise<Member> {

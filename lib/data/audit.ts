@@ -1,6 +1,9 @@
 import "server-only";
+import { desc, eq, isNull } from "drizzle-orm";
+import { withFarmContext, type Transaction } from "@/db/client";
 import { auditEvents } from "@/db/schema";
-import type { Transaction } from "@/db/client";
+import { AppError } from "@/lib/errors";
+import type { Member } from "./members";
 
 export interface AuditEntry {
   action: string;
@@ -22,5 +25,44 @@ export async function recordAudit(tx: Transaction, entry: AuditEntry): Promise<v
     actorLabel: entry.actorLabel ?? "",
     details: entry.details ?? {},
     ip: entry.ip ?? null,
+  });
+}
+
+export interface AuditRow {
+  id: number;
+  occurredAt: string;
+  actorLabel: string;
+  action: string;
+  subject: string;
+  details: string;
+  ip: string;
+}
+
+/** How many of the latest events a log page shows; the CSV export takes the same rows. */
+export const auditListLimit = 5000;
+
+/**
+ * The activity log a member may read: the coordinator the co-op-level events, a farm manager
+ * their farm's own. Row-level security enforces the same split; the filter here says which.
+ */
+export async function listAuditEvents(member: Member, scope: "coop" | "farm"): Promise<AuditRow[]> {
+  if (scope === "coop" && member.role !== "coordinator") throw new AppError("forbidden", "Only the coordinator reads the co-op's activity log.");
+  if (scope === "farm" && (member.role !== "farm_manager" || !member.farmId)) throw new AppError("forbidden", "Only a farm manager reads the farm's activity log.");
+  return withFarmContext({ userId: member.id, farmId: member.farmId, role: member.role }, async (tx) => {
+    const rows = await tx
+      .select()
+      .from(auditEvents)
+      .where(scope === "coop" ? isNull(auditEvents.farmId) : eq(auditEvents.farmId, member.farmId!))
+      .orderBy(desc(auditEvents.occurredAt), desc(auditEvents.id))
+      .limit(auditListLimit);
+    return rows.map((row) => ({
+      id: row.id,
+      occurredAt: row.occurredAt.toISOString(),
+      actorLabel: row.actorLabel,
+      action: row.action,
+      subject: row.subject,
+      details: Object.keys(row.details).length ? JSON.stringify(row.details) : "",
+      ip: row.ip ?? "",
+    }));
   });
 }

@@ -1,8 +1,15 @@
 import "server-only";
-import { eq } from "drizzle-orm";
-import { farmContextStatement, withFarmContext } from "@/db/client";
-import { farms, users } from "@/db/schema";
+import { and, asc, desc, eq, gt, isNull, sql } from "drizzle-orm";
+import { farmContextStatement, withFarmContext, type FarmContext, type Transaction } from "@/db/client";
+import { accessTokens, cooperativeSettings, farms, users } from "@/db/schema";
+import { hashPassword, unknownUserHash, verifyPassword } from "@/lib/auth/password";
 import type { MemberRole } from "@/lib/auth/permissions";
+import { AppError } from "@/lib/errors";
+import { invitationMessage, passwordChangedMessage, passwordResetMessage, roleChangedMessage } from "@/lib/mail/messages/members";
+import { sendMail } from "@/lib/mail/send";
+import { deactivationProblem, invitationProblem, roleChangeProblem, transferProblem, type Person } from "@/lib/members/roles";
+import { accessLink, hashToken, isWellFormedToken, newAccessToken, tokenExpiresAt, type TokenPurpose } from "@/lib/members/tokens";
+import { recordAudit } from "./audit";
 
 export interface Member {
   id: string;
@@ -13,6 +20,11 @@ export interface Member {
   farmName: string | null;
   active: boolean;
   displayUnits: "metric" | "imperial";
+}
+
+/** The member's row-level-security context: who, which farm, which role. */
+export function farmContextOf(member: Member): FarmContext {
+  return { userId: member.id, farmId: member.farmId, role: member.role };
 }
 
 /** Reads a member's own row (the `self` policy needs only the user id) and their farm's name. */
@@ -40,4 +52,289 @@ export async function loadMember(userId: string): Promise<Member | null> {
     }
     return { ...row, farmName };
   });
+}
+
+// ---- Membership: farms, people, invitations, roles, passwords, preferences ----
+
+export interface FarmSummary {
+  id: string;
+  name: string;
+  region: string;
+  contactEmail: string | null;
+  status: "active" | "suspended" | "removed";
+  joinedAt: Date;
+}
+
+export interface PersonSummary {
+  id: string;
+  email: string;
+  name: string;
+  role: MemberRole;
+  farmId: string | null;
+  active: boolean;
+  lastSignInAt: Date | null;
+}
+
+export interface PendingInvitation {
+  id: string;
+  email: string;
+  role: MemberRole | null;
+  farmId: string | null;
+  expiresAt: Date;
+}
+
+const personColumns = {
+  id: users.id,
+  email: users.email,
+  name: users.name,
+  role: users.role,
+  farmId: users.farmId,
+  active: users.active,
+  lastSignInAt: users.lastSignInAt,
+};
+
+function appUrl(): string {
+  return process.env.APP_URL ?? "http://127.0.0.1:3000";
+}
+
+function actor(member: Member) {
+  return { actorUserId: member.id, actorLabel: member.name };
+}
+
+async function pendingInvitations(tx: Transaction, farmId?: string): Promise<PendingInvitation[]> {
+  const conditions = [eq(accessTokens.purpose, "invitation"), isNull(accessTokens.usedAt), gt(accessTokens.expiresAt, sql`now()`)];
+  if (farmId) conditions.push(eq(accessTokens.farmId, farmId));
+  return tx
+    .select({ id: accessTokens.id, email: accessTokens.email, role: accessTokens.role, farmId: accessTokens.farmId, expiresAt: accessTokens.expiresAt })
+    .from(accessTokens)
+    .where(and(...conditions))
+    .orderBy(desc(accessTokens.createdAt));
+}
+
+/** The coordinator's view: every farm, every person and the invitations still open. */
+export async function listMembership(member: Member) {
+  return withFarmContext(farmContextOf(member), async (tx) => ({
+    farms: (await tx
+      .select({ id: farms.id, name: farms.name, region: farms.region, contactEmail: farms.contactEmail, status: farms.status, joinedAt: farms.joinedAt })
+      .from(farms)
+      .orderBy(asc(farms.name))) as FarmSummary[],
+    people: (await tx.select(personColumns).from(users).orderBy(asc(users.name))) as PersonSummary[],
+    invitations: await pendingInvitations(tx),
+  }));
+}
+
+/** A farm manager's view: their farm's people and open invitations. */
+export async function listFarmPeople(member: Member) {
+  if (!member.farmId) throw new AppError("forbidden", "Only a farm's own people have a farm to manage.");
+  const farmId = member.farmId;
+  return withFarmContext(farmContextOf(member), async (tx) => ({
+    people: (await tx.select(personColumns).from(users).where(eq(users.farmId, farmId)).orderBy(asc(users.name))) as PersonSummary[],
+    invitations: await pendingInvitations(tx, farmId),
+  }));
+}
+
+export async function admitFarm(member: Member, input: { name: string; region: string; contactEmail: string }): Promise<string> {
+  return withFarmContext(farmContextOf(member), async (tx) => {
+    const [existing] = await tx.select({ id: farms.id }).from(farms).where(sql`lower(${farms.name}) = lower(${input.name})`);
+    if (existing) throw new AppError("conflict", "A farm of that name is already a member.", [{ field: "name", message: "Choose a name no other member farm uses." }]);
+    const [farm] = await tx.insert(farms).values({ name: input.name, region: input.region, contactEmail: input.contactEmail || null }).returning({ id: farms.id });
+    await recordAudit(tx, { ...actor(member), action: "farm.admitted", subject: input.name, details: { farmId: farm.id, region: input.region } });
+    return farm.id;
+  });
+}
+
+export async function setFarmStatus(member: Member, farmId: string, status: FarmSummary["status"]): Promise<void> {
+  await withFarmContext(farmContextOf(member), async (tx) => {
+    const [farm] = await tx.update(farms).set({ status }).where(eq(farms.id, farmId)).returning({ name: farms.name });
+    if (!farm) throw new AppError("not_found", "That farm is not a member. Reload the page.");
+    await recordAudit(tx, { ...actor(member), action: `farm.${status === "active" ? "reinstated" : status}`, subject: farm.name, details: { farmId } });
+  });
+}
+
+/**
+ * Sends a one-time invitation link. The coordinator invites farm managers, observers and
+ * coordinators; a farm manager invites growers to their own farm.
+ */
+export async function inviteMember(member: Member, input: { email: string; role: MemberRole; farmId: string | null }): Promise<void> {
+  const problem = invitationProblem(member, input.role, input.farmId);
+  if (problem) throw new AppError("invalid_input", problem, [{ field: "role", message: problem }]);
+  const { token, tokenHash } = newAccessToken();
+  const expiresAt = tokenExpiresAt("invitation", new Date());
+  const email = input.email.trim().toLowerCase();
+  const prepared = await withFarmContext(farmContextOf(member), async (tx) => {
+    const [taken] = await tx.select({ active: users.active }).from(users).where(and(sql`lower(${users.email}) = ${email}`, eq(users.active, true)));
+    if (taken) throw new AppError("conflict", "That address already belongs to an active member.", [{ field: "email", message: "This person can already sign in; change their role instead." }]);
+    let farmName: string | null = null;
+    if (input.farmId) {
+      const [farm] = await tx.select({ name: farms.name, status: farms.status }).from(farms).where(eq(farms.id, input.farmId));
+      if (!farm) throw new AppError("not_found", "That farm is not a member.", [{ field: "farmId", message: "Choose a member farm." }]);
+      if (farm.status !== "active") throw new AppError("conflict", "That farm is suspended or removed: reinstate it before inviting its people.", [{ field: "farmId", message: "Choose an active farm." }]);
+      farmName = farm.name;
+    }
+    await tx.insert(accessTokens).values({ purpose: "invitation", tokenHash, email, farmId: input.farmId, role: input.role, createdBy: member.id, expiresAt });
+    await recordAudit(tx, { ...actor(member), farmId: member.role === "farm_manager" ? member.farmId : null, action: "member.invited", subject: email, details: { role: input.role, farmId: input.farmId, expiresAt: expiresAt.toISOString() } });
+    const [settings] = await tx.select({ name: cooperativeSettings.name }).from(cooperativeSettings);
+    return { farmName, cooperativeName: settings?.name ?? "your co-op" };
+  });
+  await sendMail(invitationMessage({ to: email, inviterName: member.name, role: input.role, ...prepared, link: accessLink(appUrl(), "invitation", token), expiresAt }));
+}
+
+async function peopleOfFarm(tx: Transaction, farmId: string | null): Promise<Person[]> {
+  if (!farmId) return [];
+  return tx.select({ id: users.id, role: users.role, farmId: users.farmId, active: users.active }).from(users).where(eq(users.farmId, farmId));
+}
+
+async function findPerson(tx: Transaction, userId: string) {
+  const [target] = await tx.select({ ...personColumns }).from(users).where(eq(users.id, userId));
+  if (!target) throw new AppError("not_found", "That person is not a member you can see. Reload the page.");
+  return target;
+}
+
+/** The coordinator changes someone's role; they are told by e-mail. */
+export async function changeRole(member: Member, userId: string, newRole: MemberRole): Promise<void> {
+  const notice = await withFarmContext(farmContextOf(member), async (tx) => {
+    const target = await findPerson(tx, userId);
+    const problem = roleChangeProblem(asPerson(member), target, newRole, await peopleOfFarm(tx, target.farmId));
+    if (problem) throw new AppError("conflict", problem, [{ field: "role", message: problem }]);
+    await tx.update(users).set({ role: newRole }).where(eq(users.id, userId));
+    await recordAudit(tx, { ...actor(member), action: "member.role-changed", subject: target.email, details: { userId, oldRole: target.role, newRole, farmId: target.farmId } });
+    const [farm] = target.farmId ? await tx.select({ name: farms.name }).from(farms).where(eq(farms.id, target.farmId)) : [];
+    return roleChangedMessage({ to: target.email, name: target.name, oldRole: target.role, newRole, changedBy: member.name, farmName: farm?.name ?? null });
+  });
+  await sendMail(notice);
+}
+
+/** The coordinator deactivates anyone (but a farm's last manager); a manager removes their growers. */
+export async function deactivatePerson(member: Member, userId: string): Promise<void> {
+  await withFarmContext(farmContextOf(member), async (tx) => {
+    const target = await findPerson(tx, userId);
+    const problem = deactivationProblem(asPerson(member), target, await peopleOfFarm(tx, target.farmId));
+    if (problem) throw new AppError("conflict", problem);
+    await tx.update(users).set({ active: false }).where(eq(users.id, userId));
+    await recordAudit(tx, {
+      ...actor(member),
+      farmId: member.role === "farm_manager" ? member.farmId : null,
+      action: "member.deactivated",
+      subject: target.email,
+      details: { userId, role: target.role, farmId: target.farmId },
+    });
+  });
+}
+
+/** A farm manager makes one of their growers the manager and becomes a grower. */
+export async function transferManagerRole(member: Member, userId: string): Promise<void> {
+  const notice = await withFarmContext(farmContextOf(member), async (tx) => {
+    const target = await findPerson(tx, userId);
+    const problem = transferProblem(asPerson(member), target);
+    if (problem) throw new AppError("conflict", problem, [{ field: "userId", message: problem }]);
+    // Promote first: the farm is never without a manager, and the demotion runs while we still are one.
+    await tx.update(users).set({ role: "farm_manager" }).where(eq(users.id, target.id));
+    await tx.update(users).set({ role: "grower" }).where(eq(users.id, member.id));
+    await recordAudit(tx, { ...actor(member), farmId: member.farmId, action: "member.manager-transferred", subject: target.email, details: { from: member.id, to: target.id } });
+    return roleChangedMessage({ to: target.email, name: target.name, oldRole: "grower", newRole: "farm_manager", changedBy: member.name, farmName: member.farmName });
+  });
+  await sendMail(notice);
+}
+
+function asPerson(member: Member): Person {
+  return { id: member.id, role: member.role, farmId: member.farmId, active: member.active };
+}
+
+const anonymous = { userId: null, farmId: null, role: "anonymous" as const };
+
+/** Always the same answer to the caller; a link is sent only to an active member's address. */
+export async function requestPasswordReset(email: string, ip: string | null): Promise<void> {
+  const { token, tokenHash } = newAccessToken();
+  const expiresAt = tokenExpiresAt("password_reset", new Date());
+  const address = email.trim().toLowerCase();
+  const found = await withFarmContext(anonymous, async (tx) => {
+    const result = await tx.execute<{ user_id: string; name: string }>(sql`select * from app_create_password_reset(${address}, ${tokenHash}, ${expiresAt.toISOString()}::timestamptz)`);
+    await recordAudit(tx, { action: "password.reset-requested", subject: address, ip, details: { known: result.rows.length > 0 } });
+    return result.rows[0];
+  });
+  if (found) await sendMail(passwordResetMessage({ to: address, name: found.name, link: accessLink(appUrl(), "password_reset", token), expiresAt }));
+}
+
+export interface AccessTokenState {
+  purpose: TokenPurpose;
+  email: string;
+  role: MemberRole | null;
+  farmName: string | null;
+  state: "valid" | "expired" | "used";
+}
+
+/** What the accept or reset page may say about a link before it is used. */
+export async function getAccessTokenState(token: string): Promise<AccessTokenState | null> {
+  if (!isWellFormedToken(token)) return null;
+  return withFarmContext(anonymous, async (tx) => {
+    const result = await tx.execute<{ purpose: TokenPurpose; email: string; role: MemberRole | null; farm_name: string | null; state: AccessTokenState["state"] }>(
+      sql`select * from app_access_token_state(${hashToken(token)})`,
+    );
+    const row = result.rows[0];
+    return row ? { purpose: row.purpose, email: row.email, role: row.role, farmName: row.farm_name, state: row.state } : null;
+  });
+}
+
+export type RedeemOutcome = { status: "accepted" | "reset"; email: string } | { status: "used" | "expired" | "unknown" | "taken" };
+
+/** Uses a one-time link: sets the password (and, for an invitation, makes the member). */
+export async function redeemAccessToken(token: string, purpose: TokenPurpose, input: { name: string; password: string }): Promise<RedeemOutcome> {
+  if (!isWellFormedToken(token)) return { status: "unknown" };
+  const passwordHash = await hashPassword(input.password);
+  return withFarmContext(anonymous, async (tx) => {
+    const state = await tx.execute<{ purpose: TokenPurpose }>(sql`select purpose from app_access_token_state(${hashToken(token)})`);
+    if (state.rows[0]?.purpose !== purpose) return { status: "unknown" } as const;
+    const result = await tx.execute<{ outcome: RedeemOutcome["status"]; user_id: string | null; farm_id: string | null; email: string | null; role: MemberRole | null }>(
+      sql`select * from app_redeem_access_token(${hashToken(token)}, ${input.name}, ${passwordHash})`,
+    );
+    const row = result.rows[0];
+    if (!row || (row.outcome !== "accepted" && row.outcome !== "reset")) return { status: row?.outcome ?? "unknown" } as RedeemOutcome;
+    // Recorded as the new member, on their farm's log when they have a farm and on the co-op's.
+    await tx.execute(farmContextStatement({ userId: row.user_id, farmId: row.farm_id, role: "anonymous" }));
+    const action = row.outcome === "accepted" ? "member.joined" : "password.reset";
+    const entry = { action, subject: row.email ?? "", actorUserId: row.user_id, actorLabel: input.name || (row.email ?? ""), details: { role: row.role } };
+    await recordAudit(tx, entry);
+    if (row.farm_id) await recordAudit(tx, { ...entry, farmId: row.farm_id });
+    return { status: row.outcome, email: row.email ?? "" };
+  });
+}
+
+export interface AccountSettings {
+  email: string;
+  name: string;
+  displayUnits: "metric" | "imperial";
+  notifyReminders: boolean;
+}
+
+export async function getAccountSettings(member: Member): Promise<AccountSettings> {
+  return withFarmContext(farmContextOf(member), async (tx) => {
+    const [row] = await tx
+      .select({ email: users.email, name: users.name, displayUnits: users.displayUnits, notifyReminders: users.notifyReminders })
+      .from(users)
+      .where(eq(users.id, member.id));
+    if (!row) throw new AppError("not_found", "Your account was not found. Sign in again.");
+    return row;
+  });
+}
+
+export async function updatePreferences(member: Member, input: { displayUnits: "metric" | "imperial"; notifyReminders: boolean }): Promise<void> {
+  await withFarmContext(farmContextOf(member), async (tx) => {
+    await tx.update(users).set(input).where(eq(users.id, member.id));
+    await recordAudit(tx, { ...actor(member), farmId: member.farmId, action: "preferences.changed", subject: member.email, details: input });
+  });
+}
+
+/** Checks the current password first; wrong answers get the same bcrypt work as right ones. */
+export async function changePassword(member: Member, currentPassword: string, newPassword: string): Promise<void> {
+  const newHash = await hashPassword(newPassword);
+  await withFarmContext(farmContextOf(member), async (tx) => {
+    const [row] = await tx.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, member.id));
+    const matches = await verifyPassword(currentPassword, row?.passwordHash ?? (await unknownUserHash()));
+    if (!row?.passwordHash || !matches) {
+      throw new AppError("invalid_input", "Your current password is not right.", [{ field: "currentPassword", message: "Type the password you signed in with." }]);
+    }
+    await tx.update(users).set({ passwordHash: newHash }).where(eq(users.id, member.id));
+    await recordAudit(tx, { ...actor(member), farmId: member.farmId, action: "password.changed", subject: member.email });
+  });
+  await sendMail(passwordChangedMessage({ to: member.email, name: member.name }));
 }

@@ -10,6 +10,7 @@ export {
   seasonLogColumns,
   seasonLogSchemaVersion,
   seasonLogTemplateCsv,
+  type TemplateCodes,
 } from "./schema";
 export {
   type MassAsWritten,

@@ -231,21 +231,37 @@ export const seasonLogColumns: readonly SeasonLogColumn[] = [
   },
 ];
 
-// An invented example: two blocks of an invented strain, one with two flushes, one still colonising.
-const templateRows: readonly Readonly<Partial<Record<SeasonLogColumnName, string>>>[] = [
-  { block_id: "B-001", strain: "PO-03", substrate: "HW-80/20", inoculated_on: "2026-03-02", block_wet_weight: "2.5 kg", substrate_moisture: "62 %", fruiting_method: "X-cut", flush: "1", harvested_on: "2026-04-11", fresh_weight: "640 g", contaminated: "no" },
-  { block_id: "B-001", strain: "PO-03", substrate: "HW-80/20", inoculated_on: "2026-03-02", block_wet_weight: "2.5 kg", substrate_moisture: "62 %", fruiting_method: "X-cut", flush: "2", harvested_on: "2026-04-25", fresh_weight: "410 g", dry_weight: "41 g", contaminated: "no", spent_weight: "1.4 kg", notes: "last flush" },
-  { block_id: "B-002", strain: "LM-01", substrate: "HW-80/20", inoculated_on: "2026-03-09", block_wet_weight: "2.5 kg", substrate_moisture: "62 %", contaminated: "no", notes: "still colonising" },
-];
+/** Codes for the template's example rows; the co-op's own registry codes make the template import as it stands. */
+export interface TemplateCodes {
+  strains: readonly string[];
+  substrates: readonly string[];
+  fruitingMethods: readonly string[];
+}
+
+const inventedCodes: TemplateCodes = { strains: ["PO-03", "LM-01"], substrates: ["HW-80/20"], fruitingMethods: ["X-cut"] };
+
+// Two blocks, one with two flushes, one still colonising.
+function templateRows(codes: TemplateCodes): Partial<Record<SeasonLogColumnName, string>>[] {
+  const first = codes.strains[0] ?? inventedCodes.strains[0];
+  const second = codes.strains[1] ?? first;
+  const substrate = codes.substrates[0] ?? "";
+  const fruitingMethod = codes.fruitingMethods[0] ?? "";
+  const made = { substrate, inoculated_on: "2026-03-02", block_wet_weight: "2.5 kg", substrate_moisture: "62 %", contaminated: "no" };
+  return [
+    { block_id: "B-001", strain: first, ...made, fruiting_method: fruitingMethod, flush: "1", harvested_on: "2026-04-11", fresh_weight: "640 g" },
+    { block_id: "B-001", strain: first, ...made, fruiting_method: fruitingMethod, flush: "2", harvested_on: "2026-04-25", fresh_weight: "410 g", dry_weight: "41 g", spent_weight: "1.4 kg", notes: "last flush" },
+    { block_id: "B-002", strain: second, ...made, inoculated_on: "2026-03-09", notes: "still colonising" },
+  ];
+}
 
 function csvField(value: string): string {
   return /[",\n\r]/.test(value) ? `"${value.replace(/"/g, '""')}"` : value;
 }
 
 /** A CSV template of schema version 1: the header and a few example rows. */
-export function seasonLogTemplateCsv(): string {
+export function seasonLogTemplateCsv(codes: TemplateCodes = inventedCodes): string {
   const lines = [seasonLogColumnNames.join(",")];
-  for (const row of templateRows) {
+  for (const row of templateRows(codes)) {
     lines.push(seasonLogColumnNames.map((name) => csvField(row[name] ?? "")).join(","));
   }
   return `${lines.join("\r\n")}\r\n`;

@@ -9,7 +9,7 @@ export {
   type BlockedAnova,
   type BlockedAnovaObservation,
 } from "./blocked-anova";
-export { tukeyHsd, type TukeyComparison } from "./tukey";
+export { tukeyFromGroupSummaries, tukeyHsd, type GroupSummary, type TukeyComparison } from "./tukey";
 export { holm } from "./holm";
 export { wilsonInterval, type ProportionInterval } from "./wilson";
 export { metaAnalysis, type MetaAnalysis, type PooledEstimate } from "./meta-analysis";

@@ -20,22 +20,35 @@ export type TukeyComparison = {
  * (JavaScript orders integer-like keys such as "2" numerically before other keys.)
  */
 export function tukeyHsd(groups: Record<string, number[]>, level = 0.95): TukeyComparison[] {
+  const summaries: Record<string, GroupSummary> = {};
+  for (const [name, values] of Object.entries(groups)) {
+    requireAtLeast(values, 1, `Group "${name}"`);
+    requireAllFinite(values, `Group "${name}"`);
+    const mean = accurateMean(values);
+    summaries[name] = { n: values.length, mean, sumOfSquares: sumOfSquares(values, mean) };
+  }
+  return tukeyFromGroupSummaries(summaries, level);
+}
+
+/** A group described by its size, mean and sum of squared deviations from that mean. */
+export type GroupSummary = { n: number; mean: number; sumOfSquares: number };
+
+/**
+ * tukeyHsd from each group's summary alone, so pooled results can compare strains without
+ * the blocks' values leaving the database. Same pair order as tukeyHsd.
+ */
+export function tukeyFromGroupSummaries(groups: Record<string, GroupSummary>, level = 0.95): TukeyComparison[] {
   requireLevel(level);
   const names = Object.keys(groups);
   if (names.length < 2) {
     throw new StatsInputError("too_few_values", `Pairwise comparison needs at least 2 groups; got ${names.length}.`);
   }
-  const means = new Map<string, number>();
   let ssWithin = 0;
   let total = 0;
   for (const name of names) {
-    const values = groups[name];
-    requireAtLeast(values, 1, `Group "${name}"`);
-    requireAllFinite(values, `Group "${name}"`);
-    const m = accurateMean(values);
-    means.set(name, m);
-    ssWithin += sumOfSquares(values, m);
-    total += values.length;
+    if (!(groups[name].n >= 1)) throw new StatsInputError("empty_group", `Group "${name}" has no values; leave it out or add its blocks.`);
+    ssWithin += groups[name].sumOfSquares;
+    total += groups[name].n;
   }
   const df = total - names.length;
   if (df < 1) {
@@ -57,8 +70,8 @@ export function tukeyHsd(groups: Record<string, number[]>, level = 0.95): TukeyC
     for (let j = i + 1; j < names.length; j++) {
       const a = names[j];
       const b = names[i];
-      const diff = (means.get(a) as number) - (means.get(b) as number);
-      const se = Math.sqrt((msWithin / 2) * (1 / groups[a].length + 1 / groups[b].length));
+      const diff = groups[a].mean - groups[b].mean;
+      const se = Math.sqrt((msWithin / 2) * (1 / groups[a].n + 1 / groups[b].n));
       const half = critical * se;
       const pAdj = 1 - studentizedRangeLowerTail(Math.abs(diff) / se, names.length, df);
       out.push({ a, b, diff, lower: diff - half, upper: diff + half, pAdj: Math.min(1, Math.max(0, pAdj)) });

@@ -1,16 +1,27 @@
 import type { Metadata } from "next";
-import { NotBuiltYet } from "@/components/ui/not-built-yet";
+import { ButtonLink } from "@/components/ui/button";
 import { PageHeader } from "@/components/ui/page-header";
-import { requirePage } from "@/lib/auth/guard";
+import { farmContextOf, requirePage } from "@/lib/auth/guard";
+import { can } from "@/lib/auth/permissions";
+import { listBlocks } from "@/lib/data/blocks";
+import { BlocksTable } from "./_components/blocks-table";
 
 export const metadata: Metadata = { title: "Blocks & harvests" };
 
 export default async function BlocksPage() {
-  await requirePage("farm-data:read");
+  const member = await requirePage("farm-data:read");
+  const rows = await listBlocks(farmContextOf(member));
   return (
     <>
-      <PageHeader title="Blocks & harvests" lead="Every block your farm has reported, with its flushes and biological efficiency." />
-      <NotBuiltYet what="A sortable table of your farm's blocks and harvests." plannedIn="issue [2 of 6], season logs" />
+      <PageHeader title="Blocks & harvests" lead="Every block your farm has reported, with its flushes, biological efficiency (BE) and mass loss. Only your farm's people see these rows.">
+        {can(member.role, "harvest:record") ? <ButtonLink href="/blocks/harvest">Record a harvest</ButtonLink> : null}
+        {can(member.role, "season-log:upload") ? (
+          <ButtonLink href="/season-logs" variant="secondary">
+            Upload a season log
+          </ButtonLink>
+        ) : null}
+      </PageHeader>
+      <BlocksTable rows={rows} display={member.displayUnits} />
     </>
   );
 }

@@ -1,16 +1,21 @@
 import type { Metadata } from "next";
-import { NotBuiltYet } from "@/components/ui/not-built-yet";
 import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
+import { auditListLimit, listAuditEvents } from "@/lib/data/audit";
+import { ActivityTable } from "../activity/_components/activity-table";
 
 export const metadata: Metadata = { title: "Activity log" };
 
 export default async function FarmActivityPage() {
-  await requirePage("audit:read-farm");
+  const member = await requirePage("audit:read-farm");
+  const rows = await listAuditEvents(member, "farm");
   return (
     <>
-      <PageHeader title="Activity log" lead="Who did what and when, on your farm's data." />
-      <NotBuiltYet what="Filter and export your farm's activity log." plannedIn="issue [6 of 6], audit" />
+      <PageHeader
+        title="Activity log"
+        lead={`What happened to ${member.farmName}'s records and people: uploads, corrections with old and new values, invitations, exports. Newest first; the latest ${auditListLimit} entries. Entries cannot be changed or deleted.`}
+      />
+      <ActivityTable rows={rows} caption={`${member.farmName} activity log`} csvFileName="farm-activity.csv" />
     </>
   );
 }

@@ -1,16 +1,81 @@
 import type { Metadata } from "next";
-import { NotBuiltYet } from "@/components/ui/not-built-yet";
+import { ButtonLink } from "@/components/ui/button";
+import { Card } from "@/components/ui/card";
 import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
+import { roleLabels } from "@/lib/auth/permissions";
+import { listFarmPeople } from "@/lib/data/members";
+import { ActionForm } from "../members/_components/action-form";
+import { inviteGrowerAction, removeGrowerAction, transferManagerAction } from "./actions";
 
 export const metadata: Metadata = { title: "Farm people" };
 
 export default async function FarmPeoplePage() {
-  await requirePage("farm-staff:manage");
+  const member = await requirePage("farm-staff:manage");
+  const { people, invitations } = await listFarmPeople(member);
+  const growers = people.filter((person) => person.role === "grower" && person.active);
+
   return (
     <>
-      <PageHeader title="Farm people" lead="The people of your farm who record harvests." />
-      <NotBuiltYet what="Invite and remove growers, hand over the manager role." plannedIn="issue [6 of 6], members" />
+      <PageHeader title="Farm people" lead={`Who records for ${member.farmName}. Only your farm's own people ever see its rows.`}>
+        <ButtonLink href="/farm-people/data" variant="secondary">
+          Your farm&apos;s data
+        </ButtonLink>
+      </PageHeader>
+      <div className="grid gap-6 lg:grid-cols-2">
+        <Card title="Invite a grower">
+          <p className="mb-3 text-sm text-ink-soft">They get an e-mail with a link that works once, for 7 days, to choose their password.</p>
+          <ActionForm action={inviteGrowerAction} testId="invite-grower" submitLabel="Send invitation" pendingLabel="Sending…" fields={[{ name: "email", label: "Their e-mail", type: "email" }]} />
+        </Card>
+        <Card title="Hand over the manager role">
+          {growers.length === 0 ? (
+            <p className="text-sm text-ink-soft">Invite a grower first: the manager role goes to one of your farm&apos;s growers.</p>
+          ) : (
+            <>
+              <p className="mb-3 text-sm text-ink-soft">The grower you choose becomes the farm manager, and you become a grower.</p>
+              <ActionForm
+                action={transferManagerAction}
+                testId="transfer-manager"
+                submitLabel="Make them the manager"
+                variant="danger"
+                confirm="Hand over the manager role? You become a grower and cannot undo this yourself."
+                fields={[{ name: "userId", label: "New farm manager", options: growers.map((person) => ({ value: person.id, label: `${person.name} (${person.email})` })) }]}
+              />
+            </>
+          )}
+        </Card>
+      </div>
+
+      <h2 className="mt-10 mb-3 text-xl font-semibold text-moss-800">People of {member.farmName}</h2>
+      <ul className="space-y-2" aria-label="Farm people">
+        {people.map((person) => (
+          <li key={person.id} className="flex flex-wrap items-center justify-between gap-3 rounded-lg border border-oat-300 bg-white px-4 py-3">
+            <div>
+              <p className="font-medium">{person.name}</p>
+              <p className="text-sm text-ink-soft">
+                {person.email} · {roleLabels[person.role]}
+                {person.active ? "" : " · removed"}
+              </p>
+            </div>
+            {person.active && person.role === "grower" ? (
+              <ActionForm action={removeGrowerAction} inline hidden={{ userId: person.id }} submitLabel="Remove" variant="danger" confirm={`Remove ${person.name}? They can no longer sign in.`} />
+            ) : null}
+          </li>
+        ))}
+      </ul>
+
+      <h2 className="mt-10 mb-3 text-xl font-semibold text-moss-800">Open invitations</h2>
+      {invitations.length === 0 ? (
+        <p className="text-ink-soft">No invitations are waiting.</p>
+      ) : (
+        <ul className="space-y-2" aria-label="Open invitations">
+          {invitations.map((invitation) => (
+            <li key={invitation.id} className="rounded-lg border border-oat-300 bg-white px-4 py-3 text-sm">
+              <span className="font-medium">{invitation.email}</span> · link good until {invitation.expiresAt.toISOString().slice(0, 10)}
+            </li>
+          ))}
+        </ul>
+      )}
     </>
   );
 }

@@ -1,16 +1,22 @@
 import type { Metadata } from "next";
-import { NotBuiltYet } from "@/components/ui/not-built-yet";
+import { Caution } from "@/components/ui/caution";
 import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
+import { can } from "@/lib/auth/permissions";
+import { ResultsView } from "./_components/results-view";
 
 export const metadata: Metadata = { title: "Co-op results" };
 
 export default async function ResultsPage() {
-  await requirePage("pooled-results:read");
+  const member = await requirePage("pooled-results:read");
   return (
     <>
       <PageHeader title="Co-op results" lead="Pooled strain comparisons from every member farm, with honest intervals. No farm's own rows are ever shown here." />
-      <NotBuiltYet what="Pooled, farm-blocked strain comparisons." plannedIn="issue [4 of 6], co-op results" />
+      <div className="mb-6 grid gap-3 lg:grid-cols-2">
+        <Caution which="pooledFigures" />
+        <Caution which="foodAndHealth" />
+      </div>
+      <ResultsView showsOwnFarm={can(member.role, "farm-data:read")} />
     </>
   );
 }

@@ -1,16 +1,35 @@
 import type { Metadata } from "next";
-import { NotBuiltYet } from "@/components/ui/not-built-yet";
+import { ButtonLink } from "@/components/ui/button";
+import { Card } from "@/components/ui/card";
+import { Caution } from "@/components/ui/caution";
 import { PageHeader } from "@/components/ui/page-header";
-import { requirePage } from "@/lib/auth/guard";
+import { farmContextOf, requirePage } from "@/lib/auth/guard";
+import { listUploads } from "@/lib/data/season-logs";
+import { SeasonLogUpload } from "./_components/season-log-upload";
+import { UploadHistory } from "./_components/upload-history";
 
 export const metadata: Metadata = { title: "Season logs" };
 
 export default async function SeasonLogsPage() {
-  await requirePage("season-log:upload");
+  const member = await requirePage("season-log:upload");
+  const uploads = await listUploads(farmContextOf(member));
   return (
     <>
-      <PageHeader title="Season logs" lead="Upload your season's spreadsheet as CSV under the co-op's shared columns." />
-      <NotBuiltYet what="Upload, review and commit season logs." plannedIn="issue [2 of 6], season logs" />
+      <PageHeader title="Season logs" lead="Upload your season's spreadsheet as CSV. We read it, show every problem by line, and change nothing until you commit.">
+        <ButtonLink href="/season-logs/columns" variant="secondary">
+          The shared columns
+        </ButtonLink>
+        <a href="/api/season-logs/template" className="inline-flex min-h-11 items-center rounded-lg border border-moss-600 bg-white px-4 text-sm font-semibold text-moss-700">
+          Download the template
+        </a>
+      </PageHeader>
+      <div className="space-y-8">
+        <SeasonLogUpload />
+        <Caution which="spores" />
+        <Card title="Past uploads">
+          <UploadHistory uploads={uploads} />
+        </Card>
+      </div>
     </>
   );
 }

@@ -1,16 +1,63 @@
 import type { Metadata } from "next";
-import { NotBuiltYet } from "@/components/ui/not-built-yet";
+import { ButtonLink } from "@/components/ui/button";
+import { Card } from "@/components/ui/card";
 import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
+import { can, roleLabels } from "@/lib/auth/permissions";
+import { getAccountSettings } from "@/lib/data/members";
+import { ActionForm } from "../members/_components/action-form";
+import { changePasswordAction, updatePreferencesAction } from "./actions";
 
 export const metadata: Metadata = { title: "Settings" };
 
 export default async function SettingsPage() {
-  await requirePage("account:manage");
+  const member = await requirePage("account:manage");
+  const account = await getAccountSettings(member);
   return (
     <>
-      <PageHeader title="Settings" lead="Your account and display preferences." />
-      <NotBuiltYet what="Change password, units and notifications." plannedIn="issue [6 of 6], members" />
+      <PageHeader title="Settings" lead={`${account.name} · ${account.email} · ${roleLabels[member.role]}${member.farmName ? ` at ${member.farmName}` : ""}`} />
+      <div className="grid gap-6 lg:grid-cols-2">
+        <Card title="Display and e-mail">
+          <ActionForm
+            action={updatePreferencesAction}
+            testId="preferences"
+            submitLabel="Save preferences"
+            fields={[
+              {
+                name: "displayUnits",
+                label: "Show masses in",
+                defaultValue: account.displayUnits,
+                options: [
+                  { value: "metric", label: "Metric (g, kg)" },
+                  { value: "imperial", label: "Imperial (oz, lb)" },
+                ],
+              },
+              { name: "notifyReminders", label: "E-mail me reminders (missing season logs, trial deadlines)", type: "checkbox", defaultChecked: account.notifyReminders },
+            ]}
+          />
+          <p className="mt-3 text-xs text-ink-soft">Invitations, password resets and role changes are always e-mailed: they concern your access.</p>
+        </Card>
+        <Card title="Change password">
+          <ActionForm
+            action={changePasswordAction}
+            testId="change-password"
+            submitLabel="Change password"
+            fields={[
+              { name: "currentPassword", label: "Current password", type: "password", autoComplete: "current-password" },
+              { name: "newPassword", label: "New password", type: "password", autoComplete: "new-password", hint: "At least 10 characters." },
+              { name: "repeatPassword", label: "New password again", type: "password", autoComplete: "new-password" },
+            ]}
+          />
+        </Card>
+        {can(member.role, "farm-data:export") ? (
+          <Card title="Your farm's data">
+            <p className="mb-3 text-sm">Download everything {member.farmName} gave the co-op, or withdraw it.</p>
+            <ButtonLink href="/farm-people/data" variant="secondary">
+              Download or withdraw
+            </ButtonLink>
+          </Card>
+        ) : null}
+      </div>
     </>
   );
 }

@@ -1,0 +1,49 @@
+"use client";
+
+import type { ColumnDef } from "@tanstack/react-table";
+import Link from "next/link";
+import { DataTable } from "@/components/ui/data-table";
+import type { BlockRow } from "@/lib/data/blocks";
+import { formatMass, type MassDisplay } from "@/lib/units";
+
+function percent(value: number | null): string {
+  return value === null ? "" : `${value.toFixed(1)} %`;
+}
+
+function columnsFor(display: MassDisplay): ColumnDef<BlockRow, unknown>[] {
+  return [
+    {
+      accessorKey: "code",
+      header: "Block",
+      cell: ({ row }) => (
+        <Link href={`/blocks/${row.original.id}`} className="inline-flex min-h-11 items-center font-semibold text-moss-700 underline">
+          {row.original.code}
+        </Link>
+      ),
+    },
+    { accessorKey: "strainCode", header: "Strain" },
+    { accessorFn: (block) => block.recipeCode ?? "", id: "recipe", header: "Recipe" },
+    { accessorFn: (block) => block.inoculatedOn ?? "", id: "inoculated", header: "Inoculated" },
+    { accessorFn: (block) => block.wetMassG, id: "wet", header: "Wet block", cell: ({ getValue }) => (getValue() === null ? "" : formatMass(getValue() as number, display)) },
+    { accessorFn: (block) => (block.moisture === null ? null : block.moisture * 100), id: "moisture", header: "Moisture", cell: ({ getValue }) => percent(getValue() as number | null) },
+    { accessorKey: "flushes", header: "Flushes" },
+    { accessorKey: "totalFreshG", header: "Total fresh", cell: ({ getValue }) => formatMass(getValue() as number, display) },
+    { accessorFn: (block) => block.biologicalEfficiency, id: "be", header: "BE %", cell: ({ getValue }) => percent(getValue() as number | null) },
+    { accessorFn: (block) => (block.contaminated ? "yes" : "no"), id: "contaminated", header: "Contaminated" },
+    { accessorFn: (block) => block.massLoss, id: "massLoss", header: "Mass loss", cell: ({ getValue }) => percent(getValue() as number | null) },
+    { accessorFn: (block) => block.trial ?? "", id: "trial", header: "Trial" },
+  ];
+}
+
+/** The farm's blocks, sortable and filterable; masses in the member's display units. */
+export function BlocksTable({ rows, display }: { rows: BlockRow[]; display: MassDisplay }) {
+  return (
+    <DataTable
+      caption="Blocks and harvests"
+      columns={columnsFor(display)}
+      rows={rows}
+      emptyMessage="No blocks yet. Upload your season log, or ask the farm manager to."
+      csvFileName="blocks-and-harvests.csv"
+    />
+  );
+}

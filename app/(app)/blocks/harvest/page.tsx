@@ -1,0 +1,23 @@
+import type { Metadata } from "next";
+import { Caution } from "@/components/ui/caution";
+import { PageHeader } from "@/components/ui/page-header";
+import { farmContextOf, requirePage } from "@/lib/auth/guard";
+import { listHarvestTargets } from "@/lib/data/blocks";
+import { QuickHarvestForm } from "./quick-harvest-form";
+
+export const metadata: Metadata = { title: "Record a harvest" };
+
+export default async function RecordHarvestPage({ searchParams }: { searchParams: Promise<{ block?: string }> }) {
+  const member = await requirePage("harvest:record");
+  const targets = await listHarvestTargets(farmContextOf(member));
+  const { block } = await searchParams;
+  return (
+    <>
+      <PageHeader title="Record a harvest" lead="One flush of one block, straight from the grow room." />
+      <div className="max-w-md space-y-6">
+        <QuickHarvestForm targets={targets} initialBlock={block ?? ""} defaultUnit={member.displayUnits === "imperial" ? "lb" : "g"} />
+        <Caution which="spores" />
+      </div>
+    </>
+  );
+}

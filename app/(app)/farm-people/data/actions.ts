@@ -1,0 +1,17 @@
+"use server";
+
+import { revalidatePath } from "next/cache";
+import { z } from "zod";
+import { guardedAction } from "@/lib/auth/guard";
+import { withdrawFarmData } from "@/lib/data/data-rights";
+
+const withdrawSchema = z.object({ confirmation: z.string().trim().min(1, "Type your farm's name to confirm.") });
+
+export const withdrawFarmDataAction = guardedAction("farm:withdraw", withdrawSchema, async (input, member) => {
+  const removed = await withdrawFarmData(member, input.confirmation);
+  revalidatePath("/", "layout");
+  return {
+    status: "ok",
+    message: `Withdrawn: ${removed.blocks} blocks, ${removed.harvests} harvests and ${removed.uploads} uploaded files were deleted, and the co-op's pooled results are being recomputed without them. The record of this withdrawal stays in the activity log.`,
+  };
+});

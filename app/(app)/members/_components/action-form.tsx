@@ -1,0 +1,119 @@
+"use client";
+
+import { useActionState } from "react";
+import { Button } from "@/components/ui/button";
+import { Field } from "@/components/ui/field";
+import type { ActionState } from "@/lib/auth/guard";
+
+export interface FormFieldSpec {
+  name: string;
+  label: string;
+  type?: "text" | "email" | "password" | "checkbox" | "file" | "number";
+  options?: { value: string; label: string }[];
+  hint?: string;
+  autoComplete?: string;
+  defaultValue?: string;
+  defaultChecked?: boolean;
+}
+
+const selectClass = "block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3 py-2 text-base text-ink";
+
+/**
+ * A small form for one server action: labelled fields with their own errors, the action's
+ * message, and a submit button that says when it is working. Used by every members screen.
+ */
+export function ActionForm({
+  action,
+  submitLabel,
+  pendingLabel = "Saving…",
+  fields = [],
+  hidden = {},
+  variant = "primary",
+  successMessage,
+  testId,
+  inline = false,
+  confirm,
+}: {
+  action: (state: ActionState, formData: FormData) => Promise<ActionState>;
+  submitLabel: string;
+  pendingLabel?: string;
+  fields?: FormFieldSpec[];
+  hidden?: Record<string, string>;
+  variant?: "primary" | "secondary" | "danger";
+  successMessage?: string;
+  testId?: string;
+  inline?: boolean;
+  /** Asked before a change that is hard to take back. */
+  confirm?: string;
+}) {
+  const [state, formAction, pending] = useActionState<ActionState, FormData>(action, { status: "idle" });
+  const errorsOf = (name: string) => state.fieldErrors?.[name];
+  return (
+    <form
+      action={formAction}
+      onSubmit={confirm ? (event) => (window.confirm(confirm) ? undefined : event.preventDefault()) : undefined}
+      data-testid={testId} className={inline ? "flex flex-wrap items-end gap-2" : "space-y-4"} noValidate>
+      {Object.entries(hidden).map(([name, value]) => (
+        <input key={name} type="hidden" name={name} value={value} />
+      ))}
+      {fields.map((field) =>
+        field.options ? (
+          <div key={field.name} className="space-y-1">
+            <label htmlFor={`${testId ?? "form"}-${field.name}`} className="block text-sm font-medium text-ink">
+              {field.label}
+            </label>
+            <select
+              id={`${testId ?? "form"}-${field.name}`}
+              name={field.name}
+              defaultValue={field.defaultValue}
+              aria-describedby={errorsOf(field.name)?.length ? `${testId ?? "form"}-${field.name}-errors` : undefined}
+              className={selectClass}
+            >
+              {field.options.map((option) => (
+                <option key={option.value} value={option.value}>
+                  {option.label}
+                </option>
+              ))}
+            </select>
+            {errorsOf(field.name)?.length ? (
+              <ul id={`${testId ?? "form"}-${field.name}-errors`} className="text-sm text-danger-ink">
+                {errorsOf(field.name)!.map((error) => (
+                  <li key={error}>{error}</li>
+                ))}
+              </ul>
+            ) : null}
+          </div>
+        ) : field.type === "checkbox" ? (
+          <label key={field.name} className="flex min-h-11 items-center gap-3 text-sm">
+            <input type="checkbox" name={field.name} value="on" defaultChecked={field.defaultChecked} className="h-5 w-5" />
+            {field.label}
+          </label>
+        ) : (
+          <Field
+            key={field.name}
+            label={field.label}
+            name={field.name}
+            type={field.type ?? "text"}
+            hint={field.hint}
+            autoComplete={field.autoComplete}
+            defaultValue={field.defaultValue}
+            errors={errorsOf(field.name)}
+          />
+        ),
+      )}
+      {state.status === "error" && state.message ? (
+        <p role="alert" className="rounded-lg bg-danger-bg px-3 py-2 text-sm text-danger-ink">
+          {state.message}
+        </p>
+      ) : null}
+      {state.status === "ok" ? (
+        <p role="status" className="rounded-lg bg-moss-50 px-3 py-2 text-sm text-moss-800">
+          {state.message ?? successMessage ?? "Saved."}
+        </p>
+      ) : null}
+      <Button type="submit" variant={variant} disabled={pending}>
+        {pending ? pendingLabel : submitLabel}
+      </Button>
+    </form>
+  );
+}

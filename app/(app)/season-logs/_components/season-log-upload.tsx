@@ -1,0 +1,375 @@
+"use client";
+
+import { useRouter } from "next/navigation";
+import { useRef, useState } from "react";
+import { Button, ButtonLink } from "@/components/ui/button";
+import { Card } from "@/components/ui/card";
+import { Notice } from "@/components/ui/notice";
+import type { CommitReceipt, UploadView } from "@/lib/data/season-logs";
+import { seasonLogColumns } from "@/lib/import/schema";
+import type { ParseChoices } from "@/lib/season-logs/report";
+import { IssueTable } from "./issue-table";
+import { PreviewOfChanges } from "./preview-of-changes";
+
+type Phase = "pick" | "sending" | "review" | "committing" | "done";
+type MassUnit = NonNullable<ParseChoices["defaultMassUnit"]>;
+
+const wideTargets = [1, 2, 3, 4, 5, 6].flatMap((flush) => [
+  { value: `flush_${flush}`, label: `Flush ${flush} fresh weight (one column per flush)` },
+  { value: `flush_${flush}_date`, label: `Flush ${flush} harvest date` },
+]);
+const targetOptions = [
+  ...seasonLogColumns.map((column) => ({ value: column.name, label: column.title })),
+  ...wideTargets,
+  { value: "ignore", label: "Leave this column out" },
+];
+
+async function messageOf(response: Response): Promise<string> {
+  try {
+    const body = (await response.json()) as { message?: string };
+    if (body.message) return body.message;
+  } catch {
+    // not JSON: fall through to the status text
+  }
+  return `The server answered ${response.status}. Try again; if it keeps happening, tell the coordinator.`;
+}
+
+/** Sends the file as the request body so the browser can report upload progress. */
+function sendFile(file: File, onProgress: (fraction: number) => void): Promise<UploadView> {
+  return new Promise((resolve, reject) => {
+    const request = new XMLHttpRequest();
+    request.open("POST", "/api/season-logs");
+    request.setRequestHeader("content-type", "text/csv");
+    request.setRequestHeader("x-file-name", encodeURIComponent(file.name));
+    request.upload.onprogress = (event) => {
+      if (event.lengthComputable) onProgress(event.loaded / event.total);
+    };
+    request.onload = () => {
+      let body: { message?: string } & Partial<UploadView> = {};
+      try {
+        body = JSON.parse(request.responseText);
+      } catch {
+        // answered with something other than JSON
+      }
+      if (request.status >= 200 && request.status < 300) resolve(body as UploadView);
+      else reject(new Error(body.message ?? `The server answered ${request.status}. Try again; if it keeps happening, tell the coordinator.`));
+    };
+    request.onerror = () => reject(new Error("The file could not be sent: the connection dropped. Check your connection and upload it again."));
+    request.send(file);
+  });
+}
+
+function needsMapping(view: UploadView): boolean {
+  const detected = view.report.detected;
+  return !detected.mapping.certain || detected.mapping.unmatched.length > 0 || detected.dateOrder === "ambiguous" || view.report.issues.some((issue) => issue.message.includes("has no unit"));
+}
+
+/** Pick or drop a file → progress → mapping (when unsure) → review → commit → receipt. */
+export function SeasonLogUpload() {
+  const router = useRouter();
+  const input = useRef<HTMLInputElement>(null);
+  const [phase, setPhase] = useState<Phase>("pick");
+  const [progress, setProgress] = useState(0);
+  const [fileName, setFileName] = useState("");
+  const [view, setView] = useState<UploadView | null>(null);
+  const [problem, setProblem] = useState<string | null>(null);
+  const [mapping, setMapping] = useState<Record<string, string>>({});
+  const [dateOrder, setDateOrder] = useState<"" | "dmy" | "mdy">("");
+  const [unit, setUnit] = useState<"" | MassUnit>("");
+  const [checking, setChecking] = useState(false);
+  const [receipt, setReceipt] = useState<CommitReceipt | null>(null);
+  const [dragging, setDragging] = useState(false);
+
+  function show(next: UploadView) {
+    setView(next);
+    const detected = next.report.detected;
+    setMapping(Object.fromEntries(detected.mapping.columns.map((column) => [column.header, column.target ?? "ignore"])));
+    setDateOrder(next.report.choices.dateOrder ?? (detected.dateOrder === "dmy" || detected.dateOrder === "mdy" ? detected.dateOrder : ""));
+    setUnit(next.report.choices.defaultMassUnit ?? "");
+  }
+
+  async function upload(file: File) {
+    setProblem(null);
+    setReceipt(null);
+    setFileName(file.name);
+    setProgress(0);
+    setPhase("sending");
+    try {
+      show(await sendFile(file, setProgress));
+      setPhase("review");
+      router.refresh();
+    } catch (error) {
+      setProblem((error as Error).message);
+      setPhase("pick");
+    }
+  }
+
+  function choices(): ParseChoices {
+    const chosen: ParseChoices = { mapping };
+    if (dateOrder) chosen.dateOrder = dateOrder;
+    if (unit) chosen.defaultMassUnit = unit;
+    return chosen;
+  }
+
+  async function post(path: string): Promise<Response> {
+    return fetch(`/api/season-logs/${view!.upload.id}/${path}`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(choices()) });
+  }
+
+  async function checkAgain() {
+    setChecking(true);
+    setProblem(null);
+    try {
+      const response = await post("check");
+      if (!response.ok) setProblem(await messageOf(response));
+      else {
+        show((await response.json()) as UploadView);
+        router.refresh();
+      }
+    } finally {
+      setChecking(false);
+    }
+  }
+
+  async function commit() {
+    setPhase("committing");
+    setProblem(null);
+    const response = await post("commit");
+    if (!response.ok) {
+      setProblem(await messageOf(response));
+      setPhase("review");
+      return;
+    }
+    setReceipt((await response.json()) as CommitReceipt);
+    setPhase("done");
+    router.refresh();
+  }
+
+  function startOver() {
+    setView(null);
+    setReceipt(null);
+    setProblem(null);
+    setPhase("pick");
+    if (input.current) input.current.value = "";
+  }
+
+  return (
+    <div className="space-y-6">
+      {problem ? (
+        <Notice tone="danger" title="That did not work">
+          <p data-testid="upload-problem">{problem}</p>
+        </Notice>
+      ) : null}
+
+      {phase === "pick" ? (
+        <Card title="1. Choose your season log">
+          <label
+            htmlFor="season-log-file"
+            onDragOver={(event) => {
+              event.preventDefault();
+              setDragging(true);
+            }}
+            onDragLeave={() => setDragging(false)}
+            onDrop={(event) => {
+              event.preventDefault();
+              setDragging(false);
+              const file = event.dataTransfer.files[0];
+              if (file) void upload(file);
+            }}
+            className={`flex min-h-32 cursor-pointer flex-col items-center justify-center gap-2 rounded-lg border-2 border-dashed p-6 text-center ${dragging ? "border-moss-600 bg-moss-50" : "border-oat-300 bg-oat-50"}`}
+          >
+            <span className="font-semibold text-moss-800">Drop the CSV file here, or tap to choose it</span>
+            <span className="text-sm text-ink-soft">Export the sheet from your spreadsheet as CSV (comma or semicolon, any units). Up to 50 MB.</span>
+          </label>
+          <input
+            ref={input}
+            id="season-log-file"
+            name="file"
+            type="file"
+            accept=".csv,.txt,text/csv,text/plain"
+            aria-label="Season log file (CSV)"
+            className="mt-3 block min-h-11 w-full text-sm"
+            onChange={(event) => {
+              const file = event.target.files?.[0];
+              if (file) void upload(file);
+            }}
+          />
+        </Card>
+      ) : null}
+
+      {phase === "sending" ? (
+        <Card title="Sending and checking your file">
+          <p className="mb-2 text-sm text-ink-soft">{fileName}</p>
+          <progress className="h-3 w-full accent-moss-600" value={progress} max={1} aria-label="Upload progress" />
+          <p role="status" className="mt-2 text-sm">
+            {progress < 1 ? `Sent ${Math.round(progress * 100)} %` : "Sent. Reading every row and comparing it with what your farm has stored…"}
+          </p>
+        </Card>
+      ) : null}
+
+      {view && (phase === "review" || phase === "committing") ? (
+        <>
+          {view.alreadyImportedAt ? (
+            <Notice title="Already imported">
+              <p data-testid="already-imported">
+                This file was already imported on {view.alreadyImportedAt.slice(0, 10)}. Nothing will change; the copy you just sent is kept in the list below.
+              </p>
+            </Notice>
+          ) : null}
+
+          <MappingStep
+            view={view}
+            open={needsMapping(view)}
+            mapping={mapping}
+            onMapping={setMapping}
+            dateOrder={dateOrder}
+            onDateOrder={setDateOrder}
+            unit={unit}
+            onUnit={setUnit}
+            checking={checking}
+            onCheck={checkAgain}
+          />
+
+          <Card title="3. Review">
+            <p className="mb-3 text-sm text-ink-soft" data-testid="review-summary">
+              {view.upload.fileName}: {view.report.rowCount} rows · {view.report.errorCount} error{view.report.errorCount === 1 ? "" : "s"} · {view.report.warningCount} warning
+              {view.report.warningCount === 1 ? "" : "s"} · read as {view.report.detected.encoding}, “{view.report.detected.delimiter === "\t" ? "tab" : view.report.detected.delimiter}” between
+              columns, “{view.report.detected.decimal}” as decimal mark, {view.report.detected.format === "wide" ? "one column per flush" : "one row per harvest"}
+              {view.report.detected.dateOrder === "dmy" ? ", dates day first" : view.report.detected.dateOrder === "mdy" ? ", dates month first" : ""}.
+            </p>
+            {view.report.errorCount > 0 ? (
+              <Notice tone="danger" title="Fix these before committing">
+                <p>
+                  The file has {view.report.errorCount} error{view.report.errorCount === 1 ? "" : "s"}. Correct them in your spreadsheet and upload the corrected file, or change the
+                  mapping above and check again. Nothing is saved to your blocks until you commit.
+                </p>
+              </Notice>
+            ) : null}
+            <div className="mt-4">
+              <IssueTable issues={view.report.issues} />
+            </div>
+            {view.report.issues.length > 0 ? (
+              <a className="mt-3 inline-flex min-h-11 items-center text-sm font-semibold text-moss-700 underline" href={`/api/season-logs/${view.upload.id}/report`}>
+                Download the report (CSV)
+              </a>
+            ) : null}
+          </Card>
+
+          <PreviewOfChanges preview={view.report.preview} />
+
+          <div className="flex flex-wrap gap-3">
+            <Button type="button" onClick={commit} disabled={!view.canCommit || phase === "committing" || checking}>
+              {phase === "committing" ? "Committing…" : "Commit to my farm's records"}
+            </Button>
+            <Button type="button" variant="secondary" onClick={startOver} disabled={phase === "committing"}>
+              Upload a corrected file
+            </Button>
+          </div>
+        </>
+      ) : null}
+
+      {phase === "done" && receipt ? (
+        <Card title="Committed">
+          <div data-testid="receipt" className="space-y-2 text-sm">
+            <p>
+              {receipt.fileName} was committed on {new Date(receipt.committedAt).toLocaleString()}.
+            </p>
+            <p>
+              {receipt.counts.newBlocks} new blocks, {receipt.counts.changedBlocks} blocks changed, {receipt.counts.newHarvests} new harvests, {receipt.counts.changedHarvests} harvests
+              changed; {receipt.changedValues} replaced values kept in the blocks’ history.
+            </p>
+          </div>
+          <div className="mt-4 flex flex-wrap gap-3">
+            <ButtonLink href="/blocks">See your blocks</ButtonLink>
+            <Button type="button" variant="secondary" onClick={startOver}>
+              Upload another file
+            </Button>
+          </div>
+        </Card>
+      ) : null}
+    </div>
+  );
+}
+
+function MappingStep(props: {
+  view: UploadView;
+  open: boolean;
+  mapping: Record<string, string>;
+  onMapping: (mapping: Record<string, string>) => void;
+  dateOrder: "" | "dmy" | "mdy";
+  onDateOrder: (order: "" | "dmy" | "mdy") => void;
+  unit: "" | MassUnit;
+  onUnit: (unit: "" | MassUnit) => void;
+  checking: boolean;
+  onCheck: () => void;
+}) {
+  const detected = props.view.report.detected;
+  const missing = detected.mapping.missingRequired;
+  return (
+    <Card title="2. Check the columns">
+      <details open={props.open} className="space-y-4">
+        <summary className="min-h-11 cursor-pointer content-center text-sm font-semibold text-moss-700">
+          {props.open ? "Some columns or dates need your choice" : "Every column was recognised; open to change the mapping"}
+        </summary>
+        {missing.length > 0 ? (
+          <Notice tone="caution" title="Columns not found">
+            <p>
+              No column was recognised as {missing.join(", ")}. Pick below which of your columns holds {missing.length === 1 ? "it" : "them"}.
+            </p>
+          </Notice>
+        ) : null}
+        <div className="grid gap-3 sm:grid-cols-2">
+          {detected.mapping.columns.map((column) => {
+            const id = `map-${column.position}`;
+            return (
+              <div key={column.position} className="space-y-1">
+                <label htmlFor={id} className="block text-sm font-medium">
+                  Column “{column.header}”{column.how === "guess" ? " (a guess: please confirm)" : column.how === "unmatched" ? " (not recognised)" : ""}
+                </label>
+                <select
+                  id={id}
+                  value={props.mapping[column.header] ?? "ignore"}
+                  onChange={(event) => props.onMapping({ ...props.mapping, [column.header]: event.target.value })}
+                  className="block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3"
+                >
+                  {targetOptions.map((option) => (
+                    <option key={option.value} value={option.value}>
+                      {option.label}
+                    </option>
+                  ))}
+                </select>
+              </div>
+            );
+          })}
+        </div>
+        <div className="grid gap-3 sm:grid-cols-2">
+          <div className="space-y-1">
+            <label htmlFor="date-order" className="block text-sm font-medium">
+              How are dates written?
+            </label>
+            <select id="date-order" value={props.dateOrder} onChange={(event) => props.onDateOrder(event.target.value as "" | "dmy" | "mdy")} className="block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3">
+              <option value="">Work it out from the file</option>
+              <option value="dmy">Day first (21.03.2026, 21/03/2026)</option>
+              <option value="mdy">Month first (03/21/2026)</option>
+            </select>
+          </div>
+          <div className="space-y-1">
+            <label htmlFor="default-unit" className="block text-sm font-medium">
+              Unit for weights written without one
+            </label>
+            <select id="default-unit" value={props.unit} onChange={(event) => props.onUnit(event.target.value as "" | MassUnit)} className="block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3">
+              <option value="">None: every weight names its unit</option>
+              <option value="g">grams (g)</option>
+              <option value="kg">kilograms (kg)</option>
+              <option value="lb">pounds (lb)</option>
+              <option value="oz">ounces (oz)</option>
+            </select>
+          </div>
+        </div>
+        <Button type="button" variant="secondary" onClick={props.onCheck} disabled={props.checking}>
+          {props.checking ? "Checking…" : "Check the file again with these choices"}
+        </Button>
+        <p className="text-xs text-ink-soft">Your choices are remembered for your farm’s next upload.</p>
+      </details>
+    </Card>
+  );
+}

@@ -1,0 +1,55 @@
+import type { Metadata } from "next";
+import { Card } from "@/components/ui/card";
+import { PageHeader } from "@/components/ui/page-header";
+import { requirePage } from "@/lib/auth/guard";
+import { seasonLogColumns, seasonLogSchemaVersion } from "@/lib/import";
+
+export const metadata: Metadata = { title: "The shared season-log columns" };
+
+const requiredWords = { always: "Every row", harvest: "Every harvest row", no: "May stay blank" } as const;
+
+export default async function SeasonLogColumnsPage() {
+  await requirePage("registry:read");
+  return (
+    <>
+      <PageHeader
+        title="The shared season-log columns"
+        lead={`Version ${seasonLogSchemaVersion}. One row per harvest; the block's columns repeat on each of its rows. A block with no harvest yet gets one row with the flush and weight left blank. Your own header names usually work: we recognise common other names and ask you when we are not sure.`}
+      >
+        <a href="/api/season-logs/template" className="inline-flex min-h-11 items-center rounded-lg bg-moss-600 px-4 text-sm font-semibold text-white">
+          Download the template
+        </a>
+      </PageHeader>
+      <div className="space-y-4">
+        <Card title="Weights, dates and other ways of writing">
+          <ul className="list-disc space-y-1 pl-5 text-sm">
+            <li>Weights in g, kg, lb or oz, also “4 lb 3 oz”; a unit in the header, like “Fresh (g)”, applies to the whole column.</li>
+            <li>Decimal comma or point (“2,5 kg” or “2.5 kg”), with or without thousands separators.</li>
+            <li>Dates as 2026-03-21, 21.03.2026, 21/03/2026 or 03/21/2026; if every date could be read both ways we ask you which.</li>
+            <li>Commas, semicolons or tabs between columns; UTF-8 or Windows text; one column per flush (“Flush 1”, “Flush 2 (oz)”) also works.</li>
+          </ul>
+        </Card>
+        {seasonLogColumns.map((column) => (
+          <Card key={column.name}>
+            <h2 className="text-lg font-semibold text-moss-800">
+              {column.title} <code className="ml-2 rounded bg-oat-200 px-1.5 py-0.5 text-sm font-normal">{column.name}</code>
+            </h2>
+            <p className="mt-1">{column.meaning}</p>
+            <dl className="mt-2 grid gap-1 text-sm sm:grid-cols-[10rem_1fr]">
+              <dt className="text-ink-soft">Required</dt>
+              <dd>{requiredWords[column.required]}</dd>
+              <dt className="text-ink-soft">Examples</dt>
+              <dd>{column.examples.filter((example) => example !== "").map((example) => `“${example}”`).join(", ") || "blank"}</dd>
+              {column.synonyms.length > 0 ? (
+                <>
+                  <dt className="text-ink-soft">Also recognised</dt>
+                  <dd>{column.synonyms.join(", ")}</dd>
+                </>
+              ) : null}
+            </dl>
+          </Card>
+        ))}
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,128 @@
+"use server";
+
+import { revalidatePath } from "next/cache";
+import { redirect } from "next/navigation";
+import { z } from "zod";
+import { guardedAction } from "@/lib/auth/guard";
+import { inviteFarms, moveTrial, respondToInvitation, saveTrialDraft, sendTrialReminder } from "@/lib/data/trials";
+import { trialStatuses } from "@/lib/trials/lifecycle";
+
+const optionalNumber = (what: string, check: z.ZodNumber) =>
+  z
+    .string()
+    .trim()
+    .transform((value, context) => {
+      if (value === "") return null;
+      const number = Number(value.replace(",", "."));
+      const parsed = check.safeParse(number);
+      if (!parsed.success) {
+        context.addIssue({ code: "custom", message: `${what}: "${value}" ${parsed.error.issues[0]?.message ?? "is not a number"}` });
+        return z.NEVER;
+      }
+      return parsed.data;
+    });
+
+const armSchema = z.object({
+  label: z.string().trim().min(1, "Give every arm a short label, e.g. A or Across.").max(20, "Keep arm labels to 20 characters."),
+  strainId: z.uuid("Pick a strain for every arm."),
+  treatmentId: z.union([z.uuid(), z.literal("")]).transform((value) => value || null),
+  isReference: z.boolean(),
+});
+
+const trialDesignSchema = z.object({
+  trialId: z.union([z.uuid(), z.literal("")]).optional().transform((value) => value || undefined),
+  title: z.string().trim().min(3, "Give the trial a title of at least 3 characters.").max(160, "Keep the title under 160 characters."),
+  question: z.string().trim().min(10, "Write the question in one sentence, e.g. \u201cDoes PO-02 give more BE than PO-01 over two flushes?\u201d").max(400, "Keep the question to one sentence (under 400 characters)."),
+  speciesId: z.uuid("Pick the species the trial is about."),
+  arms: z
+    .string()
+    .transform((value, context) => {
+      try {
+        return JSON.parse(value) as unknown;
+      } catch {
+        context.addIssue({ code: "custom", message: "The arms could not be read; reload the page and try again." });
+        return z.NEVER;
+      }
+    })
+    .pipe(
+      z
+        .array(armSchema)
+        .min(2, "A trial compares at least 2 arms; add another arm.")
+        .max(8, "Keep a trial to 8 arms or fewer; each arm needs its own blocks on every farm.")
+        .refine((arms) => arms.filter((arm) => arm.isReference).length === 1, "Mark exactly one arm as the reference.")
+        .refine((arms) => new Set(arms.map((arm) => arm.label.toLowerCase())).size === arms.length, "Give each arm a different label."),
+    ),
+  outcomeFlushes: z.coerce.number().int("Flushes must be a whole number.").min(1, "Count at least flush 1.").max(6, "Count at most 6 flushes."),
+  contaminatedHandling: z.enum(["exclude", "count_as_zero"], "Say whether contaminated blocks are left out or count as zero."),
+  protocolNotes: z.string().trim().max(4000, "Keep protocol notes under 4000 characters."),
+  enrolmentDeadline: z.union([z.iso.date("Give the deadline as a date, e.g. 2027-01-15."), z.literal("")]).transform((value) => value || null),
+  smallestDifference: optionalNumber("Smallest difference", z.number().gt(0, "must be above 0 BE points").lt(500, "must be below 500 BE points")),
+  expectedSd: optionalNumber("Spread between blocks", z.number().gt(0, "must be above 0 BE points").lt(500, "must be below 500 BE points")),
+  plannedFarms: optionalNumber("Planned farms", z.number().int("must be a whole number").min(1, "must be 1 or more").max(100, "must be 100 or fewer")),
+  expectedLossPercent: optionalNumber("Expected loss", z.number().min(0, "must be 0 % or more").lt(100, "must be below 100 %")),
+  intent: z.enum(["save", "save-and-view"]).default("save"),
+});
+
+export const saveTrialDraftAction = guardedAction("trial:manage", trialDesignSchema, async (input, member) => {
+  const { intent, expectedLossPercent, ...design } = input;
+  const saved = await saveTrialDraft(member, { ...design, expectedLoss: expectedLossPercent === null ? null : expectedLossPercent / 100 });
+  revalidatePath("/trials");
+  if (intent === "save-and-view" || !input.trialId) redirect(`/trials/${saved.id}`);
+  return { status: "ok", message: `Draft ${saved.code} saved.` };
+});
+
+export const moveTrialAction = guardedAction(
+  "trial:manage",
+  z.object({ trialId: z.uuid(), to: z.enum(trialStatuses) }),
+  async ({ trialId, to }, member) => {
+    await moveTrial(member, trialId, to);
+    revalidatePath(`/trials/${trialId}`);
+    revalidatePath("/trials");
+    return { status: "ok", message: "Done." };
+  },
+);
+
+export const inviteFarmsAction = guardedAction(
+  "trial:manage",
+  z.looseObject({ trialId: z.uuid() }),
+  async (input, member) => {
+    const farmIds = Object.keys(input).filter((key) => key.startsWith("farm:")).map((key) => key.slice(5));
+    if (!farmIds.length) return { status: "error", message: "Tick at least one farm to invite.", fieldErrors: { farms: ["Tick at least one farm to invite."] } };
+    const sent = await inviteFarms(member, input.trialId, farmIds);
+    revalidatePath(`/trials/${input.trialId}`);
+    return { status: "ok", message: `Invited ${farmIds.length} farm${farmIds.length === 1 ? "" : "s"}; ${sent} e-mail${sent === 1 ? "" : "s"} sent.` };
+  },
+);
+
+export const respondToInvitationAction = guardedAction(
+  "trial:enrol",
+  z
+    .object({
+      trialId: z.uuid(),
+      answer: z.enum(["accept", "decline"]),
+      blocksPerArm: z.string().optional(),
+    })
+    .transform((input, context) => {
+      if (input.answer === "decline") return { ...input, blocksPerArm: null };
+      const number = Number(input.blocksPerArm);
+      if (!Number.isInteger(number) || number < 1 || number > 200) {
+        context.addIssue({ code: "custom", path: ["blocksPerArm"], message: `Blocks per arm: "${input.blocksPerArm ?? ""}" must be a whole number from 1 to 200.` });
+        return z.NEVER;
+      }
+      return { ...input, blocksPerArm: number };
+    }),
+  async (input, member) => {
+    await respondToInvitation(member, input.trialId, { accept: input.answer === "accept", blocksPerArm: input.blocksPerArm });
+    revalidatePath(`/trials/${input.trialId}`);
+    return { status: "ok", message: input.answer === "accept" ? "Your farm is enrolled; your list is ready." : "You declined the invitation." };
+  },
+);
+
+export const sendReminderAction = guardedAction(
+  "trial:manage",
+  z.object({ trialId: z.uuid(), farmId: z.uuid() }),
+  async ({ trialId, farmId }, member) => {
+    const sent = await sendTrialReminder(member, trialId, farmId);
+    return { status: "ok", message: `Reminder sent to ${sent} farm manager${sent === 1 ? "" : "s"}.` };
+  },
+);

@@ -1,0 +1,48 @@
+"use server";
+
+import { z } from "zod";
+import type { ActionState } from "@/lib/auth/guard";
+import { minimumPasswordLength } from "@/lib/auth/password";
+import { redeemAccessToken } from "@/lib/data/members";
+import { tokenRefusal } from "@/lib/members/tokens";
+
+const password = z
+  .string()
+  .min(minimumPasswordLength, `Use at least ${minimumPasswordLength} characters; a few unrelated words are easy to remember.`)
+  .max(200, "Keep the password under 200 characters.");
+
+const acceptSchema = z
+  .object({
+    token: z.string(),
+    name: z.string().trim().min(2, "Give your name as the co-op should see it.").max(120, "Keep your name under 120 characters."),
+    password,
+    repeatPassword: z.string(),
+  })
+  .refine((input) => input.password === input.repeatPassword, { path: ["repeatPassword"], message: "The two passwords differ: type the same one twice." });
+
+function problems(error: z.ZodError): ActionState {
+  const fieldErrors: Record<string, string[]> = {};
+  for (const issue of error.issues) (fieldErrors[issue.path.join(".") || "form"] ??= []).push(issue.message);
+  return { status: "error", message: "Some fields need attention.", fieldErrors };
+}
+
+/** Signed-out: the token itself is the authority, checked and used once in the database. */
+export async function acceptInvitationAction(_previous: ActionState, formData: FormData): Promise<ActionState> {
+  const parsed = acceptSchema.safeParse(Object.fromEntries(formData));
+  if (!parsed.success) return problems(parsed.error);
+  const outcome = await redeemAccessToken(parsed.data.token, "invitation", { name: parsed.data.name, password: parsed.data.password });
+  if (outcome.status !== "accepted" && outcome.status !== "reset") return { status: "error", message: tokenRefusal(outcome.status, "invitation") };
+  return { status: "ok", message: `Welcome. Your password is set: sign in as ${outcome.email}.` };
+}
+
+const resetSchema = z
+  .object({ token: z.string(), password, repeatPassword: z.string() })
+  .refine((input) => input.password === input.repeatPassword, { path: ["repeatPassword"], message: "The two passwords differ: type the same one twice." });
+
+export async function setNewPasswordAction(_previous: ActionState, formData: FormData): Promise<ActionState> {
+  const parsed = resetSchema.safeParse(Object.fromEntries(formData));
+  if (!parsed.success) return problems(parsed.error);
+  const outcome = await redeemAccessToken(parsed.data.token, "password_reset", { name: "", password: parsed.data.password });
+  if (outcome.status !== "reset") return { status: "error", message: tokenRefusal(outcome.status === "accepted" ? "unknown" : outcome.status, "password_reset") };
+  return { status: "ok", message: "Your new password is set. Sign in with it." };
+}

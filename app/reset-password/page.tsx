@@ -1,0 +1,59 @@
+import type { Metadata } from "next";
+import { ActionForm } from "@/app/(app)/members/_components/action-form";
+import { PublicFrame } from "@/app/accept-invitation/public-frame";
+import { Notice } from "@/components/ui/notice";
+import { setNewPasswordAction } from "@/app/accept-invitation/actions";
+import { getAccessTokenState } from "@/lib/data/members";
+import { tokenRefusal } from "@/lib/members/tokens";
+import { requestResetAction } from "./actions";
+
+export const metadata: Metadata = { title: "Reset your password" };
+
+export default async function ResetPasswordPage({ searchParams }: { searchParams: Promise<Record<string, string | undefined>> }) {
+  const token = (await searchParams).token;
+  const requestForm = (
+    <ActionForm
+      action={requestResetAction}
+      testId="request-reset"
+      submitLabel="E-mail me a reset link"
+      pendingLabel="Sending…"
+      fields={[{ name: "email", label: "E-mail", type: "email", autoComplete: "username" }]}
+    />
+  );
+  if (!token) {
+    return (
+      <PublicFrame title="Reset your password">
+        <p className="mb-4 text-sm text-ink-soft">Give the address you sign in with. We e-mail a link that works once, for one hour.</p>
+        {requestForm}
+      </PublicFrame>
+    );
+  }
+  const link = await getAccessTokenState(token);
+  if (!link || link.purpose !== "password_reset" || link.state !== "valid") {
+    return (
+      <PublicFrame title="This reset link cannot be used">
+        <div className="mb-4">
+          <Notice tone="danger">{tokenRefusal(!link || link.purpose !== "password_reset" || link.state === "valid" ? "unknown" : link.state, "password_reset")}</Notice>
+        </div>
+        {requestForm}
+      </PublicFrame>
+    );
+  }
+  return (
+    <PublicFrame title="Choose a new password">
+      <p className="mb-4 text-sm text-ink-soft">
+        For <strong>{link.email}</strong>.
+      </p>
+      <ActionForm
+        action={setNewPasswordAction}
+        testId="new-password"
+        submitLabel="Set new password"
+        hidden={{ token }}
+        fields={[
+          { name: "password", label: "New password", type: "password", autoComplete: "new-password", hint: "At least 10 characters." },
+          { name: "repeatPassword", label: "New password again", type: "password", autoComplete: "new-password" },
+        ]}
+      />
+    </PublicFrame>
+  );
+}

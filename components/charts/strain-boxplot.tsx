@@ -1,0 +1,77 @@
+"use client";
+
+import { ResponsiveBoxPlot, type BoxPlotCustomLayerProps } from "@nivo/boxplot";
+
+export interface StrainSpread {
+  strain: string;
+  /** 10th, 25th, 50th, 75th and 90th percentiles of block biological efficiency. */
+  percentiles: [number, number, number, number, number];
+}
+
+type Datum = { strain: string; efficiency: number };
+
+/**
+ * Block biological efficiency per strain: box from the 25th to the 75th percentile, whiskers
+ * to the 10th and 90th (so no single co-op block is drawn), with the viewer's own blocks as dots.
+ */
+export function StrainBoxplot({ spreads, ownBlocks }: { spreads: StrainSpread[]; ownBlocks: { strain: string; efficiency: number }[] }) {
+  // Five values per strain whose 0/25/50/75/100 % quantiles are exactly the published percentiles.
+  const data: Datum[] = spreads.flatMap((spread) => spread.percentiles.map((efficiency) => ({ strain: spread.strain, efficiency })));
+  const shown = new Set(spreads.map((spread) => spread.strain));
+  const points = ownBlocks.filter((block) => shown.has(block.strain));
+  const values = [...data.map((d) => d.efficiency), ...points.map((p) => p.efficiency)];
+  const OwnBlocks = ({ xScale, yScale }: BoxPlotCustomLayerProps<Datum>) => {
+    const band = xScale as unknown as ((value: string) => number) & { bandwidth: () => number };
+    const y = yScale as unknown as (value: number) => number;
+    return (
+      <g data-testid="own-blocks">
+        {points.map((point, index) => (
+          <circle
+            key={index}
+            cx={band(point.strain) + band.bandwidth() / 2 + (((index * 37) % 21) - 10) * (band.bandwidth() / 60)}
+            cy={y(point.efficiency)}
+            r={4}
+            fill="#7a4f2a"
+            fillOpacity={0.8}
+            stroke="#fff"
+            strokeWidth={1}
+          >
+            <title>{`Your block: ${point.efficiency.toFixed(1)} % BE`}</title>
+          </circle>
+        ))}
+      </g>
+    );
+  };
+  return (
+    <figure className="space-y-2">
+      <div className="h-80 w-full">
+        <ResponsiveBoxPlot<Datum>
+          data={data}
+          groupBy="strain"
+          value="efficiency"
+          groups={spreads.map((spread) => spread.strain)}
+          quantiles={[0, 0.25, 0.5, 0.75, 1]}
+          minValue={Math.max(0, Math.floor(Math.min(...values) - 5))}
+          maxValue={Math.ceil(Math.max(...values) + 5)}
+          margin={{ top: 16, right: 16, bottom: 48, left: 56 }}
+          padding={0.4}
+          colors={["#dce9e3"]}
+          borderColor="#2e5e4e"
+          borderWidth={2}
+          medianColor="#1b392f"
+          medianWidth={3}
+          whiskerColor="#2e5e4e"
+          axisLeft={{ legend: "Biological efficiency (%)", legendPosition: "middle", legendOffset: -44 }}
+          axisBottom={{ tickSize: 0, tickPadding: 8 }}
+          layers={["grid", "axes", "boxPlots", OwnBlocks]}
+          animate={false}
+          ariaLabel={`Spread of block biological efficiency per strain${points.length ? ", with your own blocks as dots" : ""}`}
+        />
+      </div>
+      <figcaption className="text-sm text-ink-soft">
+        Boxes: middle half of the co-op&apos;s blocks; whiskers: 10th to 90th percentile; line: median.
+        {points.length ? " Brown dots: your own blocks." : ""}
+      </figcaption>
+    </figure>
+  );
+}

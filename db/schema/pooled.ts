@@ -1,0 +1,69 @@
+import { sql } from "drizzle-orm";
+import { check, doublePrecision, index, integer, jsonb, pgTable, text, timestamp, uuid } from "drizzle-orm/pg-core";
+import { farms } from "./cooperative";
+
+/**
+ * Per-farm sufficient statistics for the co-op's pooled results: one row per farm × species ×
+ * strain × substrate recipe × fruiting method × trial arm × flush window. Written only by
+ * rhizo_analyst (the SQL function pooled_refresh_farm); rhizo_app reads its own farm's rows.
+ */
+export const farmStrainStatistics = pgTable(
+  "farm_strain_statistics",
+  {
+    farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
+    speciesId: uuid("species_id").notNull(),
+    strainId: uuid("strain_id").notNull(),
+    substrateRecipeId: uuid("substrate_recipe_id"),
+    fruitingMethodId: uuid("fruiting_method_id"),
+    trialArmId: uuid("trial_arm_id"),
+    /** "all", "1-2" or "1": which flushes count towards biological efficiency. */
+    flushWindow: text("flush_window").notNull(),
+    blocks: integer("blocks").notNull(),
+    blocksContaminated: integer("blocks_contaminated").notNull(),
+    /** Blocks with a biological efficiency: not contaminated, substrate dry mass known, fruited. */
+    efficiencyBlocks: integer("efficiency_blocks").notNull(),
+    efficiencySum: doublePrecision("efficiency_sum").notNull(),
+    efficiencySquares: doublePrecision("efficiency_squares").notNull(),
+    /** Block counts by whole biological-efficiency point: {"87": 3, …}. */
+    efficiencyBins: jsonb("efficiency_bins").$type<Record<string, number>>().notNull(),
+    firstHarvestBlocks: integer("first_harvest_blocks").notNull(),
+    firstHarvestDaysSum: doublePrecision("first_harvest_days_sum").notNull(),
+    refreshedAt: timestamp("refreshed_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    index("farm_strain_statistics_farm_idx").on(t.farmId),
+    index("farm_strain_statistics_species_idx").on(t.speciesId, t.flushWindow),
+    check("farm_strain_statistics_window", sql`${t.flushWindow} in ('all', '1-2', '1')`),
+  ],
+);
+
+/** Per-farm sums of finished blocks' flush shares (flush 1 to 8), for the pooled flush profile. */
+export const farmFlushStatistics = pgTable(
+  "farm_flush_statistics",
+  {
+    farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
+    speciesId: uuid("species_id").notNull(),
+    strainId: uuid("strain_id").notNull(),
+    substrateRecipeId: uuid("substrate_recipe_id"),
+    fruitingMethodId: uuid("fruiting_method_id"),
+    trialArmId: uuid("trial_arm_id"),
+    flush: integer("flush").notNull(),
+    /** Finished blocks with fruit in this cell (the same for every flush of the cell). */
+    finishedBlocks: integer("finished_blocks").notNull(),
+    blocksFruiting: integer("blocks_fruiting").notNull(),
+    shareSum: doublePrecision("share_sum").notNull(),
+    shareSquares: doublePrecision("share_squares").notNull(),
+    cumulativeSum: doublePrecision("cumulative_sum").notNull(),
+    cumulativeSquares: doublePrecision("cumulative_squares").notNull(),
+  },
+  (t) => [index("farm_flush_statistics_farm_idx").on(t.farmId), index("farm_flush_statistics_species_idx").on(t.speciesId)],
+);
+
+/** Whether a farm's statistics are being recomputed: pending while requested > completed. */
+export const pooledRefreshState = pgTable("pooled_refresh_state", {
+  farmId: uuid("farm_id").primaryKey().references(() => farms.id, { onDelete: "cascade" }),
+  requested: integer("requested").notNull().default(0),
+  completed: integer("completed").notNull().default(0),
+  requestedAt: timestamp("requested_at", { withTimezone: true }).notNull().defaultNow(),
+  completedAt: timestamp("completed_at", { withTimezone: true }),
+});

@@ -1,0 +1,201 @@
+import "server-only";
+import { and, asc, desc, eq, sql } from "drizzle-orm";
+import { withFarmContext, type FarmContext } from "@/db/client";
+import { blocks, harvests, strains, substrateRecipes, trialArms, trials, uploads, users, valueChanges } from "@/db/schema";
+import { recordAudit } from "@/lib/data/audit";
+import { refreshPooledStatistics } from "@/lib/data/pooled-refresh";
+import { AppError } from "@/lib/errors";
+import { blockFigures, nextFlush } from "@/lib/season-logs/block-figures";
+
+export interface BlockRow {
+  id: string;
+  code: string;
+  strainCode: string;
+  recipeCode: string | null;
+  inoculatedOn: string | null;
+  wetMassG: number | null;
+  moisture: number | null;
+  flushes: number;
+  totalFreshG: number;
+  biologicalEfficiency: number | null;
+  contaminated: boolean;
+  massLoss: number | null;
+  trial: string | null;
+}
+
+export interface BlockDetail extends BlockRow {
+  spentMassG: number | null;
+  contaminatedOn: string | null;
+  notes: string;
+  harvests: { flush: number; harvestedOn: string | null; freshMassG: number; dryMassG: number | null; freshMassAsWritten: string | null }[];
+  history: { id: number; flush: number | null; field: string; oldValue: string | null; newValue: string | null; changedAt: string; changedBy: string | null; fileName: string | null }[];
+}
+
+export interface HarvestTarget {
+  code: string;
+  nextFlush: number;
+}
+
+function farmOf(context: FarmContext): FarmContext & { farmId: string; userId: string } {
+  if (!context.farmId || !context.userId) throw new AppError("forbidden", "Only a farm's own people can see its blocks.");
+  return context as FarmContext & { farmId: string; userId: string };
+}
+
+const blockColumns = {
+  id: blocks.id,
+  code: blocks.code,
+  strainCode: strains.code,
+  recipeCode: substrateRecipes.code,
+  inoculatedOn: blocks.inoculatedOn,
+  wetMassG: blocks.wetMassG,
+  moisture: blocks.moisture,
+  contaminated: blocks.contaminated,
+  contaminatedOn: blocks.contaminatedOn,
+  spentMassG: blocks.spentMassG,
+  notes: blocks.notes,
+  trial: sql<string | null>`case when ${trials.code} is null then null else ${trials.code} || ' · arm ' || ${trialArms.label} end`,
+  flushes: sql<number>`(select count(*)::int from ${harvests} h where h.block_id = ${blocks.id})`,
+  totalFreshG: sql<number>`(select coalesce(sum(h.fresh_mass_g), 0)::float8 from ${harvests} h where h.block_id = ${blocks.id})`,
+};
+
+type BlockSelection = { id: string; code: string; strainCode: string; recipeCode: string | null; inoculatedOn: string | null; wetMassG: number | null; moisture: number | null; contaminated: boolean; contaminatedOn: string | null; spentMassG: number | null; notes: string; trial: string | null; flushes: number; totalFreshG: number };
+
+function withFigures(row: BlockSelection): BlockRow & { spentMassG: number | null; contaminatedOn: string | null; notes: string } {
+  const totalFreshG = Number(row.totalFreshG);
+  return { ...row, flushes: Number(row.flushes), totalFreshG, ...blockFigures({ wetMassG: row.wetMassG, moisture: row.moisture, totalFreshG, spentMassG: row.spentMassG }) };
+}
+
+/** The farm's blocks with flush count, total fresh weight, biological efficiency and mass loss. */
+export async function listBlocks(context: FarmContext): Promise<BlockRow[]> {
+  const farm = farmOf(context);
+  const rows = await withFarmContext(farm, (tx) =>
+    tx
+      .select(blockColumns)
+      .from(blocks)
+      .innerJoin(strains, eq(strains.id, blocks.strainId))
+      .leftJoin(substrateRecipes, eq(substrateRecipes.id, blocks.substrateRecipeId))
+      .leftJoin(trialArms, eq(trialArms.id, blocks.trialArmId))
+      .leftJoin(trials, eq(trials.id, trialArms.trialId))
+      .where(eq(blocks.farmId, farm.farmId))
+      .orderBy(asc(blocks.code)),
+  );
+  return rows.map((row) => {
+    const full = withFigures(row as BlockSelection);
+    return {
+      id: full.id,
+      code: full.code,
+      strainCode: full.strainCode,
+      recipeCode: full.recipeCode,
+      inoculatedOn: full.inoculatedOn,
+      wetMassG: full.wetMassG,
+      moisture: full.moisture,
+      flushes: full.flushes,
+      totalFreshG: full.totalFreshG,
+      biologicalEfficiency: full.biologicalEfficiency,
+      contaminated: full.contaminated,
+      massLoss: full.massLoss,
+      trial: full.trial,
+    };
+  });
+}
+
+/** One block of the farm with its flushes and every value an upload or correction replaced. */
+export async function getBlock(context: FarmContext, blockId: string): Promise<BlockDetail> {
+  const farm = farmOf(context);
+  if (!/^[0-9a-f-]{36}$/i.test(blockId)) throw new AppError("not_found", "There is no such block on your farm. Pick it from Blocks & harvests.");
+  return withFarmContext(farm, async (tx) => {
+    const [row] = await tx
+      .select(blockColumns)
+      .from(blocks)
+      .innerJoin(strains, eq(strains.id, blocks.strainId))
+      .leftJoin(substrateRecipes, eq(substrateRecipes.id, blocks.substrateRecipeId))
+      .leftJoin(trialArms, eq(trialArms.id, blocks.trialArmId))
+      .leftJoin(trials, eq(trials.id, trialArms.trialId))
+      .where(and(eq(blocks.farmId, farm.farmId), eq(blocks.id, blockId)));
+    if (!row) throw new AppError("not_found", "There is no such block on your farm. Pick it from Blocks & harvests.");
+    const flushes = await tx
+      .select({ flush: harvests.flush, harvestedOn: harvests.harvestedOn, freshMassG: harvests.freshMassG, dryMassG: harvests.dryMassG, freshMassAsWritten: harvests.freshMassAsWritten })
+      .from(harvests)
+      .where(eq(harvests.blockId, blockId))
+      .orderBy(asc(harvests.flush));
+    const history = await tx
+      .select({
+        id: valueChanges.id,
+        flush: valueChanges.flush,
+        field: valueChanges.field,
+        oldValue: valueChanges.oldValue,
+        newValue: valueChanges.newValue,
+        changedAt: valueChanges.changedAt,
+        changedBy: users.name,
+        fileName: uploads.fileName,
+      })
+      .from(valueChanges)
+      .leftJoin(users, eq(users.id, valueChanges.changedBy))
+      .leftJoin(uploads, eq(uploads.id, valueChanges.uploadId))
+      .where(eq(valueChanges.blockId, blockId))
+      .orderBy(desc(valueChanges.changedAt), desc(valueChanges.id));
+    return {
+      ...withFigures(row as BlockSelection),
+      harvests: flushes,
+      history: history.map((change) => ({ ...change, changedAt: change.changedAt.toISOString() })),
+    };
+  });
+}
+
+/** Block codes for the quick harvest form, each with the flush to suggest next. */
+export async function listHarvestTargets(context: FarmContext): Promise<HarvestTarget[]> {
+  const farm = farmOf(context);
+  const rows = await withFarmContext(farm, (tx) =>
+    tx
+      .select({ code: blocks.code, flushes: sql<number[]>`coalesce(array_agg(${harvests.flush}) filter (where ${harvests.flush} is not null), '{}')` })
+      .from(blocks)
+      .leftJoin(harvests, eq(harvests.blockId, blocks.id))
+      .where(and(eq(blocks.farmId, farm.farmId), eq(blocks.contaminated, false)))
+      .groupBy(blocks.code)
+      .orderBy(asc(blocks.code)),
+  );
+  return rows.map((row) => ({ code: row.code, nextFlush: nextFlush(row.flushes) }));
+}
+
+/** Records one flush from the quick form. A flush already recorded is refused, not overwritten. */
+export async function recordHarvest(
+  context: FarmContext,
+  input: { blockCode: string; flush: number; harvestedOn: string; freshGrams: number; asWritten: string; unit: string },
+): Promise<{ blockId: string }> {
+  const farm = farmOf(context);
+  const result = await withFarmContext(farm, async (tx) => {
+    // The same per-farm lock as a season-log commit, so a commit never plans around a flush recorded meanwhile.
+    await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`season-log:${farm.farmId}`}, 0))`);
+    const [block] = await tx.select({ id: blocks.id, code: blocks.code }).from(blocks).where(and(eq(blocks.farmId, farm.farmId), eq(blocks.code, input.blockCode.trim())));
+    if (!block) {
+      throw new AppError("invalid_input", "No block with that code.", [
+        { field: "blockCode", message: `Your farm has no block "${input.blockCode}". Pick a code from the list, or upload the block in a season log first.` },
+      ]);
+    }
+    const [existing] = await tx.select({ freshMassG: harvests.freshMassG }).from(harvests).where(and(eq(harvests.blockId, block.id), eq(harvests.flush, input.flush)));
+    if (existing) {
+      throw new AppError("invalid_input", "That flush is already recorded.", [
+        { field: "flush", message: `Flush ${input.flush} of ${block.code} is already recorded. Use the next flush number, or correct the weight through a season log.` },
+      ]);
+    }
+    await tx.insert(harvests).values({
+      farmId: farm.farmId,
+      blockId: block.id,
+      flush: input.flush,
+      harvestedOn: input.harvestedOn,
+      freshMassG: input.freshGrams,
+      freshMassAsWritten: input.asWritten,
+      freshMassUnit: input.unit,
+    });
+    await recordAudit(tx, {
+      action: "harvest.recorded",
+      subject: `${block.code} flush ${input.flush}`,
+      farmId: farm.farmId,
+      actorUserId: farm.userId,
+      details: { blockId: block.id, flush: input.flush, freshGrams: input.freshGrams },
+    });
+    return { blockId: block.id };
+  });
+  void refreshPooledStatistics(farm.farmId).catch((error: unknown) => console.error("Refreshing pooled statistics failed", error));
+  return result;
+}

@@ -1,0 +1,57 @@
+import "server-only";
+import { sql } from "drizzle-orm";
+import { withFarmContext } from "@/db/client";
+import { farmContextOf, type Member } from "@/lib/data/members";
+import { getCoopStrainBenchmarks, getPooledUpdating } from "@/lib/data/pooled-results";
+import { AppError } from "@/lib/errors";
+import { summariseOwnFarm, type OwnBlock, type OwnStrainSummary } from "@/lib/pooled";
+
+export interface MyFarmPage {
+  farmName: string;
+  displayUnits: "metric" | "imperial";
+  minimumFarms: number;
+  updating: boolean;
+  seasonStartedOn: string;
+  strains: OwnStrainSummary[];
+}
+
+/** This season (blocks inoculated in the last 365 days, or with no date) of the member's own farm, beside the co-op. */
+export async function getMyFarm(member: Member): Promise<MyFarmPage> {
+  if (!member.farmId) throw new AppError("forbidden", "My farm is for farm managers and growers; your role belongs to the co-op as a whole.");
+  const seasonStartedOn = new Date(Date.now() - 365 * 86_400_000).toISOString().slice(0, 10);
+  const blocks = await withFarmContext(farmContextOf(member), async (tx) => {
+    const result = await tx.execute<{
+      id: string; strain_id: string; strain_name: string; species_name: string; contaminated: boolean;
+      wet_g: number | null; moisture: number | null; spent_g: number | null; harvests: { flush: number; freshG: number }[] | null;
+    }>(sql`
+      select b.id, b.strain_id, s.name as strain_name, sp.common_name as species_name, b.contaminated,
+        b.wet_mass_g::float8 as wet_g, b.moisture::float8 as moisture, b.spent_mass_g::float8 as spent_g,
+        (select json_agg(json_build_object('flush', h.flush, 'freshG', h.fresh_mass_g::float8) order by h.flush)
+           from harvests h where h.block_id = b.id) as harvests
+      from blocks b
+      join strains s on s.id = b.strain_id
+      join species sp on sp.id = s.species_id
+      where b.inoculated_on is null or b.inoculated_on >= ${seasonStartedOn}::date`);
+    return result.rows.map<OwnBlock>((row) => ({
+      id: row.id,
+      strainId: row.strain_id,
+      strainName: row.strain_name,
+      speciesName: row.species_name,
+      contaminated: row.contaminated,
+      wetG: row.wet_g === null ? null : Number(row.wet_g),
+      moisture: row.moisture === null ? null : Number(row.moisture),
+      spentG: row.spent_g === null ? null : Number(row.spent_g),
+      harvests: row.harvests ?? [],
+    }));
+  });
+  const strainIds = [...new Set(blocks.map((block) => block.strainId))];
+  const { minimumFarms, byStrain } = await getCoopStrainBenchmarks(strainIds);
+  return {
+    farmName: member.farmName ?? "Your farm",
+    displayUnits: member.displayUnits,
+    minimumFarms,
+    updating: await getPooledUpdating(),
+    seasonStartedOn,
+    strains: summariseOwnFarm(blocks, byStrain, minimumFarms),
+  };
+}

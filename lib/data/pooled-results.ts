@@ -1,0 +1,240 @@
+import "server-only";
+import { randomUUID } from "node:crypto";
+import { and, asc, eq, inArray, sql } from "drizzle-orm";
+import { withAnalystAccess, withFarmContext } from "@/db/client";
+import { cooperativeSettings, farmFlushStatistics, farmStrainStatistics, species, strains, substrateRecipes, treatments } from "@/db/schema";
+import { farmContextOf, type Member } from "@/lib/data/members";
+import { AppError } from "@/lib/errors";
+import { addBins, buildPooledResults, pooledFlushProfile, type FlushWindow, type PooledFilters, type PooledResults } from "@/lib/pooled";
+import type { FlushProfile } from "@/lib/stats";
+import { seededRandom } from "@/lib/random";
+
+export interface PooledResultsQuery {
+  speciesId?: string;
+  substrateRecipeId?: string;
+  fruitingMethodId?: string;
+  flushWindow: FlushWindow;
+}
+
+export interface PooledResultsPage {
+  options: {
+    species: { id: string; name: string }[];
+    recipes: { id: string; name: string }[];
+    fruitingMethods: { id: string; name: string }[];
+  };
+  speciesId: string | null;
+  flushWindow: FlushWindow;
+  substrateRecipeId: string | null;
+  fruitingMethodId: string | null;
+  updating: boolean;
+  results: PooledResults | null;
+  /** The viewer's own blocks' biological efficiency, for the boxplot overlay (farm people only). */
+  ownBlocks: { strainId: string; efficiency: number }[];
+}
+
+/** Whether any farm's statistics are still being recomputed after an upload. */
+export async function getPooledUpdating(): Promise<boolean> {
+  return withAnalystAccess(async (tx) => {
+    const result = await tx.execute<{ pending: boolean }>(sql`select exists (select 1 from pooled_refresh_state where requested > completed) as pending`);
+    return Boolean(result.rows[0]?.pending);
+  });
+}
+
+export async function getCooperativePrivacySettings(): Promise<{ minimumFarms: number; showPerFarmEstimates: boolean }> {
+  return withAnalystAccess(async (tx) => {
+    const [row] = await tx.select({ minimumFarms: cooperativeSettings.minimumFarms, showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates }).from(cooperativeSettings);
+    return row ?? { minimumFarms: 3, showPerFarmEstimates: false };
+  });
+}
+
+/**
+ * The Co-op results for one species and flush window. Per-farm statistics are read through the
+ * analyst role and leave this function only as lib/pooled aggregates; the viewer's own blocks
+ * come through their own farm context.
+ */
+export async function getPooledResults(member: Member, query: PooledResultsQuery): Promise<PooledResultsPage> {
+  const { version, updating } = await getStatisticsVersion();
+  const key = JSON.stringify([query.speciesId ?? null, query.substrateRecipeId ?? null, query.fruitingMethodId ?? null, query.flushWindow, member.farmId]);
+  let cached = resultsCache.get(key);
+  if (!cached || cached.version !== version) {
+    cached = { version, page: await computePooledResults(member, query) };
+    if (resultsCache.size >= 500) resultsCache.delete(resultsCache.keys().next().value!);
+    resultsCache.set(key, cached);
+  }
+  const { page } = cached;
+  const filters: PooledFilters = {
+    ...(query.substrateRecipeId ? { substrateRecipeId: query.substrateRecipeId } : {}),
+    ...(query.fruitingMethodId ? { fruitingMethodId: query.fruitingMethodId } : {}),
+  };
+  const ownBlocks = member.farmId && page.speciesId ? await listOwnBlockEfficiencies(member, page.speciesId, query.flushWindow, filters) : [];
+  return { ...page, updating, ownBlocks };
+}
+
+/**
+ * Pooled results change only when a refresh completes or the co-op's settings or strain list
+ * change, so each process keeps the last computation per query and viewer's farm (the forest
+ * chart labels the viewer's own farm) and recomputes when this version moves on.
+ */
+const resultsCache = new Map<string, { version: string; page: Omit<PooledResultsPage, "ownBlocks" | "updating"> }>();
+
+async function getStatisticsVersion(): Promise<{ version: string; updating: boolean }> {
+  return withAnalystAccess(async (tx) => {
+    const result = await tx.execute<{ version: string; updating: boolean }>(sql`
+      select concat_ws('|',
+          (select coalesce(sum(requested), 0) || ':' || coalesce(sum(completed), 0) from pooled_refresh_state),
+          (select minimum_farms || ':' || show_per_farm_estimates from cooperative_settings),
+          (select count(*) || ':' || coalesce(max(created_at)::text, '') from strains)) as version,
+        exists (select 1 from pooled_refresh_state where requested > completed) as updating`);
+    return { version: result.rows[0].version, updating: Boolean(result.rows[0].updating) };
+  });
+}
+
+async function computePooledResults(member: Member, query: PooledResultsQuery): Promise<Omit<PooledResultsPage, "ownBlocks" | "updating">> {
+  const analysed = await withAnalystAccess(async (tx) => {
+    const [settings] = await tx.select().from(cooperativeSettings);
+    const speciesList = await tx.select({ id: species.id, name: species.commonName }).from(species).orderBy(asc(species.commonName));
+    const speciesId = query.speciesId ?? speciesList[0]?.id ?? null;
+    if (query.speciesId && !speciesList.some((entry) => entry.id === query.speciesId)) {
+      throw new AppError("not_found", "That species is not in the co-op's list. Choose one from the list.");
+    }
+    const recipes = await tx.select({ id: substrateRecipes.id, name: substrateRecipes.name }).from(substrateRecipes).orderBy(asc(substrateRecipes.name));
+    const methods = await tx
+      .select({ id: treatments.id, name: treatments.name })
+      .from(treatments)
+      .where(eq(treatments.kind, "fruiting_method"))
+      .orderBy(asc(treatments.name));
+    if (!speciesId) return { settings, speciesList, recipes, methods, speciesId, rows: [], flushRows: [], strainList: [] };
+    const strainList = await tx.select({ id: strains.id, name: strains.name }).from(strains).where(eq(strains.speciesId, speciesId));
+    const rows = await tx
+      .select({
+        farmId: farmStrainStatistics.farmId,
+        strainId: farmStrainStatistics.strainId,
+        substrateRecipeId: farmStrainStatistics.substrateRecipeId,
+        fruitingMethodId: farmStrainStatistics.fruitingMethodId,
+        blocks: farmStrainStatistics.blocks,
+        blocksContaminated: farmStrainStatistics.blocksContaminated,
+        efficiencyBlocks: farmStrainStatistics.efficiencyBlocks,
+        efficiencySum: farmStrainStatistics.efficiencySum,
+        efficiencySquares: farmStrainStatistics.efficiencySquares,
+        efficiencyBins: farmStrainStatistics.efficiencyBins,
+        firstHarvestBlocks: farmStrainStatistics.firstHarvestBlocks,
+        firstHarvestDaysSum: farmStrainStatistics.firstHarvestDaysSum,
+      })
+      .from(farmStrainStatistics)
+      .where(and(eq(farmStrainStatistics.speciesId, speciesId), eq(farmStrainStatistics.flushWindow, query.flushWindow)));
+    const flushRows = await tx
+      .select({
+        farmId: farmFlushStatistics.farmId,
+        strainId: farmFlushStatistics.strainId,
+        substrateRecipeId: farmFlushStatistics.substrateRecipeId,
+        fruitingMethodId: farmFlushStatistics.fruitingMethodId,
+        flush: farmFlushStatistics.flush,
+        finishedBlocks: farmFlushStatistics.finishedBlocks,
+        blocksFruiting: farmFlushStatistics.blocksFruiting,
+        shareSum: farmFlushStatistics.shareSum,
+        shareSquares: farmFlushStatistics.shareSquares,
+        cumulativeSum: farmFlushStatistics.cumulativeSum,
+        cumulativeSquares: farmFlushStatistics.cumulativeSquares,
+      })
+      .from(farmFlushStatistics)
+      .where(eq(farmFlushStatistics.speciesId, speciesId));
+    return { settings, speciesList, recipes, methods, speciesId, rows, flushRows, strainList };
+  });
+
+  const filters: PooledFilters = {
+    ...(query.substrateRecipeId ? { substrateRecipeId: query.substrateRecipeId } : {}),
+    ...(query.fruitingMethodId ? { fruitingMethodId: query.fruitingMethodId } : {}),
+  };
+  const results = analysed.speciesId
+    ? buildPooledResults({
+        rows: analysed.rows,
+        flushRows: analysed.flushRows,
+        strains: analysed.strainList,
+        filters,
+        minimumFarms: analysed.settings?.minimumFarms ?? 3,
+        showPerFarmEstimates: analysed.settings?.showPerFarmEstimates ?? false,
+        viewerFarmId: member.farmId,
+        // A fresh order on every computation, so a row's place says nothing about which farm it is.
+        random: seededRandom(randomUUID()),
+      })
+    : null;
+
+  return {
+    options: { species: analysed.speciesList, recipes: analysed.recipes, fruitingMethods: analysed.methods },
+    speciesId: analysed.speciesId,
+    flushWindow: query.flushWindow,
+    substrateRecipeId: query.substrateRecipeId ?? null,
+    fruitingMethodId: query.fruitingMethodId ?? null,
+    results,
+  };
+}
+
+const windowLastFlush: Record<FlushWindow, number> = { all: 1_000_000, "1-2": 2, "1": 1 };
+
+/** The viewer's own blocks' BE under the same definition as the pooled statistics (row-level security limits it to their farm). */
+async function listOwnBlockEfficiencies(member: Member, speciesId: string, window: FlushWindow, filters: PooledFilters) {
+  return withFarmContext(farmContextOf(member), async (tx) => {
+    const result = await tx.execute<{ strain_id: string; efficiency: number }>(sql`
+      select b.strain_id, 100 * sum(h.fresh_mass_g)::float8 / (b.wet_mass_g * (1 - b.moisture))::float8 as efficiency
+      from blocks b
+      join strains s on s.id = b.strain_id
+      join harvests h on h.block_id = b.id and h.flush <= ${windowLastFlush[window]}
+      where s.species_id = ${speciesId} and not b.contaminated and b.wet_mass_g > 0 and b.moisture is not null
+        and (${filters.substrateRecipeId ?? null}::uuid is null or b.substrate_recipe_id = ${filters.substrateRecipeId ?? null}::uuid)
+        and (${filters.fruitingMethodId ?? null}::uuid is null or b.fruiting_method_id = ${filters.fruitingMethodId ?? null}::uuid)
+      group by b.id, b.strain_id, b.wet_mass_g, b.moisture`);
+    return result.rows.map((row) => ({ strainId: row.strain_id, efficiency: Number(row.efficiency) }));
+  });
+}
+
+export interface CoopStrainBenchmark {
+  /** Block BE bins over at least the minimum number of farms, or null when suppressed. */
+  bins: Record<string, number> | null;
+  /** The pooled flush profile over at least the minimum number of farms, or null. */
+  profile: FlushProfile | null;
+}
+
+/**
+ * Per strain, the co-op's unfiltered block-BE distribution and flush profile (all flushes),
+ * each only where at least the minimum number of farms contributed. For My farm's percentile
+ * and forecast; the bins never leave the server, only figures computed from them.
+ */
+export async function getCoopStrainBenchmarks(strainIds: string[]): Promise<{ minimumFarms: number; byStrain: Map<string, CoopStrainBenchmark> }> {
+  if (strainIds.length === 0) return { minimumFarms: 3, byStrain: new Map() };
+  return withAnalystAccess(async (tx) => {
+    const [settings] = await tx.select({ minimumFarms: cooperativeSettings.minimumFarms }).from(cooperativeSettings);
+    const minimumFarms = settings?.minimumFarms ?? 3;
+    const rows = await tx
+      .select({ farmId: farmStrainStatistics.farmId, strainId: farmStrainStatistics.strainId, efficiencyBlocks: farmStrainStatistics.efficiencyBlocks, bins: farmStrainStatistics.efficiencyBins })
+      .from(farmStrainStatistics)
+      .where(and(inArray(farmStrainStatistics.strainId, strainIds), eq(farmStrainStatistics.flushWindow, "all")));
+    const flushRows = await tx
+      .select({
+        farmId: farmFlushStatistics.farmId,
+        strainId: farmFlushStatistics.strainId,
+        substrateRecipeId: farmFlushStatistics.substrateRecipeId,
+        fruitingMethodId: farmFlushStatistics.fruitingMethodId,
+        flush: farmFlushStatistics.flush,
+        finishedBlocks: farmFlushStatistics.finishedBlocks,
+        blocksFruiting: farmFlushStatistics.blocksFruiting,
+        shareSum: farmFlushStatistics.shareSum,
+        shareSquares: farmFlushStatistics.shareSquares,
+        cumulativeSum: farmFlushStatistics.cumulativeSum,
+        cumulativeSquares: farmFlushStatistics.cumulativeSquares,
+      })
+      .from(farmFlushStatistics)
+      .where(inArray(farmFlushStatistics.strainId, strainIds));
+    const byStrain = new Map<string, CoopStrainBenchmark>();
+    for (const strainId of strainIds) {
+      const strainRows = rows.filter((row) => row.strainId === strainId && row.efficiencyBlocks > 0);
+      const binFarms = new Set(strainRows.map((row) => row.farmId)).size;
+      const strainFlushRows = flushRows.filter((row) => row.strainId === strainId && row.finishedBlocks > 0);
+      const flushFarms = new Set(strainFlushRows.map((row) => row.farmId)).size;
+      byStrain.set(strainId, {
+        bins: binFarms >= minimumFarms ? strainRows.reduce<Record<string, number>>((sum, row) => addBins(sum, row.bins), {}) : null,
+        profile: flushFarms >= minimumFarms ? pooledFlushProfile(strainFlushRows) : null,
+      });
+    }
+    return { minimumFarms, byStrain };
+  });
+}

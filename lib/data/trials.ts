@@ -1,0 +1,599 @@
+import "server-only";
+import { randomBytes } from "node:crypto";
+import { and, asc, desc, eq, inArray, like, sql } from "drizzle-orm";
+import { withAnalystAccess, withFarmContext, type Transaction } from "@/db/client";
+import {
+  auditEvents,
+  blocks,
+  cooperativeSettings,
+  farms,
+  harvests,
+  mailMessages,
+  species,
+  strains,
+  treatments,
+  trialArms,
+  trialBlockAssignments,
+  trialEnrolments,
+  trials,
+  users,
+} from "@/db/schema";
+import { recordAudit } from "@/lib/data/audit";
+import { farmContextOf, type Member } from "@/lib/data/members";
+import { AppError } from "@/lib/errors";
+import {
+  enrolmentConfirmationMail,
+  resultsPublishedMail,
+  trialInvitationMail,
+  trialReminderMail,
+  type TrialMail,
+} from "@/lib/mail/messages/trials";
+import { sendMail } from "@/lib/mail/send";
+import {
+  analyseTrial,
+  assertMove,
+  blockCodePrefix,
+  isDesignEditable,
+  permutedBlockList,
+  TrialRuleError,
+  trialOutcomeRecords,
+  trialStatusLabels,
+  type StoredTrialResults,
+  type TrialStatus,
+} from "@/lib/trials";
+import { signOptOutToken, verifyOptOutToken } from "@/lib/trials/reminder-opt-out";
+
+export interface ArmInput {
+  label: string;
+  strainId: string;
+  treatmentId: string | null;
+  isReference: boolean;
+}
+
+export interface TrialDesignInput {
+  trialId?: string;
+  title: string;
+  question: string;
+  speciesId: string;
+  arms: ArmInput[];
+  outcomeFlushes: number;
+  contaminatedHandling: "exclude" | "count_as_zero";
+  protocolNotes: string;
+  enrolmentDeadline: string | null;
+  smallestDifference: number | null;
+  expectedSd: number | null;
+  plannedFarms: number | null;
+  expectedLoss: number | null;
+}
+
+export interface TrialArmView {
+  id: string;
+  label: string;
+  isReference: boolean;
+  strainId: string;
+  strainCode: string;
+  strainName: string;
+  treatmentId: string | null;
+  treatmentName: string | null;
+  treatmentKind: string | null;
+}
+
+export type StoredResults = StoredTrialResults;
+
+const appUrl = () => (process.env.APP_URL ?? "http://127.0.0.1:3000").replace(/\/$/, "");
+const optOutSecret = () => process.env.AUTH_SECRET ?? "";
+
+function ruleError(error: unknown): never {
+  if (error instanceof TrialRuleError) throw new AppError("conflict", error.message);
+  throw error;
+}
+
+function actor(member: Member) {
+  return { actorUserId: member.id, actorLabel: member.name };
+}
+
+// ——— Reading ———
+
+export async function listTrials(member: Member) {
+  return withFarmContext(farmContextOf(member), async (tx) => {
+    const rows = await tx
+      .select({
+        id: trials.id,
+        code: trials.code,
+        title: trials.title,
+        status: trials.status,
+        speciesName: species.commonName,
+        enrolmentDeadline: trials.enrolmentDeadline,
+        publishedAt: trials.publishedAt,
+      })
+      .from(trials)
+      .innerJoin(species, eq(species.id, trials.speciesId))
+      .orderBy(desc(trials.createdAt));
+    const visible = member.role === "coordinator" ? rows : rows.filter((row) => row.status !== "draft");
+    if (!member.farmId) return visible.map((row) => ({ ...row, enrolmentStatus: null as string | null }));
+    const enrolments = await tx.select({ trialId: trialEnrolments.trialId, status: trialEnrolments.status }).from(trialEnrolments);
+    const byTrial = new Map(enrolments.map((enrolment) => [enrolment.trialId, enrolment.status as string]));
+    return visible.map((row) => ({ ...row, enrolmentStatus: byTrial.get(row.id) ?? null }));
+  });
+}
+
+async function loadTrial(tx: Transaction, member: Member, trialId: string) {
+  const [trial] = await tx
+    .select({
+      id: trials.id,
+      code: trials.code,
+      title: trials.title,
+      question: trials.question,
+      status: trials.status,
+      speciesId: trials.speciesId,
+      speciesName: species.commonName,
+      outcomeFlushes: trials.outcomeFlushes,
+      contaminatedHandling: trials.contaminatedHandling,
+      protocolNotes: trials.protocolNotes,
+      enrolmentDeadline: trials.enrolmentDeadline,
+      smallestDifference: trials.smallestDifference,
+      expectedSd: trials.expectedSd,
+      plannedFarms: trials.plannedFarms,
+      expectedLoss: trials.expectedLoss,
+      publishedResults: trials.publishedResults,
+      publishedAt: trials.publishedAt,
+    })
+    .from(trials)
+    .innerJoin(species, eq(species.id, trials.speciesId))
+    .where(eq(trials.id, trialId));
+  if (!trial || (trial.status === "draft" && member.role !== "coordinator")) {
+    throw new AppError("not_found", "There is no such trial, or it is still a draft. Go back to Trials and pick one from the list.");
+  }
+  const arms: TrialArmView[] = await tx
+    .select({
+      id: trialArms.id,
+      label: trialArms.label,
+      isReference: trialArms.isReference,
+      strainId: trialArms.strainId,
+      strainCode: strains.code,
+      strainName: strains.name,
+      treatmentId: trialArms.treatmentId,
+      treatmentName: treatments.name,
+      treatmentKind: treatments.kind,
+    })
+    .from(trialArms)
+    .innerJoin(strains, eq(strains.id, trialArms.strainId))
+    .leftJoin(treatments, eq(treatments.id, trialArms.treatmentId))
+    .where(eq(trialArms.trialId, trialId))
+    .orderBy(asc(trialArms.position));
+  return { ...trial, status: trial.status as TrialStatus, arms, results: (trial.publishedResults as StoredResults | null) ?? null };
+}
+
+export type TrialView = Awaited<ReturnType<typeof loadTrial>>;
+
+export async function getTrial(member: Member, trialId: string): Promise<TrialView> {
+  if (!/^[0-9a-f-]{36}$/i.test(trialId)) throw new AppError("not_found", "There is no such trial. Go back to Trials and pick one from the list.");
+  return withFarmContext(farmContextOf(member), (tx) => loadTrial(tx, member, trialId));
+}
+
+/** The coordinator's record of every state move, newest first (audit events are co-op level). */
+export async function listTrialHistory(member: Member, trialId: string) {
+  return withFarmContext(farmContextOf(member), (tx) =>
+    tx
+      .select({ occurredAt: auditEvents.occurredAt, action: auditEvents.action, actorLabel: auditEvents.actorLabel, details: auditEvents.details })
+      .from(auditEvents)
+      .where(and(like(auditEvents.action, "trial.%"), sql`${auditEvents.details}->>'trialId' = ${trialId}`))
+      .orderBy(desc(auditEvents.occurredAt)),
+  );
+}
+
+export async function listDesignOptions(member: Member) {
+  return withFarmContext(farmContextOf(member), async (tx) => {
+    const speciesRows = await tx.select({ id: species.id, name: species.commonName }).from(species).where(eq(species.status, "active")).orderBy(asc(species.commonName));
+    const strainRows = await tx
+      .select({ id: strains.id, code: strains.code, name: strains.name, speciesId: strains.speciesId })
+      .from(strains)
+      .where(eq(strains.status, "active"))
+      .orderBy(asc(strains.code));
+    const treatmentRows = await tx
+      .select({ id: treatments.id, name: treatments.name, kind: treatments.kind })
+      .from(treatments)
+      .where(eq(treatments.status, "active"))
+      .orderBy(asc(treatments.name));
+    return { species: speciesRows, strains: strainRows, treatments: treatmentRows };
+  });
+}
+
+/**
+ * The spread between blocks the co-op has seen per species: BE over the first two flushes of
+ * uncontaminated blocks, pooled after taking out each farm's own mean. Only aggregates leave
+ * the analyst role, and only for species with at least the co-op's minimum number of farms.
+ */
+export async function listBlockSpreadBySpecies(): Promise<Record<string, { sd: number; blocks: number; farms: number }>> {
+  return withAnalystAccess(async (tx) => {
+    const result = await tx.execute(sql`
+      WITH block_be AS (
+        SELECT s.species_id, b.farm_id,
+               100 * coalesce(sum(h.fresh_mass_g) FILTER (WHERE h.flush <= 2), 0) / (b.wet_mass_g * (1 - b.moisture)) AS be
+        FROM blocks b
+        JOIN strains s ON s.id = b.strain_id
+        LEFT JOIN harvests h ON h.block_id = b.id
+        WHERE NOT b.contaminated AND b.wet_mass_g > 0 AND b.moisture IS NOT NULL
+        GROUP BY s.species_id, b.id, b.farm_id, b.wet_mass_g, b.moisture
+        HAVING count(h.id) > 0
+      ), centred AS (
+        SELECT species_id, farm_id, be - avg(be) OVER (PARTITION BY species_id, farm_id) AS deviation FROM block_be
+      )
+      SELECT species_id, count(*)::int AS blocks, count(DISTINCT farm_id)::int AS farms,
+             sqrt(sum(deviation * deviation) / nullif(count(*) - count(DISTINCT farm_id), 0))::float8 AS sd
+      FROM centred GROUP BY species_id`);
+    const [settings] = await tx.select({ minimumFarms: cooperativeSettings.minimumFarms }).from(cooperativeSettings);
+    const minimum = settings?.minimumFarms ?? 3;
+    const spread: Record<string, { sd: number; blocks: number; farms: number }> = {};
+    for (const row of result.rows as { species_id: string; blocks: number; farms: number; sd: number | null }[]) {
+      if (row.sd !== null && row.farms >= minimum) spread[row.species_id] = { sd: Number(row.sd), blocks: row.blocks, farms: row.farms };
+    }
+    return spread;
+  });
+}
+
+// ——— Design ———
+
+async function nextTrialCode(tx: Transaction): Promise<string> {
+  const year = new Date().getUTCFullYear();
+  const rows = await tx.select({ code: trials.code }).from(trials).where(like(trials.code, `T-${year}-%`));
+  const highest = rows.reduce((max, row) => Math.max(max, Number(row.code.split("-")[2]) || 0), 0);
+  return `T-${year}-${String(highest + 1).padStart(2, "0")}`;
+}
+
+export async function saveTrialDraft(member: Member, input: TrialDesignInput): Promise<{ id: string; code: string }> {
+  return withFarmContext(farmContextOf(member), async (tx) => {
+    const strainRows = await tx
+      .select({ id: strains.id, speciesId: strains.speciesId, code: strains.code })
+      .from(strains)
+      .where(inArray(strains.id, input.arms.map((arm) => arm.strainId)));
+    input.arms.forEach((arm, index) => {
+      const strain = strainRows.find((row) => row.id === arm.strainId);
+      if (!strain) throw new AppError("invalid_input", `Arm ${index + 1}: pick a strain from the registry.`, [{ field: "arms", message: `Arm ${index + 1}: pick a strain from the registry.` }]);
+      if (strain.speciesId !== input.speciesId) {
+        const message = `Arm ${index + 1} (${arm.label}): strain ${strain.code} is not of the trial's species; pick one of its strains.`;
+        throw new AppError("invalid_input", message, [{ field: "arms", message }]);
+      }
+    });
+    const values = {
+      title: input.title,
+      question: input.question,
+      speciesId: input.speciesId,
+      outcomeFlushes: input.outcomeFlushes,
+      contaminatedHandling: input.contaminatedHandling,
+      protocolNotes: input.protocolNotes,
+      enrolmentDeadline: input.enrolmentDeadline,
+      smallestDifference: input.smallestDifference,
+      expectedSd: input.expectedSd,
+      plannedFarms: input.plannedFarms,
+      expectedLoss: input.expectedLoss,
+    };
+    let id: string;
+    let code: string;
+    if (input.trialId) {
+      const [current] = await tx.select({ status: trials.status, code: trials.code }).from(trials).where(eq(trials.id, input.trialId));
+      if (!current) throw new AppError("not_found", "That trial no longer exists. Start a new design from Trials.");
+      if (!isDesignEditable(current.status as TrialStatus)) {
+        throw new AppError("conflict", `Trial ${current.code} is "${trialStatusLabels[current.status as TrialStatus]}": its design is fixed once enrolment opens.`);
+      }
+      await tx.update(trials).set(values).where(eq(trials.id, input.trialId));
+      await tx.delete(trialArms).where(eq(trialArms.trialId, input.trialId));
+      id = input.trialId;
+      code = current.code;
+    } else {
+      code = await nextTrialCode(tx);
+      const [created] = await tx.insert(trials).values({ ...values, code, createdBy: member.id }).returning({ id: trials.id });
+      id = created.id;
+    }
+    await tx.insert(trialArms).values(input.arms.map((arm, index) => ({ trialId: id, label: arm.label, strainId: arm.strainId, treatmentId: arm.treatmentId, isReference: arm.isReference, position: index + 1 })));
+    await recordAudit(tx, { ...actor(member), action: input.trialId ? "trial.draft_saved" : "trial.created", subject: code, details: { trialId: id, arms: input.arms.length } });
+    return { id, code };
+  });
+}
+
+// ——— Lifecycle ———
+
+export async function moveTrial(member: Member, trialId: string, to: TrialStatus): Promise<void> {
+  let published: { trial: TrialView; recipients: string[] } | null = null;
+  await withFarmContext(farmContextOf(member), async (tx) => {
+    const trial = await loadTrial(tx, member, trialId);
+    try {
+      assertMove(trial.status, to);
+    } catch (error) {
+      ruleError(error);
+    }
+    const changes: Partial<typeof trials.$inferInsert> = { status: to };
+    if (to === "open") {
+      if (trial.arms.length < 2) throw new AppError("conflict", "A trial needs at least 2 arms before enrolment opens. Add an arm to the design.");
+      if (trial.arms.filter((arm) => arm.isReference).length !== 1) throw new AppError("conflict", "Mark exactly one arm as the reference before enrolment opens.");
+    }
+    if (to === "running") {
+      const accepted = await tx.select({ id: trialEnrolments.id }).from(trialEnrolments).where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.status, "accepted")));
+      if (!accepted.length) throw new AppError("conflict", "No farm has accepted yet. Invite farms and wait for at least one to accept before starting.");
+      await tx.update(trialEnrolments).set({ status: "dropped" }).where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.status, "invited")));
+    }
+    if (to === "collecting") changes.publishedResults = await analyseStoredTrial(tx, trial);
+    if (to === "published") {
+      if (!trial.results) throw new AppError("conflict", "The trial has no analysis yet; move it to Collecting results first.");
+      changes.publishedAt = new Date();
+    }
+    await tx.update(trials).set(changes).where(eq(trials.id, trialId));
+    await recordAudit(tx, { ...actor(member), action: "trial.status_changed", subject: trial.code, details: { trialId, from: trial.status, to } });
+    if (to === "published") {
+      const people = await tx.select({ email: users.email }).from(users).where(eq(users.active, true));
+      published = { trial, recipients: people.map((person) => person.email) };
+    }
+  });
+  const done = published as { trial: TrialView; recipients: string[] } | null;
+  if (done && done.recipients.length) {
+    const mail = resultsPublishedMail({
+      trial: done.trial,
+      answer: done.trial.results?.analysis.answer ?? "",
+      resultsUrl: `${appUrl()}/trials/${trialId}/results`,
+    });
+    // One message per person, so nobody sees the others' addresses.
+    for (const recipient of done.recipients) await deliver(recipient, mail);
+  }
+}
+
+async function deliver(to: string, mail: TrialMail): Promise<void> {
+  await sendMail({ to, ...mail });
+}
+
+/** Runs the pre-declared analysis through the analyst role; only the aggregate result comes back. */
+async function analyseStoredTrial(tx: Transaction, trial: TrialView): Promise<StoredResults> {
+  const enrolments = await tx.select({ status: trialEnrolments.status, farmId: trialEnrolments.farmId }).from(trialEnrolments).where(eq(trialEnrolments.trialId, trial.id));
+  const [{ assigned }] = await tx.select({ assigned: sql<number>`count(*)::int` }).from(trialBlockAssignments).where(eq(trialBlockAssignments.trialId, trial.id));
+  const armIds = trial.arms.map((arm) => arm.id);
+  const { analysis, blocksMade } = await withAnalystAccess(async (analyst) => {
+    const [settings] = await analyst.select({ minimumFarms: cooperativeSettings.minimumFarms }).from(cooperativeSettings);
+    const blockRows = armIds.length
+      ? await analyst
+          .select({ id: blocks.id, farmId: blocks.farmId, armId: blocks.trialArmId, wetMassG: blocks.wetMassG, moisture: blocks.moisture, contaminated: blocks.contaminated })
+          .from(blocks)
+          .where(inArray(blocks.trialArmId, armIds))
+      : [];
+    const harvestRows = blockRows.length
+      ? await analyst.select({ blockId: harvests.blockId, flush: harvests.flush, freshMassG: harvests.freshMassG }).from(harvests).where(inArray(harvests.blockId, blockRows.map((row) => row.id)))
+      : [];
+    const records = trialOutcomeRecords(blockRows, harvestRows, { flushes: trial.outcomeFlushes, contaminatedHandling: trial.contaminatedHandling });
+    return { analysis: analyseTrial({ arms: trial.arms, records, minimumFarms: settings?.minimumFarms ?? 3 }), blocksMade: blockRows.length };
+  });
+  return {
+    analysis,
+    deviations: {
+      farmsDropped: enrolments.filter((enrolment) => enrolment.status === "dropped").length,
+      farmsDeclined: enrolments.filter((enrolment) => enrolment.status === "declined").length,
+      blocksAssigned: assigned,
+      blocksMade,
+      blocksLeftOut: analysis.blocksLeftOut,
+    },
+    analysedAt: new Date().toISOString(),
+  };
+}
+
+// ——— Enrolment ———
+
+export async function listInvitableFarms(member: Member, trialId: string) {
+  return withFarmContext(farmContextOf(member), async (tx) => {
+    const all = await tx.select({ id: farms.id, name: farms.name }).from(farms).where(eq(farms.status, "active")).orderBy(asc(farms.name));
+    const enrolled = await tx.select({ farmId: trialEnrolments.farmId }).from(trialEnrolments).where(eq(trialEnrolments.trialId, trialId));
+    const taken = new Set(enrolled.map((row) => row.farmId));
+    return all.filter((farm) => !taken.has(farm.id));
+  });
+}
+
+export async function inviteFarms(member: Member, trialId: string, farmIds: string[]): Promise<number> {
+  const outgoing: { to: string; mail: TrialMail }[] = [];
+  await withFarmContext(farmContextOf(member), async (tx) => {
+    const trial = await loadTrial(tx, member, trialId);
+    if (trial.status !== "open") throw new AppError("conflict", `Farms can be invited only while the trial is "Open for enrolment"; it is "${trialStatusLabels[trial.status]}".`);
+    const farmRows = await tx.select({ id: farms.id, name: farms.name }).from(farms).where(and(inArray(farms.id, farmIds), eq(farms.status, "active")));
+    if (farmRows.length !== farmIds.length) throw new AppError("invalid_input", "One of the farms picked is not an active member any more. Reload the page and pick again.");
+    const created = await tx
+      .insert(trialEnrolments)
+      .values(farmRows.map((farm) => ({ trialId, farmId: farm.id })))
+      .onConflictDoNothing()
+      .returning({ id: trialEnrolments.id, farmId: trialEnrolments.farmId });
+    const managers = await tx
+      .select({ email: users.email, farmId: users.farmId })
+      .from(users)
+      .where(and(inArray(users.farmId, farmIds), eq(users.role, "farm_manager"), eq(users.active, true)));
+    for (const enrolment of created) {
+      const farm = farmRows.find((row) => row.id === enrolment.farmId)!;
+      const mail = trialInvitationMail({
+        trial,
+        farmName: farm.name,
+        deadline: trial.enrolmentDeadline,
+        enrolUrl: `${appUrl()}/trials/${trialId}`,
+        optOutUrl: optOutUrl(enrolment.id),
+      });
+      for (const manager of managers.filter((row) => row.farmId === farm.id)) outgoing.push({ to: manager.email, mail });
+      await recordAudit(tx, { ...actor(member), action: "trial.farm_invited", subject: `${trial.code}: ${farm.name}`, details: { trialId, farmId: farm.id } });
+    }
+  });
+  for (const message of outgoing) await deliver(message.to, message.mail);
+  return outgoing.length;
+}
+
+function optOutUrl(enrolmentId: string): string {
+  return `${appUrl()}/unsubscribe/${signOptOutToken(enrolmentId, optOutSecret())}`;
+}
+
+export async function getOwnEnrolment(member: Member, trialId: string) {
+  if (!member.farmId) return null;
+  return withFarmContext(farmContextOf(member), async (tx) => {
+    const [row] = await tx
+      .select({ id: trialEnrolments.id, status: trialEnrolments.status, blocksPerArm: trialEnrolments.blocksPerArm, randomisationSeed: trialEnrolments.randomisationSeed, remindersAllowed: trialEnrolments.remindersAllowed })
+      .from(trialEnrolments)
+      .where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.farmId, member.farmId!)));
+    return row ?? null;
+  });
+}
+
+/** The farm manager answers: accepting commits blocks per arm and makes the randomised list from a fresh, recorded seed. */
+export async function respondToInvitation(member: Member, trialId: string, answer: { accept: boolean; blocksPerArm: number | null }): Promise<void> {
+  if (!member.farmId) throw new AppError("forbidden", "Only a farm's manager can answer for the farm.");
+  let confirmation: { to: string; mail: TrialMail } | null = null;
+  await withFarmContext(farmContextOf(member), async (tx) => {
+    const trial = await loadTrial(tx, member, trialId);
+    if (trial.status !== "open") throw new AppError("conflict", `Enrolment is closed: the trial is "${trialStatusLabels[trial.status]}".`);
+    const [enrolment] = await tx.select().from(trialEnrolments).where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.farmId, member.farmId!)));
+    if (!enrolment) throw new AppError("forbidden", "Your farm has not been invited to this trial. Ask the coordinator for an invitation.");
+    if (enrolment.status !== "invited") throw new AppError("conflict", `Your farm has already answered (${enrolment.status}).`);
+    if (answer.accept && trial.enrolmentDeadline && trial.enrolmentDeadline < new Date().toISOString().slice(0, 10)) {
+      throw new AppError("conflict", `The enrolment deadline was ${trial.enrolmentDeadline}. Ask the coordinator whether your farm can still join.`);
+    }
+    if (!answer.accept) {
+      await tx.update(trialEnrolments).set({ status: "declined", respondedAt: new Date() }).where(eq(trialEnrolments.id, enrolment.id));
+      await recordAudit(tx, { ...actor(member), farmId: member.farmId, action: "trial.enrolment_declined", subject: trial.code, details: { trialId } });
+      return;
+    }
+    const blocksPerArm = answer.blocksPerArm!;
+    const seed = `${trial.code}/${randomBytes(12).toString("hex")}`;
+    const list = permutedBlockList({ seed, armIds: trial.arms.map((arm) => arm.id), blocksPerArm, codePrefix: blockCodePrefix(trial.code, member.farmName ?? "") });
+    await tx.update(trialEnrolments).set({ status: "accepted", blocksPerArm, randomisationSeed: seed, respondedAt: new Date() }).where(eq(trialEnrolments.id, enrolment.id));
+    await tx.insert(trialBlockAssignments).values(list.map((entry) => ({ trialId, farmId: member.farmId!, enrolmentId: enrolment.id, armId: entry.armId, blockCode: entry.blockCode, sequence: entry.sequence, permutedBlock: entry.permutedBlock })));
+    await recordAudit(tx, { ...actor(member), farmId: member.farmId, action: "trial.enrolment_accepted", subject: trial.code, details: { trialId, blocksPerArm, seed, blocks: list.length } });
+    confirmation = {
+      to: member.email,
+      mail: enrolmentConfirmationMail({ trial, farmName: member.farmName ?? "Your farm", blocksPerArm, arms: trial.arms.length, listUrl: `${appUrl()}/trials/${trialId}/labels`, optOutUrl: optOutUrl(enrolment.id) }),
+    };
+  });
+  const done = confirmation as { to: string; mail: TrialMail } | null;
+  if (done) await deliver(done.to, done.mail);
+}
+
+/** The farm's own randomised list; row-level security returns nothing for another farm. */
+export async function listOwnAssignments(member: Member, trialId: string) {
+  return withFarmContext(farmContextOf(member), (tx) =>
+    tx
+      .select({ sequence: trialBlockAssignments.sequence, permutedBlock: trialBlockAssignments.permutedBlock, blockCode: trialBlockAssignments.blockCode, armLabel: trialArms.label, strainCode: strains.code, treatmentName: treatments.name })
+      .from(trialBlockAssignments)
+      .innerJoin(trialArms, eq(trialArms.id, trialBlockAssignments.armId))
+      .innerJoin(strains, eq(strains.id, trialArms.strainId))
+      .leftJoin(treatments, eq(treatments.id, trialArms.treatmentId))
+      .where(and(eq(trialBlockAssignments.trialId, trialId), member.farmId ? eq(trialBlockAssignments.farmId, member.farmId) : sql`false`))
+      .orderBy(asc(trialBlockAssignments.sequence)),
+  );
+}
+
+// ——— Following ———
+
+export interface FarmProgress {
+  blocksListed: number;
+  blocksMade: number;
+  fruiting: number;
+  contaminated: number;
+  /** Blocks with flush n recorded, for n = 1..k of the outcome. */
+  flushesRecorded: number[];
+}
+
+export function dueItems(progress: FarmProgress): string[] {
+  const due: string[] = [];
+  if (progress.blocksMade < progress.blocksListed) due.push(`${progress.blocksListed - progress.blocksMade} listed blocks not yet in the season log`);
+  const live = progress.blocksMade - progress.contaminated;
+  progress.flushesRecorded.forEach((recorded, index) => {
+    if (recorded < live) due.push(`flush ${index + 1} of ${live - recorded} blocks`);
+  });
+  return due;
+}
+
+/** The farm's own progress, read under its own context. */
+export async function getOwnProgress(member: Member, trial: TrialView): Promise<FarmProgress | null> {
+  if (!member.farmId) return null;
+  return withFarmContext(farmContextOf(member), async (tx) => {
+    const list = await tx.select({ blockCode: trialBlockAssignments.blockCode }).from(trialBlockAssignments).where(and(eq(trialBlockAssignments.trialId, trial.id), eq(trialBlockAssignments.farmId, member.farmId!)));
+    if (!list.length) return null;
+    const [counts] = await progressCounts(tx, trial, member.farmId!);
+    return { blocksListed: list.length, ...(counts ?? emptyCounts(trial)) };
+  });
+}
+
+function emptyCounts(trial: TrialView) {
+  return { blocksMade: 0, fruiting: 0, contaminated: 0, flushesRecorded: Array.from({ length: trial.outcomeFlushes }, () => 0) };
+}
+
+/** Counts only: how many blocks, never how much they weighed. */
+async function progressCounts(tx: Transaction, trial: TrialView, farmId?: string) {
+  const armIds = trial.arms.map((arm) => arm.id);
+  if (!armIds.length) return [];
+  const flushColumns = Array.from({ length: trial.outcomeFlushes }, (_, index) => sql`count(*) FILTER (WHERE EXISTS (SELECT 1 FROM harvests h WHERE h.block_id = b.id AND h.flush = ${index + 1}))::int`);
+  const result = await tx.execute(sql`
+    SELECT b.farm_id,
+           count(*)::int AS made,
+           count(*) FILTER (WHERE b.contaminated)::int AS contaminated,
+           count(*) FILTER (WHERE EXISTS (SELECT 1 FROM harvests h WHERE h.block_id = b.id))::int AS fruiting,
+           ARRAY[${sql.join(flushColumns, sql`, `)}] AS flushes
+    FROM blocks b
+    WHERE b.trial_arm_id IN (${sql.join(armIds.map((id) => sql`${id}::uuid`), sql`, `)})
+      ${farmId ? sql`AND b.farm_id = ${farmId}::uuid` : sql``}
+    GROUP BY b.farm_id`);
+  return (result.rows as { farm_id: string; made: number; contaminated: number; fruiting: number; flushes: number[] }[]).map((row) => ({
+    farmId: row.farm_id,
+    blocksMade: row.made,
+    fruiting: row.fruiting,
+    contaminated: row.contaminated,
+    flushesRecorded: row.flushes.map(Number),
+  }));
+}
+
+/** The coordinator's view: every enrolled farm with its counts, read through the analyst role. */
+export async function listTrialProgress(member: Member, trial: TrialView) {
+  const enrolled = await withFarmContext(farmContextOf(member), async (tx) => {
+    const rows = await tx
+      .select({ enrolmentId: trialEnrolments.id, farmId: trialEnrolments.farmId, farmName: farms.name, status: trialEnrolments.status, blocksPerArm: trialEnrolments.blocksPerArm, remindersAllowed: trialEnrolments.remindersAllowed })
+      .from(trialEnrolments)
+      .innerJoin(farms, eq(farms.id, trialEnrolments.farmId))
+      .where(eq(trialEnrolments.trialId, trial.id))
+      .orderBy(asc(farms.name));
+    return rows;
+  });
+  const counts = await withAnalystAccess((analyst) => progressCounts(analyst, trial));
+  return enrolled.map((row) => {
+    const farmCounts = counts.find((count) => count.farmId === row.farmId);
+    const progress: FarmProgress = { blocksListed: (row.blocksPerArm ?? 0) * trial.arms.length, ...(farmCounts ? { blocksMade: farmCounts.blocksMade, fruiting: farmCounts.fruiting, contaminated: farmCounts.contaminated, flushesRecorded: farmCounts.flushesRecorded } : emptyCounts(trial)) };
+    const due = row.status === "accepted" ? dueItems(progress) : [];
+    return { ...row, progress, due, behind: due.length > 0 };
+  });
+}
+
+export async function sendTrialReminder(member: Member, trialId: string, farmId: string): Promise<number> {
+  const trial = await getTrial(member, trialId);
+  if (trial.status !== "running" && trial.status !== "collecting") throw new AppError("conflict", "Reminders go out only while a trial is running or collecting results.");
+  const farmsProgress = await listTrialProgress(member, trial);
+  const farm = farmsProgress.find((row) => row.farmId === farmId);
+  if (!farm || farm.status !== "accepted") throw new AppError("not_found", "That farm is not taking part in this trial.");
+  if (!farm.remindersAllowed) throw new AppError("conflict", `${farm.farmName} has asked not to get reminders about this trial.`);
+  if (!farm.behind) throw new AppError("conflict", `${farm.farmName} has nothing due; no reminder sent.`);
+  const managers = await withFarmContext(farmContextOf(member), async (tx) => {
+    const rows = await tx.select({ email: users.email }).from(users).where(and(eq(users.farmId, farmId), eq(users.role, "farm_manager"), eq(users.active, true)));
+    await recordAudit(tx, { ...actor(member), action: "trial.reminder_sent", subject: `${trial.code}: ${farm.farmName}`, details: { trialId, farmId } });
+    return rows;
+  });
+  const mail = trialReminderMail({ trial, farmName: farm.farmName, due: farm.due, progressUrl: `${appUrl()}/trials/${trialId}`, optOutUrl: optOutUrl(farm.enrolmentId) });
+  for (const manager of managers) await deliver(manager.email, mail);
+  return managers.length;
+}
+
+// ——— Unsubscribe and outgoing mail ———
+
+/** From the public unsubscribe link: returns the trial's code, or null for a link that is not ours. */
+export async function optOutOfReminders(token: string): Promise<string | null> {
+  const enrolmentId = verifyOptOutToken(token, optOutSecret());
+  if (!enrolmentId || !optOutSecret()) return null;
+  return withFarmContext({ userId: null, farmId: null, role: "anonymous" }, async (tx) => {
+    const result = await tx.execute(sql`select app_trial_reminders_opt_out(${enrolmentId}::uuid) as code`);
+    return ((result.rows[0] as { code: string | null } | undefined)?.code) ?? null;
+  });
+}
+
+export async function listOutgoingMail(member: Member, limit = 200) {
+  return withFarmContext(farmContextOf(member), (tx) =>
+    tx
+      .select({ id: mailMessages.id, receivedAt: mailMessages.receivedAt, recipients: mailMessages.recipients, subject: mailMessages.subject, text: mailMessages.text, html: mailMessages.html })
+      .from(mailMessages)
+      .orderBy(desc(mailMessages.id))
+      .limit(limit),
+  );
+}

@@ -1,0 +1,21 @@
+import { describe, expect, it } from "vitest";
+import { resultsPublishedMail, trialInvitationMail } from "./trials";
+
+const trial = { code: "T-9", title: "Bran <20 %> & more", question: "Which is better?" };
+
+describe("trial e-mails", () => {
+  it("put the links in both parts and escape the HTML", () => {
+    const mail = trialInvitationMail({ trial, farmName: "Fernbrook", deadline: "2026-12-20", enrolUrl: "http://x/trials/1?a=1&b=2", optOutUrl: "http://x/unsubscribe/tok" });
+    expect(mail.text).toContain("http://x/trials/1?a=1&b=2");
+    expect(mail.text).toContain("http://x/unsubscribe/tok");
+    expect(mail.html).toContain('href="http://x/trials/1?a=1&amp;b=2"');
+    expect(mail.html).toContain("Bran &lt;20 %&gt; &amp; more");
+    expect(mail.html).not.toContain("<20 %>");
+  });
+
+  it("sends results without an unsubscribe link, since they are not reminders", () => {
+    const mail = resultsPublishedMail({ trial, answer: "Arm B gave more.", resultsUrl: "http://x/r" });
+    expect(mail.text).not.toMatch(/unsubscribe|stop reminders/i);
+    expect(mail.subject).toBe("Results of trial T-9: Bran <20 %> & more");
+  });
+});

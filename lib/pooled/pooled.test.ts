@@ -1,0 +1,229 @@
+import fc from "fast-check";
+import { describe, expect, it } from "vitest";
+import { blockedAnova, tukeyHsd } from "@/lib/stats";
+import { seededRandom } from "@/lib/random";
+import { binQuantile, percentileOf } from "./bins";
+import { adjustedMeansFromCells, tukeyFromSummaries } from "./cell-models";
+import { filterIsSafe } from "./privacy";
+import { buildPooledResults, type PooledResultsInput } from "./results";
+import { comparisonSentence } from "./sentences";
+import type { StrainStatisticsRow } from "./types";
+
+/** A farm's row built from its blocks' BE values, as the refresh writes it. */
+function row(farmId: string, strainId: string, efficiencies: number[], extra: Partial<StrainStatisticsRow> = {}): StrainStatisticsRow {
+  const bins: Record<string, number> = {};
+  for (const value of efficiencies) bins[Math.floor(value)] = (bins[Math.floor(value)] ?? 0) + 1;
+  return {
+    farmId,
+    strainId,
+    substrateRecipeId: "recipe-1",
+    fruitingMethodId: "method-1",
+    blocks: efficiencies.length,
+    blocksContaminated: 0,
+    efficiencyBlocks: efficiencies.length,
+    efficiencySum: efficiencies.reduce((sum, value) => sum + value, 0),
+    efficiencySquares: efficiencies.reduce((sum, value) => sum + value * value, 0),
+    efficiencyBins: bins,
+    firstHarvestBlocks: efficiencies.length,
+    firstHarvestDaysSum: 30 * efficiencies.length,
+    ...extra,
+  };
+}
+
+function input(rows: StrainStatisticsRow[], overrides: Partial<PooledResultsInput> = {}): PooledResultsInput {
+  return {
+    rows,
+    flushRows: [],
+    strains: [
+      { id: "a", name: "Grey Morning" },
+      { id: "b", name: "Valley Wild" },
+    ],
+    filters: {},
+    minimumFarms: 3,
+    showPerFarmEstimates: false,
+    viewerFarmId: null,
+    random: seededRandom("test"),
+    ...overrides,
+  };
+}
+
+const blocksOf = (random: ReturnType<typeof seededRandom>, mean: number, n: number) => Array.from({ length: n }, () => random.normal(mean, 8));
+
+describe("the farm-blocked model from cell sums", () => {
+  it("gives the blocked model and Tukey the same answers from cell sums as from the real block values", () => {
+    const random = seededRandom("equivalence");
+    const real: { treatment: string; block: string; y: number }[] = [];
+    for (const farm of ["f1", "f2", "f3", "f4"]) {
+      for (const [strain, mean] of [["a", 80], ["b", 90], ["c", 75]] as const) {
+        for (const y of blocksOf(random, mean + farm.length, 3 + real.length % 4)) real.push({ treatment: strain, block: farm, y });
+      }
+    }
+    const cells = new Map<string, { n: number; sum: number; squares: number; treatment: string; block: string }>();
+    for (const o of real) {
+      const key = `${o.treatment}|${o.block}`;
+      const cell = cells.get(key) ?? { n: 0, sum: 0, squares: 0, treatment: o.treatment, block: o.block };
+      cells.set(key, { ...cell, n: cell.n + 1, sum: cell.sum + o.y, squares: cell.squares + o.y * o.y });
+    }
+    const fromReal = blockedAnova(real);
+
+    const fromCells = adjustedMeansFromCells([...cells.values()]);
+    fromReal.means.forEach((mean, index) => {
+      expect(fromCells[index].treatment).toBe(mean.treatment);
+      expect(fromCells[index].estimate).toBeCloseTo(mean.estimate, 8);
+      expect(fromCells[index].lower).toBeCloseTo(mean.lower, 8);
+      expect(fromCells[index].upper).toBeCloseTo(mean.upper, 8);
+    });
+
+    const groups = (obs: typeof real) => Object.fromEntries(["a", "b", "c"].map((t) => [t, obs.filter((o) => o.treatment === t).map((o) => o.y)]));
+    const tukeyReal = tukeyHsd(groups(real));
+    const summaries = Object.fromEntries(["a", "b", "c"].map((t) => {
+      const ys = real.filter((o) => o.treatment === t).map((o) => o.y);
+      return [t, { n: ys.length, sum: ys.reduce((x, y) => x + y, 0), squares: ys.reduce((x, y) => x + y * y, 0) }];
+    }));
+    tukeyFromSummaries(summaries).forEach((pair, index) => {
+      expect(pair.diff).toBeCloseTo(tukeyReal[index].diff, 8);
+      expect(pair.lower).toBeCloseTo(tukeyReal[index].lower, 8);
+      expect(pair.pAdj).toBeCloseTo(tukeyReal[index].pAdj, 8);
+    });
+  });
+});
+
+describe("minimum-farms suppression", () => {
+  it("publishes a strain grown on 3 farms and withholds every figure of one grown on 2", () => {
+    const random = seededRandom("suppression");
+    const rows = [
+      ...["f1", "f2", "f3"].map((farm) => row(farm, "a", blocksOf(random, 80, 6))),
+      ...["f1", "f2"].map((farm) => row(farm, "b", blocksOf(random, 90, 6), { blocksContaminated: 1 })),
+    ];
+    const results = buildPooledResults(input(rows));
+    const [a, b] = results.strains;
+    expect(a.efficiency.status).toBe("published");
+    expect(a.farms).toEqual({ status: "published", value: 3 });
+    for (const figure of [b.farms, b.blocks, b.efficiency, b.contamination, b.firstHarvestDays, b.spread, b.flushProfile]) {
+      expect(figure.status).toBe("suppressed");
+    }
+    expect(b.contamination).toEqual({ status: "suppressed", message: "fewer than 3 farms" });
+    expect(b.sentence).toContain("not enough data");
+    expect(results.pairwise.status).toBe("suppressed");
+    expect(JSON.stringify(results)).not.toMatch(/f1|f2|f3/);
+  });
+
+  it("follows the co-op's minimum: the same data is published at 2 and withheld at 4", () => {
+    const random = seededRandom("minimum");
+    const rows = ["f1", "f2", "f3"].map((farm) => row(farm, "a", blocksOf(random, 80, 6)));
+    expect(buildPooledResults(input(rows, { minimumFarms: 2 })).strains[0].efficiency.status).toBe("published");
+    expect(buildPooledResults(input(rows, { minimumFarms: 4 })).strains[0].efficiency).toEqual({ status: "suppressed", message: "fewer than 4 farms" });
+  });
+});
+
+describe("the differencing guard", () => {
+  // Farms 1–3 grow strain a on recipe 1; farm 4 alone on recipe 2. "Any recipe" (4 farms) minus
+  // "recipe 1" (3 farms) would be farm 4's own figure.
+  const random = seededRandom("differencing");
+  const rows = [
+    ...["f1", "f2", "f3"].map((farm) => row(farm, "a", blocksOf(random, 80, 5))),
+    row("f4", "a", blocksOf(random, 120, 5), { substrateRecipeId: "recipe-2" }),
+  ];
+
+  it("publishes the unfiltered figure but withholds the filtered one that would single out farm 4", () => {
+    const all = buildPooledResults(input(rows));
+    const recipeOne = buildPooledResults(input(rows, { filters: { substrateRecipeId: "recipe-1" } }));
+    expect(all.strains[0].efficiency.status).toBe("published");
+    expect(recipeOne.strains[0].efficiency.status).toBe("suppressed");
+    expect(recipeOne.strains[0].contamination.status).toBe("suppressed");
+    expect(recipeOne.strains[0].efficiency.status === "suppressed" && recipeOne.strains[0].efficiency.message).toMatch(/withheld/);
+  });
+
+  it("allows the filter once every recipe × fruiting-method cell has the minimum", () => {
+    const more = [...rows, ...["f5", "f6"].map((farm) => row(farm, "a", blocksOf(random, 110, 5), { substrateRecipeId: "recipe-2" }))];
+    expect(filterIsSafe(more, { substrateRecipeId: "recipe-1" }, 3)).toBe(true);
+    expect(buildPooledResults(input(more, { filters: { substrateRecipeId: "recipe-1" } })).strains[0].efficiency.status).toBe("published");
+  });
+
+  it("guards a fruiting-method filter against a small cell on the other axis", () => {
+    // Recipe and method cells: (r1, m1) farms 1–3, (r1, m2) farm 4, (r2, m2) farms 5–7. Each margin has ≥ 3
+    // farms, but recipe 1 minus method 1 would be farm 4 alone.
+    const crossed = [
+      ...["f1", "f2", "f3"].map((farm) => row(farm, "a", [80, 82])),
+      row("f4", "a", [150, 151], { fruitingMethodId: "method-2" }),
+      ...["f5", "f6", "f7"].map((farm) => row(farm, "a", [90, 92], { substrateRecipeId: "recipe-2", fruitingMethodId: "method-2" })),
+    ];
+    expect(filterIsSafe(crossed, { substrateRecipeId: "recipe-1" }, 3)).toBe(false);
+    expect(filterIsSafe(crossed, { fruitingMethodId: "method-1" }, 3)).toBe(false);
+    expect(filterIsSafe(crossed, {}, 3)).toBe(true);
+  });
+
+  it("never publishes two figures whose difference comes from fewer farms than the minimum", () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.record({ farm: fc.integer({ min: 1, max: 8 }), recipe: fc.integer({ min: 1, max: 3 }), method: fc.integer({ min: 1, max: 2 }) }), { minLength: 1, maxLength: 30 }),
+        (cells) => {
+          const generated = cells.map((cell) => row(`f${cell.farm}`, "a", [80], { substrateRecipeId: `r${cell.recipe}`, fruitingMethodId: `m${cell.method}` }));
+          const filterSets = [{}, ...[1, 2, 3].map((r) => ({ substrateRecipeId: `r${r}` })), ...[1, 2].map((m) => ({ fruitingMethodId: `m${m}` }))];
+          const farmsOf = (filters: { substrateRecipeId?: string; fruitingMethodId?: string }) =>
+            new Set(generated.filter((r) => (!filters.substrateRecipeId || r.substrateRecipeId === filters.substrateRecipeId) && (!filters.fruitingMethodId || r.fruitingMethodId === filters.fruitingMethodId)).map((r) => `${r.farmId}|${r.substrateRecipeId}|${r.fruitingMethodId}`));
+          const published = filterSets.filter((filters) => {
+            const result = buildPooledResults(input(generated, { filters, strains: [{ id: "a", name: "A" }] }));
+            return result.strains[0]?.blocks.status === "published";
+          });
+          for (const bigger of published) {
+            for (const smaller of published) {
+              const big = farmsOf(bigger);
+              const small = farmsOf(smaller);
+              if (![...small].every((key) => big.has(key)) || small.size === big.size) continue;
+              const leftover = new Set([...big].filter((key) => !small.has(key)).map((key) => key.split("|")[0]));
+              expect(leftover.size).toBeGreaterThanOrEqual(3);
+            }
+          }
+        },
+      ),
+    );
+  });
+});
+
+describe("per-farm estimates in the forest chart", () => {
+  const random = seededRandom("forest");
+  const farms = ["f1", "f2", "f3", "f4"];
+  const rows = farms.flatMap((farm, index) => [row(farm, "a", blocksOf(random, 80, 8)), row(farm, "b", blocksOf(random, 88 + index, 8))]);
+
+  it("shows only the pooled estimate and the viewer's own farm by default", () => {
+    const results = buildPooledResults(input(rows, { viewerFarmId: "f2" }));
+    expect(results.heterogeneity.status).toBe("published");
+    if (results.heterogeneity.status !== "published") return;
+    const forest = results.heterogeneity.value.strains[0].forest;
+    expect(forest.map((entry) => entry.label)).toEqual(["Your farm", "All farms (pooled)"]);
+  });
+
+  it("adds the other farms anonymised when the co-op allows it, and never their ids", () => {
+    const results = buildPooledResults(input(rows, { viewerFarmId: "f2", showPerFarmEstimates: true }));
+    if (results.heterogeneity.status !== "published") throw new Error("expected published heterogeneity");
+    const forest = results.heterogeneity.value.strains[0].forest;
+    expect(forest.filter((entry) => entry.own)).toHaveLength(1);
+    expect(forest.filter((entry) => !entry.own && !entry.pooled).map((entry) => entry.label)).toEqual(["Farm A", "Farm B", "Farm C"]);
+    expect(JSON.stringify(results)).not.toMatch(/"f[1-4]"/);
+  });
+
+  it("shows an observer no farm row at all by default", () => {
+    const results = buildPooledResults(input(rows));
+    if (results.heterogeneity.status !== "published") throw new Error("expected published heterogeneity");
+    expect(results.heterogeneity.value.strains[0].forest.map((entry) => entry.label)).toEqual(["All farms (pooled)"]);
+  });
+});
+
+describe("plain-language sentences and percentiles", () => {
+  it("words a difference the way the issue asks", () => {
+    expect(comparisonSentence({ better: "Strain B", base: "strain A", estimate: 9.2, lower: 3.4, upper: 15.1, farms: 7, blocks: 412 })).toBe(
+      "Strain B gave 9 BE points more than strain A (95 % interval 3 to 15), from 7 farms and 412 blocks.",
+    );
+    expect(comparisonSentence({ better: "B", base: "A", estimate: -4, lower: -9, upper: 1, farms: 3, blocks: 40 })).toContain("cannot tell them apart");
+  });
+
+  it("places a farm in the co-op distribution", () => {
+    const bins = { "70": 10, "80": 10, "90": 10, "100": 10 };
+    // 30 of 40 blocks lie in lower bins; a value inside a bin counts half of that bin's blocks.
+    expect(percentileOf(bins, 95)).toBe(75);
+    expect(percentileOf(bins, 80.5)).toBe(37.5);
+    expect(binQuantile(bins, 0.5)).toBe(80.5);
+    expect(binQuantile(bins, 0.9)).toBe(100.5);
+  });
+});

@@ -1,0 +1,296 @@
+import { holm, meanCIFromSummary, metaAnalysis, StatsInputError, wilsonInterval } from "@/lib/stats";
+import { normalLowerTail } from "@/lib/stats/distributions";
+import type { Random } from "@/lib/random";
+import { addBins, binQuantile, type EfficiencyBins } from "./bins";
+import { pooledFlushProfile } from "./flush-profile";
+import { contributingFarms, differencingMessage, farmCells, filterIsSafe, matchesFilters, suppressedMessage, type FarmStrainCell } from "./privacy";
+import { comparisonSentence, strainSentence } from "./sentences";
+import { adjustedMeansFromCells, tukeyFromSummaries } from "./cell-models";
+import { addSummaries, emptySummary, summaryMean, summaryVariance, type Summary } from "./sufficient";
+import type { FlushStatisticsRow, PooledFilters, StrainStatisticsRow } from "./types";
+
+/** A figure that is either published or replaced by the reason it is withheld. */
+export type Published<T> = { status: "published"; value: T } | { status: "suppressed"; message: string };
+
+export interface Interval {
+  estimate: number;
+  lower: number;
+  upper: number;
+}
+
+export interface StrainResult {
+  strainId: string;
+  strainName: string;
+  farms: Published<number>;
+  blocks: Published<number>;
+  efficiency: Published<Interval & { adjustedForFarm: boolean; farms: number; blocks: number }>;
+  contamination: Published<Interval & { contaminated: number; blocks: number }>;
+  firstHarvestDays: Published<{ mean: number; blocks: number }>;
+  flushProfile: Published<{ flush: number; meanShare: number; lower: number; upper: number; cumulativeShare: number }[]>;
+  /** 10th, 25th, 50th, 75th and 90th percentiles of block BE (no single block's value). */
+  spread: Published<[number, number, number, number, number]>;
+  sentence: string;
+}
+
+export interface PairwiseDifference extends Interval {
+  strainA: string;
+  strainB: string;
+  pAdjusted: number;
+  sentence: string;
+}
+
+export interface ForestRow extends Interval {
+  label: string;
+  own: boolean;
+  pooled: boolean;
+}
+
+export interface HeterogeneityResult extends Interval {
+  strainId: string;
+  strainName: string;
+  farms: number;
+  blocks: number;
+  i2: number;
+  tau: number;
+  pHolm: number;
+  sentence: string;
+  forest: ForestRow[];
+}
+
+export interface PooledResults {
+  minimumFarms: number;
+  filtered: boolean;
+  strains: StrainResult[];
+  pairwise: Published<PairwiseDifference[]>;
+  heterogeneity: Published<{ referenceStrainId: string; referenceStrainName: string; strains: HeterogeneityResult[] }>;
+}
+
+export interface PooledResultsInput {
+  /** Every row of the species for one flush window, unfiltered: the guard needs them all. */
+  rows: readonly StrainStatisticsRow[];
+  flushRows: readonly FlushStatisticsRow[];
+  strains: readonly { id: string; name: string }[];
+  filters: PooledFilters;
+  minimumFarms: number;
+  showPerFarmEstimates: boolean;
+  viewerFarmId: string | null;
+  /** Shuffles other farms' anonymised rows in the forest chart. */
+  random: Random;
+  level?: number;
+}
+
+function suppressed<T>(message: string): Published<T> {
+  return { status: "suppressed", message };
+}
+
+function published<T>(value: T): Published<T> {
+  return { status: "published", value };
+}
+
+/**
+ * The co-op's pooled results for one species and flush window. Takes per-farm sufficient
+ * statistics and returns only aggregates over at least `minimumFarms` farms: no farm id, no
+ * per-farm figure except the viewer's own (and anonymised ones when the co-op allows them).
+ */
+export function buildPooledResults(input: PooledResultsInput): PooledResults {
+  const { minimumFarms, filters } = input;
+  const level = input.level ?? 0.95;
+  const cells = farmCells(input.rows, filters);
+  const few = suppressedMessage(minimumFarms);
+  const strainNames = new Map(input.strains.map((strain) => [strain.id, strain.name]));
+
+  const safeStrains = new Set<string>();
+  for (const strainId of cells.keys()) {
+    if (filterIsSafe(input.rows.filter((row) => row.strainId === strainId), filters, minimumFarms)) safeStrains.add(strainId);
+  }
+
+  // Strains whose BE is published take part in the blocked model and the comparisons.
+  const comparable = [...cells.entries()].filter(
+    ([strainId, farms]) => safeStrains.has(strainId) && contributingFarms(farms.values(), (cell) => cell.efficiency.n) >= minimumFarms,
+  );
+  const adjusted = adjustedMeans(comparable, level);
+
+  const strains: StrainResult[] = [...cells.entries()]
+    .map(([strainId, farms]) => {
+      const name = strainNames.get(strainId) ?? "Unnamed strain";
+      const farmList = [...farms.values()];
+      const safe = safeStrains.has(strainId);
+      const withhold = (count: number) => (!safe ? differencingMessage : count < minimumFarms ? few : null);
+
+      const blockFarms = contributingFarms(farmList, (cell) => cell.blocks);
+      const totalBlocks = farmList.reduce((sum, cell) => sum + cell.blocks, 0);
+      const contaminated = farmList.reduce((sum, cell) => sum + cell.blocksContaminated, 0);
+      const blockReason = withhold(blockFarms);
+
+      const efficiencyFarms = contributingFarms(farmList, (cell) => cell.efficiency.n);
+      const efficiency = farmList.reduce((sum, cell) => addSummaries(sum, cell.efficiency), emptySummary);
+      const efficiencyReason = withhold(efficiencyFarms);
+      let efficiencyFigure: StrainResult["efficiency"] = suppressed(efficiencyReason ?? few);
+      if (!efficiencyReason) {
+        const fromModel = adjusted.get(strainId);
+        if (fromModel) {
+          efficiencyFigure = published({ ...fromModel, adjustedForFarm: true, farms: efficiencyFarms, blocks: efficiency.n });
+        } else if (efficiency.n >= 2) {
+          const plain = meanCIFromSummary({ n: efficiency.n, mean: summaryMean(efficiency), sd: Math.sqrt(summaryVariance(efficiency)) }, level);
+          efficiencyFigure = published({ estimate: plain.mean, lower: plain.lower, upper: plain.upper, adjustedForFarm: false, farms: efficiencyFarms, blocks: efficiency.n });
+        }
+      }
+
+      const firstFarms = contributingFarms(farmList, (cell) => cell.firstHarvestBlocks);
+      const firstBlocks = farmList.reduce((sum, cell) => sum + cell.firstHarvestBlocks, 0);
+      const firstDays = farmList.reduce((sum, cell) => sum + cell.firstHarvestDaysSum, 0);
+      const firstReason = withhold(firstFarms);
+
+      const flushRows = input.flushRows.filter((row) => row.strainId === strainId && matchesFilters(row, filters));
+      const flushFarms = new Set(flushRows.filter((row) => row.finishedBlocks > 0).map((row) => row.farmId)).size;
+      const flushReason = withhold(flushFarms);
+      const profile = flushReason ? null : pooledFlushProfile(flushRows, level);
+
+      const bins = farmList.reduce<EfficiencyBins>((sum, cell) => addBins(sum, cell.bins), {});
+      const spread: StrainResult["spread"] =
+        efficiencyReason || efficiency.n === 0
+          ? suppressed(efficiencyReason ?? few)
+          : published([0.1, 0.25, 0.5, 0.75, 0.9].map((p) => binQuantile(bins, p)) as [number, number, number, number, number]);
+
+      const result: StrainResult = {
+        strainId,
+        strainName: name,
+        farms: blockReason ? suppressed(blockReason) : published(blockFarms),
+        blocks: blockReason ? suppressed(blockReason) : published(totalBlocks),
+        efficiency: efficiencyFigure,
+        contamination:
+          blockReason || totalBlocks === 0
+            ? suppressed(blockReason ?? few)
+            : (() => {
+                const interval = wilsonInterval(contaminated, totalBlocks, level);
+                return published({ estimate: 100 * interval.p, lower: 100 * interval.lower, upper: 100 * interval.upper, contaminated, blocks: totalBlocks });
+              })(),
+        firstHarvestDays: firstReason || firstBlocks === 0 ? suppressed(firstReason ?? few) : published({ mean: firstDays / firstBlocks, blocks: firstBlocks }),
+        flushProfile: profile
+          ? published(profile.map((share) => ({ flush: share.flush, meanShare: share.meanShare, lower: share.lower, upper: share.upper, cumulativeShare: share.cumulativeShare })))
+          : suppressed(flushReason ?? "not enough finished blocks yet"),
+        spread,
+        sentence: "",
+      };
+      result.sentence = strainSentence(result, minimumFarms);
+      return result;
+    })
+    .sort((a, b) => a.strainName.localeCompare(b.strainName));
+
+  return {
+    minimumFarms,
+    filtered: filters.substrateRecipeId !== undefined || filters.fruitingMethodId !== undefined,
+    strains,
+    pairwise: pairwiseDifferences(comparable, strainNames, minimumFarms, level),
+    heterogeneity: heterogeneity(comparable, strainNames, input, level),
+  };
+}
+
+type StrainCells = [string, Map<string, FarmStrainCell>][];
+
+/** Least-squares strain means adjusted for farm (the farm is the statistical block). */
+function adjustedMeans(comparable: StrainCells, level: number): Map<string, Interval> {
+  const cells = comparable.flatMap(([strainId, farms]) => [...farms.values()].map((cell) => ({ treatment: strainId, block: cell.farmId, ...cell.efficiency })));
+  try {
+    return new Map(adjustedMeansFromCells(cells, level).map((mean) => [mean.treatment, { estimate: mean.estimate, lower: mean.lower, upper: mean.upper }]));
+  } catch (error) {
+    if (error instanceof StatsInputError) return new Map();
+    throw error;
+  }
+}
+
+function pairwiseDifferences(comparable: StrainCells, names: Map<string, string>, minimumFarms: number, level: number): PooledResults["pairwise"] {
+  if (comparable.length < 2) return suppressed(`needs at least two strains each grown on ${minimumFarms} or more farms`);
+  const groups: Record<string, Summary> = {};
+  const summaries = new Map<string, { farms: number; blocks: number }>();
+  // Pairs in strain-name order, so the table reads the same on every request.
+  const ordered = [...comparable].sort((a, b) => (names.get(a[0]) ?? "").localeCompare(names.get(b[0]) ?? ""));
+  for (const [strainId, farms] of ordered) {
+    const pooled = [...farms.values()].reduce<Summary>((sum, cell) => addSummaries(sum, cell.efficiency), emptySummary);
+    groups[strainId] = pooled;
+    summaries.set(strainId, { farms: contributingFarms(farms.values(), (cell) => cell.efficiency.n), blocks: pooled.n });
+  }
+  try {
+    return published(
+      tukeyFromSummaries(groups, level).map((comparison) => {
+        const a = names.get(comparison.a) ?? "Unnamed strain";
+        const b = names.get(comparison.b) ?? "Unnamed strain";
+        const farms = Math.min(summaries.get(comparison.a)!.farms, summaries.get(comparison.b)!.farms);
+        const blocks = summaries.get(comparison.a)!.blocks + summaries.get(comparison.b)!.blocks;
+        // tukeyHsd reports mean(a) − mean(b); read it as "b against a" for the sentence.
+        return {
+          strainA: b,
+          strainB: a,
+          estimate: comparison.diff,
+          lower: comparison.lower,
+          upper: comparison.upper,
+          pAdjusted: comparison.pAdj,
+          sentence: comparisonSentence({ better: a, base: b, estimate: comparison.diff, lower: comparison.lower, upper: comparison.upper, farms, blocks }),
+        };
+      }),
+    );
+  } catch (error) {
+    if (error instanceof StatsInputError) return suppressed(error.message);
+    throw error;
+  }
+}
+
+/**
+ * Each farm's BE difference (strain − reference) with its sampling variance, pooled by
+ * DerSimonian–Laird: how much farms disagree (I², τ). The reference is the strain grown on the
+ * most farms. Holm adjusts the p-values of the strains-against-reference family.
+ */
+function heterogeneity(comparable: StrainCells, names: Map<string, string>, input: PooledResultsInput, level: number): PooledResults["heterogeneity"] {
+  const { minimumFarms } = input;
+  if (comparable.length < 2) return suppressed(`needs at least two strains each grown on ${minimumFarms} or more farms`);
+  const [referenceId, referenceFarms] = [...comparable].sort(
+    (a, b) => b[1].size - a[1].size || (names.get(a[0]) ?? "").localeCompare(names.get(b[0]) ?? ""),
+  )[0];
+  const referenceName = names.get(referenceId) ?? "Unnamed strain";
+  const results: (Omit<HeterogeneityResult, "pHolm"> & { p: number })[] = [];
+  for (const [strainId, farms] of comparable) {
+    if (strainId === referenceId) continue;
+    const studies: { farmId: string; y: number; v: number; blocks: number }[] = [];
+    for (const cell of farms.values()) {
+      const reference = referenceFarms.get(cell.farmId);
+      if (!reference || cell.efficiency.n < 2 || reference.efficiency.n < 2) continue;
+      const v = summaryVariance(cell.efficiency) / cell.efficiency.n + summaryVariance(reference.efficiency) / reference.efficiency.n;
+      if (!(v > 0)) continue;
+      studies.push({ farmId: cell.farmId, y: summaryMean(cell.efficiency) - summaryMean(reference.efficiency), v, blocks: cell.efficiency.n + reference.efficiency.n });
+    }
+    if (studies.length < minimumFarms) continue;
+    const pooled = metaAnalysis(studies, level);
+    const name = names.get(strainId) ?? "Unnamed strain";
+    const blocks = studies.reduce((sum, study) => sum + study.blocks, 0);
+    const z = pooled.random.estimate / pooled.random.se;
+    const half = (study: { y: number; v: number }) => 1.959963984540054 * Math.sqrt(study.v);
+    const own = studies.filter((study) => study.farmId === input.viewerFarmId);
+    const others = input.showPerFarmEstimates ? input.random.shuffle(studies.filter((study) => study.farmId !== input.viewerFarmId)) : [];
+    const forest: ForestRow[] = [
+      ...own.map((study) => ({ label: "Your farm", own: true, pooled: false, estimate: study.y, lower: study.y - half(study), upper: study.y + half(study) })),
+      ...others.map((study, index) => ({ label: `Farm ${String.fromCharCode(65 + (index % 26))}${index >= 26 ? Math.floor(index / 26) : ""}`, own: false, pooled: false, estimate: study.y, lower: study.y - half(study), upper: study.y + half(study) })),
+      { label: "All farms (pooled)", own: false, pooled: true, estimate: pooled.random.estimate, lower: pooled.random.lower, upper: pooled.random.upper },
+    ];
+    results.push({
+      strainId,
+      strainName: name,
+      farms: studies.length,
+      blocks,
+      estimate: pooled.random.estimate,
+      lower: pooled.random.lower,
+      upper: pooled.random.upper,
+      i2: pooled.i2,
+      tau: Math.sqrt(pooled.random.tau2),
+      p: 2 * normalLowerTail(-Math.abs(z)),
+      sentence: comparisonSentence({ better: name, base: referenceName, estimate: pooled.random.estimate, lower: pooled.random.lower, upper: pooled.random.upper, farms: studies.length, blocks }),
+      forest,
+    });
+  }
+  if (results.length === 0) return suppressed(`no strain was grown beside ${referenceName} on ${minimumFarms} or more farms`);
+  const adjustedP = holm(results.map((result) => result.p));
+  return published({
+    referenceStrainId: referenceId,
+    referenceStrainName: referenceName,
+    strains: results.map(({ p: _p, ...result }, index) => ({ ...result, pHolm: adjustedP[index] })),
+  });
+}

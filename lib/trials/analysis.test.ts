@@ -1,0 +1,90 @@
+import { describe, expect, it } from "vitest";
+import { seededRandom } from "@/lib/random";
+import { blockedAnova, metaAnalysis, tukeyHsd, wilsonInterval, describe as describeValues } from "@/lib/stats";
+import { analyseTrial, type OutcomeRecord } from "./analysis";
+import { blockOutcome } from "./outcome";
+
+const arms = [
+  { id: "b", label: "B", isReference: false },
+  { id: "a", label: "A", isReference: true },
+  { id: "c", label: "C", isReference: false },
+];
+
+function generated(farms: number, seed = "analysis"): OutcomeRecord[] {
+  const random = seededRandom(seed);
+  const effect: Record<string, number> = { a: 0, b: 12, c: -1 };
+  const records: OutcomeRecord[] = [];
+  for (let farm = 1; farm <= farms; farm++) {
+    const farmEffect = random.normal(0, 8);
+    for (const arm of ["a", "b", "c"]) {
+      for (let block = 0; block < 6; block++) {
+        const contaminated = random.next() < 0.08;
+        records.push({ farm: `farm ${farm}`, armId: arm, contaminated, value: contaminated ? null : 70 + effect[arm] + farmEffect + random.normal(0, 10) });
+      }
+    }
+  }
+  return records;
+}
+
+describe("blockOutcome", () => {
+  const block = { wetMassG: 2500, moisture: 0.6, contaminated: false, harvests: [{ flush: 1, freshMassG: 500 }, { flush: 2, freshMassG: 200 }, { flush: 3, freshMassG: 100 }] };
+
+  it("is BE over flushes 1..k only (dry substrate 1000 g)", () => {
+    expect(blockOutcome(block, { flushes: 2, contaminatedHandling: "exclude" })).toEqual({ value: 70 });
+    expect(blockOutcome(block, { flushes: 1, contaminatedHandling: "exclude" })).toEqual({ value: 50 });
+  });
+
+  it("leaves contaminated blocks out or counts them as zero, as declared", () => {
+    const lost = { ...block, contaminated: true };
+    expect(blockOutcome(lost, { flushes: 2, contaminatedHandling: "exclude" })).toEqual({ value: null, reason: "contaminated" });
+    expect(blockOutcome(lost, { flushes: 2, contaminatedHandling: "count_as_zero" })).toEqual({ value: 0 });
+    expect(blockOutcome({ ...block, wetMassG: null }, { flushes: 2, contaminatedHandling: "exclude" })).toEqual({ value: null, reason: "no_mass" });
+  });
+});
+
+describe("analyseTrial", () => {
+  it("equals lib/stats on the same rows, with the reference first", () => {
+    const records = generated(4);
+    const result = analyseTrial({ arms, records, minimumFarms: 3 });
+    const kept = records.filter((record) => record.value !== null) as (OutcomeRecord & { value: number })[];
+    const label = (id: string) => arms.find((arm) => arm.id === id)!.label;
+
+    const fit = blockedAnova(kept.map((record) => ({ treatment: label(record.armId), block: record.farm, y: record.value })));
+    expect(result.anova!.arm.p).toBe(fit.treatment.p);
+    expect(result.anova!.adjustedMeans.map((mean) => mean.treatment)).toEqual(["A", "B", "C"]);
+    expect(result.anova!.adjustedMeans[1].estimate).toBe(fit.means.find((mean) => mean.treatment === "B")!.estimate);
+
+    const tukey = tukeyHsd({
+      A: kept.filter((r) => r.armId === "a").map((r) => r.value),
+      B: kept.filter((r) => r.armId === "b").map((r) => r.value),
+      C: kept.filter((r) => r.armId === "c").map((r) => r.value),
+    });
+    const bVersusA = tukey.find((pair) => pair.a === "B" && pair.b === "A")!;
+    expect(result.versusReference[0]).toMatchObject({ arm: "B", versus: "A", estimate: bVersusA.diff, lower: bVersusA.lower, pAdjusted: bVersusA.pAdj });
+    expect(result.betweenArms).toHaveLength(1);
+    expect(result.versusReference[0].lower).toBeGreaterThan(0);
+    expect(result.answer).toMatch(/^Arm B gave more than reference arm A/);
+
+    const perFarm = ["farm 1", "farm 2", "farm 3", "farm 4"].map((farm) => {
+      const b = describeValues(kept.filter((r) => r.farm === farm && r.armId === "b").map((r) => r.value));
+      const a = describeValues(kept.filter((r) => r.farm === farm && r.armId === "a").map((r) => r.value));
+      return { y: b.mean - a.mean, v: b.sd ** 2 / b.n + a.sd ** 2 / a.n };
+    });
+    const meta = metaAnalysis(perFarm);
+    expect(result.farmPooling[0].pooled!.estimate).toBeCloseTo(meta.random.estimate, 12);
+    expect(result.farmPooling[0].pooled!.i2).toBeCloseTo(meta.i2, 12);
+
+    const armA = records.filter((record) => record.armId === "a");
+    const contaminatedA = armA.filter((record) => record.contaminated).length;
+    expect(result.arms[0].contamination.upper).toBe(wilsonInterval(contaminatedA, armA.length).upper);
+    expect(result.blocksLeftOut).toBe(records.length - kept.length);
+  });
+
+  it("gives no pooled figure below the co-op's minimum number of farms", () => {
+    const result = analyseTrial({ arms, records: generated(2), minimumFarms: 3 });
+    expect(result.enoughFarms).toBe(false);
+    expect(result.anova).toBeNull();
+    expect(result.versusReference).toEqual([]);
+    expect(result.answer).toMatch(/needs 3 before it pools/);
+  });
+});

@@ -1,0 +1,200 @@
+import {
+  StatsInputError,
+  blockedAnova,
+  describe,
+  metaAnalysis,
+  tukeyHsd,
+  wilsonInterval,
+  type AdjustedMean,
+  type AnovaTerm,
+  type Description,
+  type ProportionInterval,
+} from "@/lib/stats";
+
+export interface TrialArmInfo {
+  id: string;
+  label: string;
+  isReference: boolean;
+}
+
+/** One block's contribution: its farm (as an opaque key), arm, outcome (null = left out) and contamination. */
+export interface OutcomeRecord {
+  farm: string;
+  armId: string;
+  value: number | null;
+  contaminated: boolean;
+}
+
+export interface Difference {
+  arm: string;
+  versus: string;
+  /** mean(arm) − mean(versus), in BE points. */
+  estimate: number;
+  lower: number;
+  upper: number;
+  pAdjusted: number;
+}
+
+export interface FarmDifference {
+  farm: string;
+  estimate: number;
+  lower: number;
+  upper: number;
+}
+
+export interface PooledDifference {
+  arm: string;
+  farms: FarmDifference[];
+  pooled: { estimate: number; lower: number; upper: number; tau2: number; i2: number } | null;
+  note: string | null;
+}
+
+export interface TrialAnalysis {
+  referenceArm: string;
+  farmsContributing: number;
+  minimumFarms: number;
+  enoughFarms: boolean;
+  blocksAnalysed: number;
+  blocksLeftOut: number;
+  arms: { label: string; n: number; summary: Description | null; contamination: ProportionInterval & { contaminated: number; blocks: number } }[];
+  anova: { arm: AnovaTerm; farm: AnovaTerm; adjustedMeans: AdjustedMean[] } | null;
+  versusReference: Difference[];
+  betweenArms: Difference[];
+  farmPooling: PooledDifference[];
+  notes: string[];
+  answer: string;
+}
+
+const round1 = (x: number) => (Math.round(x * 10) / 10).toFixed(1);
+
+function collectFarms(records: OutcomeRecord[]): string[] {
+  return [...new Set(records.map((record) => record.farm))].sort((a, b) => a.localeCompare(b, "en", { numeric: true }));
+}
+
+/**
+ * The trial's pre-declared analysis on per-block outcomes, all with lib/stats: blocked ANOVA
+ * (arm + farm) with least-squares means; Tukey-adjusted pairwise differences; per-farm
+ * differences against the reference pooled by DerSimonian–Laird with I²; contamination by arm
+ * with Wilson intervals; and the co-op's minimum-farms rule before any pooled figure is given.
+ */
+export function analyseTrial(input: { arms: TrialArmInfo[]; records: OutcomeRecord[]; minimumFarms: number }): TrialAnalysis {
+  const { arms, records, minimumFarms } = input;
+  const reference = arms.find((arm) => arm.isReference) ?? arms[0];
+  const ordered = [reference, ...arms.filter((arm) => arm.id !== reference.id)];
+  const labelOf = new Map(arms.map((arm) => [arm.id, arm.label]));
+  const analysed = records.filter((record): record is OutcomeRecord & { value: number } => record.value !== null && labelOf.has(record.armId));
+  const farms = collectFarms(analysed);
+  const enoughFarms = farms.length >= minimumFarms;
+  const notes: string[] = [];
+
+  const armSummaries = ordered.map((arm) => {
+    const values = analysed.filter((record) => record.armId === arm.id).map((record) => record.value);
+    const all = records.filter((record) => record.armId === arm.id);
+    const contaminated = all.filter((record) => record.contaminated).length;
+    const interval = all.length ? wilsonInterval(contaminated, all.length) : { p: 0, lower: 0, upper: 0 };
+    return {
+      label: arm.label,
+      n: values.length,
+      summary: values.length >= 2 ? describe(values) : null,
+      contamination: { ...interval, contaminated, blocks: all.length },
+    };
+  });
+
+  let anova: TrialAnalysis["anova"] = null;
+  let versusReference: Difference[] = [];
+  let betweenArms: Difference[] = [];
+  const farmPooling: PooledDifference[] = [];
+
+  if (!enoughFarms) {
+    notes.push(`Only ${farms.length} farm${farms.length === 1 ? "" : "s"} reported outcomes; the co-op shows pooled figures only from ${minimumFarms} farms up.`);
+  } else {
+    try {
+      const fit = blockedAnova(analysed.map((record) => ({ treatment: labelOf.get(record.armId)!, block: record.farm, y: record.value })));
+      const order = new Map(ordered.map((arm, index) => [arm.label, index]));
+      anova = {
+        arm: fit.treatment,
+        farm: fit.block,
+        adjustedMeans: [...fit.means].sort((a, b) => order.get(a.treatment)! - order.get(b.treatment)!),
+      };
+    } catch (error) {
+      if (!(error instanceof StatsInputError)) throw error;
+      notes.push(`The blocked analysis could not be fitted: ${error.message}`);
+    }
+    try {
+      // Keys carry a prefix so labels such as "1" and "2" keep the arms' order (JavaScript sorts integer keys first).
+      const groups: Record<string, number[]> = {};
+      for (const arm of ordered) groups[`arm ${arm.label}`] = analysed.filter((record) => record.armId === arm.id).map((record) => record.value);
+      const label = (key: string) => key.slice(4);
+      const pairs = tukeyHsd(groups).map((pair) => ({ arm: label(pair.a), versus: label(pair.b), estimate: pair.diff, lower: pair.lower, upper: pair.upper, pAdjusted: pair.pAdj }));
+      versusReference = pairs.filter((pair) => pair.versus === reference.label);
+      betweenArms = pairs.filter((pair) => pair.versus !== reference.label);
+    } catch (error) {
+      if (!(error instanceof StatsInputError)) throw error;
+      notes.push(`The pairwise comparison could not be made: ${error.message}`);
+    }
+    for (const arm of ordered.slice(1)) farmPooling.push(poolFarmDifferences(arm, reference, farms, analysed));
+  }
+
+  return {
+    referenceArm: reference.label,
+    farmsContributing: farms.length,
+    minimumFarms,
+    enoughFarms,
+    blocksAnalysed: analysed.length,
+    blocksLeftOut: records.length - analysed.length,
+    arms: armSummaries,
+    anova,
+    versusReference,
+    betweenArms,
+    farmPooling,
+    notes,
+    answer: plainAnswer(reference.label, versusReference, enoughFarms, farms.length, minimumFarms),
+  };
+}
+
+function poolFarmDifferences(arm: TrialArmInfo, reference: TrialArmInfo, farms: string[], analysed: (OutcomeRecord & { value: number })[]): PooledDifference {
+  const perFarm: (FarmDifference & { v: number })[] = [];
+  for (const farm of farms) {
+    const own = analysed.filter((record) => record.farm === farm && record.armId === arm.id).map((record) => record.value);
+    const ref = analysed.filter((record) => record.farm === farm && record.armId === reference.id).map((record) => record.value);
+    if (own.length < 2 || ref.length < 2) continue;
+    const a = describe(own);
+    const r = describe(ref);
+    const v = (a.sd * a.sd) / a.n + (r.sd * r.sd) / r.n;
+    if (!(v > 0)) continue;
+    const estimate = a.mean - r.mean;
+    const half = 1.959963984540054 * Math.sqrt(v);
+    perFarm.push({ farm, estimate, lower: estimate - half, upper: estimate + half, v });
+  }
+  const shown = perFarm.map(({ farm, estimate, lower, upper }) => ({ farm, estimate, lower, upper }));
+  if (perFarm.length < 2) {
+    return { arm: arm.label, farms: shown, pooled: null, note: "Fewer than 2 farms ran both arms with 2 or more blocks each, so farms cannot be pooled." };
+  }
+  const meta = metaAnalysis(perFarm.map((farm) => ({ y: farm.estimate, v: farm.v })));
+  return {
+    arm: arm.label,
+    farms: shown,
+    pooled: { estimate: meta.random.estimate, lower: meta.random.lower, upper: meta.random.upper, tau2: meta.random.tau2, i2: meta.i2 },
+    note: null,
+  };
+}
+
+function plainAnswer(reference: string, differences: Difference[], enoughFarms: boolean, farms: number, minimumFarms: number): string {
+  if (!enoughFarms) return `No answer yet: ${farms} farm${farms === 1 ? "" : "s"} reported, and the co-op needs ${minimumFarms} before it pools.`;
+  if (!differences.length) return "No answer: the arms could not be compared.";
+  return differences
+    .map((difference) => {
+      const range = `${round1(difference.lower)} to ${round1(difference.upper)} BE points`;
+      if (difference.lower > 0) return `Arm ${difference.arm} gave more than reference arm ${reference}: ${round1(difference.estimate)} BE points more (95 % interval ${range}).`;
+      if (difference.upper < 0) return `Arm ${difference.arm} gave less than reference arm ${reference}: ${round1(-difference.estimate)} BE points less (95 % interval ${range}).`;
+      return `Arm ${difference.arm} and reference arm ${reference} could not be told apart: the difference was ${round1(difference.estimate)} BE points (95 % interval ${range}).`;
+    })
+    .join(" ");
+}
+
+/** What is stored on the trial when it closes, and shown once published. */
+export interface StoredTrialResults {
+  analysis: TrialAnalysis;
+  deviations: { farmsDropped: number; farmsDeclined: number; blocksAssigned: number; blocksMade: number; blocksLeftOut: number };
+  analysedAt: string;
+}

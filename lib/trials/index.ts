@@ -1,0 +1,5 @@
+export * from "./lifecycle";
+export * from "./randomisation";
+export * from "./sample-size";
+export * from "./outcome";
+export * from "./analysis";

@@ -1,0 +1,179 @@
+// Times the pooled-statistics refresh on a generated co-op of 50 farms × 10 000 blocks ×
+// 4 flushes (2 million harvests), each beside a bare SQL GROUP BY computing the same per-farm
+// sums in the same run, and the results computation one request does. Prints figures only.
+import { mkdtempSync } from "node:fs";
+import { createRequire } from "node:module";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { performance } from "node:perf_hooks";
+import { Pool } from "pg";
+import { chromium } from "playwright-core";
+import { hashPassword } from "../lib/auth/password";
+import { buildPooledResults, type FlushStatisticsRow, type StrainStatisticsRow } from "../lib/pooled";
+import { seededRandom } from "../lib/random";
+
+interface LoadResult {
+  requests: { average: number };
+  latency: { p50: number; p90: number; p97_5: number; p99: number };
+  non2xx: number;
+}
+// autocannon ships no types; this is the part of its API used here.
+const autocannon = createRequire(import.meta.url)("autocannon") as (options: { url: string; connections: number; duration: number; headers: Record<string, string> }) => Promise<LoadResult>;
+
+const FARMS = 50;
+const BLOCKS_PER_FARM = 10_000;
+const FLUSHES = 4;
+const RUNS = 3;
+
+function pool(url: string | undefined, database?: string): Pool {
+  if (!url) throw new Error("Run this through npm run bench:pooled (it sets the database up)");
+  const parsed = new URL(url);
+  if (database) parsed.pathname = `/${database}`;
+  return new Pool({ connectionString: parsed.toString(), max: 2 });
+}
+
+const database = process.env.RHIZO_DATABASE;
+const superuser = pool(process.env.SUPERUSER_DATABASE_URL, database);
+const analyst = pool(process.env.ANALYST_DATABASE_URL);
+
+async function timed(work: () => Promise<unknown>): Promise<number> {
+  const times: number[] = [];
+  for (let run = 0; run < RUNS; run++) {
+    const start = performance.now();
+    await work();
+    times.push(performance.now() - start);
+  }
+  return times.sort((a, b) => a - b)[Math.floor(RUNS / 2)];
+}
+
+const ms = (value: number) => `${value.toFixed(0)} ms`;
+
+// The same sums the refresh stores (blocks, contaminated, BE n/Σ/Σ², days to first harvest), per
+// farm × strain × recipe × method × arm, as one plain aggregate query over the same rows.
+const bareGroupBy = (where: string) => `
+  create temp table bench_sums as
+    select b.farm_id, s.species_id, b.strain_id, b.substrate_recipe_id, b.fruiting_method_id, b.trial_arm_id,
+      count(*) as blocks, count(*) filter (where b.contaminated) as contaminated,
+      count(h.fresh) as efficiency_blocks, sum(100 * h.fresh / (b.wet_mass_g * (1 - b.moisture))) as efficiency_sum,
+      sum((100 * h.fresh / (b.wet_mass_g * (1 - b.moisture)))^2) as efficiency_squares,
+      sum(h.first_on - b.inoculated_on) as first_harvest_days_sum
+    from blocks b join strains s on s.id = b.strain_id
+    left join (select block_id, sum(fresh_mass_g) as fresh, min(harvested_on) as first_on from harvests ${where.replace("b.farm_id", "farm_id")} group by block_id) h on h.block_id = b.id
+    ${where}
+    group by 1, 2, 3, 4, 5, 6;
+  drop table bench_sums`;
+
+async function generate(): Promise<string> {
+  console.log(`Generating ${FARMS} farms × ${BLOCKS_PER_FARM} blocks × ${FLUSHES} flushes …`);
+  const start = performance.now();
+  await superuser.query(`
+    insert into cooperative_settings (name, minimum_farms) values ('Bench co-op', 3) on conflict do nothing;
+    insert into species (scientific_name, common_name) values ('Fungus benchmarkii', 'bench mushroom');
+    insert into strains (code, name, source, species_id) select 'B-' || n, 'Bench strain ' || n, 'culture_bank', (select id from species limit 1) from generate_series(1, 10) n;
+    insert into substrate_recipes (code, name, base, target_moisture, treatment) values ('R1', 'Recipe one', 'Sawdust', 0.62, 'sterilised'), ('R2', 'Recipe two', 'Straw', 0.7, 'sterilised');
+    insert into treatments (code, name, kind) values ('M1', 'Method one', 'fruiting_method');
+    insert into farms (name) select 'Bench farm ' || n from generate_series(1, ${FARMS}) n;`);
+  await superuser.query(`
+    create temp table strain_list as select id, row_number() over (order by code) as n from strains;
+    insert into blocks (farm_id, code, strain_id, substrate_recipe_id, fruiting_method_id, inoculated_on, wet_mass_g, moisture, contaminated, spent_mass_g)
+    select f.id, 'B' || g, (select id from strain_list where n = 1 + g % 10),
+      (select id from substrate_recipes order by code limit 1 offset g % 2), (select id from treatments limit 1),
+      date '2026-01-01' + (g % 150), 2300 + (g * 7919) % 500, 0.6 + ((g * 104729) % 50) / 1000.0, (g * 31) % 25 = 0,
+      case when g % 3 = 0 then 1700 end
+    from farms f cross join generate_series(1, ${BLOCKS_PER_FARM}) g;
+    drop table strain_list;`);
+  await superuser.query(`
+    insert into harvests (farm_id, block_id, flush, harvested_on, fresh_mass_g)
+    select b.farm_id, b.id, k, b.inoculated_on + 20 + 14 * k, round((400 - 60 * k + (hashtext(b.id::text || k) % 80))::numeric, 1)
+    from blocks b cross join generate_series(1, ${FLUSHES}) k
+    where not b.contaminated or k = 1;
+    analyze;`);
+  const { rows } = await superuser.query<{ harvests: number }>("select count(*)::int as harvests from harvests");
+  console.log(`  ${rows[0].harvests} harvests in ${ms(performance.now() - start)}`);
+  return (await superuser.query<{ id: string }>("select id from farms order by name limit 1")).rows[0].id;
+}
+
+async function main() {
+  // RHIZO_BENCH_REUSE=1 keeps an already generated co-op (run scripts/bench-pooled.ts directly).
+  const existing = process.env.RHIZO_BENCH_REUSE ? (await superuser.query<{ id: string }>("select id from farms order by name limit 1")).rows[0]?.id : undefined;
+  const farmId = existing ?? (await generate());
+
+  const fullRefresh = await timed(() => analyst.query("select pooled_refresh_all()"));
+  const fullBare = await timed(() => analyst.query(bareGroupBy("")));
+
+  // One farm sends a season log of 40 000 rows: all its harvests are replaced, then refreshed.
+  await superuser.query("update harvests set fresh_mass_g = fresh_mass_g + 1 where farm_id = $1", [farmId]);
+  const oneRefresh = await timed(() => analyst.query("select pooled_refresh_farm($1)", [farmId]));
+  const oneBare = await timed(() => analyst.query(bareGroupBy(`where b.farm_id = '${farmId}'`)));
+
+  // What one results request computes: read the species' statistics and pool them.
+  const species = (await analyst.query<{ id: string }>("select id from species limit 1")).rows[0].id;
+  const strains = (await analyst.query<{ id: string; name: string }>("select id, name from strains")).rows;
+  const request = async () => {
+    const rows = (await analyst.query(`
+      select farm_id as "farmId", strain_id as "strainId", substrate_recipe_id as "substrateRecipeId", fruiting_method_id as "fruitingMethodId",
+        blocks, blocks_contaminated as "blocksContaminated", efficiency_blocks as "efficiencyBlocks", efficiency_sum as "efficiencySum",
+        efficiency_squares as "efficiencySquares", efficiency_bins as "efficiencyBins", first_harvest_blocks as "firstHarvestBlocks",
+        first_harvest_days_sum as "firstHarvestDaysSum"
+      from farm_strain_statistics where species_id = $1 and flush_window = 'all'`, [species])).rows as StrainStatisticsRow[];
+    const flushRows = (await analyst.query(`
+      select farm_id as "farmId", strain_id as "strainId", substrate_recipe_id as "substrateRecipeId", fruiting_method_id as "fruitingMethodId",
+        flush, finished_blocks as "finishedBlocks", blocks_fruiting as "blocksFruiting", share_sum as "shareSum", share_squares as "shareSquares",
+        cumulative_sum as "cumulativeSum", cumulative_squares as "cumulativeSquares"
+      from farm_flush_statistics where species_id = $1`, [species])).rows as FlushStatisticsRow[];
+    return buildPooledResults({ rows, flushRows, strains, filters: {}, minimumFarms: 3, showPerFarmEstimates: false, viewerFarmId: farmId, random: seededRandom(1) });
+  };
+  const requestTime = await timed(request);
+
+  console.log("");
+  console.log(`| measurement (median of ${RUNS}) | pooled refresh | bare GROUP BY, same sums | ratio |`);
+  console.log("| --- | --- | --- | --- |");
+  console.log(`| (a) one farm after a 40 000-row upload | ${ms(oneRefresh)} | ${ms(oneBare)} | ${(oneRefresh / oneBare).toFixed(2)}× |`);
+  console.log(`| (b) full recompute, ${FARMS} farms | ${ms(fullRefresh)} | ${ms(fullBare)} | ${(fullRefresh / fullBare).toFixed(2)}× |`);
+  console.log(`| results for one species (read statistics + pool, no HTTP) | ${ms(requestTime)} | | |`);
+
+  // (c) Only with an app already serving this database (see docs-drafts/co-op-results.md).
+  const appUrl = process.env.RHIZO_BENCH_APP_URL;
+  if (appUrl) await loadTest(appUrl, species);
+}
+
+/** 20 clients for 30 s on GET /api/results as a signed-in observer, beside GET /sign-in (no database). */
+async function loadTest(appUrl: string, species: string) {
+  const email = "bench-observer@bench.example";
+  const password = "bench-observer-password";
+  await superuser.query(
+    "insert into users (email, name, role, password_hash) values ($1, 'Bench observer', 'observer', $2) on conflict do nothing",
+    [email, await hashPassword(password)],
+  );
+  const browser = await chromium.launchPersistentContext(mkdtempSync(path.join(tmpdir(), "rhizomorph-bench-")), {
+    executablePath: "/usr/bin/chromium",
+    headless: true,
+    args: ["--no-sandbox", "--disable-gpu", "--no-first-run"],
+  });
+  const page = await browser.newPage();
+  await page.goto(`${appUrl}/sign-in`);
+  await page.getByLabel("E-mail").fill(email);
+  await page.getByLabel("Password").fill(password);
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await page.getByTestId("member-name").waitFor();
+  const cookie = (await browser.cookies()).map((entry) => `${entry.name}=${entry.value}`).join("; ");
+  await browser.close();
+  const run = (url: string) =>
+    autocannon({ url, connections: 20, duration: 30, headers: { cookie } });
+  const baseline = await run(`${appUrl}/sign-in`);
+  const results = await run(`${appUrl}/api/results?species=${species}&window=all`);
+  console.log("");
+  // autocannon reports p90 and p97.5; p95 lies between them.
+  console.log("| 20 clients, 30 s, loopback | requests/s | p50 | p90 | p97.5 | non-2xx |");
+  console.log("| --- | --- | --- | --- | --- | --- |");
+  for (const [name, result] of [["GET /api/results (50 farms)", results], ["GET /sign-in (baseline page, no database)", baseline]] as const) {
+    console.log(`| ${name} | ${result.requests.average.toFixed(0)} | ${result.latency.p50} ms | ${result.latency.p90} ms | ${result.latency.p97_5} ms | ${result.non2xx} |`);
+  }
+}
+
+try {
+  await main();
+} finally {
+  await superuser.end();
+  await analyst.end();
+}

@@ -1,0 +1,116 @@
+import type { BrowserContext } from "playwright-core";
+import type { Pool } from "pg";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { superuserPool } from "../integration/support/database";
+import { appUrl, collectPageErrors, openBrowser, screenshot } from "./support/browser";
+import { AcceptInvitationPage, FarmPeoplePage, MembersPage } from "./support/member-pages";
+import { AppShell, SignInPage } from "./support/pages";
+
+const run = Date.now().toString(36);
+const farmName = `Yarrow Hill ${run}`;
+const managerEmail = `manager-${run}@yarrowhill.example`;
+const growerEmail = `grower-${run}@yarrowhill.example`;
+const managerPassword = "yarrow-hill-spawn-run";
+
+let inspector: Pool;
+
+/** The link in the newest caught e-mail to `to`, as the recipient would click it. */
+async function linkMailedTo(to: string): Promise<string> {
+  for (let attempt = 0; attempt < 100; attempt += 1) {
+    const { rows } = await inspector.query<{ text: string }>("select text from mail_messages where $1 = any(recipients) order by id desc limit 1", [to]);
+    const link = rows[0]?.text.match(/https?:\/\/\S+\/accept-invitation\?token=[A-Za-z0-9_-]+/)?.[0];
+    if (link) return link;
+    await new Promise((resolve) => setTimeout(resolve, 100));
+  }
+  throw new Error(`no invitation e-mailed to ${to}`);
+}
+
+describe("admitting a farm and bringing in its people", () => {
+  let coordinatorBrowser: BrowserContext;
+  let managerBrowser: BrowserContext;
+
+  beforeAll(async () => {
+    inspector = superuserPool();
+    coordinatorBrowser = await openBrowser();
+    managerBrowser = await openBrowser({ width: 390, height: 844 });
+  });
+
+  afterAll(async () => {
+    await coordinatorBrowser?.close();
+    await managerBrowser?.close();
+    await inspector?.end();
+  });
+
+  it("lets the coordinator admit a farm and invite its manager by e-mail", async () => {
+    const page = await coordinatorBrowser.newPage();
+    const errors = collectPageErrors(page);
+    await new SignInPage(page).signIn("coordinator@aldervalley.example");
+    await new AppShell(page).waitUntilSignedIn();
+    const members = new MembersPage(page);
+    await members.open();
+    expect(await members.admitFarm(farmName, "Alder Heights", managerEmail)).toContain("is now a member farm");
+    await members.open();
+    expect(await members.farmNames()).toContain(farmName);
+    expect(await members.invite(managerEmail, "Farm manager", farmName)).toContain(`Invitation sent to ${managerEmail}`);
+    await screenshot(page, "members-coordinator-invited-manager");
+    expect(errors).toEqual([]);
+  });
+
+  it("lets the manager accept from the e-mailed link, sign in, and invite a grower", async () => {
+    const page = await managerBrowser.newPage();
+    const errors = collectPageErrors(page);
+    const link = await linkMailedTo(managerEmail);
+    const accept = new AcceptInvitationPage(page);
+    await accept.open(link);
+    expect(await page.getByText(farmName).first().textContent()).toContain(farmName);
+    await screenshot(page, "members-accept-invitation-phone");
+    expect(await accept.accept("Sofia Lindqvist", managerPassword)).toContain("Your password is set");
+
+    // The link works once.
+    await accept.open(link);
+    expect(await accept.refusal()).toContain("already been used");
+
+    await new SignInPage(page).signIn(managerEmail, managerPassword);
+    // On a phone the menu (and the member's name in it) is folded away: wait for the landing page instead.
+    await page.waitForURL((url) => !url.pathname.startsWith("/sign-in"));
+    const farmPeople = new FarmPeoplePage(page);
+    await farmPeople.open();
+    expect(await farmPeople.inviteGrower(growerEmail)).toContain(`Invitation sent to ${growerEmail}`);
+    await farmPeople.open();
+    expect((await farmPeople.openInvitations()).join(" ")).toContain(growerEmail);
+    await screenshot(page, "members-farm-people-phone");
+    expect(await linkMailedTo(growerEmail)).toMatch(/accept-invitation\?token=/);
+    expect(errors).toEqual([]);
+  });
+
+  it("shows the registries and the co-op activity log to the coordinator, and a farm its data rights and settings", async () => {
+    const page = await coordinatorBrowser.newPage();
+    const errors = collectPageErrors(page);
+    await page.goto(`${appUrl}/strains`);
+    await page.getByRole("heading", { name: "Strains", level: 1 }).waitFor();
+    expect(await page.getByRole("table", { name: "Strains" }).getByText("PO-01").count()).toBe(1);
+    await screenshot(page, "members-registries-coordinator");
+    await page.goto(`${appUrl}/activity`);
+    await page.getByRole("table", { name: "Co-op activity log" }).waitFor();
+    await page.getByPlaceholder("Type to filter rows").fill("member.invited");
+    expect(await page.getByRole("table", { name: "Co-op activity log" }).getByText(managerEmail).count()).toBeGreaterThan(0);
+    await screenshot(page, "members-activity-coordinator");
+    expect(errors).toEqual([]);
+
+    const farmPage = await managerBrowser.newPage();
+    const farmErrors = collectPageErrors(farmPage);
+    await farmPage.goto(`${appUrl}/farm-people/data`);
+    await farmPage.getByRole("heading", { name: "Your farm's data", level: 1 }).waitFor();
+    expect(await farmPage.getByText("keep their published figures").count()).toBe(1);
+    await screenshot(farmPage, "members-farm-data-phone");
+    await farmPage.goto(`${appUrl}/settings`);
+    const preferences = farmPage.getByTestId("preferences");
+    await preferences.getByLabel("Show masses in").selectOption("imperial");
+    await preferences.getByRole("button", { name: "Save preferences" }).click();
+    await preferences.getByRole("status").waitFor();
+    const { rows } = await inspector.query<{ display_units: string }>("select display_units from users where email = $1", [managerEmail]);
+    expect(rows[0].display_units).toBe("imperial");
+    await screenshot(farmPage, "members-settings-phone");
+    expect(farmErrors).toEqual([]);
+  });
+});

@@ -1,0 +1,122 @@
+import type { Pool } from "pg";
+import type { BrowserContext } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { superuserPool } from "../integration/support/database";
+import { appUrl, collectPageErrors, openBrowser, screenshot, seriousAccessibilityProblems } from "./support/browser";
+import { AppShell, SignInPage } from "./support/pages";
+import { ResultsPage } from "./support/results-pages";
+
+let browser: BrowserContext;
+let inspector: Pool;
+let farmNames: string[];
+
+beforeAll(async () => {
+  browser = await openBrowser();
+  inspector = superuserPool();
+  farmNames = (await inspector.query<{ name: string }>("select name from farms")).rows.map((row) => row.name);
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await inspector?.query("update cooperative_settings set show_per_farm_estimates = false");
+  await inspector?.end();
+});
+
+describe("Co-op results in the browser", () => {
+  it("lets a farm manager switch species and flushes, and see their own blocks and farm on the charts", async () => {
+    await browser.clearCookies();
+    const page = await browser.newPage();
+    const errors = collectPageErrors(page);
+    await new SignInPage(page).signIn("manager@fernbrook.example");
+    await new AppShell(page).waitUntilSignedIn();
+    const results = new ResultsPage(page);
+    await results.open();
+    await results.chooseSpecies(/oyster/i);
+    expect(await results.strainNames()).toEqual(expect.arrayContaining(["Grey Morning", "Slate Blue", "Valley Wild"]));
+
+    await results.chooseSpecies(/lion/i);
+    expect(await results.strainNames()).toEqual(expect.arrayContaining(["Snowdrift", "Beech Hollow"]));
+    await results.chooseFlushes("Flushes 1–2");
+    expect(await results.ownBlockDots()).toBeGreaterThan(0);
+    expect(await results.forestRows("own")).toBeGreaterThan(0);
+    expect(await results.forestRows("pooled")).toBeGreaterThan(0);
+    // Per-farm estimates are off by default: no other farm appears, named or not.
+    expect(await results.forestRows("farm")).toBe(0);
+    expect(await page.getByText("Strain", { exact: false }).first().isVisible()).toBe(true);
+    expect(await page.getByText("What a pooled figure means").isVisible()).toBe(true);
+    await screenshot(page, "results-farm-manager-lions-mane-flushes-1-2");
+    expect(await seriousAccessibilityProblems(page)).toEqual([]);
+    const text = await page.locator("main").textContent();
+    for (const name of farmNames.filter((name) => name !== "Fernbrook Farm")) expect(text).not.toContain(name);
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  it("shows an observer pooled results and no farm-level data", async () => {
+    await browser.clearCookies();
+    const page = await browser.newPage();
+    const errors = collectPageErrors(page);
+    await new SignInPage(page).signIn("observer@extension.example");
+    await new AppShell(page).waitUntilSignedIn();
+    const results = new ResultsPage(page);
+    await results.open();
+    expect(await page.getByRole("table", { name: "Strains side by side" }).locator("tbody tr").count()).toBeGreaterThan(0);
+    expect(await results.ownBlockDots()).toBe(0);
+    expect(await results.forestRows("own")).toBe(0);
+    expect(await results.forestRows("farm")).toBe(0);
+    expect(await results.forestRows("pooled")).toBeGreaterThan(0);
+    const text = await page.locator("main").textContent();
+    for (const name of farmNames) expect(text).not.toContain(name);
+    await screenshot(page, "results-observer");
+    expect(await seriousAccessibilityProblems(page)).toEqual([]);
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  it("lets the coordinator raise the minimum and show anonymised farms, and the results follow", async () => {
+    await browser.clearCookies();
+    const page = await browser.newPage();
+    await new SignInPage(page).signIn("coordinator@aldervalley.example");
+    await new AppShell(page).waitUntilSignedIn();
+    await page.goto(`${appUrl}/settings/cooperative`);
+    await page.getByLabel("Minimum number of farms behind a published figure").fill("6");
+    await page.getByLabel("Show anonymised per-farm estimates").check();
+    await page.getByRole("button", { name: "Save co-op settings" }).click();
+    await page.getByText("Saved.").waitFor();
+    await screenshot(page, "co-op-settings-saved");
+
+    const results = new ResultsPage(page);
+    await results.open();
+    expect(await page.getByText("fewer than 6 farms").count()).toBeGreaterThan(0);
+    expect(await page.getByText("Not enough data").count()).toBeGreaterThan(0);
+    await screenshot(page, "results-suppressed-below-minimum");
+
+    await page.goto(`${appUrl}/settings/cooperative`);
+    await page.getByLabel("Minimum number of farms behind a published figure").fill("3");
+    await page.getByRole("button", { name: "Save co-op settings" }).click();
+    await page.getByText("Saved.").waitFor();
+    await results.open();
+    expect(await results.forestRows("farm")).toBeGreaterThan(0);
+    await screenshot(page, "results-coordinator-anonymised-farms");
+    await page.close();
+  });
+
+  it("shows a farm manager My farm with the co-op beside it", async () => {
+    await browser.clearCookies();
+    const page = await browser.newPage();
+    const errors = collectPageErrors(page);
+    await new SignInPage(page).signIn("manager@hollowoak.example");
+    await new AppShell(page).waitUntilSignedIn();
+    await page.goto(`${appUrl}/my-farm`);
+    const table = page.getByRole("table", { name: "Your season by strain" });
+    await table.waitFor();
+    expect(await table.locator("tbody tr").count()).toBeGreaterThan(0);
+    // Hollow Oak records in pounds; the member's display preference (metric) decides what is shown.
+    expect(await table.textContent()).toMatch(/kg|g/);
+    expect(await page.getByText("above").count()).toBeGreaterThan(0);
+    await screenshot(page, "my-farm-hollow-oak");
+    expect(await seriousAccessibilityProblems(page)).toEqual([]);
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+});

@@ -1,0 +1,90 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { BrowserContext } from "playwright-core";
+import { collectPageErrors, openBrowser, screenshot } from "./support/browser";
+import { AppShell, SignInPage } from "./support/pages";
+import { BlocksPage, QuickHarvestPage, SeasonLogPage } from "./support/season-log-pages";
+
+// A sheet as a European-locale spreadsheet exports it: semicolons, decimal commas, day-first
+// dates, and a weight column headed in the farm's own words ("Picked (g)").
+const header = "Block;Strain;Substrate;Inoculated;Wet block (kg);Moisture;Flush;Harvested;Picked (g)";
+const rows = (strainOfSecond: string) =>
+  [
+    "E2E-01;PO-01;HWB-20;02.03.2026;2,5;62 %;1;14.04.2026;612,5",
+    "E2E-01;PO-01;HWB-20;02.03.2026;2,5;62 %;2;29.04.2026;380",
+    `E2E-02;${strainOfSecond};HWB-20;02.03.2026;2,4;62 %;1;15.04.2026;540,0`,
+  ].join("\r\n");
+const withTypo = `${header}\r\n${rows("PO-1O")}\r\n`;
+const corrected = `${header}\r\n${rows("PO-01")}\r\n`;
+
+describe("a grower uploads a season log", () => {
+  let browser: BrowserContext;
+  beforeAll(async () => {
+    browser = await openBrowser();
+  });
+  afterAll(async () => {
+    await browser?.close();
+  });
+
+  it("maps a column, sees an error, uploads the corrected file, commits and finds the blocks", async () => {
+    const page = await browser.newPage();
+    const errors = collectPageErrors(page);
+    await new SignInPage(page).signIn("grower@fernbrook.example");
+    await new AppShell(page).waitUntilSignedIn();
+
+    const logs = new SeasonLogPage(page);
+    await logs.open();
+    await screenshot(page, "season-logs-1-empty");
+
+    await logs.upload("fernbrook-season.csv", withTypo);
+    expect(await logs.summary()).toContain("“;” between columns, “,” as decimal mark");
+    expect((await logs.issueMessages()).join("\n")).toContain('"Picked (g)" match no season-log column');
+    expect(await logs.commitButton().isDisabled()).toBe(true);
+    await screenshot(page, "season-logs-2-needs-mapping");
+
+    await logs.mapColumn("Picked (g)", "Fresh weight");
+    await logs.checkAgain();
+    const messages = await logs.issueMessages();
+    expect(messages).toHaveLength(1);
+    expect(messages[0]).toContain('"PO-1O" is not a strain code of the co-op. Did you mean "PO-01"?');
+    expect(await logs.commitButton().isDisabled()).toBe(true);
+    await screenshot(page, "season-logs-3-error");
+
+    await logs.startOver();
+    await logs.upload("fernbrook-season-corrected.csv", corrected);
+    expect(await logs.summary()).toContain("0 errors");
+    expect(await logs.previewCounts()).toMatch(/New blocks\s*2.*New harvests\s*3/);
+    expect(await logs.commitButton().isEnabled()).toBe(true);
+    await screenshot(page, "season-logs-4-review");
+
+    const receipt = await logs.commit();
+    expect(receipt).toContain("2 new blocks");
+    expect(receipt).toContain("3 new harvests");
+    await screenshot(page, "season-logs-5-receipt");
+
+    const blocks = new BlocksPage(page);
+    await blocks.open();
+    await blocks.filter("E2E-");
+    expect(await blocks.blockCodes()).toEqual(["E2E-01", "E2E-02"]);
+    await screenshot(page, "season-logs-6-blocks");
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  it("records the next flush from the quick form on a phone", async () => {
+    const phone = await openBrowser({ width: 390, height: 844 });
+    try {
+      const page = await phone.newPage();
+      await new SignInPage(page).signIn("grower@fernbrook.example");
+      // On a phone the menu (and the member's name in it) is folded away.
+      await page.waitForURL((url) => !url.pathname.startsWith("/sign-in"));
+      const form = new QuickHarvestPage(page);
+      await form.open();
+      expect(await form.suggestedFlushFor("E2E-02")).toBe("2");
+      await screenshot(page, "season-logs-7-quick-harvest");
+      expect(await form.record("1 lb 2 oz", "g")).toContain("Saved flush 2 of E2E-02: 510 g");
+      await screenshot(page, "season-logs-8-quick-harvest-saved");
+    } finally {
+      await phone.close();
+    }
+  });
+});

@@ -1,0 +1,102 @@
+import type { Page } from "playwright-core";
+import { appUrl } from "./browser";
+
+/** The Season logs page: choose a file, fix the mapping, review, commit. */
+export class SeasonLogPage {
+  constructor(readonly page: Page) {}
+
+  async open(): Promise<void> {
+    await this.page.goto(`${appUrl}/season-logs`);
+    await this.page.getByRole("heading", { name: "Season logs", level: 1 }).waitFor();
+  }
+
+  async upload(name: string, text: string): Promise<void> {
+    await this.page.locator("#season-log-file").setInputFiles({ name, mimeType: "text/csv", buffer: Buffer.from(text, "utf8") });
+    await this.page.getByTestId("review-summary").waitFor();
+  }
+
+  async mapColumn(header: string, targetLabel: string): Promise<void> {
+    await this.page.getByLabel(`Column “${header}”`, { exact: false }).selectOption({ label: targetLabel });
+  }
+
+  async checkAgain(): Promise<void> {
+    const summary = await this.summary();
+    await this.page.getByRole("button", { name: "Check the file again with these choices" }).click();
+    await this.page.waitForFunction((before) => document.querySelector("[data-testid=review-summary]")?.textContent !== before, summary);
+  }
+
+  async summary(): Promise<string> {
+    return ((await this.page.getByTestId("review-summary").textContent()) ?? "").replace(/\s+/g, " ").trim();
+  }
+
+  /** Messages in the problems table, as shown. */
+  async issueMessages(): Promise<string[]> {
+    const table = this.page.getByRole("table", { name: "Problems found in the file" });
+    if ((await table.count()) === 0) return [];
+    return (await table.locator("tbody tr td:last-child").allTextContents()).map((text) => text.trim());
+  }
+
+  commitButton() {
+    return this.page.getByRole("button", { name: "Commit to my farm's records" });
+  }
+
+  async previewCounts(): Promise<string> {
+    return ((await this.page.getByTestId("preview-counts").textContent()) ?? "").replace(/\s+/g, " ");
+  }
+
+  async startOver(): Promise<void> {
+    await this.page.getByRole("button", { name: "Upload a corrected file" }).click();
+    await this.page.locator("#season-log-file").waitFor({ state: "attached" });
+  }
+
+  async commit(): Promise<string> {
+    await this.commitButton().click();
+    const receipt = this.page.getByTestId("receipt");
+    await receipt.waitFor();
+    return ((await receipt.textContent()) ?? "").replace(/\s+/g, " ");
+  }
+}
+
+/** Blocks & harvests: the farm's table. */
+export class BlocksPage {
+  constructor(readonly page: Page) {}
+
+  async open(): Promise<void> {
+    await this.page.goto(`${appUrl}/blocks`);
+    await this.page.getByRole("heading", { name: "Blocks & harvests", level: 1 }).waitFor();
+  }
+
+  async filter(text: string): Promise<void> {
+    await this.page.getByLabel("Filter").fill(text);
+  }
+
+  /** Block codes in the visible rows. */
+  async blockCodes(): Promise<string[]> {
+    const table = this.page.getByRole("table", { name: "Blocks and harvests" });
+    return (await table.locator("tbody tr td:first-child").allTextContents()).map((text) => text.trim());
+  }
+}
+
+/** The quick harvest form. */
+export class QuickHarvestPage {
+  constructor(readonly page: Page) {}
+
+  async open(): Promise<void> {
+    await this.page.goto(`${appUrl}/blocks/harvest`);
+    await this.page.getByRole("heading", { name: "Record a harvest" }).waitFor();
+  }
+
+  async suggestedFlushFor(blockCode: string): Promise<string> {
+    await this.page.getByLabel("Block code").fill(blockCode);
+    return this.page.getByLabel("Flush").inputValue();
+  }
+
+  async record(weight: string, unit: string): Promise<string> {
+    await this.page.getByLabel("Fresh weight").fill(weight);
+    await this.page.getByLabel("Unit").selectOption(unit);
+    await this.page.getByRole("button", { name: "Save this flush" }).click();
+    const saved = this.page.getByRole("status").filter({ hasText: "Saved flush" });
+    await saved.waitFor();
+    return (await saved.textContent()) ?? "";
+  }
+}

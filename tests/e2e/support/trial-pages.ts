@@ -1,0 +1,83 @@
+import type { Page } from "playwright-core";
+import { appUrl } from "./browser";
+
+/** The coordinator's design form with its live sample-size panel. */
+export class TrialDesignPage {
+  constructor(readonly page: Page) {}
+
+  async open(): Promise<void> {
+    await this.page.goto(`${appUrl}/trials`);
+    await this.page.getByRole("link", { name: "Design a trial" }).click();
+    await this.page.getByRole("heading", { name: "Design a trial" }).waitFor();
+  }
+
+  async describe(title: string, question: string, species: string): Promise<void> {
+    await this.page.getByLabel("Title").fill(title);
+    await this.page.getByLabel("The question, in one sentence").fill(question);
+    await this.page.getByLabel("Species").selectOption({ label: species });
+  }
+
+  async chooseStrain(armIndex: number, strainLabel: string): Promise<void> {
+    await this.page.locator(`#arm-${armIndex}-strain`).selectOption({ label: strainLabel });
+  }
+
+  async setSmallestDifference(value: string): Promise<void> {
+    await this.page.getByLabel("Smallest difference worth finding (BE points)").fill(value);
+  }
+
+  async setSpread(value: string): Promise<void> {
+    await this.page.getByLabel("Expected spread between blocks (SD, BE points)").fill(value);
+  }
+
+  /** Blocks per arm to make at the given power (80 or 90), as the panel shows it now. */
+  async blocksPerArm(power: 80 | 90): Promise<number> {
+    const cell = this.page.getByTestId(`power-${power}`).getByTestId("per-arm");
+    return Number(await cell.textContent());
+  }
+
+  async saveDraft(): Promise<string> {
+    await this.page.getByRole("button", { name: "Save draft" }).click();
+    await this.page.waitForURL(/\/trials\/[0-9a-f-]{36}$/);
+    return this.page.url().split("/").pop()!;
+  }
+}
+
+/** A trial's own page: moves, invitations, the farm's answer and list. */
+export class TrialPage {
+  constructor(readonly page: Page) {}
+
+  async open(trialId: string): Promise<void> {
+    await this.page.goto(`${appUrl}/trials/${trialId}`);
+  }
+
+  /** Presses a move button and waits until the trial shows its new state. */
+  async move(label: string, expectedStatus: string, asksToConfirm = false): Promise<void> {
+    if (asksToConfirm) this.page.once("dialog", (dialog) => void dialog.accept());
+    await this.page.getByRole("button", { name: label }).click();
+    await this.page.getByTestId("trial-status").filter({ hasText: expectedStatus }).waitFor();
+  }
+
+  async status(): Promise<string> {
+    return (await this.page.getByTestId("trial-status").first().textContent())?.trim() ?? "";
+  }
+
+  async invite(farmName: string): Promise<string> {
+    await this.page.getByLabel(farmName).check();
+    await this.page.getByRole("button", { name: "Invite and e-mail their managers" }).click();
+    const status = this.page.getByRole("status").filter({ hasText: "Invited" });
+    await status.waitFor();
+    return (await status.textContent()) ?? "";
+  }
+
+  async accept(blocksPerArm: number): Promise<void> {
+    await this.page.getByLabel("Blocks per arm").fill(String(blocksPerArm));
+    await this.page.getByRole("button", { name: "Accept and make our list" }).click();
+    await this.page.getByRole("heading", { name: "Your farm's part" }).waitFor();
+  }
+
+  async openLabelSheet(): Promise<string[]> {
+    await this.page.getByRole("link", { name: "Label sheet" }).click();
+    await this.page.getByTestId("label-sheet").waitFor();
+    return this.page.getByTestId("label-sheet").locator(".label").allTextContents();
+  }
+}

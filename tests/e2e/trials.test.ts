@@ -1,0 +1,122 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { BrowserContext, Page } from "playwright-core";
+import { appUrl, collectPageErrors, openBrowser, screenshot, seriousAccessibilityProblems } from "./support/browser";
+import { AppShell, SignInPage } from "./support/pages";
+import { TrialDesignPage, TrialPage } from "./support/trial-pages";
+
+describe("a strain trial in the browser", () => {
+  let browser: BrowserContext;
+  let page: Page;
+  let errors: string[];
+  let trialId: string;
+  let unsubscribeLink: string | undefined;
+
+  beforeAll(async () => {
+    browser = await openBrowser();
+    page = await browser.newPage();
+    errors = collectPageErrors(page);
+  });
+  afterAll(async () => {
+    await browser?.close();
+  });
+
+  async function signInAs(email: string) {
+    await new SignInPage(page).signIn(email);
+    await new AppShell(page).waitUntilSignedIn();
+  }
+
+  it("lets the coordinator design a trial, watch the sample size change, and open enrolment", async () => {
+    await signInAs("coordinator@aldervalley.example");
+    const design = new TrialDesignPage(page);
+    await design.open();
+    await design.describe("Grey Morning against Valley Wild", "Does PO-02 give a different BE over flushes 1–2 than PO-01?", "Oyster mushroom");
+    await design.chooseStrain(0, "PO-01 — Grey Morning");
+    await design.chooseStrain(1, "PO-02 — Valley Wild");
+    await design.setSpread("10");
+    await design.setSmallestDifference("10");
+    // delta = sd gives R's power.t.test n = 16.71 → 17.6 with 5 % loss → 5 per farm on 4 farms = 20.
+    expect(await design.blocksPerArm(80)).toBe(20);
+    await design.setSmallestDifference("5");
+    const smaller = await design.blocksPerArm(80);
+    expect(smaller).toBeGreaterThan(60);
+    expect(await design.blocksPerArm(90)).toBeGreaterThan(smaller);
+    await screenshot(page, "trials-design-sample-size");
+    expect(await seriousAccessibilityProblems(page)).toEqual([]);
+    await design.setSmallestDifference("10");
+
+    trialId = await design.saveDraft();
+    const trial = new TrialPage(page);
+    expect(await trial.status()).toBe("Draft");
+    await trial.move("Open for enrolment", "Open for enrolment");
+    expect(await trial.status()).toBe("Open for enrolment");
+    expect(await trial.invite("Fernbrook Farm")).toContain("1 e-mail sent");
+    await screenshot(page, "trials-open-for-enrolment");
+
+    await page.goto(`${appUrl}/outgoing-mail`);
+    await page.getByText("Invitation to trial", { exact: false }).first().waitFor();
+    await screenshot(page, "trials-outgoing-mail");
+    unsubscribeLink = await page.locator("li", { hasText: "Invitation to trial" }).first().locator("pre").textContent().then((text) => text?.match(/\/unsubscribe\/\S+/)?.[0]);
+    expect(unsubscribeLink).toBeTruthy();
+    await new AppShell(page).signOut();
+  });
+
+  it("lets a farm manager accept, see the label sheet and download the list", async () => {
+    await signInAs("manager@fernbrook.example");
+    const trial = new TrialPage(page);
+    await trial.open(trialId);
+    await trial.accept(3);
+    await screenshot(page, "trials-farm-enrolled");
+    const response = await page.request.get(`${appUrl}/api/trials/${trialId}/list`);
+    expect(response.status()).toBe(200);
+    const csv = (await response.text()).trim().split(/\r\n/);
+    expect(csv[0]).toBe("trial,sequence,permuted_block,block_code,arm,strain,treatment");
+    expect(csv).toHaveLength(1 + 6);
+    const labels = await trial.openLabelSheet();
+    expect(labels).toHaveLength(6);
+    expect(labels.filter((label) => label.includes("Arm A"))).toHaveLength(3);
+    await screenshot(page, "trials-label-sheet");
+    await new AppShell(page).signOut();
+  });
+
+  it("lets the coordinator take the trial to publication", async () => {
+    await signInAs("coordinator@aldervalley.example");
+    const trial = new TrialPage(page);
+    await trial.open(trialId);
+    await page.getByTestId("progress-table").waitFor();
+    await trial.move("Start the trial", "Running");
+    await trial.move("Close and analyse", "Collecting results");
+    await trial.move("Publish the results", "Published", true);
+    expect(await trial.status()).toBe("Published");
+    expect(await page.getByTestId("trial-history").textContent()).toContain("Collecting results → Published");
+    await screenshot(page, "trials-published-by-coordinator");
+    await new AppShell(page).signOut();
+  });
+
+  it("lets a member read a published trial's results", async () => {
+    await signInAs("grower@fernbrook.example");
+    await page.goto(`${appUrl}/trials`);
+    const card = page.locator("li", { hasText: "Which oyster strain gives the most over two flushes?" });
+    await card.getByRole("link", { name: "Read the results" }).click();
+    await page.getByTestId("trial-answer").waitFor();
+    expect(await page.getByTestId("trial-answer").textContent()).toMatch(/reference arm A/);
+    expect(await page.getByRole("img", { name: "Biological efficiency by arm, boxplot" }).isVisible()).toBe(true);
+    expect(await page.getByRole("img", { name: /Arm B minus arm A, by farm/ }).isVisible()).toBe(true);
+    await screenshot(page, "trials-results-member");
+    expect(await seriousAccessibilityProblems(page)).toEqual([]);
+    await page.setViewportSize({ width: 390, height: 844 });
+    await screenshot(page, "trials-results-phone");
+    expect(errors).toEqual([]);
+  });
+
+  it("stops a farm's reminders from the e-mail link without signing in", async () => {
+    await page.setViewportSize({ width: 1280, height: 900 });
+    await new AppShell(page).signOut();
+    const signedOut = await browser.newPage();
+    await signedOut.goto(`${appUrl}${unsubscribeLink}`);
+    await signedOut.getByRole("heading", { name: "Reminders stopped" }).waitFor();
+    await screenshot(signedOut, "trials-unsubscribed");
+    await signedOut.goto(`${appUrl}/unsubscribe/not-a-real-link`);
+    await signedOut.getByRole("heading", { name: "This link does not work" }).waitFor();
+    await signedOut.close();
+  });
+});

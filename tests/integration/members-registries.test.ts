@@ -1,0 +1,66 @@
+import type { Pool } from "pg";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { closeDatabase } from "@/db/client";
+import { loadMember, type Member } from "@/lib/data/members";
+import { createRegistryEntry, importRegistryCsv, listRegistries, moveRegistryEntry } from "@/lib/data/registries";
+import { superuserPool } from "./support/database";
+
+let inspector: Pool;
+let coordinator: Member;
+let grower: Member;
+const run = Date.now().toString(36).toUpperCase().slice(-6);
+
+async function memberByEmail(email: string): Promise<Member> {
+  const { rows } = await inspector.query<{ id: string }>("select id from users where email = $1", [email]);
+  return (await loadMember(rows[0].id))!;
+}
+
+beforeAll(async () => {
+  inspector = superuserPool();
+  coordinator = await memberByEmail("coordinator@aldervalley.example");
+  grower = await memberByEmail("grower@fernbrook.example");
+});
+
+afterAll(async () => {
+  await inspector.end();
+  await closeDatabase();
+});
+
+describe("registries: proposals, approval, retirement", () => {
+  it("keeps a grower's proposed strain waiting until the coordinator approves it", async () => {
+    const { rows } = await inspector.query<{ id: string }>("select id from species where common_name ilike '%oyster%' limit 1");
+    const code = `PO-${run}`;
+    expect(await createRegistryEntry(grower, { kind: "strains", code, species: rows[0].id, name: "Barn Loft", source: "own_isolate", notes: "" })).toBe("proposed");
+    const proposed = (await listRegistries(coordinator)).strains.find((strain) => strain.code === code)!;
+    expect(proposed.status).toBe("proposed");
+    await expect(moveRegistryEntry(grower, "strains", proposed.id, "approve")).rejects.toThrow(/Only the coordinator/);
+    await moveRegistryEntry(coordinator, "strains", proposed.id, "approve");
+    expect((await inspector.query("select status from strains where id = $1", [proposed.id])).rows[0].status).toBe("active");
+    const events = await inspector.query<{ action: string }>("select action from audit_events where subject = $1 order by id", [code]);
+    expect(events.rows.map((row) => row.action)).toEqual(["registry.proposed", "registry.approved"]);
+  });
+
+  it("refuses to delete a strain that has blocks, counting them across farms the coordinator cannot see, but retires it", async () => {
+    const registries = await listRegistries(coordinator);
+    const used = registries.strains.find((strain) => strain.code === "PO-01")!;
+    const { rows } = await inspector.query<{ n: number }>("select count(*)::int as n from blocks where strain_id = $1", [used.id]);
+    expect(rows[0].n).toBeGreaterThan(0);
+    expect(used.blocks).toBe(rows[0].n);
+    await expect(moveRegistryEntry(coordinator, "strains", used.id, "delete")).rejects.toThrow(/retire it instead/);
+    await moveRegistryEntry(coordinator, "strains", used.id, "retire");
+    expect((await inspector.query("select status from strains where id = $1", [used.id])).rows[0].status).toBe("retired");
+    await moveRegistryEntry(coordinator, "strains", used.id, "reinstate");
+  });
+
+  it("imports a CSV list all at once, or not at all with the line of each problem", async () => {
+    const good = `code,name,base,supplement,supplement_percent,target_moisture_percent,treatment\nOAK-${run},Oak and bran,Oak sawdust,Wheat bran,12,61,sterilised\nSTR-${run},Pasteurised straw,Wheat straw,,0,70,pasteurised\n`;
+    expect(await importRegistryCsv(coordinator, "substrate_recipes", good)).toBe(2);
+    const { rows } = await inspector.query("select code, target_moisture::float as moisture from substrate_recipes where code like $1 order by code", [`%-${run}`]);
+    expect(rows).toEqual([{ code: `OAK-${run}`, moisture: 0.61 }, { code: `STR-${run}`, moisture: 0.7 }]);
+
+    const bad = `code,species,name,source\nX1-${run},Pleurotus ostreatus,Fine,culture bank\nX2-${run},No such fungus,Broken,culture bank\n`;
+    await expect(importRegistryCsv(coordinator, "strains", bad)).rejects.toMatchObject({ fieldProblems: [{ field: "file", message: expect.stringContaining("Line 3") }] });
+    expect((await inspector.query("select 1 from strains where code = any($1)", [[`X1-${run}`, `X2-${run}`]])).rowCount).toBe(0);
+    await expect(importRegistryCsv(coordinator, "substrate_recipes", good)).rejects.toThrow(/already in the registry/);
+  });
+});

@@ -1,0 +1,244 @@
+import type { Pool } from "pg";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { closeDatabase, type FarmContext } from "@/db/client";
+import { getBlock, listBlocks, listHarvestTargets, recordHarvest } from "@/lib/data/blocks";
+import { commitUpload, createUpload, getImportSetup, getTemplateCodes, getUploadFile, listUploads, parseStored, type UploadView } from "@/lib/data/season-logs";
+import { seasonLogTemplateCsv } from "@/lib/import";
+import { isAppError } from "@/lib/errors";
+import type { ParseChoices } from "@/lib/season-logs/report";
+import { superuserPool, twoDemoFarms, type DemoFarm } from "./support/database";
+
+let inspector: Pool;
+let farmA: DemoFarm;
+let farmB: DemoFarm;
+let asFarmA: FarmContext;
+let asFarmB: FarmContext;
+
+beforeAll(async () => {
+  inspector = superuserPool();
+  [farmA, farmB] = await twoDemoFarms(inspector);
+  asFarmA = { userId: farmA.managerId, farmId: farmA.id, role: "farm_manager" };
+  asFarmB = { userId: farmB.managerId, farmId: farmB.id, role: "farm_manager" };
+});
+
+afterAll(async () => {
+  await inspector.query("drop trigger if exists test_refuse_harvest on harvests");
+  await inspector.query("drop function if exists test_refuse_harvest()");
+  await inspector.query("drop trigger if exists test_slow_commit on blocks");
+  await inspector.query("drop function if exists test_slow_commit()");
+  await inspector.end();
+  await closeDatabase();
+});
+
+const header = "block_id,strain,substrate,inoculated_on,block_wet_weight,substrate_moisture,fruiting_method,flush,harvested_on,fresh_weight,contaminated,notes";
+
+/** A season log of `blocks` blocks named <prefix>-<n>, each with `flushes` harvests of `fresh` grams (flush 1). */
+function sheet(prefix: string, blocks: number[], options: { flushes?: number; fresh?: (block: number) => number } = {}): string {
+  const lines = [header];
+  for (const block of blocks) {
+    const fresh = options.fresh?.(block) ?? 400 + block;
+    for (let flush = 1; flush <= (options.flushes ?? 2); flush++) {
+      lines.push(`${prefix}-${block},PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,${flush},2026-04-${String(flush * 10).padStart(2, "0")},${flush === 1 ? fresh : 250} g,no,`);
+    }
+  }
+  return `${lines.join("\r\n")}\r\n`;
+}
+
+async function upload(context: FarmContext, text: string, fileName = "season.csv", choices: ParseChoices = {}): Promise<UploadView> {
+  const content = new TextEncoder().encode(text);
+  const setup = await getImportSetup(context);
+  return createUpload(context, { fileName, content, result: parseStored(content, setup, choices), choices });
+}
+
+async function storedHarvests(farm: DemoFarm, prefix: string) {
+  const { rows } = await inspector.query<{ code: string; flush: number; fresh: string }>(
+    `select substr(b.code, length($2) + 1) as code, h.flush, h.fresh_mass_g::text as fresh
+     from harvests h join blocks b on b.id = h.block_id where b.farm_id = $1 and b.code like $2 || '%' order by 1, 2`,
+    [farm.id, prefix],
+  );
+  return rows;
+}
+
+async function historyCount(farm: DemoFarm, prefix: string): Promise<number> {
+  const { rows } = await inspector.query<{ count: string }>(
+    "select count(*) from value_changes v join blocks b on b.id = v.block_id where b.farm_id = $1 and b.code like $2 || '%'",
+    [farm.id, prefix],
+  );
+  return Number(rows[0].count);
+}
+
+async function refusal(work: Promise<unknown>): Promise<{ code: string; message: string }> {
+  try {
+    await work;
+  } catch (error) {
+    if (isAppError(error)) return { code: error.code, message: error.message };
+    throw error;
+  }
+  throw new Error("the commit went through where it should have been refused");
+}
+
+describe("committing a season log", () => {
+  it("stores the file, previews the change and commits blocks and harvests in one go", async () => {
+    const view = await upload(asFarmA, sheet("IT-A", [1, 2, 3]));
+    expect(view.report.errorCount).toBe(0);
+    expect(view.canCommit).toBe(true);
+    expect(view.report.preview.counts).toMatchObject({ newBlocks: 3, newHarvests: 6, changedBlocks: 0, changedHarvests: 0 });
+
+    const { rows: kept } = await inspector.query("select sha256, size_bytes, outcome from uploads where id = $1", [view.upload.id]);
+    expect(kept[0]).toMatchObject({ outcome: "received" });
+    expect(kept[0].sha256).toMatch(/^[0-9a-f]{64}$/);
+
+    const receipt = await commitUpload(asFarmA, view.upload.id, {});
+    expect(receipt.counts).toMatchObject({ newBlocks: 3, newHarvests: 6 });
+    expect(await storedHarvests(farmA, "IT-A")).toHaveLength(6);
+    const { rows: blocks } = await inspector.query("select wet_mass_g::float8 as wet, wet_mass_as_written, moisture::float8 as moisture, trial_arm_id from blocks where farm_id = $1 and code = 'IT-A-1'", [farmA.id]);
+    expect(blocks[0]).toMatchObject({ wet: 2500, wet_mass_as_written: "2500 g", moisture: 0.62, trial_arm_id: null });
+    const { rows: audit } = await inspector.query("select details from audit_events where action = 'season-log.committed' and details->>'uploadId' = $1", [view.upload.id]);
+    expect(audit).toHaveLength(1);
+  });
+
+  it("says when the same file was already imported and changes nothing", async () => {
+    const text = sheet("IT-R", [1, 2]);
+    const first = await upload(asFarmA, text, "repeat.csv");
+    await commitUpload(asFarmA, first.upload.id, {});
+    const before = await storedHarvests(farmA, "IT-R");
+
+    const again = await upload(asFarmA, text, "repeat-again.csv");
+    expect(again.alreadyImportedAt).not.toBeNull();
+    expect(again.upload.outcome).toBe("already_imported");
+    expect(again.canCommit).toBe(false);
+    expect(again.report.preview.counts).toMatchObject({ newBlocks: 0, newHarvests: 0, changedBlocks: 0, changedHarvests: 0, untouchedHarvests: 4 });
+    expect((await refusal(commitUpload(asFarmA, again.upload.id, {}))).message).toContain("already imported on");
+    expect(await storedHarvests(farmA, "IT-R")).toEqual(before);
+    expect(await historyCount(farmA, "IT-R")).toBe(0);
+  });
+
+  it("updates from a grown sheet and keeps each replaced value with who, when and which upload", async () => {
+    const first = await upload(asFarmA, sheet("IT-G", [1, 2], { flushes: 1 }));
+    await commitUpload(asFarmA, first.upload.id, {});
+    const grown = await upload(asFarmA, sheet("IT-G", [1, 2], { flushes: 2, fresh: (block) => (block === 1 ? 480 : 400 + block) }));
+    expect(grown.report.preview.counts).toMatchObject({ newHarvests: 2, changedHarvests: 1, untouchedHarvests: 1 });
+    expect(grown.report.preview.changes).toEqual([{ blockCode: "IT-G-1", flush: 1, field: "fresh_weight", oldValue: "401", newValue: "480" }]);
+    await commitUpload(asFarmA, grown.upload.id, {});
+
+    expect(await storedHarvests(farmA, "IT-G")).toEqual([
+      { code: "-1", flush: 1, fresh: "480" },
+      { code: "-1", flush: 2, fresh: "250" },
+      { code: "-2", flush: 1, fresh: "402" },
+      { code: "-2", flush: 2, fresh: "250" },
+    ]);
+    const { rows: history } = await inspector.query(
+      "select v.field, v.flush, v.old_value, v.new_value, v.upload_id, v.changed_by from value_changes v join blocks b on b.id = v.block_id where b.code = 'IT-G-1'",
+    );
+    expect(history).toEqual([{ field: "fresh_weight", flush: 1, old_value: "401", new_value: "480", upload_id: grown.upload.id, changed_by: farmA.managerId }]);
+  });
+
+  it("refuses to commit a file with errors and saves nothing from it", async () => {
+    const view = await upload(asFarmA, `${header}\r\nIT-E-1,PO-01,HWB-20,2026-03-01,2500 g,62 %,,1,2026-04-10,-5 g,no,\r\n`);
+    expect(view.report.errorCount).toBeGreaterThan(0);
+    expect(view.canCommit).toBe(false);
+    expect((await refusal(commitUpload(asFarmA, view.upload.id, {}))).code).toBe("invalid_input");
+    const { rows } = await inspector.query("select count(*)::int as count from blocks where code like 'IT-E-%'");
+    expect(rows[0].count).toBe(0);
+  });
+
+  it("leaves nothing behind when the database refuses a row half-way through the commit", async () => {
+    // A test-only trigger refuses one harvest, after the blocks have been written in the same transaction.
+    await inspector.query(`create function test_refuse_harvest() returns trigger language plpgsql as $$
+      begin if new.fresh_mass_g = 777 then raise exception 'test refuses this harvest'; end if; return new; end $$`);
+    await inspector.query("create trigger test_refuse_harvest before insert or update on harvests for each row execute function test_refuse_harvest()");
+    try {
+      const view = await upload(asFarmA, sheet("IT-F", [1, 2, 3], { fresh: (block) => (block === 3 ? 777 : 500) }));
+      expect(view.canCommit).toBe(true);
+      await expect(commitUpload(asFarmA, view.upload.id, {})).rejects.toThrow();
+      const { rows: blocks } = await inspector.query("select count(*)::int as count from blocks where code like 'IT-F-%'");
+      expect(blocks[0].count).toBe(0);
+      const { rows: kept } = await inspector.query("select outcome, committed_at from uploads where id = $1", [view.upload.id]);
+      expect(kept[0]).toEqual({ outcome: "received", committed_at: null });
+      const { rows: audit } = await inspector.query("select count(*)::int as count from audit_events where action = 'season-log.committed' and details->>'uploadId' = $1", [view.upload.id]);
+      expect(audit[0].count).toBe(0);
+    } finally {
+      await inspector.query("drop trigger if exists test_refuse_harvest on harvests");
+      await inspector.query("drop function if exists test_refuse_harvest()");
+    }
+  });
+
+  it("ends two concurrent overlapping commits for one farm as if they ran one after the other", async () => {
+    const first = (prefix: string) => sheet(prefix, Array.from({ length: 30 }, (_, index) => index + 1), { fresh: () => 500 });
+    const second = (prefix: string) => sheet(prefix, Array.from({ length: 30 }, (_, index) => index + 16), { fresh: () => 600 });
+
+    const inTurnA = [await upload(asFarmA, first("IT-SA")), await upload(asFarmA, second("IT-SA"))];
+    for (const view of inTurnA) await commitUpload(asFarmA, view.upload.id, {});
+    const inTurnB = [await upload(asFarmA, second("IT-SB")), await upload(asFarmA, first("IT-SB"))];
+    for (const view of inTurnB) await commitUpload(asFarmA, view.upload.id, {});
+
+    const together = [await upload(asFarmA, first("IT-CC")), await upload(asFarmA, second("IT-CC"))];
+    // A test-only pause after each block write keeps the first commit open while the second one starts.
+    await inspector.query("create function test_slow_commit() returns trigger language plpgsql as $$ begin perform pg_sleep(0.5); return null; end $$");
+    await inspector.query("create trigger test_slow_commit after insert on blocks for each statement execute function test_slow_commit()");
+    try {
+      await Promise.all(together.map((view) => commitUpload(asFarmA, view.upload.id, {})));
+    } finally {
+      await inspector.query("drop trigger if exists test_slow_commit on blocks");
+      await inspector.query("drop function if exists test_slow_commit()");
+    }
+
+    const concurrent = { harvests: await storedHarvests(farmA, "IT-CC"), history: await historyCount(farmA, "IT-CC") };
+    const oneOrder = { harvests: await storedHarvests(farmA, "IT-SA"), history: await historyCount(farmA, "IT-SA") };
+    const otherOrder = { harvests: await storedHarvests(farmA, "IT-SB"), history: await historyCount(farmA, "IT-SB") };
+    expect(oneOrder.history).toBe(15);
+    expect([oneOrder, otherOrder]).toContainEqual(concurrent);
+  });
+});
+
+describe("the downloadable template", () => {
+  it("uses the co-op's own codes, so a farm can upload it as it stands", async () => {
+    const codes = await getTemplateCodes(asFarmA);
+    expect(codes.strains).toContain("PO-01");
+    const view = await upload(asFarmA, seasonLogTemplateCsv(codes), "season-log-template.csv");
+    expect(view.report.errorCount).toBe(0);
+    expect(view.canCommit).toBe(true);
+    expect(view.report.preview.counts).toMatchObject({ newBlocks: 2, newHarvests: 2 });
+  });
+});
+
+describe("season logs between farms", () => {
+  it("never shows farm B farm A's uploads, files or rows", async () => {
+    const view = await upload(asFarmA, sheet("IT-P", [1]), "private.csv");
+    await commitUpload(asFarmA, view.upload.id, {});
+
+    expect((await listUploads(asFarmB)).map((item) => item.id)).not.toContain(view.upload.id);
+    expect((await listUploads(asFarmA)).map((item) => item.id)).toContain(view.upload.id);
+    expect((await refusal(getUploadFile(asFarmB, view.upload.id))).code).toBe("not_found");
+    expect((await refusal(commitUpload(asFarmB, view.upload.id, {}))).code).toBe("not_found");
+
+    // Farm B sends a sheet with farm A's block code: it becomes farm B's own new block, and A's rows do not show.
+    const fromB = await upload(asFarmB, sheet("IT-P", [1]), "private.csv");
+    expect(fromB.alreadyImportedAt).toBeNull();
+    expect(fromB.report.preview.counts).toMatchObject({ newBlocks: 1, newHarvests: 2 });
+  });
+});
+
+describe("the quick harvest form's data", () => {
+  it("suggests the next flush, records it, refuses the same flush twice and keeps farms apart", async () => {
+    const view = await upload(asFarmA, sheet("IT-Q", [1], { flushes: 1 }), "quick.csv");
+    await commitUpload(asFarmA, view.upload.id, {});
+    expect((await listHarvestTargets(asFarmA)).find((target) => target.code === "IT-Q-1")?.nextFlush).toBe(2);
+
+    const { blockId } = await recordHarvest(asFarmA, { blockCode: "IT-Q-1", flush: 2, harvestedOn: "2026-05-01", freshGrams: 310, asWritten: "310", unit: "g" });
+    const block = await getBlock(asFarmA, blockId);
+    expect(block.harvests.map((harvest) => [harvest.flush, harvest.freshMassG])).toEqual([
+      [1, 401],
+      [2, 310],
+    ]);
+    // 2500 g wet at 62 % moisture is 950 g dry substrate; 711 g fresh over it is 74.8 % biological efficiency.
+    expect(block.biologicalEfficiency).toBeCloseTo((711 / 950) * 100, 6);
+    expect((await listBlocks(asFarmA)).find((row) => row.code === "IT-Q-1")?.flushes).toBe(2);
+
+    const again = await refusal(recordHarvest(asFarmA, { blockCode: "IT-Q-1", flush: 2, harvestedOn: "2026-05-02", freshGrams: 999, asWritten: "999", unit: "g" }));
+    expect(again.code).toBe("invalid_input");
+    const fromB = await refusal(recordHarvest(asFarmB, { blockCode: "IT-Q-1", flush: 3, harvestedOn: "2026-05-02", freshGrams: 100, asWritten: "100", unit: "g" }));
+    expect(fromB.code).toBe("invalid_input");
+    expect((await refusal(getBlock(asFarmB, blockId))).code).toBe("not_found");
+  });
+});

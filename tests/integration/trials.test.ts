@@ -1,0 +1,263 @@
+import { eq } from "drizzle-orm";
+import type { Pool } from "pg";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { closeDatabase, withFarmContext } from "@/db/client";
+import { blocks, harvests, trialBlockAssignments, trialEnrolments } from "@/db/schema";
+import { loadMember, type Member } from "@/lib/data/members";
+import {
+  getOwnProgress,
+  getTrial,
+  inviteFarms,
+  listOutgoingMail,
+  listOwnAssignments,
+  listTrialProgress,
+  moveTrial,
+  optOutOfReminders,
+  respondToInvitation,
+  saveTrialDraft,
+  sendTrialReminder,
+  type TrialView,
+} from "@/lib/data/trials";
+import { AppError } from "@/lib/errors";
+import { seededRandom } from "@/lib/random";
+import { blockedAnova, biologicalEfficiency, tukeyHsd, wilsonInterval } from "@/lib/stats";
+import { permutedBlockList } from "@/lib/trials";
+import { superuserPool } from "./support/database";
+
+let inspector: Pool;
+let coordinator: Member;
+let observer: Member;
+let managers: Member[];
+let outsider: Member;
+let trialId: string;
+let trial: TrialView;
+const startedAt = new Date();
+
+async function memberByEmail(email: string): Promise<Member> {
+  const { rows } = await inspector.query<{ id: string }>("select id from users where lower(email) = lower($1)", [email]);
+  const member = await loadMember(rows[0].id);
+  if (!member) throw new Error(`no member ${email}`);
+  return member;
+}
+
+/** Caught mail since the test began; the catcher stores asynchronously, so wait for it. */
+async function caughtMail(subjectLike: string, expected: number) {
+  for (let attempt = 0; attempt < 50; attempt++) {
+    const { rows } = await inspector.query<{ recipients: string[]; subject: string; text: string; html: string }>(
+      "select recipients, subject, text, html from mail_messages where received_at >= $1 and subject like $2 order by id",
+      [startedAt, subjectLike],
+    );
+    if (rows.length >= expected) return rows;
+    await new Promise((resolve) => setTimeout(resolve, 100));
+  }
+  throw new Error(`expected ${expected} messages like "${subjectLike}"`);
+}
+
+async function expectConflict(work: Promise<unknown>, message: RegExp) {
+  const error = await work.then(() => null, (caught: unknown) => caught);
+  expect(error).toBeInstanceOf(AppError);
+  expect((error as AppError).message).toMatch(message);
+}
+
+beforeAll(async () => {
+  inspector = superuserPool();
+  coordinator = await memberByEmail("coordinator@aldervalley.example");
+  observer = await memberByEmail("observer@extension.example");
+  managers = await Promise.all(
+    ["manager@fernbrook.example", "manager@hollowoak.example", "manager@millcreek.example", "manager@stonebank.example"].map(memberByEmail),
+  );
+  outsider = await memberByEmail("manager@wrenfield.example");
+});
+
+afterAll(async () => {
+  await inspector.end();
+  await closeDatabase();
+});
+
+describe("a strain trial from design to publication", () => {
+  it("saves the coordinator's design as a draft that members cannot see", async () => {
+    const { rows: strainRows } = await inspector.query<{ id: string; code: string; species_id: string }>(
+      "select id, code, species_id from strains where code in ('PO-01', 'PO-02', 'PO-03') order by code",
+    );
+    const saved = await saveTrialDraft(coordinator, {
+      title: "Three oyster strains over two flushes",
+      question: "Do PO-02 and PO-03 give a different BE over flushes 1–2 than PO-01?",
+      speciesId: strainRows[0].species_id,
+      arms: strainRows.map((strain, index) => ({ label: ["A", "B", "C"][index], strainId: strain.id, treatmentId: null, isReference: index === 0 })),
+      outcomeFlushes: 2,
+      contaminatedHandling: "exclude",
+      protocolNotes: "2.5 kg blocks of HWB-20.",
+      enrolmentDeadline: null,
+      smallestDifference: 10,
+      expectedSd: 12,
+      plannedFarms: 4,
+      expectedLoss: 0.05,
+    });
+    trialId = saved.id;
+    expect(saved.code).toMatch(/^T-\d{4}-\d{2}$/);
+    await expectConflict(getTrial(managers[0], trialId), /no such trial/);
+  });
+
+  it("refuses illegal moves and records every legal one", async () => {
+    await expectConflict(moveTrial(coordinator, trialId, "running"), /cannot move to "Running"/);
+    await moveTrial(coordinator, trialId, "open");
+    await expectConflict(moveTrial(coordinator, trialId, "published"), /cannot move to "Published"/);
+    await expectConflict(moveTrial(coordinator, trialId, "running"), /No farm has accepted yet/);
+    const { rows } = await inspector.query("select details from audit_events where action = 'trial.status_changed' and details->>'trialId' = $1", [trialId]);
+    expect(rows.map((row) => row.details)).toEqual([{ trialId, from: "draft", to: "open" }]);
+  });
+
+  it("invites farms by e-mail with a link to the trial and an unsubscribe link", async () => {
+    const sent = await inviteFarms(coordinator, trialId, managers.map((manager) => manager.farmId!));
+    expect(sent).toBe(4);
+    trial = await getTrial(coordinator, trialId);
+    const mail = await caughtMail(`Invitation to trial ${trial.code}%`, 4);
+    expect(mail.flatMap((message) => message.recipients).sort()).toEqual(managers.map((manager) => manager.email).sort());
+    for (const message of mail) {
+      expect(message.text).toContain(`${process.env.APP_URL}/trials/${trialId}`);
+      expect(message.text).toMatch(new RegExp(`${process.env.APP_URL}/unsubscribe/[0-9a-f-]{36}\\.`));
+      expect(message.html).toContain(`href="${process.env.APP_URL}/trials/${trialId}"`);
+    }
+  });
+
+  it("randomises each accepting farm by permuted blocks from a recorded seed, and confirms by e-mail", async () => {
+    for (const manager of managers) await respondToInvitation(manager, trialId, { accept: true, blocksPerArm: 4 });
+    for (const manager of managers) {
+      const [enrolment] = await withFarmContext({ userId: manager.id, farmId: manager.farmId, role: "farm_manager" }, (tx) =>
+        tx.select().from(trialEnrolments).where(eq(trialEnrolments.trialId, trialId)),
+      );
+      const stored = await withFarmContext({ userId: manager.id, farmId: manager.farmId, role: "farm_manager" }, (tx) =>
+        tx.select().from(trialBlockAssignments).where(eq(trialBlockAssignments.trialId, trialId)).orderBy(trialBlockAssignments.sequence),
+      );
+      expect(stored).toHaveLength(12);
+      const replayed = permutedBlockList({ seed: enrolment.randomisationSeed!, armIds: trial.arms.map((arm) => arm.id), blocksPerArm: 4, codePrefix: stored[0].blockCode.replace(/-\d+$/, "") });
+      expect(stored.map((row) => [row.blockCode, row.armId, row.permutedBlock])).toEqual(replayed.map((entry) => [entry.blockCode, entry.armId, entry.permutedBlock]));
+      for (let run = 1; run <= 4; run++) {
+        expect(stored.filter((row) => row.permutedBlock === run).map((row) => row.armId).sort()).toEqual(trial.arms.map((arm) => arm.id).sort());
+      }
+    }
+    const confirmations = await caughtMail(`% is enrolled in trial ${trial.code}`, 4);
+    expect(confirmations.map((message) => message.recipients[0]).sort()).toEqual(managers.map((manager) => manager.email).sort());
+    expect(confirmations[0].text).toContain(`/trials/${trialId}/labels`);
+  });
+
+  it("never shows a farm another farm's list or progress", async () => {
+    const [farmA, farmB] = managers;
+    const own = await listOwnAssignments(farmA, trialId);
+    expect(own).toHaveLength(12);
+    const everything = await withFarmContext({ userId: farmA.id, farmId: farmA.farmId, role: "farm_manager" }, (tx) => tx.select().from(trialBlockAssignments));
+    expect(new Set(everything.map((row) => row.farmId))).toEqual(new Set([farmA.farmId]));
+    const theirs = await withFarmContext({ userId: farmA.id, farmId: farmA.farmId, role: "farm_manager" }, (tx) =>
+      tx.select().from(trialEnrolments).where(eq(trialEnrolments.farmId, farmB.farmId!)),
+    );
+    expect(theirs).toEqual([]);
+    expect(await listOwnAssignments(outsider, trialId)).toEqual([]);
+    expect(await getOwnProgress(outsider, trial)).toBeNull();
+    expect(await listOwnAssignments(observer, trialId)).toEqual([]);
+  });
+
+  it("follows farms by counts only and reminds a farm that is behind", async () => {
+    await moveTrial(coordinator, trialId, "running");
+    const random = seededRandom("trial-integration");
+    const effect: Record<string, number> = { A: 0, B: 10, C: -4 };
+    for (const [farmIndex, manager] of managers.entries()) {
+      const context = { userId: manager.id, farmId: manager.farmId, role: "farm_manager" as const };
+      const list = await listOwnAssignments(manager, trialId);
+      const farmEffect = [5, -6, 2, -1][farmIndex];
+      await withFarmContext(context, async (tx) => {
+        for (const entry of list) {
+          const arm = trial.arms.find((candidate) => candidate.label === entry.armLabel)!;
+          // The last farm has not yet recorded flush 2 of its last block.
+          const contaminated = entry.sequence === 5;
+          const [block] = await tx
+            .insert(blocks)
+            .values({ farmId: manager.farmId!, code: entry.blockCode, strainId: arm.strainId, trialArmId: arm.id, wetMassG: 2500, moisture: 0.6, contaminated })
+            .returning({ id: blocks.id });
+          if (contaminated) continue;
+          const be = 80 + effect[arm.label] + farmEffect + random.normal(0, 6);
+          const flushes = farmIndex === 3 && entry.sequence === 12 ? [1] : [1, 2, 3];
+          await tx.insert(harvests).values(flushes.map((flush) => ({ farmId: manager.farmId!, blockId: block.id, flush, freshMassG: (1000 * be) / 100 * [0.6, 0.4, 0.2][flush - 1] })));
+        }
+      });
+    }
+    const progress = await listTrialProgress(coordinator, trial);
+    expect(progress).toHaveLength(4);
+    for (const row of progress) {
+      expect(row.progress).toMatchObject({ blocksListed: 12, blocksMade: 12, contaminated: 1, fruiting: 11 });
+      expect(Object.keys(row.progress).sort()).toEqual(["blocksListed", "blocksMade", "contaminated", "flushesRecorded", "fruiting"]);
+    }
+    const behind = progress.filter((row) => row.behind);
+    expect(behind.map((row) => row.farmId)).toEqual([managers[3].farmId]);
+    expect(behind[0].due).toEqual(["flush 2 of 1 blocks"]);
+
+    const own = await getOwnProgress(managers[3], trial);
+    expect(own).toMatchObject({ blocksMade: 12, flushesRecorded: [11, 10] });
+
+    await sendTrialReminder(coordinator, trialId, managers[3].farmId!);
+    const [reminder] = await caughtMail(`Reminder: trial ${trial.code}%`, 1);
+    expect(reminder.recipients).toEqual([managers[3].email]);
+    expect(reminder.text).toContain("flush 2 of 1 blocks");
+    await expectConflict(sendTrialReminder(coordinator, trialId, managers[0].farmId!), /nothing due/);
+  });
+
+  it("stops reminders from the e-mail's unsubscribe link, and only with a genuine link", async () => {
+    const [reminder] = await caughtMail(`Reminder: trial ${trial.code}%`, 1);
+    const token = reminder.text.match(/\/unsubscribe\/(\S+)/)![1];
+    expect(await optOutOfReminders(token.replace(/.$/, (last) => (last === "A" ? "B" : "A")))).toBeNull();
+    expect(await optOutOfReminders(token)).toBe(trial.code);
+    const { rows } = await inspector.query("select reminders_allowed from trial_enrolments where trial_id = $1 and farm_id = $2", [trialId, managers[3].farmId]);
+    expect(rows[0].reminders_allowed).toBe(false);
+    await expectConflict(sendTrialReminder(coordinator, trialId, managers[3].farmId!), /asked not to get reminders/);
+  });
+
+  it("analyses the declared outcome on closing, equal to lib/stats on the same rows", async () => {
+    await moveTrial(coordinator, trialId, "collecting");
+    const analysed = await getTrial(coordinator, trialId);
+    const results = analysed.results!;
+    const { rows } = await inspector.query<{ farm_id: string; arm: string; contaminated: boolean; wet: number; moisture: number; fresh: number }>(
+      `select b.farm_id, a.label as arm, b.contaminated, b.wet_mass_g::float8 as wet, b.moisture::float8 as moisture,
+              coalesce(sum(h.fresh_mass_g) filter (where h.flush <= 2), 0)::float8 as fresh
+       from blocks b join trial_arms a on a.id = b.trial_arm_id left join harvests h on h.block_id = b.id
+       where a.trial_id = $1 group by b.id, a.label`,
+      [trialId],
+    );
+    const kept = rows.filter((row) => !row.contaminated).map((row) => ({ treatment: row.arm, block: row.farm_id, y: biologicalEfficiency({ freshG: row.fresh, wetBlockG: row.wet, moisture: row.moisture }) }));
+    const fit = blockedAnova(kept);
+    expect(results.analysis.anova!.arm.p).toBeCloseTo(fit.treatment.p, 10);
+    for (const mean of fit.means) {
+      expect(results.analysis.anova!.adjustedMeans.find((row) => row.treatment === mean.treatment)!.estimate).toBeCloseTo(mean.estimate, 9);
+    }
+    const groups = Object.fromEntries(["A", "B", "C"].map((arm) => [arm, kept.filter((row) => row.treatment === arm).map((row) => row.y)]));
+    const bMinusA = tukeyHsd(groups).find((pair) => pair.a === "B" && pair.b === "A")!;
+    expect(results.analysis.versusReference.find((row) => row.arm === "B")!.estimate).toBeCloseTo(bMinusA.diff, 9);
+    expect(results.analysis.versusReference.find((row) => row.arm === "B")!.pAdjusted).toBeCloseTo(bMinusA.pAdj, 9);
+    const armA = rows.filter((row) => row.arm === "A");
+    const contaminatedA = armA.filter((row) => row.contaminated).length;
+    expect(results.analysis.arms[0].contamination.lower).toBeCloseTo(wilsonInterval(contaminatedA, armA.length).lower, 12);
+    expect(results.analysis.farmsContributing).toBe(4);
+    expect(results.analysis.farmPooling).toHaveLength(2);
+    expect(results.analysis.farmPooling[0].farms.map((farm) => farm.farm).sort()).toEqual(["Farm 1", "Farm 2", "Farm 3", "Farm 4"]);
+    expect(results.deviations).toMatchObject({ blocksAssigned: 48, blocksMade: 48, blocksLeftOut: 4, farmsDropped: 0 });
+    expect(results.analysis.answer).toMatch(/Arm B gave more than reference arm A/);
+    expect(JSON.stringify(results)).not.toContain(managers[0].farmId!);
+  });
+
+  it("publishes to every member and observer by e-mail, and lets them read the results", async () => {
+    await moveTrial(coordinator, trialId, "published");
+    const published = await getTrial(observer, trialId);
+    expect(published.status).toBe("published");
+    expect(published.results?.analysis.answer).toMatch(/Arm B/);
+    const { rows: people } = await inspector.query<{ email: string }>("select email from users where active");
+    const mail = await caughtMail(`Results of trial ${trial.code}%`, people.length);
+    expect(mail.flatMap((message) => message.recipients).sort()).toEqual(people.map((person) => person.email).sort());
+    expect(mail[0].text).toContain(`${process.env.APP_URL}/trials/${trialId}/results`);
+    await expectConflict(moveTrial(coordinator, trialId, "withdrawn"), /finished/);
+  });
+
+  it("shows caught mail on Outgoing mail to the coordinator only", async () => {
+    const forCoordinator = await listOutgoingMail(coordinator);
+    expect(forCoordinator.some((message) => message.subject.startsWith(`Results of trial ${trial.code}`))).toBe(true);
+    expect(await listOutgoingMail(managers[0])).toEqual([]);
+    expect(await listOutgoingMail(observer)).toEqual([]);
+  });
+});
