@@ -22,6 +22,8 @@ export const trials = pgTable(
     plannedFarms: integer("planned_farms"),
     expectedLoss: numeric("expected_loss", { mode: "number" }),
     publishedResults: jsonb("published_results"),
+    // Farms that withdrew their data after publication: the report keeps its figures and says so.
+    withdrawalsAfterPublication: integer("withdrawals_after_publication").notNull().default(0),
     createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
     publishedAt: timestamp("published_at", { withTimezone: true }),

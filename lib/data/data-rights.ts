@@ -98,6 +98,8 @@ export interface WithdrawalSummary {
   uploads: number;
   valueChanges: number;
   trialEnrolmentsDropped: number;
+  /** Published trials whose reports now say that a farm withdrew after publication. */
+  publishedTrialsNoted: number;
 }
 
 /**
@@ -119,6 +121,8 @@ export async function withdrawFarmData(member: Member, typedConfirmation: string
     const deletedBlocks = await tx.delete(blocks).where(eq(blocks.farmId, farmId)).returning({ id: blocks.id });
     const deletedUploads = await tx.delete(uploads).where(eq(uploads.farmId, farmId)).returning({ id: uploads.id });
     await tx.delete(farmImportPreferences).where(eq(farmImportPreferences.farmId, farmId));
+    // Before the enrolments are dropped: published reports keep their figures and note the withdrawal.
+    const noted = await tx.execute<{ trials: number }>(sql`select app_note_withdrawal_on_published_trials() as trials`);
     const dropped = await tx
       .update(trialEnrolments)
       .set({ status: "dropped" })
@@ -127,6 +131,7 @@ export async function withdrawFarmData(member: Member, typedConfirmation: string
     const result: WithdrawalSummary = {
       blocks: deletedBlocks.length, harvests: deletedHarvests.length, uploads: deletedUploads.length,
       valueChanges: deletedChanges.length, trialEnrolmentsDropped: dropped.length,
+      publishedTrialsNoted: noted.rows[0]?.trials ?? 0,
     };
     const entry = { actorUserId: member.id, actorLabel: member.name, action: "farm.withdrew-data", subject: farm.name, details: { farmId, ...result } };
     await recordAudit(tx, { ...entry, farmId });

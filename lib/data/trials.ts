@@ -137,6 +137,7 @@ async function loadTrial(tx: Transaction, member: Member, trialId: string) {
       expectedLoss: trials.expectedLoss,
       publishedResults: trials.publishedResults,
       publishedAt: trials.publishedAt,
+      withdrawalsAfterPublication: trials.withdrawalsAfterPublication,
     })
     .from(trials)
     .innerJoin(species, eq(species.id, trials.speciesId))

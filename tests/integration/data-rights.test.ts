@@ -39,8 +39,21 @@ beforeAll(async () => {
       farmId, block.rows[0].id, 500 + index * 10, 200 + index,
     ]);
   }
+  // It ran the published demo trial and has joined the one still open for enrolment.
+  await inspector.query(
+    `insert into trial_enrolments (trial_id, farm_id, status, blocks_per_arm)
+     select id, $1, 'accepted', 2 from trials where code in ('T-2026-01', 'T-2026-02')`,
+    [farmId],
+  );
   await refreshPooledStatistics(farmId);
 });
+
+async function withdrawalsNoted(): Promise<Record<string, { status: string; noted: number }>> {
+  const { rows } = await inspector.query<{ code: string; status: string; noted: number }>(
+    "select code, status, withdrawals_after_publication as noted from trials where code in ('T-2026-01', 'T-2026-02')",
+  );
+  return Object.fromEntries(rows.map((row) => [row.code, { status: row.status, noted: row.noted }]));
+}
 
 afterAll(async () => {
   await inspector.end();
@@ -122,8 +135,17 @@ describe("withdrawing a farm's data", () => {
       expect(pooledBefore.rows[0].n).toBeGreaterThan(0);
     }
 
+    const notedBefore = await withdrawalsNoted();
+    expect(notedBefore["T-2026-01"].status).toBe("published");
+    expect(notedBefore["T-2026-02"].status).not.toBe("published");
+
     const summary = await withdrawFarmData(manager, farmName.toLowerCase());
     expect(summary.blocks).toBeGreaterThan(0);
+    // The published report keeps its figures and now says a farm withdrew; the open trial does not.
+    expect(summary.publishedTrialsNoted).toBe(1);
+    const notedAfter = await withdrawalsNoted();
+    expect(notedAfter["T-2026-01"].noted).toBe(notedBefore["T-2026-01"].noted + 1);
+    expect(notedAfter["T-2026-02"].noted).toBe(notedBefore["T-2026-02"].noted);
     expect(summary.harvests).toBeGreaterThan(0);
 
     for (const table of ["blocks", "harvests", "uploads", "value_changes", "farm_import_preferences"]) {

@@ -116,6 +116,12 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
               <li>{results.deviations.farmsDropped} invited farm{results.deviations.farmsDropped === 1 ? "" : "s"} dropped out or never answered; {results.deviations.farmsDeclined} declined.</li>
               <li>{results.deviations.blocksMade} of {results.deviations.blocksAssigned} listed blocks reached a season log.</li>
               <li>{results.deviations.blocksLeftOut} block{results.deviations.blocksLeftOut === 1 ? " was" : "s were"} left out of the BE comparison (contaminated, as declared, or without a wet mass or moisture).</li>
+              {trial.withdrawalsAfterPublication > 0 ? (
+                <li data-testid="withdrawal-note">
+                  {trial.withdrawalsAfterPublication === 1 ? "One farm" : `${trial.withdrawalsAfterPublication} farms`} withdrew their data from the co-op after
+                  these results were published. The figures above stay as they were published.
+                </li>
+              ) : null}
             </ul>
           </Card>
 

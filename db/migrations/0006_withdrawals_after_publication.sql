@@ -1,0 +1,1 @@
+ALTER TABLE "trials" ADD COLUMN "withdrawals_after_publication" integer DEFAULT 0 NOT NULL;
