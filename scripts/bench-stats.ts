@@ -3,40 +3,26 @@
 // the statistics cost on top of reading the data. Prints figures only; asserts nothing.
 import { performance } from "node:perf_hooks";
 import { blockedAnova, metaAnalysis, type BlockedAnovaObservation } from "../lib/stats";
+import { seededRandom } from "../lib/random";
 
 const FARMS = 50;
 const STRAINS = 10;
 const BLOCKS_PER_STRAIN = 200;
 const RUNS = 7;
 
-// mulberry32: small seeded generator so every run measures the same data.
-function randomSource(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-function normal(random: () => number): number {
-  return Math.sqrt(-2 * Math.log(1 - random())) * Math.cos(2 * Math.PI * random());
-}
 
 function season(): BlockedAnovaObservation[] {
-  const random = randomSource(20240601);
+  const random = seededRandom(20240601);
   const strainEffect = Array.from({ length: STRAINS }, (_, s) => 4 * s - 18);
   const obs: BlockedAnovaObservation[] = [];
   for (let farm = 0; farm < FARMS; farm++) {
-    const farmEffect = 15 * normal(random);
+    const farmEffect = random.normal(0, 15);
     for (let strain = 0; strain < STRAINS; strain++) {
       for (let block = 0; block < BLOCKS_PER_STRAIN; block++) {
         obs.push({
           treatment: `strain ${strain + 1}`,
           block: `farm ${farm + 1}`,
-          y: 75 + farmEffect + strainEffect[strain] + 12 * normal(random),
+          y: 75 + farmEffect + strainEffect[strain] + random.normal(0, 12),
         });
       }
     }

@@ -9,6 +9,21 @@ import { addBins, buildPooledResults, pooledFlushProfile, type FlushWindow, type
 import type { FlushProfile } from "@/lib/stats";
 import { seededRandom } from "@/lib/random";
 
+/** The columns of a farm's flush statistics that the pooled flush profile needs. */
+const flushStatisticsColumns = {
+  farmId: farmFlushStatistics.farmId,
+  strainId: farmFlushStatistics.strainId,
+  substrateRecipeId: farmFlushStatistics.substrateRecipeId,
+  fruitingMethodId: farmFlushStatistics.fruitingMethodId,
+  flush: farmFlushStatistics.flush,
+  finishedBlocks: farmFlushStatistics.finishedBlocks,
+  blocksFruiting: farmFlushStatistics.blocksFruiting,
+  shareSum: farmFlushStatistics.shareSum,
+  shareSquares: farmFlushStatistics.shareSquares,
+  cumulativeSum: farmFlushStatistics.cumulativeSum,
+  cumulativeSquares: farmFlushStatistics.cumulativeSquares,
+};
+
 export interface PooledResultsQuery {
   speciesId?: string;
   substrateRecipeId?: string;
@@ -123,19 +138,7 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
       .from(farmStrainStatistics)
       .where(and(eq(farmStrainStatistics.speciesId, speciesId), eq(farmStrainStatistics.flushWindow, query.flushWindow)));
     const flushRows = await tx
-      .select({
-        farmId: farmFlushStatistics.farmId,
-        strainId: farmFlushStatistics.strainId,
-        substrateRecipeId: farmFlushStatistics.substrateRecipeId,
-        fruitingMethodId: farmFlushStatistics.fruitingMethodId,
-        flush: farmFlushStatistics.flush,
-        finishedBlocks: farmFlushStatistics.finishedBlocks,
-        blocksFruiting: farmFlushStatistics.blocksFruiting,
-        shareSum: farmFlushStatistics.shareSum,
-        shareSquares: farmFlushStatistics.shareSquares,
-        cumulativeSum: farmFlushStatistics.cumulativeSum,
-        cumulativeSquares: farmFlushStatistics.cumulativeSquares,
-      })
+      .select(flushStatisticsColumns)
       .from(farmFlushStatistics)
       .where(eq(farmFlushStatistics.speciesId, speciesId));
     return { settings, speciesList, recipes, methods, speciesId, rows, flushRows, strainList };
@@ -209,19 +212,7 @@ export async function getCoopStrainBenchmarks(strainIds: string[]): Promise<{ mi
       .from(farmStrainStatistics)
       .where(and(inArray(farmStrainStatistics.strainId, strainIds), eq(farmStrainStatistics.flushWindow, "all")));
     const flushRows = await tx
-      .select({
-        farmId: farmFlushStatistics.farmId,
-        strainId: farmFlushStatistics.strainId,
-        substrateRecipeId: farmFlushStatistics.substrateRecipeId,
-        fruitingMethodId: farmFlushStatistics.fruitingMethodId,
-        flush: farmFlushStatistics.flush,
-        finishedBlocks: farmFlushStatistics.finishedBlocks,
-        blocksFruiting: farmFlushStatistics.blocksFruiting,
-        shareSum: farmFlushStatistics.shareSum,
-        shareSquares: farmFlushStatistics.shareSquares,
-        cumulativeSum: farmFlushStatistics.cumulativeSum,
-        cumulativeSquares: farmFlushStatistics.cumulativeSquares,
-      })
+      .select(flushStatisticsColumns)
       .from(farmFlushStatistics)
       .where(inArray(farmFlushStatistics.strainId, strainIds));
     const byStrain = new Map<string, CoopStrainBenchmark>();

@@ -1,4 +1,5 @@
 import { GRAMS_PER_OUNCE, GRAMS_PER_POUND } from "../units";
+import { seededRandom } from "../random";
 
 /** How the generated sheet is written: as the template, as a comma-decimal locale exports it, or in US units and dates. */
 export type SeasonLogStyle = "template" | "european" | "imperial";
@@ -20,18 +21,6 @@ const methods = ["X-cut", "slits", "open top"] as const;
 const flushShares = [0.488, 0.316, 0.195, 0.1] as const;
 const millisecondsPerDay = 86_400_000;
 const seasonStart = Date.UTC(2026, 0, 5);
-
-/** A small seeded generator (mulberry32), so a seed always gives the same sheet. */
-export function seededRandom(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let mixed = state;
-    mixed = Math.imul(mixed ^ (mixed >>> 15), mixed | 1);
-    mixed ^= mixed + Math.imul(mixed ^ (mixed >>> 7), mixed | 61);
-    return ((mixed ^ (mixed >>> 14)) >>> 0) / 4_294_967_296;
-  };
-}
 
 function isoDay(time: number): string {
   return new Date(time).toISOString().slice(0, 10);
@@ -66,7 +55,8 @@ const headers: Readonly<Record<SeasonLogStyle, string>> = {
  */
 export function* seasonLogLines(options: GenerateSeasonLogOptions): Generator<string> {
   const style = options.style ?? "template";
-  const random = seededRandom(options.seed ?? 1);
+  // A seed always gives the same sheet.
+  const random = seededRandom(options.seed ?? 1).next;
   const separator = style === "european" ? ";" : ",";
   const prefix = options.blockPrefix ?? "B";
   yield headers[style];

@@ -2,6 +2,7 @@ import { describe, expect, it } from "vitest";
 import { blockedAnova, type BlockedAnovaObservation } from "./blocked-anova";
 import { studentTQuantile } from "./distributions";
 import { StatsInputError } from "./errors";
+import { seededRandom } from "@/lib/random";
 
 // Montgomery, Design and Analysis of Experiments, Example 4.1: extrusion pressure × batch.
 const montgomery: Record<string, number[]> = {
@@ -128,20 +129,8 @@ function crossCheck(obs: BlockedAnovaObservation[]) {
   };
 }
 
-// Deterministic pseudo-random numbers (mulberry32) so the design is the same every run.
-function randomSource(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
 function unbalancedDesign(seed: number): BlockedAnovaObservation[] {
-  const random = randomSource(seed);
+  const random = seededRandom(seed).next;
   const strainEffect: Record<string, number> = { "blue oyster": 8, "pearl oyster": 0, "lion's mane": -6, shiitake: 3 };
   const farms = ["Alder Hollow", "Birch Creek", "Cedar Run", "Dogwood", "Elm Ridge"];
   const obs: BlockedAnovaObservation[] = [];
