@@ -12,6 +12,7 @@ const expected: Record<Action, string[]> = {
   "season-log:upload": ["farm_manager", "grower"],
   "harvest:record": ["farm_manager", "grower"],
   "registry:propose": ["farm_manager", "grower"],
+  "registry:add": ["coordinator", "farm_manager", "grower"],
   "trial-list:download": ["farm_manager", "grower"],
   "farm-data:export": ["farm_manager"],
   "farm:withdraw": ["farm_manager"],

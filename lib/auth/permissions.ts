@@ -26,6 +26,8 @@ export const permissions = {
   "season-log:upload": farmPeople,
   "harvest:record": farmPeople,
   "registry:propose": farmPeople,
+  // Adding an entry: the coordinator's goes straight in, a farm's waits as a proposal.
+  "registry:add": ["coordinator", "farm_manager", "grower"],
   "trial-list:download": farmPeople,
 
   "farm-data:export": ["farm_manager"],

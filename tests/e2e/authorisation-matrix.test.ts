@@ -11,7 +11,7 @@ import { AppShell, SignInPage } from "./support/pages";
  * Every route handler, called as each role, as a member of another farm and signed out. The
  * matrix below must name every app/**\/route.ts method (a test fails when one is missing), and
  * every answer is checked for foreign farms' names and for pooled cells from too few farms.
- * Server actions are not called here: their ids are build-specific (see docs-drafts/co-op-results.md).
+ * Server actions have their own matrix in server-action-matrix.test.ts.
  */
 
 type Caller = "coordinator" | "farmManager" | "grower" | "observer" | "otherFarmManager" | "signedOut";

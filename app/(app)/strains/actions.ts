@@ -3,7 +3,6 @@
 import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { authorize, guardedAction, type ActionState } from "@/lib/auth/guard";
-import { can } from "@/lib/auth/permissions";
 import { createRegistryEntry, importRegistryCsv, moveRegistryEntry } from "@/lib/data/registries";
 import { isAppError } from "@/lib/errors";
 import { registryKinds } from "@/lib/members/registry-csv";
@@ -46,8 +45,7 @@ const entrySchema = z.discriminatedUnion("kind", [
   }),
 ]);
 
-export const addRegistryEntryAction = guardedAction("registry:read", entrySchema, async (input, member) => {
-  if (!can(member.role, "registry:manage") && !can(member.role, "registry:propose")) return { status: "error", message: "Your role can read the registries but not add to them." };
+export const addRegistryEntryAction = guardedAction("registry:add", entrySchema, async (input, member) => {
   const status = await createRegistryEntry(member, input);
   revalidatePath("/strains");
   return { status: "ok", message: status === "active" ? "Added to the registry." : "Proposed: it shows to everyone once the coordinator approves it." };
