@@ -7,6 +7,7 @@ import { roleLabels } from "@/lib/auth/permissions";
 import { listFarmPeople } from "@/lib/data/members";
 import { ActionForm } from "../members/_components/action-form";
 import { inviteGrowerAction, removeGrowerAction, transferManagerAction } from "./actions";
+import { OpenInvitations } from "../members/_components/open-invitations";
 
 export const metadata: Metadata = { title: "Farm people" };
 
@@ -64,18 +65,7 @@ export default async function FarmPeoplePage() {
         ))}
       </ul>
 
-      <h2 className="mt-10 mb-3 text-xl font-semibold text-moss-800">Open invitations</h2>
-      {invitations.length === 0 ? (
-        <p className="text-ink-soft">No invitations are waiting.</p>
-      ) : (
-        <ul className="space-y-2" aria-label="Open invitations">
-          {invitations.map((invitation) => (
-            <li key={invitation.id} className="rounded-lg border border-oat-300 bg-white px-4 py-3 text-sm">
-              <span className="font-medium">{invitation.email}</span> · link good until {invitation.expiresAt.toISOString().slice(0, 10)}
-            </li>
-          ))}
-        </ul>
-      )}
+      <OpenInvitations invitations={invitations.map((invitation) => ({ ...invitation, details: "" }))} />
     </>
   );
 }

@@ -7,6 +7,7 @@ import { listMembership } from "@/lib/data/members";
 import { invitableRoles } from "@/lib/members/roles";
 import { admitFarmAction, changeRoleAction, deactivatePersonAction, inviteMemberAction, setFarmStatusAction } from "./actions";
 import { ActionForm } from "./_components/action-form";
+import { OpenInvitations } from "./_components/open-invitations";
 
 export const metadata: Metadata = { title: "Members" };
 
@@ -138,19 +139,12 @@ export default async function MembersPage() {
         </table>
       </div>
 
-      <h2 className="mt-10 mb-3 text-xl font-semibold text-moss-800">Open invitations</h2>
-      {invitations.length === 0 ? (
-        <p className="text-ink-soft">No invitations are waiting.</p>
-      ) : (
-        <ul className="space-y-2" aria-label="Open invitations">
-          {invitations.map((invitation) => (
-            <li key={invitation.id} className="rounded-lg border border-oat-300 bg-white px-4 py-3 text-sm">
-              <span className="font-medium">{invitation.email}</span> · {invitation.role ? roleLabels[invitation.role] : ""}
-              {invitation.farmId ? ` · ${farmName.get(invitation.farmId)}` : ""} · link good until {date(invitation.expiresAt)}
-            </li>
-          ))}
-        </ul>
-      )}
+      <OpenInvitations
+        invitations={invitations.map((invitation) => ({
+          ...invitation,
+          details: [invitation.role ? roleLabels[invitation.role] : "", invitation.farmId ? farmName.get(invitation.farmId) ?? "" : ""].filter(Boolean).join(" · "),
+        }))}
+      />
     </>
   );
 }
