@@ -2,6 +2,16 @@ import { sql } from "drizzle-orm";
 import { check, doublePrecision, index, integer, jsonb, pgTable, text, timestamp, uuid } from "drizzle-orm/pg-core";
 import { farms } from "./cooperative";
 
+/** The cell a statistics row describes: farm × species × strain × recipe × fruiting method × trial arm. */
+const cellColumns = () => ({
+  farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
+  speciesId: uuid("species_id").notNull(),
+  strainId: uuid("strain_id").notNull(),
+  substrateRecipeId: uuid("substrate_recipe_id"),
+  fruitingMethodId: uuid("fruiting_method_id"),
+  trialArmId: uuid("trial_arm_id"),
+});
+
 /**
  * Per-farm sufficient statistics for the co-op's pooled results: one row per farm × species ×
  * strain × substrate recipe × fruiting method × trial arm × flush window. Written only by
@@ -10,12 +20,7 @@ import { farms } from "./cooperative";
 export const farmStrainStatistics = pgTable(
   "farm_strain_statistics",
   {
-    farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
-    speciesId: uuid("species_id").notNull(),
-    strainId: uuid("strain_id").notNull(),
-    substrateRecipeId: uuid("substrate_recipe_id"),
-    fruitingMethodId: uuid("fruiting_method_id"),
-    trialArmId: uuid("trial_arm_id"),
+    ...cellColumns(),
     /** "all", "1-2" or "1": which flushes count towards biological efficiency. */
     flushWindow: text("flush_window").notNull(),
     blocks: integer("blocks").notNull(),
@@ -41,12 +46,7 @@ export const farmStrainStatistics = pgTable(
 export const farmFlushStatistics = pgTable(
   "farm_flush_statistics",
   {
-    farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
-    speciesId: uuid("species_id").notNull(),
-    strainId: uuid("strain_id").notNull(),
-    substrateRecipeId: uuid("substrate_recipe_id"),
-    fruitingMethodId: uuid("fruiting_method_id"),
-    trialArmId: uuid("trial_arm_id"),
+    ...cellColumns(),
     flush: integer("flush").notNull(),
     /** Finished blocks with fruit in this cell (the same for every flush of the cell). */
     finishedBlocks: integer("finished_blocks").notNull(),

@@ -51,34 +51,17 @@ export interface PlanInput {
   assignments: readonly TrialAssignment[];
 }
 
-/** The block row a commit writes (insert or update by farm and code). */
-export interface BlockWrite {
-  code: string;
-  strainId: string;
-  substrateRecipeId: string | null;
-  fruitingMethodId: string | null;
-  trialArmId: string | null;
-  inoculatedOn: string | null;
-  wetMassG: number | null;
+/** The block row a commit writes (insert or update by farm and code): the stored values and the masses as written. */
+export interface BlockWrite extends Omit<StoredBlock, "id"> {
   wetMassAsWritten: string | null;
   wetMassUnit: string | null;
-  moisture: number | null;
-  contaminated: boolean;
-  contaminatedOn: string | null;
-  spentMassG: number | null;
   spentMassAsWritten: string | null;
   spentMassUnit: string | null;
-  notes: string;
 }
 
-export interface HarvestWrite {
-  blockCode: string;
-  flush: number;
-  harvestedOn: string | null;
-  freshMassG: number;
+export interface HarvestWrite extends StoredHarvest {
   freshMassAsWritten: string | null;
   freshMassUnit: string | null;
-  dryMassG: number | null;
   dryMassAsWritten: string | null;
   dryMassUnit: string | null;
 }

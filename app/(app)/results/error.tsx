@@ -1,12 +1,7 @@
 "use client";
 
-import { Notice } from "@/components/ui/notice";
+import { PageError } from "@/components/ui/page-error";
 
-export default function ResultsError({ reset }: { error: Error; reset: () => void }) {
-  return (
-    <Notice tone="danger" title="Co-op results could not be shown">
-      <p>Something went wrong while loading this page. Try again; if it keeps happening, tell the coordinator.</p>
-      <button type="button" className="min-h-11 font-semibold underline" onClick={reset}>Try again</button>
-    </Notice>
-  );
+export default function ResultsError({ reset }: { reset: () => void }) {
+  return <PageError title="Co-op results could not be shown" text="Something went wrong while loading this page." reset={reset} />;
 }

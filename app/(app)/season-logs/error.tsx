@@ -1,17 +1,7 @@
 "use client";
 
-import { Button } from "@/components/ui/button";
-import { Notice } from "@/components/ui/notice";
+import { PageError } from "@/components/ui/page-error";
 
 export default function SeasonLogsError({ reset }: { reset: () => void }) {
-  return (
-    <div className="space-y-4">
-      <Notice tone="danger" title="The season logs could not be shown">
-        <p>Something went wrong while loading your farm’s uploads. Try again; if it keeps happening, tell the coordinator.</p>
-      </Notice>
-      <Button type="button" onClick={reset}>
-        Try again
-      </Button>
-    </div>
-  );
+  return <PageError title="The season logs could not be shown" text="Something went wrong while loading your farm’s uploads." reset={reset} />;
 }
