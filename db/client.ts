@@ -1,4 +1,4 @@
-import { sql } from "drizzle-orm";
+import { sql, type SQL } from "drizzle-orm";
 import { drizzle, type NodePgDatabase } from "drizzle-orm/node-postgres";
 import { Pool } from "pg";
 import * as schema from "./schema";
@@ -70,6 +70,11 @@ export async function withFarmContext<T>(context: FarmContext, work: (tx: Transa
  */
 export async function withAnalystAccess<T>(work: (tx: Transaction) => Promise<T>): Promise<T> {
   return pools().analyst.transaction(async (tx) => work(tx));
+}
+
+/** One statement on the pooled-analysis path: no transaction, as one statement reads one snapshot anyway. */
+export async function readAsAnalyst<Row extends Record<string, unknown>>(query: SQL): Promise<Row[]> {
+  return (await pools().analyst.execute(query)).rows as Row[];
 }
 
 export async function closeDatabase(): Promise<void> {

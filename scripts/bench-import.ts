@@ -3,9 +3,9 @@
  *
  * For each size it runs a fresh child process (so peak memory is that size's alone) that:
  *   1. generates a season log with lib/import/generate.ts (not timed);
- *   2. times the app's path end to end: stream-parse the bytes, store the upload with its report
- *      and preview (createUpload), then commit (commitUpload re-reads the stored bytes, plans
- *      against what is stored and upserts in one transaction);
+ *   2. times the app's path end to end: stream-parse the bytes, store the upload with its report,
+ *      preview and staged parse (createUpload), then commit (commitUpload takes the staged parse,
+ *      plans against what is stored and inserts or updates in one transaction);
  *   3. times a COPY (psql \copy) of the same normalised rows into an unindexed scratch table;
  * and prints rows per second for both, the ratio and peak memory (max RSS).
  * The 500 000-row size runs the parse only (memory target: under 400 MB).

@@ -1,6 +1,8 @@
 // Times the pooled-statistics refresh on a generated co-op of 50 farms × 10 000 blocks ×
 // 4 flushes (2 million harvests), each beside a bare SQL GROUP BY computing the same per-farm
-// sums in the same run, and the results computation one request does. Prints figures only.
+// sums in the same run; then serves the built app on the same database and loads the results
+// API with 20 clients for 30 s, beside a static file from the same server. Prints figures only.
+import { spawn, spawnSync } from "node:child_process";
 import { mkdtempSync } from "node:fs";
 import { createRequire } from "node:module";
 import { tmpdir } from "node:os";
@@ -17,13 +19,19 @@ interface LoadResult {
   latency: { p50: number; p90: number; p97_5: number; p99: number };
   non2xx: number;
 }
+interface LoadTracker {
+  on(event: "response", listener: (client: unknown, statusCode: number, bytes: number, milliseconds: number) => void): void;
+}
 // autocannon ships no types; this is the part of its API used here.
-const autocannon = createRequire(import.meta.url)("autocannon") as (options: { url: string; connections: number; duration: number; headers: Record<string, string> }) => Promise<LoadResult>;
+const autocannon = createRequire(import.meta.url)("autocannon") as (
+  options: { url: string; connections: number; duration: number; headers: Record<string, string> },
+  done: (error: Error | null, result: LoadResult) => void,
+) => LoadTracker;
 
 const FARMS = 50;
 const BLOCKS_PER_FARM = 10_000;
 const FLUSHES = 4;
-const RUNS = 3;
+const RUNS = 5;
 
 function pool(url: string | undefined, database?: string): Pool {
   if (!url) throw new Error("Run this through npm run bench:pooled (it sets the database up)");
@@ -37,13 +45,21 @@ const superuser = pool(process.env.SUPERUSER_DATABASE_URL, database);
 const analyst = pool(process.env.ANALYST_DATABASE_URL);
 
 async function timed(work: () => Promise<unknown>): Promise<number> {
-  const times: number[] = [];
+  const [median] = await timedSideBySide([work]);
+  return median;
+}
+
+/** Runs the works in turn, RUNS rounds, so a cold cache or a busy moment falls on each alike; medians. */
+async function timedSideBySide(works: (() => Promise<unknown>)[]): Promise<number[]> {
+  const times: number[][] = works.map(() => []);
   for (let run = 0; run < RUNS; run++) {
-    const start = performance.now();
-    await work();
-    times.push(performance.now() - start);
+    for (const [index, work] of works.entries()) {
+      const start = performance.now();
+      await work();
+      times[index].push(performance.now() - start);
+    }
   }
-  return times.sort((a, b) => a - b)[Math.floor(RUNS / 2)];
+  return times.map((list) => list.sort((a, b) => a - b)[Math.floor(RUNS / 2)]);
 }
 
 const ms = (value: number) => `${value.toFixed(0)} ms`;
@@ -86,8 +102,9 @@ async function generate(): Promise<string> {
     insert into harvests (farm_id, block_id, flush, harvested_on, fresh_mass_g)
     select b.farm_id, b.id, k, b.inoculated_on + 20 + 14 * k, round((400 - 60 * k + (hashtext(b.id::text || k) % 80))::numeric, 1)
     from blocks b cross join generate_series(1, ${FLUSHES}) k
-    where not b.contaminated or k = 1;
-    analyze;`);
+    where not b.contaminated or k = 1;`);
+  // As autovacuum would leave a real co-op's tables: statistics, visibility map and hint bits set.
+  await superuser.query("vacuum analyze");
   const { rows } = await superuser.query<{ harvests: number }>("select count(*)::int as harvests from harvests");
   console.log(`  ${rows[0].harvests} harvests in ${ms(performance.now() - start)}`);
   return (await superuser.query<{ id: string }>("select id from farms order by name limit 1")).rows[0].id;
@@ -98,13 +115,14 @@ async function main() {
   const existing = process.env.RHIZO_BENCH_REUSE ? (await superuser.query<{ id: string }>("select id from farms order by name limit 1")).rows[0]?.id : undefined;
   const farmId = existing ?? (await generate());
 
-  const fullRefresh = await timed(() => analyst.query("select pooled_refresh_all()"));
-  const fullBare = await timed(() => analyst.query(bareGroupBy("")));
+  const [fullRefresh, fullBare] = await timedSideBySide([() => analyst.query("select pooled_refresh_all()"), () => analyst.query(bareGroupBy(""))]);
 
   // One farm sends a season log of 40 000 rows: all its harvests are replaced, then refreshed.
   await superuser.query("update harvests set fresh_mass_g = fresh_mass_g + 1 where farm_id = $1", [farmId]);
-  const oneRefresh = await timed(() => analyst.query("select pooled_refresh_farm($1)", [farmId]));
-  const oneBare = await timed(() => analyst.query(bareGroupBy(`where b.farm_id = '${farmId}'`)));
+  const [oneRefresh, oneBare] = await timedSideBySide([
+    () => analyst.query("select pooled_refresh_farm($1)", [farmId]),
+    () => analyst.query(bareGroupBy(`where b.farm_id = '${farmId}'`)),
+  ]);
 
   // What one results request computes: read the species' statistics and pool them.
   const species = (await analyst.query<{ id: string }>("select id from species limit 1")).rows[0].id;
@@ -132,42 +150,72 @@ async function main() {
   console.log(`| (b) full recompute, ${FARMS} farms | ${ms(fullRefresh)} | ${ms(fullBare)} | ${(fullRefresh / fullBare).toFixed(2)}× |`);
   console.log(`| results for one species (read statistics + pool, no HTTP) | ${ms(requestTime)} | | |`);
 
-  // (c) Only with an app already serving this database (see docs-drafts/co-op-results.md).
-  const appUrl = process.env.RHIZO_BENCH_APP_URL;
-  if (appUrl) await loadTest(appUrl, species);
+  if (!process.env.RHIZO_BENCH_SKIP_HTTP) await loadTest(species);
 }
 
-/** 20 clients for 30 s on GET /api/results as a signed-in observer, beside GET /sign-in (no database). */
-async function loadTest(appUrl: string, species: string) {
+/** Serves the built app (built into .next-bench first if the sources changed) on this database. */
+async function serveApp(): Promise<{ url: string; stop: () => void }> {
+  console.log("\nServing the app on the bench database (building it into .next-bench first if the sources changed) …");
+  const env = { ...process.env, NEXT_DIST_DIR: process.env.NEXT_DIST_DIR ?? ".next-bench" };
+  const built = spawnSync("bash", ["-c", ". scripts/lib.sh && ensure_app_build"], { env, encoding: "utf8" });
+  if (built.status !== 0) throw new Error(`The app did not build:\n${built.stdout}${built.stderr}`);
+  const port = process.env.APP_PORT ?? "3200";
+  const server = spawn("npx", ["next", "start", "--hostname", "127.0.0.1", "--port", port], { env, stdio: ["ignore", "ignore", "inherit"], detached: true });
+  const url = `http://127.0.0.1:${port}`;
+  for (let attempt = 0; ; attempt++) {
+    if (await fetch(`${url}/icon.svg`).then((response) => response.ok, () => false)) break;
+    if (attempt > 150) throw new Error(`The app did not start on ${url}`);
+    await new Promise((resolve) => setTimeout(resolve, 200));
+  }
+  return { url, stop: () => process.kill(-server.pid!, "SIGTERM") };
+}
+
+/** 20 clients for 30 s; p95 from every response time (autocannon itself reports p90 and p97.5). */
+function load(url: string, cookie: string): Promise<LoadResult & { p95: number }> {
+  return new Promise((resolve, reject) => {
+    const times: number[] = [];
+    const tracker = autocannon({ url, connections: 20, duration: 30, headers: { cookie } }, (error, result) => {
+      if (error) return reject(error);
+      times.sort((a, b) => a - b);
+      resolve({ ...result, p95: times[Math.floor(0.95 * (times.length - 1))] ?? Number.NaN });
+    });
+    tracker.on("response", (_client, _status, _bytes, milliseconds) => times.push(milliseconds));
+  });
+}
+
+/** (c) GET /api/results as a signed-in observer, beside GET /icon.svg (a static file: the server's own floor). */
+async function loadTest(species: string) {
   const email = "bench-observer@bench.example";
   const password = "bench-observer-password";
   await superuser.query(
     "insert into users (email, name, role, password_hash) values ($1, 'Bench observer', 'observer', $2) on conflict do nothing",
     [email, await hashPassword(password)],
   );
-  const browser = await chromium.launchPersistentContext(mkdtempSync(path.join(tmpdir(), "rhizomorph-bench-")), {
-    executablePath: "/usr/bin/chromium",
-    headless: true,
-    args: ["--no-sandbox", "--disable-gpu", "--no-first-run"],
-  });
-  const page = await browser.newPage();
-  await page.goto(`${appUrl}/sign-in`);
-  await page.getByLabel("E-mail").fill(email);
-  await page.getByLabel("Password").fill(password);
-  await page.getByRole("button", { name: "Sign in" }).click();
-  await page.getByTestId("member-name").waitFor();
-  const cookie = (await browser.cookies()).map((entry) => `${entry.name}=${entry.value}`).join("; ");
-  await browser.close();
-  const run = (url: string) =>
-    autocannon({ url, connections: 20, duration: 30, headers: { cookie } });
-  const baseline = await run(`${appUrl}/sign-in`);
-  const results = await run(`${appUrl}/api/results?species=${species}&window=all`);
-  console.log("");
-  // autocannon reports p90 and p97.5; p95 lies between them.
-  console.log("| 20 clients, 30 s, loopback | requests/s | p50 | p90 | p97.5 | non-2xx |");
-  console.log("| --- | --- | --- | --- | --- | --- |");
-  for (const [name, result] of [["GET /api/results (50 farms)", results], ["GET /sign-in (baseline page, no database)", baseline]] as const) {
-    console.log(`| ${name} | ${result.requests.average.toFixed(0)} | ${result.latency.p50} ms | ${result.latency.p90} ms | ${result.latency.p97_5} ms | ${result.non2xx} |`);
+  const app = await serveApp();
+  try {
+    const browser = await chromium.launchPersistentContext(mkdtempSync(path.join(tmpdir(), "rhizomorph-bench-")), {
+      executablePath: "/usr/bin/chromium",
+      headless: true,
+      args: ["--no-sandbox", "--disable-gpu", "--no-first-run"],
+    });
+    const page = await browser.newPage();
+    await page.goto(`${app.url}/sign-in`);
+    await page.getByLabel("E-mail").fill(email);
+    await page.getByLabel("Password").fill(password);
+    await page.getByRole("button", { name: "Sign in" }).click();
+    await page.getByTestId("member-name").waitFor();
+    const cookie = (await browser.cookies()).map((entry) => `${entry.name}=${entry.value}`).join("; ");
+    await browser.close();
+    const baseline = await load(`${app.url}/icon.svg`, cookie);
+    const results = await load(`${app.url}/api/results?species=${species}&window=all`, cookie);
+    console.log("");
+    console.log("| 20 clients, 30 s, loopback | requests/s | p50 | p95 | p97.5 | non-2xx |");
+    console.log("| --- | --- | --- | --- | --- | --- |");
+    for (const [name, result] of [["GET /api/results (50 farms)", results], ["GET /icon.svg (static file, same server)", baseline]] as const) {
+      console.log(`| ${name} | ${result.requests.average.toFixed(0)} | ${result.latency.p50} ms | ${result.p95.toFixed(0)} ms | ${result.latency.p97_5} ms | ${result.non2xx} |`);
+    }
+  } finally {
+    app.stop();
   }
 }
 

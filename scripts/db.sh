@@ -64,6 +64,9 @@ END
 ALTER ROLE rhizo_owner PASSWORD '$RHIZO_OWNER_PASSWORD';
 ALTER ROLE rhizo_app PASSWORD '$RHIZO_APP_PASSWORD';
 ALTER ROLE rhizo_analyst PASSWORD '$RHIZO_ANALYST_PASSWORD';
+-- The analyst's refresh groups every block of the co-op; with the default 4 MB its sorts and
+-- hash tables spill to disk. Other roles keep the default.
+ALTER ROLE rhizo_analyst SET work_mem = '256MB';
 SQL
   if [ "$(psql_super -d postgres -tAc "SELECT 1 FROM pg_database WHERE datname = '$database'")" != "1" ]; then
     say "Creating database $database"

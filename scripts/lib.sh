@@ -98,3 +98,15 @@ ensure_port_free() {
   port_in_use "$1" && fail "Port $1 is already in use: stop whatever is listening there (an earlier run?) and try again"
   return 0
 }
+
+# Builds the app into $NEXT_DIST_DIR (default .next) unless a build newer than every source is there.
+ensure_app_build() {
+  local dist_dir="${NEXT_DIST_DIR:-.next}"
+  if [ -f "$dist_dir/BUILD_ID" ] && [ -z "$(find app components lib db auth.ts auth.config.ts proxy.ts next.config.ts package-lock.json public \
+    -newer "$dist_dir/BUILD_ID" -not -path 'db/migrations/*' -print -quit 2>/dev/null)" ]; then
+    say "The app build is up to date"
+  else
+    say "Building the app (about a minute)"
+    npx next build
+  fi
+}

@@ -32,18 +32,7 @@ MAIL_CATCHER_PID=""
 start_mail_catcher
 trap '[ -n "$MAIL_CATCHER_PID" ] && kill -- "-$MAIL_CATCHER_PID" 2>/dev/null' EXIT
 
-DIST_DIR="${NEXT_DIST_DIR:-.next}"
-build_is_current() {
-  [ -f "$DIST_DIR/BUILD_ID" ] || return 1
-  [ -z "$(find app components lib db auth.ts auth.config.ts proxy.ts next.config.ts package-lock.json public \
-    -newer "$DIST_DIR/BUILD_ID" -not -path 'db/migrations/*' -print -quit 2>/dev/null)" ]
-}
-if build_is_current; then
-  say "The app build is up to date"
-else
-  say "Building the app (about a minute)"
-  npx next build
-fi
+ensure_app_build
 
 cat <<MSG
 

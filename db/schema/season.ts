@@ -26,6 +26,8 @@ export const uploads = pgTable(
     rowCount: integer("row_count").notNull().default(0),
     report: jsonb("report"),
     options: jsonb("options"),
+    /** The upload's parse, packed (lib/season-logs/staged.ts), so the commit need not read the file again; cleared once committed. */
+    stagedParse: text("staged_parse"),
     committedAt: timestamp("committed_at", { withTimezone: true }),
   },
   (t) => [index("uploads_farm_sha_idx").on(t.farmId, t.sha256), index("uploads_farm_time_idx").on(t.farmId, t.uploadedAt)],

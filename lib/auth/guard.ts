@@ -1,9 +1,10 @@
 import "server-only";
 import { cache } from "react";
+import { headers } from "next/headers";
 import { redirect } from "next/navigation";
 import { NextResponse } from "next/server";
 import type { z } from "zod";
-import { auth } from "@/auth";
+import { sessionMemberId } from "@/auth.config";
 import { farmContextOf, loadMember, type Member } from "@/lib/data/members";
 
 export { farmContextOf };
@@ -12,9 +13,9 @@ import { can, type Action } from "./permissions";
 
 /** The signed-in member, read fresh from the database once per request (roles are data). */
 export const currentMember = cache(async (): Promise<Member | null> => {
-  const session = await auth();
-  if (!session?.user?.id) return null;
-  const member = await loadMember(session.user.id);
+  const memberId = await sessionMemberId(await headers());
+  if (!memberId) return null;
+  const member = await loadMember(memberId);
   return member?.active ? member : null;
 });
 

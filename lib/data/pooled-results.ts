@@ -1,7 +1,7 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
 import { and, asc, eq, inArray, sql } from "drizzle-orm";
-import { withAnalystAccess, withFarmContext } from "@/db/client";
+import { readAsAnalyst, withAnalystAccess, withFarmContext } from "@/db/client";
 import { cooperativeSettings, farmFlushStatistics, farmStrainStatistics, species, strains, substrateRecipes, treatments } from "@/db/schema";
 import { farmContextOf, type Member } from "@/lib/data/members";
 import { AppError } from "@/lib/errors";
@@ -49,10 +49,8 @@ export interface PooledResultsPage {
 
 /** Whether any farm's statistics are still being recomputed after an upload. */
 export async function getPooledUpdating(): Promise<boolean> {
-  return withAnalystAccess(async (tx) => {
-    const result = await tx.execute<{ pending: boolean }>(sql`select exists (select 1 from pooled_refresh_state where requested > completed) as pending`);
-    return Boolean(result.rows[0]?.pending);
-  });
+  const [row] = await readAsAnalyst<{ pending: boolean }>(sql`select exists (select 1 from pooled_refresh_state where requested > completed) as pending`);
+  return Boolean(row?.pending);
 }
 
 export async function getCooperativePrivacySettings(): Promise<{ minimumFarms: number; showPerFarmEstimates: boolean }> {
@@ -93,15 +91,13 @@ export async function getPooledResults(member: Member, query: PooledResultsQuery
 const resultsCache = new Map<string, { version: string; page: Omit<PooledResultsPage, "ownBlocks" | "updating"> }>();
 
 async function getStatisticsVersion(): Promise<{ version: string; updating: boolean }> {
-  return withAnalystAccess(async (tx) => {
-    const result = await tx.execute<{ version: string; updating: boolean }>(sql`
-      select concat_ws('|',
-          (select coalesce(sum(requested), 0) || ':' || coalesce(sum(completed), 0) from pooled_refresh_state),
-          (select minimum_farms || ':' || show_per_farm_estimates from cooperative_settings),
-          (select count(*) || ':' || coalesce(max(created_at)::text, '') from strains)) as version,
-        exists (select 1 from pooled_refresh_state where requested > completed) as updating`);
-    return { version: result.rows[0].version, updating: Boolean(result.rows[0].updating) };
-  });
+  const [row] = await readAsAnalyst<{ version: string; updating: boolean }>(sql`
+    select concat_ws('|',
+        (select coalesce(sum(requested), 0) || ':' || coalesce(sum(completed), 0) from pooled_refresh_state),
+        (select minimum_farms || ':' || show_per_farm_estimates from cooperative_settings),
+        (select count(*) || ':' || coalesce(max(created_at)::text, '') from strains)) as version,
+      exists (select 1 from pooled_refresh_state where requested > completed) as updating`);
+  return { version: row.version, updating: Boolean(row.updating) };
 }
 
 async function computePooledResults(member: Member, query: PooledResultsQuery): Promise<Omit<PooledResultsPage, "ownBlocks" | "updating">> {

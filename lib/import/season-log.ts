@@ -233,6 +233,8 @@ interface ColumnPlan {
   index: number;
   header: string;
   unit: MassUnit | undefined;
+  /** Masses already read in this column, by cell text: records that wrote the same share one reading. */
+  masses?: Map<string, NonNullable<MassValue>>;
 }
 
 interface WideFlush {
@@ -249,6 +251,39 @@ function shorten(value: string): string {
 
 function todayUtc(): string {
   return new Date().toISOString().slice(0, 10);
+}
+
+/**
+ * A record as the parser makes it. A class rather than an object literal: in CPU profiles the
+ * 22-field literal was the parser's most expensive line, and the constructor is not. Its
+ * fields are SeasonRecord's, by declaration merging, so they are listed once.
+ */
+interface ParsedRecord extends SeasonRecord {}
+class ParsedRecord {
+  constructor(row: RowValues, flush: number | null, harvestedOn: string | null, fresh: MassValue, dry: MassValue) {
+    this.line = row.line;
+    this.blockCode = row.blockCode;
+    this.strainCode = row.strainCode;
+    this.substrate = row.substrate;
+    this.trialCode = row.trialCode;
+    this.arm = row.arm;
+    this.inoculatedOn = row.inoculatedOn;
+    this.wetBlockGrams = row.wet === null ? null : row.wet.grams;
+    this.wetBlockAsWritten = row.wet === null ? null : row.wet.written;
+    this.moisture = row.moisture;
+    this.fruitingMethod = row.fruitingMethod;
+    this.flush = flush;
+    this.harvestedOn = harvestedOn;
+    this.freshGrams = fresh === null ? null : fresh.grams;
+    this.freshAsWritten = fresh === null ? null : fresh.written;
+    this.dryGrams = dry === null ? null : dry.grams;
+    this.dryAsWritten = dry === null ? null : dry.written;
+    this.contaminated = row.contaminated === true;
+    this.contaminatedOn = row.contaminatedOn;
+    this.spentGrams = row.spent === null ? null : row.spent.grams;
+    this.spentAsWritten = row.spent === null ? null : row.spent.written;
+    this.notes = row.notes;
+  }
 }
 
 /** Starts an incremental season-log reader: feed it the file in chunks of bytes or text. */
@@ -513,12 +548,18 @@ class SeasonLogReader implements SeasonLogParser {
   private mass(cells: string[], column: ColumnPlan, line: number): MassValue {
     const text = cell(cells, column.index);
     if (text === "") return null;
+    column.masses ??= new Map();
+    const known = column.masses.get(text);
+    if (known !== undefined) return known;
     const reading = readMass(text, { defaultUnit: column.unit, decimal: this.decimal });
     if ("error" in reading) {
       this.cellIssue(line, column, text, "error", reading.error);
       return null;
     }
-    return { grams: reading.grams, written: { value: ownCopy(text), unit: reading.unit } };
+    const value = ownCopy(text);
+    const mass = { grams: reading.grams, written: { value, unit: reading.unit } };
+    if (column.masses.size < mostInternedTexts) column.masses.set(value, mass);
+    return mass;
   }
 
   /** A date as "YYYY-MM-DD", or the text itself when it waits for the file's date order (flagged for the row). */
@@ -625,30 +666,7 @@ class SeasonLogReader implements SeasonLogParser {
 
   private addRecord(flush: number | null, harvestedOn: string | null, fresh: MassValue, dry: MassValue, harvestPendingDates: number): void {
     const row = this.current;
-    const record: SeasonRecord = {
-      line: row.line,
-      blockCode: row.blockCode,
-      strainCode: row.strainCode,
-      substrate: row.substrate,
-      trialCode: row.trialCode,
-      arm: row.arm,
-      inoculatedOn: row.inoculatedOn,
-      wetBlockGrams: row.wet === null ? null : row.wet.grams,
-      wetBlockAsWritten: row.wet === null ? null : row.wet.written,
-      moisture: row.moisture,
-      fruitingMethod: row.fruitingMethod,
-      flush,
-      harvestedOn,
-      freshGrams: fresh === null ? null : fresh.grams,
-      freshAsWritten: fresh === null ? null : fresh.written,
-      dryGrams: dry === null ? null : dry.grams,
-      dryAsWritten: dry === null ? null : dry.written,
-      contaminated: row.contaminated === true,
-      contaminatedOn: row.contaminatedOn,
-      spentGrams: row.spent === null ? null : row.spent.grams,
-      spentAsWritten: row.spent === null ? null : row.spent.written,
-      notes: row.notes,
-    };
+    const record = new ParsedRecord(row, flush, harvestedOn, fresh, dry);
     const index = this.records.length;
     this.records.push(record);
     const pending = row.pendingDates | harvestPendingDates;
@@ -761,11 +779,6 @@ class SeasonLogReader implements SeasonLogParser {
       const earlier = this.records[source];
       if (!rule.same(earlier, record)) this.disagreement(rule, record, earlier);
     }
-    // Rows of one block repeat its weights: keep one copy so a large file holds less.
-    const wetSource = this.records[block.source[slot.wetBlockGrams]];
-    if (wetSource !== undefined && record.wetBlockAsWritten !== null && wetSource.wetBlockAsWritten?.value === record.wetBlockAsWritten.value) this.shareWeights(recordIndex, "wet", wetSource);
-    const spentSource = this.records[block.source[slot.spentGrams]];
-    if (spentSource !== undefined && record.spentAsWritten !== null && spentSource.spentAsWritten?.value === record.spentAsWritten.value) this.shareWeights(recordIndex, "spent", spentSource);
     if (contaminated !== null) {
       if (block.contaminated === null) {
         block.contaminated = contaminated;
@@ -777,14 +790,6 @@ class SeasonLogReader implements SeasonLogParser {
     }
     for (const rule of dateBlockAttributes) {
       if (record[rule.field] !== null && block.source[rule.slot] === -1) block.source[rule.slot] = recordIndex;
-    }
-  }
-
-  private shareWeights(from: number, which: "wet" | "spent", source: SeasonRecord): void {
-    for (let index = from; index < this.records.length; index++) {
-      const record = this.records[index];
-      if (which === "wet") record.wetBlockAsWritten = source.wetBlockAsWritten;
-      else record.spentAsWritten = source.spentAsWritten;
     }
   }
 
@@ -908,6 +913,7 @@ class SeasonLogReader implements SeasonLogParser {
     this.dates.clear();
     this.moistures.clear();
     this.strainChecks.clear();
+    for (const column of [...this.plan.values(), ...this.wide.map((wide) => wide.weight)]) column.masses = undefined;
     this.pendingDates = new Uint8Array(0);
   }
 

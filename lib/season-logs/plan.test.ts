@@ -42,6 +42,9 @@ describe("planCommit", () => {
     const plan = planCommit(input({ records: records(["A-1,PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,1,2026-04-02,400 g,no,", "A-1,PO-01,,,,,,2,2026-04-20,250 g,no,", "A-2,PO-02,HWB-20,2026-03-01,2.4 kg,62 %,,,,,no,"]) }));
     expect(plan.counts).toEqual({ newBlocks: 2, changedBlocks: 0, untouchedBlocks: 0, newHarvests: 2, changedHarvests: 0, untouchedHarvests: 0 });
     expect(plan.blocks.find((block) => block.code === "A-2")?.wetMassG).toBe(2400);
+    // Nothing is stored yet, so every row is an insert.
+    expect([...plan.blocks, ...plan.harvests].every((write) => write.id === null)).toBe(true);
+    expect(plan.harvests.every((harvest) => harvest.blockId === null)).toBe(true);
     expect(plan.changes).toEqual([]);
     expect(plan.issues).toEqual([]);
   });
@@ -52,14 +55,16 @@ describe("planCommit", () => {
         records: records(["A-1,PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,1,2026-04-02,410 g,no,", "A-1,PO-01,,,,,,2,2026-04-20,250 g,no,"]),
         storedBlocks: [storedA1],
         storedHarvests: [
-          { blockCode: "A-1", flush: 1, harvestedOn: "2026-04-02", freshMassG: 400, dryMassG: null },
-          { blockCode: "A-1", flush: 2, harvestedOn: "2026-04-20", freshMassG: 250, dryMassG: null },
+          { id: "h-1", blockCode: "A-1", flush: 1, harvestedOn: "2026-04-02", freshMassG: 400, dryMassG: null },
+          { id: "h-2", blockCode: "A-1", flush: 2, harvestedOn: "2026-04-20", freshMassG: 250, dryMassG: null },
         ],
       }),
     );
     expect(plan.counts).toEqual({ newBlocks: 0, changedBlocks: 0, untouchedBlocks: 1, newHarvests: 0, changedHarvests: 1, untouchedHarvests: 1 });
     expect(plan.changes).toEqual([{ blockCode: "A-1", flush: 1, field: "fresh_weight", oldValue: "400", newValue: "410" }]);
     expect(plan.harvests.map((harvest) => harvest.flush)).toEqual([1]);
+    // A changed harvest is updated where it is stored, not inserted again.
+    expect(plan.harvests[0]).toMatchObject({ id: "h-1", blockId: "b-1" });
   });
 
   it("never erases a stored value with a blank cell", () => {

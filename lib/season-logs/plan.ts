@@ -19,6 +19,7 @@ export interface StoredBlock {
 }
 
 export interface StoredHarvest {
+  id: string;
   blockCode: string;
   flush: number;
   harvestedOn: string | null;
@@ -51,15 +52,19 @@ export interface PlanInput {
   assignments: readonly TrialAssignment[];
 }
 
-/** The block row a commit writes (insert or update by farm and code): the stored values and the masses as written. */
+/** The block row a commit writes: the stored values and the masses as written; `id` is the stored block's, null for a new one. */
 export interface BlockWrite extends Omit<StoredBlock, "id"> {
+  id: string | null;
   wetMassAsWritten: string | null;
   wetMassUnit: string | null;
   spentMassAsWritten: string | null;
   spentMassUnit: string | null;
 }
 
-export interface HarvestWrite extends StoredHarvest {
+/** `id` is the stored harvest's and `blockId` the stored block's, each null when new. */
+export interface HarvestWrite extends Omit<StoredHarvest, "id"> {
+  id: string | null;
+  blockId: string | null;
   freshMassAsWritten: string | null;
   freshMassUnit: string | null;
   dryMassAsWritten: string | null;
@@ -85,9 +90,9 @@ export interface PlanCounts {
 }
 
 export interface CommitPlan {
-  /** Blocks to insert or update (new and changed only). */
+  /** Blocks to insert (id null) or update (new and changed only). */
   blocks: BlockWrite[];
-  /** Harvests to insert or update (new and changed only). */
+  /** Harvests to insert (id null) or update (new and changed only). */
   harvests: HarvestWrite[];
   changes: ValueChange[];
   newBlockCodes: string[];
@@ -116,6 +121,8 @@ function shown(value: number | string | boolean | null): string | null {
 
 class Register {
   private readonly byKey = new Map<string, RegistryEntry>();
+  /** Codes as written, already looked up: a file repeats a handful of codes on every block. */
+  private readonly byWritten = new Map<string, RegistryEntry | null>();
   private readonly nearest: StrainRegister;
   readonly codeById = new Map<string, string>();
 
@@ -128,7 +135,12 @@ class Register {
   }
 
   find(code: string): RegistryEntry | null {
-    return this.byKey.get(key(code)) ?? null;
+    let entry = this.byWritten.get(code);
+    if (entry === undefined) {
+      entry = this.byKey.get(key(code)) ?? null;
+      this.byWritten.set(code, entry);
+    }
+    return entry;
   }
 
   suggestion(code: string): string {
@@ -168,7 +180,8 @@ export function planCommit(input: PlanInput): CommitPlan {
   const changes: ValueChange[] = [];
   const newBlockCodes: string[] = [];
   const counts: PlanCounts = { newBlocks: 0, changedBlocks: 0, untouchedBlocks: 0, newHarvests: 0, changedHarvests: 0, untouchedHarvests: 0 };
-  const strainCodeOfBlock = new Map<string, string>();
+  // Blocks the plan writes or keeps, with the stored id (null for a new block).
+  const plannedBlocks = new Map<string, string | null>();
 
   for (const [code, record] of firstRecord) {
     const stored = storedByCode.get(code) ?? null;
@@ -177,7 +190,7 @@ export function planCommit(input: PlanInput): CommitPlan {
     if (!strain) {
       continue;
     }
-    strainCodeOfBlock.set(code, strain.code);
+    plannedBlocks.set(code, stored?.id ?? null);
     const recipe = record.substrate ? recipes.find(record.substrate) : null;
     if (record.substrate && !recipe) {
       issues.push({
@@ -198,7 +211,7 @@ export function planCommit(input: PlanInput): CommitPlan {
         message: `Line ${record.line}: block ${code} has fruiting method "${record.fruitingMethod}", which is not in the co-op's register.${methods.suggestion(record.fruitingMethod)} Use a fruiting method code from the register, or leave the cell blank.`,
       });
     }
-    const assignment = assignmentByCode.get(key(code)) ?? null;
+    const assignment = assignmentByCode.size === 0 ? null : (assignmentByCode.get(key(code)) ?? null);
     if (assignment && assignment.strainId !== strain.id) {
       issues.push({
         line: record.line,
@@ -220,6 +233,7 @@ export function planCommit(input: PlanInput): CommitPlan {
 
     const notes = (notesByBlock.get(code) ?? []).join("; ");
     const write: BlockWrite = {
+      id: stored?.id ?? null,
       code,
       strainId: strain.id,
       substrateRecipeId: recipe?.id ?? stored?.substrateRecipeId ?? null,
@@ -268,8 +282,13 @@ export function planCommit(input: PlanInput): CommitPlan {
 
   const harvests: HarvestWrite[] = [];
   for (const record of input.records) {
-    if (record.flush === null || record.freshGrams === null || !strainCodeOfBlock.has(record.blockCode)) continue;
+    if (record.flush === null || record.freshGrams === null) continue;
+    const blockId = plannedBlocks.get(record.blockCode);
+    if (blockId === undefined) continue;
+    const stored = storedHarvests.get(`${record.blockCode}\u0000${record.flush}`);
     const write: HarvestWrite = {
+      id: stored?.id ?? null,
+      blockId,
       blockCode: record.blockCode,
       flush: record.flush,
       harvestedOn: record.harvestedOn,
@@ -280,7 +299,6 @@ export function planCommit(input: PlanInput): CommitPlan {
       dryMassAsWritten: record.dryAsWritten?.value ?? null,
       dryMassUnit: record.dryAsWritten?.unit ?? null,
     };
-    const stored = storedHarvests.get(`${record.blockCode}\u0000${record.flush}`);
     if (!stored) {
       counts.newHarvests++;
       harvests.push(write);

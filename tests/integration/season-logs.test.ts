@@ -133,6 +133,19 @@ describe("committing a season log", () => {
     expect(history).toEqual([{ field: "fresh_weight", flush: 1, old_value: "401", new_value: "480", upload_id: grown.upload.id, changed_by: farmA.managerId }]);
   });
 
+  it("commits what the file says under the commit's own choices, not the parse kept from the upload", async () => {
+    const text = `${header}\r\nIT-D-1,PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,1,2026-04-10,1.500 g,no,\r\n`;
+    const view = await upload(asFarmA, text, "decimal.csv", { decimal: "." });
+    expect(view.canCommit).toBe(true);
+    const { rows: staged } = await inspector.query("select staged_parse is not null as staged from uploads where id = $1", [view.upload.id]);
+    expect(staged[0].staged).toBe(true);
+    // With a decimal comma, "1.500 g" is 1 500 g; the parse kept at upload (decimal point) read 1.5 g.
+    await commitUpload(asFarmA, view.upload.id, { decimal: "," });
+    expect(await storedHarvests(farmA, "IT-D")).toEqual([{ code: "-1", flush: 1, fresh: "1500" }]);
+    const { rows: kept } = await inspector.query("select staged_parse from uploads where id = $1", [view.upload.id]);
+    expect(kept[0].staged_parse).toBeNull();
+  });
+
   it("refuses to commit a file with errors and saves nothing from it", async () => {
     const view = await upload(asFarmA, `${header}\r\nIT-E-1,PO-01,HWB-20,2026-03-01,2500 g,62 %,,1,2026-04-10,-5 g,no,\r\n`);
     expect(view.report.errorCount).toBeGreaterThan(0);
