@@ -59,6 +59,8 @@ describe("a grower uploads a season log", () => {
     const receipt = await logs.commit();
     expect(receipt).toContain("2 new blocks");
     expect(receipt).toContain("3 new harvests");
+    // The list of past uploads follows the commit without a reload.
+    await page.getByRole("row", { name: /fernbrook-season-corrected\.csv.*Committed/ }).waitFor();
     await screenshot(page, "season-logs-5-receipt");
 
     const blocks = new BlocksPage(page);
