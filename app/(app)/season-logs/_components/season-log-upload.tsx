@@ -271,7 +271,7 @@ export function SeasonLogUpload() {
         <Card title="Committed">
           <div data-testid="receipt" className="space-y-2 text-sm">
             <p>
-              {receipt.fileName} was committed on {new Date(receipt.committedAt).toLocaleString()}.
+              {receipt.fileName} was committed on {receipt.committedAt.slice(0, 16).replace("T", " ")} UTC.
             </p>
             <p>
               {receipt.counts.newBlocks} new blocks, {receipt.counts.changedBlocks} blocks changed, {receipt.counts.newHarvests} new harvests, {receipt.counts.changedHarvests} harvests
