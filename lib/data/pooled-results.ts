@@ -47,9 +47,11 @@ export interface PooledResultsPage {
   ownBlocks: { strainId: string; efficiency: number }[];
 }
 
-/** Whether any farm's statistics are still being recomputed after an upload. */
+/** True while any farm's statistics are still being recomputed after an upload. */
+const anyRefreshPending = sql`exists (select 1 from pooled_refresh_state where requested > completed)`;
+
 export async function getPooledUpdating(): Promise<boolean> {
-  const [row] = await readAsAnalyst<{ pending: boolean }>(sql`select exists (select 1 from pooled_refresh_state where requested > completed) as pending`);
+  const [row] = await readAsAnalyst<{ pending: boolean }>(sql`select ${anyRefreshPending} as pending`);
   return Boolean(row?.pending);
 }
 
@@ -96,7 +98,7 @@ async function getStatisticsVersion(): Promise<{ version: string; updating: bool
         (select coalesce(sum(requested), 0) || ':' || coalesce(sum(completed), 0) from pooled_refresh_state),
         (select minimum_farms || ':' || show_per_farm_estimates from cooperative_settings),
         (select count(*) || ':' || coalesce(max(created_at)::text, '') from strains)) as version,
-      exists (select 1 from pooled_refresh_state where requested > completed) as updating`);
+      ${anyRefreshPending} as updating`);
   return { version: row.version, updating: Boolean(row.updating) };
 }
 
