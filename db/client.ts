@@ -1,6 +1,7 @@
 import { sql, type SQL } from "drizzle-orm";
 import { drizzle, type NodePgDatabase } from "drizzle-orm/node-postgres";
 import { Pool } from "pg";
+import { listenForChanges, stopChangeFeed } from "./change-feed";
 import * as schema from "./schema";
 import type { MemberRole } from "@/lib/auth/permissions";
 
@@ -32,8 +33,8 @@ const globalForDb = globalThis as unknown as { rhizomorphPools?: Pools };
 
 function pools(): Pools {
   if (!globalForDb.rhizomorphPools) {
-    const appPool = new Pool({ connectionString: requireEnv("DATABASE_URL"), max: 10 });
-    const analystPool = new Pool({ connectionString: requireEnv("ANALYST_DATABASE_URL"), max: 4 });
+    const appPool = new Pool({ connectionString: requireEnv("DATABASE_URL"), max: 10, onConnect: listenForChanges });
+    const analystPool = new Pool({ connectionString: requireEnv("ANALYST_DATABASE_URL"), max: 4, onConnect: listenForChanges });
     globalForDb.rhizomorphPools = {
       appPool,
       analystPool,
@@ -81,4 +82,5 @@ export async function closeDatabase(): Promise<void> {
   const current = globalForDb.rhizomorphPools;
   globalForDb.rhizomorphPools = undefined;
   if (current) await Promise.all([current.appPool.end(), current.analystPool.end()]);
+  await stopChangeFeed();
 }

@@ -150,7 +150,7 @@ async function main() {
   console.log(`| (b) full recompute, ${FARMS} farms | ${ms(fullRefresh)} | ${ms(fullBare)} | ${(fullRefresh / fullBare).toFixed(2)}× |`);
   console.log(`| results for one species (read statistics + pool, no HTTP) | ${ms(requestTime)} | | |`);
 
-  if (!process.env.RHIZO_BENCH_SKIP_HTTP) await loadTest(species);
+  if (!process.env.RHIZO_BENCH_SKIP_HTTP) await loadTest(species, farmId);
 }
 
 /** Serves the built app (built into .next-bench first if the sources changed) on this database. */
@@ -183,39 +183,64 @@ function load(url: string, cookie: string): Promise<LoadResult & { p95: number }
   });
 }
 
-/** (c) GET /api/results as a signed-in observer, beside GET /icon.svg (a static file: the server's own floor). */
-async function loadTest(species: string) {
-  const email = "bench-observer@bench.example";
-  const password = "bench-observer-password";
-  await superuser.query(
-    "insert into users (email, name, role, password_hash) values ($1, 'Bench observer', 'observer', $2) on conflict do nothing",
-    [email, await hashPassword(password)],
-  );
+/**
+ * (c) GET /api/results as a signed-in observer (pooled figures only) and as the manager of a
+ * bench farm (their own 10 000 blocks overlaid), beside GET /icon.svg: a static file, the server's own floor.
+ */
+async function loadTest(species: string, farmId: string) {
+  const password = "bench-person-password";
+  const people = [
+    { email: "bench-observer@bench.example", name: "Bench observer", role: "observer", farmId: null },
+    { email: "bench-manager@bench.example", name: "Bench manager", role: "farm_manager", farmId },
+  ];
+  const passwordHash = await hashPassword(password);
+  for (const person of people) {
+    await superuser.query(
+      "insert into users (email, name, role, farm_id, password_hash) values ($1, $2, $3, $4, $5) on conflict do nothing",
+      [person.email, person.name, person.role, person.farmId, passwordHash],
+    );
+  }
   const app = await serveApp();
   try {
-    const browser = await chromium.launchPersistentContext(mkdtempSync(path.join(tmpdir(), "rhizomorph-bench-")), {
-      executablePath: "/usr/bin/chromium",
-      headless: true,
-      args: ["--no-sandbox", "--disable-gpu", "--no-first-run"],
-    });
-    const page = await browser.newPage();
-    await page.goto(`${app.url}/sign-in`);
-    await page.getByLabel("E-mail").fill(email);
-    await page.getByLabel("Password").fill(password);
-    await page.getByRole("button", { name: "Sign in" }).click();
-    await page.getByTestId("member-name").waitFor();
-    const cookie = (await browser.cookies()).map((entry) => `${entry.name}=${entry.value}`).join("; ");
-    await browser.close();
-    const baseline = await load(`${app.url}/icon.svg`, cookie);
-    const results = await load(`${app.url}/api/results?species=${species}&window=all`, cookie);
+    const observerCookie = await signIn(app.url, people[0].email, password);
+    const managerCookie = await signIn(app.url, people[1].email, password);
+    const resultsUrl = `${app.url}/api/results?species=${species}&window=all`;
+    const baseline = await load(`${app.url}/icon.svg`, observerCookie);
+    const asObserver = await load(resultsUrl, observerCookie);
+    const asManager = await load(resultsUrl, managerCookie);
     console.log("");
     console.log("| 20 clients, 30 s, loopback | requests/s | p50 | p95 | p97.5 | non-2xx |");
     console.log("| --- | --- | --- | --- | --- | --- |");
-    for (const [name, result] of [["GET /api/results (50 farms)", results], ["GET /icon.svg (static file, same server)", baseline]] as const) {
+    const rows = [
+      ["GET /api/results (50 farms), observer", asObserver],
+      ["GET /api/results (50 farms), farm manager (own blocks overlaid)", asManager],
+      ["GET /icon.svg (static file, same server)", baseline],
+    ] as const;
+    for (const [name, result] of rows) {
       console.log(`| ${name} | ${result.requests.average.toFixed(0)} | ${result.latency.p50} ms | ${result.p95.toFixed(0)} ms | ${result.latency.p97_5} ms | ${result.non2xx} |`);
     }
   } finally {
     app.stop();
+  }
+}
+
+/** Signs in through the real sign-in page and returns the session cookie. */
+async function signIn(url: string, email: string, password: string): Promise<string> {
+  const browser = await chromium.launchPersistentContext(mkdtempSync(path.join(tmpdir(), "rhizomorph-bench-")), {
+    executablePath: "/usr/bin/chromium",
+    headless: true,
+    args: ["--no-sandbox", "--disable-gpu", "--no-first-run"],
+  });
+  try {
+    const page = await browser.newPage();
+    await page.goto(`${url}/sign-in`);
+    await page.getByLabel("E-mail").fill(email);
+    await page.getByLabel("Password").fill(password);
+    await page.getByRole("button", { name: "Sign in" }).click();
+    await page.getByTestId("member-name").waitFor();
+    return (await browser.cookies()).map((entry) => `${entry.name}=${entry.value}`).join("; ");
+  } finally {
+    await browser.close();
   }
 }
 

@@ -10,15 +10,24 @@ export interface StrainSpread {
 
 type Datum = { strain: string; efficiency: number };
 
+/** The viewer's blocks of one strain: how many, and the biological efficiencies drawn as dots. */
+export interface OwnStrainDots {
+  strain: string;
+  blocks: number;
+  efficiencies: number[];
+}
+
 /**
  * Block biological efficiency per strain: box from the 25th to the 75th percentile, whiskers
  * to the 10th and 90th (so no single co-op block is drawn), with the viewer's own blocks as dots.
  */
-export function StrainBoxplot({ spreads, ownBlocks }: { spreads: StrainSpread[]; ownBlocks: { strain: string; efficiency: number }[] }) {
+export function StrainBoxplot({ spreads, ownBlocks }: { spreads: StrainSpread[]; ownBlocks: OwnStrainDots[] }) {
   // Five values per strain whose 0/25/50/75/100 % quantiles are exactly the published percentiles.
   const data: Datum[] = spreads.flatMap((spread) => spread.percentiles.map((efficiency) => ({ strain: spread.strain, efficiency })));
   const shown = new Set(spreads.map((spread) => spread.strain));
-  const points = ownBlocks.filter((block) => shown.has(block.strain));
+  const ownShown = ownBlocks.filter((own) => shown.has(own.strain));
+  const points = ownShown.flatMap((own) => own.efficiencies.map((efficiency) => ({ strain: own.strain, efficiency })));
+  const thinned = ownShown.filter((own) => own.efficiencies.length < own.blocks);
   const values = [...data.map((d) => d.efficiency), ...points.map((p) => p.efficiency)];
   const OwnBlocks = ({ xScale, yScale }: BoxPlotCustomLayerProps<Datum>) => {
     const band = xScale as unknown as ((value: string) => number) & { bandwidth: () => number };
@@ -71,6 +80,9 @@ export function StrainBoxplot({ spreads, ownBlocks }: { spreads: StrainSpread[];
       <figcaption className="text-sm text-ink-soft">
         Boxes: middle half of the co-op&apos;s blocks; whiskers: 10th to 90th percentile; line: median.
         {points.length ? " Brown dots: your own blocks." : ""}
+        {thinned.length
+          ? ` You have ${ownShown.reduce((sum, own) => sum + own.blocks, 0).toLocaleString("en")} blocks here; where a strain has more than ${thinned[0].efficiencies.length}, that many dots stand for its blocks, spread evenly from your lowest to your highest.`
+          : ""}
       </figcaption>
     </figure>
   );

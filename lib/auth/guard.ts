@@ -5,17 +5,17 @@ import { redirect } from "next/navigation";
 import { NextResponse } from "next/server";
 import type { z } from "zod";
 import { sessionMemberId } from "@/auth.config";
-import { farmContextOf, loadMember, type Member } from "@/lib/data/members";
+import { farmContextOf, loadMemberForRequest, type Member } from "@/lib/data/members";
 
 export { farmContextOf };
 import { AppError, isAppError } from "@/lib/errors";
 import { can, type Action } from "./permissions";
 
-/** The signed-in member, read fresh from the database once per request (roles are data). */
+/** The signed-in member as the database has them now (roles are data). */
 export const currentMember = cache(async (): Promise<Member | null> => {
   const memberId = await sessionMemberId(await headers());
   if (!memberId) return null;
-  const member = await loadMember(memberId);
+  const member = await loadMemberForRequest(memberId);
   return member?.active ? member : null;
 });
 

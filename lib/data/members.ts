@@ -1,5 +1,6 @@
 import "server-only";
 import { and, asc, desc, eq, gt, isNull, sql } from "drizzle-orm";
+import { keptUntilChanged } from "@/db/change-feed";
 import { farmContextStatement, withFarmContext, type FarmContext, type Transaction } from "@/db/client";
 import { accessTokens, cooperativeSettings, farms, users } from "@/db/schema";
 import { hashPassword, unknownUserHash, verifyPassword } from "@/lib/auth/password";
@@ -53,6 +54,12 @@ export async function loadMember(userId: string): Promise<Member | null> {
     return { ...row, farmName };
   });
 }
+
+/**
+ * loadMember for the guard on every request: kept in this process until PostgreSQL says a member
+ * or farm changed (db/change-feed.ts), so a role change or deactivation still counts at the next click.
+ */
+export const loadMemberForRequest = keptUntilChanged("members", loadMember, (userId) => userId);
 
 // ---- Membership: farms, people, invitations, roles, passwords, preferences ----
 

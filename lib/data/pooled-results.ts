@@ -1,11 +1,12 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
 import { and, asc, eq, inArray, sql } from "drizzle-orm";
+import { keptUntilChanged } from "@/db/change-feed";
 import { readAsAnalyst, withAnalystAccess, withFarmContext } from "@/db/client";
 import { cooperativeSettings, farmFlushStatistics, farmStrainStatistics, species, strains, substrateRecipes, treatments } from "@/db/schema";
 import { farmContextOf, type Member } from "@/lib/data/members";
 import { AppError } from "@/lib/errors";
-import { addBins, buildPooledResults, pooledFlushProfile, type FlushWindow, type PooledFilters, type PooledResults } from "@/lib/pooled";
+import { addBins, buildPooledResults, ownBlocksForChart, pooledFlushProfile, type FlushWindow, type OwnStrainBlocks, type PooledFilters, type PooledResults } from "@/lib/pooled";
 import type { FlushProfile } from "@/lib/stats";
 import { seededRandom } from "@/lib/random";
 
@@ -43,17 +44,19 @@ export interface PooledResultsPage {
   fruitingMethodId: string | null;
   updating: boolean;
   results: PooledResults | null;
-  /** The viewer's own blocks' biological efficiency, for the boxplot overlay (farm people only). */
-  ownBlocks: { strainId: string; efficiency: number }[];
+  /** The viewer's own blocks' biological efficiency by strain, for the boxplot overlay (farm people only). */
+  ownBlocks: OwnStrainBlocks[];
 }
 
 /** True while any farm's statistics are still being recomputed after an upload. */
-const anyRefreshPending = sql`exists (select 1 from pooled_refresh_state where requested > completed)`;
-
-export async function getPooledUpdating(): Promise<boolean> {
-  const [row] = await readAsAnalyst<{ pending: boolean }>(sql`select ${anyRefreshPending} as pending`);
-  return Boolean(row?.pending);
-}
+export const getPooledUpdating = keptUntilChanged(
+  "pooled-statistics",
+  async (): Promise<boolean> => {
+    const [row] = await readAsAnalyst<{ pending: boolean }>(sql`select exists (select 1 from pooled_refresh_state where requested > completed) as pending`);
+    return Boolean(row?.pending);
+  },
+  () => "",
+);
 
 export async function getCooperativePrivacySettings(): Promise<{ minimumFarms: number; showPerFarmEstimates: boolean }> {
   return withAnalystAccess(async (tx) => {
@@ -68,38 +71,41 @@ export async function getCooperativePrivacySettings(): Promise<{ minimumFarms: n
  * come through their own farm context.
  */
 export async function getPooledResults(member: Member, query: PooledResultsQuery): Promise<PooledResultsPage> {
-  const { version, updating } = await getStatisticsVersion();
-  const key = JSON.stringify([query.speciesId ?? null, query.substrateRecipeId ?? null, query.fruitingMethodId ?? null, query.flushWindow, member.farmId]);
-  let cached = resultsCache.get(key);
-  if (!cached || cached.version !== version) {
-    cached = { version, page: await computePooledResults(member, query) };
-    if (resultsCache.size >= 500) resultsCache.delete(resultsCache.keys().next().value!);
-    resultsCache.set(key, cached);
-  }
-  const { page } = cached;
+  const [page, updating] = await Promise.all([keptPooledResults(member, query), getPooledUpdating()]);
   const filters: PooledFilters = {
     ...(query.substrateRecipeId ? { substrateRecipeId: query.substrateRecipeId } : {}),
     ...(query.fruitingMethodId ? { fruitingMethodId: query.fruitingMethodId } : {}),
   };
-  const ownBlocks = member.farmId && page.speciesId ? await listOwnBlockEfficiencies(member, page.speciesId, query.flushWindow, filters) : [];
+  const ownBlocks = member.farmId && page.speciesId ? await keptOwnBlocks(member, page.speciesId, query.flushWindow, filters) : [];
   return { ...page, updating, ownBlocks };
 }
 
 /**
- * Pooled results change only when a refresh completes or the co-op's settings or strain list
- * change, so each process keeps the last computation per query and viewer's farm (the forest
- * chart labels the viewer's own farm) and recomputes when this version moves on.
+ * The same page as JSON, for GET /api/results: built once until the statistics or the viewer's
+ * farm's blocks change, as the same few queries are asked for again and again.
  */
-const resultsCache = new Map<string, { version: string; page: Omit<PooledResultsPage, "ownBlocks" | "updating"> }>();
+export const getPooledResultsJson = keptUntilChanged(
+  ["pooled-statistics", "blocks-and-harvests"],
+  async (member: Member, query: PooledResultsQuery) => JSON.stringify(await getPooledResults(member, query)),
+  (member, query) => resultsKey(member, query, member.farmId ? member.role : null),
+  500,
+);
 
-async function getStatisticsVersion(): Promise<{ version: string; updating: boolean }> {
-  const [row] = await readAsAnalyst<{ version: string; updating: boolean }>(sql`
-    select concat_ws('|',
-        (select coalesce(sum(requested), 0) || ':' || coalesce(sum(completed), 0) from pooled_refresh_state),
-        (select minimum_farms || ':' || show_per_farm_estimates from cooperative_settings),
-        (select count(*) || ':' || coalesce(max(created_at)::text, '') from strains)) as version,
-      ${anyRefreshPending} as updating`);
-  return { version: row.version, updating: Boolean(row.updating) };
+/**
+ * Pooled results change only when PostgreSQL says the statistics, the co-op's settings or its
+ * registers changed (db/change-feed.ts), so each process keeps the last computation per query
+ * and viewer's farm (the forest chart labels the viewer's own farm).
+ */
+const keptPooledResults = keptUntilChanged(
+  "pooled-statistics",
+  computePooledResults,
+  (member, query) => resultsKey(member, query, null),
+  500,
+);
+
+/** What a results page depends on besides the database: the query, the viewer's farm (and role, where their own blocks are shown). */
+function resultsKey(member: Member, query: PooledResultsQuery, role: Member["role"] | null): string {
+  return JSON.stringify([query.speciesId ?? null, query.substrateRecipeId ?? null, query.fruitingMethodId ?? null, query.flushWindow, member.farmId, role]);
 }
 
 async function computePooledResults(member: Member, query: PooledResultsQuery): Promise<Omit<PooledResultsPage, "ownBlocks" | "updating">> {
@@ -173,7 +179,7 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
 const windowLastFlush: Record<FlushWindow, number> = { all: 1_000_000, "1-2": 2, "1": 1 };
 
 /** The viewer's own blocks' BE under the same definition as the pooled statistics (row-level security limits it to their farm). */
-async function listOwnBlockEfficiencies(member: Member, speciesId: string, window: FlushWindow, filters: PooledFilters) {
+async function listOwnBlocks(member: Member, speciesId: string, window: FlushWindow, filters: PooledFilters): Promise<OwnStrainBlocks[]> {
   return withFarmContext(farmContextOf(member), async (tx) => {
     const result = await tx.execute<{ strain_id: string; efficiency: number }>(sql`
       select b.strain_id, 100 * sum(h.fresh_mass_g)::float8 / (b.wet_mass_g * (1 - b.moisture))::float8 as efficiency
@@ -184,9 +190,17 @@ async function listOwnBlockEfficiencies(member: Member, speciesId: string, windo
         and (${filters.substrateRecipeId ?? null}::uuid is null or b.substrate_recipe_id = ${filters.substrateRecipeId ?? null}::uuid)
         and (${filters.fruitingMethodId ?? null}::uuid is null or b.fruiting_method_id = ${filters.fruitingMethodId ?? null}::uuid)
       group by b.id, b.strain_id, b.wet_mass_g, b.moisture`);
-    return result.rows.map((row) => ({ strainId: row.strain_id, efficiency: Number(row.efficiency) }));
+    return ownBlocksForChart(result.rows.map((row) => ({ strainId: row.strain_id, efficiency: Number(row.efficiency) })));
   });
 }
+
+/** Kept per farm until blocks or harvests change: for a farm of 10 000 blocks the query takes about half a second. */
+const keptOwnBlocks = keptUntilChanged(
+  "blocks-and-harvests",
+  listOwnBlocks,
+  (member, speciesId, window, filters) => JSON.stringify([member.farmId, member.role, speciesId, window, filters.substrateRecipeId ?? null, filters.fruitingMethodId ?? null]),
+  200,
+);
 
 export interface CoopStrainBenchmark {
   /** Block BE bins over at least the minimum number of farms, or null when suppressed. */

@@ -16,3 +16,4 @@ export {
   type StrainResult,
 } from "./results";
 export { summariseOwnFarm, type OwnBlock, type OwnStrainSummary } from "./my-farm";
+export { ownBlocksForChart, type OwnStrainBlocks } from "./own-blocks";

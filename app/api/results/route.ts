@@ -1,7 +1,6 @@
-import { NextResponse } from "next/server";
 import { z } from "zod";
 import { guardedRoute } from "@/lib/auth/guard";
-import { getPooledResults } from "@/lib/data/pooled-results";
+import { getPooledResultsJson } from "@/lib/data/pooled-results";
 import { AppError } from "@/lib/errors";
 import { flushWindows } from "@/lib/pooled";
 
@@ -27,6 +26,6 @@ export const GET = guardedRoute("pooled-results:read", async (request, { member 
     );
   }
   const { species, recipe, method, window } = parsed.data;
-  const page = await getPooledResults(member, { speciesId: species, substrateRecipeId: recipe, fruitingMethodId: method, flushWindow: window });
-  return NextResponse.json(page, { headers: { "cache-control": "private, no-store" } });
+  const page = await getPooledResultsJson(member, { speciesId: species, substrateRecipeId: recipe, fruitingMethodId: method, flushWindow: window });
+  return new Response(page, { headers: { "content-type": "application/json", "cache-control": "private, no-store" } });
 });

@@ -130,7 +130,7 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
   const names = new Map(results.strains.map((strain) => [strain.strainId, strain.strainName]));
   const published = results.strains.filter((strain) => strain.efficiency.status === "published");
   const spreads = results.strains.flatMap((strain) => (strain.spread.status === "published" ? [{ strain: strain.strainName, percentiles: strain.spread.value }] : []));
-  const ownBlocks = page.ownBlocks.flatMap((block) => (names.has(block.strainId) ? [{ strain: names.get(block.strainId)!, efficiency: block.efficiency }] : []));
+  const ownBlocks = page.ownBlocks.flatMap((own) => (names.has(own.strainId) ? [{ strain: names.get(own.strainId)!, blocks: own.blocks, efficiencies: own.efficiencies }] : []));
 
   return (
     <>

@@ -1,0 +1,133 @@
+import { Client, type ClientBase, type Notification } from "pg";
+
+/**
+ * What PostgreSQL says has changed. The triggers of migration 0010 send a notice on commit naming
+ * a topic whenever rows that this process keeps copies of are written, by this app or by anyone
+ * else, and each notice starts a new generation of its topic. A copy stays good while its topic's
+ * generation is unchanged.
+ *
+ * One connection per process does nothing but listen; while it is down notices can be missed, so
+ * nothing may be kept then and every generation moves on when it is back. Every pooled connection
+ * listens too: PostgreSQL sends a session its own notices just before it reports the commit done,
+ * so a write made by this process is heard before the code that made it goes on (the page
+ * rendered right after a server action already sees it).
+ */
+export const changeTopics = ["members", "pooled-statistics", "blocks-and-harvests"] as const;
+export type ChangeTopic = (typeof changeTopics)[number];
+
+const channel = "rhizomorph_changes";
+/** How the listening connection shows in pg_stat_activity. */
+export const listenerApplicationName = "rhizomorph change feed";
+const reconnectAfterMilliseconds = 1000;
+
+interface Feed {
+  client: Client | null;
+  listening: boolean;
+  stopped: boolean;
+  generations: Record<ChangeTopic, number>;
+}
+
+// Kept on globalThis like the pools, so dev reloads and test files share one listener.
+const globalForFeed = globalThis as unknown as { rhizomorphChangeFeed?: Feed };
+
+function feed(): Feed {
+  if (!globalForFeed.rhizomorphChangeFeed) {
+    const created: Feed = { client: null, listening: false, stopped: false, generations: { members: 0, "pooled-statistics": 0, "blocks-and-harvests": 0 } };
+    globalForFeed.rhizomorphChangeFeed = created;
+    void listen(created);
+  }
+  return globalForFeed.rhizomorphChangeFeed;
+}
+
+function bumpAll(state: Feed) {
+  for (const topic of changeTopics) state.generations[topic]++;
+}
+
+async function listen(state: Feed): Promise<void> {
+  const connectionString = process.env.DATABASE_URL;
+  if (!connectionString || state.stopped) return;
+  const client = new Client({ connectionString, application_name: listenerApplicationName });
+  state.client = client;
+  const lost = () => {
+    if (state.client !== client) return;
+    state.client = null;
+    state.listening = false;
+    bumpAll(state);
+    client.end().catch(() => undefined);
+    if (!state.stopped) setTimeout(() => void listen(state), reconnectAfterMilliseconds).unref();
+  };
+  client.on("error", lost);
+  client.on("end", lost);
+  client.on("notification", hear);
+  try {
+    await client.connect();
+    await client.query(`LISTEN ${channel}`);
+    if (state.client !== client) return;
+    bumpAll(state);
+    state.listening = true;
+  } catch (error) {
+    console.error("Listening for database changes failed; copies are not kept until it reconnects", error);
+    lost();
+  }
+}
+
+function hear(notice: Notification) {
+  const topic = notice.payload as ChangeTopic;
+  const state = globalForFeed.rhizomorphChangeFeed;
+  if (state && notice.channel === channel && changeTopics.includes(topic)) state.generations[topic]++;
+}
+
+/** For the pools' connections, as they open (the pools' onConnect hook). */
+export async function listenForChanges(client: ClientBase): Promise<void> {
+  client.on("notification", hear);
+  await client.query(`LISTEN ${channel}`);
+}
+
+/** The topic's current generation, or null while changes could go unheard (then keep nothing). */
+export function changeGeneration(topic: ChangeTopic): number | null {
+  const state = feed();
+  return state.listening ? state.generations[topic] : null;
+}
+
+/**
+ * Keeps what `load` returns for each key until one of the topics changes. Concurrent callers
+ * share one load, so a change followed by many requests costs one query, not one each.
+ */
+export function keptUntilChanged<Arguments extends unknown[], Value>(
+  topics: ChangeTopic | readonly ChangeTopic[],
+  load: (...args: Arguments) => Promise<Value>,
+  keyOf: (...args: Arguments) => string,
+  maximumEntries = 1000,
+): (...args: Arguments) => Promise<Value> {
+  const watched = typeof topics === "string" ? [topics] : topics;
+  const entries = new Map<string, { generation: string; value: Promise<Value> }>();
+  return (...args) => {
+    // Read before loading: a change committed while the load runs must invalidate its result.
+    const generations = watched.map(changeGeneration);
+    if (generations.includes(null)) return load(...args);
+    const generation = generations.join(":");
+    const key = keyOf(...args);
+    const kept = entries.get(key);
+    if (kept && kept.generation === generation) return kept.value;
+    const value = load(...args);
+    const entry = { generation, value };
+    entries.delete(key);
+    if (entries.size >= maximumEntries) entries.delete(entries.keys().next().value!);
+    entries.set(key, entry);
+    value.catch(() => {
+      if (entries.get(key) === entry) entries.delete(key);
+    });
+    return value;
+  };
+}
+
+export async function stopChangeFeed(): Promise<void> {
+  const state = globalForFeed.rhizomorphChangeFeed;
+  globalForFeed.rhizomorphChangeFeed = undefined;
+  if (!state) return;
+  state.stopped = true;
+  state.listening = false;
+  const client = state.client;
+  state.client = null;
+  await client?.end().catch(() => undefined);
+}
