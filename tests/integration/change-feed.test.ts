@@ -1,5 +1,5 @@
 import type { Pool } from "pg";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { changeGeneration, listenerApplicationName } from "@/db/change-feed";
 import { closeDatabase } from "@/db/client";
 import { loadMemberForRequest, updatePreferences, type Member } from "@/lib/data/members";
@@ -12,13 +12,8 @@ import { superuserPool } from "./support/database";
 let inspector: Pool;
 let observerId: string;
 
-async function eventually(check: () => Promise<boolean> | boolean, what: string): Promise<void> {
-  for (let attempt = 0; attempt < 100; attempt++) {
-    if (await check()) return;
-    await new Promise((resolve) => setTimeout(resolve, 50));
-  }
-  throw new Error(`gave up waiting: ${what}`);
-}
+/** How long to wait for a notice to be heard: well past the listener's one-second reconnect. */
+const patiently = { timeout: 5_000, interval: 50 };
 
 const listening = () => changeGeneration("members") !== null;
 
@@ -26,8 +21,8 @@ beforeAll(async () => {
   inspector = superuserPool();
   const { rows } = await inspector.query<{ id: string }>("select id from users where email = 'observer@extension.example'");
   observerId = rows[0].id;
-  changeGeneration("members");
-  await eventually(listening, "the change feed to connect");
+  // The first question starts the listener.
+  await vi.waitFor(() => expect(listening()).toBe(true), patiently);
 });
 
 afterAll(async () => {
@@ -55,7 +50,7 @@ describe("the guard's copy of a member", () => {
     const before = (await loadMemberForRequest(observerId)) as Member;
     const other = before.displayUnits === "metric" ? "imperial" : "metric";
     await inspector.query("update users set display_units = $2 where id = $1", [observerId, other]);
-    await eventually(async () => (await loadMemberForRequest(observerId))?.displayUnits === other, "the outside change to be heard");
+    await vi.waitFor(async () => expect((await loadMemberForRequest(observerId))?.displayUnits).toBe(other), patiently);
   });
 
   it("is kept through writes to what the guard does not read (the sign-in time)", async () => {
@@ -64,17 +59,17 @@ describe("the guard's copy of a member", () => {
     await inspector.query("update users set last_sign_in_at = now() where id = $1", [observerId]);
     // Notices arrive in commit order: once this later one is heard, a notice from the update above would have been too.
     await inspector.query("update cooperative_settings set updated_at = now()");
-    await eventually(() => changeGeneration("pooled-statistics") !== statisticsGeneration, "the later notice");
+    await vi.waitFor(() => expect(changeGeneration("pooled-statistics")).not.toBe(statisticsGeneration), patiently);
     expect(await loadMemberForRequest(observerId)).toBe(before);
   });
 
   it("is not kept while the listener is disconnected, and is kept again once it reconnects", async () => {
     const { rowCount } = await inspector.query("select pg_terminate_backend(pid) from pg_stat_activity where application_name = $1 and datname = current_database()", [listenerApplicationName]);
     expect(rowCount).toBeGreaterThan(0);
-    await eventually(() => !listening(), "the listener to notice it was cut off");
+    await vi.waitFor(() => expect(listening()).toBe(false), patiently);
     const first = await loadMemberForRequest(observerId);
     expect(await loadMemberForRequest(observerId)).not.toBe(first);
-    await eventually(listening, "the listener to reconnect");
+    await vi.waitFor(() => expect(listening()).toBe(true), patiently);
     const kept = await loadMemberForRequest(observerId);
     expect(await loadMemberForRequest(observerId)).toBe(kept);
   });
@@ -91,13 +86,13 @@ describe("the kept Co-op results", () => {
     expect((await getPooledResults(observer, query)).results).toBe(before.results);
     try {
       await inspector.query("update cooperative_settings set minimum_farms = $1", [minimumFarms + 40]);
-      await eventually(async () => (await getPooledResults(observer, query)).results?.minimumFarms === minimumFarms + 40, "the new minimum");
+      await vi.waitFor(async () => expect((await getPooledResults(observer, query)).results?.minimumFarms).toBe(minimumFarms + 40), patiently);
       expect((await getPooledResults(observer, query)).results?.strains.every((strain) => strain.efficiency.status === "suppressed")).toBe(true);
     } finally {
       await inspector.query("update cooperative_settings set minimum_farms = $1", [minimumFarms]);
     }
 
-    await eventually(async () => !(await getPooledUpdating()), "no refresh pending");
+    await vi.waitFor(async () => expect(await getPooledUpdating()).toBe(false), patiently);
     const { rows: farms } = await inspector.query<{ id: string }>("select id from farms limit 1");
     try {
       await inspector.query(
@@ -105,11 +100,11 @@ describe("the kept Co-op results", () => {
          on conflict (farm_id) do update set requested = pooled_refresh_state.completed + 1`,
         [farms[0].id],
       );
-      await eventually(getPooledUpdating, "results updating");
+      await vi.waitFor(async () => expect(await getPooledUpdating()).toBe(true), patiently);
     } finally {
       await inspector.query("update pooled_refresh_state set requested = completed where farm_id = $1", [farms[0].id]);
     }
-    await eventually(async () => !(await getPooledUpdating()), "results settled again");
+    await vi.waitFor(async () => expect(await getPooledUpdating()).toBe(false), patiently);
   });
 
   it("keep a farm's own blocks until its harvests change", async () => {
@@ -126,10 +121,10 @@ describe("the kept Co-op results", () => {
     expect(before.length).toBeGreaterThan(0);
     try {
       await inspector.query("update harvests set fresh_mass_g = fresh_mass_g + 500 where block_id = $1", [rows[0].block_id]);
-      await eventually(async () => JSON.stringify(await dots()) !== JSON.stringify(before), "the farm's new harvest weight");
+      await vi.waitFor(async () => expect(await dots()).not.toEqual(before), patiently);
     } finally {
       await inspector.query("update harvests set fresh_mass_g = fresh_mass_g - 500 where block_id = $1", [rows[0].block_id]);
     }
-    await eventually(async () => JSON.stringify(await dots()) === JSON.stringify(before), "the weight put back");
+    await vi.waitFor(async () => expect(await dots()).toEqual(before), patiently);
   });
 });

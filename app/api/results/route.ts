@@ -26,6 +26,6 @@ export const GET = guardedRoute("pooled-results:read", async (request, { member 
     );
   }
   const { species, recipe, method, window } = parsed.data;
-  const page = await getPooledResultsJson(member, { speciesId: species, substrateRecipeId: recipe, fruitingMethodId: method, flushWindow: window });
-  return new Response(page, { headers: { "content-type": "application/json", "cache-control": "private, no-store" } });
+  const body = await getPooledResultsJson(member, { speciesId: species, substrateRecipeId: recipe, fruitingMethodId: method, flushWindow: window });
+  return new Response(body, { headers: { "content-type": "application/json", "cache-control": "private, no-store" } });
 });
