@@ -158,24 +158,28 @@ describe("a strain trial from design to publication", () => {
 
   it("follows farms by counts only and reminds a farm that is behind", async () => {
     await moveTrial(coordinator, trialId, "running");
-    const random = seededRandom("trial-integration");
     const effect: Record<string, number> = { A: 0, B: 10, C: -4 };
     for (const [farmIndex, manager] of managers.entries()) {
       const context = { userId: manager.id, farmId: manager.farmId, role: "farm_manager" as const };
       const list = await listOwnAssignments(manager, trialId);
       const farmEffect = [5, -6, 2, -1][farmIndex];
+      // The arms' order in the list is drawn afresh each run; one stream of noise per farm and arm,
+      // and the lost and the unfinished block always in arm A, keep the figures the same whatever that order.
+      const noise = Object.fromEntries(["A", "B", "C"].map((label) => [label, seededRandom(`trial-integration-${farmIndex}-${label}`)]));
+      const lostBlock = list.find((entry) => entry.armLabel === "A")!.sequence;
+      const unfinishedBlock = list.findLast((entry) => entry.armLabel === "A")!.sequence;
       await withFarmContext(context, async (tx) => {
         for (const entry of list) {
           const arm = trial.arms.find((candidate) => candidate.label === entry.armLabel)!;
-          // The last farm has not yet recorded flush 2 of its last block.
-          const contaminated = entry.sequence === 5;
+          const contaminated = entry.sequence === lostBlock;
           const [block] = await tx
             .insert(blocks)
             .values({ farmId: manager.farmId!, code: entry.blockCode, strainId: arm.strainId, trialArmId: arm.id, wetMassG: 2500, moisture: 0.6, contaminated })
             .returning({ id: blocks.id });
           if (contaminated) continue;
-          const be = 80 + effect[arm.label] + farmEffect + random.normal(0, 6);
-          const flushes = farmIndex === 3 && entry.sequence === 12 ? [1] : [1, 2, 3];
+          const be = 80 + effect[arm.label] + farmEffect + noise[arm.label].normal(0, 6);
+          // The last farm has not yet recorded flush 2 of one block.
+          const flushes = farmIndex === 3 && entry.sequence === unfinishedBlock ? [1] : [1, 2, 3];
           await tx.insert(harvests).values(flushes.map((flush) => ({ farmId: manager.farmId!, blockId: block.id, flush, freshMassG: (1000 * be) / 100 * [0.6, 0.4, 0.2][flush - 1] })));
         }
       });
