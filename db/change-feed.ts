@@ -32,7 +32,12 @@ const globalForFeed = globalThis as unknown as { rhizomorphChangeFeed?: Feed };
 
 function feed(): Feed {
   if (!globalForFeed.rhizomorphChangeFeed) {
-    const created: Feed = { client: null, listening: false, stopped: false, generations: { members: 0, "pooled-statistics": 0, "blocks-and-harvests": 0 } };
+    const created: Feed = {
+      client: null,
+      listening: false,
+      stopped: false,
+      generations: { members: 0, "pooled-statistics": 0, "blocks-and-harvests": 0 },
+    };
     globalForFeed.rhizomorphChangeFeed = created;
     void listen(created);
   }

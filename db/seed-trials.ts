@@ -17,16 +17,43 @@ export async function publishDemoTrial(owner: NodePgDatabase<typeof schema>, cod
   const { analysis, blocksMade, enrolments } = await withAnalystAccess(async (tx) => {
     const [settings] = await tx.select({ minimumFarms: schema.cooperativeSettings.minimumFarms }).from(schema.cooperativeSettings);
     const blockRows = await tx
-      .select({ id: schema.blocks.id, farmId: schema.blocks.farmId, armId: schema.blocks.trialArmId, wetMassG: schema.blocks.wetMassG, moisture: schema.blocks.moisture, contaminated: schema.blocks.contaminated })
+      .select({
+        id: schema.blocks.id,
+        farmId: schema.blocks.farmId,
+        armId: schema.blocks.trialArmId,
+        wetMassG: schema.blocks.wetMassG,
+        moisture: schema.blocks.moisture,
+        contaminated: schema.blocks.contaminated,
+      })
       .from(schema.blocks)
-      .where(inArray(schema.blocks.trialArmId, arms.map((arm) => arm.id)));
+      .where(
+        inArray(
+          schema.blocks.trialArmId,
+          arms.map((arm) => arm.id),
+        ),
+      );
     const harvestRows = await tx
       .select({ blockId: schema.harvests.blockId, flush: schema.harvests.flush, freshMassG: schema.harvests.freshMassG })
       .from(schema.harvests)
-      .where(inArray(schema.harvests.blockId, blockRows.map((row) => row.id)));
-    const records = trialOutcomeRecords(blockRows, harvestRows, { flushes: trial.outcomeFlushes, contaminatedHandling: trial.contaminatedHandling });
-    const enrolmentRows = await tx.select({ status: schema.trialEnrolments.status }).from(schema.trialEnrolments).where(eq(schema.trialEnrolments.trialId, trial.id));
-    return { analysis: analyseTrial({ arms, records, minimumFarms: settings?.minimumFarms ?? 3 }), blocksMade: blockRows.length, enrolments: enrolmentRows };
+      .where(
+        inArray(
+          schema.harvests.blockId,
+          blockRows.map((row) => row.id),
+        ),
+      );
+    const records = trialOutcomeRecords(blockRows, harvestRows, {
+      flushes: trial.outcomeFlushes,
+      contaminatedHandling: trial.contaminatedHandling,
+    });
+    const enrolmentRows = await tx
+      .select({ status: schema.trialEnrolments.status })
+      .from(schema.trialEnrolments)
+      .where(eq(schema.trialEnrolments.trialId, trial.id));
+    return {
+      analysis: analyseTrial({ arms, records, minimumFarms: settings?.minimumFarms ?? 3 }),
+      blocksMade: blockRows.length,
+      enrolments: enrolmentRows,
+    };
   });
   const results: StoredTrialResults = {
     analysis,
@@ -40,7 +67,10 @@ export async function publishDemoTrial(owner: NodePgDatabase<typeof schema>, cod
     },
     analysedAt: publishedAt.toISOString(),
   };
-  await owner.update(schema.trials).set({ status: "published", publishedResults: results, publishedAt }).where(eq(schema.trials.id, trial.id));
+  await owner
+    .update(schema.trials)
+    .set({ status: "published", publishedResults: results, publishedAt })
+    .where(eq(schema.trials.id, trial.id));
   // The audit log is append-only and forced under row-level security: write it as the coordinator would.
   await withFarmContext({ userId: coordinator?.id ?? null, farmId: null, role: "coordinator" }, (tx) =>
     tx.insert(schema.auditEvents).values(

@@ -23,10 +23,34 @@ export const demoSignIns = [
 
 const farmPlans = [
   { name: "Fernbrook Farm", region: "Upper Alder", manager: demoSignIns[1], unit: "kg", effect: 6 },
-  { name: "Hollow Oak Mushrooms", region: "Upper Alder", manager: { email: "manager@hollowoak.example", name: "Ruth Okafor" }, unit: "lb", effect: -9 },
-  { name: "Mill Creek Fungi", region: "Lower Alder", manager: { email: "manager@millcreek.example", name: "Jonas Berg" }, unit: "g", effect: 2 },
-  { name: "Stonebank Growers", region: "Lower Alder", manager: { email: "manager@stonebank.example", name: "Leila Haddad" }, unit: "kg", effect: -3 },
-  { name: "Wrenfield Farm", region: "Alder Heights", manager: { email: "manager@wrenfield.example", name: "Piet Vos" }, unit: "lb", effect: 11 },
+  {
+    name: "Hollow Oak Mushrooms",
+    region: "Upper Alder",
+    manager: { email: "manager@hollowoak.example", name: "Ruth Okafor" },
+    unit: "lb",
+    effect: -9,
+  },
+  {
+    name: "Mill Creek Fungi",
+    region: "Lower Alder",
+    manager: { email: "manager@millcreek.example", name: "Jonas Berg" },
+    unit: "g",
+    effect: 2,
+  },
+  {
+    name: "Stonebank Growers",
+    region: "Lower Alder",
+    manager: { email: "manager@stonebank.example", name: "Leila Haddad" },
+    unit: "kg",
+    effect: -3,
+  },
+  {
+    name: "Wrenfield Farm",
+    region: "Alder Heights",
+    manager: { email: "manager@wrenfield.example", name: "Piet Vos" },
+    unit: "lb",
+    effect: 11,
+  },
 ] as const;
 
 const speciesPlans = [
@@ -91,7 +115,7 @@ function planBlock(
   let harvestedOn = addDays(inoculatedOn, strain.species.firstHarvestDays + random.integer(-3, 6));
   const lastFlush = contaminated ? random.integer(0, 1) : flushCount;
   for (let flush = 1; flush <= lastFlush && harvestedOn <= today; flush++) {
-    const fresh = asWritten(Math.max(20, (totalFresh * shares[flush - 1]) / shareSum * random.normal(1, 0.08)), farm.unit);
+    const fresh = asWritten(Math.max(20, ((totalFresh * shares[flush - 1]) / shareSum) * random.normal(1, 0.08)), farm.unit);
     harvests.push({ flush, harvestedOn, freshMassG: fresh.grams, freshMassAsWritten: fresh.asWritten, freshMassUnit: fresh.unit });
     harvestedOn = addDays(harvestedOn, random.integer(12, 18));
   }
@@ -134,39 +158,95 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
     const random = seededRandom("alder-valley-2026");
     const passwordHash = await hashPassword(demoPassword);
 
-    await owner.insert(schema.cooperativeSettings).values({ name: "Alder Valley Growers' Co-operative", region: "Alder Valley", minimumFarms: 3 });
+    await owner
+      .insert(schema.cooperativeSettings)
+      .values({ name: "Alder Valley Growers' Co-operative", region: "Alder Valley", minimumFarms: 3 });
     const farms = await owner
       .insert(schema.farms)
       .values(farmPlans.map((farm) => ({ name: farm.name, region: farm.region, contactEmail: farm.manager.email })))
       .returning();
-    await owner.insert(schema.users).values([
-      { email: demoSignIns[0].email, name: demoSignIns[0].name, role: "coordinator", passwordHash },
-      { email: demoSignIns[3].email, name: demoSignIns[3].name, role: "observer", passwordHash },
-      { email: demoSignIns[2].email, name: demoSignIns[2].name, role: "grower", farmId: farms[0].id, passwordHash },
-      ...farmPlans.map((farm, index) => ({ email: farm.manager.email, name: farm.manager.name, role: "farm_manager" as const, farmId: farms[index].id, passwordHash })),
-    ]);
+    await owner
+      .insert(schema.users)
+      .values([
+        { email: demoSignIns[0].email, name: demoSignIns[0].name, role: "coordinator", passwordHash },
+        { email: demoSignIns[3].email, name: demoSignIns[3].name, role: "observer", passwordHash },
+        { email: demoSignIns[2].email, name: demoSignIns[2].name, role: "grower", farmId: farms[0].id, passwordHash },
+        ...farmPlans.map((farm, index) => ({
+          email: farm.manager.email,
+          name: farm.manager.name,
+          role: "farm_manager" as const,
+          farmId: farms[index].id,
+          passwordHash,
+        })),
+      ]);
 
-    const species = await owner.insert(schema.species).values(speciesPlans.map(({ scientificName, commonName }) => ({ scientificName, commonName }))).returning();
+    const species = await owner
+      .insert(schema.species)
+      .values(speciesPlans.map(({ scientificName, commonName }) => ({ scientificName, commonName })))
+      .returning();
     const speciesByKey = new Map(speciesPlans.map((plan, index) => [plan.key, { row: species[index], plan }]));
     const strains = await owner
       .insert(schema.strains)
-      .values(strainPlans.map((strain) => ({ code: strain.code, name: strain.name, source: strain.source, speciesId: speciesByKey.get(strain.species)!.row.id })))
+      .values(
+        strainPlans.map((strain) => ({
+          code: strain.code,
+          name: strain.name,
+          source: strain.source,
+          speciesId: speciesByKey.get(strain.species)!.row.id,
+        })),
+      )
       .returning();
-    const strainByCode = new Map(strainPlans.map((plan, index) => [plan.code, { id: strains[index].id, effect: plan.effect, species: speciesByKey.get(plan.species)!.plan }]));
+    const strainByCode = new Map(
+      strainPlans.map((plan, index) => [
+        plan.code,
+        { id: strains[index].id, effect: plan.effect, species: speciesByKey.get(plan.species)!.plan },
+      ]),
+    );
     const [sawdustBran, sawdustSoy] = await owner
       .insert(schema.substrateRecipes)
       .values([
-        { code: "HWB-20", name: "Hardwood sawdust with 20 % wheat bran", base: "Hardwood sawdust", supplement: "Wheat bran", supplementPercent: 20, targetMoisture: 0.62, treatment: "sterilised" },
-        { code: "HWS-50", name: "Hardwood pellets and soybean hulls, half and half", base: "Hardwood fuel pellets", supplement: "Soybean hulls", supplementPercent: 50, targetMoisture: 0.6, treatment: "sterilised" },
+        {
+          code: "HWB-20",
+          name: "Hardwood sawdust with 20 % wheat bran",
+          base: "Hardwood sawdust",
+          supplement: "Wheat bran",
+          supplementPercent: 20,
+          targetMoisture: 0.62,
+          treatment: "sterilised",
+        },
+        {
+          code: "HWS-50",
+          name: "Hardwood pellets and soybean hulls, half and half",
+          base: "Hardwood fuel pellets",
+          supplement: "Soybean hulls",
+          supplementPercent: 50,
+          targetMoisture: 0.6,
+          treatment: "sterilised",
+        },
       ])
       .returning();
     const [slitsAcross, slitsAlong] = await owner
       .insert(schema.treatments)
       .values([
-        { code: "SLIT-ACROSS", name: "Slits cut across the bag", kind: "fruiting_method", description: "Three short cuts across the bag face." },
-        { code: "SLIT-ALONG", name: "Slits cut along the bag", kind: "fruiting_method", description: "Three short cuts along the bag's length." },
+        {
+          code: "SLIT-ACROSS",
+          name: "Slits cut across the bag",
+          kind: "fruiting_method",
+          description: "Three short cuts across the bag face.",
+        },
+        {
+          code: "SLIT-ALONG",
+          name: "Slits cut along the bag",
+          kind: "fruiting_method",
+          description: "Three short cuts along the bag's length.",
+        },
         { code: "TOP-OPEN", name: "Bag opened at the top", kind: "fruiting_method", description: "The bag folded down above the block." },
-        { code: "HUMID-90", name: "Humidity held at 90 % or more", kind: "humidity", description: "Fruiting room humidity kept at or above 90 %." },
+        {
+          code: "HUMID-90",
+          name: "Humidity held at 90 % or more",
+          kind: "humidity",
+          description: "Fruiting room humidity kept at or above 90 %.",
+        },
       ])
       .returning();
 
@@ -210,10 +290,24 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
     const trialArms = await owner
       .insert(schema.trialArms)
       .values([
-        { trialId: finishedTrial.id, label: "A", strainId: strainByCode.get("PO-01")!.id, treatmentId: slitsAcross.id, isReference: true, position: 1 },
+        {
+          trialId: finishedTrial.id,
+          label: "A",
+          strainId: strainByCode.get("PO-01")!.id,
+          treatmentId: slitsAcross.id,
+          isReference: true,
+          position: 1,
+        },
         { trialId: finishedTrial.id, label: "B", strainId: strainByCode.get("PO-02")!.id, treatmentId: slitsAcross.id, position: 2 },
         { trialId: finishedTrial.id, label: "C", strainId: strainByCode.get("PO-03")!.id, treatmentId: slitsAcross.id, position: 3 },
-        { trialId: enrollingTrial.id, label: "Across", strainId: strainByCode.get("HE-01")!.id, treatmentId: slitsAcross.id, isReference: true, position: 1 },
+        {
+          trialId: enrollingTrial.id,
+          label: "Across",
+          strainId: strainByCode.get("HE-01")!.id,
+          treatmentId: slitsAcross.id,
+          isReference: true,
+          position: 1,
+        },
         { trialId: enrollingTrial.id, label: "Along", strainId: strainByCode.get("HE-01")!.id, treatmentId: slitsAlong.id, position: 2 },
       ])
       .returning();
@@ -229,7 +323,14 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
         if (inTrial) {
           const [enrolment] = await tx
             .insert(schema.trialEnrolments)
-            .values({ trialId: finishedTrial.id, farmId, status: "accepted", blocksPerArm: 6, randomisationSeed: `T-2026-01/${farmIndex + 1}`, respondedAt: new Date() })
+            .values({
+              trialId: finishedTrial.id,
+              farmId,
+              status: "accepted",
+              blocksPerArm: 6,
+              randomisationSeed: `T-2026-01/${farmIndex + 1}`,
+              respondedAt: new Date(),
+            })
             .returning();
           const assignments = random.shuffle(Array.from({ length: 18 }, (_, index) => index % 3)).map((armIndex, sequence) => ({
             trialId: finishedTrial.id,
@@ -252,7 +353,15 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
             const inoculatedOn = addDays(seasonStart, random.integer(0, 170));
             const recipeId = strain.species === "shiitake" ? sawdustSoy.id : sawdustBran.id;
             plans.push(
-              planBlock(random, `${farm.name.slice(0, 2).toUpperCase()}-${String(blockNumber).padStart(3, "0")}`, farm, strainByCode.get(strain.code)!, { farmId, recipeId, fruitingMethodId: slitsAcross.id }, inoculatedOn, today),
+              planBlock(
+                random,
+                `${farm.name.slice(0, 2).toUpperCase()}-${String(blockNumber).padStart(3, "0")}`,
+                farm,
+                strainByCode.get(strain.code)!,
+                { farmId, recipeId, fruitingMethodId: slitsAcross.id },
+                inoculatedOn,
+                today,
+              ),
             );
           }
         }
@@ -261,12 +370,25 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
           for (const assignment of assignments) {
             const arm = finishedArms.findIndex((candidate) => candidate.id === assignment.armId);
             plans.push(
-              planBlock(random, assignment.blockCode, farm, strainByCode.get(trialStrainCodes[arm])!, { farmId, recipeId: sawdustBran.id, fruitingMethodId: slitsAcross.id, trialArmId: assignment.armId }, addDays(seasonStart, 20), today),
+              planBlock(
+                random,
+                assignment.blockCode,
+                farm,
+                strainByCode.get(trialStrainCodes[arm])!,
+                { farmId, recipeId: sawdustBran.id, fruitingMethodId: slitsAcross.id, trialArmId: assignment.armId },
+                addDays(seasonStart, 20),
+                today,
+              ),
             );
           }
         }
-        const inserted = await tx.insert(schema.blocks).values(plans.map((plan) => plan.block)).returning({ id: schema.blocks.id });
-        const harvestRows = plans.flatMap((plan, index) => plan.harvests.map((harvest) => ({ ...harvest, blockId: inserted[index].id, farmId })));
+        const inserted = await tx
+          .insert(schema.blocks)
+          .values(plans.map((plan) => plan.block))
+          .returning({ id: schema.blocks.id });
+        const harvestRows = plans.flatMap((plan, index) =>
+          plan.harvests.map((harvest) => ({ ...harvest, blockId: inserted[index].id, farmId })),
+        );
         if (harvestRows.length) await tx.insert(schema.harvests).values(harvestRows);
         console.log(`  ${farm.name}: ${plans.length} blocks, ${harvestRows.length} harvests`);
       });

@@ -55,17 +55,26 @@ async function prepareFarm(owner: Pool, name: string): Promise<FarmContext> {
     )
   ).rows;
   for (const code of demoStrains) {
-    await owner.query("insert into strains (code, species_id, name, source) values ($1, $2, $1, 'culture_bank') on conflict (code) do nothing", [code, speciesId]);
+    await owner.query(
+      "insert into strains (code, species_id, name, source) values ($1, $2, $1, 'culture_bank') on conflict (code) do nothing",
+      [code, speciesId],
+    );
   }
   for (const code of ["HW-80/20", "HW-90/10", "SD-2"]) {
-    await owner.query("insert into substrate_recipes (code, name, base, target_moisture, treatment) values ($1, $1, 'hardwood sawdust', 0.62, 'sterilised') on conflict (code) do nothing", [code]);
+    await owner.query(
+      "insert into substrate_recipes (code, name, base, target_moisture, treatment) values ($1, $1, 'hardwood sawdust', 0.62, 'sterilised') on conflict (code) do nothing",
+      [code],
+    );
   }
   for (const code of ["X-cut", "slits", "open top"]) {
     await owner.query("insert into treatments (code, name) values ($1, $1) on conflict (code) do nothing", [code]);
   }
   const [{ id: farmId }] = (await owner.query<{ id: string }>("insert into farms (name) values ($1) returning id", [name])).rows;
   const [{ id: userId }] = (
-    await owner.query<{ id: string }>("insert into users (email, name, role, farm_id) values ($1, 'Bench Manager', 'farm_manager', $2) returning id", [`bench-${farmId}@example.invalid`, farmId])
+    await owner.query<{ id: string }>(
+      "insert into users (email, name, role, farm_id) values ($1, 'Bench Manager', 'farm_manager', $2) returning id",
+      [`bench-${farmId}@example.invalid`, farmId],
+    )
   ).rows;
   return { userId, farmId, role: "farm_manager" };
 }
@@ -98,7 +107,25 @@ function copyCsv(records: ReturnType<ReturnType<typeof createSeasonLogParser>["e
   const lines: string[] = [];
   for (const r of records) {
     lines.push(
-      [r.blockCode, r.strainCode, r.substrate, r.inoculatedOn, r.wetBlockGrams, r.wetBlockAsWritten?.value, r.moisture, r.fruitingMethod, r.flush, r.harvestedOn, r.freshGrams, r.freshAsWritten?.value, r.dryGrams, r.contaminated, r.contaminatedOn, r.spentGrams, r.notes]
+      [
+        r.blockCode,
+        r.strainCode,
+        r.substrate,
+        r.inoculatedOn,
+        r.wetBlockGrams,
+        r.wetBlockAsWritten?.value,
+        r.moisture,
+        r.fruitingMethod,
+        r.flush,
+        r.harvestedOn,
+        r.freshGrams,
+        r.freshAsWritten?.value,
+        r.dryGrams,
+        r.contaminated,
+        r.contaminatedOn,
+        r.spentGrams,
+        r.notes,
+      ]
         .map(cell)
         .join(","),
     );
@@ -127,7 +154,12 @@ async function measureParse(rows: number): Promise<Figures> {
   }
   flush();
   const result = parser.end();
-  return { rows: result.records.length, bytes, parseSeconds: (performance.now() - started) / 1000, peakRssMb: process.resourceUsage().maxRSS / 1024 };
+  return {
+    rows: result.records.length,
+    bytes,
+    parseSeconds: (performance.now() - started) / 1000,
+    peakRssMb: process.resourceUsage().maxRSS / 1024,
+  };
 }
 
 async function measure(rows: number, full: boolean): Promise<Figures> {
@@ -153,7 +185,8 @@ async function measure(rows: number, full: boolean): Promise<Figures> {
   if (context) {
     const view = await createUpload(context, { fileName: `bench-${rows}.csv`, content, result, choices: {} });
     const uploaded = performance.now();
-    if (!view.canCommit) throw new Error(`the bench upload cannot be committed: ${view.report.issues.find((issue) => issue.severity === "error")?.message}`);
+    if (!view.canCommit)
+      throw new Error(`the bench upload cannot be committed: ${view.report.issues.find((issue) => issue.severity === "error")?.message}`);
     const receipt = await commitUpload(context, view.upload.id, {});
     const committed = performance.now();
     await stopPooledRefresh();
@@ -169,7 +202,11 @@ async function measure(rows: number, full: boolean): Promise<Figures> {
     const csvPath = path.join(tmpdir(), `rhizomorph-bench-copy-${rows}.csv`);
     writeFileSync(csvPath, copyCsv(result.records));
     const copyStarted = performance.now();
-    const copy = spawnSync("psql", [requireEnv("OWNER_DATABASE_URL"), "-q", "-v", "ON_ERROR_STOP=1", "-c", `\\copy bench_copy_rows from '${csvPath}' with (format csv)`], { encoding: "utf8" });
+    const copy = spawnSync(
+      "psql",
+      [requireEnv("OWNER_DATABASE_URL"), "-q", "-v", "ON_ERROR_STOP=1", "-c", `\\copy bench_copy_rows from '${csvPath}' with (format csv)`],
+      { encoding: "utf8" },
+    );
     figures.copySeconds = (performance.now() - copyStarted) / 1000;
     if (copy.status !== 0) throw new Error(`COPY failed: ${copy.stderr}`);
   }
@@ -182,7 +219,11 @@ async function measure(rows: number, full: boolean): Promise<Figures> {
 
 function runChild(rows: number, full: boolean): Promise<Figures> {
   return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, [...process.execArgv, "--conditions=react-server", process.argv[1], "--one", String(rows), full ? "full" : "parse"], { stdio: ["ignore", "pipe", "inherit"] });
+    const child = spawn(
+      process.execPath,
+      [...process.execArgv, "--conditions=react-server", process.argv[1], "--one", String(rows), full ? "full" : "parse"],
+      { stdio: ["ignore", "pipe", "inherit"] },
+    );
     let output = "";
     child.stdout.on("data", (chunk: Buffer) => (output += chunk.toString()));
     child.on("exit", (code) => {

@@ -112,10 +112,15 @@ async function generate(): Promise<string> {
 
 async function main() {
   // RHIZO_BENCH_REUSE=1 keeps an already generated co-op (run scripts/bench-pooled.ts directly).
-  const existing = process.env.RHIZO_BENCH_REUSE ? (await superuser.query<{ id: string }>("select id from farms order by name limit 1")).rows[0]?.id : undefined;
+  const existing = process.env.RHIZO_BENCH_REUSE
+    ? (await superuser.query<{ id: string }>("select id from farms order by name limit 1")).rows[0]?.id
+    : undefined;
   const farmId = existing ?? (await generate());
 
-  const [fullRefresh, fullBare] = await timedSideBySide([() => analyst.query("select pooled_refresh_all()"), () => analyst.query(bareGroupBy(""))]);
+  const [fullRefresh, fullBare] = await timedSideBySide([
+    () => analyst.query("select pooled_refresh_all()"),
+    () => analyst.query(bareGroupBy("")),
+  ]);
 
   // One farm sends a season log of 40 000 rows: all its harvests are replaced, then refreshed.
   await superuser.query("update harvests set fresh_mass_g = fresh_mass_g + 1 where farm_id = $1", [farmId]);
@@ -128,18 +133,37 @@ async function main() {
   const species = (await analyst.query<{ id: string }>("select id from species limit 1")).rows[0].id;
   const strains = (await analyst.query<{ id: string; name: string }>("select id, name from strains")).rows;
   const request = async () => {
-    const rows = (await analyst.query(`
+    const rows = (
+      await analyst.query(
+        `
       select farm_id as "farmId", strain_id as "strainId", substrate_recipe_id as "substrateRecipeId", fruiting_method_id as "fruitingMethodId",
         blocks, blocks_contaminated as "blocksContaminated", efficiency_blocks as "efficiencyBlocks", efficiency_sum as "efficiencySum",
         efficiency_squares as "efficiencySquares", efficiency_bins as "efficiencyBins", first_harvest_blocks as "firstHarvestBlocks",
         first_harvest_days_sum as "firstHarvestDaysSum"
-      from farm_strain_statistics where species_id = $1 and flush_window = 'all'`, [species])).rows as StrainStatisticsRow[];
-    const flushRows = (await analyst.query(`
+      from farm_strain_statistics where species_id = $1 and flush_window = 'all'`,
+        [species],
+      )
+    ).rows as StrainStatisticsRow[];
+    const flushRows = (
+      await analyst.query(
+        `
       select farm_id as "farmId", strain_id as "strainId", substrate_recipe_id as "substrateRecipeId", fruiting_method_id as "fruitingMethodId",
         flush, finished_blocks as "finishedBlocks", blocks_fruiting as "blocksFruiting", share_sum as "shareSum", share_squares as "shareSquares",
         cumulative_sum as "cumulativeSum", cumulative_squares as "cumulativeSquares"
-      from farm_flush_statistics where species_id = $1`, [species])).rows as FlushStatisticsRow[];
-    return buildPooledResults({ rows, flushRows, strains, filters: {}, minimumFarms: 3, showPerFarmEstimates: false, viewerFarmId: farmId, random: seededRandom(1) });
+      from farm_flush_statistics where species_id = $1`,
+        [species],
+      )
+    ).rows as FlushStatisticsRow[];
+    return buildPooledResults({
+      rows,
+      flushRows,
+      strains,
+      filters: {},
+      minimumFarms: 3,
+      showPerFarmEstimates: false,
+      viewerFarmId: farmId,
+      random: seededRandom(1),
+    });
   };
   const requestTime = await timed(request);
 
@@ -160,10 +184,20 @@ async function serveApp(): Promise<{ url: string; stop: () => void }> {
   const built = spawnSync("bash", ["-c", ". scripts/lib.sh && ensure_app_build"], { env, encoding: "utf8" });
   if (built.status !== 0) throw new Error(`The app did not build:\n${built.stdout}${built.stderr}`);
   const port = process.env.APP_PORT ?? "3200";
-  const server = spawn("npx", ["next", "start", "--hostname", "127.0.0.1", "--port", port], { env, stdio: ["ignore", "ignore", "inherit"], detached: true });
+  const server = spawn("npx", ["next", "start", "--hostname", "127.0.0.1", "--port", port], {
+    env,
+    stdio: ["ignore", "ignore", "inherit"],
+    detached: true,
+  });
   const url = `http://127.0.0.1:${port}`;
   for (let attempt = 0; ; attempt++) {
-    if (await fetch(`${url}/icon.svg`).then((response) => response.ok, () => false)) break;
+    if (
+      await fetch(`${url}/icon.svg`).then(
+        (response) => response.ok,
+        () => false,
+      )
+    )
+      break;
     if (attempt > 150) throw new Error(`The app did not start on ${url}`);
     await new Promise((resolve) => setTimeout(resolve, 200));
   }
@@ -217,7 +251,9 @@ async function loadTest(species: string, farmId: string) {
       ["GET /icon.svg (static file, same server)", baseline],
     ] as const;
     for (const [name, result] of rows) {
-      console.log(`| ${name} | ${result.requests.average.toFixed(0)} | ${result.latency.p50} ms | ${result.p95.toFixed(0)} ms | ${result.latency.p97_5} ms | ${result.non2xx} |`);
+      console.log(
+        `| ${name} | ${result.requests.average.toFixed(0)} | ${result.latency.p50} ms | ${result.p95.toFixed(0)} ms | ${result.latency.p97_5} ms | ${result.non2xx} |`,
+      );
     }
   } finally {
     app.stop();

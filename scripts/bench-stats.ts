@@ -10,7 +10,6 @@ const STRAINS = 10;
 const BLOCKS_PER_STRAIN = 200;
 const RUNS = 7;
 
-
 function season(): BlockedAnovaObservation[] {
   const random = seededRandom(20240601);
   const strainEffect = Array.from({ length: STRAINS }, (_, s) => 4 * s - 18);

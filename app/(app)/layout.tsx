@@ -11,12 +11,7 @@ export default async function SignedInLayout({ children }: { children: React.Rea
   const items = navigationFor(member.role).map(({ href, label }) => ({ href, label }));
   return (
     <div className="min-h-screen lg:flex">
-      <AppNavigation
-        items={items}
-        memberName={member.name}
-        roleLabel={roleLabels[member.role]}
-        farmName={member.farmName}
-      />
+      <AppNavigation items={items} memberName={member.name} roleLabel={roleLabels[member.role]} farmName={member.farmName} />
       <main id="main" className="mx-auto w-full max-w-6xl flex-1 px-4 py-6 sm:px-8 sm:py-10">
         <QueryProvider>{children}</QueryProvider>
       </main>

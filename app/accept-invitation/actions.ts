@@ -18,7 +18,10 @@ const acceptSchema = z
     password,
     repeatPassword: z.string(),
   })
-  .refine((input) => input.password === input.repeatPassword, { path: ["repeatPassword"], message: "The two passwords differ: type the same one twice." });
+  .refine((input) => input.password === input.repeatPassword, {
+    path: ["repeatPassword"],
+    message: "The two passwords differ: type the same one twice.",
+  });
 
 function problems(error: z.ZodError): ActionState {
   const fieldErrors: Record<string, string[]> = {};
@@ -31,18 +34,23 @@ export async function acceptInvitationAction(_previous: ActionState, formData: F
   const parsed = acceptSchema.safeParse(Object.fromEntries(formData));
   if (!parsed.success) return problems(parsed.error);
   const outcome = await redeemAccessToken(parsed.data.token, "invitation", { name: parsed.data.name, password: parsed.data.password });
-  if (outcome.status !== "accepted" && outcome.status !== "reset") return { status: "error", message: tokenRefusal(outcome.status, "invitation") };
+  if (outcome.status !== "accepted" && outcome.status !== "reset")
+    return { status: "error", message: tokenRefusal(outcome.status, "invitation") };
   return { status: "ok", message: `Welcome. Your password is set: sign in as ${outcome.email}.` };
 }
 
 const resetSchema = z
   .object({ token: z.string(), password, repeatPassword: z.string() })
-  .refine((input) => input.password === input.repeatPassword, { path: ["repeatPassword"], message: "The two passwords differ: type the same one twice." });
+  .refine((input) => input.password === input.repeatPassword, {
+    path: ["repeatPassword"],
+    message: "The two passwords differ: type the same one twice.",
+  });
 
 export async function setNewPasswordAction(_previous: ActionState, formData: FormData): Promise<ActionState> {
   const parsed = resetSchema.safeParse(Object.fromEntries(formData));
   if (!parsed.success) return problems(parsed.error);
   const outcome = await redeemAccessToken(parsed.data.token, "password_reset", { name: "", password: parsed.data.password });
-  if (outcome.status !== "reset") return { status: "error", message: tokenRefusal(outcome.status === "accepted" ? "unknown" : outcome.status, "password_reset") };
+  if (outcome.status !== "reset")
+    return { status: "error", message: tokenRefusal(outcome.status === "accepted" ? "unknown" : outcome.status, "password_reset") };
   return { status: "ok", message: "Your new password is set. Sign in with it." };
 }

@@ -23,8 +23,9 @@ export default async function AcceptInvitationPage({ searchParams }: { searchPar
   return (
     <PublicFrame title="Accept your invitation">
       <p className="mb-4 text-sm text-ink-soft">
-        You are joining {link.farmName ? <strong>{link.farmName}</strong> : "the co-op"} as {link.role ? roleLabels[link.role].toLowerCase() : "a member"}, signing in as{" "}
-        <strong>{link.email}</strong>. Choose your password; the link then stops working.
+        You are joining {link.farmName ? <strong>{link.farmName}</strong> : "the co-op"} as{" "}
+        {link.role ? roleLabels[link.role].toLowerCase() : "a member"}, signing in as <strong>{link.email}</strong>. Choose your password;
+        the link then stops working.
       </p>
       <ActionForm
         action={acceptInvitationAction}

@@ -10,9 +10,8 @@ export default function CautionsPage() {
     <main className="mx-auto max-w-3xl px-4 py-10">
       <h1 className="text-3xl font-semibold tracking-tight text-moss-800">Safety cautions</h1>
       <p className="mt-3 text-ink-soft">
-        Growing mushrooms has hazards of its own. These reminders appear where they apply throughout Rhizomorph. They are not a
-        substitute for your local codes, for licensed electricians and inspectors, or for occupational-health and food-safety
-        advice where you farm.
+        Growing mushrooms has hazards of its own. These reminders appear where they apply throughout Rhizomorph. They are not a substitute
+        for your local codes, for licensed electricians and inspectors, or for occupational-health and food-safety advice where you farm.
       </p>
       <div className="mt-8 space-y-4">
         {(Object.keys(cautions) as CautionKey[]).map((key) => (

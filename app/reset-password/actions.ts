@@ -10,7 +10,12 @@ const requestSchema = z.object({ email: z.string().trim().toLowerCase().pipe(z.e
 /** The same answer whether or not the address belongs to a member. */
 export async function requestResetAction(_previous: ActionState, formData: FormData): Promise<ActionState> {
   const parsed = requestSchema.safeParse(Object.fromEntries(formData));
-  if (!parsed.success) return { status: "error", message: "Some fields need attention.", fieldErrors: { email: parsed.error.issues.map((issue) => issue.message) } };
+  if (!parsed.success)
+    return {
+      status: "error",
+      message: "Some fields need attention.",
+      fieldErrors: { email: parsed.error.issues.map((issue) => issue.message) },
+    };
   const requestHeaders = await headers();
   const ip = requestHeaders.get("x-forwarded-for")?.split(",")[0]?.trim() ?? null;
   await requestPasswordReset(parsed.data.email, ip);

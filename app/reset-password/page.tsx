@@ -33,7 +33,9 @@ export default async function ResetPasswordPage({ searchParams }: { searchParams
     return (
       <PublicFrame title="This reset link cannot be used">
         <div className="mb-4">
-          <Notice tone="danger">{tokenRefusal(!link || link.purpose !== "password_reset" || link.state === "valid" ? "unknown" : link.state, "password_reset")}</Notice>
+          <Notice tone="danger">
+            {tokenRefusal(!link || link.purpose !== "password_reset" || link.state === "valid" ? "unknown" : link.state, "password_reset")}
+          </Notice>
         </div>
         {requestForm}
       </PublicFrame>

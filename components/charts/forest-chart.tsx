@@ -43,7 +43,10 @@ export function ForestChart({
               </text>
               <line x1={x(row.lower)} x2={x(row.upper)} y1={y} y2={y} stroke={colour} strokeWidth={2} />
               {row.pooled ? (
-                <polygon points={`${x(row.lower)},${y} ${x(row.estimate)},${y - 7} ${x(row.upper)},${y} ${x(row.estimate)},${y + 7}`} fill={colour} />
+                <polygon
+                  points={`${x(row.lower)},${y} ${x(row.estimate)},${y - 7} ${x(row.upper)},${y} ${x(row.estimate)},${y + 7}`}
+                  fill={colour}
+                />
               ) : (
                 <rect x={x(row.estimate) - 5} y={y - 5} width={10} height={10} fill={colour} />
               )}

@@ -6,7 +6,8 @@ const variants = {
   danger: "bg-danger-ink text-white hover:bg-danger-ink/90 disabled:bg-oat-300",
 } as const;
 
-const base = "inline-flex min-h-11 items-center justify-center rounded-lg px-4 py-2 text-sm font-semibold transition-colors disabled:cursor-not-allowed";
+const base =
+  "inline-flex min-h-11 items-center justify-center rounded-lg px-4 py-2 text-sm font-semibold transition-colors disabled:cursor-not-allowed";
 
 type ButtonProps = React.ButtonHTMLAttributes<HTMLButtonElement> & { variant?: keyof typeof variants };
 

@@ -26,7 +26,6 @@ export interface DataTableProps<Row> {
   csvFileName?: string;
 }
 
-
 /** Sort, filter, hide columns, page through and export: the one table every list in the app uses. */
 export function DataTable<Row>({ caption, columns, rows, emptyMessage, pageSize = 25, csvFileName }: DataTableProps<Row>) {
   const [sorting, setSorting] = useState<SortingState>([]);
@@ -50,7 +49,10 @@ export function DataTable<Row>({ caption, columns, rows, emptyMessage, pageSize 
     const visible = table.getVisibleLeafColumns();
     const csv = toCsv(
       table.getFilteredRowModel().rows.map((row) => Object.fromEntries(visible.map((column) => [column.id, row.getValue(column.id)]))),
-      visible.map((column) => ({ key: column.id, header: typeof column.columnDef.header === "string" ? column.columnDef.header : column.id })),
+      visible.map((column) => ({
+        key: column.id,
+        header: typeof column.columnDef.header === "string" ? column.columnDef.header : column.id,
+      })),
     );
     const link = document.createElement("a");
     link.href = URL.createObjectURL(new Blob([csv], { type: "text/csv;charset=utf-8" }));
@@ -86,7 +88,11 @@ export function DataTable<Row>({ caption, columns, rows, emptyMessage, pageSize 
           </div>
         </details>
         {csvFileName !== undefined ? (
-          <button type="button" onClick={downloadCsv} className="min-h-11 rounded-lg border border-moss-600 bg-white px-3 text-sm font-semibold text-moss-700">
+          <button
+            type="button"
+            onClick={downloadCsv}
+            className="min-h-11 rounded-lg border border-moss-600 bg-white px-3 text-sm font-semibold text-moss-700"
+          >
             Download CSV
           </button>
         ) : null}
@@ -100,7 +106,12 @@ export function DataTable<Row>({ caption, columns, rows, emptyMessage, pageSize 
                 {group.headers.map((header) => {
                   const sorted = header.column.getIsSorted();
                   return (
-                    <th key={header.id} scope="col" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined} className="px-3 py-2 font-semibold">
+                    <th
+                      key={header.id}
+                      scope="col"
+                      aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}
+                      className="px-3 py-2 font-semibold"
+                    >
                       {header.column.getCanSort() ? (
                         <button type="button" onClick={header.column.getToggleSortingHandler()} className="flex items-center gap-1">
                           {flexRender(header.column.columnDef.header, header.getContext())}
@@ -131,13 +142,23 @@ export function DataTable<Row>({ caption, columns, rows, emptyMessage, pageSize 
       {table.getFilteredRowModel().rows.length === 0 ? <p className="text-sm text-ink-soft">No rows match “{filter}”.</p> : null}
       {pageCount > 1 ? (
         <nav aria-label={`${caption} pages`} className="flex items-center gap-3 text-sm">
-          <button type="button" onClick={() => table.previousPage()} disabled={!table.getCanPreviousPage()} className="min-h-11 rounded-lg border border-oat-300 bg-white px-3 disabled:opacity-50">
+          <button
+            type="button"
+            onClick={() => table.previousPage()}
+            disabled={!table.getCanPreviousPage()}
+            className="min-h-11 rounded-lg border border-oat-300 bg-white px-3 disabled:opacity-50"
+          >
             Previous
           </button>
           <span>
             Page {table.getState().pagination.pageIndex + 1} of {pageCount}
           </span>
-          <button type="button" onClick={() => table.nextPage()} disabled={!table.getCanNextPage()} className="min-h-11 rounded-lg border border-oat-300 bg-white px-3 disabled:opacity-50">
+          <button
+            type="button"
+            onClick={() => table.nextPage()}
+            disabled={!table.getCanNextPage()}
+            className="min-h-11 rounded-lg border border-oat-300 bg-white px-3 disabled:opacity-50"
+          >
             Next
           </button>
         </nav>
@@ -145,4 +166,3 @@ export function DataTable<Row>({ caption, columns, rows, emptyMessage, pageSize 
     </div>
   );
 }
-

@@ -4,7 +4,9 @@ import { farms } from "./cooperative";
 
 /** The cell a statistics row describes: farm × species × strain × recipe × fruiting method × trial arm. */
 const cellColumns = () => ({
-  farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
+  farmId: uuid("farm_id")
+    .notNull()
+    .references(() => farms.id, { onDelete: "cascade" }),
   speciesId: uuid("species_id").notNull(),
   strainId: uuid("strain_id").notNull(),
   substrateRecipeId: uuid("substrate_recipe_id"),
@@ -61,7 +63,9 @@ export const farmFlushStatistics = pgTable(
 
 /** Whether a farm's statistics are being recomputed: pending while requested > completed. */
 export const pooledRefreshState = pgTable("pooled_refresh_state", {
-  farmId: uuid("farm_id").primaryKey().references(() => farms.id, { onDelete: "cascade" }),
+  farmId: uuid("farm_id")
+    .primaryKey()
+    .references(() => farms.id, { onDelete: "cascade" }),
   requested: integer("requested").notNull().default(0),
   completed: integer("completed").notNull().default(0),
   requestedAt: timestamp("requested_at", { withTimezone: true }).notNull().defaultNow(),

@@ -24,7 +24,9 @@ export const strains = pgTable(
   {
     id: uuid("id").primaryKey().defaultRandom(),
     code: text("code").notNull(),
-    speciesId: uuid("species_id").notNull().references(() => species.id),
+    speciesId: uuid("species_id")
+      .notNull()
+      .references(() => species.id),
     name: text("name").notNull(),
     source: strainSource("source").notNull(),
     notes: text("notes").notNull().default(""),

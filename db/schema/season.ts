@@ -1,6 +1,19 @@
 import { sql } from "drizzle-orm";
 import {
-  bigserial, boolean, check, customType, date, index, integer, jsonb, numeric, pgTable, text, timestamp, uniqueIndex, uuid,
+  bigserial,
+  boolean,
+  check,
+  customType,
+  date,
+  index,
+  integer,
+  jsonb,
+  numeric,
+  pgTable,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
 } from "drizzle-orm/pg-core";
 import { farms, users } from "./cooperative";
 import { uploadOutcome } from "./enums";
@@ -14,7 +27,9 @@ export const uploads = pgTable(
   "uploads",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
     uploadedBy: uuid("uploaded_by").references(() => users.id, { onDelete: "set null" }),
     uploadedAt: timestamp("uploaded_at", { withTimezone: true }).notNull().defaultNow(),
     fileName: text("file_name").notNull(),
@@ -43,9 +58,13 @@ export const blocks = pgTable(
   "blocks",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
     code: text("code").notNull(),
-    strainId: uuid("strain_id").notNull().references(() => strains.id),
+    strainId: uuid("strain_id")
+      .notNull()
+      .references(() => strains.id),
     substrateRecipeId: uuid("substrate_recipe_id").references(() => substrateRecipes.id),
     fruitingMethodId: uuid("fruiting_method_id").references(() => treatments.id),
     trialArmId: uuid("trial_arm_id").references(() => trialArms.id),
@@ -78,8 +97,12 @@ export const harvests = pgTable(
   {
     id: uuid("id").primaryKey().defaultRandom(),
     // Repeated from the block so row-level security needs no join.
-    farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
-    blockId: uuid("block_id").notNull().references(() => blocks.id, { onDelete: "cascade" }),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    blockId: uuid("block_id")
+      .notNull()
+      .references(() => blocks.id, { onDelete: "cascade" }),
     flush: integer("flush").notNull(),
     harvestedOn: date("harvested_on"),
     freshMassG: numeric("fresh_mass_g", { mode: "number" }).notNull(),
@@ -106,8 +129,12 @@ export const valueChanges = pgTable(
   "value_changes",
   {
     id: bigserial("id", { mode: "number" }).primaryKey(),
-    farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
-    blockId: uuid("block_id").notNull().references(() => blocks.id, { onDelete: "cascade" }),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    blockId: uuid("block_id")
+      .notNull()
+      .references(() => blocks.id, { onDelete: "cascade" }),
     flush: integer("flush"),
     field: text("field").notNull(),
     oldValue: text("old_value"),
@@ -121,7 +148,9 @@ export const valueChanges = pgTable(
 
 /** What a farm chose last time: its column mapping and default mass unit. */
 export const farmImportPreferences = pgTable("farm_import_preferences", {
-  farmId: uuid("farm_id").primaryKey().references(() => farms.id, { onDelete: "cascade" }),
+  farmId: uuid("farm_id")
+    .primaryKey()
+    .references(() => farms.id, { onDelete: "cascade" }),
   columnMapping: jsonb("column_mapping").$type<Record<string, string>>().notNull().default({}),
   defaultMassUnit: text("default_mass_unit"),
   updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),

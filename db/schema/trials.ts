@@ -11,7 +11,9 @@ export const trials = pgTable(
     code: text("code").notNull(),
     title: text("title").notNull(),
     question: text("question").notNull().default(""),
-    speciesId: uuid("species_id").notNull().references(() => species.id),
+    speciesId: uuid("species_id")
+      .notNull()
+      .references(() => species.id),
     status: trialStatus("status").notNull().default("draft"),
     outcomeFlushes: integer("outcome_flushes").notNull().default(2),
     contaminatedHandling: contaminatedHandling("contaminated_handling").notNull().default("exclude"),
@@ -39,9 +41,13 @@ export const trialArms = pgTable(
   "trial_arms",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    trialId: uuid("trial_id").notNull().references(() => trials.id, { onDelete: "cascade" }),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
     label: text("label").notNull(),
-    strainId: uuid("strain_id").notNull().references(() => strains.id),
+    strainId: uuid("strain_id")
+      .notNull()
+      .references(() => strains.id),
     treatmentId: uuid("treatment_id").references(() => treatments.id),
     isReference: boolean("is_reference").notNull().default(false),
     position: integer("position").notNull(),
@@ -53,8 +59,12 @@ export const trialEnrolments = pgTable(
   "trial_enrolments",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    trialId: uuid("trial_id").notNull().references(() => trials.id, { onDelete: "cascade" }),
-    farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
     status: enrolmentStatus("status").notNull().default("invited"),
     blocksPerArm: integer("blocks_per_arm"),
     randomisationSeed: text("randomisation_seed"),
@@ -74,13 +84,24 @@ export const trialBlockAssignments = pgTable(
   "trial_block_assignments",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    trialId: uuid("trial_id").notNull().references(() => trials.id, { onDelete: "cascade" }),
-    farmId: uuid("farm_id").notNull().references(() => farms.id, { onDelete: "cascade" }),
-    enrolmentId: uuid("enrolment_id").notNull().references(() => trialEnrolments.id, { onDelete: "cascade" }),
-    armId: uuid("arm_id").notNull().references(() => trialArms.id, { onDelete: "cascade" }),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    enrolmentId: uuid("enrolment_id")
+      .notNull()
+      .references(() => trialEnrolments.id, { onDelete: "cascade" }),
+    armId: uuid("arm_id")
+      .notNull()
+      .references(() => trialArms.id, { onDelete: "cascade" }),
     blockCode: text("block_code").notNull(),
     sequence: integer("sequence").notNull(),
     permutedBlock: integer("permuted_block").notNull(),
   },
-  (t) => [uniqueIndex("trial_block_assignments_code_unique").on(t.farmId, t.blockCode), index("trial_block_assignments_trial_idx").on(t.trialId)],
+  (t) => [
+    uniqueIndex("trial_block_assignments_code_unique").on(t.farmId, t.blockCode),
+    index("trial_block_assignments_trial_idx").on(t.trialId),
+  ],
 );

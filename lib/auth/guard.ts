@@ -43,7 +43,10 @@ export function errorResponse(error: unknown): NextResponse {
     return NextResponse.json({ error: error.code, message: error.message, problems: error.fieldProblems }, { status: error.status });
   }
   console.error(error);
-  return NextResponse.json({ error: "internal", message: "Something went wrong on our side. Try again; if it keeps happening, tell the coordinator." }, { status: 500 });
+  return NextResponse.json(
+    { error: "internal", message: "Something went wrong on our side. Try again; if it keeps happening, tell the coordinator." },
+    { status: 500 },
+  );
 }
 
 type RouteHandler<Params> = (request: Request, context: { member: Member; params: Params }) => Promise<Response>;

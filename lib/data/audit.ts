@@ -46,8 +46,10 @@ export const auditListLimit = 5000;
  * their farm's own. Row-level security enforces the same split; the filter here says which.
  */
 export async function listAuditEvents(member: Member, scope: "coop" | "farm"): Promise<AuditRow[]> {
-  if (scope === "coop" && member.role !== "coordinator") throw new AppError("forbidden", "Only the coordinator reads the co-op's activity log.");
-  if (scope === "farm" && (member.role !== "farm_manager" || !member.farmId)) throw new AppError("forbidden", "Only a farm manager reads the farm's activity log.");
+  if (scope === "coop" && member.role !== "coordinator")
+    throw new AppError("forbidden", "Only the coordinator reads the co-op's activity log.");
+  if (scope === "farm" && (member.role !== "farm_manager" || !member.farmId))
+    throw new AppError("forbidden", "Only a farm manager reads the farm's activity log.");
   return withFarmContext({ userId: member.id, farmId: member.farmId, role: member.role }, async (tx) => {
     const rows = await tx
       .select()

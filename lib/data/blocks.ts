@@ -28,7 +28,16 @@ export interface BlockDetail extends BlockRow {
   contaminatedOn: string | null;
   notes: string;
   harvests: { flush: number; harvestedOn: string | null; freshMassG: number; dryMassG: number | null; freshMassAsWritten: string | null }[];
-  history: { id: number; flush: number | null; field: string; oldValue: string | null; newValue: string | null; changedAt: string; changedBy: string | null; fileName: string | null }[];
+  history: {
+    id: number;
+    flush: number | null;
+    field: string;
+    oldValue: string | null;
+    newValue: string | null;
+    changedAt: string;
+    changedBy: string | null;
+    fileName: string | null;
+  }[];
 }
 
 export interface HarvestTarget {
@@ -58,11 +67,31 @@ const blockColumns = {
   totalFreshG: sql<number>`(select coalesce(sum(h.fresh_mass_g), 0)::float8 from ${harvests} h where h.block_id = ${blocks.id})`,
 };
 
-type BlockSelection = { id: string; code: string; strainCode: string; recipeCode: string | null; inoculatedOn: string | null; wetMassG: number | null; moisture: number | null; contaminated: boolean; contaminatedOn: string | null; spentMassG: number | null; notes: string; trial: string | null; flushes: number; totalFreshG: number };
+type BlockSelection = {
+  id: string;
+  code: string;
+  strainCode: string;
+  recipeCode: string | null;
+  inoculatedOn: string | null;
+  wetMassG: number | null;
+  moisture: number | null;
+  contaminated: boolean;
+  contaminatedOn: string | null;
+  spentMassG: number | null;
+  notes: string;
+  trial: string | null;
+  flushes: number;
+  totalFreshG: number;
+};
 
 function withFigures(row: BlockSelection): BlockRow & { spentMassG: number | null; contaminatedOn: string | null; notes: string } {
   const totalFreshG = Number(row.totalFreshG);
-  return { ...row, flushes: Number(row.flushes), totalFreshG, ...blockFigures({ wetMassG: row.wetMassG, moisture: row.moisture, totalFreshG, spentMassG: row.spentMassG }) };
+  return {
+    ...row,
+    flushes: Number(row.flushes),
+    totalFreshG,
+    ...blockFigures({ wetMassG: row.wetMassG, moisture: row.moisture, totalFreshG, spentMassG: row.spentMassG }),
+  };
 }
 
 /** The farm's blocks with flush count, total fresh weight, biological efficiency and mass loss. */
@@ -102,7 +131,8 @@ export async function listBlocks(context: FarmContext): Promise<BlockRow[]> {
 /** One block of the farm with its flushes and every value an upload or correction replaced. */
 export async function getBlock(context: FarmContext, blockId: string): Promise<BlockDetail> {
   const farm = farmOf(context);
-  if (!/^[0-9a-f-]{36}$/i.test(blockId)) throw new AppError("not_found", "There is no such block on your farm. Pick it from Blocks & harvests.");
+  if (!/^[0-9a-f-]{36}$/i.test(blockId))
+    throw new AppError("not_found", "There is no such block on your farm. Pick it from Blocks & harvests.");
   return withFarmContext(farm, async (tx) => {
     const [row] = await tx
       .select(blockColumns)
@@ -114,7 +144,13 @@ export async function getBlock(context: FarmContext, blockId: string): Promise<B
       .where(and(eq(blocks.farmId, farm.farmId), eq(blocks.id, blockId)));
     if (!row) throw new AppError("not_found", "There is no such block on your farm. Pick it from Blocks & harvests.");
     const flushes = await tx
-      .select({ flush: harvests.flush, harvestedOn: harvests.harvestedOn, freshMassG: harvests.freshMassG, dryMassG: harvests.dryMassG, freshMassAsWritten: harvests.freshMassAsWritten })
+      .select({
+        flush: harvests.flush,
+        harvestedOn: harvests.harvestedOn,
+        freshMassG: harvests.freshMassG,
+        dryMassG: harvests.dryMassG,
+        freshMassAsWritten: harvests.freshMassAsWritten,
+      })
       .from(harvests)
       .where(eq(harvests.blockId, blockId))
       .orderBy(asc(harvests.flush));
@@ -147,7 +183,10 @@ export async function listHarvestTargets(context: FarmContext): Promise<HarvestT
   const farm = farmOf(context);
   const rows = await withFarmContext(farm, (tx) =>
     tx
-      .select({ code: blocks.code, flushes: sql<number[]>`coalesce(array_agg(${harvests.flush}) filter (where ${harvests.flush} is not null), '{}')` })
+      .select({
+        code: blocks.code,
+        flushes: sql<number[]>`coalesce(array_agg(${harvests.flush}) filter (where ${harvests.flush} is not null), '{}')`,
+      })
       .from(blocks)
       .leftJoin(harvests, eq(harvests.blockId, blocks.id))
       .where(and(eq(blocks.farmId, farm.farmId), eq(blocks.contaminated, false)))
@@ -166,16 +205,28 @@ export async function recordHarvest(
   const result = await withFarmContext(farm, async (tx) => {
     // The same per-farm lock as a season-log commit, so a commit never plans around a flush recorded meanwhile.
     await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`season-log:${farm.farmId}`}, 0))`);
-    const [block] = await tx.select({ id: blocks.id, code: blocks.code }).from(blocks).where(and(eq(blocks.farmId, farm.farmId), eq(blocks.code, input.blockCode.trim())));
+    const [block] = await tx
+      .select({ id: blocks.id, code: blocks.code })
+      .from(blocks)
+      .where(and(eq(blocks.farmId, farm.farmId), eq(blocks.code, input.blockCode.trim())));
     if (!block) {
       throw new AppError("invalid_input", "No block with that code.", [
-        { field: "blockCode", message: `Your farm has no block "${input.blockCode}". Pick a code from the list, or upload the block in a season log first.` },
+        {
+          field: "blockCode",
+          message: `Your farm has no block "${input.blockCode}". Pick a code from the list, or upload the block in a season log first.`,
+        },
       ]);
     }
-    const [existing] = await tx.select({ freshMassG: harvests.freshMassG }).from(harvests).where(and(eq(harvests.blockId, block.id), eq(harvests.flush, input.flush)));
+    const [existing] = await tx
+      .select({ freshMassG: harvests.freshMassG })
+      .from(harvests)
+      .where(and(eq(harvests.blockId, block.id), eq(harvests.flush, input.flush)));
     if (existing) {
       throw new AppError("invalid_input", "That flush is already recorded.", [
-        { field: "flush", message: `Flush ${input.flush} of ${block.code} is already recorded. Use the next flush number, or correct the weight through a season log.` },
+        {
+          field: "flush",
+          message: `Flush ${input.flush} of ${block.code} is already recorded. Use the next flush number, or correct the weight through a season log.`,
+        },
       ]);
     }
     await tx.insert(harvests).values({

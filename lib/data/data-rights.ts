@@ -4,7 +4,18 @@ import { alias } from "drizzle-orm/pg-core";
 import { zipSync, strToU8 } from "fflate";
 import { withFarmContext } from "@/db/client";
 import {
-  auditEvents, blocks, cooperativeSettings, farmImportPreferences, farms, harvests, strains, substrateRecipes, treatments, trialEnrolments, uploads, valueChanges,
+  auditEvents,
+  blocks,
+  cooperativeSettings,
+  farmImportPreferences,
+  farms,
+  harvests,
+  strains,
+  substrateRecipes,
+  treatments,
+  trialEnrolments,
+  uploads,
+  valueChanges,
 } from "@/db/schema";
 import { toCsv } from "@/lib/csv";
 import { AppError } from "@/lib/errors";
@@ -14,7 +25,8 @@ import type { Member } from "./members";
 import { refreshPooledStatistics } from "./pooled-refresh";
 
 function farmContextOf(member: Member) {
-  if (!member.farmId || member.role !== "farm_manager") throw new AppError("forbidden", "Only a farm manager can download or withdraw the farm's data.");
+  if (!member.farmId || member.role !== "farm_manager")
+    throw new AppError("forbidden", "Only a farm manager can download or withdraw the farm's data.");
   return { context: { userId: member.id, farmId: member.farmId, role: member.role }, farmId: member.farmId };
 }
 
@@ -30,10 +42,21 @@ export async function exportFarmData(member: Member): Promise<{ fileName: string
     const methods = alias(treatments, "methods");
     const blockRows = await tx
       .select({
-        id: blocks.id, code: blocks.code, strainCode: strains.code, substrateRecipeCode: recipes.code, fruitingMethodCode: methods.code,
-        inoculatedOn: blocks.inoculatedOn, wetMassG: blocks.wetMassG, wetMassAsWritten: blocks.wetMassAsWritten, moisture: blocks.moisture,
-        contaminated: blocks.contaminated, contaminatedOn: blocks.contaminatedOn, spentMassG: blocks.spentMassG, spentMassAsWritten: blocks.spentMassAsWritten,
-        notes: blocks.notes, createdAt: blocks.createdAt,
+        id: blocks.id,
+        code: blocks.code,
+        strainCode: strains.code,
+        substrateRecipeCode: recipes.code,
+        fruitingMethodCode: methods.code,
+        inoculatedOn: blocks.inoculatedOn,
+        wetMassG: blocks.wetMassG,
+        wetMassAsWritten: blocks.wetMassAsWritten,
+        moisture: blocks.moisture,
+        contaminated: blocks.contaminated,
+        contaminatedOn: blocks.contaminatedOn,
+        spentMassG: blocks.spentMassG,
+        spentMassAsWritten: blocks.spentMassAsWritten,
+        notes: blocks.notes,
+        createdAt: blocks.createdAt,
       })
       .from(blocks)
       .innerJoin(strains, eq(strains.id, blocks.strainId))
@@ -43,8 +66,13 @@ export async function exportFarmData(member: Member): Promise<{ fileName: string
       .orderBy(asc(blocks.code));
     const harvestRows = await tx
       .select({
-        blockCode: blocks.code, flush: harvests.flush, harvestedOn: harvests.harvestedOn, freshMassG: harvests.freshMassG,
-        freshMassAsWritten: harvests.freshMassAsWritten, dryMassG: harvests.dryMassG, dryMassAsWritten: harvests.dryMassAsWritten,
+        blockCode: blocks.code,
+        flush: harvests.flush,
+        harvestedOn: harvests.harvestedOn,
+        freshMassG: harvests.freshMassG,
+        freshMassAsWritten: harvests.freshMassAsWritten,
+        dryMassG: harvests.dryMassG,
+        dryMassAsWritten: harvests.dryMassAsWritten,
       })
       .from(harvests)
       .innerJoin(blocks, eq(blocks.id, harvests.blockId))
@@ -52,7 +80,14 @@ export async function exportFarmData(member: Member): Promise<{ fileName: string
       .orderBy(asc(blocks.code), asc(harvests.flush));
     const uploadRows = await tx.select().from(uploads).where(eq(uploads.farmId, farmId)).orderBy(asc(uploads.uploadedAt));
     const changeRows = await tx
-      .select({ blockCode: blocks.code, flush: valueChanges.flush, field: valueChanges.field, oldValue: valueChanges.oldValue, newValue: valueChanges.newValue, changedAt: valueChanges.changedAt })
+      .select({
+        blockCode: blocks.code,
+        flush: valueChanges.flush,
+        field: valueChanges.field,
+        oldValue: valueChanges.oldValue,
+        newValue: valueChanges.newValue,
+        changedAt: valueChanges.changedAt,
+      })
       .from(valueChanges)
       .innerJoin(blocks, eq(blocks.id, valueChanges.blockId))
       .where(eq(valueChanges.farmId, farmId))
@@ -80,14 +115,27 @@ export async function exportFarmData(member: Member): Promise<{ fileName: string
         farmName: farm?.name ?? "Your farm",
         cooperativeName: settings?.name ?? "the co-op",
         exportedAt,
-        counts: { blocks: blockRows.length, harvests: harvestRows.length, uploads: uploadRows.length, changes: changeRows.length, activity: activityRows.length },
+        counts: {
+          blocks: blockRows.length,
+          harvests: harvestRows.length,
+          uploads: uploadRows.length,
+          changes: changeRows.length,
+          activity: activityRows.length,
+        },
       }),
     );
     await recordAudit(tx, {
-      actorUserId: member.id, actorLabel: member.name, farmId, action: "farm.data-exported", subject: farm?.name ?? "",
+      actorUserId: member.id,
+      actorLabel: member.name,
+      farmId,
+      action: "farm.data-exported",
+      subject: farm?.name ?? "",
       details: { blocks: blockRows.length, harvests: harvestRows.length, uploads: uploadRows.length },
     });
-    const slug = (farm?.name ?? "farm").toLowerCase().replace(/[^a-z0-9]+/g, "-").replace(/^-|-$/g, "");
+    const slug = (farm?.name ?? "farm")
+      .toLowerCase()
+      .replace(/[^a-z0-9]+/g, "-")
+      .replace(/^-|-$/g, "");
     return { fileName: `${slug}-data-${exportedAt.toISOString().slice(0, 10)}.zip`, zip: zipSync(files, { level: 6 }) };
   });
 }
@@ -129,11 +177,20 @@ export async function withdrawFarmData(member: Member, typedConfirmation: string
       .where(sql`${trialEnrolments.farmId} = ${farmId} and ${trialEnrolments.status} <> 'dropped'`)
       .returning({ id: trialEnrolments.id });
     const result: WithdrawalSummary = {
-      blocks: deletedBlocks.length, harvests: deletedHarvests.length, uploads: deletedUploads.length,
-      valueChanges: deletedChanges.length, trialEnrolmentsDropped: dropped.length,
+      blocks: deletedBlocks.length,
+      harvests: deletedHarvests.length,
+      uploads: deletedUploads.length,
+      valueChanges: deletedChanges.length,
+      trialEnrolmentsDropped: dropped.length,
       publishedTrialsNoted: noted.rows[0]?.trials ?? 0,
     };
-    const entry = { actorUserId: member.id, actorLabel: member.name, action: "farm.withdrew-data", subject: farm.name, details: { farmId, ...result } };
+    const entry = {
+      actorUserId: member.id,
+      actorLabel: member.name,
+      action: "farm.withdrew-data",
+      subject: farm.name,
+      details: { farmId, ...result },
+    };
     await recordAudit(tx, { ...entry, farmId });
     await recordAudit(tx, entry);
     return result;

@@ -112,7 +112,13 @@ async function pendingInvitations(tx: Transaction, farmId?: string): Promise<Pen
   const conditions = [eq(accessTokens.purpose, "invitation"), isNull(accessTokens.usedAt), gt(accessTokens.expiresAt, sql`now()`)];
   if (farmId) conditions.push(eq(accessTokens.farmId, farmId));
   return tx
-    .select({ id: accessTokens.id, email: accessTokens.email, role: accessTokens.role, farmId: accessTokens.farmId, expiresAt: accessTokens.expiresAt })
+    .select({
+      id: accessTokens.id,
+      email: accessTokens.email,
+      role: accessTokens.role,
+      farmId: accessTokens.farmId,
+      expiresAt: accessTokens.expiresAt,
+    })
     .from(accessTokens)
     .where(and(...conditions))
     .orderBy(desc(accessTokens.createdAt));
@@ -122,7 +128,14 @@ async function pendingInvitations(tx: Transaction, farmId?: string): Promise<Pen
 export async function listMembership(member: Member) {
   return withFarmContext(farmContextOf(member), async (tx) => ({
     farms: (await tx
-      .select({ id: farms.id, name: farms.name, region: farms.region, contactEmail: farms.contactEmail, status: farms.status, joinedAt: farms.joinedAt })
+      .select({
+        id: farms.id,
+        name: farms.name,
+        region: farms.region,
+        contactEmail: farms.contactEmail,
+        status: farms.status,
+        joinedAt: farms.joinedAt,
+      })
       .from(farms)
       .orderBy(asc(farms.name))) as FarmSummary[],
     people: (await tx.select(personColumns).from(users).orderBy(asc(users.name))) as PersonSummary[],
@@ -142,10 +155,24 @@ export async function listFarmPeople(member: Member) {
 
 export async function admitFarm(member: Member, input: { name: string; region: string; contactEmail: string }): Promise<string> {
   return withFarmContext(farmContextOf(member), async (tx) => {
-    const [existing] = await tx.select({ id: farms.id }).from(farms).where(sql`lower(${farms.name}) = lower(${input.name})`);
-    if (existing) throw new AppError("conflict", "A farm of that name is already a member.", [{ field: "name", message: "Choose a name no other member farm uses." }]);
-    const [farm] = await tx.insert(farms).values({ name: input.name, region: input.region, contactEmail: input.contactEmail || null }).returning({ id: farms.id });
-    await recordAudit(tx, { ...actor(member), action: "farm.admitted", subject: input.name, details: { farmId: farm.id, region: input.region } });
+    const [existing] = await tx
+      .select({ id: farms.id })
+      .from(farms)
+      .where(sql`lower(${farms.name}) = lower(${input.name})`);
+    if (existing)
+      throw new AppError("conflict", "A farm of that name is already a member.", [
+        { field: "name", message: "Choose a name no other member farm uses." },
+      ]);
+    const [farm] = await tx
+      .insert(farms)
+      .values({ name: input.name, region: input.region, contactEmail: input.contactEmail || null })
+      .returning({ id: farms.id });
+    await recordAudit(tx, {
+      ...actor(member),
+      action: "farm.admitted",
+      subject: input.name,
+      details: { farmId: farm.id, region: input.region },
+    });
     return farm.id;
   });
 }
@@ -154,7 +181,12 @@ export async function setFarmStatus(member: Member, farmId: string, status: Farm
   await withFarmContext(farmContextOf(member), async (tx) => {
     const [farm] = await tx.update(farms).set({ status }).where(eq(farms.id, farmId)).returning({ name: farms.name });
     if (!farm) throw new AppError("not_found", "That farm is not a member. Reload the page.");
-    await recordAudit(tx, { ...actor(member), action: `farm.${status === "active" ? "reinstated" : status}`, subject: farm.name, details: { farmId } });
+    await recordAudit(tx, {
+      ...actor(member),
+      action: `farm.${status === "active" ? "reinstated" : status}`,
+      subject: farm.name,
+      details: { farmId },
+    });
   });
 }
 
@@ -169,30 +201,62 @@ export async function inviteMember(member: Member, input: { email: string; role:
   const expiresAt = tokenExpiresAt("invitation", new Date());
   const email = input.email.trim().toLowerCase();
   const prepared = await withFarmContext(farmContextOf(member), async (tx) => {
-    const [taken] = await tx.select({ active: users.active }).from(users).where(and(sql`lower(${users.email}) = ${email}`, eq(users.active, true)));
-    if (taken) throw new AppError("conflict", "That address already belongs to an active member.", [{ field: "email", message: "This person can already sign in; change their role instead." }]);
+    const [taken] = await tx
+      .select({ active: users.active })
+      .from(users)
+      .where(and(sql`lower(${users.email}) = ${email}`, eq(users.active, true)));
+    if (taken)
+      throw new AppError("conflict", "That address already belongs to an active member.", [
+        { field: "email", message: "This person can already sign in; change their role instead." },
+      ]);
     let farmName: string | null = null;
     if (input.farmId) {
       const [farm] = await tx.select({ name: farms.name, status: farms.status }).from(farms).where(eq(farms.id, input.farmId));
       if (!farm) throw new AppError("not_found", "That farm is not a member.", [{ field: "farmId", message: "Choose a member farm." }]);
-      if (farm.status !== "active") throw new AppError("conflict", "That farm is suspended or removed: reinstate it before inviting its people.", [{ field: "farmId", message: "Choose an active farm." }]);
+      if (farm.status !== "active")
+        throw new AppError("conflict", "That farm is suspended or removed: reinstate it before inviting its people.", [
+          { field: "farmId", message: "Choose an active farm." },
+        ]);
       farmName = farm.name;
     }
-    await tx.insert(accessTokens).values({ purpose: "invitation", tokenHash, email, farmId: input.farmId, role: input.role, createdBy: member.id, expiresAt });
-    await recordAudit(tx, { ...actor(member), farmId: member.role === "farm_manager" ? member.farmId : null, action: "member.invited", subject: email, details: { role: input.role, farmId: input.farmId, expiresAt: expiresAt.toISOString() } });
+    await tx
+      .insert(accessTokens)
+      .values({ purpose: "invitation", tokenHash, email, farmId: input.farmId, role: input.role, createdBy: member.id, expiresAt });
+    await recordAudit(tx, {
+      ...actor(member),
+      farmId: member.role === "farm_manager" ? member.farmId : null,
+      action: "member.invited",
+      subject: email,
+      details: { role: input.role, farmId: input.farmId, expiresAt: expiresAt.toISOString() },
+    });
     const [settings] = await tx.select({ name: cooperativeSettings.name }).from(cooperativeSettings);
     return { farmName, cooperativeName: settings?.name ?? "your co-op" };
   });
-  await sendMail(invitationMessage({ to: email, inviterName: member.name, role: input.role, ...prepared, link: accessLink(appUrl(), "invitation", token), expiresAt }));
+  await sendMail(
+    invitationMessage({
+      to: email,
+      inviterName: member.name,
+      role: input.role,
+      ...prepared,
+      link: accessLink(appUrl(), "invitation", token),
+      expiresAt,
+    }),
+  );
 }
 
 async function peopleOfFarm(tx: Transaction, farmId: string | null): Promise<Person[]> {
   if (!farmId) return [];
-  return tx.select({ id: users.id, role: users.role, farmId: users.farmId, active: users.active }).from(users).where(eq(users.farmId, farmId));
+  return tx
+    .select({ id: users.id, role: users.role, farmId: users.farmId, active: users.active })
+    .from(users)
+    .where(eq(users.farmId, farmId));
 }
 
 async function findPerson(tx: Transaction, userId: string) {
-  const [target] = await tx.select({ ...personColumns }).from(users).where(eq(users.id, userId));
+  const [target] = await tx
+    .select({ ...personColumns })
+    .from(users)
+    .where(eq(users.id, userId));
   if (!target) throw new AppError("not_found", "That person is not a member you can see. Reload the page.");
   return target;
 }
@@ -204,9 +268,21 @@ export async function changeRole(member: Member, userId: string, newRole: Member
     const problem = roleChangeProblem(asPerson(member), target, newRole, await peopleOfFarm(tx, target.farmId));
     if (problem) throw new AppError("conflict", problem, [{ field: "role", message: problem }]);
     await tx.update(users).set({ role: newRole }).where(eq(users.id, userId));
-    await recordAudit(tx, { ...actor(member), action: "member.role-changed", subject: target.email, details: { userId, oldRole: target.role, newRole, farmId: target.farmId } });
+    await recordAudit(tx, {
+      ...actor(member),
+      action: "member.role-changed",
+      subject: target.email,
+      details: { userId, oldRole: target.role, newRole, farmId: target.farmId },
+    });
     const [farm] = target.farmId ? await tx.select({ name: farms.name }).from(farms).where(eq(farms.id, target.farmId)) : [];
-    return roleChangedMessage({ to: target.email, name: target.name, oldRole: target.role, newRole, changedBy: member.name, farmName: farm?.name ?? null });
+    return roleChangedMessage({
+      to: target.email,
+      name: target.name,
+      oldRole: target.role,
+      newRole,
+      changedBy: member.name,
+      farmName: farm?.name ?? null,
+    });
   });
   await sendMail(notice);
 }
@@ -237,8 +313,21 @@ export async function transferManagerRole(member: Member, userId: string): Promi
     // Promote first: the farm is never without a manager, and the demotion runs while we still are one.
     await tx.update(users).set({ role: "farm_manager" }).where(eq(users.id, target.id));
     await tx.update(users).set({ role: "grower" }).where(eq(users.id, member.id));
-    await recordAudit(tx, { ...actor(member), farmId: member.farmId, action: "member.manager-transferred", subject: target.email, details: { from: member.id, to: target.id } });
-    return roleChangedMessage({ to: target.email, name: target.name, oldRole: "grower", newRole: "farm_manager", changedBy: member.name, farmName: member.farmName });
+    await recordAudit(tx, {
+      ...actor(member),
+      farmId: member.farmId,
+      action: "member.manager-transferred",
+      subject: target.email,
+      details: { from: member.id, to: target.id },
+    });
+    return roleChangedMessage({
+      to: target.email,
+      name: target.name,
+      oldRole: "grower",
+      newRole: "farm_manager",
+      changedBy: member.name,
+      farmName: member.farmName,
+    });
   });
   await sendMail(notice);
 }
@@ -255,11 +344,14 @@ export async function requestPasswordReset(email: string, ip: string | null): Pr
   const expiresAt = tokenExpiresAt("password_reset", new Date());
   const address = email.trim().toLowerCase();
   const found = await withFarmContext(anonymous, async (tx) => {
-    const result = await tx.execute<{ user_id: string; name: string }>(sql`select * from app_create_password_reset(${address}, ${tokenHash}, ${expiresAt.toISOString()}::timestamptz)`);
+    const result = await tx.execute<{ user_id: string; name: string }>(
+      sql`select * from app_create_password_reset(${address}, ${tokenHash}, ${expiresAt.toISOString()}::timestamptz)`,
+    );
     await recordAudit(tx, { action: "password.reset-requested", subject: address, ip, details: { known: result.rows.length > 0 } });
     return result.rows[0];
   });
-  if (found) await sendMail(passwordResetMessage({ to: address, name: found.name, link: accessLink(appUrl(), "password_reset", token), expiresAt }));
+  if (found)
+    await sendMail(passwordResetMessage({ to: address, name: found.name, link: accessLink(appUrl(), "password_reset", token), expiresAt }));
 }
 
 export interface AccessTokenState {
@@ -274,9 +366,13 @@ export interface AccessTokenState {
 export async function getAccessTokenState(token: string): Promise<AccessTokenState | null> {
   if (!isWellFormedToken(token)) return null;
   return withFarmContext(anonymous, async (tx) => {
-    const result = await tx.execute<{ purpose: TokenPurpose; email: string; role: MemberRole | null; farm_name: string | null; state: AccessTokenState["state"] }>(
-      sql`select * from app_access_token_state(${hashToken(token)})`,
-    );
+    const result = await tx.execute<{
+      purpose: TokenPurpose;
+      email: string;
+      role: MemberRole | null;
+      farm_name: string | null;
+      state: AccessTokenState["state"];
+    }>(sql`select * from app_access_token_state(${hashToken(token)})`);
     const row = result.rows[0];
     return row ? { purpose: row.purpose, email: row.email, role: row.role, farmName: row.farm_name, state: row.state } : null;
   });
@@ -285,21 +381,35 @@ export async function getAccessTokenState(token: string): Promise<AccessTokenSta
 export type RedeemOutcome = { status: "accepted" | "reset"; email: string } | { status: "used" | "expired" | "unknown" | "taken" };
 
 /** Uses a one-time link: sets the password (and, for an invitation, makes the member). */
-export async function redeemAccessToken(token: string, purpose: TokenPurpose, input: { name: string; password: string }): Promise<RedeemOutcome> {
+export async function redeemAccessToken(
+  token: string,
+  purpose: TokenPurpose,
+  input: { name: string; password: string },
+): Promise<RedeemOutcome> {
   if (!isWellFormedToken(token)) return { status: "unknown" };
   const passwordHash = await hashPassword(input.password);
   return withFarmContext(anonymous, async (tx) => {
     const state = await tx.execute<{ purpose: TokenPurpose }>(sql`select purpose from app_access_token_state(${hashToken(token)})`);
     if (state.rows[0]?.purpose !== purpose) return { status: "unknown" } as const;
-    const result = await tx.execute<{ outcome: RedeemOutcome["status"]; user_id: string | null; farm_id: string | null; email: string | null; role: MemberRole | null }>(
-      sql`select * from app_redeem_access_token(${hashToken(token)}, ${input.name}, ${passwordHash})`,
-    );
+    const result = await tx.execute<{
+      outcome: RedeemOutcome["status"];
+      user_id: string | null;
+      farm_id: string | null;
+      email: string | null;
+      role: MemberRole | null;
+    }>(sql`select * from app_redeem_access_token(${hashToken(token)}, ${input.name}, ${passwordHash})`);
     const row = result.rows[0];
     if (!row || (row.outcome !== "accepted" && row.outcome !== "reset")) return { status: row?.outcome ?? "unknown" } as RedeemOutcome;
     // Recorded as the new member, on their farm's log when they have a farm and on the co-op's.
     await tx.execute(farmContextStatement({ userId: row.user_id, farmId: row.farm_id, role: "anonymous" }));
     const action = row.outcome === "accepted" ? "member.joined" : "password.reset";
-    const entry = { action, subject: row.email ?? "", actorUserId: row.user_id, actorLabel: input.name || (row.email ?? ""), details: { role: row.role } };
+    const entry = {
+      action,
+      subject: row.email ?? "",
+      actorUserId: row.user_id,
+      actorLabel: input.name || (row.email ?? ""),
+      details: { role: row.role },
+    };
     await recordAudit(tx, entry);
     if (row.farm_id) await recordAudit(tx, { ...entry, farmId: row.farm_id });
     return { status: row.outcome, email: row.email ?? "" };
@@ -324,10 +434,19 @@ export async function getAccountSettings(member: Member): Promise<AccountSetting
   });
 }
 
-export async function updatePreferences(member: Member, input: { displayUnits: "metric" | "imperial"; notifyReminders: boolean }): Promise<void> {
+export async function updatePreferences(
+  member: Member,
+  input: { displayUnits: "metric" | "imperial"; notifyReminders: boolean },
+): Promise<void> {
   await withFarmContext(farmContextOf(member), async (tx) => {
     await tx.update(users).set(input).where(eq(users.id, member.id));
-    await recordAudit(tx, { ...actor(member), farmId: member.farmId, action: "preferences.changed", subject: member.email, details: input });
+    await recordAudit(tx, {
+      ...actor(member),
+      farmId: member.farmId,
+      action: "preferences.changed",
+      subject: member.email,
+      details: input,
+    });
   });
 }
 
@@ -338,7 +457,9 @@ export async function changePassword(member: Member, currentPassword: string, ne
     const [row] = await tx.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, member.id));
     const matches = await verifyPassword(currentPassword, row?.passwordHash ?? (await unknownUserHash()));
     if (!row?.passwordHash || !matches) {
-      throw new AppError("invalid_input", "Your current password is not right.", [{ field: "currentPassword", message: "Type the password you signed in with." }]);
+      throw new AppError("invalid_input", "Your current password is not right.", [
+        { field: "currentPassword", message: "Type the password you signed in with." },
+      ]);
     }
     await tx.update(users).set({ passwordHash: newHash }).where(eq(users.id, member.id));
     await recordAudit(tx, { ...actor(member), farmId: member.farmId, action: "password.changed", subject: member.email });

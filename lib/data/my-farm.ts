@@ -17,12 +17,20 @@ export interface MyFarmPage {
 
 /** This season (blocks inoculated in the last 365 days, or with no date) of the member's own farm, beside the co-op. */
 export async function getMyFarm(member: Member): Promise<MyFarmPage> {
-  if (!member.farmId) throw new AppError("forbidden", "My farm is for farm managers and growers; your role belongs to the co-op as a whole.");
+  if (!member.farmId)
+    throw new AppError("forbidden", "My farm is for farm managers and growers; your role belongs to the co-op as a whole.");
   const seasonStartedOn = new Date(Date.now() - 365 * 86_400_000).toISOString().slice(0, 10);
   const blocks = await withFarmContext(farmContextOf(member), async (tx) => {
     const result = await tx.execute<{
-      id: string; strain_id: string; strain_name: string; species_name: string; contaminated: boolean;
-      wet_g: number | null; moisture: number | null; spent_g: number | null; harvests: { flush: number; freshG: number }[] | null;
+      id: string;
+      strain_id: string;
+      strain_name: string;
+      species_name: string;
+      contaminated: boolean;
+      wet_g: number | null;
+      moisture: number | null;
+      spent_g: number | null;
+      harvests: { flush: number; freshG: number }[] | null;
     }>(sql`
       select b.id, b.strain_id, s.name as strain_name, sp.common_name as species_name, b.contaminated,
         b.wet_mass_g::float8 as wet_g, b.moisture::float8 as moisture, b.spent_mass_g::float8 as spent_g,

@@ -3,10 +3,27 @@ import { randomUUID } from "node:crypto";
 import { and, asc, eq, inArray, sql } from "drizzle-orm";
 import { keptUntilChanged } from "@/db/change-feed";
 import { readAsAnalyst, withAnalystAccess, withFarmContext } from "@/db/client";
-import { cooperativeSettings, farmFlushStatistics, farmStrainStatistics, species, strains, substrateRecipes, treatments } from "@/db/schema";
+import {
+  cooperativeSettings,
+  farmFlushStatistics,
+  farmStrainStatistics,
+  species,
+  strains,
+  substrateRecipes,
+  treatments,
+} from "@/db/schema";
 import { farmContextOf, type Member } from "@/lib/data/members";
 import { AppError } from "@/lib/errors";
-import { addBins, buildPooledResults, ownBlocksForChart, pooledFlushProfile, type FlushWindow, type OwnStrainBlocks, type PooledFilters, type PooledResults } from "@/lib/pooled";
+import {
+  addBins,
+  buildPooledResults,
+  ownBlocksForChart,
+  pooledFlushProfile,
+  type FlushWindow,
+  type OwnStrainBlocks,
+  type PooledFilters,
+  type PooledResults,
+} from "@/lib/pooled";
 import type { FlushProfile } from "@/lib/stats";
 import { seededRandom } from "@/lib/random";
 
@@ -52,7 +69,9 @@ export interface PooledResultsPage {
 export const getPooledUpdating = keptUntilChanged(
   "pooled-statistics",
   async (): Promise<boolean> => {
-    const [row] = await readAsAnalyst<{ pending: boolean }>(sql`select exists (select 1 from pooled_refresh_state where requested > completed) as pending`);
+    const [row] = await readAsAnalyst<{ pending: boolean }>(
+      sql`select exists (select 1 from pooled_refresh_state where requested > completed) as pending`,
+    );
     return Boolean(row?.pending);
   },
   () => "",
@@ -60,7 +79,9 @@ export const getPooledUpdating = keptUntilChanged(
 
 export async function getCooperativePrivacySettings(): Promise<{ minimumFarms: number; showPerFarmEstimates: boolean }> {
   return withAnalystAccess(async (tx) => {
-    const [row] = await tx.select({ minimumFarms: cooperativeSettings.minimumFarms, showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates }).from(cooperativeSettings);
+    const [row] = await tx
+      .select({ minimumFarms: cooperativeSettings.minimumFarms, showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates })
+      .from(cooperativeSettings);
     return row ?? { minimumFarms: 3, showPerFarmEstimates: false };
   });
 }
@@ -105,7 +126,14 @@ const keptPooledResults = keptUntilChanged(
 
 /** What a results page depends on besides the database: the query, the viewer's farm (and role, where their own blocks are shown). */
 function resultsKey(member: Member, query: PooledResultsQuery, role: Member["role"] | null): string {
-  return JSON.stringify([query.speciesId ?? null, query.substrateRecipeId ?? null, query.fruitingMethodId ?? null, query.flushWindow, member.farmId, role]);
+  return JSON.stringify([
+    query.speciesId ?? null,
+    query.substrateRecipeId ?? null,
+    query.fruitingMethodId ?? null,
+    query.flushWindow,
+    member.farmId,
+    role,
+  ]);
 }
 
 async function computePooledResults(member: Member, query: PooledResultsQuery): Promise<Omit<PooledResultsPage, "ownBlocks" | "updating">> {
@@ -116,7 +144,10 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
     if (query.speciesId && !speciesList.some((entry) => entry.id === query.speciesId)) {
       throw new AppError("not_found", "That species is not in the co-op's list. Choose one from the list.");
     }
-    const recipes = await tx.select({ id: substrateRecipes.id, name: substrateRecipes.name }).from(substrateRecipes).orderBy(asc(substrateRecipes.name));
+    const recipes = await tx
+      .select({ id: substrateRecipes.id, name: substrateRecipes.name })
+      .from(substrateRecipes)
+      .orderBy(asc(substrateRecipes.name));
     const methods = await tx
       .select({ id: treatments.id, name: treatments.name })
       .from(treatments)
@@ -141,10 +172,7 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
       })
       .from(farmStrainStatistics)
       .where(and(eq(farmStrainStatistics.speciesId, speciesId), eq(farmStrainStatistics.flushWindow, query.flushWindow)));
-    const flushRows = await tx
-      .select(flushStatisticsColumns)
-      .from(farmFlushStatistics)
-      .where(eq(farmFlushStatistics.speciesId, speciesId));
+    const flushRows = await tx.select(flushStatisticsColumns).from(farmFlushStatistics).where(eq(farmFlushStatistics.speciesId, speciesId));
     return { settings, speciesList, recipes, methods, speciesId, rows, flushRows, strainList };
   });
 
@@ -198,7 +226,8 @@ async function listOwnBlocks(member: Member, speciesId: string, window: FlushWin
 const keptOwnBlocks = keptUntilChanged(
   "blocks-and-harvests",
   listOwnBlocks,
-  (member, speciesId, window, filters) => JSON.stringify([member.farmId, member.role, speciesId, window, filters.substrateRecipeId ?? null, filters.fruitingMethodId ?? null]),
+  (member, speciesId, window, filters) =>
+    JSON.stringify([member.farmId, member.role, speciesId, window, filters.substrateRecipeId ?? null, filters.fruitingMethodId ?? null]),
   200,
 );
 
@@ -214,13 +243,20 @@ export interface CoopStrainBenchmark {
  * each only where at least the minimum number of farms contributed. For My farm's percentile
  * and forecast; the bins never leave the server, only figures computed from them.
  */
-export async function getCoopStrainBenchmarks(strainIds: string[]): Promise<{ minimumFarms: number; byStrain: Map<string, CoopStrainBenchmark> }> {
+export async function getCoopStrainBenchmarks(
+  strainIds: string[],
+): Promise<{ minimumFarms: number; byStrain: Map<string, CoopStrainBenchmark> }> {
   if (strainIds.length === 0) return { minimumFarms: 3, byStrain: new Map() };
   return withAnalystAccess(async (tx) => {
     const [settings] = await tx.select({ minimumFarms: cooperativeSettings.minimumFarms }).from(cooperativeSettings);
     const minimumFarms = settings?.minimumFarms ?? 3;
     const rows = await tx
-      .select({ farmId: farmStrainStatistics.farmId, strainId: farmStrainStatistics.strainId, efficiencyBlocks: farmStrainStatistics.efficiencyBlocks, bins: farmStrainStatistics.efficiencyBins })
+      .select({
+        farmId: farmStrainStatistics.farmId,
+        strainId: farmStrainStatistics.strainId,
+        efficiencyBlocks: farmStrainStatistics.efficiencyBlocks,
+        bins: farmStrainStatistics.efficiencyBins,
+      })
       .from(farmStrainStatistics)
       .where(and(inArray(farmStrainStatistics.strainId, strainIds), eq(farmStrainStatistics.flushWindow, "all")));
     const flushRows = await tx

@@ -14,7 +14,11 @@ export interface CooperativePrivacySettings {
 export async function getCooperativeSettingsForEditing(member: Member): Promise<CooperativePrivacySettings & { name: string }> {
   return withFarmContext(farmContextOf(member), async (tx) => {
     const [row] = await tx
-      .select({ name: cooperativeSettings.name, minimumFarms: cooperativeSettings.minimumFarms, showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates })
+      .select({
+        name: cooperativeSettings.name,
+        minimumFarms: cooperativeSettings.minimumFarms,
+        showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates,
+      })
       .from(cooperativeSettings);
     if (!row) throw new AppError("not_found", "The co-op has no settings row yet; run the set-up (npm start) first.");
     return row;
@@ -24,7 +28,9 @@ export async function getCooperativeSettingsForEditing(member: Member): Promise<
 /** Changes who counts as "enough farms" and whether anonymised per-farm estimates are shown; audited. */
 export async function updateCooperativePrivacySettings(member: Member, next: CooperativePrivacySettings): Promise<void> {
   await withFarmContext(farmContextOf(member), async (tx) => {
-    const [before] = await tx.select({ minimumFarms: cooperativeSettings.minimumFarms, showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates }).from(cooperativeSettings);
+    const [before] = await tx
+      .select({ minimumFarms: cooperativeSettings.minimumFarms, showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates })
+      .from(cooperativeSettings);
     const updated = await tx
       .update(cooperativeSettings)
       .set({ minimumFarms: next.minimumFarms, showPerFarmEstimates: next.showPerFarmEstimates, updatedAt: sql`now()` })

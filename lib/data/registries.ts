@@ -16,7 +16,10 @@ type Status = "proposed" | "active" | "retired";
  */
 async function blocksPerStrain(): Promise<Map<string, number>> {
   const rows = await withAnalystAccess((tx) =>
-    tx.select({ strainId: blocks.strainId, count: sql<number>`count(*)::int` }).from(blocks).groupBy(blocks.strainId),
+    tx
+      .select({ strainId: blocks.strainId, count: sql<number>`count(*)::int` })
+      .from(blocks)
+      .groupBy(blocks.strainId),
   );
   return new Map(rows.map((row) => [row.strainId, row.count]));
 }
@@ -36,33 +39,56 @@ export async function listRegistries(member: Member) {
   });
 }
 
-async function insertEntry(tx: Transaction, row: RegistryRow, status: Status, proposedBy: string | null, speciesIdByName: Map<string, string>): Promise<string> {
+async function insertEntry(
+  tx: Transaction,
+  row: RegistryRow,
+  status: Status,
+  proposedBy: string | null,
+  speciesIdByName: Map<string, string>,
+): Promise<string> {
   switch (row.kind) {
     case "species": {
-      const [created] = await tx.insert(species).values({ scientificName: row.scientificName, commonName: row.commonName, status, proposedBy }).returning({ id: species.id });
+      const [created] = await tx
+        .insert(species)
+        .values({ scientificName: row.scientificName, commonName: row.commonName, status, proposedBy })
+        .returning({ id: species.id });
       return created.id;
     }
     case "strains": {
       const speciesId = speciesIdByName.get(row.species.toLowerCase());
-      if (!speciesId) throw new AppError("invalid_input", `Species "${row.species}" is not in the registry.`, [{ field: "species", message: "Choose a species from the registry, or propose it first." }]);
-      const [created] = await tx.insert(strains).values({ code: row.code, speciesId, name: row.name, source: row.source, notes: row.notes, status, proposedBy }).returning({ id: strains.id });
+      if (!speciesId)
+        throw new AppError("invalid_input", `Species "${row.species}" is not in the registry.`, [
+          { field: "species", message: "Choose a species from the registry, or propose it first." },
+        ]);
+      const [created] = await tx
+        .insert(strains)
+        .values({ code: row.code, speciesId, name: row.name, source: row.source, notes: row.notes, status, proposedBy })
+        .returning({ id: strains.id });
       return created.id;
     }
     case "substrate_recipes": {
       const { kind: _kind, ...values } = row;
       void _kind;
-      const [created] = await tx.insert(substrateRecipes).values({ ...values, status, proposedBy }).returning({ id: substrateRecipes.id });
+      const [created] = await tx
+        .insert(substrateRecipes)
+        .values({ ...values, status, proposedBy })
+        .returning({ id: substrateRecipes.id });
       return created.id;
     }
     case "treatments": {
-      const [created] = await tx.insert(treatments).values({ code: row.code, name: row.name, kind: row.treatmentKind, description: row.description, status, proposedBy }).returning({ id: treatments.id });
+      const [created] = await tx
+        .insert(treatments)
+        .values({ code: row.code, name: row.name, kind: row.treatmentKind, description: row.description, status, proposedBy })
+        .returning({ id: treatments.id });
       return created.id;
     }
   }
 }
 
 async function speciesLookup(tx: Transaction): Promise<Map<string, string>> {
-  const rows = await tx.select({ id: species.id, scientificName: species.scientificName, commonName: species.commonName, status: species.status }).from(species);
+  const rows = await tx
+    .select({ id: species.id, scientificName: species.scientificName, commonName: species.commonName, status: species.status })
+    .from(species);
   const byName = new Map<string, string>();
   for (const row of rows) {
     if (row.status !== "active") continue;
@@ -75,7 +101,10 @@ async function speciesLookup(tx: Transaction): Promise<Map<string, string>> {
 
 function duplicateProblem(error: unknown): AppError | null {
   const cause = (error as { cause?: { code?: string } }).cause ?? (error as { code?: string });
-  if (cause?.code === "23505") return new AppError("conflict", "That code or name is already in the registry.", [{ field: "code", message: "Choose a code no other entry uses." }]);
+  if (cause?.code === "23505")
+    return new AppError("conflict", "That code or name is already in the registry.", [
+      { field: "code", message: "Choose a code no other entry uses." },
+    ]);
   return null;
 }
 
@@ -86,8 +115,11 @@ export async function createRegistryEntry(member: Member, row: RegistryRow): Pro
     await withFarmContext(farmContextOf(member), async (tx) => {
       const id = await insertEntry(tx, row, status, member.role === "coordinator" ? null : member.id, await speciesLookup(tx));
       await recordAudit(tx, {
-        actorUserId: member.id, actorLabel: member.name, action: status === "active" ? "registry.added" : "registry.proposed",
-        subject: "code" in row ? row.code : row.scientificName, details: { registry: row.kind, id },
+        actorUserId: member.id,
+        actorLabel: member.name,
+        action: status === "active" ? "registry.added" : "registry.proposed",
+        subject: "code" in row ? row.code : row.scientificName,
+        details: { registry: row.kind, id },
       });
     });
   } catch (error) {
@@ -100,7 +132,12 @@ export async function createRegistryEntry(member: Member, row: RegistryRow): Pro
  * The coordinator approves a proposal, retires or reinstates an entry, or deletes one. A strain
  * that any block or trial uses can be retired but never deleted; the foreign keys hold that too.
  */
-export async function moveRegistryEntry(member: Member, kind: RegistryKind, id: string, move: "approve" | "retire" | "reinstate" | "delete"): Promise<void> {
+export async function moveRegistryEntry(
+  member: Member,
+  kind: RegistryKind,
+  id: string,
+  move: "approve" | "retire" | "reinstate" | "delete",
+): Promise<void> {
   if (member.role !== "coordinator") throw new AppError("forbidden", "Only the coordinator approves, retires or deletes registry entries.");
   const inUse = kind === "strains" && move === "delete" ? ((await blocksPerStrain()).get(id) ?? 0) : 0;
   await withFarmContext(farmContextOf(member), async (tx) => {
@@ -112,7 +149,10 @@ export async function moveRegistryEntry(member: Member, kind: RegistryKind, id: 
       if (kind === "strains") {
         const [arm] = await tx.select({ id: trialArms.id }).from(trialArms).where(eq(trialArms.strainId, id)).limit(1);
         if (inUse > 0 || arm) {
-          throw new AppError("conflict", `${label} has data (${inUse} blocks${arm ? " and a trial arm" : ""}): retire it instead, so past records keep their strain.`);
+          throw new AppError(
+            "conflict",
+            `${label} has data (${inUse} blocks${arm ? " and a trial arm" : ""}): retire it instead, so past records keep their strain.`,
+          );
         }
       }
       try {
@@ -125,7 +165,13 @@ export async function moveRegistryEntry(member: Member, kind: RegistryKind, id: 
       const changed = await tx.update(table).set({ status }).where(eq(table.id, id)).returning({ id: table.id });
       if (changed.length === 0) throw new AppError("forbidden", "The registry entry could not be changed from your role.");
     }
-    await recordAudit(tx, { actorUserId: member.id, actorLabel: member.name, action: `registry.${move === "approve" ? "approved" : move === "delete" ? "deleted" : `${move}d`}`, subject: label, details: { registry: kind, id } });
+    await recordAudit(tx, {
+      actorUserId: member.id,
+      actorLabel: member.name,
+      action: `registry.${move === "approve" ? "approved" : move === "delete" ? "deleted" : `${move}d`}`,
+      subject: label,
+      details: { registry: kind, id },
+    });
   });
 }
 
@@ -134,16 +180,35 @@ export async function importRegistryCsv(member: Member, kind: RegistryKind, text
   if (member.role !== "coordinator") throw new AppError("forbidden", "Only the coordinator imports registry lists.");
   const { rows, problems } = parseRegistryCsv(kind, text);
   if (problems.length) {
-    throw new AppError("invalid_input", `Nothing was imported: ${problems.length} problem${problems.length === 1 ? "" : "s"} to fix in the file.`, [
-      { field: "file", message: problems.slice(0, 20).map(describeProblem).join(" · ") },
-    ]);
+    throw new AppError(
+      "invalid_input",
+      `Nothing was imported: ${problems.length} problem${problems.length === 1 ? "" : "s"} to fix in the file.`,
+      [{ field: "file", message: problems.slice(0, 20).map(describeProblem).join(" · ") }],
+    );
   }
   return withFarmContext(farmContextOf(member), async (tx) => {
     const lookup = await speciesLookup(tx);
     const table = tables[kind];
-    const existing = kind === "species"
-      ? await tx.select({ key: species.scientificName }).from(species).where(inArray(sql`lower(${species.scientificName})`, rows.map((row) => (row.kind === "species" ? row.scientificName.toLowerCase() : ""))))
-      : await tx.select({ key: sql<string>`code` }).from(table).where(inArray(sql`code`, rows.map((row) => ("code" in row ? row.code : ""))));
+    const existing =
+      kind === "species"
+        ? await tx
+            .select({ key: species.scientificName })
+            .from(species)
+            .where(
+              inArray(
+                sql`lower(${species.scientificName})`,
+                rows.map((row) => (row.kind === "species" ? row.scientificName.toLowerCase() : "")),
+              ),
+            )
+        : await tx
+            .select({ key: sql<string>`code` })
+            .from(table)
+            .where(
+              inArray(
+                sql`code`,
+                rows.map((row) => ("code" in row ? row.code : "")),
+              ),
+            );
     if (existing.length) {
       throw new AppError("invalid_input", "Nothing was imported: some entries are already in the registry.", [
         { field: "file", message: `Already there: ${existing.map((row) => row.key).join(", ")}. Remove those lines and import again.` },
@@ -153,11 +218,18 @@ export async function importRegistryCsv(member: Member, kind: RegistryKind, text
       try {
         await insertEntry(tx, row, "active", null, lookup);
       } catch (error) {
-        if (error instanceof AppError) throw new AppError("invalid_input", "Nothing was imported.", [{ field: "file", message: `Line ${index + 2}: ${error.message}` }]);
+        if (error instanceof AppError)
+          throw new AppError("invalid_input", "Nothing was imported.", [{ field: "file", message: `Line ${index + 2}: ${error.message}` }]);
         throw error;
       }
     }
-    await recordAudit(tx, { actorUserId: member.id, actorLabel: member.name, action: "registry.imported", subject: kind, details: { rows: rows.length } });
+    await recordAudit(tx, {
+      actorUserId: member.id,
+      actorLabel: member.name,
+      action: "registry.imported",
+      subject: kind,
+      details: { rows: rows.length },
+    });
     return rows.length;
   });
 }

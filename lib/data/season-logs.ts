@@ -4,7 +4,18 @@ import { gunzipSync, gzipSync } from "node:zlib";
 import { and, desc, eq, sql } from "drizzle-orm";
 import { v7 as timeOrderedId } from "uuid";
 import { withFarmContext, type FarmContext, type Transaction } from "@/db/client";
-import { blocks, farmImportPreferences, harvests, strains, substrateRecipes, treatments, trialArms, trialBlockAssignments, trials, uploads } from "@/db/schema";
+import {
+  blocks,
+  farmImportPreferences,
+  harvests,
+  strains,
+  substrateRecipes,
+  treatments,
+  trialArms,
+  trialBlockAssignments,
+  trials,
+  uploads,
+} from "@/db/schema";
 import { createSeasonLogParser, type SeasonLogParserOptions, type SeasonLogResult, type TemplateCodes } from "@/lib/import";
 import { AppError } from "@/lib/errors";
 import { recordAudit } from "@/lib/data/audit";
@@ -67,7 +78,15 @@ const summaryColumns = {
   committedAt: uploads.committedAt,
 };
 
-function summary(row: { id: string; fileName: string; uploadedAt: Date; outcome: UploadSummary["outcome"]; sizeBytes: number; rowCount: number; committedAt: Date | null }): UploadSummary {
+function summary(row: {
+  id: string;
+  fileName: string;
+  uploadedAt: Date;
+  outcome: UploadSummary["outcome"];
+  sizeBytes: number;
+  rowCount: number;
+  committedAt: Date | null;
+}): UploadSummary {
   return { ...row, uploadedAt: iso(row.uploadedAt)!, committedAt: iso(row.committedAt) };
 }
 
@@ -94,7 +113,13 @@ export async function getTemplateCodes(context: FarmContext): Promise<TemplateCo
     const active = <T extends { code: string }>(rows: T[]) => rows.map((row) => row.code);
     return {
       strains: active(await tx.select({ code: strains.code }).from(strains).where(eq(strains.status, "active")).orderBy(strains.code)),
-      substrates: active(await tx.select({ code: substrateRecipes.code }).from(substrateRecipes).where(eq(substrateRecipes.status, "active")).orderBy(substrateRecipes.code)),
+      substrates: active(
+        await tx
+          .select({ code: substrateRecipes.code })
+          .from(substrateRecipes)
+          .where(eq(substrateRecipes.status, "active"))
+          .orderBy(substrateRecipes.code),
+      ),
       fruitingMethods: active(
         await tx
           .select({ code: treatments.code })
@@ -107,7 +132,12 @@ export async function getTemplateCodes(context: FarmContext): Promise<TemplateCo
 }
 
 /** Parses bytes already in memory (a stored upload) with the grower's choices. */
-export function parseStored(content: Uint8Array, setup: ImportSetup, choices: ParseChoices, extra: Partial<SeasonLogParserOptions> = {}): SeasonLogResult {
+export function parseStored(
+  content: Uint8Array,
+  setup: ImportSetup,
+  choices: ParseChoices,
+  extra: Partial<SeasonLogParserOptions> = {},
+): SeasonLogResult {
   const parser = createSeasonLogParser({ ...parserOptions(choices, setup.knownStrains), ...extra });
   const slice = 1024 * 1024;
   for (let start = 0; start < content.length; start += slice) parser.write(content.subarray(start, start + slice));
@@ -138,21 +168,48 @@ async function loadPlanInput(tx: Transaction, farmId: string): Promise<Omit<Plan
   // statistics still say the tables are small, and it joined 100 000 harvests by nested loop.
   const codeOfBlock = new Map(storedBlocks.map((block) => [block.id, block.code]));
   const harvestRows = await tx
-    .select({ id: harvests.id, blockId: harvests.blockId, flush: harvests.flush, harvestedOn: harvests.harvestedOn, freshMassG: harvests.freshMassG, dryMassG: harvests.dryMassG })
+    .select({
+      id: harvests.id,
+      blockId: harvests.blockId,
+      flush: harvests.flush,
+      harvestedOn: harvests.harvestedOn,
+      freshMassG: harvests.freshMassG,
+      dryMassG: harvests.dryMassG,
+    })
     .from(harvests)
     .where(eq(harvests.farmId, farmId));
   const storedHarvests = harvestRows.map(({ blockId, ...harvest }) => ({ ...harvest, blockCode: codeOfBlock.get(blockId) ?? "" }));
   const strainRows = await tx.select({ id: strains.id, code: strains.code }).from(strains).where(eq(strains.status, "active"));
-  const recipeRows = await tx.select({ id: substrateRecipes.id, code: substrateRecipes.code }).from(substrateRecipes).where(eq(substrateRecipes.status, "active"));
-  const methodRows = await tx.select({ id: treatments.id, code: treatments.code }).from(treatments).where(and(eq(treatments.status, "active"), eq(treatments.kind, "fruiting_method")));
+  const recipeRows = await tx
+    .select({ id: substrateRecipes.id, code: substrateRecipes.code })
+    .from(substrateRecipes)
+    .where(eq(substrateRecipes.status, "active"));
+  const methodRows = await tx
+    .select({ id: treatments.id, code: treatments.code })
+    .from(treatments)
+    .where(and(eq(treatments.status, "active"), eq(treatments.kind, "fruiting_method")));
   const assignmentRows = await tx
-    .select({ blockCode: trialBlockAssignments.blockCode, armId: trialArms.id, armLabel: trialArms.label, trialCode: trials.code, strainId: strains.id, strainCode: strains.code })
+    .select({
+      blockCode: trialBlockAssignments.blockCode,
+      armId: trialArms.id,
+      armLabel: trialArms.label,
+      trialCode: trials.code,
+      strainId: strains.id,
+      strainCode: strains.code,
+    })
     .from(trialBlockAssignments)
     .innerJoin(trialArms, eq(trialArms.id, trialBlockAssignments.armId))
     .innerJoin(trials, eq(trials.id, trialBlockAssignments.trialId))
     .innerJoin(strains, eq(strains.id, trialArms.strainId))
     .where(eq(trialBlockAssignments.farmId, farmId));
-  return { storedBlocks, storedHarvests, strains: strainRows, substrateRecipes: recipeRows, fruitingMethods: methodRows, assignments: assignmentRows };
+  return {
+    storedBlocks,
+    storedHarvests,
+    strains: strainRows,
+    substrateRecipes: recipeRows,
+    fruitingMethods: methodRows,
+    assignments: assignmentRows,
+  };
 }
 
 async function committedBefore(tx: Transaction, farmId: string, sha256: string, except?: string): Promise<Date | null> {
@@ -188,7 +245,12 @@ function todayUtc(): string {
  * again: packed, then gzip (under a third of the packed size, so cheaper to store and read
  * back), as base64 text.
  */
-function stagedParseOf(outcome: UploadSummary["outcome"], choices: ParseChoices, knownStrains: readonly string[], result: SeasonLogResult): string | null {
+function stagedParseOf(
+  outcome: UploadSummary["outcome"],
+  choices: ParseChoices,
+  knownStrains: readonly string[],
+  result: SeasonLogResult,
+): string | null {
   if (outcome !== "received") return null;
   return gzipSync(packParse(stagingKey(choices, knownStrains, todayUtc()), result), { level: 1 }).toString("base64");
 }
@@ -207,7 +269,13 @@ export async function createUpload(
     const alreadyImportedAt = await committedBefore(tx, farm.farmId, sha256);
     const planInput = await loadPlanInput(tx, farm.farmId);
     const plan = planCommit({ records: input.result.records, ...planInput });
-    const report = buildReport({ rowCount: input.result.records.length, parserIssues: input.result.issues, plan, detected: input.result.detected, choices: input.choices });
+    const report = buildReport({
+      rowCount: input.result.records.length,
+      parserIssues: input.result.issues,
+      plan,
+      detected: input.result.detected,
+      choices: input.choices,
+    });
     const outcome = outcomeOf(report, alreadyImportedAt);
     const [row] = await tx
       .insert(uploads)
@@ -222,7 +290,12 @@ export async function createUpload(
         rowCount: report.rowCount,
         report,
         options: input.choices,
-        stagedParse: stagedParseOf(outcome, input.choices, planInput.strains.map((strain) => strain.code), input.result),
+        stagedParse: stagedParseOf(
+          outcome,
+          input.choices,
+          planInput.strains.map((strain) => strain.code),
+          input.result,
+        ),
       })
       .returning(summaryColumns);
     await recordAudit(tx, {
@@ -230,7 +303,13 @@ export async function createUpload(
       subject: input.fileName,
       farmId: farm.farmId,
       actorUserId: farm.userId,
-      details: { uploadId: row.id, rows: report.rowCount, errors: report.errorCount, warnings: report.warningCount, alreadyImported: alreadyImportedAt !== null },
+      details: {
+        uploadId: row.id,
+        rows: report.rowCount,
+        errors: report.errorCount,
+        warnings: report.warningCount,
+        alreadyImported: alreadyImportedAt !== null,
+      },
     });
     return viewOf(summary(row), report, alreadyImportedAt);
   });
@@ -242,7 +321,10 @@ const notYours = "That upload is not one of your farm's. Pick it again from the 
 async function storedUpload(context: FarmMemberContext, uploadId: string) {
   if (!uuidPattern.test(uploadId)) throw new AppError("not_found", notYours);
   const [row] = await withFarmContext(context, (tx) =>
-    tx.select({ ...summaryColumns, sha256: uploads.sha256, report: uploads.report }).from(uploads).where(eq(uploads.id, uploadId)),
+    tx
+      .select({ ...summaryColumns, sha256: uploads.sha256, report: uploads.report })
+      .from(uploads)
+      .where(eq(uploads.id, uploadId)),
   );
   if (!row) throw new AppError("not_found", notYours);
   return row;
@@ -250,7 +332,9 @@ async function storedUpload(context: FarmMemberContext, uploadId: string) {
 
 /** The file's bytes, read only when they are needed: they can be tens of megabytes. */
 async function storedContent(context: FarmMemberContext, uploadId: string): Promise<Buffer> {
-  const [row] = await withFarmContext(context, (tx) => tx.select({ content: uploads.content }).from(uploads).where(eq(uploads.id, uploadId)));
+  const [row] = await withFarmContext(context, (tx) =>
+    tx.select({ content: uploads.content }).from(uploads).where(eq(uploads.id, uploadId)),
+  );
   if (!row) throw new AppError("not_found", notYours);
   return row.content;
 }
@@ -265,7 +349,8 @@ async function rememberChoices(tx: Transaction, farmId: string, choices: ParseCh
 export async function recheckUpload(context: FarmContext, uploadId: string, choices: ParseChoices): Promise<UploadView> {
   const farm = farmOf(context);
   const stored = await storedUpload(farm, uploadId);
-  if (stored.outcome === "committed") throw new AppError("conflict", "This upload is already committed. Upload the file again to check it against what is stored now.");
+  if (stored.outcome === "committed")
+    throw new AppError("conflict", "This upload is already committed. Upload the file again to check it against what is stored now.");
   const setup = await getImportSetup(farm);
   const result = parseStored(await storedContent(farm, uploadId), setup, choices);
   return withFarmContext(farm, async (tx) => {
@@ -274,8 +359,17 @@ export async function recheckUpload(context: FarmContext, uploadId: string, choi
     const plan = planCommit({ records: result.records, ...planInput });
     const report = buildReport({ rowCount: result.records.length, parserIssues: result.issues, plan, detected: result.detected, choices });
     const outcome = outcomeOf(report, alreadyImportedAt);
-    const stagedParse = stagedParseOf(outcome, choices, planInput.strains.map((strain) => strain.code), result);
-    const [row] = await tx.update(uploads).set({ report, options: choices, rowCount: report.rowCount, outcome, stagedParse }).where(eq(uploads.id, uploadId)).returning(summaryColumns);
+    const stagedParse = stagedParseOf(
+      outcome,
+      choices,
+      planInput.strains.map((strain) => strain.code),
+      result,
+    );
+    const [row] = await tx
+      .update(uploads)
+      .set({ report, options: choices, rowCount: report.rowCount, outcome, stagedParse })
+      .where(eq(uploads.id, uploadId))
+      .returning(summaryColumns);
     await rememberChoices(tx, farm.farmId, choices);
     return viewOf(summary(row), report, alreadyImportedAt);
   });
@@ -285,8 +379,15 @@ export async function recheckUpload(context: FarmContext, uploadId: string, choi
  * The upload's staged parse when it was made with these choices, today's strain register and
  * today's date (so it equals a fresh parse); otherwise the stored file, read again.
  */
-async function parseForCommit(context: FarmMemberContext, uploadId: string, setup: ImportSetup, choices: ParseChoices): Promise<SeasonLogResult> {
-  const [row] = await withFarmContext(context, (tx) => tx.select({ stagedParse: uploads.stagedParse }).from(uploads).where(eq(uploads.id, uploadId)));
+async function parseForCommit(
+  context: FarmMemberContext,
+  uploadId: string,
+  setup: ImportSetup,
+  choices: ParseChoices,
+): Promise<SeasonLogResult> {
+  const [row] = await withFarmContext(context, (tx) =>
+    tx.select({ stagedParse: uploads.stagedParse }).from(uploads).where(eq(uploads.id, uploadId)),
+  );
   const packed = row?.stagedParse ? gunzipSync(Buffer.from(row.stagedParse, "base64")).toString("utf8") : null;
   const staged = packed ? unpackParse(packed, stagingKey(choices, setup.knownStrains, todayUtc())) : null;
   return staged ?? parseStored(await storedContent(context, uploadId), setup, choices);
@@ -335,7 +436,11 @@ function idsInOrder(): () => string {
 }
 
 function refuseIfChanged(updated: number | null, expected: number): void {
-  if (updated !== expected) throw new AppError("conflict", "The farm's blocks changed while the file was being committed, so nothing was saved. Check the file again and commit it.");
+  if (updated !== expected)
+    throw new AppError(
+      "conflict",
+      "The farm's blocks changed while the file was being committed, so nothing was saved. Check the file again and commit it.",
+    );
 }
 
 /**
@@ -428,7 +533,8 @@ async function writePlan(tx: Transaction, farmId: string, userId: string, upload
 export async function commitUpload(context: FarmContext, uploadId: string, choices: ParseChoices): Promise<CommitReceipt> {
   const farm = farmOf(context);
   const stored = await storedUpload(farm, uploadId);
-  if (stored.outcome === "committed") throw new AppError("conflict", `This upload was committed on ${iso(stored.committedAt)?.slice(0, 10)}; nothing more to do.`);
+  if (stored.outcome === "committed")
+    throw new AppError("conflict", `This upload was committed on ${iso(stored.committedAt)?.slice(0, 10)}; nothing more to do.`);
   const setup = await getImportSetup(farm);
   const result = await parseForCommit(farm, uploadId, setup, choices);
   const receipt = await withFarmContext(farm, async (tx) => {
@@ -436,13 +542,19 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
     await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`season-log:${farm.farmId}`}, 0))`);
     const alreadyImportedAt = await committedBefore(tx, farm.farmId, stored.sha256, uploadId);
     if (alreadyImportedAt) {
-      throw new AppError("conflict", `This file was already imported on ${iso(alreadyImportedAt)!.slice(0, 10)}; committing it again would change nothing.`);
+      throw new AppError(
+        "conflict",
+        `This file was already imported on ${iso(alreadyImportedAt)!.slice(0, 10)}; committing it again would change nothing.`,
+      );
     }
     const plan = planCommit({ records: result.records, ...(await loadPlanInput(tx, farm.farmId)) });
     const report = buildReport({ rowCount: result.records.length, parserIssues: result.issues, plan, detected: result.detected, choices });
     if (report.errorCount > 0) {
       const first = report.issues.find((issue) => issue.severity === "error");
-      throw new AppError("invalid_input", `The file still has ${report.errorCount} error${report.errorCount === 1 ? "" : "s"}, so nothing was saved. First: ${first?.message ?? ""} Correct the file or the mapping and check it again.`);
+      throw new AppError(
+        "invalid_input",
+        `The file still has ${report.errorCount} error${report.errorCount === 1 ? "" : "s"}, so nothing was saved. First: ${first?.message ?? ""} Correct the file or the mapping and check it again.`,
+      );
     }
     await writePlan(tx, farm.farmId, farm.userId, uploadId, plan);
     const [row] = await tx
@@ -458,7 +570,13 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
       actorUserId: farm.userId,
       details: { uploadId, ...plan.counts, changedValues: plan.changes.length },
     });
-    return { uploadId, fileName: row.fileName, committedAt: iso(row.committedAt)!, counts: plan.counts, changedValues: plan.changes.length };
+    return {
+      uploadId,
+      fileName: row.fileName,
+      committedAt: iso(row.committedAt)!,
+      counts: plan.counts,
+      changedValues: plan.changes.length,
+    };
   });
   void refreshPooledStatistics(farm.farmId).catch((error: unknown) => console.error("Refreshing pooled statistics failed", error));
   return receipt;
@@ -466,14 +584,19 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
 
 export async function listUploads(context: FarmContext): Promise<UploadSummary[]> {
   const farm = farmOf(context);
-  const rows = await withFarmContext(farm, (tx) => tx.select(summaryColumns).from(uploads).where(eq(uploads.farmId, farm.farmId)).orderBy(desc(uploads.uploadedAt)).limit(200));
+  const rows = await withFarmContext(farm, (tx) =>
+    tx.select(summaryColumns).from(uploads).where(eq(uploads.farmId, farm.farmId)).orderBy(desc(uploads.uploadedAt)).limit(200),
+  );
   return rows.map(summary);
 }
 
 export async function getUploadView(context: FarmContext, uploadId: string): Promise<UploadView> {
   const farm = farmOf(context);
   const stored = await storedUpload(farm, uploadId);
-  const alreadyImportedAt = stored.outcome === "already_imported" ? await withFarmContext(farm, (tx) => committedBefore(tx, farm.farmId, stored.sha256, uploadId)) : null;
+  const alreadyImportedAt =
+    stored.outcome === "already_imported"
+      ? await withFarmContext(farm, (tx) => committedBefore(tx, farm.farmId, stored.sha256, uploadId))
+      : null;
   return viewOf(summary(stored), stored.report as UploadReport, alreadyImportedAt);
 }
 

@@ -5,10 +5,7 @@ import { signInAttempts, users } from "@/db/schema";
 import { unknownUserHash, verifyPassword } from "@/lib/auth/password";
 import { recordAudit } from "./audit";
 
-export type SignInOutcome =
-  | { status: "ok"; userId: string; name: string }
-  | { status: "refused" }
-  | { status: "rate_limited" };
+export type SignInOutcome = { status: "ok"; userId: string; name: string } | { status: "refused" } | { status: "rate_limited" };
 
 /** Failed attempts allowed in the window, per e-mail address and per network address. */
 export const signInLimits = { windowMinutes: 15, perEmail: 5, perAddress: 30 };

@@ -168,7 +168,8 @@ async function loadTrial(tx: Transaction, member: Member, trialId: string) {
 export type TrialView = Awaited<ReturnType<typeof loadTrial>>;
 
 export async function getTrial(member: Member, trialId: string): Promise<TrialView> {
-  if (!/^[0-9a-f-]{36}$/i.test(trialId)) throw new AppError("not_found", "There is no such trial. Go back to Trials and pick one from the list.");
+  if (!/^[0-9a-f-]{36}$/i.test(trialId))
+    throw new AppError("not_found", "There is no such trial. Go back to Trials and pick one from the list.");
   return withFarmContext(farmContextOf(member), (tx) => loadTrial(tx, member, trialId));
 }
 
@@ -176,7 +177,12 @@ export async function getTrial(member: Member, trialId: string): Promise<TrialVi
 export async function listTrialHistory(member: Member, trialId: string) {
   return withFarmContext(farmContextOf(member), (tx) =>
     tx
-      .select({ occurredAt: auditEvents.occurredAt, action: auditEvents.action, actorLabel: auditEvents.actorLabel, details: auditEvents.details })
+      .select({
+        occurredAt: auditEvents.occurredAt,
+        action: auditEvents.action,
+        actorLabel: auditEvents.actorLabel,
+        details: auditEvents.details,
+      })
       .from(auditEvents)
       .where(and(like(auditEvents.action, "trial.%"), sql`${auditEvents.details}->>'trialId' = ${trialId}`))
       .orderBy(desc(auditEvents.occurredAt)),
@@ -185,7 +191,11 @@ export async function listTrialHistory(member: Member, trialId: string) {
 
 export async function listDesignOptions(member: Member) {
   return withFarmContext(farmContextOf(member), async (tx) => {
-    const speciesRows = await tx.select({ id: species.id, name: species.commonName }).from(species).where(eq(species.status, "active")).orderBy(asc(species.commonName));
+    const speciesRows = await tx
+      .select({ id: species.id, name: species.commonName })
+      .from(species)
+      .where(eq(species.status, "active"))
+      .orderBy(asc(species.commonName));
     const strainRows = await tx
       .select({ id: strains.id, code: strains.code, name: strains.name, speciesId: strains.speciesId })
       .from(strains)
@@ -237,7 +247,10 @@ export async function listBlockSpreadBySpecies(): Promise<Record<string, { sd: n
 
 async function nextTrialCode(tx: Transaction): Promise<string> {
   const year = new Date().getUTCFullYear();
-  const rows = await tx.select({ code: trials.code }).from(trials).where(like(trials.code, `T-${year}-%`));
+  const rows = await tx
+    .select({ code: trials.code })
+    .from(trials)
+    .where(like(trials.code, `T-${year}-%`));
   const highest = rows.reduce((max, row) => Math.max(max, Number(row.code.split("-")[2]) || 0), 0);
   return `T-${year}-${String(highest + 1).padStart(2, "0")}`;
 }
@@ -247,10 +260,18 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
     const strainRows = await tx
       .select({ id: strains.id, speciesId: strains.speciesId, code: strains.code })
       .from(strains)
-      .where(inArray(strains.id, input.arms.map((arm) => arm.strainId)));
+      .where(
+        inArray(
+          strains.id,
+          input.arms.map((arm) => arm.strainId),
+        ),
+      );
     input.arms.forEach((arm, index) => {
       const strain = strainRows.find((row) => row.id === arm.strainId);
-      if (!strain) throw new AppError("invalid_input", `Arm ${index + 1}: pick a strain from the registry.`, [{ field: "arms", message: `Arm ${index + 1}: pick a strain from the registry.` }]);
+      if (!strain)
+        throw new AppError("invalid_input", `Arm ${index + 1}: pick a strain from the registry.`, [
+          { field: "arms", message: `Arm ${index + 1}: pick a strain from the registry.` },
+        ]);
       if (strain.speciesId !== input.speciesId) {
         const message = `Arm ${index + 1} (${arm.label}): strain ${strain.code} is not of the trial's species; pick one of its strains.`;
         throw new AppError("invalid_input", message, [{ field: "arms", message }]);
@@ -275,7 +296,10 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
       const [current] = await tx.select({ status: trials.status, code: trials.code }).from(trials).where(eq(trials.id, input.trialId));
       if (!current) throw new AppError("not_found", "That trial no longer exists. Start a new design from Trials.");
       if (!isDesignEditable(current.status as TrialStatus)) {
-        throw new AppError("conflict", `Trial ${current.code} is "${trialStatusLabels[current.status as TrialStatus]}": its design is fixed once enrolment opens.`);
+        throw new AppError(
+          "conflict",
+          `Trial ${current.code} is "${trialStatusLabels[current.status as TrialStatus]}": its design is fixed once enrolment opens.`,
+        );
       }
       await tx.update(trials).set(values).where(eq(trials.id, input.trialId));
       await tx.delete(trialArms).where(eq(trialArms.trialId, input.trialId));
@@ -283,11 +307,30 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
       code = current.code;
     } else {
       code = await nextTrialCode(tx);
-      const [created] = await tx.insert(trials).values({ ...values, code, createdBy: member.id }).returning({ id: trials.id });
+      const [created] = await tx
+        .insert(trials)
+        .values({ ...values, code, createdBy: member.id })
+        .returning({ id: trials.id });
       id = created.id;
     }
-    await tx.insert(trialArms).values(input.arms.map((arm, index) => ({ trialId: id, label: arm.label, strainId: arm.strainId, treatmentId: arm.treatmentId, isReference: arm.isReference, position: index + 1 })));
-    await recordAudit(tx, { ...actor(member), action: input.trialId ? "trial.draft_saved" : "trial.created", subject: code, details: { trialId: id, arms: input.arms.length } });
+    await tx
+      .insert(trialArms)
+      .values(
+        input.arms.map((arm, index) => ({
+          trialId: id,
+          label: arm.label,
+          strainId: arm.strainId,
+          treatmentId: arm.treatmentId,
+          isReference: arm.isReference,
+          position: index + 1,
+        })),
+      );
+    await recordAudit(tx, {
+      ...actor(member),
+      action: input.trialId ? "trial.draft_saved" : "trial.created",
+      subject: code,
+      details: { trialId: id, arms: input.arms.length },
+    });
     return { id, code };
   });
 }
@@ -305,13 +348,22 @@ export async function moveTrial(member: Member, trialId: string, to: TrialStatus
     }
     const changes: Partial<typeof trials.$inferInsert> = { status: to };
     if (to === "open") {
-      if (trial.arms.length < 2) throw new AppError("conflict", "A trial needs at least 2 arms before enrolment opens. Add an arm to the design.");
-      if (trial.arms.filter((arm) => arm.isReference).length !== 1) throw new AppError("conflict", "Mark exactly one arm as the reference before enrolment opens.");
+      if (trial.arms.length < 2)
+        throw new AppError("conflict", "A trial needs at least 2 arms before enrolment opens. Add an arm to the design.");
+      if (trial.arms.filter((arm) => arm.isReference).length !== 1)
+        throw new AppError("conflict", "Mark exactly one arm as the reference before enrolment opens.");
     }
     if (to === "running") {
-      const accepted = await tx.select({ id: trialEnrolments.id }).from(trialEnrolments).where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.status, "accepted")));
-      if (!accepted.length) throw new AppError("conflict", "No farm has accepted yet. Invite farms and wait for at least one to accept before starting.");
-      await tx.update(trialEnrolments).set({ status: "dropped" }).where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.status, "invited")));
+      const accepted = await tx
+        .select({ id: trialEnrolments.id })
+        .from(trialEnrolments)
+        .where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.status, "accepted")));
+      if (!accepted.length)
+        throw new AppError("conflict", "No farm has accepted yet. Invite farms and wait for at least one to accept before starting.");
+      await tx
+        .update(trialEnrolments)
+        .set({ status: "dropped" })
+        .where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.status, "invited")));
     }
     if (to === "collecting") changes.publishedResults = await analyseStoredTrial(tx, trial);
     if (to === "published") {
@@ -319,7 +371,12 @@ export async function moveTrial(member: Member, trialId: string, to: TrialStatus
       changes.publishedAt = new Date();
     }
     await tx.update(trials).set(changes).where(eq(trials.id, trialId));
-    await recordAudit(tx, { ...actor(member), action: "trial.status_changed", subject: trial.code, details: { trialId, from: trial.status, to } });
+    await recordAudit(tx, {
+      ...actor(member),
+      action: "trial.status_changed",
+      subject: trial.code,
+      details: { trialId, from: trial.status, to },
+    });
     if (to === "published") {
       const people = await tx.select({ email: users.email }).from(users).where(eq(users.active, true));
       published = { trial, recipients: people.map((person) => person.email) };
@@ -343,22 +400,49 @@ async function deliver(to: string, mail: TrialMail): Promise<void> {
 
 /** Runs the pre-declared analysis through the analyst role; only the aggregate result comes back. */
 async function analyseStoredTrial(tx: Transaction, trial: TrialView): Promise<StoredResults> {
-  const enrolments = await tx.select({ status: trialEnrolments.status, farmId: trialEnrolments.farmId }).from(trialEnrolments).where(eq(trialEnrolments.trialId, trial.id));
-  const [{ assigned }] = await tx.select({ assigned: sql<number>`count(*)::int` }).from(trialBlockAssignments).where(eq(trialBlockAssignments.trialId, trial.id));
+  const enrolments = await tx
+    .select({ status: trialEnrolments.status, farmId: trialEnrolments.farmId })
+    .from(trialEnrolments)
+    .where(eq(trialEnrolments.trialId, trial.id));
+  const [{ assigned }] = await tx
+    .select({ assigned: sql<number>`count(*)::int` })
+    .from(trialBlockAssignments)
+    .where(eq(trialBlockAssignments.trialId, trial.id));
   const armIds = trial.arms.map((arm) => arm.id);
   const { analysis, blocksMade } = await withAnalystAccess(async (analyst) => {
     const [settings] = await analyst.select({ minimumFarms: cooperativeSettings.minimumFarms }).from(cooperativeSettings);
     const blockRows = armIds.length
       ? await analyst
-          .select({ id: blocks.id, farmId: blocks.farmId, armId: blocks.trialArmId, wetMassG: blocks.wetMassG, moisture: blocks.moisture, contaminated: blocks.contaminated })
+          .select({
+            id: blocks.id,
+            farmId: blocks.farmId,
+            armId: blocks.trialArmId,
+            wetMassG: blocks.wetMassG,
+            moisture: blocks.moisture,
+            contaminated: blocks.contaminated,
+          })
           .from(blocks)
           .where(inArray(blocks.trialArmId, armIds))
       : [];
     const harvestRows = blockRows.length
-      ? await analyst.select({ blockId: harvests.blockId, flush: harvests.flush, freshMassG: harvests.freshMassG }).from(harvests).where(inArray(harvests.blockId, blockRows.map((row) => row.id)))
+      ? await analyst
+          .select({ blockId: harvests.blockId, flush: harvests.flush, freshMassG: harvests.freshMassG })
+          .from(harvests)
+          .where(
+            inArray(
+              harvests.blockId,
+              blockRows.map((row) => row.id),
+            ),
+          )
       : [];
-    const records = trialOutcomeRecords(blockRows, harvestRows, { flushes: trial.outcomeFlushes, contaminatedHandling: trial.contaminatedHandling });
-    return { analysis: analyseTrial({ arms: trial.arms, records, minimumFarms: settings?.minimumFarms ?? 3 }), blocksMade: blockRows.length };
+    const records = trialOutcomeRecords(blockRows, harvestRows, {
+      flushes: trial.outcomeFlushes,
+      contaminatedHandling: trial.contaminatedHandling,
+    });
+    return {
+      analysis: analyseTrial({ arms: trial.arms, records, minimumFarms: settings?.minimumFarms ?? 3 }),
+      blocksMade: blockRows.length,
+    };
   });
   return {
     analysis,
@@ -388,9 +472,17 @@ export async function inviteFarms(member: Member, trialId: string, farmIds: stri
   const outgoing: { to: string; mail: TrialMail }[] = [];
   await withFarmContext(farmContextOf(member), async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
-    if (trial.status !== "open") throw new AppError("conflict", `Farms can be invited only while the trial is "Open for enrolment"; it is "${trialStatusLabels[trial.status]}".`);
-    const farmRows = await tx.select({ id: farms.id, name: farms.name }).from(farms).where(and(inArray(farms.id, farmIds), eq(farms.status, "active")));
-    if (farmRows.length !== farmIds.length) throw new AppError("invalid_input", "One of the farms picked is not an active member any more. Reload the page and pick again.");
+    if (trial.status !== "open")
+      throw new AppError(
+        "conflict",
+        `Farms can be invited only while the trial is "Open for enrolment"; it is "${trialStatusLabels[trial.status]}".`,
+      );
+    const farmRows = await tx
+      .select({ id: farms.id, name: farms.name })
+      .from(farms)
+      .where(and(inArray(farms.id, farmIds), eq(farms.status, "active")));
+    if (farmRows.length !== farmIds.length)
+      throw new AppError("invalid_input", "One of the farms picked is not an active member any more. Reload the page and pick again.");
     const created = await tx
       .insert(trialEnrolments)
       .values(farmRows.map((farm) => ({ trialId, farmId: farm.id })))
@@ -410,7 +502,12 @@ export async function inviteFarms(member: Member, trialId: string, farmIds: stri
         optOutUrl: optOutUrl(enrolment.id),
       });
       for (const manager of managers.filter((row) => row.farmId === farm.id)) outgoing.push({ to: manager.email, mail });
-      await recordAudit(tx, { ...actor(member), action: "trial.farm_invited", subject: `${trial.code}: ${farm.name}`, details: { trialId, farmId: farm.id } });
+      await recordAudit(tx, {
+        ...actor(member),
+        action: "trial.farm_invited",
+        subject: `${trial.code}: ${farm.name}`,
+        details: { trialId, farmId: farm.id },
+      });
     }
   });
   for (const message of outgoing) await deliver(message.to, message.mail);
@@ -425,7 +522,13 @@ export async function getOwnEnrolment(member: Member, trialId: string) {
   if (!member.farmId) return null;
   return withFarmContext(farmContextOf(member), async (tx) => {
     const [row] = await tx
-      .select({ id: trialEnrolments.id, status: trialEnrolments.status, blocksPerArm: trialEnrolments.blocksPerArm, randomisationSeed: trialEnrolments.randomisationSeed, remindersAllowed: trialEnrolments.remindersAllowed })
+      .select({
+        id: trialEnrolments.id,
+        status: trialEnrolments.status,
+        blocksPerArm: trialEnrolments.blocksPerArm,
+        randomisationSeed: trialEnrolments.randomisationSeed,
+        remindersAllowed: trialEnrolments.remindersAllowed,
+      })
       .from(trialEnrolments)
       .where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.farmId, member.farmId!)));
     return row ?? null;
@@ -433,32 +536,81 @@ export async function getOwnEnrolment(member: Member, trialId: string) {
 }
 
 /** The farm manager answers: accepting commits blocks per arm and makes the randomised list from a fresh, recorded seed. */
-export async function respondToInvitation(member: Member, trialId: string, answer: { accept: boolean; blocksPerArm: number | null }): Promise<void> {
+export async function respondToInvitation(
+  member: Member,
+  trialId: string,
+  answer: { accept: boolean; blocksPerArm: number | null },
+): Promise<void> {
   if (!member.farmId) throw new AppError("forbidden", "Only a farm's manager can answer for the farm.");
   let confirmation: { to: string; mail: TrialMail } | null = null;
   await withFarmContext(farmContextOf(member), async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
     if (trial.status !== "open") throw new AppError("conflict", `Enrolment is closed: the trial is "${trialStatusLabels[trial.status]}".`);
-    const [enrolment] = await tx.select().from(trialEnrolments).where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.farmId, member.farmId!)));
+    const [enrolment] = await tx
+      .select()
+      .from(trialEnrolments)
+      .where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.farmId, member.farmId!)));
     if (!enrolment) throw new AppError("forbidden", "Your farm has not been invited to this trial. Ask the coordinator for an invitation.");
     if (enrolment.status !== "invited") throw new AppError("conflict", `Your farm has already answered (${enrolment.status}).`);
     if (answer.accept && trial.enrolmentDeadline && trial.enrolmentDeadline < new Date().toISOString().slice(0, 10)) {
-      throw new AppError("conflict", `The enrolment deadline was ${trial.enrolmentDeadline}. Ask the coordinator whether your farm can still join.`);
+      throw new AppError(
+        "conflict",
+        `The enrolment deadline was ${trial.enrolmentDeadline}. Ask the coordinator whether your farm can still join.`,
+      );
     }
     if (!answer.accept) {
       await tx.update(trialEnrolments).set({ status: "declined", respondedAt: new Date() }).where(eq(trialEnrolments.id, enrolment.id));
-      await recordAudit(tx, { ...actor(member), farmId: member.farmId, action: "trial.enrolment_declined", subject: trial.code, details: { trialId } });
+      await recordAudit(tx, {
+        ...actor(member),
+        farmId: member.farmId,
+        action: "trial.enrolment_declined",
+        subject: trial.code,
+        details: { trialId },
+      });
       return;
     }
     const blocksPerArm = answer.blocksPerArm!;
     const seed = `${trial.code}/${randomBytes(12).toString("hex")}`;
-    const list = permutedBlockList({ seed, armIds: trial.arms.map((arm) => arm.id), blocksPerArm, codePrefix: blockCodePrefix(trial.code, member.farmName ?? "") });
-    await tx.update(trialEnrolments).set({ status: "accepted", blocksPerArm, randomisationSeed: seed, respondedAt: new Date() }).where(eq(trialEnrolments.id, enrolment.id));
-    await tx.insert(trialBlockAssignments).values(list.map((entry) => ({ trialId, farmId: member.farmId!, enrolmentId: enrolment.id, armId: entry.armId, blockCode: entry.blockCode, sequence: entry.sequence, permutedBlock: entry.permutedBlock })));
-    await recordAudit(tx, { ...actor(member), farmId: member.farmId, action: "trial.enrolment_accepted", subject: trial.code, details: { trialId, blocksPerArm, seed, blocks: list.length } });
+    const list = permutedBlockList({
+      seed,
+      armIds: trial.arms.map((arm) => arm.id),
+      blocksPerArm,
+      codePrefix: blockCodePrefix(trial.code, member.farmName ?? ""),
+    });
+    await tx
+      .update(trialEnrolments)
+      .set({ status: "accepted", blocksPerArm, randomisationSeed: seed, respondedAt: new Date() })
+      .where(eq(trialEnrolments.id, enrolment.id));
+    await tx
+      .insert(trialBlockAssignments)
+      .values(
+        list.map((entry) => ({
+          trialId,
+          farmId: member.farmId!,
+          enrolmentId: enrolment.id,
+          armId: entry.armId,
+          blockCode: entry.blockCode,
+          sequence: entry.sequence,
+          permutedBlock: entry.permutedBlock,
+        })),
+      );
+    await recordAudit(tx, {
+      ...actor(member),
+      farmId: member.farmId,
+      action: "trial.enrolment_accepted",
+      subject: trial.code,
+      details: { trialId, blocksPerArm, seed, blocks: list.length },
+    });
     confirmation = {
       to: member.email,
-      mail: enrolmentConfirmationMail({ trial, farmName: member.farmName ?? "Your farm", blocksPerArm, arms: trial.arms.length, listUrl: `${appUrl()}/trials/${trialId}/labels`, optOutUrl: optOutUrl(enrolment.id) }),
+      mail: enrolmentConfirmationMail({
+        trial,
+        farmName: member.farmName ?? "Your farm",
+        blocksPerArm,
+        arms: trial.arms.length,
+        listUrl: `${appUrl()}/trials/${trialId}/labels`,
+        optOutUrl: optOutUrl(enrolment.id),
+      }),
     };
   });
   const done = confirmation as { to: string; mail: TrialMail } | null;
@@ -469,7 +621,14 @@ export async function respondToInvitation(member: Member, trialId: string, answe
 export async function listOwnAssignments(member: Member, trialId: string) {
   return withFarmContext(farmContextOf(member), (tx) =>
     tx
-      .select({ sequence: trialBlockAssignments.sequence, permutedBlock: trialBlockAssignments.permutedBlock, blockCode: trialBlockAssignments.blockCode, armLabel: trialArms.label, strainCode: strains.code, treatmentName: treatments.name })
+      .select({
+        sequence: trialBlockAssignments.sequence,
+        permutedBlock: trialBlockAssignments.permutedBlock,
+        blockCode: trialBlockAssignments.blockCode,
+        armLabel: trialArms.label,
+        strainCode: strains.code,
+        treatmentName: treatments.name,
+      })
       .from(trialBlockAssignments)
       .innerJoin(trialArms, eq(trialArms.id, trialBlockAssignments.armId))
       .innerJoin(strains, eq(strains.id, trialArms.strainId))
@@ -492,7 +651,8 @@ export interface FarmProgress {
 
 export function dueItems(progress: FarmProgress): string[] {
   const due: string[] = [];
-  if (progress.blocksMade < progress.blocksListed) due.push(`${progress.blocksListed - progress.blocksMade} listed blocks not yet in the season log`);
+  if (progress.blocksMade < progress.blocksListed)
+    due.push(`${progress.blocksListed - progress.blocksMade} listed blocks not yet in the season log`);
   const live = progress.blocksMade - progress.contaminated;
   progress.flushesRecorded.forEach((recorded, index) => {
     if (recorded < live) due.push(`flush ${index + 1} of ${live - recorded} blocks`);
@@ -504,7 +664,10 @@ export function dueItems(progress: FarmProgress): string[] {
 export async function getOwnProgress(member: Member, trial: TrialView): Promise<FarmProgress | null> {
   if (!member.farmId) return null;
   return withFarmContext(farmContextOf(member), async (tx) => {
-    const list = await tx.select({ blockCode: trialBlockAssignments.blockCode }).from(trialBlockAssignments).where(and(eq(trialBlockAssignments.trialId, trial.id), eq(trialBlockAssignments.farmId, member.farmId!)));
+    const list = await tx
+      .select({ blockCode: trialBlockAssignments.blockCode })
+      .from(trialBlockAssignments)
+      .where(and(eq(trialBlockAssignments.trialId, trial.id), eq(trialBlockAssignments.farmId, member.farmId!)));
     if (!list.length) return null;
     const [counts] = await progressCounts(tx, trial, member.farmId!);
     return { blocksListed: list.length, ...(counts ?? emptyCounts(trial)) };
@@ -519,7 +682,10 @@ function emptyCounts(trial: TrialView) {
 async function progressCounts(tx: Transaction, trial: TrialView, farmId?: string) {
   const armIds = trial.arms.map((arm) => arm.id);
   if (!armIds.length) return [];
-  const flushColumns = Array.from({ length: trial.outcomeFlushes }, (_, index) => sql`count(*) FILTER (WHERE EXISTS (SELECT 1 FROM harvests h WHERE h.block_id = b.id AND h.flush = ${index + 1}))::int`);
+  const flushColumns = Array.from(
+    { length: trial.outcomeFlushes },
+    (_, index) => sql`count(*) FILTER (WHERE EXISTS (SELECT 1 FROM harvests h WHERE h.block_id = b.id AND h.flush = ${index + 1}))::int`,
+  );
   const result = await tx.execute(sql`
     SELECT b.farm_id,
            count(*)::int AS made,
@@ -527,7 +693,10 @@ async function progressCounts(tx: Transaction, trial: TrialView, farmId?: string
            count(*) FILTER (WHERE EXISTS (SELECT 1 FROM harvests h WHERE h.block_id = b.id))::int AS fruiting,
            ARRAY[${sql.join(flushColumns, sql`, `)}] AS flushes
     FROM blocks b
-    WHERE b.trial_arm_id IN (${sql.join(armIds.map((id) => sql`${id}::uuid`), sql`, `)})
+    WHERE b.trial_arm_id IN (${sql.join(
+      armIds.map((id) => sql`${id}::uuid`),
+      sql`, `,
+    )})
       ${farmId ? sql`AND b.farm_id = ${farmId}::uuid` : sql``}
     GROUP BY b.farm_id`);
   return (result.rows as { farm_id: string; made: number; contaminated: number; fruiting: number; flushes: number[] }[]).map((row) => ({
@@ -543,7 +712,14 @@ async function progressCounts(tx: Transaction, trial: TrialView, farmId?: string
 export async function listTrialProgress(member: Member, trial: TrialView) {
   const enrolled = await withFarmContext(farmContextOf(member), async (tx) => {
     const rows = await tx
-      .select({ enrolmentId: trialEnrolments.id, farmId: trialEnrolments.farmId, farmName: farms.name, status: trialEnrolments.status, blocksPerArm: trialEnrolments.blocksPerArm, remindersAllowed: trialEnrolments.remindersAllowed })
+      .select({
+        enrolmentId: trialEnrolments.id,
+        farmId: trialEnrolments.farmId,
+        farmName: farms.name,
+        status: trialEnrolments.status,
+        blocksPerArm: trialEnrolments.blocksPerArm,
+        remindersAllowed: trialEnrolments.remindersAllowed,
+      })
       .from(trialEnrolments)
       .innerJoin(farms, eq(farms.id, trialEnrolments.farmId))
       .where(eq(trialEnrolments.trialId, trial.id))
@@ -553,7 +729,17 @@ export async function listTrialProgress(member: Member, trial: TrialView) {
   const counts = await withAnalystAccess((analyst) => progressCounts(analyst, trial));
   return enrolled.map((row) => {
     const farmCounts = counts.find((count) => count.farmId === row.farmId);
-    const progress: FarmProgress = { blocksListed: (row.blocksPerArm ?? 0) * trial.arms.length, ...(farmCounts ? { blocksMade: farmCounts.blocksMade, fruiting: farmCounts.fruiting, contaminated: farmCounts.contaminated, flushesRecorded: farmCounts.flushesRecorded } : emptyCounts(trial)) };
+    const progress: FarmProgress = {
+      blocksListed: (row.blocksPerArm ?? 0) * trial.arms.length,
+      ...(farmCounts
+        ? {
+            blocksMade: farmCounts.blocksMade,
+            fruiting: farmCounts.fruiting,
+            contaminated: farmCounts.contaminated,
+            flushesRecorded: farmCounts.flushesRecorded,
+          }
+        : emptyCounts(trial)),
+    };
     const due = row.status === "accepted" ? dueItems(progress) : [];
     return { ...row, progress, due, behind: due.length > 0 };
   });
@@ -561,18 +747,33 @@ export async function listTrialProgress(member: Member, trial: TrialView) {
 
 export async function sendTrialReminder(member: Member, trialId: string, farmId: string): Promise<number> {
   const trial = await getTrial(member, trialId);
-  if (trial.status !== "running" && trial.status !== "collecting") throw new AppError("conflict", "Reminders go out only while a trial is running or collecting results.");
+  if (trial.status !== "running" && trial.status !== "collecting")
+    throw new AppError("conflict", "Reminders go out only while a trial is running or collecting results.");
   const farmsProgress = await listTrialProgress(member, trial);
   const farm = farmsProgress.find((row) => row.farmId === farmId);
   if (!farm || farm.status !== "accepted") throw new AppError("not_found", "That farm is not taking part in this trial.");
   if (!farm.remindersAllowed) throw new AppError("conflict", `${farm.farmName} has asked not to get reminders about this trial.`);
   if (!farm.behind) throw new AppError("conflict", `${farm.farmName} has nothing due; no reminder sent.`);
   const managers = await withFarmContext(farmContextOf(member), async (tx) => {
-    const rows = await tx.select({ email: users.email }).from(users).where(and(eq(users.farmId, farmId), eq(users.role, "farm_manager"), eq(users.active, true)));
-    await recordAudit(tx, { ...actor(member), action: "trial.reminder_sent", subject: `${trial.code}: ${farm.farmName}`, details: { trialId, farmId } });
+    const rows = await tx
+      .select({ email: users.email })
+      .from(users)
+      .where(and(eq(users.farmId, farmId), eq(users.role, "farm_manager"), eq(users.active, true)));
+    await recordAudit(tx, {
+      ...actor(member),
+      action: "trial.reminder_sent",
+      subject: `${trial.code}: ${farm.farmName}`,
+      details: { trialId, farmId },
+    });
     return rows;
   });
-  const mail = trialReminderMail({ trial, farmName: farm.farmName, due: farm.due, progressUrl: `${appUrl()}/trials/${trialId}`, optOutUrl: optOutUrl(farm.enrolmentId) });
+  const mail = trialReminderMail({
+    trial,
+    farmName: farm.farmName,
+    due: farm.due,
+    progressUrl: `${appUrl()}/trials/${trialId}`,
+    optOutUrl: optOutUrl(farm.enrolmentId),
+  });
   for (const manager of managers) await deliver(manager.email, mail);
   return managers.length;
 }
@@ -585,14 +786,21 @@ export async function optOutOfReminders(token: string): Promise<string | null> {
   if (!enrolmentId || !optOutSecret()) return null;
   return withFarmContext({ userId: null, farmId: null, role: "anonymous" }, async (tx) => {
     const result = await tx.execute(sql`select app_trial_reminders_opt_out(${enrolmentId}::uuid) as code`);
-    return ((result.rows[0] as { code: string | null } | undefined)?.code) ?? null;
+    return (result.rows[0] as { code: string | null } | undefined)?.code ?? null;
   });
 }
 
 export async function listOutgoingMail(member: Member, limit = 200) {
   return withFarmContext(farmContextOf(member), (tx) =>
     tx
-      .select({ id: mailMessages.id, receivedAt: mailMessages.receivedAt, recipients: mailMessages.recipients, subject: mailMessages.subject, text: mailMessages.text, html: mailMessages.html })
+      .select({
+        id: mailMessages.id,
+        receivedAt: mailMessages.receivedAt,
+        recipients: mailMessages.recipients,
+        subject: mailMessages.subject,
+        text: mailMessages.text,
+        html: mailMessages.html,
+      })
       .from(mailMessages)
       .orderBy(desc(mailMessages.id))
       .limit(limit),

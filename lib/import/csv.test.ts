@@ -4,7 +4,8 @@ import { CsvTokenizer, type Delimiter, sniffDecimal, sniffDelimiter, sampleRows 
 function rows(text: string, delimiter: Delimiter = ",", chunk = text.length || 1): [number, string[]][] {
   const found: [number, string[]][] = [];
   const tokenizer = new CsvTokenizer(delimiter);
-  for (let offset = 0; offset < text.length; offset += chunk) tokenizer.push(text.slice(offset, offset + chunk), false, (cells, line) => found.push([line, cells]));
+  for (let offset = 0; offset < text.length; offset += chunk)
+    tokenizer.push(text.slice(offset, offset + chunk), false, (cells, line) => found.push([line, cells]));
   tokenizer.push("", true, (cells, line) => found.push([line, cells]));
   return found;
 }
@@ -31,7 +32,10 @@ describe("CsvTokenizer", () => {
     const tokenizer = new CsvTokenizer(",");
     const found: string[][] = [];
     tokenizer.push('a,b\n1,"open\n2,3\n', true, (cells) => found.push(cells));
-    expect(found).toEqual([["a", "b"], ["1", "open\n2,3\n"]]);
+    expect(found).toEqual([
+      ["a", "b"],
+      ["1", "open\n2,3\n"],
+    ]);
     expect(tokenizer.unclosedQuoteLine).toBe(2);
   });
 });

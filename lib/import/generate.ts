@@ -44,9 +44,12 @@ function writeMass(grams: number, style: SeasonLogStyle, large: boolean): string
 }
 
 const headers: Readonly<Record<SeasonLogStyle, string>> = {
-  template: "block_id,strain,substrate,trial,arm,inoculated_on,block_wet_weight,substrate_moisture,fruiting_method,flush,harvested_on,fresh_weight,dry_weight,contaminated,contaminated_on,spent_weight,notes",
-  european: "Block;Strain;Substrate;Trial;Arm;Inoculated;Wet block (kg);Moisture;Fruiting method;Flush;Harvested;Fresh (g);Dry (g);Contaminated;Contaminated on;Spent (kg);Notes",
-  imperial: "Bag,Strain,Recipe,Trial,Arm,Inoculated,Wet block,Moisture,Fruiting,Flush,Harvest date,Fresh weight,Dry weight,Contaminated,Contaminated on,Spent block,Notes",
+  template:
+    "block_id,strain,substrate,trial,arm,inoculated_on,block_wet_weight,substrate_moisture,fruiting_method,flush,harvested_on,fresh_weight,dry_weight,contaminated,contaminated_on,spent_weight,notes",
+  european:
+    "Block;Strain;Substrate;Trial;Arm;Inoculated;Wet block (kg);Moisture;Fruiting method;Flush;Harvested;Fresh (g);Dry (g);Contaminated;Contaminated on;Spent (kg);Notes",
+  imperial:
+    "Bag,Strain,Recipe,Trial,Arm,Inoculated,Wet block,Moisture,Fruiting,Flush,Harvest date,Fresh weight,Dry weight,Contaminated,Contaminated on,Spent block,Notes",
 };
 
 /**
@@ -76,9 +79,24 @@ export function* seasonLogLines(options: GenerateSeasonLogOptions): Generator<st
     const flushes = contaminated ? 0 : Math.floor(random() * 5);
     const efficiency = 0.5 + random() * 0.6;
     const dryGrams = wetGrams * (1 - moisture);
-    const moistureText = style === "european" ? `${Math.round(moisture * 100)} %` : style === "imperial" ? moisture.toFixed(2) : `${Math.round(moisture * 100)} %`;
+    const moistureText =
+      style === "european"
+        ? `${Math.round(moisture * 100)} %`
+        : style === "imperial"
+          ? moisture.toFixed(2)
+          : `${Math.round(moisture * 100)} %`;
     const contaminatedOn = contaminated ? writeDate(inoculated + (10 + Math.floor(random() * 20)) * millisecondsPerDay, style) : "";
-    const blockCells = [code, strain, substrate, trial, arm, writeDate(inoculated, style), writeMass(wetGrams, style, true), moistureText, method];
+    const blockCells = [
+      code,
+      strain,
+      substrate,
+      trial,
+      arm,
+      writeDate(inoculated, style),
+      writeMass(wetGrams, style, true),
+      moistureText,
+      method,
+    ];
     const spent = flushes >= 3 ? writeMass(wetGrams * (0.45 + random() * 0.1), style, true) : "";
     const tail = (last: boolean, note: string) => [contaminated ? "yes" : "no", contaminatedOn, last ? spent : "", note];
     if (flushes === 0) {
@@ -91,7 +109,14 @@ export function* seasonLogLines(options: GenerateSeasonLogOptions): Generator<st
       const freshGrams = dryGrams * efficiency * flushShares[flush - 1];
       const dried = random() < 0.2 ? writeMass(freshGrams * 0.1, style, false) : "";
       const note = random() < 0.05 ? (style === "european" ? '"pinned late; side pins"' : '"pinned late, side pins"') : "";
-      yield [...blockCells, String(flush), writeDate(day, style), writeMass(freshGrams, style, false), dried, ...tail(flush === flushes, note)].join(separator);
+      yield [
+        ...blockCells,
+        String(flush),
+        writeDate(day, style),
+        writeMass(freshGrams, style, false),
+        dried,
+        ...tail(flush === flushes, note),
+      ].join(separator);
       written++;
       day += (10 + Math.floor(random() * 8)) * millisecondsPerDay;
     }

@@ -30,7 +30,12 @@ describe("mapHeaders", () => {
 
   it("recognises wide-form flush columns and their dates", () => {
     const mapping = mapHeaders(["Bag", "Strain", "flush_1", "Flush 2 (oz)", "Flush 2 date", "3rd flush"]);
-    expect(mapping.used).toMatchObject({ flush_1: "flush_1", "Flush 2 (oz)": "flush_2", "Flush 2 date": "flush_2_date", "3rd flush": "flush_3" });
+    expect(mapping.used).toMatchObject({
+      flush_1: "flush_1",
+      "Flush 2 (oz)": "flush_2",
+      "Flush 2 date": "flush_2_date",
+      "3rd flush": "flush_3",
+    });
     expect(mapping.columns[3].unit).toBe("oz");
   });
 

@@ -40,8 +40,10 @@ const unitSuffix = /^(.+?)[\s_.-]+(?:in\s+)?(g|kg|lbs?|oz|grams?|kilograms?|poun
 const inUnit = /^in\s+/;
 const diacritics = /[\u0300-\u036f]/g;
 const notLetterOrDigit = /[^a-z0-9]/g;
-const flushWeight = /^(?:flush|fl|break|harvest)(\d{1,2})(?:freshweight|fresh|weight|yield|mass)?$|^(\d{1,2})(?:st|nd|rd|th)?flush(?:freshweight|fresh|weight|yield|mass)?$/;
-const flushDate = /^(?:flush|fl|break|harvest)(\d{1,2})(?:date|harvested|harvestedon|harvestdate|picked|pickedon)$|^(\d{1,2})(?:st|nd|rd|th)?flush(?:date|harvested|harvestedon|harvestdate|picked|pickedon)$/;
+const flushWeight =
+  /^(?:flush|fl|break|harvest)(\d{1,2})(?:freshweight|fresh|weight|yield|mass)?$|^(\d{1,2})(?:st|nd|rd|th)?flush(?:freshweight|fresh|weight|yield|mass)?$/;
+const flushDate =
+  /^(?:flush|fl|break|harvest)(\d{1,2})(?:date|harvested|harvestedon|harvestdate|picked|pickedon)$|^(\d{1,2})(?:st|nd|rd|th)?flush(?:date|harvested|harvestedon|harvestdate|picked|pickedon)$/;
 const targetName = /^flush_(\d{1,3})(_date)?$/;
 
 /** Lower case, accents and punctuation dropped: "Block ID" and "block_id" both become "blockid". */
@@ -52,10 +54,13 @@ export function normaliseHeader(text: string): string {
 /** Splits a header into its name and the mass unit it names, e.g. "Wet block (lb)" → "wetblock", "lb". */
 export function readHeader(header: string): { name: string; unit: MassUnit | null } {
   let unit: MassUnit | null = null;
-  let rest = header.trim().toLowerCase().replace(bracketed, (_, inside: string) => {
-    unit ??= massUnitFromWord(inside.replace(inUnit, "").replace(notLetterOrDigit, ""));
-    return " ";
-  });
+  let rest = header
+    .trim()
+    .toLowerCase()
+    .replace(bracketed, (_, inside: string) => {
+      unit ??= massUnitFromWord(inside.replace(inUnit, "").replace(notLetterOrDigit, ""));
+      return " ";
+    });
   rest = rest.replace(/%/g, " ").trim();
   const suffix = unitSuffix.exec(rest);
   if (suffix !== null && unit === null) {
@@ -90,7 +95,8 @@ export function parseTarget(value: string): ColumnTarget | null {
   if (text === "" || text === "ignore") return "ignore";
   if ((seasonLogColumnNames as readonly string[]).includes(text)) return text as SeasonLogColumnName;
   const match = targetName.exec(text);
-  if (match !== null && Number(match[1]) >= 1) return match[2] === undefined ? `flush_${Number(match[1])}` : `flush_${Number(match[1])}_date`;
+  if (match !== null && Number(match[1]) >= 1)
+    return match[2] === undefined ? `flush_${Number(match[1])}` : `flush_${Number(match[1])}_date`;
   return null;
 }
 
@@ -139,7 +145,8 @@ export function mapHeaders(headers: readonly string[], given: Record<string, str
   };
   assign((name) => sureNames.get(name), "synonym");
   for (const column of columns) {
-    if (column.how === "synonym" && (seasonLogColumnNames as readonly string[]).includes(column.header.trim().toLowerCase())) column.how = "exact";
+    if (column.how === "synonym" && (seasonLogColumnNames as readonly string[]).includes(column.header.trim().toLowerCase()))
+      column.how = "exact";
   }
   assign(wideTarget, "synonym");
   assign((name) => looseNames.get(name), "guess");
@@ -155,7 +162,15 @@ export function mapHeaders(headers: readonly string[], given: Record<string, str
     if (column.how === "guess") uncertain.push(key);
   }
   const missingRequired = (["block_id", "strain"] as const).filter((name) => !taken.has(name));
-  return { columns, used, unmatched, uncertain, missingRequired, certain: uncertain.length === 0 && missingRequired.length === 0, badTargets };
+  return {
+    columns,
+    used,
+    unmatched,
+    uncertain,
+    missingRequired,
+    certain: uncertain.length === 0 && missingRequired.length === 0,
+    badTargets,
+  };
 }
 
 function nearestName(name: string): SeasonLogColumnName | null {

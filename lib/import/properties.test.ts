@@ -5,7 +5,31 @@ import { parseSeasonLog } from "./index";
 
 const valid = new TextEncoder().encode(generateSeasonLog({ rows: 40, seed: 5, style: "european" }));
 const validText = generateSeasonLog({ rows: 40, seed: 9, style: "template" });
-const awkward = ["", ";", ",", "\t", '"', '""', "\r", "\n", "\r\n", "\u0000", "\u00e9", "\ufffd", "-", "%", "lb", "oz", "31.02.2026", "03/04/2026", "60", "1e309", "NaN", "  ", "\ufeff"];
+const awkward = [
+  "",
+  ";",
+  ",",
+  "\t",
+  '"',
+  '""',
+  "\r",
+  "\n",
+  "\r\n",
+  "\u0000",
+  "\u00e9",
+  "\ufffd",
+  "-",
+  "%",
+  "lb",
+  "oz",
+  "31.02.2026",
+  "03/04/2026",
+  "60",
+  "1e309",
+  "NaN",
+  "  ",
+  "\ufeff",
+];
 
 function shape(result: ReturnType<typeof parseSeasonLog>): void {
   expect(Array.isArray(result.records)).toBe(true);
@@ -26,7 +50,9 @@ describe("random damage to a valid season log", () => {
   it("byte edits never throw, only report", () => {
     fc.assert(
       fc.property(
-        fc.array(fc.record({ at: fc.nat(), byte: fc.integer({ min: 0, max: 255 }), kind: fc.constantFrom("set", "insert", "delete") }), { maxLength: 30 }),
+        fc.array(fc.record({ at: fc.nat(), byte: fc.integer({ min: 0, max: 255 }), kind: fc.constantFrom("set", "insert", "delete") }), {
+          maxLength: 30,
+        }),
         (edits) => {
           const bytes = [...valid];
           for (const edit of edits) {
@@ -66,6 +92,9 @@ describe("random damage to a valid season log", () => {
   });
 
   it("arbitrary text never throws", () => {
-    fc.assert(fc.property(fc.string({ maxLength: 400 }), (text) => shape(parseSeasonLog(text))), { numRuns: 500 });
+    fc.assert(
+      fc.property(fc.string({ maxLength: 400 }), (text) => shape(parseSeasonLog(text))),
+      { numRuns: 500 },
+    );
   });
 });

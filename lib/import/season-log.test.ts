@@ -4,14 +4,35 @@ import { createSeasonLogParser, parseMass, parseSeasonLog, seasonLogColumnNames,
 
 describe("the published schema", () => {
   it("lists the 17 columns of schema version 1 in order, each explained with examples", () => {
-    expect(seasonLogColumnNames).toEqual(["block_id", "strain", "substrate", "trial", "arm", "inoculated_on", "block_wet_weight", "substrate_moisture", "fruiting_method", "flush", "harvested_on", "fresh_weight", "dry_weight", "contaminated", "contaminated_on", "spent_weight", "notes"]);
+    expect(seasonLogColumnNames).toEqual([
+      "block_id",
+      "strain",
+      "substrate",
+      "trial",
+      "arm",
+      "inoculated_on",
+      "block_wet_weight",
+      "substrate_moisture",
+      "fruiting_method",
+      "flush",
+      "harvested_on",
+      "fresh_weight",
+      "dry_weight",
+      "contaminated",
+      "contaminated_on",
+      "spent_weight",
+      "notes",
+    ]);
     expect(seasonLogColumns.map((column) => column.name)).toEqual([...seasonLogColumnNames]);
     for (const column of seasonLogColumns) {
       expect(column.meaning.length).toBeGreaterThan(20);
       expect(column.examples.some((example) => example !== "")).toBe(true);
     }
     expect(seasonLogColumns.filter((column) => column.required === "always").map((column) => column.name)).toEqual(["block_id", "strain"]);
-    expect(seasonLogColumns.filter((column) => column.required === "harvest").map((column) => column.name)).toEqual(["flush", "fresh_weight"]);
+    expect(seasonLogColumns.filter((column) => column.required === "harvest").map((column) => column.name)).toEqual([
+      "flush",
+      "fresh_weight",
+    ]);
   });
 
   it("gives a template that reads back without a single issue", () => {
@@ -89,7 +110,10 @@ describe("createSeasonLogParser", () => {
 
   it("reads every generated style without issues", () => {
     for (const style of ["template", "european", "imperial"] as const) {
-      const result = parseSeasonLog(generateSeasonLog({ rows: 2_000, seed: 11, style }), { today: "2026-12-31", knownStrains: ["PO-03", "PO-07", "LM-01", "SH-12", "TT-02", "RE-01"] });
+      const result = parseSeasonLog(generateSeasonLog({ rows: 2_000, seed: 11, style }), {
+        today: "2026-12-31",
+        knownStrains: ["PO-03", "PO-07", "LM-01", "SH-12", "TT-02", "RE-01"],
+      });
       expect(result.issues, style).toEqual([]);
       expect(result.records, style).toHaveLength(2_000);
     }

@@ -136,7 +136,17 @@ const inoculatedBit = 1;
 const harvestedBit = 2;
 const contaminatedOnBit = 4;
 
-type BlockAttribute = "substrate" | "trialCode" | "arm" | "inoculatedOn" | "wetBlockGrams" | "moisture" | "fruitingMethod" | "contaminatedOn" | "spentGrams" | "strainCode";
+type BlockAttribute =
+  | "substrate"
+  | "trialCode"
+  | "arm"
+  | "inoculatedOn"
+  | "wetBlockGrams"
+  | "moisture"
+  | "fruitingMethod"
+  | "contaminatedOn"
+  | "spentGrams"
+  | "strainCode";
 
 /** Position of each block attribute in `BlockState.source`. */
 const slot: Readonly<Record<BlockAttribute, number>> = {
@@ -171,11 +181,32 @@ const shownMass = (written: "wetBlockAsWritten" | "spentAsWritten") => (record: 
 
 // Block columns compared between rows while reading; the dates wait for the file's date order.
 const rowBlockAttributes: readonly BlockAttributeRule[] = [
-  { field: "strainCode", slot: slot.strainCode, column: "strain", words: "strain", same: sameText("strainCode"), shown: shownText("strainCode") },
-  { field: "substrate", slot: slot.substrate, column: "substrate", words: "substrate", same: sameText("substrate"), shown: shownText("substrate") },
+  {
+    field: "strainCode",
+    slot: slot.strainCode,
+    column: "strain",
+    words: "strain",
+    same: sameText("strainCode"),
+    shown: shownText("strainCode"),
+  },
+  {
+    field: "substrate",
+    slot: slot.substrate,
+    column: "substrate",
+    words: "substrate",
+    same: sameText("substrate"),
+    shown: shownText("substrate"),
+  },
   { field: "trialCode", slot: slot.trialCode, column: "trial", words: "trial", same: sameText("trialCode"), shown: shownText("trialCode") },
   { field: "arm", slot: slot.arm, column: "arm", words: "trial arm", same: sameText("arm"), shown: shownText("arm") },
-  { field: "wetBlockGrams", slot: slot.wetBlockGrams, column: "block_wet_weight", words: "wet block weight", same: sameMass("wetBlockGrams"), shown: shownMass("wetBlockAsWritten") },
+  {
+    field: "wetBlockGrams",
+    slot: slot.wetBlockGrams,
+    column: "block_wet_weight",
+    words: "wet block weight",
+    same: sameMass("wetBlockGrams"),
+    shown: shownMass("wetBlockAsWritten"),
+  },
   {
     field: "moisture",
     slot: slot.moisture,
@@ -184,12 +215,40 @@ const rowBlockAttributes: readonly BlockAttributeRule[] = [
     same: (a, b) => Math.abs((a.moisture as number) - (b.moisture as number)) <= moistureTolerance,
     shown: (record) => `${Math.round((record.moisture as number) * 1000) / 10} %`,
   },
-  { field: "fruitingMethod", slot: slot.fruitingMethod, column: "fruiting_method", words: "fruiting method", same: sameText("fruitingMethod"), shown: shownText("fruitingMethod") },
-  { field: "spentGrams", slot: slot.spentGrams, column: "spent_weight", words: "spent block weight", same: sameMass("spentGrams"), shown: shownMass("spentAsWritten") },
+  {
+    field: "fruitingMethod",
+    slot: slot.fruitingMethod,
+    column: "fruiting_method",
+    words: "fruiting method",
+    same: sameText("fruitingMethod"),
+    shown: shownText("fruitingMethod"),
+  },
+  {
+    field: "spentGrams",
+    slot: slot.spentGrams,
+    column: "spent_weight",
+    words: "spent block weight",
+    same: sameMass("spentGrams"),
+    shown: shownMass("spentAsWritten"),
+  },
 ];
 const dateBlockAttributes: readonly BlockAttributeRule[] = [
-  { field: "inoculatedOn", slot: slot.inoculatedOn, column: "inoculated_on", words: "inoculation date", same: sameText("inoculatedOn"), shown: shownText("inoculatedOn") },
-  { field: "contaminatedOn", slot: slot.contaminatedOn, column: "contaminated_on", words: "contamination date", same: sameText("contaminatedOn"), shown: shownText("contaminatedOn") },
+  {
+    field: "inoculatedOn",
+    slot: slot.inoculatedOn,
+    column: "inoculated_on",
+    words: "inoculation date",
+    same: sameText("inoculatedOn"),
+    shown: shownText("inoculatedOn"),
+  },
+  {
+    field: "contaminatedOn",
+    slot: slot.contaminatedOn,
+    column: "contaminated_on",
+    words: "contamination date",
+    same: sameText("contaminatedOn"),
+    shown: shownText("contaminatedOn"),
+  },
 ];
 
 interface BlockState {
@@ -426,7 +485,11 @@ class SeasonLogReader implements SeasonLogParser {
     const control = sample.match(controlCharacters)?.length ?? 0;
     if (sample.includes("\u0000") || control > sample.length / 100) {
       this.stopped = true;
-      this.report(1, "error", "The file is not a CSV text file (it holds binary data). Open the season log in your spreadsheet, save or export it as CSV, and upload that file.");
+      this.report(
+        1,
+        "error",
+        "The file is not a CSV text file (it holds binary data). Open the season log in your spreadsheet, save or export it as CSV, and upload that file.",
+      );
       return null;
     }
     this.delimiter = sniffDelimiter(sample, final);
@@ -470,18 +533,30 @@ class SeasonLogReader implements SeasonLogParser {
       const first = this.rowsAboveHeader[0];
       this.headerLine = first.line;
       this.readRows = false;
-      this.report(first.line, "error", `Line ${first.line} should name the columns, but none of the first ${mostRowsAboveHeader + 1} rows names a season-log column (the first starts "${shorten(first.text)}"). Put the column names in the first row (block_id, strain, flush, fresh_weight …; download the template to see them), or choose the columns in the mapping step.`);
+      this.report(
+        first.line,
+        "error",
+        `Line ${first.line} should name the columns, but none of the first ${mostRowsAboveHeader + 1} rows names a season-log column (the first starts "${shorten(first.text)}"). Put the column names in the first row (block_id, strain, flush, fresh_weight …; download the template to see them), or choose the columns in the mapping step.`,
+      );
       return;
     }
     if (this.rowsAboveHeader.length > 0) {
       const lines = this.rowsAboveHeader.map((row) => row.line).join(", ");
-      this.report(this.rowsAboveHeader[0].line, "warning", `Line${this.rowsAboveHeader.length > 1 ? "s" : ""} ${lines} above the header on line ${line} name no season-log columns and were skipped (the first says "${shorten(this.rowsAboveHeader[0].text)}"). If they hold data, move the header to the top.`);
+      this.report(
+        this.rowsAboveHeader[0].line,
+        "warning",
+        `Line${this.rowsAboveHeader.length > 1 ? "s" : ""} ${lines} above the header on line ${line} name no season-log columns and were skipped (the first says "${shorten(this.rowsAboveHeader[0].text)}"). If they hold data, move the header to the top.`,
+      );
     }
     this.headerLine = line;
     this.headerWidth = width;
     this.mapping = mapping;
     for (const target of badTargets) {
-      this.report(line, "error", `The column mapping names "${shorten(target)}", which is not a column of the season-log schema. Choose one of the schema's columns (such as block_id or fresh_weight), or "ignore".`);
+      this.report(
+        line,
+        "error",
+        `The column mapping names "${shorten(target)}", which is not a column of the season-log schema. Choose one of the schema's columns (such as block_id or fresh_weight), or "ignore".`,
+      );
     }
     const wide = new Map<number, WideFlush>();
     const dateColumns = new Map<number, ColumnPlan>();
@@ -495,7 +570,13 @@ class SeasonLogReader implements SeasonLogParser {
     }
     for (const [flush, date] of dateColumns) {
       const weight = wide.get(flush);
-      if (weight === undefined) this.report(line, "warning", `Line ${line}, column "${date.header}": a harvest-date column for flush ${flush}, but no weight column for that flush, so its dates are ignored. Add a "Flush ${flush}" weight column, or map this column to "ignore".`, date.header);
+      if (weight === undefined)
+        this.report(
+          line,
+          "warning",
+          `Line ${line}, column "${date.header}": a harvest-date column for flush ${flush}, but no weight column for that flush, so its dates are ignored. Add a "Flush ${flush}" weight column, or map this column to "ignore".`,
+          date.header,
+        );
       else weight.date = date;
     }
     this.wide = [...wide.values()].sort((a, b) => a.flush - b.flush);
@@ -503,33 +584,61 @@ class SeasonLogReader implements SeasonLogParser {
     for (const missing of mapping.missingRequired) {
       this.readRows = false;
       const words = missing === "block_id" ? "the block code" : "the strain";
-      this.report(line, "error", `No column holds ${words}. Name a column "${missing}" (or ${missing === "block_id" ? '"Block"' : '"Strain"'}) in the header on line ${line}, or choose the column in the mapping step.`);
+      this.report(
+        line,
+        "error",
+        `No column holds ${words}. Name a column "${missing}" (or ${missing === "block_id" ? '"Block"' : '"Strain"'}) in the header on line ${line}, or choose the column in the mapping step.`,
+      );
     }
     if (this.wide.length > 0) {
       this.format = "wide";
       const longColumns = (["flush", "fresh_weight", "harvested_on"] as const).filter((name) => this.plan.has(name));
       if (longColumns.length > 0) {
         this.readRows = false;
-        this.report(line, "error", `The header on line ${line} has both one column per flush (such as "${this.wide[0].weight.header}") and the column "${this.plan.get(longColumns[0])?.header}". Use one layout: either one row per harvest with flush and fresh_weight, or one column per flush. Map the extra columns to "ignore" if they are not needed.`);
+        this.report(
+          line,
+          "error",
+          `The header on line ${line} has both one column per flush (such as "${this.wide[0].weight.header}") and the column "${this.plan.get(longColumns[0])?.header}". Use one layout: either one row per harvest with flush and fresh_weight, or one column per flush. Map the extra columns to "ignore" if they are not needed.`,
+        );
       }
       if (this.plan.has("dry_weight")) {
-        this.report(line, "warning", `Line ${line}, column "${this.plan.get("dry_weight")?.header}": with one column per flush, a single dry weight cannot be given to a flush, so the column is ignored. Upload dry weights as one row per harvest.`, this.plan.get("dry_weight")?.header);
+        this.report(
+          line,
+          "warning",
+          `Line ${line}, column "${this.plan.get("dry_weight")?.header}": with one column per flush, a single dry weight cannot be given to a flush, so the column is ignored. Upload dry weights as one row per harvest.`,
+          this.plan.get("dry_weight")?.header,
+        );
         this.plan.delete("dry_weight");
         this.columns = columnsFrom(this.plan);
       }
       if (this.wide.every((flush) => flush.date === null)) {
-        this.report(line, "warning", `The file has one column per flush and no harvest dates, so its flushes are stored without dates. If you have the dates, add a column per flush such as "Flush 1 date".`);
+        this.report(
+          line,
+          "warning",
+          `The file has one column per flush and no harvest dates, so its flushes are stored without dates. If you have the dates, add a column per flush such as "Flush 1 date".`,
+        );
       }
     } else if (this.plan.has("flush") !== this.plan.has("fresh_weight")) {
       this.readRows = false;
       const has = this.plan.has("flush") ? "flush" : "fresh_weight";
       const lacks = has === "flush" ? "fresh_weight" : "flush";
-      this.report(line, "error", `The header on line ${line} has a "${has}" column but no "${lacks}" column, and a harvest needs both. Add the "${lacks}" column, or choose it in the mapping step.`);
+      this.report(
+        line,
+        "error",
+        `The header on line ${line} has a "${has}" column but no "${lacks}" column, and a harvest needs both. Add the "${lacks}" column, or choose it in the mapping step.`,
+      );
     }
     if (mapping.unmatched.length > 0) {
-      const listed = mapping.unmatched.slice(0, 10).map((header) => `"${shorten(header)}"`).join(", ");
+      const listed = mapping.unmatched
+        .slice(0, 10)
+        .map((header) => `"${shorten(header)}"`)
+        .join(", ");
       const more = mapping.unmatched.length > 10 ? ` and ${mapping.unmatched.length - 10} more` : "";
-      this.report(line, "warning", `Line ${line}: the columns ${listed}${more} match no season-log column, so their values are not imported. If one of them holds a schema column, choose it in the mapping step.`);
+      this.report(
+        line,
+        "warning",
+        `Line ${line}: the columns ${listed}${more} match no season-log column, so their values are not imported. If one of them holds a schema column, choose it in the mapping step.`,
+      );
     }
   }
 
@@ -603,26 +712,52 @@ class SeasonLogReader implements SeasonLogParser {
     for (let index = 0; index < cells.length; index++) {
       if (cells[index].length > longestCell) {
         const header = index < this.headerWidth ? this.mapping.columns[index].header : `(column ${index + 1})`;
-        this.report(line, "error", `Line ${line}, column "${header}": the value is ${cells[index].length} characters long; a season-log cell holds at most ${longestCell}. Check that this is the season log exported as CSV, and shorten the cell.`, header, cells[index]);
+        this.report(
+          line,
+          "error",
+          `Line ${line}, column "${header}": the value is ${cells[index].length} characters long; a season-log cell holds at most ${longestCell}. Check that this is the season log exported as CSV, and shorten the cell.`,
+          header,
+          cells[index],
+        );
         cells[index] = "";
       }
     }
     if (cells.length > this.headerWidth) {
       for (let index = this.headerWidth; index < cells.length; index++) {
         if (cells[index].trim() !== "") {
-          this.report(line, "warning", `Line ${line}, column ${index + 1}: the value "${shorten(cells[index].trim())}" is beyond the last column of the header, so it is not imported. Give the column a header, or delete the value.`, `(column ${index + 1})`, cells[index].trim());
+          this.report(
+            line,
+            "warning",
+            `Line ${line}, column ${index + 1}: the value "${shorten(cells[index].trim())}" is beyond the last column of the header, so it is not imported. Give the column a header, or delete the value.`,
+            `(column ${index + 1})`,
+            cells[index].trim(),
+          );
           break;
         }
       }
     }
     const blockColumn = this.column("block_id");
     const blockText = cell(cells, blockColumn.index);
-    if (blockText === "") this.cellIssue(line, blockColumn, "", "error", "the block code is missing. Every row needs the code of its block: fill it in, or delete the row.");
+    if (blockText === "")
+      this.cellIssue(
+        line,
+        blockColumn,
+        "",
+        "error",
+        "the block code is missing. Every row needs the code of its block: fill it in, or delete the row.",
+      );
     this.rowPendingDates = 0;
     const strainColumn = this.column("strain");
     const strainText = cell(cells, strainColumn.index);
     let strainCode = strainText;
-    if (strainText === "") this.cellIssue(line, strainColumn, "", "error", "the strain is missing. Write the strain code (for example PO-03) on every row of the block.");
+    if (strainText === "")
+      this.cellIssue(
+        line,
+        strainColumn,
+        "",
+        "error",
+        "the strain is missing. Write the strain code (for example PO-03) on every row of the block.",
+      );
     else strainCode = this.strain(strainText, line, strainColumn);
     const row = this.current;
     row.line = line;
@@ -694,23 +829,47 @@ class SeasonLogReader implements SeasonLogParser {
       if (harvestedOn !== null || dry !== null) {
         const column = harvestedOn !== null ? this.column("harvested_on") : this.column("dry_weight");
         const value = cell(cells, column.index);
-        this.cellIssue(line, column, value, "error", `"${shorten(value)}" belongs to a harvest, but the row has no flush number and no fresh weight. Fill in the flush and the fresh weight, or clear this cell if the row is only the block.`);
+        this.cellIssue(
+          line,
+          column,
+          value,
+          "error",
+          `"${shorten(value)}" belongs to a harvest, but the row has no flush number and no fresh weight. Fill in the flush and the fresh weight, or clear this cell if the row is only the block.`,
+        );
       }
       this.addRecord(null, null, null, null, 0);
       return;
     }
     let flush: number | null = null;
     if (flushText === "") {
-      this.cellIssue(line, flushColumn, "", "error", `the flush number is missing, but the row has a fresh weight ("${shorten(freshText)}"). Write which flush this is (1, 2, 3 …), or clear the weight if the row is only the block.`);
+      this.cellIssue(
+        line,
+        flushColumn,
+        "",
+        "error",
+        `the flush number is missing, but the row has a fresh weight ("${shorten(freshText)}"). Write which flush this is (1, 2, 3 …), or clear the weight if the row is only the block.`,
+      );
     } else {
       const match = flushNumber.exec(flushText);
       if (match === null || Number(match[1]) < 1) {
-        this.cellIssue(line, flushColumn, flushText, "error", `"${shorten(flushText)}" is not a flush number. Write 1 for the first flush, 2 for the second and so on.`);
+        this.cellIssue(
+          line,
+          flushColumn,
+          flushText,
+          "error",
+          `"${shorten(flushText)}" is not a flush number. Write 1 for the first flush, 2 for the second and so on.`,
+        );
       } else flush = Number(match[1]);
     }
     let fresh: MassValue = null;
     if (freshText === "") {
-      this.cellIssue(line, freshColumn, "", "error", `the fresh weight${flush === null ? "" : ` of flush ${flush}`} is missing. Enter what was picked, with its unit, or clear the flush number if the row is only the block.`);
+      this.cellIssue(
+        line,
+        freshColumn,
+        "",
+        "error",
+        `the fresh weight${flush === null ? "" : ` of flush ${flush}`} is missing. Enter what was picked, with its unit, or clear the flush number if the row is only the block.`,
+      );
     } else fresh = this.mass(cells, freshColumn, line);
     this.addRecord(flush, harvestedOn, fresh, dry, harvestPendingDates);
   }
@@ -725,7 +884,13 @@ class SeasonLogReader implements SeasonLogParser {
     if (known !== null) return known;
     const nearest = this.strains.nearest(text);
     const hint = nearest === null ? "Check the code against the co-op's strain list" : `Did you mean "${nearest}"? Correct the code`;
-    this.cellIssue(line, column, text, "error", `"${shorten(text)}" is not a strain code of the co-op. ${hint}, or ask the coordinator to add the strain to the register.`);
+    this.cellIssue(
+      line,
+      column,
+      text,
+      "error",
+      `"${shorten(text)}" is not a strain code of the co-op. ${hint}, or ask the coordinator to add the strain to the register.`,
+    );
     return this.intern(text);
   }
 
@@ -749,7 +914,15 @@ class SeasonLogReader implements SeasonLogParser {
     let block = this.blocks.get(written);
     if (block === undefined) {
       const code = ownCopy(written);
-      block = { code, firstLine: line, source: [-1, -1, -1, -1, -1, -1, -1, -1, -1, -1], contaminated: null, contaminatedLine: 0, harvests: noHarvests, freshGrams: 0 };
+      block = {
+        code,
+        firstLine: line,
+        source: [-1, -1, -1, -1, -1, -1, -1, -1, -1, -1],
+        contaminated: null,
+        contaminatedLine: 0,
+        harvests: noHarvests,
+        freshGrams: 0,
+      };
       this.blocks.set(code, block);
     }
     return block;
@@ -760,7 +933,13 @@ class SeasonLogReader implements SeasonLogParser {
     for (let index = 0; index < block.harvests.length; index += 2) if (block.harvests[index] === flush) earlier = block.harvests[index + 1];
     if (earlier !== -1) {
       const column = this.format === "wide" ? (this.wide.find((wide) => wide.flush === flush)?.weight ?? absent) : this.column("flush");
-      this.cellIssue(line, column, String(flush), "error", `block ${record.blockCode} has flush ${flush} twice: on line ${earlier} and here. Delete the duplicate row, or correct the flush number.`);
+      this.cellIssue(
+        line,
+        column,
+        String(flush),
+        "error",
+        `block ${record.blockCode} has flush ${flush} twice: on line ${earlier} and here. Delete the duplicate row, or correct the flush number.`,
+      );
     } else {
       block.harvests = [...block.harvests, flush, line];
     }
@@ -785,7 +964,13 @@ class SeasonLogReader implements SeasonLogParser {
         block.contaminatedLine = line;
       } else if (block.contaminated !== contaminated) {
         const column = this.column("contaminated");
-        this.cellIssue(line, column, contaminated ? "yes" : "no", "error", `block ${record.blockCode} is marked ${contaminated ? "contaminated" : "not contaminated"} here but ${block.contaminated ? "contaminated" : "not contaminated"} on line ${block.contaminatedLine}. A block's details must be the same on every row: correct one of them.`);
+        this.cellIssue(
+          line,
+          column,
+          contaminated ? "yes" : "no",
+          "error",
+          `block ${record.blockCode} is marked ${contaminated ? "contaminated" : "not contaminated"} here but ${block.contaminated ? "contaminated" : "not contaminated"} on line ${block.contaminatedLine}. A block's details must be the same on every row: correct one of them.`,
+        );
       }
     }
     for (const rule of dateBlockAttributes) {
@@ -796,7 +981,13 @@ class SeasonLogReader implements SeasonLogParser {
   private disagreement(rule: BlockAttributeRule, record: SeasonRecord, earlier: SeasonRecord): void {
     const column = this.column(rule.column);
     const value = rule.shown(record);
-    this.cellIssue(record.line, column, value, "error", `block ${record.blockCode} has ${rule.words} "${shorten(value)}" here but "${shorten(rule.shown(earlier))}" on line ${earlier.line}. A block's details must be the same on every row: correct one of them.`);
+    this.cellIssue(
+      record.line,
+      column,
+      value,
+      "error",
+      `block ${record.blockCode} has ${rule.words} "${shorten(value)}" here but "${shorten(rule.shown(earlier))}" on line ${earlier.line}. A block's details must be the same on every row: correct one of them.`,
+    );
   }
 
   private decideDateOrder(): void {
@@ -810,7 +1001,13 @@ class SeasonLogReader implements SeasonLogParser {
         this.decidedOrder = "ambiguous";
         const dayFirst = this.firstDayFirst as { line: number; column: string; value: string };
         const monthFirst = this.firstMonthFirst as { line: number; column: string; value: string };
-        this.report(dayFirst.line, "error", `The file mixes day-first dates (such as "${dayFirst.value}" on line ${dayFirst.line}) and as many month-first dates (such as "${monthFirst.value}" on line ${monthFirst.line}). Choose the date order for the file, then correct the dates that do not fit it.`, dayFirst.column, dayFirst.value);
+        this.report(
+          dayFirst.line,
+          "error",
+          `The file mixes day-first dates (such as "${dayFirst.value}" on line ${dayFirst.line}) and as many month-first dates (such as "${monthFirst.value}" on line ${monthFirst.line}). Choose the date order for the file, then correct the dates that do not fit it.`,
+          dayFirst.column,
+          dayFirst.value,
+        );
         return;
       }
       this.decidedOrder = this.dayFirstOnly > this.monthFirstOnly ? "dmy" : "mdy";
@@ -822,7 +1019,13 @@ class SeasonLogReader implements SeasonLogParser {
       this.decidedOrder = "ambiguous";
       const either = this.firstEither;
       const reading = this.dates.get(either.value) as { kind: "either"; dmy: string; mdy: string };
-      this.report(either.line, "error", `Line ${either.line}, column "${either.column}": dates such as "${either.value}" can be read day-first (${reading.dmy}) or month-first (${reading.mdy}), and no date in the file settles which. Choose the date order, ${describeOrder("dmy")} or ${describeOrder("mdy")}, and read the file again.`, either.column, either.value);
+      this.report(
+        either.line,
+        "error",
+        `Line ${either.line}, column "${either.column}": dates such as "${either.value}" can be read day-first (${reading.dmy}) or month-first (${reading.mdy}), and no date in the file settles which. Choose the date order, ${describeOrder("dmy")} or ${describeOrder("mdy")}, and read the file again.`,
+        either.column,
+        either.value,
+      );
     }
   }
 
@@ -869,19 +1072,36 @@ class SeasonLogReader implements SeasonLogParser {
   private finish(): void {
     if (this.tokenizer?.unclosedQuoteLine != null) {
       const line = this.tokenizer.unclosedQuoteLine;
-      this.report(line, "error", `Line ${line}: a quotation mark opened on this line is never closed, so the rest of the file was read as one value. Close the quote, or remove the stray quotation mark.`);
+      this.report(
+        line,
+        "error",
+        `Line ${line}: a quotation mark opened on this line is never closed, so the rest of the file was read as one value. Close the quote, or remove the stray quotation mark.`,
+      );
     }
     if (this.headerLine === 0 && this.rowsAboveHeader.length > 0) {
       const first = this.rowsAboveHeader[0];
-      this.report(first.line, "error", `Line ${first.line} should name the columns, but no row of the file names a season-log column (the first starts "${shorten(first.text)}"). Put the column names in the first row (block_id, strain, flush, fresh_weight …; download the template to see them), or choose the columns in the mapping step.`);
+      this.report(
+        first.line,
+        "error",
+        `Line ${first.line} should name the columns, but no row of the file names a season-log column (the first starts "${shorten(first.text)}"). Put the column names in the first row (block_id, strain, flush, fresh_weight …; download the template to see them), or choose the columns in the mapping step.`,
+      );
     }
     if (this.headerLine === 0) {
-      if (this.issues.length === 0) this.report(1, "error", "The file is empty. Export the season log from your spreadsheet as CSV (with the column names in the first row) and upload that file.");
+      if (this.issues.length === 0)
+        this.report(
+          1,
+          "error",
+          "The file is empty. Export the season log from your spreadsheet as CSV (with the column names in the first row) and upload that file.",
+        );
       this.issues.sort((a, b) => a.line - b.line);
       return;
     }
     if (this.rows === 0) {
-      this.report(this.headerLine, "error", `The file has a header on line ${this.headerLine} but no rows below it. Add a row for each block or harvest, or check that you exported the right sheet.`);
+      this.report(
+        this.headerLine,
+        "error",
+        `The file has a header on line ${this.headerLine} but no rows below it. Add a row for each block or harvest, or check that you exported the right sheet.`,
+      );
     }
     this.decideDateOrder();
     const wetWeightColumn = this.column("block_wet_weight");
@@ -900,10 +1120,23 @@ class SeasonLogReader implements SeasonLogParser {
       const block = record.blockCode === "" ? undefined : this.blocks.get(record.blockCode);
       if (block !== undefined) this.blockAtFinish(block, record, index);
       this.futureDates(record);
-      if (block !== undefined && record.flush !== null && record.freshGrams !== null && record.wetBlockGrams !== null && record.freshGrams > record.wetBlockGrams) {
-        const freshColumn = this.format === "wide" ? (this.wide.find((wide) => wide.flush === record.flush)?.weight ?? absent) : this.column("fresh_weight");
+      if (
+        block !== undefined &&
+        record.flush !== null &&
+        record.freshGrams !== null &&
+        record.wetBlockGrams !== null &&
+        record.freshGrams > record.wetBlockGrams
+      ) {
+        const freshColumn =
+          this.format === "wide" ? (this.wide.find((wide) => wide.flush === record.flush)?.weight ?? absent) : this.column("fresh_weight");
         const written = record.freshAsWritten?.value ?? "";
-        this.cellIssue(record.line, freshColumn, written, "warning", `flush ${record.flush} of block ${record.blockCode} weighs ${formatMass(record.freshGrams, "metric")}, more than the whole wet block (${formatMass(record.wetBlockGrams, "metric")}${wetWeightColumn.index === -1 ? "" : `, column "${wetWeightColumn.header}"`}). Check the weight and its unit.`);
+        this.cellIssue(
+          record.line,
+          freshColumn,
+          written,
+          "warning",
+          `flush ${record.flush} of block ${record.blockCode} weighs ${formatMass(record.freshGrams, "metric")}, more than the whole wet block (${formatMass(record.wetBlockGrams, "metric")}${wetWeightColumn.index === -1 ? "" : `, column "${wetWeightColumn.header}"`}). Check the weight and its unit.`,
+        );
       }
     }
     for (const [code, block] of this.blocks) this.blockTotals(code, block);
@@ -922,21 +1155,25 @@ class SeasonLogReader implements SeasonLogParser {
       const source = block.source[rule.slot];
       if (record[rule.field] === null || source === -1 || source === index) continue;
       const earlier = this.records[source];
-      if (earlier[rule.field] !== null && earlier.line !== record.line && !rule.same(earlier, record)) this.disagreement(rule, record, earlier);
+      if (earlier[rule.field] !== null && earlier.line !== record.line && !rule.same(earlier, record))
+        this.disagreement(rule, record, earlier);
     }
     const source = block.source;
     const records = this.records;
     if (record.substrate === null && source[slot.substrate] !== -1) record.substrate = records[source[slot.substrate]].substrate;
     if (record.trialCode === null && source[slot.trialCode] !== -1) record.trialCode = records[source[slot.trialCode]].trialCode;
     if (record.arm === null && source[slot.arm] !== -1) record.arm = records[source[slot.arm]].arm;
-    if (record.inoculatedOn === null && source[slot.inoculatedOn] !== -1) record.inoculatedOn = records[source[slot.inoculatedOn]].inoculatedOn;
+    if (record.inoculatedOn === null && source[slot.inoculatedOn] !== -1)
+      record.inoculatedOn = records[source[slot.inoculatedOn]].inoculatedOn;
     if (record.wetBlockGrams === null && source[slot.wetBlockGrams] !== -1) {
       record.wetBlockGrams = records[source[slot.wetBlockGrams]].wetBlockGrams;
       record.wetBlockAsWritten = records[source[slot.wetBlockGrams]].wetBlockAsWritten;
     }
     if (record.moisture === null && source[slot.moisture] !== -1) record.moisture = records[source[slot.moisture]].moisture;
-    if (record.fruitingMethod === null && source[slot.fruitingMethod] !== -1) record.fruitingMethod = records[source[slot.fruitingMethod]].fruitingMethod;
-    if (record.contaminatedOn === null && source[slot.contaminatedOn] !== -1) record.contaminatedOn = records[source[slot.contaminatedOn]].contaminatedOn;
+    if (record.fruitingMethod === null && source[slot.fruitingMethod] !== -1)
+      record.fruitingMethod = records[source[slot.fruitingMethod]].fruitingMethod;
+    if (record.contaminatedOn === null && source[slot.contaminatedOn] !== -1)
+      record.contaminatedOn = records[source[slot.contaminatedOn]].contaminatedOn;
     if (record.spentGrams === null && source[slot.spentGrams] !== -1) {
       record.spentGrams = records[source[slot.spentGrams]].spentGrams;
       record.spentAsWritten = records[source[slot.spentGrams]].spentAsWritten;
@@ -944,23 +1181,44 @@ class SeasonLogReader implements SeasonLogParser {
     record.contaminated = block.contaminated ?? record.contaminatedOn !== null;
     if (record.harvestedOn !== null && record.inoculatedOn !== null && record.harvestedOn < record.inoculatedOn) {
       const column = this.harvestDateColumn(record);
-      this.cellIssue(record.line, column, record.harvestedOn, "error", `flush ${record.flush} of block ${record.blockCode} was harvested on ${record.harvestedOn}, before the block was inoculated (${record.inoculatedOn}). Correct the harvest date or the inoculation date.`);
+      this.cellIssue(
+        record.line,
+        column,
+        record.harvestedOn,
+        "error",
+        `flush ${record.flush} of block ${record.blockCode} was harvested on ${record.harvestedOn}, before the block was inoculated (${record.inoculatedOn}). Correct the harvest date or the inoculation date.`,
+      );
     }
     if (block.contaminated === false && record.contaminatedOn !== null && block.source[slot.contaminatedOn] === index) {
       const column = this.column("contaminated_on");
-      this.cellIssue(record.line, column, record.contaminatedOn, "warning", `block ${record.blockCode} has a contamination date (${record.contaminatedOn}) but is marked not contaminated on line ${block.contaminatedLine}. Mark it contaminated, or clear the date.`);
+      this.cellIssue(
+        record.line,
+        column,
+        record.contaminatedOn,
+        "warning",
+        `block ${record.blockCode} has a contamination date (${record.contaminatedOn}) but is marked not contaminated on line ${block.contaminatedLine}. Mark it contaminated, or clear the date.`,
+      );
     }
   }
 
   private futureDates(record: SeasonRecord): void {
-    if (record.harvestedOn !== null && record.harvestedOn > this.today) this.futureDate(record, record.harvestedOn, this.harvestDateColumn(record), "harvest date");
-    if (record.inoculatedOn !== null && record.inoculatedOn > this.today) this.futureDate(record, record.inoculatedOn, this.column("inoculated_on"), "inoculation date");
-    if (record.contaminatedOn !== null && record.contaminatedOn > this.today) this.futureDate(record, record.contaminatedOn, this.column("contaminated_on"), "contamination date");
+    if (record.harvestedOn !== null && record.harvestedOn > this.today)
+      this.futureDate(record, record.harvestedOn, this.harvestDateColumn(record), "harvest date");
+    if (record.inoculatedOn !== null && record.inoculatedOn > this.today)
+      this.futureDate(record, record.inoculatedOn, this.column("inoculated_on"), "inoculation date");
+    if (record.contaminatedOn !== null && record.contaminatedOn > this.today)
+      this.futureDate(record, record.contaminatedOn, this.column("contaminated_on"), "contamination date");
   }
 
   private futureDate(record: SeasonRecord, date: string, column: ColumnPlan, words: string): void {
     if (column.index === -1 || !this.firstReport(record.line, column)) return;
-    this.cellIssue(record.line, column, date, "warning", `the ${words} ${date} is in the future (today is ${this.today}). Check the date; with day-first and month-first dates, also check the date order.`);
+    this.cellIssue(
+      record.line,
+      column,
+      date,
+      "warning",
+      `the ${words} ${date} is in the future (today is ${this.today}). Check the date; with day-first and month-first dates, also check the date order.`,
+    );
   }
 
   private blockTotals(code: string, block: BlockState): void {
@@ -974,7 +1232,13 @@ class SeasonLogReader implements SeasonLogParser {
         const line = block.harvests[block.harvests.indexOf(after) + 1];
         const column = this.format === "wide" ? (this.wide.find((wide) => wide.flush === after)?.weight ?? absent) : this.column("flush");
         const recorded = [...flushes].sort((a, b) => a - b).join(", ");
-        this.cellIssue(line, column, String(after), "warning", `block ${code} has flushes ${recorded} but no flush ${missing.join(", ")}. Add the missing flush, or renumber the flushes.`);
+        this.cellIssue(
+          line,
+          column,
+          String(after),
+          "warning",
+          `block ${code} has flushes ${recorded} but no flush ${missing.join(", ")}. Add the missing flush, or renumber the flushes.`,
+        );
       }
     }
     const wetSource = block.source[slot.wetBlockGrams];
@@ -984,7 +1248,13 @@ class SeasonLogReader implements SeasonLogParser {
     if (dryGrams <= 0 || block.freshGrams <= highestPlausibleEfficiency * dryGrams) return;
     const efficiency = Math.round((block.freshGrams / dryGrams) * 100);
     const column = this.format === "wide" ? (this.wide[0]?.weight ?? absent) : this.column("fresh_weight");
-    this.cellIssue(block.firstLine, column, formatMass(block.freshGrams, "metric"), "warning", `block ${code} gave ${formatMass(block.freshGrams, "metric")} fresh in all from ${formatMass(dryGrams, "metric")} of dry substrate: a biological efficiency of ${efficiency} %, above the 250 % that blocks plausibly reach. Check this block's weights, their units and its moisture.`);
+    this.cellIssue(
+      block.firstLine,
+      column,
+      formatMass(block.freshGrams, "metric"),
+      "warning",
+      `block ${code} gave ${formatMass(block.freshGrams, "metric")} fresh in all from ${formatMass(dryGrams, "metric")} of dry substrate: a biological efficiency of ${efficiency} %, above the 250 % that blocks plausibly reach. Check this block's weights, their units and its moisture.`,
+    );
   }
 }
 

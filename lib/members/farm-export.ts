@@ -16,7 +16,11 @@ export const exportFiles = {
       { key: "code", header: "block", meaning: "Your farm's own code for the block." },
       { key: "strainCode", header: "strain", meaning: "The co-op's code for the strain the block was inoculated with." },
       { key: "substrateRecipeCode", header: "substrate_recipe", meaning: "The co-op's code for the substrate recipe, if recorded." },
-      { key: "fruitingMethodCode", header: "fruiting_method", meaning: "The co-op's code for how the bag was opened for fruiting, if recorded." },
+      {
+        key: "fruitingMethodCode",
+        header: "fruiting_method",
+        meaning: "The co-op's code for how the bag was opened for fruiting, if recorded.",
+      },
       { key: "inoculatedOn", header: "inoculated_on", meaning: "Date the block was inoculated (YYYY-MM-DD)." },
       { key: "wetMassG", header: "wet_mass_g", meaning: "Wet block mass in grams, as the server normalised it." },
       { key: "wetMassAsWritten", header: "wet_mass_as_written", meaning: "The wet mass exactly as your sheet gave it." },
@@ -82,11 +86,21 @@ export const exportFiles = {
 
 /** A safe, unique name inside the download for an uploaded file. */
 export function originalFileName(index: number, fileName: string): string {
-  const cleaned = fileName.replace(/[^A-Za-z0-9._-]+/g, "_").replace(/\.{2,}/g, "_").replace(/_+/g, "_").replace(/^[._]+/, "") || "file";
+  const cleaned =
+    fileName
+      .replace(/[^A-Za-z0-9._-]+/g, "_")
+      .replace(/\.{2,}/g, "_")
+      .replace(/_+/g, "_")
+      .replace(/^[._]+/, "") || "file";
   return `originals/${String(index + 1).padStart(4, "0")}-${cleaned}`;
 }
 
-export function exportReadme(input: { farmName: string; cooperativeName: string; exportedAt: Date; counts: Record<keyof typeof exportFiles, number> }): string {
+export function exportReadme(input: {
+  farmName: string;
+  cooperativeName: string;
+  exportedAt: Date;
+  counts: Record<keyof typeof exportFiles, number>;
+}): string {
   const sections = Object.entries(exportFiles).map(([kind, spec]) => {
     const count = input.counts[kind as keyof typeof exportFiles];
     const columns = spec.columns.map((column) => `  ${column.header}: ${column.meaning}`).join("\n");

@@ -3,7 +3,10 @@ import { describeProblem, parseRegistryCsv } from "./registry-csv";
 
 describe("registry CSV import", () => {
   it("reads strains, forgiving header case and the source's spelling", () => {
-    const { rows, problems } = parseRegistryCsv("strains", "Code,Species,Name,Source,Notes\npo-04,Pleurotus ostreatus,Ridge Grey,Culture bank,\nHE-09,Hericium erinaceus,Creek Beard,own isolate,from 2025 log\n");
+    const { rows, problems } = parseRegistryCsv(
+      "strains",
+      "Code,Species,Name,Source,Notes\npo-04,Pleurotus ostreatus,Ridge Grey,Culture bank,\nHE-09,Hericium erinaceus,Creek Beard,own isolate,from 2025 log\n",
+    );
     expect(problems).toEqual([]);
     expect(rows).toEqual([
       { kind: "strains", code: "PO-04", species: "Pleurotus ostreatus", name: "Ridge Grey", source: "culture_bank", notes: "" },

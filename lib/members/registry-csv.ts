@@ -14,7 +14,10 @@ export const registryLabels: Record<RegistryKind, string> = {
 export const registryColumns: Record<RegistryKind, { required: string[]; optional: string[] }> = {
   species: { required: ["scientific_name", "common_name"], optional: [] },
   strains: { required: ["code", "species", "name", "source"], optional: ["notes"] },
-  substrate_recipes: { required: ["code", "name", "base", "target_moisture_percent", "treatment"], optional: ["supplement", "supplement_percent"] },
+  substrate_recipes: {
+    required: ["code", "name", "base", "target_moisture_percent", "treatment"],
+    optional: ["supplement", "supplement_percent"],
+  },
   treatments: { required: ["code", "name"], optional: ["kind", "description"] },
 };
 
@@ -41,11 +44,25 @@ export interface CsvProblem {
 }
 
 const sourceWords: Record<string, "culture_bank" | "wild_clone" | "own_isolate"> = {
-  culture_bank: "culture_bank", "culture bank": "culture_bank", "wild clone": "wild_clone", wild_clone: "wild_clone", "own isolate": "own_isolate", own_isolate: "own_isolate",
+  culture_bank: "culture_bank",
+  "culture bank": "culture_bank",
+  "wild clone": "wild_clone",
+  wild_clone: "wild_clone",
+  "own isolate": "own_isolate",
+  own_isolate: "own_isolate",
 };
-const treatmentWords: Record<string, "sterilised" | "pasteurised"> = { sterilised: "sterilised", sterilized: "sterilised", pasteurised: "pasteurised", pasteurized: "pasteurised" };
+const treatmentWords: Record<string, "sterilised" | "pasteurised"> = {
+  sterilised: "sterilised",
+  sterilized: "sterilised",
+  pasteurised: "pasteurised",
+  pasteurized: "pasteurised",
+};
 const kindWords: Record<string, "fruiting_method" | "humidity" | "other"> = {
-  "": "fruiting_method", fruiting_method: "fruiting_method", "fruiting method": "fruiting_method", humidity: "humidity", other: "other",
+  "": "fruiting_method",
+  fruiting_method: "fruiting_method",
+  "fruiting method": "fruiting_method",
+  humidity: "humidity",
+  other: "other",
 };
 
 function percent(value: string, column: string, line: number, problems: CsvProblem[], upper: number): number {
@@ -66,7 +83,11 @@ export function parseRegistryCsv(kind: RegistryKind, text: string): { rows: Regi
   const parsed = Papa.parse<Record<string, string>>(text.replace(/^\uFEFF/, ""), {
     header: true,
     skipEmptyLines: "greedy",
-    transformHeader: (header) => header.trim().toLowerCase().replace(/[\s-]+/g, "_"),
+    transformHeader: (header) =>
+      header
+        .trim()
+        .toLowerCase()
+        .replace(/[\s-]+/g, "_"),
   });
   const problems: CsvProblem[] = [];
   const headers = parsed.meta.fields ?? [];
@@ -74,7 +95,12 @@ export function parseRegistryCsv(kind: RegistryKind, text: string): { rows: Regi
   if (missing.length) {
     return {
       rows: [],
-      problems: missing.map((column) => ({ line: 1, column, value: "", message: `The header has no "${column}" column. Expected columns: ${[...registryColumns[kind].required, ...registryColumns[kind].optional].join(", ")}.` })),
+      problems: missing.map((column) => ({
+        line: 1,
+        column,
+        value: "",
+        message: `The header has no "${column}" column. Expected columns: ${[...registryColumns[kind].required, ...registryColumns[kind].optional].join(", ")}.`,
+      })),
     };
   }
   const rows: RegistryRow[] = [];
@@ -89,30 +115,58 @@ export function parseRegistryCsv(kind: RegistryKind, text: string): { rows: Regi
       }
     }
     const key = kind === "species" ? cell("scientific_name").toLowerCase() : cell("code").toUpperCase();
-    if (key && seen.has(key)) problems.push({ line, column: kind === "species" ? "scientific_name" : "code", value: key, message: `Repeats line ${seen.get(key)}: each entry once.` });
+    if (key && seen.has(key))
+      problems.push({
+        line,
+        column: kind === "species" ? "scientific_name" : "code",
+        value: key,
+        message: `Repeats line ${seen.get(key)}: each entry once.`,
+      });
     else if (key) seen.set(key, line);
 
     let row: RegistryRow | null = null;
     if (kind === "species") row = { kind, scientificName: cell("scientific_name"), commonName: cell("common_name") };
     if (kind === "strains") {
       const source = sourceWords[cell("source").toLowerCase()];
-      if (!source && cell("source")) problems.push({ line, column: "source", value: cell("source"), message: "Use culture bank, wild clone or own isolate." });
-      row = { kind, code: cell("code").toUpperCase(), species: cell("species"), name: cell("name"), source: source ?? "culture_bank", notes: cell("notes") };
+      if (!source && cell("source"))
+        problems.push({ line, column: "source", value: cell("source"), message: "Use culture bank, wild clone or own isolate." });
+      row = {
+        kind,
+        code: cell("code").toUpperCase(),
+        species: cell("species"),
+        name: cell("name"),
+        source: source ?? "culture_bank",
+        notes: cell("notes"),
+      };
     }
     if (kind === "substrate_recipes") {
       const treatment = treatmentWords[cell("treatment").toLowerCase()];
-      if (!treatment && cell("treatment")) problems.push({ line, column: "treatment", value: cell("treatment"), message: "Use sterilised or pasteurised." });
+      if (!treatment && cell("treatment"))
+        problems.push({ line, column: "treatment", value: cell("treatment"), message: "Use sterilised or pasteurised." });
       const moisture = percent(cell("target_moisture_percent"), "target_moisture_percent", line, problems, 99);
-      const supplement = cell("supplement_percent") === "" ? 0 : percent(cell("supplement_percent"), "supplement_percent", line, problems, 100);
+      const supplement =
+        cell("supplement_percent") === "" ? 0 : percent(cell("supplement_percent"), "supplement_percent", line, problems, 100);
       row = {
-        kind, code: cell("code").toUpperCase(), name: cell("name"), base: cell("base"), supplement: cell("supplement"),
-        supplementPercent: supplement, targetMoisture: moisture / 100, treatment: treatment ?? "sterilised",
+        kind,
+        code: cell("code").toUpperCase(),
+        name: cell("name"),
+        base: cell("base"),
+        supplement: cell("supplement"),
+        supplementPercent: supplement,
+        targetMoisture: moisture / 100,
+        treatment: treatment ?? "sterilised",
       };
     }
     if (kind === "treatments") {
       const treatmentKind = kindWords[cell("kind").toLowerCase()];
       if (!treatmentKind) problems.push({ line, column: "kind", value: cell("kind"), message: "Use fruiting method, humidity or other." });
-      row = { kind, code: cell("code").toUpperCase(), name: cell("name"), treatmentKind: treatmentKind ?? "other", description: cell("description") };
+      row = {
+        kind,
+        code: cell("code").toUpperCase(),
+        name: cell("name"),
+        treatmentKind: treatmentKind ?? "other",
+        description: cell("description"),
+      };
     }
     if (row && problems.length === before) rows.push(row);
   });

@@ -34,7 +34,8 @@ export function invitationProblem(inviter: { role: Role; farmId: string | null }
  * `farmPeople` are the active people of the target's farm (the target included).
  */
 export function roleChangeProblem(actor: Person, target: Person, newRole: Role, farmPeople: Person[]): string | null {
-  if (actor.role !== "coordinator") return "Only the coordinator changes roles; a farm manager hands over with “Transfer the manager role”.";
+  if (actor.role !== "coordinator")
+    return "Only the coordinator changes roles; a farm manager hands over with “Transfer the manager role”.";
   if (actor.id === target.id) return "You cannot change your own role: ask another coordinator.";
   if (!target.active) return "This person is deactivated: invite them again instead.";
   if (target.role === newRole) return "That is already their role.";
@@ -72,5 +73,7 @@ export function transferProblem(actor: Person, target: Person): string | null {
 }
 
 function otherActiveManager(target: Person, farmPeople: Person[]): boolean {
-  return farmPeople.some((person) => person.id !== target.id && person.active && person.role === "farm_manager" && person.farmId === target.farmId);
+  return farmPeople.some(
+    (person) => person.id !== target.id && person.active && person.role === "farm_manager" && person.farmId === target.farmId,
+  );
 }

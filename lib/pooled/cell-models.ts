@@ -82,7 +82,8 @@ export function adjustedMeansFromCells(cells: readonly ModelCell[], level = 0.95
     }
   }
   const msResidual = rssFull / dfResidual;
-  if (!(msResidual > 0)) throw new StatsInputError("no_variation", "Every block has the same BE; there is no error to build intervals from.");
+  if (!(msResidual > 0))
+    throw new StatsInputError("no_variation", "Every block has the same BE; there is no error to build intervals from.");
 
   let averageBlockLevel = 0;
   let blockMeanVariance = 0;
@@ -114,7 +115,10 @@ export function adjustedMeansFromCells(cells: readonly ModelCell[], level = 0.95
 /** Tukey–Kramer pairwise differences from Σx / Σx² summaries, through lib/stats (pairs in key order: y−x). */
 export function tukeyFromSummaries(groups: Record<string, Summary>, level = 0.95): TukeyComparison[] {
   const described = Object.fromEntries(
-    Object.entries(groups).map(([name, summary]) => [name, { n: summary.n, mean: summaryMean(summary), sumOfSquares: summarySumOfSquares(summary) }]),
+    Object.entries(groups).map(([name, summary]) => [
+      name,
+      { n: summary.n, mean: summaryMean(summary), sumOfSquares: summarySumOfSquares(summary) },
+    ]),
   );
   return tukeyFromGroupSummaries(described, level);
 }

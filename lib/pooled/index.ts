@@ -1,4 +1,11 @@
-export { flushWindows, flushWindowLabels, type FlushWindow, type FlushStatisticsRow, type PooledFilters, type StrainStatisticsRow } from "./types";
+export {
+  flushWindows,
+  flushWindowLabels,
+  type FlushWindow,
+  type FlushStatisticsRow,
+  type PooledFilters,
+  type StrainStatisticsRow,
+} from "./types";
 export { addSummaries, summaryMean, summaryVariance, type Summary } from "./sufficient";
 export { adjustedMeansFromCells, tukeyFromSummaries, type ModelCell } from "./cell-models";
 export { addBins, binQuantile, percentileOf, type EfficiencyBins } from "./bins";

@@ -88,7 +88,9 @@ export function summariseOwnFarm(
 
       let ownCumulative: number[] | null = null;
       try {
-        ownCumulative = flushProfile(finished.flatMap((block) => block.harvests.map((harvest) => ({ blockId: block.id, ...harvest })))).map((share) => share.cumulativeShare);
+        ownCumulative = flushProfile(finished.flatMap((block) => block.harvests.map((harvest) => ({ blockId: block.id, ...harvest })))).map(
+          (share) => share.cumulativeShare,
+        );
       } catch (error) {
         if (!(error instanceof StatsInputError)) throw error;
       }

@@ -17,7 +17,10 @@ describe("the viewer's own blocks for the boxplot dots", () => {
   it("over the limit, keeps that many evenly spaced by rank, from the lowest block to the highest", () => {
     // Ranks 0…999 of the values 1…1000, shuffled; 100 kept are ranks round(k · 999 / 99).
     const values = Array.from({ length: 1000 }, (_, index) => ((index * 617) % 1000) + 1);
-    const [strain] = ownBlocksForChart(values.map((efficiency) => ({ strainId: "A", efficiency })), 100);
+    const [strain] = ownBlocksForChart(
+      values.map((efficiency) => ({ strainId: "A", efficiency })),
+      100,
+    );
     expect(strain.blocks).toBe(1000);
     expect(strain.efficiencies).toHaveLength(100);
     expect(strain.efficiencies[0]).toBe(1);

@@ -14,7 +14,10 @@ const ownBlocksShownPerStrain = 100;
  * Groups the viewer's blocks by strain. Where a strain has more than `limit`, keeps `limit`
  * evenly spaced by rank, from the lowest to the highest, so the dots keep the farm's spread.
  */
-export function ownBlocksForChart(blocks: readonly { strainId: string; efficiency: number }[], limit = ownBlocksShownPerStrain): OwnStrainBlocks[] {
+export function ownBlocksForChart(
+  blocks: readonly { strainId: string; efficiency: number }[],
+  limit = ownBlocksShownPerStrain,
+): OwnStrainBlocks[] {
   const byStrain = new Map<string, number[]>();
   for (const block of blocks) {
     const values = byStrain.get(block.strainId);
@@ -23,7 +26,10 @@ export function ownBlocksForChart(blocks: readonly { strainId: string; efficienc
   }
   return [...byStrain].map(([strainId, values]) => {
     values.sort((a, b) => a - b);
-    const shown = values.length <= limit ? values : Array.from({ length: limit }, (_, rank) => values[Math.round((rank * (values.length - 1)) / (limit - 1))]);
+    const shown =
+      values.length <= limit
+        ? values
+        : Array.from({ length: limit }, (_, rank) => values[Math.round((rank * (values.length - 1)) / (limit - 1))]);
     return { strainId, blocks: values.length, efficiencies: shown.map((value) => Math.round(value * 10) / 10) };
   });
 }

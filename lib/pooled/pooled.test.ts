@@ -47,15 +47,20 @@ function input(rows: StrainStatisticsRow[], overrides: Partial<PooledResultsInpu
   };
 }
 
-const blocksOf = (random: ReturnType<typeof seededRandom>, mean: number, n: number) => Array.from({ length: n }, () => random.normal(mean, 8));
+const blocksOf = (random: ReturnType<typeof seededRandom>, mean: number, n: number) =>
+  Array.from({ length: n }, () => random.normal(mean, 8));
 
 describe("the farm-blocked model from cell sums", () => {
   it("gives the blocked model and Tukey the same answers from cell sums as from the real block values", () => {
     const random = seededRandom("equivalence");
     const real: { treatment: string; block: string; y: number }[] = [];
     for (const farm of ["f1", "f2", "f3", "f4"]) {
-      for (const [strain, mean] of [["a", 80], ["b", 90], ["c", 75]] as const) {
-        for (const y of blocksOf(random, mean + farm.length, 3 + real.length % 4)) real.push({ treatment: strain, block: farm, y });
+      for (const [strain, mean] of [
+        ["a", 80],
+        ["b", 90],
+        ["c", 75],
+      ] as const) {
+        for (const y of blocksOf(random, mean + farm.length, 3 + (real.length % 4))) real.push({ treatment: strain, block: farm, y });
       }
     }
     const cells = new Map<string, { n: number; sum: number; squares: number; treatment: string; block: string }>();
@@ -74,12 +79,15 @@ describe("the farm-blocked model from cell sums", () => {
       expect(fromCells[index].upper).toBeCloseTo(mean.upper, 8);
     });
 
-    const groups = (obs: typeof real) => Object.fromEntries(["a", "b", "c"].map((t) => [t, obs.filter((o) => o.treatment === t).map((o) => o.y)]));
+    const groups = (obs: typeof real) =>
+      Object.fromEntries(["a", "b", "c"].map((t) => [t, obs.filter((o) => o.treatment === t).map((o) => o.y)]));
     const tukeyReal = tukeyHsd(groups(real));
-    const summaries = Object.fromEntries(["a", "b", "c"].map((t) => {
-      const ys = real.filter((o) => o.treatment === t).map((o) => o.y);
-      return [t, { n: ys.length, sum: ys.reduce((x, y) => x + y, 0), squares: ys.reduce((x, y) => x + y * y, 0) }];
-    }));
+    const summaries = Object.fromEntries(
+      ["a", "b", "c"].map((t) => {
+        const ys = real.filter((o) => o.treatment === t).map((o) => o.y);
+        return [t, { n: ys.length, sum: ys.reduce((x, y) => x + y, 0), squares: ys.reduce((x, y) => x + y * y, 0) }];
+      }),
+    );
     tukeyFromSummaries(summaries).forEach((pair, index) => {
       expect(pair.diff).toBeCloseTo(tukeyReal[index].diff, 8);
       expect(pair.lower).toBeCloseTo(tukeyReal[index].lower, 8);
@@ -112,7 +120,10 @@ describe("minimum-farms suppression", () => {
     const random = seededRandom("minimum");
     const rows = ["f1", "f2", "f3"].map((farm) => row(farm, "a", blocksOf(random, 80, 6)));
     expect(buildPooledResults(input(rows, { minimumFarms: 2 })).strains[0].efficiency.status).toBe("published");
-    expect(buildPooledResults(input(rows, { minimumFarms: 4 })).strains[0].efficiency).toEqual({ status: "suppressed", message: "fewer than 4 farms" });
+    expect(buildPooledResults(input(rows, { minimumFarms: 4 })).strains[0].efficiency).toEqual({
+      status: "suppressed",
+      message: "fewer than 4 farms",
+    });
   });
 });
 
@@ -156,12 +167,33 @@ describe("the differencing guard", () => {
   it("never publishes two figures whose difference comes from fewer farms than the minimum", () => {
     fc.assert(
       fc.property(
-        fc.array(fc.record({ farm: fc.integer({ min: 1, max: 8 }), recipe: fc.integer({ min: 1, max: 3 }), method: fc.integer({ min: 1, max: 2 }) }), { minLength: 1, maxLength: 30 }),
+        fc.array(
+          fc.record({
+            farm: fc.integer({ min: 1, max: 8 }),
+            recipe: fc.integer({ min: 1, max: 3 }),
+            method: fc.integer({ min: 1, max: 2 }),
+          }),
+          { minLength: 1, maxLength: 30 },
+        ),
         (cells) => {
-          const generated = cells.map((cell) => row(`f${cell.farm}`, "a", [80], { substrateRecipeId: `r${cell.recipe}`, fruitingMethodId: `m${cell.method}` }));
-          const filterSets = [{}, ...[1, 2, 3].map((r) => ({ substrateRecipeId: `r${r}` })), ...[1, 2].map((m) => ({ fruitingMethodId: `m${m}` }))];
+          const generated = cells.map((cell) =>
+            row(`f${cell.farm}`, "a", [80], { substrateRecipeId: `r${cell.recipe}`, fruitingMethodId: `m${cell.method}` }),
+          );
+          const filterSets = [
+            {},
+            ...[1, 2, 3].map((r) => ({ substrateRecipeId: `r${r}` })),
+            ...[1, 2].map((m) => ({ fruitingMethodId: `m${m}` })),
+          ];
           const farmsOf = (filters: { substrateRecipeId?: string; fruitingMethodId?: string }) =>
-            new Set(generated.filter((r) => (!filters.substrateRecipeId || r.substrateRecipeId === filters.substrateRecipeId) && (!filters.fruitingMethodId || r.fruitingMethodId === filters.fruitingMethodId)).map((r) => `${r.farmId}|${r.substrateRecipeId}|${r.fruitingMethodId}`));
+            new Set(
+              generated
+                .filter(
+                  (r) =>
+                    (!filters.substrateRecipeId || r.substrateRecipeId === filters.substrateRecipeId) &&
+                    (!filters.fruitingMethodId || r.fruitingMethodId === filters.fruitingMethodId),
+                )
+                .map((r) => `${r.farmId}|${r.substrateRecipeId}|${r.fruitingMethodId}`),
+            );
           const published = filterSets.filter((filters) => {
             const result = buildPooledResults(input(generated, { filters, strains: [{ id: "a", name: "A" }] }));
             return result.strains[0]?.blocks.status === "published";
@@ -212,10 +244,12 @@ describe("per-farm estimates in the forest chart", () => {
 
 describe("plain-language sentences and percentiles", () => {
   it("words a difference the way the issue asks", () => {
-    expect(comparisonSentence({ better: "Strain B", base: "strain A", estimate: 9.2, lower: 3.4, upper: 15.1, farms: 7, blocks: 412 })).toBe(
-      "Strain B gave 9 BE points more than strain A (95 % interval 3 to 15), from 7 farms and 412 blocks.",
+    expect(
+      comparisonSentence({ better: "Strain B", base: "strain A", estimate: 9.2, lower: 3.4, upper: 15.1, farms: 7, blocks: 412 }),
+    ).toBe("Strain B gave 9 BE points more than strain A (95 % interval 3 to 15), from 7 farms and 412 blocks.");
+    expect(comparisonSentence({ better: "B", base: "A", estimate: -4, lower: -9, upper: 1, farms: 3, blocks: 40 })).toContain(
+      "cannot tell them apart",
     );
-    expect(comparisonSentence({ better: "B", base: "A", estimate: -4, lower: -9, upper: 1, farms: 3, blocks: 40 })).toContain("cannot tell them apart");
   });
 
   it("places a farm in the co-op distribution", () => {

@@ -14,7 +14,10 @@ export interface FarmStrainCell {
   firstHarvestDaysSum: number;
 }
 
-export function matchesFilters(row: { substrateRecipeId: string | null; fruitingMethodId: string | null }, filters: PooledFilters): boolean {
+export function matchesFilters(
+  row: { substrateRecipeId: string | null; fruitingMethodId: string | null },
+  filters: PooledFilters,
+): boolean {
   if (filters.substrateRecipeId !== undefined && row.substrateRecipeId !== filters.substrateRecipeId) return false;
   if (filters.fruitingMethodId !== undefined && row.fruitingMethodId !== filters.fruitingMethodId) return false;
   return true;

@@ -3,7 +3,15 @@ import { normalLowerTail } from "@/lib/stats/distributions";
 import type { Random } from "@/lib/random";
 import { addBins, binQuantile, type EfficiencyBins } from "./bins";
 import { pooledFlushProfile } from "./flush-profile";
-import { contributingFarms, differencingMessage, farmCells, filterIsSafe, matchesFilters, suppressedMessage, type FarmStrainCell } from "./privacy";
+import {
+  contributingFarms,
+  differencingMessage,
+  farmCells,
+  filterIsSafe,
+  matchesFilters,
+  suppressedMessage,
+  type FarmStrainCell,
+} from "./privacy";
 import { comparisonSentence, strainSentence } from "./sentences";
 import { adjustedMeansFromCells, tukeyFromSummaries } from "./cell-models";
 import { addSummaries, emptySummary, summaryMean, summaryVariance, type Summary } from "./sufficient";
@@ -101,7 +109,14 @@ export function buildPooledResults(input: PooledResultsInput): PooledResults {
 
   const safeStrains = new Set<string>();
   for (const strainId of cells.keys()) {
-    if (filterIsSafe(input.rows.filter((row) => row.strainId === strainId), filters, minimumFarms)) safeStrains.add(strainId);
+    if (
+      filterIsSafe(
+        input.rows.filter((row) => row.strainId === strainId),
+        filters,
+        minimumFarms,
+      )
+    )
+      safeStrains.add(strainId);
   }
 
   // Strains whose BE is published take part in the blocked model and the comparisons.
@@ -131,8 +146,18 @@ export function buildPooledResults(input: PooledResultsInput): PooledResults {
         if (fromModel) {
           efficiencyFigure = published({ ...fromModel, adjustedForFarm: true, farms: efficiencyFarms, blocks: efficiency.n });
         } else if (efficiency.n >= 2) {
-          const plain = meanCIFromSummary({ n: efficiency.n, mean: summaryMean(efficiency), sd: Math.sqrt(summaryVariance(efficiency)) }, level);
-          efficiencyFigure = published({ estimate: plain.mean, lower: plain.lower, upper: plain.upper, adjustedForFarm: false, farms: efficiencyFarms, blocks: efficiency.n });
+          const plain = meanCIFromSummary(
+            { n: efficiency.n, mean: summaryMean(efficiency), sd: Math.sqrt(summaryVariance(efficiency)) },
+            level,
+          );
+          efficiencyFigure = published({
+            estimate: plain.mean,
+            lower: plain.lower,
+            upper: plain.upper,
+            adjustedForFarm: false,
+            farms: efficiencyFarms,
+            blocks: efficiency.n,
+          });
         }
       }
 
@@ -163,11 +188,28 @@ export function buildPooledResults(input: PooledResultsInput): PooledResults {
             ? suppressed(blockReason ?? few)
             : (() => {
                 const interval = wilsonInterval(contaminated, totalBlocks, level);
-                return published({ estimate: 100 * interval.p, lower: 100 * interval.lower, upper: 100 * interval.upper, contaminated, blocks: totalBlocks });
+                return published({
+                  estimate: 100 * interval.p,
+                  lower: 100 * interval.lower,
+                  upper: 100 * interval.upper,
+                  contaminated,
+                  blocks: totalBlocks,
+                });
               })(),
-        firstHarvestDays: firstReason || firstBlocks === 0 ? suppressed(firstReason ?? few) : published({ mean: firstDays / firstBlocks, blocks: firstBlocks }),
+        firstHarvestDays:
+          firstReason || firstBlocks === 0
+            ? suppressed(firstReason ?? few)
+            : published({ mean: firstDays / firstBlocks, blocks: firstBlocks }),
         flushProfile: profile
-          ? published(profile.map((share) => ({ flush: share.flush, meanShare: share.meanShare, lower: share.lower, upper: share.upper, cumulativeShare: share.cumulativeShare })))
+          ? published(
+              profile.map((share) => ({
+                flush: share.flush,
+                meanShare: share.meanShare,
+                lower: share.lower,
+                upper: share.upper,
+                cumulativeShare: share.cumulativeShare,
+              })),
+            )
           : suppressed(flushReason ?? "not enough finished blocks yet"),
         spread,
         sentence: "",
@@ -190,16 +232,28 @@ type StrainCells = [string, Map<string, FarmStrainCell>][];
 
 /** Least-squares strain means adjusted for farm (the farm is the statistical block). */
 function adjustedMeans(comparable: StrainCells, level: number): Map<string, Interval> {
-  const cells = comparable.flatMap(([strainId, farms]) => [...farms.values()].map((cell) => ({ treatment: strainId, block: cell.farmId, ...cell.efficiency })));
+  const cells = comparable.flatMap(([strainId, farms]) =>
+    [...farms.values()].map((cell) => ({ treatment: strainId, block: cell.farmId, ...cell.efficiency })),
+  );
   try {
-    return new Map(adjustedMeansFromCells(cells, level).map((mean) => [mean.treatment, { estimate: mean.estimate, lower: mean.lower, upper: mean.upper }]));
+    return new Map(
+      adjustedMeansFromCells(cells, level).map((mean) => [
+        mean.treatment,
+        { estimate: mean.estimate, lower: mean.lower, upper: mean.upper },
+      ]),
+    );
   } catch (error) {
     if (error instanceof StatsInputError) return new Map();
     throw error;
   }
 }
 
-function pairwiseDifferences(comparable: StrainCells, names: Map<string, string>, minimumFarms: number, level: number): PooledResults["pairwise"] {
+function pairwiseDifferences(
+  comparable: StrainCells,
+  names: Map<string, string>,
+  minimumFarms: number,
+  level: number,
+): PooledResults["pairwise"] {
   if (comparable.length < 2) return suppressed(`needs at least two strains each grown on ${minimumFarms} or more farms`);
   const groups: Record<string, Summary> = {};
   const summaries = new Map<string, { farms: number; blocks: number }>();
@@ -225,7 +279,15 @@ function pairwiseDifferences(comparable: StrainCells, names: Map<string, string>
           lower: comparison.lower,
           upper: comparison.upper,
           pAdjusted: comparison.pAdj,
-          sentence: comparisonSentence({ better: a, base: b, estimate: comparison.diff, lower: comparison.lower, upper: comparison.upper, farms, blocks }),
+          sentence: comparisonSentence({
+            better: a,
+            base: b,
+            estimate: comparison.diff,
+            lower: comparison.lower,
+            upper: comparison.upper,
+            farms,
+            blocks,
+          }),
         };
       }),
     );
@@ -240,7 +302,12 @@ function pairwiseDifferences(comparable: StrainCells, names: Map<string, string>
  * DerSimonian–Laird: how much farms disagree (I², τ). The reference is the strain grown on the
  * most farms. Holm adjusts the p-values of the strains-against-reference family.
  */
-function heterogeneity(comparable: StrainCells, names: Map<string, string>, input: PooledResultsInput, level: number): PooledResults["heterogeneity"] {
+function heterogeneity(
+  comparable: StrainCells,
+  names: Map<string, string>,
+  input: PooledResultsInput,
+  level: number,
+): PooledResults["heterogeneity"] {
   const { minimumFarms } = input;
   if (comparable.length < 2) return suppressed(`needs at least two strains each grown on ${minimumFarms} or more farms`);
   const [referenceId, referenceFarms] = [...comparable].sort(
@@ -256,7 +323,12 @@ function heterogeneity(comparable: StrainCells, names: Map<string, string>, inpu
       if (!reference || cell.efficiency.n < 2 || reference.efficiency.n < 2) continue;
       const v = summaryVariance(cell.efficiency) / cell.efficiency.n + summaryVariance(reference.efficiency) / reference.efficiency.n;
       if (!(v > 0)) continue;
-      studies.push({ farmId: cell.farmId, y: summaryMean(cell.efficiency) - summaryMean(reference.efficiency), v, blocks: cell.efficiency.n + reference.efficiency.n });
+      studies.push({
+        farmId: cell.farmId,
+        y: summaryMean(cell.efficiency) - summaryMean(reference.efficiency),
+        v,
+        blocks: cell.efficiency.n + reference.efficiency.n,
+      });
     }
     if (studies.length < minimumFarms) continue;
     const pooled = metaAnalysis(studies, level);
@@ -267,9 +339,30 @@ function heterogeneity(comparable: StrainCells, names: Map<string, string>, inpu
     const own = studies.filter((study) => study.farmId === input.viewerFarmId);
     const others = input.showPerFarmEstimates ? input.random.shuffle(studies.filter((study) => study.farmId !== input.viewerFarmId)) : [];
     const forest: ForestRow[] = [
-      ...own.map((study) => ({ label: "Your farm", own: true, pooled: false, estimate: study.y, lower: study.y - half(study), upper: study.y + half(study) })),
-      ...others.map((study, index) => ({ label: `Farm ${String.fromCharCode(65 + (index % 26))}${index >= 26 ? Math.floor(index / 26) : ""}`, own: false, pooled: false, estimate: study.y, lower: study.y - half(study), upper: study.y + half(study) })),
-      { label: "All farms (pooled)", own: false, pooled: true, estimate: pooled.random.estimate, lower: pooled.random.lower, upper: pooled.random.upper },
+      ...own.map((study) => ({
+        label: "Your farm",
+        own: true,
+        pooled: false,
+        estimate: study.y,
+        lower: study.y - half(study),
+        upper: study.y + half(study),
+      })),
+      ...others.map((study, index) => ({
+        label: `Farm ${String.fromCharCode(65 + (index % 26))}${index >= 26 ? Math.floor(index / 26) : ""}`,
+        own: false,
+        pooled: false,
+        estimate: study.y,
+        lower: study.y - half(study),
+        upper: study.y + half(study),
+      })),
+      {
+        label: "All farms (pooled)",
+        own: false,
+        pooled: true,
+        estimate: pooled.random.estimate,
+        lower: pooled.random.lower,
+        upper: pooled.random.upper,
+      },
     ];
     results.push({
       strainId,
@@ -282,7 +375,15 @@ function heterogeneity(comparable: StrainCells, names: Map<string, string>, inpu
       i2: pooled.i2,
       tau: Math.sqrt(pooled.random.tau2),
       p: 2 * normalLowerTail(-Math.abs(z)),
-      sentence: comparisonSentence({ better: name, base: referenceName, estimate: pooled.random.estimate, lower: pooled.random.lower, upper: pooled.random.upper, farms: studies.length, blocks }),
+      sentence: comparisonSentence({
+        better: name,
+        base: referenceName,
+        estimate: pooled.random.estimate,
+        lower: pooled.random.lower,
+        upper: pooled.random.upper,
+        farms: studies.length,
+        blocks,
+      }),
       forest,
     });
   }

@@ -5,7 +5,15 @@ function points(value: number): string {
 }
 
 /** "Strain B gave 9 BE points more than strain A (95 % interval 3 to 15), from 7 farms and 412 blocks." */
-export function comparisonSentence(input: { better: string; base: string; estimate: number; lower: number; upper: number; farms: number; blocks: number }): string {
+export function comparisonSentence(input: {
+  better: string;
+  base: string;
+  estimate: number;
+  lower: number;
+  upper: number;
+  farms: number;
+  blocks: number;
+}): string {
   const { better, base, estimate, lower, upper, farms, blocks } = input;
   const from = `from ${farms} farms and ${blocks} blocks`;
   const interval = `(95 % interval ${points(lower)} to ${points(upper)})`;

@@ -3,7 +3,8 @@ export async function fetchJson<T>(url: string): Promise<T> {
   const response = await fetch(url, { headers: { accept: "application/json" } });
   const body = await response.json().catch(() => null);
   if (!response.ok) {
-    const message = body && typeof body.message === "string" ? body.message : `The server answered ${response.status}. Try again in a moment.`;
+    const message =
+      body && typeof body.message === "string" ? body.message : `The server answered ${response.status}. Try again in a moment.`;
     throw new Error(message);
   }
   return body as T;

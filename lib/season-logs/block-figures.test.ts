@@ -12,8 +12,14 @@ describe("blockFigures", () => {
   });
 
   it("leaves a figure blank where the weighing it needs is missing", () => {
-    expect(blockFigures({ wetMassG: null, moisture: 0.62, totalFreshG: 500, spentMassG: 1400 })).toEqual({ biologicalEfficiency: null, massLoss: null });
-    expect(blockFigures({ wetMassG: 2500, moisture: null, totalFreshG: 500, spentMassG: null })).toEqual({ biologicalEfficiency: null, massLoss: null });
+    expect(blockFigures({ wetMassG: null, moisture: 0.62, totalFreshG: 500, spentMassG: 1400 })).toEqual({
+      biologicalEfficiency: null,
+      massLoss: null,
+    });
+    expect(blockFigures({ wetMassG: 2500, moisture: null, totalFreshG: 500, spentMassG: null })).toEqual({
+      biologicalEfficiency: null,
+      massLoss: null,
+    });
   });
 });
 

@@ -13,7 +13,10 @@ export interface BlockFigureInput {
  */
 export function blockFigures(block: BlockFigureInput): { biologicalEfficiency: number | null; massLoss: number | null } {
   const weighed = block.wetMassG !== null && block.wetMassG > 0;
-  const efficiency = weighed && block.moisture !== null && block.moisture < 1 ? biologicalEfficiency({ freshG: block.totalFreshG, wetBlockG: block.wetMassG!, moisture: block.moisture }) : null;
+  const efficiency =
+    weighed && block.moisture !== null && block.moisture < 1
+      ? biologicalEfficiency({ freshG: block.totalFreshG, wetBlockG: block.wetMassG!, moisture: block.moisture })
+      : null;
   const loss = weighed && block.spentMassG !== null ? massLoss(block.wetMassG!, block.spentMassG) : null;
   return { biologicalEfficiency: efficiency, massLoss: loss };
 }

@@ -9,7 +9,8 @@ const strains = [
 const substrateRecipes = [{ id: "r-hwb", code: "HWB-20" }];
 const fruitingMethods = [{ id: "m-slit", code: "SLIT-ACROSS" }];
 
-const header = "block_id,strain,substrate,inoculated_on,block_wet_weight,substrate_moisture,fruiting_method,flush,harvested_on,fresh_weight,contaminated,notes";
+const header =
+  "block_id,strain,substrate,inoculated_on,block_wet_weight,substrate_moisture,fruiting_method,flush,harvested_on,fresh_weight,contaminated,notes";
 
 function records(lines: string[]) {
   const parsed = parseSeasonLog([header, ...lines].join("\n"), { knownStrains: strains.map((strain) => strain.code), today: "2026-12-01" });
@@ -39,8 +40,23 @@ const storedA1: StoredBlock = {
 
 describe("planCommit", () => {
   it("counts everything as new against an empty farm", () => {
-    const plan = planCommit(input({ records: records(["A-1,PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,1,2026-04-02,400 g,no,", "A-1,PO-01,,,,,,2,2026-04-20,250 g,no,", "A-2,PO-02,HWB-20,2026-03-01,2.4 kg,62 %,,,,,no,"]) }));
-    expect(plan.counts).toEqual({ newBlocks: 2, changedBlocks: 0, untouchedBlocks: 0, newHarvests: 2, changedHarvests: 0, untouchedHarvests: 0 });
+    const plan = planCommit(
+      input({
+        records: records([
+          "A-1,PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,1,2026-04-02,400 g,no,",
+          "A-1,PO-01,,,,,,2,2026-04-20,250 g,no,",
+          "A-2,PO-02,HWB-20,2026-03-01,2.4 kg,62 %,,,,,no,",
+        ]),
+      }),
+    );
+    expect(plan.counts).toEqual({
+      newBlocks: 2,
+      changedBlocks: 0,
+      untouchedBlocks: 0,
+      newHarvests: 2,
+      changedHarvests: 0,
+      untouchedHarvests: 0,
+    });
     expect(plan.blocks.find((block) => block.code === "A-2")?.wetMassG).toBe(2400);
     // Nothing is stored yet, so every row is an insert.
     expect([...plan.blocks, ...plan.harvests].every((write) => write.id === null)).toBe(true);
@@ -52,7 +68,10 @@ describe("planCommit", () => {
   it("keeps untouched what is stored unchanged and lists replaced values old → new", () => {
     const plan = planCommit(
       input({
-        records: records(["A-1,PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,1,2026-04-02,410 g,no,", "A-1,PO-01,,,,,,2,2026-04-20,250 g,no,"]),
+        records: records([
+          "A-1,PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,1,2026-04-02,410 g,no,",
+          "A-1,PO-01,,,,,,2,2026-04-20,250 g,no,",
+        ]),
         storedBlocks: [storedA1],
         storedHarvests: [
           { id: "h-1", blockCode: "A-1", flush: 1, harvestedOn: "2026-04-02", freshMassG: 400, dryMassG: null },
@@ -60,7 +79,14 @@ describe("planCommit", () => {
         ],
       }),
     );
-    expect(plan.counts).toEqual({ newBlocks: 0, changedBlocks: 0, untouchedBlocks: 1, newHarvests: 0, changedHarvests: 1, untouchedHarvests: 1 });
+    expect(plan.counts).toEqual({
+      newBlocks: 0,
+      changedBlocks: 0,
+      untouchedBlocks: 1,
+      newHarvests: 0,
+      changedHarvests: 1,
+      untouchedHarvests: 1,
+    });
     expect(plan.changes).toEqual([{ blockCode: "A-1", flush: 1, field: "fresh_weight", oldValue: "400", newValue: "410" }]);
     expect(plan.harvests.map((harvest) => harvest.flush)).toEqual([1]);
     // A changed harvest is updated where it is stored, not inserted again.
@@ -77,7 +103,9 @@ describe("planCommit", () => {
     const plan = planCommit(
       input({
         records: records(["T01-1-01,PO-02,HWB-20,2026-03-01,2500 g,62 %,,,,,no,"]),
-        assignments: [{ blockCode: "T01-1-01", armId: "arm-a", armLabel: "A", trialCode: "T-2026-01", strainId: "s-po01", strainCode: "PO-01" }],
+        assignments: [
+          { blockCode: "T01-1-01", armId: "arm-a", armLabel: "A", trialCode: "T-2026-01", strainId: "s-po01", strainCode: "PO-01" },
+        ],
       }),
     );
     expect(plan.issues).toHaveLength(1);
@@ -89,7 +117,9 @@ describe("planCommit", () => {
     const plan = planCommit(
       input({
         records: records(["T01-1-01,PO-01,HWB-20,2026-03-01,2500 g,62 %,,,,,no,"]),
-        assignments: [{ blockCode: "T01-1-01", armId: "arm-a", armLabel: "A", trialCode: "T-2026-01", strainId: "s-po01", strainCode: "PO-01" }],
+        assignments: [
+          { blockCode: "T01-1-01", armId: "arm-a", armLabel: "A", trialCode: "T-2026-01", strainId: "s-po01", strainCode: "PO-01" },
+        ],
       }),
     );
     expect(plan.issues).toEqual([]);

@@ -105,7 +105,10 @@ const gramsTolerance = 0.001;
 const moistureTolerance = 0.00001;
 
 function key(code: string): string {
-  return code.trim().toUpperCase().replace(/[\s_.\-/]+/g, "-");
+  return code
+    .trim()
+    .toUpperCase()
+    .replace(/[\s_.\-/]+/g, "-");
 }
 
 function sameNumber(a: number | null, b: number | null, tolerance: number): boolean {
@@ -179,7 +182,14 @@ export function planCommit(input: PlanInput): CommitPlan {
   const blocks: BlockWrite[] = [];
   const changes: ValueChange[] = [];
   const newBlockCodes: string[] = [];
-  const counts: PlanCounts = { newBlocks: 0, changedBlocks: 0, untouchedBlocks: 0, newHarvests: 0, changedHarvests: 0, untouchedHarvests: 0 };
+  const counts: PlanCounts = {
+    newBlocks: 0,
+    changedBlocks: 0,
+    untouchedBlocks: 0,
+    newHarvests: 0,
+    changedHarvests: 0,
+    untouchedHarvests: 0,
+  };
   // Blocks the plan writes or keeps, with the stored id (null for a new block).
   const plannedBlocks = new Map<string, string | null>();
 
@@ -262,15 +272,26 @@ export function planCommit(input: PlanInput): CommitPlan {
       if (old !== next) changes.push({ blockCode: code, flush: null, field, oldValue: old, newValue: next });
     };
     compare("strain", strains.codeById.get(stored.strainId) ?? null, strain.code);
-    compare("substrate", stored.substrateRecipeId ? recipes.codeById.get(stored.substrateRecipeId) ?? null : null, write.substrateRecipeId ? recipes.codeById.get(write.substrateRecipeId) ?? null : null);
-    compare("fruiting_method", stored.fruitingMethodId ? methods.codeById.get(stored.fruitingMethodId) ?? null : null, write.fruitingMethodId ? methods.codeById.get(write.fruitingMethodId) ?? null : null);
+    compare(
+      "substrate",
+      stored.substrateRecipeId ? (recipes.codeById.get(stored.substrateRecipeId) ?? null) : null,
+      write.substrateRecipeId ? (recipes.codeById.get(write.substrateRecipeId) ?? null) : null,
+    );
+    compare(
+      "fruiting_method",
+      stored.fruitingMethodId ? (methods.codeById.get(stored.fruitingMethodId) ?? null) : null,
+      write.fruitingMethodId ? (methods.codeById.get(write.fruitingMethodId) ?? null) : null,
+    );
     if (stored.trialArmId !== write.trialArmId) compare("arm", stored.trialArmId, write.trialArmId);
     compare("inoculated_on", stored.inoculatedOn, write.inoculatedOn);
-    if (!sameNumber(stored.wetMassG, write.wetMassG, gramsTolerance)) compare("block_wet_weight", shown(stored.wetMassG), shown(write.wetMassG));
-    if (!sameNumber(stored.moisture, write.moisture, moistureTolerance)) compare("substrate_moisture", shown(stored.moisture), shown(write.moisture));
+    if (!sameNumber(stored.wetMassG, write.wetMassG, gramsTolerance))
+      compare("block_wet_weight", shown(stored.wetMassG), shown(write.wetMassG));
+    if (!sameNumber(stored.moisture, write.moisture, moistureTolerance))
+      compare("substrate_moisture", shown(stored.moisture), shown(write.moisture));
     compare("contaminated", shown(stored.contaminated), shown(write.contaminated));
     compare("contaminated_on", stored.contaminatedOn, write.contaminatedOn);
-    if (!sameNumber(stored.spentMassG, write.spentMassG, gramsTolerance)) compare("spent_weight", shown(stored.spentMassG), shown(write.spentMassG));
+    if (!sameNumber(stored.spentMassG, write.spentMassG, gramsTolerance))
+      compare("spent_weight", shown(stored.spentMassG), shown(write.spentMassG));
     compare("notes", stored.notes || null, write.notes || null);
     if (changes.length > before) {
       counts.changedBlocks++;
@@ -311,7 +332,8 @@ export function planCommit(input: PlanInput): CommitPlan {
       if (old !== next) changes.push({ blockCode: record.blockCode, flush: record.flush, field, oldValue: old, newValue: next });
     };
     compare("harvested_on", stored.harvestedOn, write.harvestedOn);
-    if (!sameNumber(stored.freshMassG, write.freshMassG, gramsTolerance)) compare("fresh_weight", shown(stored.freshMassG), shown(write.freshMassG));
+    if (!sameNumber(stored.freshMassG, write.freshMassG, gramsTolerance))
+      compare("fresh_weight", shown(stored.freshMassG), shown(write.freshMassG));
     if (!sameNumber(stored.dryMassG, write.dryMassG, gramsTolerance)) compare("dry_weight", shown(stored.dryMassG), shown(write.dryMassG));
     if (changes.length > before) {
       counts.changedHarvests++;

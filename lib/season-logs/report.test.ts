@@ -7,9 +7,25 @@ import { attachment, readChoices } from "./request";
 
 describe("buildReport", () => {
   it("merges parser and planner issues by line and counts errors and warnings", () => {
-    const parsed = parseSeasonLog("block_id,strain,substrate,flush,fresh_weight\nA-1,PO-01,NOPE,1,400 g\nA-2,PO-01,,1,-3 g\n", { knownStrains: ["PO-01"] });
-    const plan = planCommit({ records: parsed.records, storedBlocks: [], storedHarvests: [], strains: [{ id: "s", code: "PO-01" }], substrateRecipes: [], fruitingMethods: [], assignments: [] });
-    const report = buildReport({ rowCount: parsed.records.length, parserIssues: parsed.issues, plan, detected: parsed.detected, choices: {} });
+    const parsed = parseSeasonLog("block_id,strain,substrate,flush,fresh_weight\nA-1,PO-01,NOPE,1,400 g\nA-2,PO-01,,1,-3 g\n", {
+      knownStrains: ["PO-01"],
+    });
+    const plan = planCommit({
+      records: parsed.records,
+      storedBlocks: [],
+      storedHarvests: [],
+      strains: [{ id: "s", code: "PO-01" }],
+      substrateRecipes: [],
+      fruitingMethods: [],
+      assignments: [],
+    });
+    const report = buildReport({
+      rowCount: parsed.records.length,
+      parserIssues: parsed.issues,
+      plan,
+      detected: parsed.detected,
+      choices: {},
+    });
     expect(report.issues.map((issue) => [issue.line, issue.severity])).toEqual([
       [2, "error"],
       [3, "error"],
@@ -21,7 +37,7 @@ describe("buildReport", () => {
 
 describe("reportCsv", () => {
   it("keeps a value that looks like a formula from running in a spreadsheet", () => {
-    const csv = reportCsv([{ line: 4, severity: "error", column: "notes", value: "=HYPERLINK(\"x\")", message: "Line 4: bad" }]);
+    const csv = reportCsv([{ line: 4, severity: "error", column: "notes", value: '=HYPERLINK("x")', message: "Line 4: bad" }]);
     expect(csv.split("\r\n")[0]).toBe("Line,Severity,Column,Value,Message");
     expect(csv).toContain("'=HYPERLINK");
   });
@@ -29,7 +45,9 @@ describe("reportCsv", () => {
 
 describe("readChoices", () => {
   it("reads the grower's choices and refuses an unknown unit with a field problem", async () => {
-    const ok = await readChoices(new Request("http://x", { method: "POST", body: JSON.stringify({ mapping: { "Picked (g)": "fresh_weight" }, dateOrder: "dmy" }) }));
+    const ok = await readChoices(
+      new Request("http://x", { method: "POST", body: JSON.stringify({ mapping: { "Picked (g)": "fresh_weight" }, dateOrder: "dmy" }) }),
+    );
     expect(ok).toEqual({ mapping: { "Picked (g)": "fresh_weight" }, dateOrder: "dmy" });
     try {
       await readChoices(new Request("http://x", { method: "POST", body: JSON.stringify({ defaultMassUnit: "stone" }) }));

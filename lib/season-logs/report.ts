@@ -58,7 +58,11 @@ export function buildReport(input: {
     warningCount: issues.length - errorCount,
     issues: issues.slice(0, mostIssuesKept),
     detected: input.detected,
-    preview: { counts: input.plan.counts, changes: input.plan.changes.slice(0, mostPreviewItems), newBlockCodes: input.plan.newBlockCodes.slice(0, mostPreviewItems) },
+    preview: {
+      counts: input.plan.counts,
+      changes: input.plan.changes.slice(0, mostPreviewItems),
+      newBlockCodes: input.plan.newBlockCodes.slice(0, mostPreviewItems),
+    },
     choices: input.choices,
   };
 }
@@ -66,7 +70,13 @@ export function buildReport(input: {
 /** The report's issues as CSV (line, severity, column, value, message), safe to open in a spreadsheet. */
 export function reportCsv(issues: readonly SeasonLogIssue[]): string {
   return toCsv(
-    issues.map((issue) => ({ line: issue.line, severity: issue.severity, column: issue.column ?? "", value: issue.value ?? "", message: issue.message })),
+    issues.map((issue) => ({
+      line: issue.line,
+      severity: issue.severity,
+      column: issue.column ?? "",
+      value: issue.value ?? "",
+      message: issue.message,
+    })),
     [
       { key: "line", header: "Line" },
       { key: "severity", header: "Severity" },

@@ -15,13 +15,34 @@ interface Column<T> {
   runs: number[];
 }
 
-type TextField = "blockCode" | "strainCode" | "substrate" | "trialCode" | "arm" | "inoculatedOn" | "fruitingMethod" | "harvestedOn" | "contaminatedOn" | "notes";
+type TextField =
+  | "blockCode"
+  | "strainCode"
+  | "substrate"
+  | "trialCode"
+  | "arm"
+  | "inoculatedOn"
+  | "fruitingMethod"
+  | "harvestedOn"
+  | "contaminatedOn"
+  | "notes";
 type NumberField = "moisture" | "flush";
 type MassField = "wetBlockGrams" | "freshGrams" | "dryGrams" | "spentGrams";
 /** A mass column's value: grams, as written and the unit that applied. */
 type Mass = [number | null, string | null, MassAsWritten["unit"] | null];
 
-const textFields: readonly TextField[] = ["blockCode", "strainCode", "substrate", "trialCode", "arm", "inoculatedOn", "fruitingMethod", "harvestedOn", "contaminatedOn", "notes"];
+const textFields: readonly TextField[] = [
+  "blockCode",
+  "strainCode",
+  "substrate",
+  "trialCode",
+  "arm",
+  "inoculatedOn",
+  "fruitingMethod",
+  "harvestedOn",
+  "contaminatedOn",
+  "notes",
+];
 const numberFields: readonly NumberField[] = ["moisture", "flush"];
 const massFields: Readonly<Record<MassField, "wetBlockAsWritten" | "freshAsWritten" | "dryAsWritten" | "spentAsWritten">> = {
   wetBlockGrams: "wetBlockAsWritten",
@@ -47,11 +68,22 @@ interface Packed {
 /** What a parse depended on besides the file: the grower's choices, the strain register and the day. */
 export function stagingKey(choices: ParseChoices, knownStrains: readonly string[], today: string): string {
   const mapping = choices.mapping ? Object.entries(choices.mapping).sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)) : null;
-  return JSON.stringify([mapping, choices.dateOrder ?? null, choices.defaultMassUnit ?? null, choices.decimal ?? null, [...knownStrains].sort(), today]);
+  return JSON.stringify([
+    mapping,
+    choices.dateOrder ?? null,
+    choices.defaultMassUnit ?? null,
+    choices.decimal ?? null,
+    [...knownStrains].sort(),
+    today,
+  ]);
 }
 
 /** `identity` gives what makes two values one: the value itself, unless it is not a primitive. */
-function packColumn<T>(count: number, read: (row: number) => T | null, identity: (value: T, row: number) => unknown = (value) => value): Column<T> {
+function packColumn<T>(
+  count: number,
+  read: (row: number) => T | null,
+  identity: (value: T, row: number) => unknown = (value) => value,
+): Column<T> {
   const positions = new Map<unknown, number>();
   const values: T[] = [];
   const runs: number[] = [];
@@ -151,8 +183,13 @@ export function unpackParse(packedText: string, key: string): SeasonLogResult | 
   // One object per distinct mass as written, shared by the records that wrote it alike.
   const massOf = (column: Column<Mass>) => {
     const at = unpackColumn(column, count);
-    const written = column.values.map(([, value, unit]): MassAsWritten | null => (value === null || unit === null ? null : { value, unit }));
-    return { grams: (row: number) => (at[row] === 0 ? null : column.values[at[row] - 1][0]), written: (row: number) => (at[row] === 0 ? null : written[at[row] - 1]) };
+    const written = column.values.map(([, value, unit]): MassAsWritten | null =>
+      value === null || unit === null ? null : { value, unit },
+    );
+    return {
+      grams: (row: number) => (at[row] === 0 ? null : column.values[at[row] - 1][0]),
+      written: (row: number) => (at[row] === 0 ? null : written[at[row] - 1]),
+    };
   };
   const blockCode = textOf("blockCode");
   const strainCode = textOf("strainCode");

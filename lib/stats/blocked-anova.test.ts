@@ -11,8 +11,8 @@ const montgomery: Record<string, number[]> = {
   "8900": [85.5, 90.8, 89.6, 86.2, 88.0, 93.4],
   "9100": [82.5, 89.5, 85.6, 87.4, 78.9, 90.7],
 };
-const montgomeryObservations: BlockedAnovaObservation[] = Object.entries(montgomery).flatMap(
-  ([treatment, ys]) => ys.map((y, batch) => ({ treatment, block: `batch ${batch + 1}`, y })),
+const montgomeryObservations: BlockedAnovaObservation[] = Object.entries(montgomery).flatMap(([treatment, ys]) =>
+  ys.map((y, batch) => ({ treatment, block: `batch ${batch + 1}`, y })),
 );
 
 describe("blockedAnova on a complete block design", () => {

@@ -57,10 +57,7 @@ export function blockedAnova(obs: BlockedAnovaObservation[], level = 0.95): Bloc
     throw new StatsInputError("too_few_values", `Comparing treatments needs at least 2; got ${treatments}.`);
   }
   if (blocks < 2) {
-    throw new StatsInputError(
-      "too_few_values",
-      "Only one block (farm) is present; use oneWayAnova for a single farm, or add farms.",
-    );
+    throw new StatsInputError("too_few_values", "Only one block (farm) is present; use oneWayAnova for a single farm, or add farms.");
   }
   const n = obs.length;
   const dfResidual = n - treatments - blocks + 1;
@@ -126,7 +123,12 @@ export function blockedAnova(obs: BlockedAnovaObservation[], level = 0.95): Bloc
   }
 
   const msResidual = rssFull / dfResidual;
-  if (isRoundingNoise(rssFull, obs.map((o) => o.y))) {
+  if (
+    isRoundingNoise(
+      rssFull,
+      obs.map((o) => o.y),
+    )
+  ) {
     throw new StatsInputError(
       "no_variation",
       "The model fits every value exactly, so there is no error left to test against; check for duplicated rows.",
@@ -179,12 +181,7 @@ function term(ss: number, df: number, msResidual: number, dfResidual: number): A
   return { df, ss: clamped, ms, f, p: fUpperTail(f, df, dfResidual) };
 }
 
-function groupMeans(
-  obs: readonly BlockedAnovaObservation[],
-  group: Int32Array,
-  groups: number,
-  size: Float64Array,
-): Float64Array {
+function groupMeans(obs: readonly BlockedAnovaObservation[], group: Int32Array, groups: number, size: Float64Array): Float64Array {
   const mean = new Float64Array(groups);
   for (let i = 0; i < obs.length; i++) mean[group[i]] += obs[i].y;
   for (let g = 0; g < groups; g++) mean[g] /= size[g];

@@ -1,13 +1,6 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import {
-  chiSquareUpperTail,
-  fUpperTail,
-  logGamma,
-  regularizedBeta,
-  studentTLowerTail,
-  studentTQuantile,
-} from "./distributions";
+import { chiSquareUpperTail, fUpperTail, logGamma, regularizedBeta, studentTLowerTail, studentTQuantile } from "./distributions";
 
 describe("distribution functions", () => {
   it("log-gamma hits factorials and √π", () => {
@@ -23,7 +16,11 @@ describe("distribution functions", () => {
   });
 
   it("F(1, d) tail equals the two-sided t tail with d df", () => {
-    for (const [t, d] of [[2.1, 7], [0.4, 30], [9, 3]]) {
+    for (const [t, d] of [
+      [2.1, 7],
+      [0.4, 30],
+      [9, 3],
+    ]) {
       expect(fUpperTail(t * t, 1, d)).toBeCloseTo(2 * (1 - studentTLowerTail(t, d)), 13);
     }
   });
@@ -43,13 +40,9 @@ describe("distribution functions", () => {
 
   it("the t quantile inverts the t distribution", () => {
     fc.assert(
-      fc.property(
-        fc.double({ min: 0.001, max: 0.999, noNaN: true }),
-        fc.double({ min: 1, max: 5000, noNaN: true }),
-        (p, df) => {
-          expect(studentTLowerTail(studentTQuantile(p, df), df)).toBeCloseTo(p, 11);
-        },
-      ),
+      fc.property(fc.double({ min: 0.001, max: 0.999, noNaN: true }), fc.double({ min: 1, max: 5000, noNaN: true }), (p, df) => {
+        expect(studentTLowerTail(studentTQuantile(p, df), df)).toBeCloseTo(p, 11);
+      }),
     );
   });
 });

@@ -7,9 +7,8 @@ import jStat from "jstat";
 
 const LANCZOS_G = 7;
 const LANCZOS = [
-  0.99999999999980993, 676.5203681218851, -1259.1392167224028, 771.32342877765313,
-  -176.61502916214059, 12.507343278686905, -0.13857109526572012, 9.9843695780195716e-6,
-  1.5056327351493116e-7,
+  0.99999999999980993, 676.5203681218851, -1259.1392167224028, 771.32342877765313, -176.61502916214059, 12.507343278686905,
+  -0.13857109526572012, 9.9843695780195716e-6, 1.5056327351493116e-7,
 ];
 
 /** log Γ(x) for x > 0 (Lanczos, g = 7, n = 9). */
@@ -64,8 +63,7 @@ function betaContinuedFraction(x: number, a: number, b: number): number {
 export function regularizedBeta(x: number, a: number, b: number): number {
   if (x <= 0) return 0;
   if (x >= 1) return 1;
-  const logFront =
-    logGamma(a + b) - logGamma(a) - logGamma(b) + a * Math.log(x) + b * Math.log1p(-x);
+  const logFront = logGamma(a + b) - logGamma(a) - logGamma(b) + a * Math.log(x) + b * Math.log1p(-x);
   if (x < (a + 1) / (a + b + 2)) {
     return (Math.exp(logFront) * betaContinuedFraction(x, a, b)) / a;
   }
@@ -164,14 +162,10 @@ export function noncentralTLowerTail(t: number, df: number, ncp: number): number
   const last = Math.ceil(lambda + 12 * Math.sqrt(lambda) + 40);
   let sum = 0;
   for (let j = 0; j <= last; j++) {
-    const poisson =
-      lambda > 0 ? Math.exp(-lambda + j * logLambda - logGamma(j + 1)) : j === 0 ? 1 : 0;
-    const halfPoisson =
-      lambda > 0 ? Math.exp(-lambda + (j + 0.5) * logLambda - logGamma(j + 1.5)) : 0;
+    const poisson = lambda > 0 ? Math.exp(-lambda + j * logLambda - logGamma(j + 1)) : j === 0 ? 1 : 0;
+    const halfPoisson = lambda > 0 ? Math.exp(-lambda + (j + 0.5) * logLambda - logGamma(j + 1.5)) : 0;
     if (poisson === 0 && halfPoisson === 0) continue;
-    sum +=
-      poisson * regularizedBeta(y, j + 0.5, df / 2) +
-      sign * halfPoisson * regularizedBeta(y, j + 1, df / 2);
+    sum += poisson * regularizedBeta(y, j + 0.5, df / 2) + sign * halfPoisson * regularizedBeta(y, j + 1, df / 2);
   }
   return Math.min(1, Math.max(0, normalLowerTail(-ncp) + 0.5 * sum));
 }

@@ -25,11 +25,7 @@ export function dryMass(wetG: number, moisture: number): number {
  * `freshG` is the fresh harvest in grams (all flushes counted so far), `wetBlockG` the
  * block's wet mass when made, `moisture` its wet-basis moisture fraction in [0, 1).
  */
-export function biologicalEfficiency(input: {
-  freshG: number;
-  wetBlockG: number;
-  moisture: number;
-}): number {
+export function biologicalEfficiency(input: { freshG: number; wetBlockG: number; moisture: number }): number {
   requireMass(input.freshG, "The fresh harvest mass");
   const dry = dryMass(input.wetBlockG, input.moisture);
   if (dry === 0) {

@@ -50,7 +50,14 @@ describe("invalid input throws StatsInputError, never NaN", () => {
     expectCode(() => describeValues([1, Number.NaN, 3]), "not_a_number");
     expectCode(() => welchTest([1, 2], [3, Number.POSITIVE_INFINITY]), "not_a_number");
     expectCode(() => blockedAnova([{ treatment: "a", block: "f", y: Number.NaN }]), "not_a_number");
-    expectCode(() => metaAnalysis([{ y: 1, v: 1 }, { y: Number.NaN, v: 1 }]), "not_a_number");
+    expectCode(
+      () =>
+        metaAnalysis([
+          { y: 1, v: 1 },
+          { y: Number.NaN, v: 1 },
+        ]),
+      "not_a_number",
+    );
     expectCode(() => biologicalEfficiency({ freshG: Number.NaN, wetBlockG: 2000, moisture: 0.6 }), "not_a_number");
   });
 
@@ -59,7 +66,11 @@ describe("invalid input throws StatsInputError, never NaN", () => {
     expectCode(() => biologicalEfficiency({ freshG: -5, wetBlockG: 2000, moisture: 0.6 }), "negative_mass");
     expectCode(() => massLoss(2000, -1), "negative_mass");
     expectCode(
-      () => flushProfile([{ blockId: "A", flush: 1, freshG: -1 }, { blockId: "B", flush: 1, freshG: 1 }]),
+      () =>
+        flushProfile([
+          { blockId: "A", flush: 1, freshG: -1 },
+          { blockId: "B", flush: 1, freshG: 1 },
+        ]),
       "negative_mass",
     );
   });
@@ -77,13 +88,27 @@ describe("invalid input throws StatsInputError, never NaN", () => {
     expectCode(() => wilsonInterval(1.5, 3), "invalid_argument");
     expectCode(() => holm([0.5, 1.2]), "invalid_argument");
     expectCode(() => holm([Number.NaN]), "invalid_argument");
-    expectCode(() => metaAnalysis([{ y: 1, v: 0 }, { y: 2, v: 1 }]), "invalid_argument");
+    expectCode(
+      () =>
+        metaAnalysis([
+          { y: 1, v: 0 },
+          { y: 2, v: 1 },
+        ]),
+      "invalid_argument",
+    );
     expectCode(() => sampleSizeTwoMeans({ delta: 0, sd: 1 }), "invalid_argument");
     expectCode(() => sampleSizeTwoMeans({ delta: 1, sd: 1, power: 1 }), "invalid_level");
   });
 
   it("rejects data with no spread instead of dividing by zero", () => {
-    expectCode(() => oneWayAnova([[1, 1], [2, 2]]), "no_variation");
+    expectCode(
+      () =>
+        oneWayAnova([
+          [1, 1],
+          [2, 2],
+        ]),
+      "no_variation",
+    );
     expectCode(() => welchTest([3, 3], [3, 3]), "no_variation");
     expectCode(
       () =>

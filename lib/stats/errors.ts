@@ -26,20 +26,14 @@ export class StatsInputError extends Error {
 
 export function requireFinite(value: number, what: string): void {
   if (!Number.isFinite(value)) {
-    throw new StatsInputError(
-      "not_a_number",
-      `${what} is ${value}; enter a number (check for blank cells or text in a number column).`,
-    );
+    throw new StatsInputError("not_a_number", `${what} is ${value}; enter a number (check for blank cells or text in a number column).`);
   }
 }
 
 export function requireAllFinite(xs: readonly number[], what: string): void {
   for (let i = 0; i < xs.length; i++) {
     if (!Number.isFinite(xs[i])) {
-      throw new StatsInputError(
-        "not_a_number",
-        `${what} has ${xs[i]} at position ${i + 1}; remove it or enter the number it should be.`,
-      );
+      throw new StatsInputError("not_a_number", `${what} has ${xs[i]} at position ${i + 1}; remove it or enter the number it should be.`);
     }
   }
 }
@@ -58,19 +52,13 @@ export function requireAtLeast(xs: readonly number[], minimum: number, what: str
 
 export function requireLevel(level: number): void {
   if (!(level > 0 && level < 1)) {
-    throw new StatsInputError(
-      "invalid_level",
-      `Confidence level ${level} is not between 0 and 1; use e.g. 0.95 for 95 %.`,
-    );
+    throw new StatsInputError("invalid_level", `Confidence level ${level} is not between 0 and 1; use e.g. 0.95 for 95 %.`);
   }
 }
 
 export function requireMass(grams: number, what: string): void {
   requireFinite(grams, what);
   if (grams < 0) {
-    throw new StatsInputError(
-      "negative_mass",
-      `${what} is ${grams} g; a mass cannot be negative, so correct the weighing.`,
-    );
+    throw new StatsInputError("negative_mass", `${what} is ${grams} g; a mass cannot be negative, so correct the weighing.`);
   }
 }

@@ -99,7 +99,12 @@ describe("forecastRemaining", () => {
 
   it("expects nothing more after the profile's last flush", () => {
     const rest = forecastRemaining(
-      { flushesSoFar: [{ flush: 1, freshG: 400 }, { flush: 2, freshG: 200 }] },
+      {
+        flushesSoFar: [
+          { flush: 1, freshG: 400 },
+          { flush: 2, freshG: 200 },
+        ],
+      },
       profile,
     );
     expect(rest).toEqual({ expectedRemainingG: 0, lower: 0, upper: 0 });

@@ -69,10 +69,7 @@ export function flushProfile(records: FlushRecord[], level = 0.95): FlushProfile
   }
   const n = shares.length;
   if (n < 2) {
-    throw new StatsInputError(
-      "too_few_values",
-      `A flush profile needs at least 2 finished blocks that gave fruit; got ${n}.`,
-    );
+    throw new StatsInputError("too_few_values", `A flush profile needs at least 2 finished blocks that gave fruit; got ${n}.`);
   }
 
   const tCritical = studentTQuantile((1 + level) / 2, n - 1);
@@ -86,8 +83,7 @@ export function flushProfile(records: FlushRecord[], level = 0.95): FlushProfile
     const half = tCritical * Math.sqrt(sumOfSquares(column, mean) / (n - 1) / n);
     const cumulativeMean = accurateMean(cumulative);
     // One new block scatters around the mean by sd·√(1 + 1/n): a prediction interval.
-    const cumulativeHalf =
-      tCritical * Math.sqrt((sumOfSquares(cumulative, cumulativeMean) / (n - 1)) * (1 + 1 / n));
+    const cumulativeHalf = tCritical * Math.sqrt((sumOfSquares(cumulative, cumulativeMean) / (n - 1)) * (1 + 1 / n));
     profile.push({
       flush: f + 1,
       meanShare: mean,
@@ -121,10 +117,7 @@ export type RemainingYield = {
  * cover block-to-block variation, not only the uncertainty of the co-op mean.
  * A block already past the profile's last flush is expected to give nothing more.
  */
-export function forecastRemaining(
-  block: { flushesSoFar: { flush: number; freshG: number }[] },
-  profile: FlushProfile,
-): RemainingYield {
+export function forecastRemaining(block: { flushesSoFar: { flush: number; freshG: number }[] }, profile: FlushProfile): RemainingYield {
   if (profile.length === 0) {
     throw new StatsInputError("empty_group", "The flush profile is empty; build it with flushProfile from finished blocks.");
   }

@@ -1,12 +1,6 @@
 import { accurateMean, sumOfSquares } from "./describe";
 import { studentTQuantile, studentTTwoSidedP } from "./distributions";
-import {
-  StatsInputError,
-  requireAllFinite,
-  requireAtLeast,
-  requireFinite,
-  requireLevel,
-} from "./errors";
+import { StatsInputError, requireAllFinite, requireAtLeast, requireFinite, requireLevel } from "./errors";
 
 export type MeanInterval = { mean: number; lower: number; upper: number; df: number };
 
@@ -14,19 +8,13 @@ export type MeanInterval = { mean: number; lower: number; upper: number; df: num
  * Student t interval for a mean from summary figures alone (n, mean, sample sd), for
  * when only a published summary or another farm's aggregate is available.
  */
-export function meanCIFromSummary(
-  summary: { n: number; mean: number; sd: number },
-  level = 0.95,
-): MeanInterval {
+export function meanCIFromSummary(summary: { n: number; mean: number; sd: number }, level = 0.95): MeanInterval {
   const { n, mean, sd } = summary;
   requireLevel(level);
   requireFinite(mean, "The mean");
   requireFinite(sd, "The standard deviation");
   if (!Number.isInteger(n) || n < 2) {
-    throw new StatsInputError(
-      "too_few_values",
-      `A t interval needs a whole number of at least 2 values; got n = ${n}.`,
-    );
+    throw new StatsInputError("too_few_values", `A t interval needs a whole number of at least 2 values; got n = ${n}.`);
   }
   if (sd < 0) {
     throw new StatsInputError("invalid_argument", `The standard deviation ${sd} is negative; it must be 0 or more.`);

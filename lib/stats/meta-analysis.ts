@@ -27,10 +27,7 @@ export type MetaAnalysis = {
 export function metaAnalysis(studies: { y: number; v: number }[], level = 0.95): MetaAnalysis {
   requireLevel(level);
   if (studies.length < 2) {
-    throw new StatsInputError(
-      "too_few_values",
-      `Pooling needs at least 2 studies (farms); got ${studies.length}.`,
-    );
+    throw new StatsInputError("too_few_values", `Pooling needs at least 2 studies (farms); got ${studies.length}.`);
   }
   studies.forEach((s, i) => {
     requireFinite(s.y, `Study ${i + 1}'s effect`);

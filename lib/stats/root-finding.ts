@@ -3,12 +3,7 @@
  * bisection's guarantee with secant/inverse-quadratic speed. Stops when the
  * bracket is narrower than `tolerance` (absolute).
  */
-export function brentRoot(
-  f: (x: number) => number,
-  lower: number,
-  upper: number,
-  tolerance = 1e-12,
-): number {
+export function brentRoot(f: (x: number) => number, lower: number, upper: number, tolerance = 1e-12): number {
   let a = lower;
   let b = upper;
   let fa = f(a);

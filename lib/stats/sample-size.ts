@@ -27,12 +27,7 @@ export function powerTwoMeans(n: number, delta: number, sd: number, alpha: numbe
  * to R's uniroot tolerance. If two blocks per arm already give the power, 2 is returned:
  * fewer cannot estimate a spread.
  */
-export function sampleSizeTwoMeans(options: {
-  delta: number;
-  sd: number;
-  power?: number;
-  alpha?: number;
-}): SampleSize {
+export function sampleSizeTwoMeans(options: { delta: number; sd: number; power?: number; alpha?: number }): SampleSize {
   const { delta, sd, power = 0.8, alpha = 0.05 } = options;
   requireFinite(delta, "The difference to detect");
   requireFinite(sd, "The standard deviation");
@@ -46,10 +41,7 @@ export function sampleSizeTwoMeans(options: {
     throw new StatsInputError("invalid_level", `The significance level ${alpha} must be between 0 and 1, e.g. 0.05.`);
   }
   if (!(power > alpha && power < 1)) {
-    throw new StatsInputError(
-      "invalid_level",
-      `The power ${power} must be above the significance level and below 1, e.g. 0.8.`,
-    );
+    throw new StatsInputError("invalid_level", `The power ${power} must be above the significance level and below 1, e.g. 0.8.`);
   }
   const shortfall = (n: number) => powerTwoMeans(n, delta, sd, alpha) - power;
   if (shortfall(SMALLEST_ARM) >= 0) return { nPerGroup: SMALLEST_ARM, nPerGroupCeil: SMALLEST_ARM };

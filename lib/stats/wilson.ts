@@ -14,10 +14,7 @@ export function wilsonInterval(successes: number, n: number, level = 0.95): Prop
     throw new StatsInputError("invalid_argument", `The number of blocks must be a whole number of at least 1; got ${n}.`);
   }
   if (!Number.isInteger(successes) || successes < 0 || successes > n) {
-    throw new StatsInputError(
-      "invalid_argument",
-      `The count must be a whole number from 0 to ${n}; got ${successes}.`,
-    );
+    throw new StatsInputError("invalid_argument", `The count must be a whole number from 0 to ${n}; got ${successes}.`);
   }
   const z = normalQuantile((1 + level) / 2);
   const z2 = z * z;

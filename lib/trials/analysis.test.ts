@@ -19,7 +19,12 @@ function generated(farms: number, seed = "analysis"): OutcomeRecord[] {
     for (const arm of ["a", "b", "c"]) {
       for (let block = 0; block < 6; block++) {
         const contaminated = random.next() < 0.08;
-        records.push({ farm: `farm ${farm}`, armId: arm, contaminated, value: contaminated ? null : 70 + effect[arm] + farmEffect + random.normal(0, 10) });
+        records.push({
+          farm: `farm ${farm}`,
+          armId: arm,
+          contaminated,
+          value: contaminated ? null : 70 + effect[arm] + farmEffect + random.normal(0, 10),
+        });
       }
     }
   }
@@ -27,7 +32,16 @@ function generated(farms: number, seed = "analysis"): OutcomeRecord[] {
 }
 
 describe("blockOutcome", () => {
-  const block = { wetMassG: 2500, moisture: 0.6, contaminated: false, harvests: [{ flush: 1, freshMassG: 500 }, { flush: 2, freshMassG: 200 }, { flush: 3, freshMassG: 100 }] };
+  const block = {
+    wetMassG: 2500,
+    moisture: 0.6,
+    contaminated: false,
+    harvests: [
+      { flush: 1, freshMassG: 500 },
+      { flush: 2, freshMassG: 200 },
+      { flush: 3, freshMassG: 100 },
+    ],
+  };
 
   it("is BE over flushes 1..k only (dry substrate 1000 g)", () => {
     expect(blockOutcome(block, { flushes: 2, contaminatedHandling: "exclude" })).toEqual({ value: 70 });
@@ -38,7 +52,10 @@ describe("blockOutcome", () => {
     const lost = { ...block, contaminated: true };
     expect(blockOutcome(lost, { flushes: 2, contaminatedHandling: "exclude" })).toEqual({ value: null, reason: "contaminated" });
     expect(blockOutcome(lost, { flushes: 2, contaminatedHandling: "count_as_zero" })).toEqual({ value: 0 });
-    expect(blockOutcome({ ...block, wetMassG: null }, { flushes: 2, contaminatedHandling: "exclude" })).toEqual({ value: null, reason: "no_mass" });
+    expect(blockOutcome({ ...block, wetMassG: null }, { flushes: 2, contaminatedHandling: "exclude" })).toEqual({
+      value: null,
+      reason: "no_mass",
+    });
   });
 });
 
@@ -60,7 +77,13 @@ describe("analyseTrial", () => {
       C: kept.filter((r) => r.armId === "c").map((r) => r.value),
     });
     const bVersusA = tukey.find((pair) => pair.a === "B" && pair.b === "A")!;
-    expect(result.versusReference[0]).toMatchObject({ arm: "B", versus: "A", estimate: bVersusA.diff, lower: bVersusA.lower, pAdjusted: bVersusA.pAdj });
+    expect(result.versusReference[0]).toMatchObject({
+      arm: "B",
+      versus: "A",
+      estimate: bVersusA.diff,
+      lower: bVersusA.lower,
+      pAdjusted: bVersusA.pAdj,
+    });
     expect(result.betweenArms).toHaveLength(1);
     expect(result.versusReference[0].lower).toBeGreaterThan(0);
     expect(result.answer).toMatch(/^Arm B gave more than reference arm A/);

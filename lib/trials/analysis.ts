@@ -56,7 +56,12 @@ export interface TrialAnalysis {
   enoughFarms: boolean;
   blocksAnalysed: number;
   blocksLeftOut: number;
-  arms: { label: string; n: number; summary: Description | null; contamination: ProportionInterval & { contaminated: number; blocks: number } }[];
+  arms: {
+    label: string;
+    n: number;
+    summary: Description | null;
+    contamination: ProportionInterval & { contaminated: number; blocks: number };
+  }[];
   anova: { arm: AnovaTerm; farm: AnovaTerm; adjustedMeans: AdjustedMean[] } | null;
   versusReference: Difference[];
   betweenArms: Difference[];
@@ -82,7 +87,9 @@ export function analyseTrial(input: { arms: TrialArmInfo[]; records: OutcomeReco
   const reference = arms.find((arm) => arm.isReference) ?? arms[0];
   const ordered = [reference, ...arms.filter((arm) => arm.id !== reference.id)];
   const labelOf = new Map(arms.map((arm) => [arm.id, arm.label]));
-  const analysed = records.filter((record): record is OutcomeRecord & { value: number } => record.value !== null && labelOf.has(record.armId));
+  const analysed = records.filter(
+    (record): record is OutcomeRecord & { value: number } => record.value !== null && labelOf.has(record.armId),
+  );
   const farms = collectFarms(analysed);
   const enoughFarms = farms.length >= minimumFarms;
   const notes: string[] = [];
@@ -106,7 +113,9 @@ export function analyseTrial(input: { arms: TrialArmInfo[]; records: OutcomeReco
   const farmPooling: PooledDifference[] = [];
 
   if (!enoughFarms) {
-    notes.push(`Only ${farms.length} farm${farms.length === 1 ? "" : "s"} reported outcomes; the co-op shows pooled figures only from ${minimumFarms} farms up.`);
+    notes.push(
+      `Only ${farms.length} farm${farms.length === 1 ? "" : "s"} reported outcomes; the co-op shows pooled figures only from ${minimumFarms} farms up.`,
+    );
   } else {
     try {
       const fit = blockedAnova(analysed.map((record) => ({ treatment: labelOf.get(record.armId)!, block: record.farm, y: record.value })));
@@ -123,9 +132,17 @@ export function analyseTrial(input: { arms: TrialArmInfo[]; records: OutcomeReco
     try {
       // Keys carry a prefix so labels such as "1" and "2" keep the arms' order (JavaScript sorts integer keys first).
       const groups: Record<string, number[]> = {};
-      for (const arm of ordered) groups[`arm ${arm.label}`] = analysed.filter((record) => record.armId === arm.id).map((record) => record.value);
+      for (const arm of ordered)
+        groups[`arm ${arm.label}`] = analysed.filter((record) => record.armId === arm.id).map((record) => record.value);
       const label = (key: string) => key.slice(4);
-      const pairs = tukeyHsd(groups).map((pair) => ({ arm: label(pair.a), versus: label(pair.b), estimate: pair.diff, lower: pair.lower, upper: pair.upper, pAdjusted: pair.pAdj }));
+      const pairs = tukeyHsd(groups).map((pair) => ({
+        arm: label(pair.a),
+        versus: label(pair.b),
+        estimate: pair.diff,
+        lower: pair.lower,
+        upper: pair.upper,
+        pAdjusted: pair.pAdj,
+      }));
       versusReference = pairs.filter((pair) => pair.versus === reference.label);
       betweenArms = pairs.filter((pair) => pair.versus !== reference.label);
     } catch (error) {
@@ -152,7 +169,12 @@ export function analyseTrial(input: { arms: TrialArmInfo[]; records: OutcomeReco
   };
 }
 
-function poolFarmDifferences(arm: TrialArmInfo, reference: TrialArmInfo, farms: string[], analysed: (OutcomeRecord & { value: number })[]): PooledDifference {
+function poolFarmDifferences(
+  arm: TrialArmInfo,
+  reference: TrialArmInfo,
+  farms: string[],
+  analysed: (OutcomeRecord & { value: number })[],
+): PooledDifference {
   const perFarm: (FarmDifference & { v: number })[] = [];
   for (const farm of farms) {
     const own = analysed.filter((record) => record.farm === farm && record.armId === arm.id).map((record) => record.value);
@@ -168,7 +190,12 @@ function poolFarmDifferences(arm: TrialArmInfo, reference: TrialArmInfo, farms: 
   }
   const shown = perFarm.map(({ farm, estimate, lower, upper }) => ({ farm, estimate, lower, upper }));
   if (perFarm.length < 2) {
-    return { arm: arm.label, farms: shown, pooled: null, note: "Fewer than 2 farms ran both arms with 2 or more blocks each, so farms cannot be pooled." };
+    return {
+      arm: arm.label,
+      farms: shown,
+      pooled: null,
+      note: "Fewer than 2 farms ran both arms with 2 or more blocks each, so farms cannot be pooled.",
+    };
   }
   const meta = metaAnalysis(perFarm.map((farm) => ({ y: farm.estimate, v: farm.v })));
   return {
@@ -180,13 +207,16 @@ function poolFarmDifferences(arm: TrialArmInfo, reference: TrialArmInfo, farms: 
 }
 
 function plainAnswer(reference: string, differences: Difference[], enoughFarms: boolean, farms: number, minimumFarms: number): string {
-  if (!enoughFarms) return `No answer yet: ${farms} farm${farms === 1 ? "" : "s"} reported, and the co-op needs ${minimumFarms} before it pools.`;
+  if (!enoughFarms)
+    return `No answer yet: ${farms} farm${farms === 1 ? "" : "s"} reported, and the co-op needs ${minimumFarms} before it pools.`;
   if (!differences.length) return "No answer: the arms could not be compared.";
   return differences
     .map((difference) => {
       const range = `${round1(difference.lower)} to ${round1(difference.upper)} BE points`;
-      if (difference.lower > 0) return `Arm ${difference.arm} gave more than reference arm ${reference}: ${round1(difference.estimate)} BE points more (95 % interval ${range}).`;
-      if (difference.upper < 0) return `Arm ${difference.arm} gave less than reference arm ${reference}: ${round1(-difference.estimate)} BE points less (95 % interval ${range}).`;
+      if (difference.lower > 0)
+        return `Arm ${difference.arm} gave more than reference arm ${reference}: ${round1(difference.estimate)} BE points more (95 % interval ${range}).`;
+      if (difference.upper < 0)
+        return `Arm ${difference.arm} gave less than reference arm ${reference}: ${round1(-difference.estimate)} BE points less (95 % interval ${range}).`;
       return `Arm ${difference.arm} and reference arm ${reference} could not be told apart: the difference was ${round1(difference.estimate)} BE points (95 % interval ${range}).`;
     })
     .join(" ");

@@ -11,7 +11,9 @@ describe("trial lifecycle", () => {
 
   it("refuses skipping, going back and leaving a finished trial", () => {
     expect(() => assertMove("draft", "running")).toThrow(TrialRuleError);
-    expect(() => assertMove("draft", "published")).toThrow(/cannot move to "Published"; it can move to "Open for enrolment" or "Withdrawn"/);
+    expect(() => assertMove("draft", "published")).toThrow(
+      /cannot move to "Published"; it can move to "Open for enrolment" or "Withdrawn"/,
+    );
     expect(() => assertMove("running", "open")).toThrow(TrialRuleError);
     expect(() => assertMove("published", "withdrawn")).toThrow(/finished/);
     expect(() => assertMove("withdrawn", "draft")).toThrow(/finished/);

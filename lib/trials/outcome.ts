@@ -16,7 +16,10 @@ export type BlockOutcome = { value: number } | { value: null; reason: "contamina
  * block is left out or counts as 0 % as the protocol says; a block without its wet mass or
  * moisture cannot give a BE and is reported as lost.
  */
-export function blockOutcome(block: TrialBlockRecord, outcome: { flushes: number; contaminatedHandling: ContaminatedHandling }): BlockOutcome {
+export function blockOutcome(
+  block: TrialBlockRecord,
+  outcome: { flushes: number; contaminatedHandling: ContaminatedHandling },
+): BlockOutcome {
   if (block.contaminated) {
     return outcome.contaminatedHandling === "count_as_zero" ? { value: 0 } : { value: null, reason: "contaminated" };
   }
@@ -30,7 +33,14 @@ export function blockOutcome(block: TrialBlockRecord, outcome: { flushes: number
  * in the order of their ids, which says nothing about who they are.
  */
 export function trialOutcomeRecords(
-  blockRows: { id: string; farmId: string; armId: string | null; wetMassG: number | null; moisture: number | null; contaminated: boolean }[],
+  blockRows: {
+    id: string;
+    farmId: string;
+    armId: string | null;
+    wetMassG: number | null;
+    moisture: number | null;
+    contaminated: boolean;
+  }[],
   harvestRows: { blockId: string; flush: number; freshMassG: number }[],
   outcome: { flushes: number; contaminatedHandling: ContaminatedHandling },
 ): { farm: string; armId: string; contaminated: boolean; value: number | null }[] {
@@ -44,6 +54,9 @@ export function trialOutcomeRecords(
       farm: pseudonym.get(row.farmId)!,
       armId: row.armId!,
       contaminated: row.contaminated,
-      value: blockOutcome({ wetMassG: row.wetMassG, moisture: row.moisture, contaminated: row.contaminated, harvests: byBlock.get(row.id) ?? [] }, outcome).value,
+      value: blockOutcome(
+        { wetMassG: row.wetMassG, moisture: row.moisture, contaminated: row.contaminated, harvests: byBlock.get(row.id) ?? [] },
+        outcome,
+      ).value,
     }));
 }

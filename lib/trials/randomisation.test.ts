@@ -27,7 +27,13 @@ describe("permuted-block randomisation", () => {
   it("is not always the same order within runs (the shuffle really shuffles)", () => {
     const list = permutedBlockList({ seed: "mix", armIds: arms, blocksPerArm: 30, codePrefix: "X" });
     const orders = new Set<string>();
-    for (let run = 1; run <= 30; run++) orders.add(list.filter((entry) => entry.permutedBlock === run).map((entry) => entry.armId).join(","));
+    for (let run = 1; run <= 30; run++)
+      orders.add(
+        list
+          .filter((entry) => entry.permutedBlock === run)
+          .map((entry) => entry.armId)
+          .join(","),
+      );
     // 3 arms have 6 orders; 30 runs should show most of them.
     expect(orders.size).toBeGreaterThanOrEqual(5);
   });

@@ -41,7 +41,12 @@ export function permutedBlockList(options: {
 export function blockCodePrefix(trialCode: string, farmName: string): string {
   const initials = farmName
     .split(/\s+/)
-    .map((word) => word.replace(/[^A-Za-z0-9]/g, "").charAt(0).toUpperCase())
+    .map((word) =>
+      word
+        .replace(/[^A-Za-z0-9]/g, "")
+        .charAt(0)
+        .toUpperCase(),
+    )
     .join("")
     .slice(0, 3);
   return initials ? `${trialCode}-${initials}` : trialCode;

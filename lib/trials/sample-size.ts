@@ -31,7 +31,8 @@ export function trialSampleSize(input: SampleSizeInput, powers: readonly number[
   const problems: Record<string, string> = {};
   if (!(input.difference > 0)) problems.smallestDifference = "Give the smallest difference worth finding, in BE points, above 0 (e.g. 10).";
   if (!(input.sd > 0)) problems.expectedSd = "Give the expected spread between blocks, in BE points, above 0 (e.g. 14).";
-  if (!Number.isInteger(input.plannedFarms) || input.plannedFarms < 1) problems.plannedFarms = "Give the number of farms you plan to enrol, 1 or more.";
+  if (!Number.isInteger(input.plannedFarms) || input.plannedFarms < 1)
+    problems.plannedFarms = "Give the number of farms you plan to enrol, 1 or more.";
   if (!(input.expectedLoss >= 0 && input.expectedLoss < 1)) problems.expectedLoss = "Give the expected loss as a percentage from 0 to 99.";
   if (Object.keys(problems).length) return { ok: false, problems };
   try {

@@ -7,5 +7,7 @@ export function parseYesNo(text: string): { value: boolean | null } | { error: s
   if (word === "") return { value: null };
   if (yesWords.has(word)) return { value: true };
   if (noWords.has(word)) return { value: false };
-  return { error: `"${text.trim()}" is not yes or no. Write yes or no (y/n, true/false, 1/0 or x for yes), or leave the cell blank for no.` };
+  return {
+    error: `"${text.trim()}" is not yes or no. Write yes or no (y/n, true/false, 1/0 or x for yes), or leave the cell blank for no.`,
+  };
 }

@@ -39,9 +39,27 @@ interface Fixtures {
   speciesId: string;
 }
 
-const farmPeopleOnly = { coordinator: "forbidden", farmManager: "allowed", grower: "allowed", observer: "forbidden", otherFarmManager: "allowed" } as const;
-const fernbrookUpload = { coordinator: "forbidden", farmManager: "allowed", grower: "allowed", observer: "forbidden", otherFarmManager: "foreign" } as const;
-const everyone = { coordinator: "allowed", farmManager: "allowed", grower: "allowed", observer: "allowed", otherFarmManager: "allowed" } as const;
+const farmPeopleOnly = {
+  coordinator: "forbidden",
+  farmManager: "allowed",
+  grower: "allowed",
+  observer: "forbidden",
+  otherFarmManager: "allowed",
+} as const;
+const fernbrookUpload = {
+  coordinator: "forbidden",
+  farmManager: "allowed",
+  grower: "allowed",
+  observer: "forbidden",
+  otherFarmManager: "foreign",
+} as const;
+const everyone = {
+  coordinator: "allowed",
+  farmManager: "allowed",
+  grower: "allowed",
+  observer: "allowed",
+  otherFarmManager: "allowed",
+} as const;
 
 const matrix: Entry[] = [
   { file: "app/api/results/route.ts", method: "GET", path: (ids) => `/api/results?species=${ids.speciesId}&window=all`, expect: everyone },
@@ -49,12 +67,44 @@ const matrix: Entry[] = [
   { file: "app/api/season-logs/route.ts", method: "GET", path: () => "/api/season-logs", expect: farmPeopleOnly },
   { file: "app/api/season-logs/route.ts", method: "POST", path: () => "/api/season-logs", body: "", expect: farmPeopleOnly },
   { file: "app/api/season-logs/template/route.ts", method: "GET", path: () => "/api/season-logs/template", expect: everyone },
-  { file: "app/api/season-logs/[uploadId]/route.ts", method: "GET", path: (ids) => `/api/season-logs/${ids.uploadId}`, expect: fernbrookUpload },
-  { file: "app/api/season-logs/[uploadId]/file/route.ts", method: "GET", path: (ids) => `/api/season-logs/${ids.uploadId}/file`, expect: fernbrookUpload },
-  { file: "app/api/season-logs/[uploadId]/report/route.ts", method: "GET", path: (ids) => `/api/season-logs/${ids.uploadId}/report`, expect: fernbrookUpload },
-  { file: "app/api/season-logs/[uploadId]/check/route.ts", method: "POST", path: (ids) => `/api/season-logs/${ids.uploadId}/check`, body: "{}", expect: fernbrookUpload },
-  { file: "app/api/season-logs/[uploadId]/commit/route.ts", method: "POST", path: (ids) => `/api/season-logs/${ids.uploadId}/commit`, body: "{}", expect: fernbrookUpload },
-  { file: "app/api/trials/[trialId]/list/route.ts", method: "GET", path: (ids) => `/api/trials/${ids.trialId}/list`, expect: farmPeopleOnly },
+  {
+    file: "app/api/season-logs/[uploadId]/route.ts",
+    method: "GET",
+    path: (ids) => `/api/season-logs/${ids.uploadId}`,
+    expect: fernbrookUpload,
+  },
+  {
+    file: "app/api/season-logs/[uploadId]/file/route.ts",
+    method: "GET",
+    path: (ids) => `/api/season-logs/${ids.uploadId}/file`,
+    expect: fernbrookUpload,
+  },
+  {
+    file: "app/api/season-logs/[uploadId]/report/route.ts",
+    method: "GET",
+    path: (ids) => `/api/season-logs/${ids.uploadId}/report`,
+    expect: fernbrookUpload,
+  },
+  {
+    file: "app/api/season-logs/[uploadId]/check/route.ts",
+    method: "POST",
+    path: (ids) => `/api/season-logs/${ids.uploadId}/check`,
+    body: "{}",
+    expect: fernbrookUpload,
+  },
+  {
+    file: "app/api/season-logs/[uploadId]/commit/route.ts",
+    method: "POST",
+    path: (ids) => `/api/season-logs/${ids.uploadId}/commit`,
+    body: "{}",
+    expect: fernbrookUpload,
+  },
+  {
+    file: "app/api/trials/[trialId]/list/route.ts",
+    method: "GET",
+    path: (ids) => `/api/trials/${ids.trialId}/list`,
+    expect: farmPeopleOnly,
+  },
   {
     file: "app/(app)/farm-people/data/download/route.ts",
     method: "GET",
@@ -99,7 +149,12 @@ beforeAll(async () => {
     data: `${template.split(/\r?\n/)[0]}\n`,
   });
   expect(posted.status(), await posted.text()).toBeLessThan(300);
-  const upload = (await inspector.query<{ id: string }>("select id from uploads where farm_id = $1 and file_name = 'fernbrook-private.csv' order by uploaded_at desc limit 1", [fernbrook])).rows[0];
+  const upload = (
+    await inspector.query<{ id: string }>(
+      "select id from uploads where farm_id = $1 and file_name = 'fernbrook-private.csv' order by uploaded_at desc limit 1",
+      [fernbrook],
+    )
+  ).rows[0];
   madeUploadId = upload.id;
   fixtures = {
     uploadId: upload.id,
@@ -124,7 +179,17 @@ async function call(entry: Entry): Promise<APIResponse> {
 /** Every published pooled figure in a results answer must come from at least the minimum number of farms. */
 function smallCells(body: unknown): string[] {
   const problems: string[] = [];
-  const results = (body as { results?: { strains: { strainName: string; farms: { status: string; value?: number }; efficiency: { status: string; value?: { farms: number } } }[] } }).results;
+  const results = (
+    body as {
+      results?: {
+        strains: {
+          strainName: string;
+          farms: { status: string; value?: number };
+          efficiency: { status: string; value?: { farms: number } };
+        }[];
+      };
+    }
+  ).results;
   for (const strain of results?.strains ?? []) {
     if (strain.farms.status === "published" && strain.farms.value! < minimumFarms) problems.push(`${strain.strainName} farms`);
     if (strain.efficiency.status === "published" && strain.efficiency.value!.farms < minimumFarms) problems.push(`${strain.strainName} BE`);
@@ -140,7 +205,8 @@ describe("the authorisation matrix", () => {
       if (file.includes("[...nextauth]")) continue;
       const source = readFileSync(file, "utf8");
       for (const method of ["GET", "POST", "PUT", "PATCH", "DELETE"]) {
-        if (new RegExp(`export (const|async function) ${method}\\b`).test(source) && !listed.has(`${method} ${file}`)) missing.push(`${method} ${file}`);
+        if (new RegExp(`export (const|async function) ${method}\\b`).test(source) && !listed.has(`${method} ${file}`))
+          missing.push(`${method} ${file}`);
       }
     }
     expect(missing).toEqual([]);

@@ -17,7 +17,10 @@ let inspector: Pool;
 /** The link in the newest caught e-mail to `to`, as the recipient would click it. */
 async function linkMailedTo(to: string): Promise<string> {
   for (let attempt = 0; attempt < 100; attempt += 1) {
-    const { rows } = await inspector.query<{ text: string }>("select text from mail_messages where $1 = any(recipients) order by id desc limit 1", [to]);
+    const { rows } = await inspector.query<{ text: string }>(
+      "select text from mail_messages where $1 = any(recipients) order by id desc limit 1",
+      [to],
+    );
     const link = rows[0]?.text.match(/https?:\/\/\S+\/accept-invitation\?token=[A-Za-z0-9_-]+/)?.[0];
     if (link) return link;
     await new Promise((resolve) => setTimeout(resolve, 100));

@@ -59,7 +59,9 @@ interface BuiltAction {
 
 /** The build's own list of server actions, with the page each one is posted to. */
 function builtActions(trialId: string): BuiltAction[] {
-  const manifest = JSON.parse(readFileSync(path.join(process.env.NEXT_DIST_DIR ?? ".next", "server", "server-reference-manifest.json"), "utf8")) as {
+  const manifest = JSON.parse(
+    readFileSync(path.join(process.env.NEXT_DIST_DIR ?? ".next", "server", "server-reference-manifest.json"), "utf8"),
+  ) as {
     node: Record<string, { workers: Record<string, unknown>; filename: string; exportedName: string }>;
   };
   return Object.entries(manifest.node).map(([id, entry]) => {

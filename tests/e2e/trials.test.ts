@@ -29,7 +29,11 @@ describe("a strain trial in the browser", () => {
     await signInAs("coordinator@aldervalley.example");
     const design = new TrialDesignPage(page);
     await design.open();
-    await design.describe("Grey Morning against Valley Wild", "Does PO-02 give a different BE over flushes 1–2 than PO-01?", "Oyster mushroom");
+    await design.describe(
+      "Grey Morning against Valley Wild",
+      "Does PO-02 give a different BE over flushes 1–2 than PO-01?",
+      "Oyster mushroom",
+    );
     await design.chooseStrain(0, "PO-01 — Grey Morning");
     await design.chooseStrain(1, "PO-02 — Valley Wild");
     await design.setSpread("10");
@@ -55,7 +59,12 @@ describe("a strain trial in the browser", () => {
     await page.goto(`${appUrl}/outgoing-mail`);
     await page.getByText("Invitation to trial", { exact: false }).first().waitFor();
     await screenshot(page, "trials-outgoing-mail");
-    unsubscribeLink = await page.locator("li", { hasText: "Invitation to trial" }).first().locator("pre").textContent().then((text) => text?.match(/\/unsubscribe\/\S+/)?.[0]);
+    unsubscribeLink = await page
+      .locator("li", { hasText: "Invitation to trial" })
+      .first()
+      .locator("pre")
+      .textContent()
+      .then((text) => text?.match(/\/unsubscribe\/\S+/)?.[0]);
     expect(unsubscribeLink).toBeTruthy();
     await new AppShell(page).signOut();
   });

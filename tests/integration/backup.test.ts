@@ -67,7 +67,8 @@ describe("db:backup and db:restore", () => {
     expect((await copy.query(policies)).rows).toEqual((await original.query(policies)).rows);
     const forced = "select relname from pg_class where relforcerowsecurity order by 1";
     expect((await copy.query(forced)).rows).toEqual((await original.query(forced)).rows);
-    const grants = "select table_name, grantee, privilege_type from information_schema.role_table_grants where grantee like 'rhizo_%' order by 1, 2, 3";
+    const grants =
+      "select table_name, grantee, privilege_type from information_schema.role_table_grants where grantee like 'rhizo_%' order by 1, 2, 3";
     expect((await copy.query(grants)).rows).toEqual((await original.query(grants)).rows);
   });
 

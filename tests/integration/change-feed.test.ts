@@ -64,7 +64,10 @@ describe("the guard's copy of a member", () => {
   });
 
   it("is not kept while the listener is disconnected, and is kept again once it reconnects", async () => {
-    const { rowCount } = await inspector.query("select pg_terminate_backend(pid) from pg_stat_activity where application_name = $1 and datname = current_database()", [listenerApplicationName]);
+    const { rowCount } = await inspector.query(
+      "select pg_terminate_backend(pid) from pg_stat_activity where application_name = $1 and datname = current_database()",
+      [listenerApplicationName],
+    );
     expect(rowCount).toBeGreaterThan(0);
     await vi.waitFor(() => expect(listening()).toBe(false), patiently);
     const first = await loadMemberForRequest(observerId);
@@ -86,8 +89,13 @@ describe("the kept Co-op results", () => {
     expect((await getPooledResults(observer, query)).results).toBe(before.results);
     try {
       await inspector.query("update cooperative_settings set minimum_farms = $1", [minimumFarms + 40]);
-      await vi.waitFor(async () => expect((await getPooledResults(observer, query)).results?.minimumFarms).toBe(minimumFarms + 40), patiently);
-      expect((await getPooledResults(observer, query)).results?.strains.every((strain) => strain.efficiency.status === "suppressed")).toBe(true);
+      await vi.waitFor(
+        async () => expect((await getPooledResults(observer, query)).results?.minimumFarms).toBe(minimumFarms + 40),
+        patiently,
+      );
+      expect((await getPooledResults(observer, query)).results?.strains.every((strain) => strain.efficiency.status === "suppressed")).toBe(
+        true,
+      );
     } finally {
       await inspector.query("update cooperative_settings set minimum_farms = $1", [minimumFarms]);
     }
@@ -116,7 +124,8 @@ describe("the kept Co-op results", () => {
     );
     const manager = (await loadMemberForRequest(rows[0].id)) as Member;
     const query = { speciesId: rows[0].species_id, flushWindow: "all" } as const;
-    const dots = async () => (await getPooledResults(manager, query)).ownBlocks.flatMap((strain) => strain.efficiencies).sort((a, b) => a - b);
+    const dots = async () =>
+      (await getPooledResults(manager, query)).ownBlocks.flatMap((strain) => strain.efficiencies).sort((a, b) => a - b);
     const before = await dots();
     expect(before.length).toBeGreaterThan(0);
     try {

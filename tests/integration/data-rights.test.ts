@@ -27,17 +27,22 @@ function csvRows(files: Record<string, Uint8Array>, name: string): Record<string
 
 beforeAll(async () => {
   inspector = superuserPool();
-  farmId = (await inspector.query<{ id: string }>("insert into farms (name, region) values ($1, 'Alder Heights') returning id", [farmName])).rows[0].id;
-  await inspector.query("insert into users (email, name, role, farm_id) values ($1, 'Rosa Vidal', 'farm_manager', $2)", [managerEmail, farmId]);
+  farmId = (await inspector.query<{ id: string }>("insert into farms (name, region) values ($1, 'Alder Heights') returning id", [farmName]))
+    .rows[0].id;
+  await inspector.query("insert into users (email, name, role, farm_id) values ($1, 'Rosa Vidal', 'farm_manager', $2)", [
+    managerEmail,
+    farmId,
+  ]);
   const strain = (await inspector.query<{ id: string }>("select id from strains where code = 'PO-01'")).rows[0].id;
   for (let index = 1; index <= 4; index += 1) {
     const block = await inspector.query<{ id: string }>(
       "insert into blocks (farm_id, code, strain_id, wet_mass_g, moisture, inoculated_on) values ($1, $2, $3, 2500, 0.62, '2026-03-01') returning id",
       [farmId, `ZF-${index}`, strain],
     );
-    await inspector.query("insert into harvests (farm_id, block_id, flush, harvested_on, fresh_mass_g) values ($1, $2, 1, '2026-04-01', $3), ($1, $2, 2, '2026-04-20', $4)", [
-      farmId, block.rows[0].id, 500 + index * 10, 200 + index,
-    ]);
+    await inspector.query(
+      "insert into harvests (farm_id, block_id, flush, harvested_on, fresh_mass_g) values ($1, $2, 1, '2026-04-01', $3), ($1, $2, 2, '2026-04-20', $4)",
+      [farmId, block.rows[0].id, 500 + index * 10, 200 + index],
+    );
   }
   // It ran the published demo trial and has joined the one still open for enrolment.
   await inspector.query(
@@ -72,22 +77,26 @@ describe("a farm's data download", () => {
 
     const hollowOak = await memberByEmail("manager@hollowoak.example");
     // A farm event of another farm, which must stay out of this farm's download.
-    await inspector.query("insert into audit_events (farm_id, action, subject) values ($1, 'test.own', 'own-event'), ($2, 'test.other', 'other-farm-event')", [
-      manager.farmId,
-      hollowOak.farmId,
-    ]);
+    await inspector.query(
+      "insert into audit_events (farm_id, action, subject) values ($1, 'test.own', 'own-event'), ($2, 'test.other', 'other-farm-event')",
+      [manager.farmId, hollowOak.farmId],
+    );
 
     const { fileName, zip } = await exportFarmData(manager);
     expect(fileName).toMatch(new RegExp(`^zinnia-fields-${run}-data-\\d{4}-\\d{2}-\\d{2}\\.zip$`));
     const files = unzipSync(zip);
-    expect(Object.keys(files)).toEqual(expect.arrayContaining(["README.txt", "blocks.csv", "harvests.csv", "uploads.csv", "value-changes.csv", "activity.csv"]));
+    expect(Object.keys(files)).toEqual(
+      expect.arrayContaining(["README.txt", "blocks.csv", "harvests.csv", "uploads.csv", "value-changes.csv", "activity.csv"]),
+    );
 
     const own = await inspector.query<{ code: string }>("select code from blocks where farm_id = $1 order by code", [manager.farmId]);
     const others = await inspector.query<{ code: string }>("select code from blocks where farm_id <> $1", [manager.farmId]);
     expect(csvRows(files, "blocks.csv").map((row) => row.block)).toEqual(own.rows.map((row) => row.code));
     const ownCodes = new Set(own.rows.map((row) => row.code));
     const foreign = others.rows.map((row) => row.code).filter((code) => !ownCodes.has(code));
-    const exportedText = Object.values(files).map((bytes) => strFromU8(bytes)).join("\n");
+    const exportedText = Object.values(files)
+      .map((bytes) => strFromU8(bytes))
+      .join("\n");
     for (const code of foreign.slice(0, 50)) expect(exportedText).not.toContain(`${code},`);
 
     const harvestCount = await inspector.query<{ n: number; grams: number }>(
@@ -107,7 +116,9 @@ describe("a farm's data download", () => {
     expect(activity).not.toContain("other-farm-event");
     expect(strFromU8(files["README.txt"])).toContain("fresh_mass_g: ");
 
-    const logged = await inspector.query("select 1 from audit_events where farm_id = $1 and action = 'farm.data-exported'", [manager.farmId]);
+    const logged = await inspector.query("select 1 from audit_events where farm_id = $1 and action = 'farm.data-exported'", [
+      manager.farmId,
+    ]);
     expect(logged.rowCount).toBeGreaterThan(0);
   });
 
@@ -131,7 +142,10 @@ describe("withdrawing a farm's data", () => {
     const otherFarms = await inspector.query<{ n: number }>("select count(*)::int as n from blocks where farm_id <> $1", [farmId]);
     const pooledTable = await inspector.query("select 1 from pg_tables where tablename = 'farm_strain_statistics'");
     if (pooledTable.rowCount) {
-      const pooledBefore = await inspector.query<{ n: number }>("select count(*)::int as n from farm_strain_statistics where farm_id = $1", [farmId]);
+      const pooledBefore = await inspector.query<{ n: number }>(
+        "select count(*)::int as n from farm_strain_statistics where farm_id = $1",
+        [farmId],
+      );
       expect(pooledBefore.rows[0].n).toBeGreaterThan(0);
     }
 
@@ -152,9 +166,13 @@ describe("withdrawing a farm's data", () => {
       const left = await inspector.query<{ n: number }>(`select count(*)::int as n from ${table} where farm_id = $1`, [farmId]);
       expect(left.rows[0].n, table).toBe(0);
     }
-    expect((await inspector.query<{ n: number }>("select count(*)::int as n from blocks where farm_id <> $1", [farmId])).rows[0].n).toBe(otherFarms.rows[0].n);
+    expect((await inspector.query<{ n: number }>("select count(*)::int as n from blocks where farm_id <> $1", [farmId])).rows[0].n).toBe(
+      otherFarms.rows[0].n,
+    );
     if (pooledTable.rowCount) {
-      const pooledAfter = await inspector.query<{ n: number }>("select count(*)::int as n from farm_strain_statistics where farm_id = $1", [farmId]);
+      const pooledAfter = await inspector.query<{ n: number }>("select count(*)::int as n from farm_strain_statistics where farm_id = $1", [
+        farmId,
+      ]);
       expect(pooledAfter.rows[0].n).toBe(0);
     }
     const enrolments = await inspector.query<{ status: string }>("select status from trial_enrolments where farm_id = $1", [farmId]);

@@ -30,7 +30,16 @@ describe("registries: proposals, approval, retirement", () => {
   it("keeps a grower's proposed strain waiting until the coordinator approves it", async () => {
     const { rows } = await inspector.query<{ id: string }>("select id from species where common_name ilike '%oyster%' limit 1");
     const code = `PO-${run}`;
-    expect(await createRegistryEntry(grower, { kind: "strains", code, species: rows[0].id, name: "Barn Loft", source: "own_isolate", notes: "" })).toBe("proposed");
+    expect(
+      await createRegistryEntry(grower, {
+        kind: "strains",
+        code,
+        species: rows[0].id,
+        name: "Barn Loft",
+        source: "own_isolate",
+        notes: "",
+      }),
+    ).toBe("proposed");
     const proposed = (await listRegistries(coordinator)).strains.find((strain) => strain.code === code)!;
     expect(proposed.status).toBe("proposed");
     await expect(moveRegistryEntry(grower, "strains", proposed.id, "approve")).rejects.toThrow(/Only the coordinator/);
@@ -55,11 +64,19 @@ describe("registries: proposals, approval, retirement", () => {
   it("imports a CSV list all at once, or not at all with the line of each problem", async () => {
     const good = `code,name,base,supplement,supplement_percent,target_moisture_percent,treatment\nOAK-${run},Oak and bran,Oak sawdust,Wheat bran,12,61,sterilised\nSTR-${run},Pasteurised straw,Wheat straw,,0,70,pasteurised\n`;
     expect(await importRegistryCsv(coordinator, "substrate_recipes", good)).toBe(2);
-    const { rows } = await inspector.query("select code, target_moisture::float as moisture from substrate_recipes where code like $1 order by code", [`%-${run}`]);
-    expect(rows).toEqual([{ code: `OAK-${run}`, moisture: 0.61 }, { code: `STR-${run}`, moisture: 0.7 }]);
+    const { rows } = await inspector.query(
+      "select code, target_moisture::float as moisture from substrate_recipes where code like $1 order by code",
+      [`%-${run}`],
+    );
+    expect(rows).toEqual([
+      { code: `OAK-${run}`, moisture: 0.61 },
+      { code: `STR-${run}`, moisture: 0.7 },
+    ]);
 
     const bad = `code,species,name,source\nX1-${run},Pleurotus ostreatus,Fine,culture bank\nX2-${run},No such fungus,Broken,culture bank\n`;
-    await expect(importRegistryCsv(coordinator, "strains", bad)).rejects.toMatchObject({ fieldProblems: [{ field: "file", message: expect.stringContaining("Line 3") }] });
+    await expect(importRegistryCsv(coordinator, "strains", bad)).rejects.toMatchObject({
+      fieldProblems: [{ field: "file", message: expect.stringContaining("Line 3") }],
+    });
     expect((await inspector.query("select 1 from strains where code = any($1)", [[`X1-${run}`, `X2-${run}`]])).rowCount).toBe(0);
     await expect(importRegistryCsv(coordinator, "substrate_recipes", good)).rejects.toThrow(/already in the registry/);
   });

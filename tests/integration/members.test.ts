@@ -4,8 +4,21 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase, withFarmContext } from "@/db/client";
 import { accessTokens, auditEvents, users } from "@/db/schema";
 import {
-  admitFarm, changePassword, changeRole, deactivatePerson, setFarmStatus, updatePreferences, getAccessTokenState, inviteMember, listFarmPeople, listMembership, loadMember,
-  redeemAccessToken, requestPasswordReset, transferManagerRole, type Member,
+  admitFarm,
+  changePassword,
+  changeRole,
+  deactivatePerson,
+  setFarmStatus,
+  updatePreferences,
+  getAccessTokenState,
+  inviteMember,
+  listFarmPeople,
+  listMembership,
+  loadMember,
+  redeemAccessToken,
+  requestPasswordReset,
+  transferManagerRole,
+  type Member,
 } from "@/lib/data/members";
 import { listAuditEvents } from "@/lib/data/audit";
 import { checkPassword } from "@/lib/data/sign-in";
@@ -71,7 +84,13 @@ describe("admitting a farm and inviting its people by e-mail", () => {
     const stored = await inspector.query("select token_hash, used_at from access_tokens where email = $1", [managerEmail]);
     expect(stored.rows).toEqual([{ token_hash: hashToken(managerToken), used_at: null }]);
     expect(JSON.stringify(stored.rows)).not.toContain(managerToken);
-    expect(await getAccessTokenState(managerToken)).toMatchObject({ purpose: "invitation", email: managerEmail, role: "farm_manager", farmName, state: "valid" });
+    expect(await getAccessTokenState(managerToken)).toMatchObject({
+      purpose: "invitation",
+      email: managerEmail,
+      role: "farm_manager",
+      farmName,
+      state: "valid",
+    });
 
     const membership = await listMembership(coordinator);
     expect(membership.farms.map((farm) => farm.name)).toContain(farmName);
@@ -79,8 +98,13 @@ describe("admitting a farm and inviting its people by e-mail", () => {
   });
 
   it("lets the manager accept once, sign in, and invite a grower who accepts too", async () => {
-    expect(await redeemAccessToken(managerToken, "invitation", { name: "Noor Castell", password: "birch-knoll-2026" })).toEqual({ status: "accepted", email: managerEmail });
-    expect(await redeemAccessToken(managerToken, "invitation", { name: "Someone Else", password: "another-password" })).toEqual({ status: "used" });
+    expect(await redeemAccessToken(managerToken, "invitation", { name: "Noor Castell", password: "birch-knoll-2026" })).toEqual({
+      status: "accepted",
+      email: managerEmail,
+    });
+    expect(await redeemAccessToken(managerToken, "invitation", { name: "Someone Else", password: "another-password" })).toEqual({
+      status: "used",
+    });
     expect((await checkPassword(managerEmail, "birch-knoll-2026", "127.0.0.1")).status).toBe("ok");
 
     const manager = await memberByEmail(managerEmail);
@@ -88,11 +112,16 @@ describe("admitting a farm and inviting its people by e-mail", () => {
 
     await inviteMember(manager, { email: growerEmail, role: "grower", farmId });
     const growerToken = tokenIn((await mailTo(growerEmail, /invited/)).text, "accept-invitation");
-    expect(await redeemAccessToken(growerToken, "invitation", { name: "Eli Marsh", password: "grows-oysters-1" })).toMatchObject({ status: "accepted" });
+    expect(await redeemAccessToken(growerToken, "invitation", { name: "Eli Marsh", password: "grows-oysters-1" })).toMatchObject({
+      status: "accepted",
+    });
 
     const people = await listFarmPeople(manager);
     expect(people.people.map((person) => [person.email, person.role])).toEqual(
-      expect.arrayContaining([[managerEmail, "farm_manager"], [growerEmail, "grower"]]),
+      expect.arrayContaining([
+        [managerEmail, "farm_manager"],
+        [growerEmail, "grower"],
+      ]),
     );
     const farmLog = await listAuditEvents(manager, "farm");
     expect(farmLog.map((event) => event.action)).toEqual(expect.arrayContaining(["member.invited", "member.joined"]));
@@ -101,9 +130,13 @@ describe("admitting a farm and inviting its people by e-mail", () => {
   it("refuses a manager inviting to another farm or into a role above a grower", async () => {
     const manager = await memberByEmail(managerEmail);
     const fernbrook = await memberByEmail("manager@fernbrook.example");
-    await expect(inviteMember(manager, { email: `x-${run}@example.test`, role: "grower", farmId: fernbrook.farmId })).rejects.toThrow(/own farm/);
+    await expect(inviteMember(manager, { email: `x-${run}@example.test`, role: "grower", farmId: fernbrook.farmId })).rejects.toThrow(
+      /own farm/,
+    );
     await expect(inviteMember(manager, { email: `y-${run}@example.test`, role: "farm_manager", farmId })).rejects.toThrow(/cannot invite/);
-    await expect(inviteMember(coordinator, { email: "grower@fernbrook.example", role: "observer", farmId: null })).rejects.toThrow(/already belongs/);
+    await expect(inviteMember(coordinator, { email: "grower@fernbrook.example", role: "observer", farmId: null })).rejects.toThrow(
+      /already belongs/,
+    );
   });
 
   it("hands the manager role to a grower, who is told by e-mail, and the old manager becomes a grower", async () => {
@@ -145,7 +178,9 @@ describe("suspending a farm and changing one's own password", () => {
 
   it("changes a password only with the current one, and says so by e-mail", async () => {
     const observer = await memberByEmail("observer@extension.example");
-    await expect(changePassword(observer, "wrong-password", "observer-new-pass")).rejects.toMatchObject({ fieldProblems: [{ field: "currentPassword" }] });
+    await expect(changePassword(observer, "wrong-password", "observer-new-pass")).rejects.toMatchObject({
+      fieldProblems: [{ field: "currentPassword" }],
+    });
     await changePassword(observer, "alder-valley-demo", "observer-new-pass");
     expect((await mailTo("observer@extension.example", /password was changed/)).text).toContain("reset it from the sign-in page");
     expect((await checkPassword("observer@extension.example", "observer-new-pass", "127.0.0.5")).status).toBe("ok");
@@ -170,7 +205,9 @@ describe("expired, reused and unknown links", () => {
   });
 
   it("refuses an unknown token, a malformed one, and a reset token used as an invitation", async () => {
-    expect(await redeemAccessToken(newAccessToken().token, "invitation", { name: "X", password: "whatever-123" })).toEqual({ status: "unknown" });
+    expect(await redeemAccessToken(newAccessToken().token, "invitation", { name: "X", password: "whatever-123" })).toEqual({
+      status: "unknown",
+    });
     expect(await redeemAccessToken("not-a-token", "invitation", { name: "X", password: "whatever-123" })).toEqual({ status: "unknown" });
     expect(await getAccessTokenState("not-a-token")).toBeNull();
   });
@@ -200,7 +237,10 @@ describe("password reset by e-mail", () => {
     await requestPasswordReset(email.toUpperCase(), "127.0.0.1");
     const token = tokenIn((await mailTo(email, /Reset/)).text, "reset-password");
     expect(await redeemAccessToken(token, "invitation", { name: "", password: "hollow-oak-new-1" })).toEqual({ status: "unknown" });
-    expect(await redeemAccessToken(token, "password_reset", { name: "", password: "hollow-oak-new-1" })).toEqual({ status: "reset", email });
+    expect(await redeemAccessToken(token, "password_reset", { name: "", password: "hollow-oak-new-1" })).toEqual({
+      status: "reset",
+      email,
+    });
     expect(await redeemAccessToken(token, "password_reset", { name: "", password: "hollow-oak-new-2" })).toEqual({ status: "used" });
     expect((await checkPassword(email, "hollow-oak-new-1", "127.0.0.3")).status).toBe("ok");
     expect((await checkPassword(email, "alder-valley-demo", "127.0.0.3")).status).toBe("refused");
@@ -217,7 +257,9 @@ describe("password reset by e-mail", () => {
     }
     expect(second).not.toBe(first);
     expect(await redeemAccessToken(first, "password_reset", { name: "", password: "hollow-oak-new-3" })).toEqual({ status: "used" });
-    expect(await redeemAccessToken(second, "password_reset", { name: "", password: "alder-valley-demo" })).toMatchObject({ status: "reset" });
+    expect(await redeemAccessToken(second, "password_reset", { name: "", password: "alder-valley-demo" })).toMatchObject({
+      status: "reset",
+    });
   });
 });
 
@@ -226,7 +268,10 @@ describe("password reset limits", () => {
     const email = "manager@stonebank.example";
     for (let request = 0; request < 5; request += 1) await requestPasswordReset(email, "127.0.0.1");
     await new Promise((resolve) => setTimeout(resolve, 500));
-    const { rows } = await inspector.query<{ n: number }>("select count(*)::int as n from mail_messages where $1 = any(recipients) and subject like 'Reset%'", [email]);
+    const { rows } = await inspector.query<{ n: number }>(
+      "select count(*)::int as n from mail_messages where $1 = any(recipients) and subject like 'Reset%'",
+      [email],
+    );
     expect(rows[0].n).toBe(3);
   });
 });
@@ -236,17 +281,38 @@ describe("the activity log stays as written", () => {
     const [event] = (await inspector.query<{ id: string }>("select id from audit_events where farm_id is null order by id limit 1")).rows;
     for (const role of ["coordinator", "observer", "anonymous"] as const) {
       const context = { userId: role === "coordinator" ? coordinator.id : null, farmId: null, role };
-      expect(await databaseRefusal(withFarmContext(context, (tx) => tx.update(auditEvents).set({ action: "rewritten" }).where(eq(auditEvents.id, Number(event.id)))))).toMatch(/permission denied/);
-      expect(await databaseRefusal(withFarmContext(context, (tx) => tx.delete(auditEvents).where(eq(auditEvents.id, Number(event.id)))))).toMatch(/permission denied/);
+      expect(
+        await databaseRefusal(
+          withFarmContext(context, (tx) =>
+            tx
+              .update(auditEvents)
+              .set({ action: "rewritten" })
+              .where(eq(auditEvents.id, Number(event.id))),
+          ),
+        ),
+      ).toMatch(/permission denied/);
+      expect(
+        await databaseRefusal(withFarmContext(context, (tx) => tx.delete(auditEvents).where(eq(auditEvents.id, Number(event.id))))),
+      ).toMatch(/permission denied/);
     }
   });
 
   it("shows the coordinator co-op events only and a farm manager their farm's only", async () => {
     const fernbrook = await memberByEmail("manager@fernbrook.example");
-    expect(await databaseRefusal(withFarmContext({ userId: fernbrook.id, farmId: fernbrook.farmId, role: "farm_manager" }, (tx) => tx.insert(auditEvents).values({ action: "forged", farmId: coordinator.id })))).toMatch(/row-level security|foreign key/);
-    const farmIds = await withFarmContext({ userId: fernbrook.id, farmId: fernbrook.farmId, role: "farm_manager" }, (tx) => tx.selectDistinct({ farmId: auditEvents.farmId }).from(auditEvents));
+    expect(
+      await databaseRefusal(
+        withFarmContext({ userId: fernbrook.id, farmId: fernbrook.farmId, role: "farm_manager" }, (tx) =>
+          tx.insert(auditEvents).values({ action: "forged", farmId: coordinator.id }),
+        ),
+      ),
+    ).toMatch(/row-level security|foreign key/);
+    const farmIds = await withFarmContext({ userId: fernbrook.id, farmId: fernbrook.farmId, role: "farm_manager" }, (tx) =>
+      tx.selectDistinct({ farmId: auditEvents.farmId }).from(auditEvents),
+    );
     expect(farmIds.every((row) => row.farmId === fernbrook.farmId)).toBe(true);
-    const coopIds = await withFarmContext({ userId: coordinator.id, farmId: null, role: "coordinator" }, (tx) => tx.selectDistinct({ farmId: auditEvents.farmId }).from(auditEvents));
+    const coopIds = await withFarmContext({ userId: coordinator.id, farmId: null, role: "coordinator" }, (tx) =>
+      tx.selectDistinct({ farmId: auditEvents.farmId }).from(auditEvents),
+    );
     expect(coopIds).toEqual([{ farmId: null }]);
     await expect(listAuditEvents(fernbrook, "coop")).rejects.toThrow(/coordinator/);
   });

@@ -37,7 +37,9 @@ describe("the committed migrations", () => {
     await admin.query(`drop database if exists ${scratch} with (force)`);
     await admin.query(`create database ${scratch} owner rhizo_owner`);
     const scratchAdmin = superuserPool(scratch);
-    await scratchAdmin.query("revoke all on schema public from public; grant usage on schema public to rhizo_app, rhizo_analyst; alter schema public owner to rhizo_owner");
+    await scratchAdmin.query(
+      "revoke all on schema public from public; grant usage on schema public to rhizo_app, rhizo_analyst; alter schema public owner to rhizo_owner",
+    );
     await scratchAdmin.end();
 
     const journal = (await import("@/db/migrations/meta/_journal.json")).default as { entries: unknown[] };
@@ -47,6 +49,8 @@ describe("the committed migrations", () => {
     const check = scratchPool();
     const { rows } = await check.query<{ name: string }>("select tablename as name from pg_tables where schemaname = 'public' order by 1");
     await check.end();
-    expect(rows.map((row) => row.name)).toEqual(expect.arrayContaining(["blocks", "harvests", "uploads", "farms", "users", "trials", "audit_events"]));
+    expect(rows.map((row) => row.name)).toEqual(
+      expect.arrayContaining(["blocks", "harvests", "uploads", "farms", "users", "trials", "audit_events"]),
+    );
   });
 });

@@ -45,7 +45,10 @@ describe("per-farm sufficient statistics under row-level security", () => {
     const seen = await withFarmContext(context, async (tx) => ({
       strains: await tx.select({ farmId: farmStrainStatistics.farmId }).from(farmStrainStatistics),
       flushes: await tx.select({ farmId: farmFlushStatistics.farmId }).from(farmFlushStatistics),
-      state: await tx.execute(sql`select count(*) from pooled_refresh_state`).then(() => "readable", (error: Error) => (error.cause as Error)?.message ?? error.message),
+      state: await tx.execute(sql`select count(*) from pooled_refresh_state`).then(
+        () => "readable",
+        (error: Error) => (error.cause as Error)?.message ?? error.message,
+      ),
     }));
     const own = context.farmId && (context.role === "farm_manager" || context.role === "grower") ? context.farmId : null;
     const farmsSeen = new Set([...seen.strains, ...seen.flushes].map((row) => row.farmId));
@@ -56,13 +59,22 @@ describe("per-farm sufficient statistics under row-level security", () => {
 
   it("refuses writes from the application role, even to its own farm's rows", async () => {
     const asFarmA: FarmContext = { userId: farmA.managerId, farmId: farmA.id, role: "farm_manager" };
-    expect(await databaseRefusal(withFarmContext(asFarmA, (tx) => tx.execute(sql`delete from farm_strain_statistics`)))).toMatch(/permission denied/);
-    expect(await databaseRefusal(withFarmContext(asFarmA, (tx) => tx.execute(sql`update farm_strain_statistics set blocks = 0`)))).toMatch(/permission denied/);
-    expect(await databaseRefusal(withFarmContext(asFarmA, (tx) => tx.execute(sql`select pooled_refresh_farm(${farmA.id}::uuid)`)))).toMatch(/permission denied/);
+    expect(await databaseRefusal(withFarmContext(asFarmA, (tx) => tx.execute(sql`delete from farm_strain_statistics`)))).toMatch(
+      /permission denied/,
+    );
+    expect(await databaseRefusal(withFarmContext(asFarmA, (tx) => tx.execute(sql`update farm_strain_statistics set blocks = 0`)))).toMatch(
+      /permission denied/,
+    );
+    expect(await databaseRefusal(withFarmContext(asFarmA, (tx) => tx.execute(sql`select pooled_refresh_farm(${farmA.id}::uuid)`)))).toMatch(
+      /permission denied/,
+    );
   });
 
   it("lets the analyst role read every farm's statistics but not the farms' names", async () => {
-    const farms = await withAnalystAccess(async (tx) => (await tx.execute<{ farms: number }>(sql`select count(distinct farm_id)::int as farms from farm_strain_statistics`)).rows[0].farms);
+    const farms = await withAnalystAccess(
+      async (tx) =>
+        (await tx.execute<{ farms: number }>(sql`select count(distinct farm_id)::int as farms from farm_strain_statistics`)).rows[0].farms,
+    );
     expect(farms).toBeGreaterThan(2);
     expect(await databaseRefusal(withAnalystAccess((tx) => tx.execute(sql`select name from farms`)))).toMatch(/permission denied/);
   });
@@ -70,8 +82,12 @@ describe("per-farm sufficient statistics under row-level security", () => {
 
 describe("the background refresh", () => {
   it("adds a new farm's blocks, and drops the farm once its rows are gone", async () => {
-    const { rows: [farm] } = await inspector.query<{ id: string }>("insert into farms (name) values ('Test Refresh Farm') returning id");
-    const { rows: [strain] } = await inspector.query<{ id: string }>("select id from strains order by code limit 1");
+    const {
+      rows: [farm],
+    } = await inspector.query<{ id: string }>("insert into farms (name) values ('Test Refresh Farm') returning id");
+    const {
+      rows: [strain],
+    } = await inspector.query<{ id: string }>("select id from strains order by code limit 1");
     try {
       const { rows: made } = await inspector.query<{ id: string }>(
         `insert into blocks (farm_id, code, strain_id, wet_mass_g, moisture, inoculated_on, spent_mass_g)

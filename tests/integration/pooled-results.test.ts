@@ -44,7 +44,14 @@ beforeAll(async () => {
     [farm.managerId],
   );
   const asMember = (person: (typeof people)[number]): Member => ({
-    id: person.id, email: person.email, name: person.name, role: person.role, farmId: person.farm_id, farmName: person.farm_id ? farm.name : null, active: true, displayUnits: "metric",
+    id: person.id,
+    email: person.email,
+    name: person.name,
+    role: person.role,
+    farmId: person.farm_id,
+    farmName: person.farm_id ? farm.name : null,
+    active: true,
+    displayUnits: "metric",
   });
   observer = asMember(people.find((person) => person.role === "observer")!);
   manager = asMember(people.find((person) => person.role === "farm_manager")!);
@@ -81,7 +88,9 @@ describe("pooled results on the demo co-op equal lib/stats on the same rows", ()
       return y === null ? [] : [{ treatment: block.strain_id, block: block.farm_id, y }];
     });
     const model = blockedAnova(observations);
-    const groups = Object.fromEntries(results.strains.map((strain) => [strain.strainId, observations.filter((o) => o.treatment === strain.strainId).map((o) => o.y)]));
+    const groups = Object.fromEntries(
+      results.strains.map((strain) => [strain.strainId, observations.filter((o) => o.treatment === strain.strainId).map((o) => o.y)]),
+    );
 
     for (const strain of results.strains) {
       const blocks = raw.filter((block) => block.strain_id === strain.strainId);
@@ -102,10 +111,15 @@ describe("pooled results on the demo co-op equal lib/stats on the same rows", ()
 
       const withDays = blocks.filter((block) => block.first_days !== null);
       if (strain.firstHarvestDays.status !== "published") throw new Error("days should be published");
-      expect(strain.firstHarvestDays.value.mean).toBeCloseTo(withDays.reduce((sum, block) => sum + block.first_days!, 0) / withDays.length, 9);
+      expect(strain.firstHarvestDays.value.mean).toBeCloseTo(
+        withDays.reduce((sum, block) => sum + block.first_days!, 0) / withDays.length,
+        9,
+      );
 
       const finished = new Set(blocks.filter((block) => block.finished && !block.contaminated).map((block) => block.id));
-      const profile = flushProfile(rawHarvests.filter((h) => finished.has(h.block_id)).map((h) => ({ blockId: h.block_id, flush: h.flush, freshG: h.fresh })));
+      const profile = flushProfile(
+        rawHarvests.filter((h) => finished.has(h.block_id)).map((h) => ({ blockId: h.block_id, flush: h.flush, freshG: h.fresh })),
+      );
       if (strain.flushProfile.status !== "published") throw new Error("flush profile should be published");
       expect(strain.flushProfile.value.length).toBe(profile.length);
       strain.flushProfile.value.forEach((share, index) => {
@@ -145,7 +159,9 @@ describe("pooled results on the demo co-op equal lib/stats on the same rows", ()
   it("counts only flushes 1–2 in that window", async () => {
     const page = await getPooledResults(observer, { speciesId: oysterId, flushWindow: "1-2" });
     const strain = page.results!.strains[0];
-    const values = raw.filter((block) => block.strain_id === strain.strainId).flatMap((block) => efficiencyOf(block, block.fresh_first_two) ?? []);
+    const values = raw
+      .filter((block) => block.strain_id === strain.strainId)
+      .flatMap((block) => efficiencyOf(block, block.fresh_first_two) ?? []);
     if (strain.efficiency.status !== "published") throw new Error("BE should be published");
     expect(strain.efficiency.value.blocks).toBe(values.length);
   });
@@ -157,12 +173,19 @@ describe("pooled results on the demo co-op equal lib/stats on the same rows", ()
     expect(own.reduce((sum, strain) => sum + strain.blocks, 0)).toBe(expected.length);
     // Which dots a strain with many blocks keeps is checked in lib/pooled/own-blocks.test.ts; here, that they come from exactly these blocks.
     const byStrain = (list: OwnStrainBlocks[]) => [...list].sort((a, b) => a.strainId.localeCompare(b.strainId));
-    expect(byStrain(own)).toEqual(byStrain(ownBlocksForChart(expected.map((block) => ({ strainId: block.strain_id, efficiency: efficiencyOf(block, block.fresh_all)! })))));
+    expect(byStrain(own)).toEqual(
+      byStrain(
+        ownBlocksForChart(expected.map((block) => ({ strainId: block.strain_id, efficiency: efficiencyOf(block, block.fresh_all)! }))),
+      ),
+    );
   });
 
   it("withholds every figure when the co-op raises the minimum above its farm count, and says results are updating", async () => {
     await inspector.query("update cooperative_settings set minimum_farms = 6");
-    await inspector.query("insert into pooled_refresh_state (farm_id, requested, completed) values ($1, 1, 0) on conflict (farm_id) do update set requested = pooled_refresh_state.completed + 1", [farm.id]);
+    await inspector.query(
+      "insert into pooled_refresh_state (farm_id, requested, completed) values ($1, 1, 0) on conflict (farm_id) do update set requested = pooled_refresh_state.completed + 1",
+      [farm.id],
+    );
     try {
       const page = await getPooledResults(manager, { speciesId: oysterId, flushWindow: "all" });
       expect(page.updating).toBe(true);

@@ -22,7 +22,9 @@ afterAll(async () => {
 });
 
 async function someBlockOf(farm: DemoFarm) {
-  const { rows } = await inspector.query<{ id: string; strain_id: string }>("select id, strain_id from blocks where farm_id = $1 limit 1", [farm.id]);
+  const { rows } = await inspector.query<{ id: string; strain_id: string }>("select id, strain_id from blocks where farm_id = $1 limit 1", [
+    farm.id,
+  ]);
   return rows[0];
 }
 
@@ -44,9 +46,11 @@ describe("row-level security between farms", () => {
 
   it("refuses to insert a block for farm B from farm A's context", async () => {
     const sample = await someBlockOf(farmB);
-    expect(await databaseRefusal(
-      withFarmContext(asFarmA, (tx) => tx.insert(blocks).values({ farmId: farmB.id, code: "PLANTED-1", strainId: sample.strain_id })),
-    )).toMatch(/row-level security/);
+    expect(
+      await databaseRefusal(
+        withFarmContext(asFarmA, (tx) => tx.insert(blocks).values({ farmId: farmB.id, code: "PLANTED-1", strainId: sample.strain_id })),
+      ),
+    ).toMatch(/row-level security/);
   });
 
   it("changes nothing of farm B's when farm A updates or deletes it", async () => {
@@ -63,9 +67,9 @@ describe("row-level security between farms", () => {
 
   it("refuses to move farm A's own block over to farm B", async () => {
     const own = await someBlockOf(farmA);
-    expect(await databaseRefusal(
-      withFarmContext(asFarmA, (tx) => tx.update(blocks).set({ farmId: farmB.id }).where(eq(blocks.id, own.id))),
-    )).toMatch(/row-level security/);
+    expect(
+      await databaseRefusal(withFarmContext(asFarmA, (tx) => tx.update(blocks).set({ farmId: farmB.id }).where(eq(blocks.id, own.id)))),
+    ).toMatch(/row-level security/);
   });
 
   it("shows nothing and accepts nothing when no context is set", async () => {
@@ -77,9 +81,13 @@ describe("row-level security between farms", () => {
       strains: await tx.select().from(strains),
     }));
     expect(seen).toEqual({ blocks: [], harvests: [], uploads: [], strains: [] });
-    expect(await databaseRefusal(
-      withFarmContext({ userId: null, farmId: null, role: null }, (tx) => tx.insert(blocks).values({ farmId: farmA.id, code: "NO-CONTEXT", strainId: sample.strain_id })),
-    )).toMatch(/row-level security/);
+    expect(
+      await databaseRefusal(
+        withFarmContext({ userId: null, farmId: null, role: null }, (tx) =>
+          tx.insert(blocks).values({ farmId: farmA.id, code: "NO-CONTEXT", strainId: sample.strain_id }),
+        ),
+      ),
+    ).toMatch(/row-level security/);
   });
 
   it("shows the coordinator and an observer no farm's raw rows", async () => {

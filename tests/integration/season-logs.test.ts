@@ -2,7 +2,16 @@ import type { Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase, type FarmContext } from "@/db/client";
 import { getBlock, listBlocks, listHarvestTargets, recordHarvest } from "@/lib/data/blocks";
-import { commitUpload, createUpload, getImportSetup, getTemplateCodes, getUploadFile, listUploads, parseStored, type UploadView } from "@/lib/data/season-logs";
+import {
+  commitUpload,
+  createUpload,
+  getImportSetup,
+  getTemplateCodes,
+  getUploadFile,
+  listUploads,
+  parseStored,
+  type UploadView,
+} from "@/lib/data/season-logs";
 import { seasonLogTemplateCsv } from "@/lib/import";
 import { isAppError } from "@/lib/errors";
 import type { ParseChoices } from "@/lib/season-logs/report";
@@ -30,7 +39,8 @@ afterAll(async () => {
   await closeDatabase();
 });
 
-const header = "block_id,strain,substrate,inoculated_on,block_wet_weight,substrate_moisture,fruiting_method,flush,harvested_on,fresh_weight,contaminated,notes";
+const header =
+  "block_id,strain,substrate,inoculated_on,block_wet_weight,substrate_moisture,fruiting_method,flush,harvested_on,fresh_weight,contaminated,notes";
 
 /** A season log of `blocks` blocks named <prefix>-<n>, each with `flushes` harvests of `fresh` grams (flush 1). */
 function sheet(prefix: string, blocks: number[], options: { flushes?: number; fresh?: (block: number) => number } = {}): string {
@@ -38,7 +48,9 @@ function sheet(prefix: string, blocks: number[], options: { flushes?: number; fr
   for (const block of blocks) {
     const fresh = options.fresh?.(block) ?? 400 + block;
     for (let flush = 1; flush <= (options.flushes ?? 2); flush++) {
-      lines.push(`${prefix}-${block},PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,${flush},2026-04-${String(flush * 10).padStart(2, "0")},${flush === 1 ? fresh : 250} g,no,`);
+      lines.push(
+        `${prefix}-${block},PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,${flush},2026-04-${String(flush * 10).padStart(2, "0")},${flush === 1 ? fresh : 250} g,no,`,
+      );
     }
   }
   return `${lines.join("\r\n")}\r\n`;
@@ -91,9 +103,15 @@ describe("committing a season log", () => {
     const receipt = await commitUpload(asFarmA, view.upload.id, {});
     expect(receipt.counts).toMatchObject({ newBlocks: 3, newHarvests: 6 });
     expect(await storedHarvests(farmA, "IT-A")).toHaveLength(6);
-    const { rows: blocks } = await inspector.query("select wet_mass_g::float8 as wet, wet_mass_as_written, moisture::float8 as moisture, trial_arm_id from blocks where farm_id = $1 and code = 'IT-A-1'", [farmA.id]);
+    const { rows: blocks } = await inspector.query(
+      "select wet_mass_g::float8 as wet, wet_mass_as_written, moisture::float8 as moisture, trial_arm_id from blocks where farm_id = $1 and code = 'IT-A-1'",
+      [farmA.id],
+    );
     expect(blocks[0]).toMatchObject({ wet: 2500, wet_mass_as_written: "2500 g", moisture: 0.62, trial_arm_id: null });
-    const { rows: audit } = await inspector.query("select details from audit_events where action = 'season-log.committed' and details->>'uploadId' = $1", [view.upload.id]);
+    const { rows: audit } = await inspector.query(
+      "select details from audit_events where action = 'season-log.committed' and details->>'uploadId' = $1",
+      [view.upload.id],
+    );
     expect(audit).toHaveLength(1);
   });
 
@@ -107,7 +125,13 @@ describe("committing a season log", () => {
     expect(again.alreadyImportedAt).not.toBeNull();
     expect(again.upload.outcome).toBe("already_imported");
     expect(again.canCommit).toBe(false);
-    expect(again.report.preview.counts).toMatchObject({ newBlocks: 0, newHarvests: 0, changedBlocks: 0, changedHarvests: 0, untouchedHarvests: 4 });
+    expect(again.report.preview.counts).toMatchObject({
+      newBlocks: 0,
+      newHarvests: 0,
+      changedBlocks: 0,
+      changedHarvests: 0,
+      untouchedHarvests: 4,
+    });
     expect((await refusal(commitUpload(asFarmA, again.upload.id, {}))).message).toContain("already imported on");
     expect(await storedHarvests(farmA, "IT-R")).toEqual(before);
     expect(await historyCount(farmA, "IT-R")).toBe(0);
@@ -118,7 +142,9 @@ describe("committing a season log", () => {
     await commitUpload(asFarmA, first.upload.id, {});
     const grown = await upload(asFarmA, sheet("IT-G", [1, 2], { flushes: 2, fresh: (block) => (block === 1 ? 480 : 400 + block) }));
     expect(grown.report.preview.counts).toMatchObject({ newHarvests: 2, changedHarvests: 1, untouchedHarvests: 1 });
-    expect(grown.report.preview.changes).toEqual([{ blockCode: "IT-G-1", flush: 1, field: "fresh_weight", oldValue: "401", newValue: "480" }]);
+    expect(grown.report.preview.changes).toEqual([
+      { blockCode: "IT-G-1", flush: 1, field: "fresh_weight", oldValue: "401", newValue: "480" },
+    ]);
     await commitUpload(asFarmA, grown.upload.id, {});
 
     expect(await storedHarvests(farmA, "IT-G")).toEqual([
@@ -130,14 +156,18 @@ describe("committing a season log", () => {
     const { rows: history } = await inspector.query(
       "select v.field, v.flush, v.old_value, v.new_value, v.upload_id, v.changed_by from value_changes v join blocks b on b.id = v.block_id where b.code = 'IT-G-1'",
     );
-    expect(history).toEqual([{ field: "fresh_weight", flush: 1, old_value: "401", new_value: "480", upload_id: grown.upload.id, changed_by: farmA.managerId }]);
+    expect(history).toEqual([
+      { field: "fresh_weight", flush: 1, old_value: "401", new_value: "480", upload_id: grown.upload.id, changed_by: farmA.managerId },
+    ]);
   });
 
   it("commits what the file says under the commit's own choices, not the parse kept from the upload", async () => {
     const text = `${header}\r\nIT-D-1,PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,1,2026-04-10,1.500 g,no,\r\n`;
     const view = await upload(asFarmA, text, "decimal.csv", { decimal: "." });
     expect(view.canCommit).toBe(true);
-    const { rows: staged } = await inspector.query("select staged_parse is not null as staged from uploads where id = $1", [view.upload.id]);
+    const { rows: staged } = await inspector.query("select staged_parse is not null as staged from uploads where id = $1", [
+      view.upload.id,
+    ]);
     expect(staged[0].staged).toBe(true);
     // With a decimal comma, "1.500 g" is 1 500 g; the parse kept at upload (decimal point) read 1.5 g.
     await commitUpload(asFarmA, view.upload.id, { decimal: "," });
@@ -159,7 +189,9 @@ describe("committing a season log", () => {
     // A test-only trigger refuses one harvest, after the blocks have been written in the same transaction.
     await inspector.query(`create function test_refuse_harvest() returns trigger language plpgsql as $$
       begin if new.fresh_mass_g = 777 then raise exception 'test refuses this harvest'; end if; return new; end $$`);
-    await inspector.query("create trigger test_refuse_harvest before insert or update on harvests for each row execute function test_refuse_harvest()");
+    await inspector.query(
+      "create trigger test_refuse_harvest before insert or update on harvests for each row execute function test_refuse_harvest()",
+    );
     try {
       const view = await upload(asFarmA, sheet("IT-F", [1, 2, 3], { fresh: (block) => (block === 3 ? 777 : 500) }));
       expect(view.canCommit).toBe(true);
@@ -168,7 +200,10 @@ describe("committing a season log", () => {
       expect(blocks[0].count).toBe(0);
       const { rows: kept } = await inspector.query("select outcome, committed_at from uploads where id = $1", [view.upload.id]);
       expect(kept[0]).toEqual({ outcome: "received", committed_at: null });
-      const { rows: audit } = await inspector.query("select count(*)::int as count from audit_events where action = 'season-log.committed' and details->>'uploadId' = $1", [view.upload.id]);
+      const { rows: audit } = await inspector.query(
+        "select count(*)::int as count from audit_events where action = 'season-log.committed' and details->>'uploadId' = $1",
+        [view.upload.id],
+      );
       expect(audit[0].count).toBe(0);
     } finally {
       await inspector.query("drop trigger if exists test_refuse_harvest on harvests");
@@ -177,8 +212,18 @@ describe("committing a season log", () => {
   });
 
   it("ends two concurrent overlapping commits for one farm as if they ran one after the other", async () => {
-    const first = (prefix: string) => sheet(prefix, Array.from({ length: 30 }, (_, index) => index + 1), { fresh: () => 500 });
-    const second = (prefix: string) => sheet(prefix, Array.from({ length: 30 }, (_, index) => index + 16), { fresh: () => 600 });
+    const first = (prefix: string) =>
+      sheet(
+        prefix,
+        Array.from({ length: 30 }, (_, index) => index + 1),
+        { fresh: () => 500 },
+      );
+    const second = (prefix: string) =>
+      sheet(
+        prefix,
+        Array.from({ length: 30 }, (_, index) => index + 16),
+        { fresh: () => 600 },
+      );
 
     const inTurnA = [await upload(asFarmA, first("IT-SA")), await upload(asFarmA, second("IT-SA"))];
     for (const view of inTurnA) await commitUpload(asFarmA, view.upload.id, {});
@@ -187,7 +232,9 @@ describe("committing a season log", () => {
 
     const together = [await upload(asFarmA, first("IT-CC")), await upload(asFarmA, second("IT-CC"))];
     // A test-only pause after each block write keeps the first commit open while the second one starts.
-    await inspector.query("create function test_slow_commit() returns trigger language plpgsql as $$ begin perform pg_sleep(0.5); return null; end $$");
+    await inspector.query(
+      "create function test_slow_commit() returns trigger language plpgsql as $$ begin perform pg_sleep(0.5); return null; end $$",
+    );
     await inspector.query("create trigger test_slow_commit after insert on blocks for each statement execute function test_slow_commit()");
     try {
       await Promise.all(together.map((view) => commitUpload(asFarmA, view.upload.id, {})));
@@ -238,7 +285,14 @@ describe("the quick harvest form's data", () => {
     await commitUpload(asFarmA, view.upload.id, {});
     expect((await listHarvestTargets(asFarmA)).find((target) => target.code === "IT-Q-1")?.nextFlush).toBe(2);
 
-    const { blockId } = await recordHarvest(asFarmA, { blockCode: "IT-Q-1", flush: 2, harvestedOn: "2026-05-01", freshGrams: 310, asWritten: "310", unit: "g" });
+    const { blockId } = await recordHarvest(asFarmA, {
+      blockCode: "IT-Q-1",
+      flush: 2,
+      harvestedOn: "2026-05-01",
+      freshGrams: 310,
+      asWritten: "310",
+      unit: "g",
+    });
     const block = await getBlock(asFarmA, blockId);
     expect(block.harvests.map((harvest) => [harvest.flush, harvest.freshMassG])).toEqual([
       [1, 401],
@@ -248,9 +302,13 @@ describe("the quick harvest form's data", () => {
     expect(block.biologicalEfficiency).toBeCloseTo((711 / 950) * 100, 6);
     expect((await listBlocks(asFarmA)).find((row) => row.code === "IT-Q-1")?.flushes).toBe(2);
 
-    const again = await refusal(recordHarvest(asFarmA, { blockCode: "IT-Q-1", flush: 2, harvestedOn: "2026-05-02", freshGrams: 999, asWritten: "999", unit: "g" }));
+    const again = await refusal(
+      recordHarvest(asFarmA, { blockCode: "IT-Q-1", flush: 2, harvestedOn: "2026-05-02", freshGrams: 999, asWritten: "999", unit: "g" }),
+    );
     expect(again.code).toBe("invalid_input");
-    const fromB = await refusal(recordHarvest(asFarmB, { blockCode: "IT-Q-1", flush: 3, harvestedOn: "2026-05-02", freshGrams: 100, asWritten: "100", unit: "g" }));
+    const fromB = await refusal(
+      recordHarvest(asFarmB, { blockCode: "IT-Q-1", flush: 3, harvestedOn: "2026-05-02", freshGrams: 100, asWritten: "100", unit: "g" }),
+    );
     expect(fromB.code).toBe("invalid_input");
     expect((await refusal(getBlock(asFarmB, blockId))).code).toBe("not_found");
   });

@@ -20,7 +20,9 @@ describe("checking a password", () => {
   it("lets a demo member in and records the sign-in in the audit log", async () => {
     const outcome = await checkPassword("observer@extension.example", demoPassword, "10.0.0.1");
     expect(outcome).toMatchObject({ status: "ok", name: "Ines Walker" });
-    const { rows } = await inspector.query("select action from audit_events where subject = $1 order by id desc limit 1", ["observer@extension.example"]);
+    const { rows } = await inspector.query("select action from audit_events where subject = $1 order by id desc limit 1", [
+      "observer@extension.example",
+    ]);
     expect(rows[0].action).toBe("sign-in");
   });
 

@@ -54,7 +54,10 @@ async function caughtMail(subjectLike: string, expected: number) {
 }
 
 async function expectConflict(work: Promise<unknown>, message: RegExp) {
-  const error = await work.then(() => null, (caught: unknown) => caught);
+  const error = await work.then(
+    () => null,
+    (caught: unknown) => caught,
+  );
   expect(error).toBeInstanceOf(AppError);
   expect((error as AppError).message).toMatch(message);
 }
@@ -83,7 +86,12 @@ describe("a strain trial from design to publication", () => {
       title: "Three oyster strains over two flushes",
       question: "Do PO-02 and PO-03 give a different BE over flushes 1–2 than PO-01?",
       speciesId: strainRows[0].species_id,
-      arms: strainRows.map((strain, index) => ({ label: ["A", "B", "C"][index], strainId: strain.id, treatmentId: null, isReference: index === 0 })),
+      arms: strainRows.map((strain, index) => ({
+        label: ["A", "B", "C"][index],
+        strainId: strain.id,
+        treatmentId: null,
+        isReference: index === 0,
+      })),
       outcomeFlushes: 2,
       contaminatedHandling: "exclude",
       protocolNotes: "2.5 kg blocks of HWB-20.",
@@ -103,12 +111,19 @@ describe("a strain trial from design to publication", () => {
     await moveTrial(coordinator, trialId, "open");
     await expectConflict(moveTrial(coordinator, trialId, "published"), /cannot move to "Published"/);
     await expectConflict(moveTrial(coordinator, trialId, "running"), /No farm has accepted yet/);
-    const { rows } = await inspector.query("select details from audit_events where action = 'trial.status_changed' and details->>'trialId' = $1", [trialId]);
+    const { rows } = await inspector.query(
+      "select details from audit_events where action = 'trial.status_changed' and details->>'trialId' = $1",
+      [trialId],
+    );
     expect(rows.map((row) => row.details)).toEqual([{ trialId, from: "draft", to: "open" }]);
   });
 
   it("invites farms by e-mail with a link to the trial and an unsubscribe link", async () => {
-    const sent = await inviteFarms(coordinator, trialId, managers.map((manager) => manager.farmId!));
+    const sent = await inviteFarms(
+      coordinator,
+      trialId,
+      managers.map((manager) => manager.farmId!),
+    );
     expect(sent).toBe(4);
     trial = await getTrial(coordinator, trialId);
     const mail = await caughtMail(`Invitation to trial ${trial.code}%`, 4);
@@ -130,10 +145,22 @@ describe("a strain trial from design to publication", () => {
         tx.select().from(trialBlockAssignments).where(eq(trialBlockAssignments.trialId, trialId)).orderBy(trialBlockAssignments.sequence),
       );
       expect(stored).toHaveLength(12);
-      const replayed = permutedBlockList({ seed: enrolment.randomisationSeed!, armIds: trial.arms.map((arm) => arm.id), blocksPerArm: 4, codePrefix: stored[0].blockCode.replace(/-\d+$/, "") });
-      expect(stored.map((row) => [row.blockCode, row.armId, row.permutedBlock])).toEqual(replayed.map((entry) => [entry.blockCode, entry.armId, entry.permutedBlock]));
+      const replayed = permutedBlockList({
+        seed: enrolment.randomisationSeed!,
+        armIds: trial.arms.map((arm) => arm.id),
+        blocksPerArm: 4,
+        codePrefix: stored[0].blockCode.replace(/-\d+$/, ""),
+      });
+      expect(stored.map((row) => [row.blockCode, row.armId, row.permutedBlock])).toEqual(
+        replayed.map((entry) => [entry.blockCode, entry.armId, entry.permutedBlock]),
+      );
       for (let run = 1; run <= 4; run++) {
-        expect(stored.filter((row) => row.permutedBlock === run).map((row) => row.armId).sort()).toEqual(trial.arms.map((arm) => arm.id).sort());
+        expect(
+          stored
+            .filter((row) => row.permutedBlock === run)
+            .map((row) => row.armId)
+            .sort(),
+        ).toEqual(trial.arms.map((arm) => arm.id).sort());
       }
     }
     const confirmations = await caughtMail(`% is enrolled in trial ${trial.code}`, 4);
@@ -145,7 +172,9 @@ describe("a strain trial from design to publication", () => {
     const [farmA, farmB] = managers;
     const own = await listOwnAssignments(farmA, trialId);
     expect(own).toHaveLength(12);
-    const everything = await withFarmContext({ userId: farmA.id, farmId: farmA.farmId, role: "farm_manager" }, (tx) => tx.select().from(trialBlockAssignments));
+    const everything = await withFarmContext({ userId: farmA.id, farmId: farmA.farmId, role: "farm_manager" }, (tx) =>
+      tx.select().from(trialBlockAssignments),
+    );
     expect(new Set(everything.map((row) => row.farmId))).toEqual(new Set([farmA.farmId]));
     const theirs = await withFarmContext({ userId: farmA.id, farmId: farmA.farmId, role: "farm_manager" }, (tx) =>
       tx.select().from(trialEnrolments).where(eq(trialEnrolments.farmId, farmB.farmId!)),
@@ -174,13 +203,30 @@ describe("a strain trial from design to publication", () => {
           const contaminated = entry.sequence === lostBlock;
           const [block] = await tx
             .insert(blocks)
-            .values({ farmId: manager.farmId!, code: entry.blockCode, strainId: arm.strainId, trialArmId: arm.id, wetMassG: 2500, moisture: 0.6, contaminated })
+            .values({
+              farmId: manager.farmId!,
+              code: entry.blockCode,
+              strainId: arm.strainId,
+              trialArmId: arm.id,
+              wetMassG: 2500,
+              moisture: 0.6,
+              contaminated,
+            })
             .returning({ id: blocks.id });
           if (contaminated) continue;
           const be = 80 + effect[arm.label] + farmEffect + noise[arm.label].normal(0, 6);
           // The last farm has not yet recorded flush 2 of one block.
           const flushes = farmIndex === 3 && entry.sequence === unfinishedBlock ? [1] : [1, 2, 3];
-          await tx.insert(harvests).values(flushes.map((flush) => ({ farmId: manager.farmId!, blockId: block.id, flush, freshMassG: (1000 * be) / 100 * [0.6, 0.4, 0.2][flush - 1] })));
+          await tx
+            .insert(harvests)
+            .values(
+              flushes.map((flush) => ({
+                farmId: manager.farmId!,
+                blockId: block.id,
+                flush,
+                freshMassG: ((1000 * be) / 100) * [0.6, 0.4, 0.2][flush - 1],
+              })),
+            );
         }
       });
     }
@@ -209,7 +255,10 @@ describe("a strain trial from design to publication", () => {
     const token = reminder.text.match(/\/unsubscribe\/(\S+)/)![1];
     expect(await optOutOfReminders(token.replace(/.$/, (last) => (last === "A" ? "B" : "A")))).toBeNull();
     expect(await optOutOfReminders(token)).toBe(trial.code);
-    const { rows } = await inspector.query("select reminders_allowed from trial_enrolments where trial_id = $1 and farm_id = $2", [trialId, managers[3].farmId]);
+    const { rows } = await inspector.query("select reminders_allowed from trial_enrolments where trial_id = $1 and farm_id = $2", [
+      trialId,
+      managers[3].farmId,
+    ]);
     expect(rows[0].reminders_allowed).toBe(false);
     await expectConflict(sendTrialReminder(coordinator, trialId, managers[3].farmId!), /asked not to get reminders/);
   });
@@ -218,14 +267,27 @@ describe("a strain trial from design to publication", () => {
     await moveTrial(coordinator, trialId, "collecting");
     const analysed = await getTrial(coordinator, trialId);
     const results = analysed.results!;
-    const { rows } = await inspector.query<{ farm_id: string; arm: string; contaminated: boolean; wet: number; moisture: number; fresh: number }>(
+    const { rows } = await inspector.query<{
+      farm_id: string;
+      arm: string;
+      contaminated: boolean;
+      wet: number;
+      moisture: number;
+      fresh: number;
+    }>(
       `select b.farm_id, a.label as arm, b.contaminated, b.wet_mass_g::float8 as wet, b.moisture::float8 as moisture,
               coalesce(sum(h.fresh_mass_g) filter (where h.flush <= 2), 0)::float8 as fresh
        from blocks b join trial_arms a on a.id = b.trial_arm_id left join harvests h on h.block_id = b.id
        where a.trial_id = $1 group by b.id, a.label`,
       [trialId],
     );
-    const kept = rows.filter((row) => !row.contaminated).map((row) => ({ treatment: row.arm, block: row.farm_id, y: biologicalEfficiency({ freshG: row.fresh, wetBlockG: row.wet, moisture: row.moisture }) }));
+    const kept = rows
+      .filter((row) => !row.contaminated)
+      .map((row) => ({
+        treatment: row.arm,
+        block: row.farm_id,
+        y: biologicalEfficiency({ freshG: row.fresh, wetBlockG: row.wet, moisture: row.moisture }),
+      }));
     const fit = blockedAnova(kept);
     expect(results.analysis.anova!.arm.p).toBeCloseTo(fit.treatment.p, 10);
     for (const mean of fit.means) {

@@ -13,7 +13,10 @@ export default async function BlocksPage() {
   const rows = await listBlocks(farmContextOf(member));
   return (
     <>
-      <PageHeader title="Blocks & harvests" lead="Every block your farm has reported, with its flushes, biological efficiency (BE) and mass loss. Only your farm's people see these rows.">
+      <PageHeader
+        title="Blocks & harvests"
+        lead="Every block your farm has reported, with its flushes, biological efficiency (BE) and mass loss. Only your farm's people see these rows."
+      >
         {can(member.role, "harvest:record") ? <ButtonLink href="/blocks/harvest">Record a harvest</ButtonLink> : null}
         {can(member.role, "season-log:upload") ? (
           <ButtonLink href="/season-logs" variant="secondary">

@@ -26,5 +26,8 @@ export const removeGrowerAction = guardedAction("farm-staff:manage", personSchem
 export const transferManagerAction = guardedAction("farm-staff:manage", personSchema, async (input, member) => {
   await transferManagerRole(member, input.userId);
   revalidatePath("/");
-  return { status: "ok", message: "Done: they are now the farm manager and you are a grower. Your menu changes on the next page you open." };
+  return {
+    status: "ok",
+    message: "Done: they are now the farm manager and you are a grower. Your menu changes on the next page you open.",
+  };
 });

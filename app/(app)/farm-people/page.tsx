@@ -25,8 +25,16 @@ export default async function FarmPeoplePage() {
       </PageHeader>
       <div className="grid gap-6 lg:grid-cols-2">
         <Card title="Invite a grower">
-          <p className="mb-3 text-sm text-ink-soft">They get an e-mail with a link that works once, for 7 days, to choose their password.</p>
-          <ActionForm action={inviteGrowerAction} testId="invite-grower" submitLabel="Send invitation" pendingLabel="Sending…" fields={[{ name: "email", label: "Their e-mail", type: "email" }]} />
+          <p className="mb-3 text-sm text-ink-soft">
+            They get an e-mail with a link that works once, for 7 days, to choose their password.
+          </p>
+          <ActionForm
+            action={inviteGrowerAction}
+            testId="invite-grower"
+            submitLabel="Send invitation"
+            pendingLabel="Sending…"
+            fields={[{ name: "email", label: "Their e-mail", type: "email" }]}
+          />
         </Card>
         <Card title="Hand over the manager role">
           {growers.length === 0 ? (
@@ -40,7 +48,13 @@ export default async function FarmPeoplePage() {
                 submitLabel="Make them the manager"
                 variant="danger"
                 confirm="Hand over the manager role? You become a grower and cannot undo this yourself."
-                fields={[{ name: "userId", label: "New farm manager", options: growers.map((person) => ({ value: person.id, label: `${person.name} (${person.email})` })) }]}
+                fields={[
+                  {
+                    name: "userId",
+                    label: "New farm manager",
+                    options: growers.map((person) => ({ value: person.id, label: `${person.name} (${person.email})` })),
+                  },
+                ]}
               />
             </>
           )}
@@ -50,7 +64,10 @@ export default async function FarmPeoplePage() {
       <h2 className="mt-10 mb-3 text-xl font-semibold text-moss-800">People of {member.farmName}</h2>
       <ul className="space-y-2" aria-label="Farm people">
         {people.map((person) => (
-          <li key={person.id} className="flex flex-wrap items-center justify-between gap-3 rounded-lg border border-oat-300 bg-white px-4 py-3">
+          <li
+            key={person.id}
+            className="flex flex-wrap items-center justify-between gap-3 rounded-lg border border-oat-300 bg-white px-4 py-3"
+          >
             <div>
               <p className="font-medium">{person.name}</p>
               <p className="text-sm text-ink-soft">
@@ -59,7 +76,14 @@ export default async function FarmPeoplePage() {
               </p>
             </div>
             {person.active && person.role === "grower" ? (
-              <ActionForm action={removeGrowerAction} inline hidden={{ userId: person.id }} submitLabel="Remove" variant="danger" confirm={`Remove ${person.name}? They can no longer sign in.`} />
+              <ActionForm
+                action={removeGrowerAction}
+                inline
+                hidden={{ userId: person.id }}
+                submitLabel="Remove"
+                variant="danger"
+                confirm={`Remove ${person.name}? They can no longer sign in.`}
+              />
             ) : null}
           </li>
         ))}

@@ -37,7 +37,15 @@ const farmStatusSchema = z.object({ farmId: z.uuid(), status: z.enum(["active", 
 export const setFarmStatusAction = guardedAction("members:manage", farmStatusSchema, async (input, member) => {
   await setFarmStatus(member, input.farmId, input.status);
   revalidatePath("/members");
-  return { status: "ok", message: input.status === "active" ? "Farm reinstated." : input.status === "suspended" ? "Farm suspended: its people cannot sign in until you reinstate it." : "Farm removed: its people cannot sign in." };
+  return {
+    status: "ok",
+    message:
+      input.status === "active"
+        ? "Farm reinstated."
+        : input.status === "suspended"
+          ? "Farm suspended: its people cannot sign in until you reinstate it."
+          : "Farm removed: its people cannot sign in.",
+  };
 });
 
 const roleSchema = z.object({ userId: z.uuid(), role: z.enum(memberRoles, "Choose a role.") });

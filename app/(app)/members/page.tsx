@@ -37,7 +37,9 @@ export default async function MembersPage() {
           />
         </Card>
         <Card title="Invite someone">
-          <p className="mb-3 text-sm text-ink-soft">They get an e-mail with a link that works once, for 7 days, to choose their password.</p>
+          <p className="mb-3 text-sm text-ink-soft">
+            They get an e-mail with a link that works once, for 7 days, to choose their password.
+          </p>
           <ActionForm
             action={inviteMemberAction}
             testId="invite-member"
@@ -45,11 +47,18 @@ export default async function MembersPage() {
             pendingLabel="Sending…"
             fields={[
               { name: "email", label: "Their e-mail", type: "email" },
-              { name: "role", label: "Role", options: invitableRoles("coordinator").map((role) => ({ value: role, label: roleLabels[role] })) },
+              {
+                name: "role",
+                label: "Role",
+                options: invitableRoles("coordinator").map((role) => ({ value: role, label: roleLabels[role] })),
+              },
               {
                 name: "farmId",
                 label: "Farm (for a farm manager)",
-                options: [{ value: "", label: "No farm (co-op role)" }, ...activeFarms.map((farm) => ({ value: farm.id, label: farm.name }))],
+                options: [
+                  { value: "", label: "No farm (co-op role)" },
+                  ...activeFarms.map((farm) => ({ value: farm.id, label: farm.name })),
+                ],
               },
             ]}
           />
@@ -66,17 +75,37 @@ export default async function MembersPage() {
               <div>
                 <p className="font-semibold">{farm.name}</p>
                 <p className="text-sm text-ink-soft">
-                  {farm.region || "No region"} · {farm.contactEmail ?? "no contact e-mail"} · joined {date(farm.joinedAt)} · {farmStatusLabels[farm.status]}
+                  {farm.region || "No region"} · {farm.contactEmail ?? "no contact e-mail"} · joined {date(farm.joinedAt)} ·{" "}
+                  {farmStatusLabels[farm.status]}
                 </p>
               </div>
               <div className="flex flex-wrap gap-2">
                 {farm.status !== "active" ? (
-                  <ActionForm action={setFarmStatusAction} inline hidden={{ farmId: farm.id, status: "active" }} submitLabel="Reinstate" variant="secondary" />
+                  <ActionForm
+                    action={setFarmStatusAction}
+                    inline
+                    hidden={{ farmId: farm.id, status: "active" }}
+                    submitLabel="Reinstate"
+                    variant="secondary"
+                  />
                 ) : (
-                  <ActionForm action={setFarmStatusAction} inline hidden={{ farmId: farm.id, status: "suspended" }} submitLabel="Suspend" variant="secondary" />
+                  <ActionForm
+                    action={setFarmStatusAction}
+                    inline
+                    hidden={{ farmId: farm.id, status: "suspended" }}
+                    submitLabel="Suspend"
+                    variant="secondary"
+                  />
                 )}
                 {farm.status !== "removed" ? (
-                  <ActionForm action={setFarmStatusAction} inline hidden={{ farmId: farm.id, status: "removed" }} submitLabel="Remove" variant="danger" confirm={`Remove ${farm.name}? Its people can no longer sign in. Its rows stay until the farm withdraws them.`} />
+                  <ActionForm
+                    action={setFarmStatusAction}
+                    inline
+                    hidden={{ farmId: farm.id, status: "removed" }}
+                    submitLabel="Remove"
+                    variant="danger"
+                    confirm={`Remove ${farm.name}? Its people can no longer sign in. Its rows stay until the farm withdraws them.`}
+                  />
                 ) : null}
               </div>
             </li>
@@ -90,18 +119,33 @@ export default async function MembersPage() {
           <caption className="sr-only">Everyone who can use Rhizomorph, with their role</caption>
           <thead className="bg-oat-200 text-left">
             <tr>
-              <th scope="col" className="px-3 py-2">Name</th>
-              <th scope="col" className="px-3 py-2">E-mail</th>
-              <th scope="col" className="px-3 py-2">Farm</th>
-              <th scope="col" className="px-3 py-2">Role</th>
-              <th scope="col" className="px-3 py-2">Last signed in</th>
-              <th scope="col" className="px-3 py-2">Access</th>
+              <th scope="col" className="px-3 py-2">
+                Name
+              </th>
+              <th scope="col" className="px-3 py-2">
+                E-mail
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Farm
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Role
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Last signed in
+              </th>
+              <th scope="col" className="px-3 py-2">
+                Access
+              </th>
             </tr>
           </thead>
           <tbody>
             {people.map((person) => {
               const farmRole = person.role === "farm_manager" || person.role === "grower";
-              const choices = (farmRole ? (["farm_manager", "grower"] as const) : (["coordinator", "observer"] as const)).map((role) => ({ value: role, label: roleLabels[role] }));
+              const choices = (farmRole ? (["farm_manager", "grower"] as const) : (["coordinator", "observer"] as const)).map((role) => ({
+                value: role,
+                label: roleLabels[role],
+              }));
               return (
                 <tr key={person.id} className="border-t border-oat-200 align-top">
                   <td className="px-3 py-2 font-medium">{person.name}</td>
@@ -129,7 +173,14 @@ export default async function MembersPage() {
                     ) : person.id === member.id ? (
                       "You"
                     ) : (
-                      <ActionForm action={deactivatePersonAction} inline hidden={{ userId: person.id }} submitLabel="Deactivate" variant="danger" confirm={`Deactivate ${person.name}? They can no longer sign in.`} />
+                      <ActionForm
+                        action={deactivatePersonAction}
+                        inline
+                        hidden={{ userId: person.id }}
+                        submitLabel="Deactivate"
+                        variant="danger"
+                        confirm={`Deactivate ${person.name}? They can no longer sign in.`}
+                      />
                     )}
                   </td>
                 </tr>
@@ -142,7 +193,9 @@ export default async function MembersPage() {
       <OpenInvitations
         invitations={invitations.map((invitation) => ({
           ...invitation,
-          details: [invitation.role ? roleLabels[invitation.role] : "", invitation.farmId ? farmName.get(invitation.farmId) ?? "" : ""].filter(Boolean).join(" · "),
+          details: [invitation.role ? roleLabels[invitation.role] : "", invitation.farmId ? (farmName.get(invitation.farmId) ?? "") : ""]
+            .filter(Boolean)
+            .join(" · "),
         }))}
       />
     </>

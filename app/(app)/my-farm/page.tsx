@@ -10,7 +10,10 @@ export default async function MyFarmPage() {
   const member = await requirePage("farm-data:read");
   return (
     <>
-      <PageHeader title="My farm" lead={`${member.farmName ?? "Your farm"}'s season: blocks, harvests and biological efficiency by strain, and where you sit in the co-op.`} />
+      <PageHeader
+        title="My farm"
+        lead={`${member.farmName ?? "Your farm"}'s season: blocks, harvests and biological efficiency by strain, and where you sit in the co-op.`}
+      />
       <div className="mb-6">
         <Caution which="pooledFigures" />
       </div>

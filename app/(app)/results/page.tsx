@@ -11,7 +11,10 @@ export default async function ResultsPage() {
   const member = await requirePage("pooled-results:read");
   return (
     <>
-      <PageHeader title="Co-op results" lead="Pooled strain comparisons from every member farm, with honest intervals. No farm's own rows are ever shown here." />
+      <PageHeader
+        title="Co-op results"
+        lead="Pooled strain comparisons from every member farm, with honest intervals. No farm's own rows are ever shown here."
+      />
       <div className="mb-6 grid gap-3 lg:grid-cols-2">
         <Caution which="pooledFigures" />
         <Caution which="foodAndHealth" />

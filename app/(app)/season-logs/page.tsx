@@ -15,11 +15,17 @@ export default async function SeasonLogsPage() {
   const uploads = await listUploads(farmContextOf(member));
   return (
     <>
-      <PageHeader title="Season logs" lead="Upload your season's spreadsheet as CSV. We read it, show every problem by line, and change nothing until you commit.">
+      <PageHeader
+        title="Season logs"
+        lead="Upload your season's spreadsheet as CSV. We read it, show every problem by line, and change nothing until you commit."
+      >
         <ButtonLink href="/season-logs/columns" variant="secondary">
           The shared columns
         </ButtonLink>
-        <a href="/api/season-logs/template" className="inline-flex min-h-11 items-center rounded-lg border border-moss-600 bg-white px-4 text-sm font-semibold text-moss-700">
+        <a
+          href="/api/season-logs/template"
+          className="inline-flex min-h-11 items-center rounded-lg border border-moss-600 bg-white px-4 text-sm font-semibold text-moss-700"
+        >
           Download the template
         </a>
       </PageHeader>

@@ -15,8 +15,14 @@ const changePasswordSchema = z
       .max(200, "Keep the password under 200 characters."),
     repeatPassword: z.string(),
   })
-  .refine((input) => input.newPassword === input.repeatPassword, { path: ["repeatPassword"], message: "The two new passwords differ: type the same one twice." })
-  .refine((input) => input.newPassword !== input.currentPassword, { path: ["newPassword"], message: "Choose a password different from the current one." });
+  .refine((input) => input.newPassword === input.repeatPassword, {
+    path: ["repeatPassword"],
+    message: "The two new passwords differ: type the same one twice.",
+  })
+  .refine((input) => input.newPassword !== input.currentPassword, {
+    path: ["newPassword"],
+    message: "Choose a password different from the current one.",
+  });
 
 export const changePasswordAction = guardedAction("account:manage", changePasswordSchema, async (input, member) => {
   await changePassword(member, input.currentPassword, input.newPassword);
@@ -25,7 +31,10 @@ export const changePasswordAction = guardedAction("account:manage", changePasswo
 
 const preferencesSchema = z.object({
   displayUnits: z.enum(["metric", "imperial"], "Choose metric or imperial."),
-  notifyReminders: z.literal("on").optional().transform((value) => value === "on"),
+  notifyReminders: z
+    .literal("on")
+    .optional()
+    .transform((value) => value === "on"),
 });
 
 export const updatePreferencesAction = guardedAction("account:manage", preferencesSchema, async (input, member) => {

@@ -15,7 +15,10 @@ export default async function SettingsPage() {
   const account = await getAccountSettings(member);
   return (
     <>
-      <PageHeader title="Settings" lead={`${account.name} · ${account.email} · ${roleLabels[member.role]}${member.farmName ? ` at ${member.farmName}` : ""}`} />
+      <PageHeader
+        title="Settings"
+        lead={`${account.name} · ${account.email} · ${roleLabels[member.role]}${member.farmName ? ` at ${member.farmName}` : ""}`}
+      />
       <div className="grid gap-6 lg:grid-cols-2">
         <Card title="Display and e-mail">
           <ActionForm
@@ -32,10 +35,17 @@ export default async function SettingsPage() {
                   { value: "imperial", label: "Imperial (oz, lb)" },
                 ],
               },
-              { name: "notifyReminders", label: "E-mail me reminders (missing season logs, trial deadlines)", type: "checkbox", defaultChecked: account.notifyReminders },
+              {
+                name: "notifyReminders",
+                label: "E-mail me reminders (missing season logs, trial deadlines)",
+                type: "checkbox",
+                defaultChecked: account.notifyReminders,
+              },
             ]}
           />
-          <p className="mt-3 text-xs text-ink-soft">Invitations, password resets and role changes are always e-mailed: they concern your access.</p>
+          <p className="mt-3 text-xs text-ink-soft">
+            Invitations, password resets and role changes are always e-mailed: they concern your access.
+          </p>
         </Card>
         <Card title="Change password">
           <ActionForm
@@ -44,7 +54,13 @@ export default async function SettingsPage() {
             submitLabel="Change password"
             fields={[
               { name: "currentPassword", label: "Current password", type: "password", autoComplete: "current-password" },
-              { name: "newPassword", label: "New password", type: "password", autoComplete: "new-password", hint: "At least 10 characters." },
+              {
+                name: "newPassword",
+                label: "New password",
+                type: "password",
+                autoComplete: "new-password",
+                hint: "At least 10 characters.",
+              },
               { name: "repeatPassword", label: "New password again", type: "password", autoComplete: "new-password" },
             ]}
           />

@@ -8,7 +8,11 @@ import { isAppError } from "@/lib/errors";
 import { registryKinds } from "@/lib/members/registry-csv";
 
 const text = (what: string, max = 120) => z.string().trim().min(1, `Fill in ${what}.`).max(max, `Keep ${what} under ${max} characters.`);
-const code = z.string().trim().toUpperCase().regex(/^[A-Z0-9][A-Z0-9-]{0,19}$/, "Use a short code of letters, digits and dashes, e.g. PO-04.");
+const code = z
+  .string()
+  .trim()
+  .toUpperCase()
+  .regex(/^[A-Z0-9][A-Z0-9-]{0,19}$/, "Use a short code of letters, digits and dashes, e.g. PO-04.");
 const percent = (what: string, max: number) =>
   z
     .string()
@@ -48,7 +52,10 @@ const entrySchema = z.discriminatedUnion("kind", [
 export const addRegistryEntryAction = guardedAction("registry:add", entrySchema, async (input, member) => {
   const status = await createRegistryEntry(member, input);
   revalidatePath("/strains");
-  return { status: "ok", message: status === "active" ? "Added to the registry." : "Proposed: it shows to everyone once the coordinator approves it." };
+  return {
+    status: "ok",
+    message: status === "active" ? "Added to the registry." : "Proposed: it shows to everyone once the coordinator approves it.",
+  };
 });
 
 const moveSchema = z.object({ kind: z.enum(registryKinds), id: z.uuid(), move: z.enum(["approve", "retire", "reinstate", "delete"]) });
@@ -56,7 +63,15 @@ const moveSchema = z.object({ kind: z.enum(registryKinds), id: z.uuid(), move: z
 export const moveRegistryEntryAction = guardedAction("registry:manage", moveSchema, async (input, member) => {
   await moveRegistryEntry(member, input.kind, input.id, input.move);
   revalidatePath("/strains");
-  return { status: "ok", message: { approve: "Approved.", retire: "Retired: kept for past records, no longer offered.", reinstate: "Back in use.", delete: "Deleted." }[input.move] };
+  return {
+    status: "ok",
+    message: {
+      approve: "Approved.",
+      retire: "Retired: kept for past records, no longer offered.",
+      reinstate: "Back in use.",
+      delete: "Deleted.",
+    }[input.move],
+  };
 });
 
 const importSchema = z.object({ kind: z.enum(registryKinds, "Choose which registry the file holds.") });
@@ -67,14 +82,26 @@ export async function importRegistryAction(_previous: ActionState, formData: For
     const member = await authorize("registry:manage");
     const parsed = importSchema.safeParse({ kind: formData.get("kind") });
     const file = formData.get("file");
-    if (!parsed.success) return { status: "error", message: "Choose which registry the file holds.", fieldErrors: { kind: ["Choose a registry."] } };
-    if (!(file instanceof File) || file.size === 0) return { status: "error", message: "Choose a CSV file.", fieldErrors: { file: ["Choose a CSV file to import."] } };
-    if (file.size > 1_000_000) return { status: "error", message: "The file is over 1 MB; a registry list is much smaller. Check it is the right file.", fieldErrors: { file: ["Too large."] } };
+    if (!parsed.success)
+      return { status: "error", message: "Choose which registry the file holds.", fieldErrors: { kind: ["Choose a registry."] } };
+    if (!(file instanceof File) || file.size === 0)
+      return { status: "error", message: "Choose a CSV file.", fieldErrors: { file: ["Choose a CSV file to import."] } };
+    if (file.size > 1_000_000)
+      return {
+        status: "error",
+        message: "The file is over 1 MB; a registry list is much smaller. Check it is the right file.",
+        fieldErrors: { file: ["Too large."] },
+      };
     const count = await importRegistryCsv(member, parsed.data.kind, await file.text());
     revalidatePath("/strains");
     return { status: "ok", message: `Imported ${count} entries.` };
   } catch (error) {
-    if (isAppError(error)) return { status: "error", message: error.message, fieldErrors: Object.fromEntries(error.fieldProblems.map((problem) => [problem.field, [problem.message]])) };
+    if (isAppError(error))
+      return {
+        status: "error",
+        message: error.message,
+        fieldErrors: Object.fromEntries(error.fieldProblems.map((problem) => [problem.field, [problem.message]])),
+      };
     throw error;
   }
 }

@@ -53,10 +53,42 @@ function RegistryTable({ kind, headers, entries, manage }: { kind: RegistryKind;
               {manage ? (
                 <td className="px-3 py-2">
                   <div className="flex flex-wrap gap-2">
-                    {entry.status === "proposed" ? <ActionForm action={moveRegistryEntryAction} inline hidden={{ kind, id: entry.id, move: "approve" }} submitLabel="Approve" /> : null}
-                    {entry.status === "active" ? <ActionForm action={moveRegistryEntryAction} inline hidden={{ kind, id: entry.id, move: "retire" }} submitLabel="Retire" variant="secondary" /> : null}
-                    {entry.status === "retired" ? <ActionForm action={moveRegistryEntryAction} inline hidden={{ kind, id: entry.id, move: "reinstate" }} submitLabel="Reinstate" variant="secondary" /> : null}
-                    {!entry.blocks ? <ActionForm action={moveRegistryEntryAction} inline hidden={{ kind, id: entry.id, move: "delete" }} submitLabel={entry.status === "proposed" ? "Turn down" : "Delete"} variant="danger" confirm={`${entry.status === "proposed" ? "Turn down" : "Delete"} ${entry.cells[0]}?`} /> : null}
+                    {entry.status === "proposed" ? (
+                      <ActionForm
+                        action={moveRegistryEntryAction}
+                        inline
+                        hidden={{ kind, id: entry.id, move: "approve" }}
+                        submitLabel="Approve"
+                      />
+                    ) : null}
+                    {entry.status === "active" ? (
+                      <ActionForm
+                        action={moveRegistryEntryAction}
+                        inline
+                        hidden={{ kind, id: entry.id, move: "retire" }}
+                        submitLabel="Retire"
+                        variant="secondary"
+                      />
+                    ) : null}
+                    {entry.status === "retired" ? (
+                      <ActionForm
+                        action={moveRegistryEntryAction}
+                        inline
+                        hidden={{ kind, id: entry.id, move: "reinstate" }}
+                        submitLabel="Reinstate"
+                        variant="secondary"
+                      />
+                    ) : null}
+                    {!entry.blocks ? (
+                      <ActionForm
+                        action={moveRegistryEntryAction}
+                        inline
+                        hidden={{ kind, id: entry.id, move: "delete" }}
+                        submitLabel={entry.status === "proposed" ? "Turn down" : "Delete"}
+                        variant="danger"
+                        confirm={`${entry.status === "proposed" ? "Turn down" : "Delete"} ${entry.cells[0]}?`}
+                      />
+                    ) : null}
                   </div>
                 </td>
               ) : null}
@@ -83,9 +115,17 @@ export default async function StrainsPage() {
     ],
     strains: [
       { name: "code", label: "Co-op code", hint: "e.g. PO-04" },
-      { name: "species", label: "Species", options: activeSpecies.map((row) => ({ value: row.id, label: `${row.commonName} (${row.scientificName})` })) },
+      {
+        name: "species",
+        label: "Species",
+        options: activeSpecies.map((row) => ({ value: row.id, label: `${row.commonName} (${row.scientificName})` })),
+      },
       { name: "name", label: "Strain name" },
-      { name: "source", label: "Where the culture came from", options: Object.entries(sourceLabels).map(([value, label]) => ({ value, label })) },
+      {
+        name: "source",
+        label: "Where the culture came from",
+        options: Object.entries(sourceLabels).map(([value, label]) => ({ value, label })),
+      },
       { name: "notes", label: "Notes" },
     ],
     substrate_recipes: [
@@ -95,7 +135,14 @@ export default async function StrainsPage() {
       { name: "supplement", label: "Supplement", hint: "e.g. wheat bran" },
       { name: "supplementPercent", label: "Supplement (%)", defaultValue: "0" },
       { name: "targetMoisture", label: "Target moisture (%, wet basis)", hint: "e.g. 62" },
-      { name: "treatment", label: "Treatment", options: [{ value: "sterilised", label: "Sterilised" }, { value: "pasteurised", label: "Pasteurised" }] },
+      {
+        name: "treatment",
+        label: "Treatment",
+        options: [
+          { value: "sterilised", label: "Sterilised" },
+          { value: "pasteurised", label: "Pasteurised" },
+        ],
+      },
     ],
     treatments: [
       { name: "code", label: "Co-op code", hint: "e.g. SLIT-ACROSS" },
@@ -106,21 +153,46 @@ export default async function StrainsPage() {
   };
 
   const sections: { kind: RegistryKind; headers: string[]; entries: Entry[] }[] = [
-    { kind: "species", headers: ["Common name", "Scientific name"], entries: registries.species.map((row) => ({ id: row.id, status: row.status, cells: [row.commonName, row.scientificName] })) },
+    {
+      kind: "species",
+      headers: ["Common name", "Scientific name"],
+      entries: registries.species.map((row) => ({ id: row.id, status: row.status, cells: [row.commonName, row.scientificName] })),
+    },
     {
       kind: "strains",
       headers: ["Code", "Name", "Species", "Source", "Blocks recorded", "Notes"],
-      entries: registries.strains.map((row) => ({ id: row.id, status: row.status, blocks: row.blocks, cells: [row.code, row.name, row.speciesName, sourceLabels[row.source], String(row.blocks), row.notes] })),
+      entries: registries.strains.map((row) => ({
+        id: row.id,
+        status: row.status,
+        blocks: row.blocks,
+        cells: [row.code, row.name, row.speciesName, sourceLabels[row.source], String(row.blocks), row.notes],
+      })),
     },
     {
       kind: "substrate_recipes",
       headers: ["Code", "Name", "Base", "Supplement", "Target moisture", "Treatment"],
       entries: registries.substrateRecipes.map((row) => ({
-        id: row.id, status: row.status,
-        cells: [row.code, row.name, row.base, row.supplement ? `${row.supplement} ${row.supplementPercent} %` : "None", `${Math.round(row.targetMoisture * 1000) / 10} %`, row.treatment === "sterilised" ? "Sterilised" : "Pasteurised"],
+        id: row.id,
+        status: row.status,
+        cells: [
+          row.code,
+          row.name,
+          row.base,
+          row.supplement ? `${row.supplement} ${row.supplementPercent} %` : "None",
+          `${Math.round(row.targetMoisture * 1000) / 10} %`,
+          row.treatment === "sterilised" ? "Sterilised" : "Pasteurised",
+        ],
       })),
     },
-    { kind: "treatments", headers: ["Code", "Name", "Kind", "How it is done"], entries: registries.treatments.map((row) => ({ id: row.id, status: row.status, cells: [row.code, row.name, kindLabels[row.kind], row.description] })) },
+    {
+      kind: "treatments",
+      headers: ["Code", "Name", "Kind", "How it is done"],
+      entries: registries.treatments.map((row) => ({
+        id: row.id,
+        status: row.status,
+        cells: [row.code, row.name, kindLabels[row.kind], row.description],
+      })),
+    },
   ];
 
   return (
@@ -150,10 +222,23 @@ export default async function StrainsPage() {
             {manage || propose ? (
               <details className="mt-3 rounded-lg border border-oat-300 bg-white p-4">
                 <summary className="min-h-11 cursor-pointer content-center font-semibold text-moss-700">
-                  {addLabel} {section.kind === "species" ? "a species" : section.kind === "strains" ? "a strain" : section.kind === "substrate_recipes" ? "a substrate recipe" : "a treatment"}
+                  {addLabel}{" "}
+                  {section.kind === "species"
+                    ? "a species"
+                    : section.kind === "strains"
+                      ? "a strain"
+                      : section.kind === "substrate_recipes"
+                        ? "a substrate recipe"
+                        : "a treatment"}
                 </summary>
                 <div className="mt-3 max-w-lg">
-                  <ActionForm action={addRegistryEntryAction} testId={`add-${section.kind}`} hidden={{ kind: section.kind }} fields={forms[section.kind]} submitLabel={addLabel} />
+                  <ActionForm
+                    action={addRegistryEntryAction}
+                    testId={`add-${section.kind}`}
+                    hidden={{ kind: section.kind }}
+                    fields={forms[section.kind]}
+                    submitLabel={addLabel}
+                  />
                 </div>
               </details>
             ) : null}
@@ -163,7 +248,12 @@ export default async function StrainsPage() {
           <Card title="Import a registry from CSV">
             <p className="mb-3 text-sm text-ink-soft">
               For a co-op that starts with a list of its own. All rows go in, or none do; every problem names its line and column. Columns:{" "}
-              {registryKinds.map((kind) => `${registryLabels[kind]}: ${[...registryColumns[kind].required, ...registryColumns[kind].optional].join(", ")}`).join(" · ")}.
+              {registryKinds
+                .map(
+                  (kind) => `${registryLabels[kind]}: ${[...registryColumns[kind].required, ...registryColumns[kind].optional].join(", ")}`,
+                )
+                .join(" · ")}
+              .
             </p>
             <ActionForm
               action={importRegistryAction}

@@ -30,9 +30,16 @@ const armSchema = z.object({
 });
 
 const trialDesignSchema = z.object({
-  trialId: z.union([z.uuid(), z.literal("")]).optional().transform((value) => value || undefined),
+  trialId: z
+    .union([z.uuid(), z.literal("")])
+    .optional()
+    .transform((value) => value || undefined),
   title: z.string().trim().min(3, "Give the trial a title of at least 3 characters.").max(160, "Keep the title under 160 characters."),
-  question: z.string().trim().min(10, "Write the question in one sentence, e.g. \u201cDoes PO-02 give more BE than PO-01 over two flushes?\u201d").max(400, "Keep the question to one sentence (under 400 characters)."),
+  question: z
+    .string()
+    .trim()
+    .min(10, "Write the question in one sentence, e.g. \u201cDoes PO-02 give more BE than PO-01 over two flushes?\u201d")
+    .max(400, "Keep the question to one sentence (under 400 characters)."),
   speciesId: z.uuid("Pick the species the trial is about."),
   arms: z
     .string()
@@ -52,13 +59,25 @@ const trialDesignSchema = z.object({
         .refine((arms) => arms.filter((arm) => arm.isReference).length === 1, "Mark exactly one arm as the reference.")
         .refine((arms) => new Set(arms.map((arm) => arm.label.toLowerCase())).size === arms.length, "Give each arm a different label."),
     ),
-  outcomeFlushes: z.coerce.number().int("Flushes must be a whole number.").min(1, "Count at least flush 1.").max(6, "Count at most 6 flushes."),
+  outcomeFlushes: z.coerce
+    .number()
+    .int("Flushes must be a whole number.")
+    .min(1, "Count at least flush 1.")
+    .max(6, "Count at most 6 flushes."),
   contaminatedHandling: z.enum(["exclude", "count_as_zero"], "Say whether contaminated blocks are left out or count as zero."),
   protocolNotes: z.string().trim().max(4000, "Keep protocol notes under 4000 characters."),
-  enrolmentDeadline: z.union([z.iso.date("Give the deadline as a date, e.g. 2027-01-15."), z.literal("")]).transform((value) => value || null),
-  smallestDifference: optionalNumber("Smallest difference", z.number().gt(0, "must be above 0 BE points").lt(500, "must be below 500 BE points")),
+  enrolmentDeadline: z
+    .union([z.iso.date("Give the deadline as a date, e.g. 2027-01-15."), z.literal("")])
+    .transform((value) => value || null),
+  smallestDifference: optionalNumber(
+    "Smallest difference",
+    z.number().gt(0, "must be above 0 BE points").lt(500, "must be below 500 BE points"),
+  ),
   expectedSd: optionalNumber("Spread between blocks", z.number().gt(0, "must be above 0 BE points").lt(500, "must be below 500 BE points")),
-  plannedFarms: optionalNumber("Planned farms", z.number().int("must be a whole number").min(1, "must be 1 or more").max(100, "must be 100 or fewer")),
+  plannedFarms: optionalNumber(
+    "Planned farms",
+    z.number().int("must be a whole number").min(1, "must be 1 or more").max(100, "must be 100 or fewer"),
+  ),
   expectedLossPercent: optionalNumber("Expected loss", z.number().min(0, "must be 0 % or more").lt(100, "must be below 100 %")),
   intent: z.enum(["save", "save-and-view"]).default("save"),
 });
@@ -82,17 +101,19 @@ export const moveTrialAction = guardedAction(
   },
 );
 
-export const inviteFarmsAction = guardedAction(
-  "trial:manage",
-  z.looseObject({ trialId: z.uuid() }),
-  async (input, member) => {
-    const farmIds = Object.keys(input).filter((key) => key.startsWith("farm:")).map((key) => key.slice(5));
-    if (!farmIds.length) return { status: "error", message: "Tick at least one farm to invite.", fieldErrors: { farms: ["Tick at least one farm to invite."] } };
-    const sent = await inviteFarms(member, input.trialId, farmIds);
-    revalidatePath(`/trials/${input.trialId}`);
-    return { status: "ok", message: `Invited ${farmIds.length} farm${farmIds.length === 1 ? "" : "s"}; ${sent} e-mail${sent === 1 ? "" : "s"} sent.` };
-  },
-);
+export const inviteFarmsAction = guardedAction("trial:manage", z.looseObject({ trialId: z.uuid() }), async (input, member) => {
+  const farmIds = Object.keys(input)
+    .filter((key) => key.startsWith("farm:"))
+    .map((key) => key.slice(5));
+  if (!farmIds.length)
+    return { status: "error", message: "Tick at least one farm to invite.", fieldErrors: { farms: ["Tick at least one farm to invite."] } };
+  const sent = await inviteFarms(member, input.trialId, farmIds);
+  revalidatePath(`/trials/${input.trialId}`);
+  return {
+    status: "ok",
+    message: `Invited ${farmIds.length} farm${farmIds.length === 1 ? "" : "s"}; ${sent} e-mail${sent === 1 ? "" : "s"} sent.`,
+  };
+});
 
 export const respondToInvitationAction = guardedAction(
   "trial:enrol",
@@ -106,7 +127,11 @@ export const respondToInvitationAction = guardedAction(
       if (input.answer === "decline") return { ...input, blocksPerArm: null };
       const number = Number(input.blocksPerArm);
       if (!Number.isInteger(number) || number < 1 || number > 200) {
-        context.addIssue({ code: "custom", path: ["blocksPerArm"], message: `Blocks per arm: "${input.blocksPerArm ?? ""}" must be a whole number from 1 to 200.` });
+        context.addIssue({
+          code: "custom",
+          path: ["blocksPerArm"],
+          message: `Blocks per arm: "${input.blocksPerArm ?? ""}" must be a whole number from 1 to 200.`,
+        });
         return z.NEVER;
       }
       return { ...input, blocksPerArm: number };
@@ -114,7 +139,10 @@ export const respondToInvitationAction = guardedAction(
   async (input, member) => {
     await respondToInvitation(member, input.trialId, { accept: input.answer === "accept", blocksPerArm: input.blocksPerArm });
     revalidatePath(`/trials/${input.trialId}`);
-    return { status: "ok", message: input.answer === "accept" ? "Your farm is enrolled; your list is ready." : "You declined the invitation." };
+    return {
+      status: "ok",
+      message: input.answer === "accept" ? "Your farm is enrolled; your list is ready." : "You declined the invitation.",
+    };
   },
 );
 

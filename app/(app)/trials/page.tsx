@@ -11,7 +11,12 @@ import { StatusBadge } from "./_components/status-badge";
 
 export const metadata: Metadata = { title: "Trials" };
 
-const enrolmentLabels: Record<string, string> = { invited: "Your farm is invited", accepted: "Your farm takes part", declined: "Your farm declined", dropped: "Your farm is not taking part" };
+const enrolmentLabels: Record<string, string> = {
+  invited: "Your farm is invited",
+  accepted: "Your farm takes part",
+  declined: "Your farm declined",
+  dropped: "Your farm is not taking part",
+};
 
 export default async function TrialsPage() {
   const member = await requirePage("trial:read");
@@ -23,7 +28,9 @@ export default async function TrialsPage() {
       </PageHeader>
       {rows.length === 0 ? (
         <Card>
-          <p className="text-ink-soft">{can(member.role, "trial:manage") ? "No trials yet. Design the first one." : "No trials are open or published yet."}</p>
+          <p className="text-ink-soft">
+            {can(member.role, "trial:manage") ? "No trials yet. Design the first one." : "No trials are open or published yet."}
+          </p>
         </Card>
       ) : (
         <ul className="grid gap-4 md:grid-cols-2">
@@ -35,15 +42,22 @@ export default async function TrialsPage() {
                   <StatusBadge status={trial.status as TrialStatus} />
                 </div>
                 <h2 className="mt-2 text-lg font-semibold text-moss-800">
-                  <Link href={`/trials/${trial.id}`} className="underline-offset-4 hover:underline">{trial.title}</Link>
+                  <Link href={`/trials/${trial.id}`} className="underline-offset-4 hover:underline">
+                    {trial.title}
+                  </Link>
                 </h2>
                 <p className="text-sm text-ink-soft">
                   {trial.speciesName}
                   {trial.status === "open" && trial.enrolmentDeadline ? ` · answer by ${trial.enrolmentDeadline}` : ""}
                 </p>
-                {trial.enrolmentStatus ? <p className="mt-1 text-sm font-medium text-moss-700">{enrolmentLabels[trial.enrolmentStatus]}</p> : null}
+                {trial.enrolmentStatus ? (
+                  <p className="mt-1 text-sm font-medium text-moss-700">{enrolmentLabels[trial.enrolmentStatus]}</p>
+                ) : null}
                 {trial.status === "published" ? (
-                  <Link href={`/trials/${trial.id}/results`} className="mt-2 inline-flex min-h-11 items-center text-sm font-semibold text-moss-700 underline">
+                  <Link
+                    href={`/trials/${trial.id}/results`}
+                    className="mt-2 inline-flex min-h-11 items-center text-sm font-semibold text-moss-700 underline"
+                  >
                     Read the results
                   </Link>
                 ) : null}

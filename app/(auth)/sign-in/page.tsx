@@ -25,7 +25,11 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
           <SignInForm returnTo={params.callbackUrl} />
         </div>
         <p className="mt-6 text-sm text-ink-soft">
-          Forgotten your password? <a className="underline" href="/reset-password">Reset it by e-mail</a>.
+          Forgotten your password?{" "}
+          <a className="underline" href="/reset-password">
+            Reset it by e-mail
+          </a>
+          .
         </p>
       </div>
     </main>

@@ -5,7 +5,10 @@ import { AppError } from "@/lib/errors";
 import { flushWindows } from "@/lib/pooled";
 
 const optionalId = (what: string) =>
-  z.preprocess((value) => (value === "" || value === null ? undefined : value), z.uuid(`The ${what} in the address is not one of ours; choose it from the list.`).optional());
+  z.preprocess(
+    (value) => (value === "" || value === null ? undefined : value),
+    z.uuid(`The ${what} in the address is not one of ours; choose it from the list.`).optional(),
+  );
 
 const pooledResultsQuerySchema = z.object({
   species: optionalId("species"),
@@ -26,6 +29,11 @@ export const GET = guardedRoute("pooled-results:read", async (request, { member 
     );
   }
   const { species, recipe, method, window } = parsed.data;
-  const body = await getPooledResultsJson(member, { speciesId: species, substrateRecipeId: recipe, fruitingMethodId: method, flushWindow: window });
+  const body = await getPooledResultsJson(member, {
+    speciesId: species,
+    substrateRecipeId: recipe,
+    fruitingMethodId: method,
+    flushWindow: window,
+  });
   return new Response(body, { headers: { "content-type": "application/json", "cache-control": "private, no-store" } });
 });

@@ -51,7 +51,8 @@ export const POST = guardedRoute("season-log:upload", async (request, { member }
     chunks.push(value);
     parser.write(value);
   }
-  if (size === 0) throw new AppError("invalid_input", "The file is empty. Export the season log from your spreadsheet as CSV and upload that file.");
+  if (size === 0)
+    throw new AppError("invalid_input", "The file is empty. Export the season log from your spreadsheet as CSV and upload that file.");
   const content = Buffer.concat(chunks, size);
   const view = await createUpload(context, { fileName: fileNameOf(request), content, result: parser.end(), choices: setup.remembered });
   return NextResponse.json(view, { status: 201 });

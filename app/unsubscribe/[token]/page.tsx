@@ -16,7 +16,11 @@ export default async function UnsubscribePage({ params }: { params: Promise<{ to
           ? `Your farm will get no more reminder e-mails about trial ${trialCode}. Invitations, your enrolment confirmation and published results still arrive.`
           : "The link is incomplete or was not made by Rhizomorph. Copy the whole link from the e-mail, or ask the coordinator to stop the reminders for you."}
       </p>
-      <p className="mt-6"><Link href="/sign-in" className="inline-flex min-h-11 items-center font-semibold text-moss-700 underline">Sign in to Rhizomorph</Link></p>
+      <p className="mt-6">
+        <Link href="/sign-in" className="inline-flex min-h-11 items-center font-semibold text-moss-700 underline">
+          Sign in to Rhizomorph
+        </Link>
+      </p>
     </main>
   );
 }

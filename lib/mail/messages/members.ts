@@ -56,7 +56,14 @@ export function passwordResetMessage(input: { to: string; name: string; link: st
   );
 }
 
-export function roleChangedMessage(input: { to: string; name: string; oldRole: string; newRole: string; changedBy: string; farmName: string | null }): OutgoingMessage {
+export function roleChangedMessage(input: {
+  to: string;
+  name: string;
+  oldRole: string;
+  newRole: string;
+  changedBy: string;
+  farmName: string | null;
+}): OutgoingMessage {
   return message(input.to, "Your role on Rhizomorph has changed", [
     `Hello ${input.name},`,
     `${input.changedBy} changed your role${input.farmName ? ` at ${input.farmName}` : ""} from ${roleWords[input.oldRole] ?? input.oldRole} to ${roleWords[input.newRole] ?? input.newRole}.`,

@@ -5,7 +5,13 @@ const trial = { code: "T-9", title: "Bran <20 %> & more", question: "Which is be
 
 describe("trial e-mails", () => {
   it("put the links in both parts and escape the HTML", () => {
-    const mail = trialInvitationMail({ trial, farmName: "Fernbrook", deadline: "2026-12-20", enrolUrl: "http://x/trials/1?a=1&b=2", optOutUrl: "http://x/unsubscribe/tok" });
+    const mail = trialInvitationMail({
+      trial,
+      farmName: "Fernbrook",
+      deadline: "2026-12-20",
+      enrolUrl: "http://x/trials/1?a=1&b=2",
+      optOutUrl: "http://x/unsubscribe/tok",
+    });
     expect(mail.text).toContain("http://x/trials/1?a=1&b=2");
     expect(mail.text).toContain("http://x/unsubscribe/tok");
     expect(mail.html).toContain('href="http://x/trials/1?a=1&amp;b=2"');

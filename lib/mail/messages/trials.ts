@@ -19,7 +19,10 @@ const escapeHtml = (value: string) =>
 
 function compose(subject: string, paragraphs: string[], action: { label: string; url: string }, optOutUrl?: string): TrialMail {
   const footer = optOutUrl ? `To stop reminders about this trial for your farm: ${optOutUrl}` : "";
-  const text = [...paragraphs, `${action.label}: ${action.url}`, "", "— Rhizomorph, for the co-op", footer].filter((line, index, all) => line || index < all.length - 1).join("\n\n").trim();
+  const text = [...paragraphs, `${action.label}: ${action.url}`, "", "— Rhizomorph, for the co-op", footer]
+    .filter((line, index, all) => line || index < all.length - 1)
+    .join("\n\n")
+    .trim();
   const html = `<!doctype html><html><body style="font-family:sans-serif;color:#1f2a1f;line-height:1.5">
 ${paragraphs.map((paragraph) => `<p>${escapeHtml(paragraph)}</p>`).join("\n")}
 <p><a href="${escapeHtml(action.url)}" style="display:inline-block;padding:10px 16px;background:#3f6b3a;color:#fff;border-radius:8px;text-decoration:none">${escapeHtml(action.label)}</a></p>
@@ -29,20 +32,35 @@ ${optOutUrl ? `<p style="font-size:13px;color:#555"><a href="${escapeHtml(optOut
   return { subject, text, html };
 }
 
-export function trialInvitationMail(input: { trial: TrialFacts; farmName: string; deadline: string | null; enrolUrl: string; optOutUrl: string }): TrialMail {
+export function trialInvitationMail(input: {
+  trial: TrialFacts;
+  farmName: string;
+  deadline: string | null;
+  enrolUrl: string;
+  optOutUrl: string;
+}): TrialMail {
   return compose(
     `Invitation to trial ${input.trial.code}: ${input.trial.title}`,
     [
       `The co-op invites ${input.farmName} to take part in trial ${input.trial.code}, "${input.trial.title}".`,
       `The question: ${input.trial.question}`,
-      input.deadline ? `Please answer by ${input.deadline}: accept and say how many blocks per arm you can run, or decline.` : "Please accept and say how many blocks per arm you can run, or decline.",
+      input.deadline
+        ? `Please answer by ${input.deadline}: accept and say how many blocks per arm you can run, or decline.`
+        : "Please accept and say how many blocks per arm you can run, or decline.",
     ],
     { label: "Read the protocol and answer", url: input.enrolUrl },
     input.optOutUrl,
   );
 }
 
-export function enrolmentConfirmationMail(input: { trial: TrialFacts; farmName: string; blocksPerArm: number; arms: number; listUrl: string; optOutUrl: string }): TrialMail {
+export function enrolmentConfirmationMail(input: {
+  trial: TrialFacts;
+  farmName: string;
+  blocksPerArm: number;
+  arms: number;
+  listUrl: string;
+  optOutUrl: string;
+}): TrialMail {
   const total = input.blocksPerArm * input.arms;
   return compose(
     `${input.farmName} is enrolled in trial ${input.trial.code}`,
@@ -55,7 +73,13 @@ export function enrolmentConfirmationMail(input: { trial: TrialFacts; farmName: 
   );
 }
 
-export function trialReminderMail(input: { trial: TrialFacts; farmName: string; due: string[]; progressUrl: string; optOutUrl: string }): TrialMail {
+export function trialReminderMail(input: {
+  trial: TrialFacts;
+  farmName: string;
+  due: string[];
+  progressUrl: string;
+  optOutUrl: string;
+}): TrialMail {
   return compose(
     `Reminder: trial ${input.trial.code} is waiting for ${input.farmName}'s records`,
     [

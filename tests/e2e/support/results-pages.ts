@@ -24,7 +24,10 @@ export class ResultsPage {
   }
 
   async chooseFlushes(label: string): Promise<void> {
-    await Promise.all([this.page.waitForResponse((response) => response.url().includes("window=")), this.page.getByLabel("Flushes counted").selectOption({ label })]);
+    await Promise.all([
+      this.page.waitForResponse((response) => response.url().includes("window=")),
+      this.page.getByLabel("Flushes counted").selectOption({ label }),
+    ]);
     await this.waitForResults();
   }
 

@@ -8,13 +8,40 @@ const corpus = path.resolve(__dirname, "../../fixtures/season-logs");
 interface Expected {
   about: string;
   options: SeasonLogOptions;
-  detected: { encoding: string; delimiter: string; decimal: string; dateOrder: string | null; format: string; certain: boolean; unmatched: string[]; uncertain: string[] };
+  detected: {
+    encoding: string;
+    delimiter: string;
+    decimal: string;
+    dateOrder: string | null;
+    format: string;
+    certain: boolean;
+    unmatched: string[];
+    uncertain: string[];
+  };
   issues: { line: number; severity: string; column?: string; says: string }[];
   records: Partial<SeasonRecord>[];
 }
 
-const checkedFields = ["line", "blockCode", "strainCode", "substrate", "inoculatedOn", "wetBlockGrams", "moisture", "flush", "harvestedOn", "freshGrams", "dryGrams", "contaminated", "contaminatedOn", "spentGrams", "notes"] as const;
-const files = readdirSync(corpus).filter((name) => !name.endsWith(".expected.json")).sort();
+const checkedFields = [
+  "line",
+  "blockCode",
+  "strainCode",
+  "substrate",
+  "inoculatedOn",
+  "wetBlockGrams",
+  "moisture",
+  "flush",
+  "harvestedOn",
+  "freshGrams",
+  "dryGrams",
+  "contaminated",
+  "contaminatedOn",
+  "spentGrams",
+  "notes",
+] as const;
+const files = readdirSync(corpus)
+  .filter((name) => !name.endsWith(".expected.json"))
+  .sort();
 
 describe("season-log corpus", () => {
   it("has at least 40 awkward files, each with its expectations", () => {
@@ -27,7 +54,9 @@ describe("season-log corpus", () => {
     it(`${file}: ${expected.about}`, () => {
       const result = parseSeasonLog(new Uint8Array(readFileSync(path.join(corpus, file))), expected.options);
       const { mapping, ...detected } = result.detected;
-      expect({ ...detected, certain: mapping.certain, unmatched: mapping.unmatched, uncertain: mapping.uncertain }).toEqual(expected.detected);
+      expect({ ...detected, certain: mapping.certain, unmatched: mapping.unmatched, uncertain: mapping.uncertain }).toEqual(
+        expected.detected,
+      );
       expect(result.issues.map(({ line, severity, column }) => ({ line, severity, column }))).toEqual(
         expected.issues.map(({ line, severity, column }) => ({ line, severity, column })),
       );
@@ -46,7 +75,14 @@ describe("season-log corpus", () => {
   }
 
   it("gives the same result when a file arrives in chunks of 1, 7 and 4096 bytes", () => {
-    for (const file of ["european-semicolon.csv", "windows-1252-accents.csv", "embedded-newlines.csv", "utf8-bom.csv", "lone-carriage-returns.csv", "wide-form-dated-ounces.csv"]) {
+    for (const file of [
+      "european-semicolon.csv",
+      "windows-1252-accents.csv",
+      "embedded-newlines.csv",
+      "utf8-bom.csv",
+      "lone-carriage-returns.csv",
+      "wide-form-dated-ounces.csv",
+    ]) {
       const bytes = new Uint8Array(readFileSync(path.join(corpus, file)));
       const whole = parseSeasonLog(bytes, { today: "2026-12-31" });
       for (const size of [1, 7, 4096]) {

@@ -9,11 +9,24 @@ const columns: ColumnDef<AuditRow, unknown>[] = [
   { accessorKey: "actorLabel", header: "Who" },
   { accessorKey: "action", header: "What" },
   { accessorKey: "subject", header: "About" },
-  { accessorKey: "details", header: "Details", cell: ({ getValue }) => <span className="break-all font-mono text-xs">{String(getValue())}</span> },
+  {
+    accessorKey: "details",
+    header: "Details",
+    cell: ({ getValue }) => <span className="break-all font-mono text-xs">{String(getValue())}</span>,
+  },
   { accessorKey: "ip", header: "Network address" },
 ];
 
 /** The activity log: filter by any word, sort, hide columns, download what is shown as CSV. */
 export function ActivityTable({ rows, caption, csvFileName }: { rows: AuditRow[]; caption: string; csvFileName: string }) {
-  return <DataTable caption={caption} columns={columns} rows={rows} csvFileName={csvFileName} pageSize={50} emptyMessage="Nothing has been recorded yet." />;
+  return (
+    <DataTable
+      caption={caption}
+      columns={columns}
+      rows={rows}
+      csvFileName={csvFileName}
+      pageSize={50}
+      emptyMessage="Nothing has been recorded yet."
+    />
+  );
 }

@@ -32,7 +32,8 @@ export default async function BlockPage({ params }: { params: Promise<{ blockId:
   const display = member.displayUnits;
   const mass = (grams: number | null) => (grams === null ? "not weighed" : formatMass(grams, display));
   // History keeps masses in grams as text; show them in the reader's units like every other mass.
-  const shownValue = (field: string, value: string | null) => (value === null ? "(blank)" : massFields.has(field) && Number.isFinite(Number(value)) ? formatMass(Number(value), display) : value);
+  const shownValue = (field: string, value: string | null) =>
+    value === null ? "(blank)" : massFields.has(field) && Number.isFinite(Number(value)) ? formatMass(Number(value), display) : value;
   const facts = [
     ["Strain", block.strainCode],
     ["Substrate recipe", block.recipeCode ?? "not given"],
@@ -75,11 +76,21 @@ export default async function BlockPage({ params }: { params: Promise<{ blockId:
                 <caption className="sr-only">Flushes of block {block.code}</caption>
                 <thead className="bg-oat-200 text-left">
                   <tr>
-                    <th scope="col" className="px-3 py-2">Flush</th>
-                    <th scope="col" className="px-3 py-2">Harvested</th>
-                    <th scope="col" className="px-3 py-2">Fresh</th>
-                    <th scope="col" className="px-3 py-2">As written</th>
-                    <th scope="col" className="px-3 py-2">Dry</th>
+                    <th scope="col" className="px-3 py-2">
+                      Flush
+                    </th>
+                    <th scope="col" className="px-3 py-2">
+                      Harvested
+                    </th>
+                    <th scope="col" className="px-3 py-2">
+                      Fresh
+                    </th>
+                    <th scope="col" className="px-3 py-2">
+                      As written
+                    </th>
+                    <th scope="col" className="px-3 py-2">
+                      Dry
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
@@ -105,7 +116,8 @@ export default async function BlockPage({ params }: { params: Promise<{ blockId:
               {block.history.map((change) => (
                 <li key={change.id} className="rounded-lg bg-oat-50 p-3">
                   <span className="font-semibold">{fieldTitles.get(change.field) ?? change.field}</span>
-                  {change.flush !== null ? ` of flush ${change.flush}` : ""}: {shownValue(change.field, change.oldValue)} → {shownValue(change.field, change.newValue)}
+                  {change.flush !== null ? ` of flush ${change.flush}` : ""}: {shownValue(change.field, change.oldValue)} →{" "}
+                  {shownValue(change.field, change.newValue)}
                   <span className="block text-ink-soft">
                     {change.changedAt.slice(0, 16).replace("T", " ")} UTC{change.changedBy ? ` by ${change.changedBy}` : ""}
                     {change.fileName ? `, from ${change.fileName}` : ""}

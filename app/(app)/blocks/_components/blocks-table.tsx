@@ -24,13 +24,33 @@ function columnsFor(display: MassDisplay): ColumnDef<BlockRow, unknown>[] {
     { accessorKey: "strainCode", header: "Strain" },
     { accessorFn: (block) => block.recipeCode ?? "", id: "recipe", header: "Recipe" },
     { accessorFn: (block) => block.inoculatedOn ?? "", id: "inoculated", header: "Inoculated" },
-    { accessorFn: (block) => block.wetMassG, id: "wet", header: "Wet block", cell: ({ getValue }) => (getValue() === null ? "" : formatMass(getValue() as number, display)) },
-    { accessorFn: (block) => (block.moisture === null ? null : block.moisture * 100), id: "moisture", header: "Moisture", cell: ({ getValue }) => percent(getValue() as number | null) },
+    {
+      accessorFn: (block) => block.wetMassG,
+      id: "wet",
+      header: "Wet block",
+      cell: ({ getValue }) => (getValue() === null ? "" : formatMass(getValue() as number, display)),
+    },
+    {
+      accessorFn: (block) => (block.moisture === null ? null : block.moisture * 100),
+      id: "moisture",
+      header: "Moisture",
+      cell: ({ getValue }) => percent(getValue() as number | null),
+    },
     { accessorKey: "flushes", header: "Flushes" },
     { accessorKey: "totalFreshG", header: "Total fresh", cell: ({ getValue }) => formatMass(getValue() as number, display) },
-    { accessorFn: (block) => block.biologicalEfficiency, id: "be", header: "BE %", cell: ({ getValue }) => percent(getValue() as number | null) },
+    {
+      accessorFn: (block) => block.biologicalEfficiency,
+      id: "be",
+      header: "BE %",
+      cell: ({ getValue }) => percent(getValue() as number | null),
+    },
     { accessorFn: (block) => (block.contaminated ? "yes" : "no"), id: "contaminated", header: "Contaminated" },
-    { accessorFn: (block) => block.massLoss, id: "massLoss", header: "Mass loss", cell: ({ getValue }) => percent(getValue() as number | null) },
+    {
+      accessorFn: (block) => block.massLoss,
+      id: "massLoss",
+      header: "Mass loss",
+      cell: ({ getValue }) => percent(getValue() as number | null),
+    },
     { accessorFn: (block) => block.trial ?? "", id: "trial", header: "Trial" },
   ];
 }

@@ -16,7 +16,15 @@ function today(): string {
 }
 
 /** Block code with suggestions, the next flush filled in, weight with its unit, and today's date. */
-export function QuickHarvestForm({ targets, initialBlock, defaultUnit }: { targets: HarvestTarget[]; initialBlock: string; defaultUnit: "g" | "lb" }) {
+export function QuickHarvestForm({
+  targets,
+  initialBlock,
+  defaultUnit,
+}: {
+  targets: HarvestTarget[];
+  initialBlock: string;
+  defaultUnit: "g" | "lb";
+}) {
   const [state, action, pending] = useActionState(recordHarvestAction, initial);
   const [blockCode, setBlockCode] = useState(initialBlock);
   const suggested = targets.find((target) => target.code.toLowerCase() === blockCode.trim().toLowerCase())?.nextFlush;
@@ -25,7 +33,11 @@ export function QuickHarvestForm({ targets, initialBlock, defaultUnit }: { targe
   const shownFlush = flushTouched ? flush : suggested ? String(suggested) : flush;
 
   return (
-    <form action={action} className="space-y-4 rounded-xl border border-oat-300 bg-white p-5 shadow-sm" key={state.status === "ok" ? state.message : "form"}>
+    <form
+      action={action}
+      className="space-y-4 rounded-xl border border-oat-300 bg-white p-5 shadow-sm"
+      key={state.status === "ok" ? state.message : "form"}
+    >
       {state.status === "ok" ? (
         <Notice title="Saved">
           <p role="status">{state.message}</p>
@@ -78,7 +90,12 @@ export function QuickHarvestForm({ targets, initialBlock, defaultUnit }: { targe
           <label htmlFor="unit" className="block text-sm font-medium">
             Unit
           </label>
-          <select id="unit" name="unit" defaultValue={defaultUnit} className="block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3 text-base">
+          <select
+            id="unit"
+            name="unit"
+            defaultValue={defaultUnit}
+            className="block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3 text-base"
+          >
             <option value="g">g</option>
             <option value="kg">kg</option>
             <option value="lb">lb</option>

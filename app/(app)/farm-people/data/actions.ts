@@ -13,7 +13,9 @@ export const withdrawFarmDataAction = guardedAction("farm:withdraw", withdrawSch
   return {
     status: "ok",
     message: `Withdrawn: ${removed.blocks} blocks, ${removed.harvests} harvests and ${removed.uploads} uploaded files were deleted, and the co-op's pooled results are being recomputed without them. ${
-      removed.publishedTrialsNoted > 0 ? `${removed.publishedTrialsNoted} published trial report${removed.publishedTrialsNoted === 1 ? " keeps its figures and now says" : "s keep their figures and now say"} that a farm withdrew. ` : ""
+      removed.publishedTrialsNoted > 0
+        ? `${removed.publishedTrialsNoted} published trial report${removed.publishedTrialsNoted === 1 ? " keeps its figures and now says" : "s keep their figures and now say"} that a farm withdrew. `
+        : ""
     }The record of this withdrawal stays in the activity log.`,
   };
 });

@@ -52,7 +52,10 @@ export function ActionForm({
     <form
       action={formAction}
       onSubmit={confirm ? (event) => (window.confirm(confirm) ? undefined : event.preventDefault()) : undefined}
-      data-testid={testId} className={inline ? "flex flex-wrap items-end gap-2" : "space-y-4"} noValidate>
+      data-testid={testId}
+      className={inline ? "flex flex-wrap items-end gap-2" : "space-y-4"}
+      noValidate
+    >
       {Object.entries(hidden).map(([name, value]) => (
         <input key={name} type="hidden" name={name} value={value} />
       ))}

@@ -9,7 +9,10 @@ import type { OwnStrainSummary } from "@/lib/pooled";
 import { useMyFarm } from "@/lib/queries/my-farm";
 import { formatMass } from "@/lib/units";
 
-type Row = Record<"strain" | "blocks" | "harvests" | "fresh" | "efficiency" | "percentile" | "contamination" | "massLoss" | "toCome", string>;
+type Row = Record<
+  "strain" | "blocks" | "harvests" | "fresh" | "efficiency" | "percentile" | "contamination" | "massLoss" | "toCome",
+  string
+>;
 
 const columns: ColumnDef<Row, unknown>[] = [
   { id: "strain", header: "Strain", accessorKey: "strain" },
@@ -46,12 +49,19 @@ function toRow(strain: OwnStrainSummary, units: "metric" | "imperial"): Row {
 
 export function MyFarmView() {
   const query = useMyFarm();
-  if (query.isPending) return <p role="status" className="rounded-lg border border-oat-300 bg-white p-4 text-ink-soft">Loading your farm&apos;s season…</p>;
+  if (query.isPending)
+    return (
+      <p role="status" className="rounded-lg border border-oat-300 bg-white p-4 text-ink-soft">
+        Loading your farm&apos;s season…
+      </p>
+    );
   if (query.isError) {
     return (
       <Notice tone="danger" title="Your farm's figures could not be loaded">
         <p>{query.error.message}</p>
-        <button type="button" className="min-h-11 font-semibold underline" onClick={() => query.refetch()}>Try again</button>
+        <button type="button" className="min-h-11 font-semibold underline" onClick={() => query.refetch()}>
+          Try again
+        </button>
       </Notice>
     );
   }
@@ -72,9 +82,17 @@ export function MyFarmView() {
         </Notice>
       ) : null}
       <Card title={`${page.farmName} this season, by strain`}>
-        <DataTable caption="Your season by strain" columns={columns} rows={page.strains.map((strain) => toRow(strain, page.displayUnits))} emptyMessage="No blocks this season yet." csvFileName="my-farm-by-strain.csv" />
+        <DataTable
+          caption="Your season by strain"
+          columns={columns}
+          rows={page.strains.map((strain) => toRow(strain, page.displayUnits))}
+          emptyMessage="No blocks this season yet."
+          csvFileName="my-farm-by-strain.csv"
+        />
         <p className="mt-2 text-xs text-ink-soft">
-          Blocks inoculated since {page.seasonStartedOn}. Place in the co-op compares your mean with every co-op block of the strain, shown only where at least {page.minimumFarms} farms grew it. Still to come: the co-op&apos;s average flush profile applied to your active blocks, with 95 % prediction bounds.
+          Blocks inoculated since {page.seasonStartedOn}. Place in the co-op compares your mean with every co-op block of the strain, shown
+          only where at least {page.minimumFarms} farms grew it. Still to come: the co-op&apos;s average flush profile applied to your
+          active blocks, with 95 % prediction bounds.
         </p>
       </Card>
       <Card title="Flush curves: share of a block's yield picked by each flush">
@@ -88,7 +106,9 @@ export function MyFarmView() {
                 <FlushCurve
                   title={`Cumulative share of yield by flush for ${strain.strainName}`}
                   series={[
-                    ...(strain.ownCumulative ? [{ name: "Your finished blocks", cumulative: strain.ownCumulative, colour: "#7a4f2a" }] : []),
+                    ...(strain.ownCumulative
+                      ? [{ name: "Your finished blocks", cumulative: strain.ownCumulative, colour: "#7a4f2a" }]
+                      : []),
                     ...(strain.coopCumulative ? [{ name: "Co-op average", cumulative: strain.coopCumulative, colour: "#2e5e4e" }] : []),
                   ]}
                 />

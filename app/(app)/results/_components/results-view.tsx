@@ -24,10 +24,15 @@ function strainRow(result: StrainResult): StrainRow {
     strain: result.strainName,
     farms: show(result.farms, String),
     blocks: show(result.blocks, String),
-    efficiency: show(result.efficiency, (v) => `${one(v.estimate)} % (${one(v.lower)} to ${one(v.upper)})${v.adjustedForFarm ? "" : " not adjusted for farm"}`),
+    efficiency: show(
+      result.efficiency,
+      (v) => `${one(v.estimate)} % (${one(v.lower)} to ${one(v.upper)})${v.adjustedForFarm ? "" : " not adjusted for farm"}`,
+    ),
     contamination: show(result.contamination, (v) => `${one(v.estimate)} % (${one(v.lower)} to ${one(v.upper)})`),
     firstHarvest: show(result.firstHarvestDays, (v) => `${Math.round(v.mean)} days`),
-    flushProfile: show(result.flushProfile, (profile) => profile.map((share) => `${share.flush}: ${Math.round(share.meanShare * 100)} %`).join(", ")),
+    flushProfile: show(result.flushProfile, (profile) =>
+      profile.map((share) => `${share.flush}: ${Math.round(share.meanShare * 100)} %`).join(", "),
+    ),
   };
 }
 
@@ -59,12 +64,18 @@ export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
 
   return (
     <div className="space-y-6">
-      <form className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4" aria-label="Choose what to compare" onSubmit={(event) => event.preventDefault()}>
+      <form
+        className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4"
+        aria-label="Choose what to compare"
+        onSubmit={(event) => event.preventDefault()}
+      >
         <label className="text-sm font-medium">
           Species
           <select name="species" className={selectClass} value={selection.species ?? page?.speciesId ?? ""} onChange={choose("species")}>
             {(page?.options.species ?? []).map((option) => (
-              <option key={option.id} value={option.id}>{option.name}</option>
+              <option key={option.id} value={option.id}>
+                {option.name}
+              </option>
             ))}
           </select>
         </label>
@@ -73,7 +84,9 @@ export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
           <select name="recipe" className={selectClass} value={selection.recipe ?? ""} onChange={choose("recipe")}>
             <option value="">Any recipe</option>
             {(page?.options.recipes ?? []).map((option) => (
-              <option key={option.id} value={option.id}>{option.name}</option>
+              <option key={option.id} value={option.id}>
+                {option.name}
+              </option>
             ))}
           </select>
         </label>
@@ -82,7 +95,9 @@ export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
           <select name="method" className={selectClass} value={selection.method ?? ""} onChange={choose("method")}>
             <option value="">Any fruiting method</option>
             {(page?.options.fruitingMethods ?? []).map((option) => (
-              <option key={option.id} value={option.id}>{option.name}</option>
+              <option key={option.id} value={option.id}>
+                {option.name}
+              </option>
             ))}
           </select>
         </label>
@@ -95,7 +110,9 @@ export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
             onChange={(event) => setSelection((current) => ({ ...current, window: event.target.value as FlushWindow }))}
           >
             {flushWindows.map((window) => (
-              <option key={window} value={window}>{flushWindowLabels[window]}</option>
+              <option key={window} value={window}>
+                {flushWindowLabels[window]}
+              </option>
             ))}
           </select>
         </label>
@@ -108,15 +125,22 @@ export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
       ) : null}
 
       {query.isPending ? (
-        <p role="status" className="rounded-lg border border-oat-300 bg-white p-4 text-ink-soft">Loading the co-op&apos;s results…</p>
+        <p role="status" className="rounded-lg border border-oat-300 bg-white p-4 text-ink-soft">
+          Loading the co-op&apos;s results…
+        </p>
       ) : query.isError ? (
         <Notice tone="danger" title="The results could not be loaded">
           <p>{query.error.message}</p>
-          <button type="button" className="min-h-11 font-semibold underline" onClick={() => query.refetch()}>Try again</button>
+          <button type="button" className="min-h-11 font-semibold underline" onClick={() => query.refetch()}>
+            Try again
+          </button>
         </Notice>
       ) : !page?.results || page.results.strains.length === 0 ? (
         <Notice title="Not enough data">
-          <p>No member farm has recorded blocks of this species under these filters yet. Try another species, or &ldquo;Any&rdquo; recipe and fruiting method.</p>
+          <p>
+            No member farm has recorded blocks of this species under these filters yet. Try another species, or &ldquo;Any&rdquo; recipe and
+            fruiting method.
+          </p>
         </Notice>
       ) : (
         <ResultsBody page={page} showsOwnFarm={showsOwnFarm} />
@@ -129,8 +153,12 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
   const results = page.results!;
   const names = new Map(results.strains.map((strain) => [strain.strainId, strain.strainName]));
   const published = results.strains.filter((strain) => strain.efficiency.status === "published");
-  const spreads = results.strains.flatMap((strain) => (strain.spread.status === "published" ? [{ strain: strain.strainName, percentiles: strain.spread.value }] : []));
-  const ownBlocks = page.ownBlocks.flatMap((own) => (names.has(own.strainId) ? [{ strain: names.get(own.strainId)!, blocks: own.blocks, efficiencies: own.efficiencies }] : []));
+  const spreads = results.strains.flatMap((strain) =>
+    strain.spread.status === "published" ? [{ strain: strain.strainName, percentiles: strain.spread.value }] : [],
+  );
+  const ownBlocks = page.ownBlocks.flatMap((own) =>
+    names.has(own.strainId) ? [{ strain: names.get(own.strainId)!, blocks: own.blocks, efficiencies: own.efficiencies }] : [],
+  );
 
   return (
     <>
@@ -140,14 +168,21 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
             <p>No strain has been grown on at least {results.minimumFarms} farms under these filters, so no figure can be published.</p>
           </Notice>
         ) : null}
-        <DataTable caption="Strains side by side" columns={strainColumns} rows={results.strains.map(strainRow)} emptyMessage="No strains recorded." csvFileName="co-op-strains.csv" />
+        <DataTable
+          caption="Strains side by side"
+          columns={strainColumns}
+          rows={results.strains.map(strainRow)}
+          emptyMessage="No strains recorded."
+          csvFileName="co-op-strains.csv"
+        />
         <ul className="mt-3 list-disc space-y-1 pl-5 text-sm">
           {results.strains.map((strain) => (
             <li key={strain.strainId}>{strain.sentence}</li>
           ))}
         </ul>
         <p className="mt-2 text-xs text-ink-soft">
-          Figures are published only where at least {results.minimumFarms} farms contributed; means are adjusted for farm (each farm counts as a block) when two or more strains can be compared.
+          Figures are published only where at least {results.minimumFarms} farms contributed; means are adjusted for farm (each farm counts
+          as a block) when two or more strains can be compared.
         </p>
       </Card>
 
@@ -179,7 +214,10 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
                 <li key={`${pair.strainA}-${pair.strainB}`}>{pair.sentence}</li>
               ))}
             </ul>
-            <p className="mt-2 text-xs text-ink-soft">Tukey–Kramer intervals over all pairs, from the co-op&apos;s blocks pooled; the farm-by-farm comparison below allows for differences between farms.</p>
+            <p className="mt-2 text-xs text-ink-soft">
+              Tukey–Kramer intervals over all pairs, from the co-op&apos;s blocks pooled; the farm-by-farm comparison below allows for
+              differences between farms.
+            </p>
           </>
         ) : (
           <p className="text-ink-soft">Not enough data: {results.pairwise.message}.</p>
@@ -190,12 +228,19 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
         {results.heterogeneity.status === "published" ? (
           <div className="space-y-6">
             <p className="text-sm">
-              Each farm&apos;s difference against {results.heterogeneity.value.referenceStrainName} (the strain grown on most farms), pooled allowing the gain to differ by farm. I² is the share of the spread that comes from real differences between farms; τ is the typical farm-to-farm spread of the gain in BE points.
+              Each farm&apos;s difference against {results.heterogeneity.value.referenceStrainName} (the strain grown on most farms), pooled
+              allowing the gain to differ by farm. I² is the share of the spread that comes from real differences between farms; τ is the
+              typical farm-to-farm spread of the gain in BE points.
             </p>
             {results.heterogeneity.value.strains.map((strain) => (
-              <section key={strain.strainId} className="space-y-2" aria-label={`${strain.strainName} against ${results.heterogeneity.status === "published" ? results.heterogeneity.value.referenceStrainName : ""}`}>
+              <section
+                key={strain.strainId}
+                className="space-y-2"
+                aria-label={`${strain.strainName} against ${results.heterogeneity.status === "published" ? results.heterogeneity.value.referenceStrainName : ""}`}
+              >
                 <h3 className="font-semibold text-moss-800">
-                  {strain.strainName}: I² {Math.round(strain.i2)} %, τ {one(strain.tau)} BE points, Holm-adjusted p {strain.pHolm < 0.001 ? "< 0.001" : strain.pHolm.toFixed(3)}
+                  {strain.strainName}: I² {Math.round(strain.i2)} %, τ {one(strain.tau)} BE points, Holm-adjusted p{" "}
+                  {strain.pHolm < 0.001 ? "< 0.001" : strain.pHolm.toFixed(3)}
                 </h3>
                 <ForestChart title={`${strain.strainName} against the reference strain, farm by farm`} rows={strain.forest} />
                 <p className="text-sm">{strain.sentence}</p>

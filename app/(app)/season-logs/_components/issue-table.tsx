@@ -10,7 +10,11 @@ const columns: ColumnDef<SeasonLogIssue, unknown>[] = [
     accessorKey: "severity",
     header: "Severity",
     cell: ({ getValue }) =>
-      getValue() === "error" ? <span className="font-semibold text-danger-ink">Error</span> : <span className="font-semibold text-caution-ink">Warning</span>,
+      getValue() === "error" ? (
+        <span className="font-semibold text-danger-ink">Error</span>
+      ) : (
+        <span className="font-semibold text-caution-ink">Warning</span>
+      ),
   },
   { accessorFn: (issue) => issue.column ?? "", id: "column", header: "Column" },
   { accessorFn: (issue) => issue.value ?? "", id: "value", header: "Value" },
@@ -19,5 +23,13 @@ const columns: ColumnDef<SeasonLogIssue, unknown>[] = [
 
 /** Errors and warnings by line, column and value. */
 export function IssueTable({ issues }: { issues: SeasonLogIssue[] }) {
-  return <DataTable caption="Problems found in the file" columns={columns} rows={issues} emptyMessage="No errors and no warnings: every row reads cleanly." pageSize={20} />;
+  return (
+    <DataTable
+      caption="Problems found in the file"
+      columns={columns}
+      rows={issues}
+      emptyMessage="No errors and no warnings: every row reads cleanly."
+      pageSize={20}
+    />
+  );
 }

@@ -52,16 +52,23 @@ function sendFile(file: File, onProgress: (fraction: number) => void): Promise<U
         // answered with something other than JSON
       }
       if (request.status >= 200 && request.status < 300) resolve(body as UploadView);
-      else reject(new Error(body.message ?? `The server answered ${request.status}. Try again; if it keeps happening, tell the coordinator.`));
+      else
+        reject(new Error(body.message ?? `The server answered ${request.status}. Try again; if it keeps happening, tell the coordinator.`));
     };
-    request.onerror = () => reject(new Error("The file could not be sent: the connection dropped. Check your connection and upload it again."));
+    request.onerror = () =>
+      reject(new Error("The file could not be sent: the connection dropped. Check your connection and upload it again."));
     request.send(file);
   });
 }
 
 function needsMapping(view: UploadView): boolean {
   const detected = view.report.detected;
-  return !detected.mapping.certain || detected.mapping.unmatched.length > 0 || detected.dateOrder === "ambiguous" || view.report.issues.some((issue) => issue.message.includes("has no unit"));
+  return (
+    !detected.mapping.certain ||
+    detected.mapping.unmatched.length > 0 ||
+    detected.dateOrder === "ambiguous" ||
+    view.report.issues.some((issue) => issue.message.includes("has no unit"))
+  );
 }
 
 /** Pick or drop a file → progress → mapping (when unsure) → review → commit → receipt. */
@@ -112,7 +119,11 @@ export function SeasonLogUpload() {
   }
 
   async function post(path: string): Promise<Response> {
-    return fetch(`/api/season-logs/${view!.upload.id}/${path}`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(choices()) });
+    return fetch(`/api/season-logs/${view!.upload.id}/${path}`, {
+      method: "POST",
+      headers: { "content-type": "application/json" },
+      body: JSON.stringify(choices()),
+    });
   }
 
   async function checkAgain() {
@@ -178,7 +189,9 @@ export function SeasonLogUpload() {
             className={`flex min-h-32 cursor-pointer flex-col items-center justify-center gap-2 rounded-lg border-2 border-dashed p-6 text-center ${dragging ? "border-moss-600 bg-moss-50" : "border-oat-300 bg-oat-50"}`}
           >
             <span className="font-semibold text-moss-800">Drop the CSV file here, or tap to choose it</span>
-            <span className="text-sm text-ink-soft">Export the sheet from your spreadsheet as CSV (comma or semicolon, any units). Up to 50 MB.</span>
+            <span className="text-sm text-ink-soft">
+              Export the sheet from your spreadsheet as CSV (comma or semicolon, any units). Up to 50 MB.
+            </span>
           </label>
           <input
             ref={input}
@@ -201,7 +214,9 @@ export function SeasonLogUpload() {
           <p className="mb-2 text-sm text-ink-soft">{fileName}</p>
           <progress className="h-3 w-full accent-moss-600" value={progress} max={1} aria-label="Upload progress" />
           <p role="status" className="mt-2 text-sm">
-            {progress < 1 ? `Sent ${Math.round(progress * 100)} %` : "Sent. Reading every row and comparing it with what your farm has stored…"}
+            {progress < 1
+              ? `Sent ${Math.round(progress * 100)} %`
+              : "Sent. Reading every row and comparing it with what your farm has stored…"}
           </p>
         </Card>
       ) : null}
@@ -211,7 +226,8 @@ export function SeasonLogUpload() {
           {view.alreadyImportedAt ? (
             <Notice title="Already imported">
               <p data-testid="already-imported">
-                This file was already imported on {view.alreadyImportedAt.slice(0, 10)}. Nothing will change; the copy you just sent is kept in the list below.
+                This file was already imported on {view.alreadyImportedAt.slice(0, 10)}. Nothing will change; the copy you just sent is kept
+                in the list below.
               </p>
             </Notice>
           ) : null}
@@ -231,16 +247,24 @@ export function SeasonLogUpload() {
 
           <Card title="3. Review">
             <p className="mb-3 text-sm text-ink-soft" data-testid="review-summary">
-              {view.upload.fileName}: {view.report.rowCount} rows · {view.report.errorCount} error{view.report.errorCount === 1 ? "" : "s"} · {view.report.warningCount} warning
-              {view.report.warningCount === 1 ? "" : "s"} · read as {view.report.detected.encoding}, “{view.report.detected.delimiter === "\t" ? "tab" : view.report.detected.delimiter}” between
-              columns, “{view.report.detected.decimal}” as decimal mark, {view.report.detected.format === "wide" ? "one column per flush" : "one row per harvest"}
-              {view.report.detected.dateOrder === "dmy" ? ", dates day first" : view.report.detected.dateOrder === "mdy" ? ", dates month first" : ""}.
+              {view.upload.fileName}: {view.report.rowCount} rows · {view.report.errorCount} error{view.report.errorCount === 1 ? "" : "s"}{" "}
+              · {view.report.warningCount} warning
+              {view.report.warningCount === 1 ? "" : "s"} · read as {view.report.detected.encoding}, “
+              {view.report.detected.delimiter === "\t" ? "tab" : view.report.detected.delimiter}” between columns, “
+              {view.report.detected.decimal}” as decimal mark,{" "}
+              {view.report.detected.format === "wide" ? "one column per flush" : "one row per harvest"}
+              {view.report.detected.dateOrder === "dmy"
+                ? ", dates day first"
+                : view.report.detected.dateOrder === "mdy"
+                  ? ", dates month first"
+                  : ""}
+              .
             </p>
             {view.report.errorCount > 0 ? (
               <Notice tone="danger" title="Fix these before committing">
                 <p>
-                  The file has {view.report.errorCount} error{view.report.errorCount === 1 ? "" : "s"}. Correct them in your spreadsheet and upload the corrected file, or change the
-                  mapping above and check again. Nothing is saved to your blocks until you commit.
+                  The file has {view.report.errorCount} error{view.report.errorCount === 1 ? "" : "s"}. Correct them in your spreadsheet and
+                  upload the corrected file, or change the mapping above and check again. Nothing is saved to your blocks until you commit.
                 </p>
               </Notice>
             ) : null}
@@ -248,7 +272,10 @@ export function SeasonLogUpload() {
               <IssueTable issues={view.report.issues} />
             </div>
             {view.report.issues.length > 0 ? (
-              <a className="mt-3 inline-flex min-h-11 items-center text-sm font-semibold text-moss-700 underline" href={`/api/season-logs/${view.upload.id}/report`}>
+              <a
+                className="mt-3 inline-flex min-h-11 items-center text-sm font-semibold text-moss-700 underline"
+                href={`/api/season-logs/${view.upload.id}/report`}
+              >
                 Download the report (CSV)
               </a>
             ) : null}
@@ -274,8 +301,9 @@ export function SeasonLogUpload() {
               {receipt.fileName} was committed on {receipt.committedAt.slice(0, 16).replace("T", " ")} UTC.
             </p>
             <p>
-              {receipt.counts.newBlocks} new blocks, {receipt.counts.changedBlocks} blocks changed, {receipt.counts.newHarvests} new harvests, {receipt.counts.changedHarvests} harvests
-              changed; {receipt.changedValues} replaced values kept in the blocks’ history.
+              {receipt.counts.newBlocks} new blocks, {receipt.counts.changedBlocks} blocks changed, {receipt.counts.newHarvests} new
+              harvests, {receipt.counts.changedHarvests} harvests changed; {receipt.changedValues} replaced values kept in the blocks’
+              history.
             </p>
           </div>
           <div className="mt-4 flex flex-wrap gap-3">
@@ -313,7 +341,8 @@ function MappingStep(props: {
         {missing.length > 0 ? (
           <Notice tone="caution" title="Columns not found">
             <p>
-              No column was recognised as {missing.join(", ")}. Pick below which of your columns holds {missing.length === 1 ? "it" : "them"}.
+              No column was recognised as {missing.join(", ")}. Pick below which of your columns holds{" "}
+              {missing.length === 1 ? "it" : "them"}.
             </p>
           </Notice>
         ) : null}
@@ -323,7 +352,8 @@ function MappingStep(props: {
             return (
               <div key={column.position} className="space-y-1">
                 <label htmlFor={id} className="block text-sm font-medium">
-                  Column “{column.header}”{column.how === "guess" ? " (a guess: please confirm)" : column.how === "unmatched" ? " (not recognised)" : ""}
+                  Column “{column.header}”
+                  {column.how === "guess" ? " (a guess: please confirm)" : column.how === "unmatched" ? " (not recognised)" : ""}
                 </label>
                 <select
                   id={id}
@@ -346,7 +376,12 @@ function MappingStep(props: {
             <label htmlFor="date-order" className="block text-sm font-medium">
               How are dates written?
             </label>
-            <select id="date-order" value={props.dateOrder} onChange={(event) => props.onDateOrder(event.target.value as "" | "dmy" | "mdy")} className="block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3">
+            <select
+              id="date-order"
+              value={props.dateOrder}
+              onChange={(event) => props.onDateOrder(event.target.value as "" | "dmy" | "mdy")}
+              className="block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3"
+            >
               <option value="">Work it out from the file</option>
               <option value="dmy">Day first (21.03.2026, 21/03/2026)</option>
               <option value="mdy">Month first (03/21/2026)</option>
@@ -356,7 +391,12 @@ function MappingStep(props: {
             <label htmlFor="default-unit" className="block text-sm font-medium">
               Unit for weights written without one
             </label>
-            <select id="default-unit" value={props.unit} onChange={(event) => props.onUnit(event.target.value as "" | MassUnit)} className="block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3">
+            <select
+              id="default-unit"
+              value={props.unit}
+              onChange={(event) => props.onUnit(event.target.value as "" | MassUnit)}
+              className="block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3"
+            >
               <option value="">None: every weight names its unit</option>
               <option value="g">grams (g)</option>
               <option value="kg">kilograms (kg)</option>

@@ -21,7 +21,10 @@ const columns: ColumnDef<UploadSummary, unknown>[] = [
     header: "Original file",
     enableSorting: false,
     cell: ({ row }) => (
-      <a className="inline-flex min-h-11 items-center font-semibold text-moss-700 underline" href={`/api/season-logs/${row.original.id}/file`}>
+      <a
+        className="inline-flex min-h-11 items-center font-semibold text-moss-700 underline"
+        href={`/api/season-logs/${row.original.id}/file`}
+      >
         Download
       </a>
     ),
@@ -29,5 +32,13 @@ const columns: ColumnDef<UploadSummary, unknown>[] = [
 ];
 
 export function UploadHistory({ uploads }: { uploads: UploadSummary[] }) {
-  return <DataTable caption="Past uploads" columns={columns} rows={uploads} emptyMessage="Your farm has not uploaded a season log yet." pageSize={10} />;
+  return (
+    <DataTable
+      caption="Past uploads"
+      columns={columns}
+      rows={uploads}
+      emptyMessage="Your farm has not uploaded a season log yet."
+      pageSize={10}
+    />
+  );
 }

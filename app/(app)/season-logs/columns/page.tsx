@@ -16,7 +16,10 @@ export default async function SeasonLogColumnsPage() {
         title="The shared season-log columns"
         lead={`Version ${seasonLogSchemaVersion}. One row per harvest; the block's columns repeat on each of its rows. A block with no harvest yet gets one row with the flush and weight left blank. Your own header names usually work: we recognise common other names and ask you when we are not sure.`}
       >
-        <a href="/api/season-logs/template" className="inline-flex min-h-11 items-center rounded-lg bg-moss-600 px-4 text-sm font-semibold text-white">
+        <a
+          href="/api/season-logs/template"
+          className="inline-flex min-h-11 items-center rounded-lg bg-moss-600 px-4 text-sm font-semibold text-white"
+        >
           Download the template
         </a>
       </PageHeader>
@@ -26,7 +29,10 @@ export default async function SeasonLogColumnsPage() {
             <li>Weights in g, kg, lb or oz, also “4 lb 3 oz”; a unit in the header, like “Fresh (g)”, applies to the whole column.</li>
             <li>Decimal comma or point (“2,5 kg” or “2.5 kg”), with or without thousands separators.</li>
             <li>Dates as 2026-03-21, 21.03.2026, 21/03/2026 or 03/21/2026; if every date could be read both ways we ask you which.</li>
-            <li>Commas, semicolons or tabs between columns; UTF-8 or Windows text; one column per flush (“Flush 1”, “Flush 2 (oz)”) also works.</li>
+            <li>
+              Commas, semicolons or tabs between columns; UTF-8 or Windows text; one column per flush (“Flush 1”, “Flush 2 (oz)”) also
+              works.
+            </li>
           </ul>
         </Card>
         {seasonLogColumns.map((column) => (
@@ -39,7 +45,12 @@ export default async function SeasonLogColumnsPage() {
               <dt className="text-ink-soft">Required</dt>
               <dd>{requiredWords[column.required]}</dd>
               <dt className="text-ink-soft">Examples</dt>
-              <dd>{column.examples.filter((example) => example !== "").map((example) => `“${example}”`).join(", ") || "blank"}</dd>
+              <dd>
+                {column.examples
+                  .filter((example) => example !== "")
+                  .map((example) => `“${example}”`)
+                  .join(", ") || "blank"}
+              </dd>
               {column.synonyms.length > 0 ? (
                 <>
                   <dt className="text-ink-soft">Also recognised</dt>

@@ -35,7 +35,11 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
   return (
     <>
       <PageHeader title={trial.title} lead={trial.question}>
-        {showResults ? <ButtonLink href={`/trials/${trial.id}/results`}>{trial.status === "published" ? "Read the results" : "See the analysis"}</ButtonLink> : null}
+        {showResults ? (
+          <ButtonLink href={`/trials/${trial.id}/results`}>
+            {trial.status === "published" ? "Read the results" : "See the analysis"}
+          </ButtonLink>
+        ) : null}
       </PageHeader>
       <div className="mb-6 flex flex-wrap items-center gap-3">
         <span className="font-mono text-sm text-ink-soft">{trial.code}</span>
@@ -47,9 +51,7 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
           {coordinator && trial.status !== "draft" ? <CoordinatorFollowing trial={trial} member={member} /> : null}
           <ProtocolSummary trial={trial} />
         </div>
-        <div className="space-y-6">
-          {coordinator ? <CoordinatorControls trial={trial} member={member} /> : null}
-        </div>
+        <div className="space-y-6">{coordinator ? <CoordinatorControls trial={trial} member={member} /> : null}</div>
       </div>
     </>
   );
@@ -57,7 +59,12 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
 
 type Member = Awaited<ReturnType<typeof requirePage>>;
 
-const answerLabels: Record<string, string> = { invited: "No answer yet", accepted: "Taking part", declined: "Declined", dropped: "Dropped out" };
+const answerLabels: Record<string, string> = {
+  invited: "No answer yet",
+  accepted: "Taking part",
+  declined: "Declined",
+  dropped: "Dropped out",
+};
 
 async function CoordinatorControls({ trial, member }: { trial: TrialView; member: Member }) {
   const history = await listTrialHistory(member, trial.id);
@@ -65,9 +72,15 @@ async function CoordinatorControls({ trial, member }: { trial: TrialView; member
   return (
     <>
       <Card title="Move the trial on">
-        {moves.length === 0 ? <p className="text-sm text-ink-soft">This trial is {trialStatusLabels[trial.status].toLowerCase()}; it does not move any more.</p> : null}
+        {moves.length === 0 ? (
+          <p className="text-sm text-ink-soft">This trial is {trialStatusLabels[trial.status].toLowerCase()}; it does not move any more.</p>
+        ) : null}
         <div className="space-y-3">
-          {trial.status === "draft" ? <ButtonLink href={`/trials/${trial.id}/edit`} variant="secondary">Edit the design</ButtonLink> : null}
+          {trial.status === "draft" ? (
+            <ButtonLink href={`/trials/${trial.id}/edit`} variant="secondary">
+              Edit the design
+            </ButtonLink>
+          ) : null}
           {moves.map((to) => (
             <ActionForm
               key={to}
@@ -75,11 +88,19 @@ async function CoordinatorControls({ trial, member }: { trial: TrialView; member
               hidden={{ trialId: trial.id, to }}
               label={moveLabels[to]}
               variant={to === "withdrawn" ? "danger" : "primary"}
-              confirm={to === "withdrawn" ? "Withdraw this trial? It cannot be reopened." : to === "published" ? "Publish the results to every member and observer, and e-mail them?" : undefined}
+              confirm={
+                to === "withdrawn"
+                  ? "Withdraw this trial? It cannot be reopened."
+                  : to === "published"
+                    ? "Publish the results to every member and observer, and e-mail them?"
+                    : undefined
+              }
             />
           ))}
         </div>
-        {trial.status === "running" ? <p className="mt-3 text-sm text-ink-soft">Closing the trial runs the pre-declared analysis on the records received so far.</p> : null}
+        {trial.status === "running" ? (
+          <p className="mt-3 text-sm text-ink-soft">Closing the trial runs the pre-declared analysis on the records received so far.</p>
+        ) : null}
       </Card>
       <Card title="History">
         {history.length === 0 ? (
@@ -88,10 +109,16 @@ async function CoordinatorControls({ trial, member }: { trial: TrialView; member
           <ol className="space-y-2 text-sm" data-testid="trial-history">
             {history.map((event, index) => {
               const details = event.details as { from?: TrialStatus; to?: TrialStatus };
-              const what = event.action === "trial.status_changed" && details.to ? `${trialStatusLabels[details.from!]} → ${trialStatusLabels[details.to]}` : event.action.replace("trial.", "").replaceAll("_", " ");
+              const what =
+                event.action === "trial.status_changed" && details.to
+                  ? `${trialStatusLabels[details.from!]} → ${trialStatusLabels[details.to]}`
+                  : event.action.replace("trial.", "").replaceAll("_", " ");
               return (
                 <li key={index}>
-                  <time dateTime={event.occurredAt.toISOString()} className="text-ink-soft">{event.occurredAt.toISOString().slice(0, 16).replace("T", " ")} UTC</time> · {what} · {event.actorLabel}
+                  <time dateTime={event.occurredAt.toISOString()} className="text-ink-soft">
+                    {event.occurredAt.toISOString().slice(0, 16).replace("T", " ")} UTC
+                  </time>{" "}
+                  · {what} · {event.actorLabel}
                 </li>
               );
             })}
@@ -103,7 +130,10 @@ async function CoordinatorControls({ trial, member }: { trial: TrialView; member
 }
 
 async function CoordinatorFollowing({ trial, member }: { trial: TrialView; member: Member }) {
-  const [progress, invitable] = await Promise.all([listTrialProgress(member, trial), trial.status === "open" ? listInvitableFarms(member, trial.id) : Promise.resolve([])]);
+  const [progress, invitable] = await Promise.all([
+    listTrialProgress(member, trial),
+    trial.status === "open" ? listInvitableFarms(member, trial.id) : Promise.resolve([]),
+  ]);
   const flushHeaders = Array.from({ length: trial.outcomeFlushes }, (_, index) => `Flush ${index + 1}`);
   const canRemind = trial.status === "running" || trial.status === "collecting";
   return (
@@ -136,30 +166,47 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
             <table className="w-full min-w-[36rem] text-sm" data-testid="progress-table">
               <thead>
                 <tr className="text-left">
-                  <th scope="col" className="py-2">Farm</th>
+                  <th scope="col" className="py-2">
+                    Farm
+                  </th>
                   <th scope="col">Answer</th>
                   <th scope="col">Listed</th>
                   <th scope="col">Made</th>
                   <th scope="col">Fruiting</th>
-                  {flushHeaders.map((header) => <th key={header} scope="col">{header}</th>)}
+                  {flushHeaders.map((header) => (
+                    <th key={header} scope="col">
+                      {header}
+                    </th>
+                  ))}
                   <th scope="col">Contaminated</th>
-                  <th scope="col"><span className="sr-only">Reminder</span></th>
+                  <th scope="col">
+                    <span className="sr-only">Reminder</span>
+                  </th>
                 </tr>
               </thead>
               <tbody>
                 {progress.map((row) => (
                   <tr key={row.farmId} className="border-t border-oat-300 align-top">
-                    <th scope="row" className="py-2 text-left font-medium">{row.farmName}</th>
+                    <th scope="row" className="py-2 text-left font-medium">
+                      {row.farmName}
+                    </th>
                     <td>{answerLabels[row.status]}</td>
                     <td>{row.progress.blocksListed}</td>
                     <td>{row.progress.blocksMade}</td>
                     <td>{row.progress.fruiting}</td>
-                    {row.progress.flushesRecorded.map((count, index) => <td key={index}>{count}</td>)}
+                    {row.progress.flushesRecorded.map((count, index) => (
+                      <td key={index}>{count}</td>
+                    ))}
                     <td>{row.progress.contaminated}</td>
                     <td className="py-1">
                       {canRemind && row.behind ? (
                         row.remindersAllowed ? (
-                          <ActionForm action={sendReminderAction} hidden={{ trialId: trial.id, farmId: row.farmId }} label="Send a reminder" variant="secondary" />
+                          <ActionForm
+                            action={sendReminderAction}
+                            hidden={{ trialId: trial.id, farmId: row.farmId }}
+                            label="Send a reminder"
+                            variant="secondary"
+                          />
                         ) : (
                           <span className="text-ink-soft">Asked for no reminders</span>
                         )
@@ -188,33 +235,57 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
     if (!can(member.role, "trial:enrol")) return <Notice>Your farm is invited; your farm manager answers for the farm.</Notice>;
     return (
       <Card title="Your farm is invited">
-        <p className="mb-3 text-sm">Accepting commits your farm to make the same number of blocks for every arm ({trial.arms.length} arms). Rhizomorph then gives you a randomised list of block codes to label your bags with.</p>
+        <p className="mb-3 text-sm">
+          Accepting commits your farm to make the same number of blocks for every arm ({trial.arms.length} arms). Rhizomorph then gives you
+          a randomised list of block codes to label your bags with.
+        </p>
         <div className="flex flex-wrap items-end gap-6">
           <ActionForm action={respondToInvitationAction} hidden={{ trialId: trial.id, answer: "accept" }} label="Accept and make our list">
             <div className="space-y-1">
-              <label htmlFor="blocksPerArm" className="block text-sm font-medium">Blocks per arm</label>
-              <input id="blocksPerArm" name="blocksPerArm" inputMode="numeric" defaultValue={String(suggestedBlocksPerArm(trial))} required className="block min-h-11 w-32 rounded-lg border border-oat-300 px-3 py-2" />
+              <label htmlFor="blocksPerArm" className="block text-sm font-medium">
+                Blocks per arm
+              </label>
+              <input
+                id="blocksPerArm"
+                name="blocksPerArm"
+                inputMode="numeric"
+                defaultValue={String(suggestedBlocksPerArm(trial))}
+                required
+                className="block min-h-11 w-32 rounded-lg border border-oat-300 px-3 py-2"
+              />
             </div>
           </ActionForm>
-          <ActionForm action={respondToInvitationAction} hidden={{ trialId: trial.id, answer: "decline" }} label="Decline" variant="secondary" confirm="Decline this trial for your farm?" />
+          <ActionForm
+            action={respondToInvitationAction}
+            hidden={{ trialId: trial.id, answer: "decline" }}
+            label="Decline"
+            variant="secondary"
+            confirm="Decline this trial for your farm?"
+          />
         </div>
       </Card>
     );
   }
-  if (enrolment.status !== "accepted") return <Notice>Your farm is not taking part in this trial ({answerLabels[enrolment.status].toLowerCase()}).</Notice>;
+  if (enrolment.status !== "accepted")
+    return <Notice>Your farm is not taking part in this trial ({answerLabels[enrolment.status].toLowerCase()}).</Notice>;
   const progress = await getOwnProgress(member, trial);
   const due = progress ? dueItems(progress) : [];
   return (
     <Card title="Your farm's part">
       <p className="text-sm">
-        {enrolment.blocksPerArm} blocks per arm. Randomised from seed <code className="break-all font-mono text-xs">{enrolment.randomisationSeed}</code>, so the list can be checked.
+        {enrolment.blocksPerArm} blocks per arm. Randomised from seed{" "}
+        <code className="break-all font-mono text-xs">{enrolment.randomisationSeed}</code>, so the list can be checked.
         {enrolment.remindersAllowed ? "" : " You asked not to get reminders."}
       </p>
       <div className="my-4 flex flex-wrap gap-3">
         {can(member.role, "trial-list:download") ? (
           <>
             <ButtonLink href={`/trials/${trial.id}/labels`}>Label sheet</ButtonLink>
-            <a href={`/api/trials/${trial.id}/list`} className="inline-flex min-h-11 items-center justify-center rounded-lg border border-moss-600 bg-white px-4 py-2 text-sm font-semibold text-moss-700 hover:bg-moss-50" download>
+            <a
+              href={`/api/trials/${trial.id}/list`}
+              className="inline-flex min-h-11 items-center justify-center rounded-lg border border-moss-600 bg-white px-4 py-2 text-sm font-semibold text-moss-700 hover:bg-moss-50"
+              download
+            >
               Download the list (CSV)
             </a>
           </>
@@ -222,20 +293,45 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
       </div>
       {progress ? (
         <dl className="grid grid-cols-2 gap-2 text-sm sm:grid-cols-4" data-testid="own-progress">
-          <div><dt className="text-ink-soft">Listed</dt><dd className="text-lg font-semibold">{progress.blocksListed}</dd></div>
-          <div><dt className="text-ink-soft">In your season log</dt><dd className="text-lg font-semibold">{progress.blocksMade}</dd></div>
-          <div><dt className="text-ink-soft">Fruiting</dt><dd className="text-lg font-semibold">{progress.fruiting}</dd></div>
-          <div><dt className="text-ink-soft">Contaminated</dt><dd className="text-lg font-semibold">{progress.contaminated}</dd></div>
+          <div>
+            <dt className="text-ink-soft">Listed</dt>
+            <dd className="text-lg font-semibold">{progress.blocksListed}</dd>
+          </div>
+          <div>
+            <dt className="text-ink-soft">In your season log</dt>
+            <dd className="text-lg font-semibold">{progress.blocksMade}</dd>
+          </div>
+          <div>
+            <dt className="text-ink-soft">Fruiting</dt>
+            <dd className="text-lg font-semibold">{progress.fruiting}</dd>
+          </div>
+          <div>
+            <dt className="text-ink-soft">Contaminated</dt>
+            <dd className="text-lg font-semibold">{progress.contaminated}</dd>
+          </div>
         </dl>
       ) : null}
       <h3 className="mt-4 font-semibold">Still due</h3>
       {due.length ? (
-        <ul className="list-disc pl-5 text-sm">{due.map((item) => <li key={item}>{item}</li>)}</ul>
+        <ul className="list-disc pl-5 text-sm">
+          {due.map((item) => (
+            <li key={item}>{item}</li>
+          ))}
+        </ul>
       ) : (
         <p className="text-sm text-ink-soft">Nothing due right now.</p>
       )}
-      {progress && progress.contaminated > 0 ? <div className="mt-4"><Caution which="spores" /></div> : null}
-      <p className="mt-3 text-sm text-ink-soft">Upload your season log with these block codes and the blocks attach to the trial. <Link className="underline" href="/season-logs">Season logs</Link></p>
+      {progress && progress.contaminated > 0 ? (
+        <div className="mt-4">
+          <Caution which="spores" />
+        </div>
+      ) : null}
+      <p className="mt-3 text-sm text-ink-soft">
+        Upload your season log with these block codes and the blocks attach to the trial.{" "}
+        <Link className="underline" href="/season-logs">
+          Season logs
+        </Link>
+      </p>
     </Card>
   );
 }
@@ -243,6 +339,12 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
 /** What the coordinator's plan asks of each farm at 80 % power, or 6 when the plan has no figures. */
 function suggestedBlocksPerArm(trial: TrialView): number {
   if (!trial.smallestDifference || !trial.expectedSd || !trial.plannedFarms) return 6;
-  const panel = trialSampleSize({ difference: trial.smallestDifference, sd: trial.expectedSd, plannedFarms: trial.plannedFarms, expectedLoss: trial.expectedLoss ?? 0, arms: trial.arms.length });
+  const panel = trialSampleSize({
+    difference: trial.smallestDifference,
+    sd: trial.expectedSd,
+    plannedFarms: trial.plannedFarms,
+    expectedLoss: trial.expectedLoss ?? 0,
+    arms: trial.arms.length,
+  });
   return panel.ok ? panel.rows[0].perFarmPerArm : 6;
 }

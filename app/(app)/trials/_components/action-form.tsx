@@ -45,7 +45,11 @@ export function ActionForm({
             ? Object.values(state.fieldErrors)
                 .flat()
                 .filter((message) => message !== state.message)
-                .map((message) => <span key={message} className="block">{message}</span>)
+                .map((message) => (
+                  <span key={message} className="block">
+                    {message}
+                  </span>
+                ))
             : null}
         </p>
       ) : null}

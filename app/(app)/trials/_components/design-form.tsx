@@ -38,7 +38,8 @@ export interface DesignValues {
   expectedLossPercent: string;
 }
 
-const inputClass = "block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3 py-2 text-base text-ink shadow-inner focus:border-moss-600";
+const inputClass =
+  "block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3 py-2 text-base text-ink shadow-inner focus:border-moss-600";
 
 function Errors({ name, errors }: { name: string; errors?: string[] }) {
   if (!errors?.length) return null;
@@ -64,19 +65,33 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
   const [farms, setFarms] = useState(initial.plannedFarms);
   const [loss, setLoss] = useState(initial.expectedLossPercent);
   const errors = state.fieldErrors ?? {};
-  const armErrors = Object.entries(errors).filter(([field]) => field.startsWith("arms")).flatMap(([, messages]) => messages);
+  const armErrors = Object.entries(errors)
+    .filter(([field]) => field.startsWith("arms"))
+    .flatMap(([, messages]) => messages);
 
   const speciesStrains = options.strains.filter((strain) => strain.speciesId === speciesId);
   const spread = options.spreadBySpecies[speciesId];
   const panel = useMemo(
-    () => trialSampleSize({ difference: toNumber(difference), sd: toNumber(sd), plannedFarms: toNumber(farms), expectedLoss: toNumber(loss) / 100, arms: arms.length }),
+    () =>
+      trialSampleSize({
+        difference: toNumber(difference),
+        sd: toNumber(sd),
+        plannedFarms: toNumber(farms),
+        expectedLoss: toNumber(loss) / 100,
+        arms: arms.length,
+      }),
     [difference, sd, farms, loss, arms.length],
   );
   const humidityArm = arms.some((arm) => options.treatments.find((treatment) => treatment.id === arm.treatmentId)?.kind === "humidity");
 
   function chooseSpecies(id: string) {
     setSpeciesId(id);
-    setArms((current) => current.map((arm) => ({ ...arm, strainId: options.strains.some((strain) => strain.id === arm.strainId && strain.speciesId === id) ? arm.strainId : "" })));
+    setArms((current) =>
+      current.map((arm) => ({
+        ...arm,
+        strainId: options.strains.some((strain) => strain.id === arm.strainId && strain.speciesId === id) ? arm.strainId : "",
+      })),
+    );
     const prefill = options.spreadBySpecies[id];
     if (prefill && !sdTouched) setSd(prefill.sd.toFixed(1));
   }
@@ -91,30 +106,57 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
   }
 
   return (
-    <form action={formAction} className="grid gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]" aria-describedby={state.status === "error" ? "design-message" : undefined}>
+    <form
+      action={formAction}
+      className="grid gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]"
+      aria-describedby={state.status === "error" ? "design-message" : undefined}
+    >
       <input type="hidden" name="trialId" value={initial.trialId ?? ""} />
       <input type="hidden" name="arms" value={JSON.stringify(arms)} />
       <div className="space-y-6">
         {state.status !== "idle" && state.message ? (
           <Notice tone={state.status === "error" ? "danger" : "info"} id="design-message">
             <p>{state.message}</p>
-            {errors.form?.map((error) => <p key={error}>{error}</p>)}
+            {errors.form?.map((error) => (
+              <p key={error}>{error}</p>
+            ))}
           </Notice>
         ) : null}
         <Card title="The question">
           <div className="space-y-4">
             <Field label="Title" name="title" defaultValue={initial.title} errors={errors.title} required />
             <div className="space-y-1">
-              <label htmlFor="question" className="block text-sm font-medium text-ink">The question, in one sentence</label>
-              <textarea id="question" name="question" defaultValue={initial.question} rows={2} className={inputClass} aria-describedby={errors.question ? "question-errors" : undefined} aria-invalid={errors.question ? true : undefined} />
+              <label htmlFor="question" className="block text-sm font-medium text-ink">
+                The question, in one sentence
+              </label>
+              <textarea
+                id="question"
+                name="question"
+                defaultValue={initial.question}
+                rows={2}
+                className={inputClass}
+                aria-describedby={errors.question ? "question-errors" : undefined}
+                aria-invalid={errors.question ? true : undefined}
+              />
               <Errors name="question" errors={errors.question} />
             </div>
             <div className="space-y-1">
-              <label htmlFor="speciesId" className="block text-sm font-medium text-ink">Species</label>
-              <select id="speciesId" name="speciesId" value={speciesId} onChange={(event) => chooseSpecies(event.target.value)} className={inputClass} aria-describedby={errors.speciesId ? "speciesId-errors" : undefined}>
+              <label htmlFor="speciesId" className="block text-sm font-medium text-ink">
+                Species
+              </label>
+              <select
+                id="speciesId"
+                name="speciesId"
+                value={speciesId}
+                onChange={(event) => chooseSpecies(event.target.value)}
+                className={inputClass}
+                aria-describedby={errors.speciesId ? "speciesId-errors" : undefined}
+              >
                 <option value="">Pick a species…</option>
                 {options.species.map((option) => (
-                  <option key={option.id} value={option.id}>{option.name}</option>
+                  <option key={option.id} value={option.id}>
+                    {option.name}
+                  </option>
                 ))}
               </select>
               <Errors name="speciesId" errors={errors.speciesId} />
@@ -123,40 +165,82 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
         </Card>
 
         <Card title="Arms">
-          <p className="mb-3 text-sm text-ink-soft">Each arm is a strain, or a strain with a treatment such as a fruiting method or humidity regime. Mark the one the others are compared with as the reference.</p>
+          <p className="mb-3 text-sm text-ink-soft">
+            Each arm is a strain, or a strain with a treatment such as a fruiting method or humidity regime. Mark the one the others are
+            compared with as the reference.
+          </p>
           <fieldset className="space-y-4" aria-describedby={armErrors.length ? "arms-errors" : undefined}>
             <legend className="sr-only">Arms of the trial</legend>
             {arms.map((arm, index) => (
-              <div key={index} className="grid gap-3 rounded-lg border border-oat-300 p-3 sm:grid-cols-[6rem_1fr_1fr]" data-testid="arm-row">
+              <div
+                key={index}
+                className="grid gap-3 rounded-lg border border-oat-300 p-3 sm:grid-cols-[6rem_1fr_1fr]"
+                data-testid="arm-row"
+              >
                 <div className="space-y-1">
-                  <label htmlFor={`arm-${index}-label`} className="block text-sm font-medium">Label</label>
-                  <input id={`arm-${index}-label`} value={arm.label} onChange={(event) => updateArm(index, { label: event.target.value })} className={inputClass} />
+                  <label htmlFor={`arm-${index}-label`} className="block text-sm font-medium">
+                    Label
+                  </label>
+                  <input
+                    id={`arm-${index}-label`}
+                    value={arm.label}
+                    onChange={(event) => updateArm(index, { label: event.target.value })}
+                    className={inputClass}
+                  />
                 </div>
                 <div className="space-y-1">
-                  <label htmlFor={`arm-${index}-strain`} className="block text-sm font-medium">Strain</label>
-                  <select id={`arm-${index}-strain`} value={arm.strainId} onChange={(event) => updateArm(index, { strainId: event.target.value })} className={inputClass}>
+                  <label htmlFor={`arm-${index}-strain`} className="block text-sm font-medium">
+                    Strain
+                  </label>
+                  <select
+                    id={`arm-${index}-strain`}
+                    value={arm.strainId}
+                    onChange={(event) => updateArm(index, { strainId: event.target.value })}
+                    className={inputClass}
+                  >
                     <option value="">{speciesId ? "Pick a strain…" : "Pick the species first"}</option>
                     {speciesStrains.map((strain) => (
-                      <option key={strain.id} value={strain.id}>{strain.code} — {strain.name}</option>
+                      <option key={strain.id} value={strain.id}>
+                        {strain.code} — {strain.name}
+                      </option>
                     ))}
                   </select>
                 </div>
                 <div className="space-y-1">
-                  <label htmlFor={`arm-${index}-treatment`} className="block text-sm font-medium">Treatment (optional)</label>
-                  <select id={`arm-${index}-treatment`} value={arm.treatmentId} onChange={(event) => updateArm(index, { treatmentId: event.target.value })} className={inputClass}>
+                  <label htmlFor={`arm-${index}-treatment`} className="block text-sm font-medium">
+                    Treatment (optional)
+                  </label>
+                  <select
+                    id={`arm-${index}-treatment`}
+                    value={arm.treatmentId}
+                    onChange={(event) => updateArm(index, { treatmentId: event.target.value })}
+                    className={inputClass}
+                  >
                     <option value="">None</option>
                     {options.treatments.map((treatment) => (
-                      <option key={treatment.id} value={treatment.id}>{treatment.name}</option>
+                      <option key={treatment.id} value={treatment.id}>
+                        {treatment.name}
+                      </option>
                     ))}
                   </select>
                 </div>
                 <div className="flex flex-wrap items-center gap-4 sm:col-span-3">
                   <label className="flex min-h-11 items-center gap-2 text-sm">
-                    <input type="radio" name="reference-arm" checked={arm.isReference} onChange={() => updateArm(index, { isReference: true })} className="h-5 w-5" />
+                    <input
+                      type="radio"
+                      name="reference-arm"
+                      checked={arm.isReference}
+                      onChange={() => updateArm(index, { isReference: true })}
+                      className="h-5 w-5"
+                    />
                     Reference arm
                   </label>
                   {arms.length > 2 ? (
-                    <Button type="button" variant="secondary" onClick={() => setArms((current) => current.filter((_, position) => position !== index))}>
+                    <Button
+                      type="button"
+                      variant="secondary"
+                      onClick={() => setArms((current) => current.filter((_, position) => position !== index))}
+                    >
                       Remove arm {arm.label || index + 1}
                     </Button>
                   ) : null}
@@ -168,49 +252,103 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
               type="button"
               variant="secondary"
               disabled={arms.length >= 8}
-              onClick={() => setArms((current) => [...current, { label: String.fromCharCode(65 + current.length), strainId: "", treatmentId: "", isReference: false }])}
+              onClick={() =>
+                setArms((current) => [
+                  ...current,
+                  { label: String.fromCharCode(65 + current.length), strainId: "", treatmentId: "", isReference: false },
+                ])
+              }
             >
               Add an arm
             </Button>
           </fieldset>
-          {humidityArm ? <div className="mt-4"><Caution which="humidifiers" /></div> : null}
+          {humidityArm ? (
+            <div className="mt-4">
+              <Caution which="humidifiers" />
+            </div>
+          ) : null}
         </Card>
 
         <Card title="Outcome, decided in advance">
           <div className="grid gap-4 sm:grid-cols-2">
-            <Field label="Biological efficiency over flushes 1 to" name="outcomeFlushes" type="number" min={1} max={6} defaultValue={initial.outcomeFlushes} errors={errors.outcomeFlushes} />
+            <Field
+              label="Biological efficiency over flushes 1 to"
+              name="outcomeFlushes"
+              type="number"
+              min={1}
+              max={6}
+              defaultValue={initial.outcomeFlushes}
+              errors={errors.outcomeFlushes}
+            />
             <div className="space-y-1">
-              <label htmlFor="contaminatedHandling" className="block text-sm font-medium text-ink">Contaminated blocks</label>
-              <select id="contaminatedHandling" name="contaminatedHandling" defaultValue={initial.contaminatedHandling} className={inputClass}>
+              <label htmlFor="contaminatedHandling" className="block text-sm font-medium text-ink">
+                Contaminated blocks
+              </label>
+              <select
+                id="contaminatedHandling"
+                name="contaminatedHandling"
+                defaultValue={initial.contaminatedHandling}
+                className={inputClass}
+              >
                 <option value="exclude">are left out of the BE comparison</option>
                 <option value="count_as_zero">count as 0 % BE</option>
               </select>
               <Errors name="contaminatedHandling" errors={errors.contaminatedHandling} />
             </div>
           </div>
-          <p className="mt-3 text-sm text-ink-soft">The contamination rate of each arm is reported as a second outcome, with its interval.</p>
+          <p className="mt-3 text-sm text-ink-soft">
+            The contamination rate of each arm is reported as a second outcome, with its interval.
+          </p>
         </Card>
 
         <Card title="Protocol">
           <div className="space-y-4">
             <div className="space-y-1">
-              <label htmlFor="protocolNotes" className="block text-sm font-medium text-ink">Protocol notes</label>
-              <textarea id="protocolNotes" name="protocolNotes" defaultValue={initial.protocolNotes} rows={4} className={inputClass} placeholder="Block mass and recipe, spawn rate, fruiting conditions…" />
+              <label htmlFor="protocolNotes" className="block text-sm font-medium text-ink">
+                Protocol notes
+              </label>
+              <textarea
+                id="protocolNotes"
+                name="protocolNotes"
+                defaultValue={initial.protocolNotes}
+                rows={4}
+                className={inputClass}
+                placeholder="Block mass and recipe, spawn rate, fruiting conditions…"
+              />
               <Errors name="protocolNotes" errors={errors.protocolNotes} />
             </div>
-            <Field label="Enrolment deadline" name="enrolmentDeadline" type="date" defaultValue={initial.enrolmentDeadline} errors={errors.enrolmentDeadline} />
+            <Field
+              label="Enrolment deadline"
+              name="enrolmentDeadline"
+              type="date"
+              defaultValue={initial.enrolmentDeadline}
+              errors={errors.enrolmentDeadline}
+            />
           </div>
         </Card>
         <div className="flex flex-wrap gap-3">
-          <Button type="submit" name="intent" value="save" disabled={pending}>{pending ? "Saving…" : "Save draft"}</Button>
-          {initial.trialId ? <Button type="submit" name="intent" value="save-and-view" variant="secondary" disabled={pending}>Save and view the trial</Button> : null}
+          <Button type="submit" name="intent" value="save" disabled={pending}>
+            {pending ? "Saving…" : "Save draft"}
+          </Button>
+          {initial.trialId ? (
+            <Button type="submit" name="intent" value="save-and-view" variant="secondary" disabled={pending}>
+              Save and view the trial
+            </Button>
+          ) : null}
         </div>
       </div>
 
       <aside className="lg:sticky lg:top-6 lg:self-start">
         <Card title="How many blocks?">
           <div className="space-y-4">
-            <Field label="Smallest difference worth finding (BE points)" name="smallestDifference" inputMode="decimal" value={difference} onChange={(event) => setDifference(event.target.value)} errors={errors.smallestDifference} />
+            <Field
+              label="Smallest difference worth finding (BE points)"
+              name="smallestDifference"
+              inputMode="decimal"
+              value={difference}
+              onChange={(event) => setDifference(event.target.value)}
+              errors={errors.smallestDifference}
+            />
             <Field
               label="Expected spread between blocks (SD, BE points)"
               name="expectedSd"
@@ -220,18 +358,40 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
                 setSd(event.target.value);
                 setSdTouched(true);
               }}
-              hint={spread ? `The co-op's blocks of this species vary by ${spread.sd.toFixed(1)} BE points within a farm (${spread.blocks} blocks, ${spread.farms} farms).` : "No pooled figure for this species yet: give your best guess."}
+              hint={
+                spread
+                  ? `The co-op's blocks of this species vary by ${spread.sd.toFixed(1)} BE points within a farm (${spread.blocks} blocks, ${spread.farms} farms).`
+                  : "No pooled figure for this species yet: give your best guess."
+              }
               errors={errors.expectedSd}
             />
-            <Field label="Farms you plan to enrol" name="plannedFarms" inputMode="numeric" value={farms} onChange={(event) => setFarms(event.target.value)} errors={errors.plannedFarms} />
-            <Field label="Blocks expected to be lost (%)" name="expectedLossPercent" inputMode="decimal" value={loss} onChange={(event) => setLoss(event.target.value)} errors={errors.expectedLossPercent} />
+            <Field
+              label="Farms you plan to enrol"
+              name="plannedFarms"
+              inputMode="numeric"
+              value={farms}
+              onChange={(event) => setFarms(event.target.value)}
+              errors={errors.plannedFarms}
+            />
+            <Field
+              label="Blocks expected to be lost (%)"
+              name="expectedLossPercent"
+              inputMode="decimal"
+              value={loss}
+              onChange={(event) => setLoss(event.target.value)}
+              errors={errors.expectedLossPercent}
+            />
             <div aria-live="polite" data-testid="sample-size-panel">
               {panel.ok ? (
                 <table className="w-full text-sm">
-                  <caption className="mb-2 text-left text-ink-soft">Blocks to make, for each comparison with the reference (two-sided, 5 % level)</caption>
+                  <caption className="mb-2 text-left text-ink-soft">
+                    Blocks to make, for each comparison with the reference (two-sided, 5 % level)
+                  </caption>
                   <thead>
                     <tr className="text-left">
-                      <th scope="col" className="py-1">Power</th>
+                      <th scope="col" className="py-1">
+                        Power
+                      </th>
                       <th scope="col">Per arm</th>
                       <th scope="col">Per farm per arm</th>
                       <th scope="col">In all</th>
@@ -240,7 +400,9 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
                   <tbody>
                     {panel.rows.map((row) => (
                       <tr key={row.power} className="border-t border-oat-300" data-testid={`power-${Math.round(row.power * 100)}`}>
-                        <th scope="row" className="py-2 text-left">{Math.round(row.power * 100)} %</th>
+                        <th scope="row" className="py-2 text-left">
+                          {Math.round(row.power * 100)} %
+                        </th>
                         <td data-testid="per-arm">{row.perArmToMake}</td>
                         <td>{row.perFarmPerArm}</td>
                         <td>{row.totalBlocks}</td>
@@ -253,7 +415,8 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
               )}
               {panel.ok ? (
                 <p className="mt-2 text-xs text-ink-soft">
-                  The t test needs {panel.rows[0].exactPerArm.toFixed(1)} blocks per arm for 80 % power; the figures allow for the expected loss and give every farm the same whole number.
+                  The t test needs {panel.rows[0].exactPerArm.toFixed(1)} blocks per arm for 80 % power; the figures allow for the expected
+                  loss and give every farm the same whole number.
                 </p>
               ) : null}
             </div>

@@ -8,38 +8,66 @@ export function ProtocolSummary({ trial }: { trial: TrialView }) {
   return (
     <Card title="Protocol as declared">
       <dl className="grid gap-3 text-sm sm:grid-cols-2">
-        <div><dt className="text-ink-soft">Species</dt><dd>{trial.speciesName}</dd></div>
+        <div>
+          <dt className="text-ink-soft">Species</dt>
+          <dd>{trial.speciesName}</dd>
+        </div>
         <div>
           <dt className="text-ink-soft">Outcome</dt>
           <dd>
-            Biological efficiency over flushes 1–{trial.outcomeFlushes}; contaminated blocks {trial.contaminatedHandling === "exclude" ? "left out" : "count as 0 %"}. Contamination rate by arm as a second outcome.
+            Biological efficiency over flushes 1–{trial.outcomeFlushes}; contaminated blocks{" "}
+            {trial.contaminatedHandling === "exclude" ? "left out" : "count as 0 %"}. Contamination rate by arm as a second outcome.
           </dd>
         </div>
-        {trial.enrolmentDeadline ? <div><dt className="text-ink-soft">Enrolment deadline</dt><dd>{trial.enrolmentDeadline}</dd></div> : null}
+        {trial.enrolmentDeadline ? (
+          <div>
+            <dt className="text-ink-soft">Enrolment deadline</dt>
+            <dd>{trial.enrolmentDeadline}</dd>
+          </div>
+        ) : null}
         {trial.smallestDifference && trial.expectedSd ? (
           <div>
             <dt className="text-ink-soft">Planned to detect</dt>
-            <dd>{trial.smallestDifference} BE points with blocks varying by {trial.expectedSd}{trial.plannedFarms ? `, on ${trial.plannedFarms} farms` : ""}{trial.expectedLoss !== null ? `, ${Math.round(trial.expectedLoss * 100)} % loss expected` : ""}</dd>
+            <dd>
+              {trial.smallestDifference} BE points with blocks varying by {trial.expectedSd}
+              {trial.plannedFarms ? `, on ${trial.plannedFarms} farms` : ""}
+              {trial.expectedLoss !== null ? `, ${Math.round(trial.expectedLoss * 100)} % loss expected` : ""}
+            </dd>
           </div>
         ) : null}
       </dl>
       <table className="mt-4 w-full text-sm">
         <caption className="mb-1 text-left font-semibold">Arms</caption>
         <thead>
-          <tr className="text-left"><th scope="col" className="py-1">Arm</th><th scope="col">Strain</th><th scope="col">Treatment</th></tr>
+          <tr className="text-left">
+            <th scope="col" className="py-1">
+              Arm
+            </th>
+            <th scope="col">Strain</th>
+            <th scope="col">Treatment</th>
+          </tr>
         </thead>
         <tbody>
           {trial.arms.map((arm) => (
             <tr key={arm.id} className="border-t border-oat-300">
-              <th scope="row" className="py-2 text-left">{arm.label}{arm.isReference ? " (reference)" : ""}</th>
-              <td>{arm.strainCode} — {arm.strainName}</td>
+              <th scope="row" className="py-2 text-left">
+                {arm.label}
+                {arm.isReference ? " (reference)" : ""}
+              </th>
+              <td>
+                {arm.strainCode} — {arm.strainName}
+              </td>
               <td>{arm.treatmentName ?? "—"}</td>
             </tr>
           ))}
         </tbody>
       </table>
       {trial.protocolNotes ? <p className="mt-4 whitespace-pre-line text-sm">{trial.protocolNotes}</p> : null}
-      {humidity ? <div className="mt-4"><Caution which="humidifiers" /></div> : null}
+      {humidity ? (
+        <div className="mt-4">
+          <Caution which="humidifiers" />
+        </div>
+      ) : null}
     </Card>
   );
 }

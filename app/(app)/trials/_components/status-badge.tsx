@@ -10,5 +10,9 @@ const tones: Record<TrialStatus, string> = {
 };
 
 export function StatusBadge({ status }: { status: TrialStatus }) {
-  return <span data-testid="trial-status" className={`inline-block rounded-full px-3 py-1 text-xs font-semibold ${tones[status]}`}>{trialStatusLabels[status]}</span>;
+  return (
+    <span data-testid="trial-status" className={`inline-block rounded-full px-3 py-1 text-xs font-semibold ${tones[status]}`}>
+      {trialStatusLabels[status]}
+    </span>
+  );
 }

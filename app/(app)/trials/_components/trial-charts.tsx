@@ -19,13 +19,20 @@ export function ArmBoxplot({ arms }: { arms: { label: string; summary: Descripti
   const height = shown.length * rowHeight + 40;
   return (
     <figure className="overflow-x-auto" tabIndex={0}>
-      <svg viewBox={`0 0 ${width} ${height}`} className="h-auto w-full min-w-[30rem]" role="img" aria-label="Biological efficiency by arm, boxplot">
+      <svg
+        viewBox={`0 0 ${width} ${height}`}
+        className="h-auto w-full min-w-[30rem]"
+        role="img"
+        aria-label="Biological efficiency by arm, boxplot"
+      >
         {shown.map((arm, index) => {
           const y = 20 + index * rowHeight;
           const s = arm.summary;
           return (
             <g key={arm.label}>
-              <text x={8} y={y + 20} className="fill-ink text-[13px]">Arm {arm.label}</text>
+              <text x={8} y={y + 20} className="fill-ink text-[13px]">
+                Arm {arm.label}
+              </text>
               <line x1={x(s.min)} x2={x(s.max)} y1={y + 16} y2={y + 16} stroke="#44544f" />
               <rect x={x(s.q1)} y={y + 4} width={Math.max(1, x(s.q3) - x(s.q1))} height={24} fill="#dce9e3" stroke="#244b3e" />
               <line x1={x(s.median)} x2={x(s.median)} y1={y + 4} y2={y + 28} stroke="#1b392f" strokeWidth={3} />
@@ -34,11 +41,18 @@ export function ArmBoxplot({ arms }: { arms: { label: string; summary: Descripti
         })}
         <line x1={left} x2={width - 20} y1={height - 18} y2={height - 18} stroke="#44544f" />
         {[from, (from + to) / 2, to].map((tick) => (
-          <text key={tick} x={x(tick)} y={height - 4} textAnchor="middle" className="fill-ink-soft text-[11px]">{fmt(tick)} %</text>
+          <text key={tick} x={x(tick)} y={height - 4} textAnchor="middle" className="fill-ink-soft text-[11px]">
+            {fmt(tick)} %
+          </text>
         ))}
       </svg>
       <figcaption className="text-sm text-ink-soft">
-        {shown.map((arm) => `Arm ${arm.label}: median ${fmt(arm.summary.median)} %, middle half ${fmt(arm.summary.q1)}–${fmt(arm.summary.q3)} %`).join("; ")}.
+        {shown
+          .map(
+            (arm) => `Arm ${arm.label}: median ${fmt(arm.summary.median)} %, middle half ${fmt(arm.summary.q1)}–${fmt(arm.summary.q3)} %`,
+          )
+          .join("; ")}
+        .
       </figcaption>
     </figure>
   );
@@ -47,8 +61,26 @@ export function ArmBoxplot({ arms }: { arms: { label: string; summary: Descripti
 /** Each farm's difference against the reference arm with its 95 % interval, and the pooled estimate. */
 export function TrialForestChart({ pooling, reference }: { pooling: PooledDifference; reference: string }) {
   const rows = [
-    ...pooling.farms.map((farm) => ({ label: farm.farm, estimate: farm.estimate, lower: farm.lower, upper: farm.upper, own: false, pooled: false })),
-    ...(pooling.pooled ? [{ label: "All farms", estimate: pooling.pooled.estimate, lower: pooling.pooled.lower, upper: pooling.pooled.upper, own: false, pooled: true }] : []),
+    ...pooling.farms.map((farm) => ({
+      label: farm.farm,
+      estimate: farm.estimate,
+      lower: farm.lower,
+      upper: farm.upper,
+      own: false,
+      pooled: false,
+    })),
+    ...(pooling.pooled
+      ? [
+          {
+            label: "All farms",
+            estimate: pooling.pooled.estimate,
+            lower: pooling.pooled.lower,
+            upper: pooling.pooled.upper,
+            own: false,
+            pooled: true,
+          },
+        ]
+      : []),
   ];
   if (!rows.length) return <p className="text-sm text-ink-soft">{pooling.note ?? "No farm ran both arms."}</p>;
   const pooled = pooling.pooled

@@ -24,7 +24,12 @@ export default async function EditTrialPage({ params }: { params: Promise<{ tria
           title: trial.title,
           question: trial.question,
           speciesId: trial.speciesId,
-          arms: trial.arms.map((arm) => ({ label: arm.label, strainId: arm.strainId, treatmentId: arm.treatmentId ?? "", isReference: arm.isReference })),
+          arms: trial.arms.map((arm) => ({
+            label: arm.label,
+            strainId: arm.strainId,
+            treatmentId: arm.treatmentId ?? "",
+            isReference: arm.isReference,
+          })),
           outcomeFlushes: trial.outcomeFlushes,
           contaminatedHandling: trial.contaminatedHandling,
           protocolNotes: trial.protocolNotes,

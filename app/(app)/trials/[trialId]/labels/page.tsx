@@ -24,7 +24,10 @@ export default async function LabelSheetPage({ params }: { params: Promise<{ tri
   return (
     <>
       <style>{printStyles}</style>
-      <PageHeader title={`Label sheet — ${trial.code}`} lead="Print on plain paper or label stock, cut along the lines, and tape each label onto its bag.">
+      <PageHeader
+        title={`Label sheet — ${trial.code}`}
+        lead="Print on plain paper or label stock, cut along the lines, and tape each label onto its bag."
+      >
         {list.length ? <PrintButton /> : null}
       </PageHeader>
       {list.length === 0 ? (
@@ -35,7 +38,10 @@ export default async function LabelSheetPage({ params }: { params: Promise<{ tri
             <div key={entry.blockCode} className="label border border-dashed border-ink bg-white p-4 text-ink">
               <p className="font-mono text-3xl font-bold tracking-wide">{entry.blockCode}</p>
               <p className="mt-1 text-2xl font-semibold">Arm {entry.armLabel}</p>
-              <p className="text-base">{entry.strainCode}{entry.treatmentName ? ` · ${entry.treatmentName}` : ""}</p>
+              <p className="text-base">
+                {entry.strainCode}
+                {entry.treatmentName ? ` · ${entry.treatmentName}` : ""}
+              </p>
               <p className="text-sm">Trial {trial.code}</p>
             </div>
           ))}

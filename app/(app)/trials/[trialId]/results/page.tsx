@@ -37,45 +37,76 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
     <>
       <style>{printStyles}</style>
       <PageHeader title={`Results — ${trial.title}`} lead={trial.question}>
-        <span className="no-print"><PrintButton label="Print the report" /></span>
+        <span className="no-print">
+          <PrintButton label="Print the report" />
+        </span>
       </PageHeader>
       <div className="mb-6 flex flex-wrap items-center gap-3">
         <span className="font-mono text-sm text-ink-soft">{trial.code}</span>
         <StatusBadge status={trial.status} />
         {trial.publishedAt ? <span className="text-sm text-ink-soft">published {trial.publishedAt.toISOString().slice(0, 10)}</span> : null}
       </div>
-      {trial.status !== "published" ? <div className="no-print mb-6"><Notice tone="caution">Only you can see this analysis until you publish it from the trial page.</Notice></div> : null}
+      {trial.status !== "published" ? (
+        <div className="no-print mb-6">
+          <Notice tone="caution">Only you can see this analysis until you publish it from the trial page.</Notice>
+        </div>
+      ) : null}
       {!results ? (
         <Notice>The analysis has not run yet.</Notice>
       ) : (
         <div className="space-y-6">
           <Card title="The answer">
-            <p className="text-lg" data-testid="trial-answer">{results.analysis.answer}</p>
-            <p className="mt-2 text-sm text-ink-soft">
-              {results.analysis.blocksAnalysed} blocks from {results.analysis.farmsContributing} farms were analysed. Intervals are 95 %; differences are adjusted for comparing several arms (Tukey) and farms are taken into account as blocks.
+            <p className="text-lg" data-testid="trial-answer">
+              {results.analysis.answer}
             </p>
-            {results.analysis.notes.map((note) => <p key={note} className="mt-2 text-sm">{note}</p>)}
+            <p className="mt-2 text-sm text-ink-soft">
+              {results.analysis.blocksAnalysed} blocks from {results.analysis.farmsContributing} farms were analysed. Intervals are 95 %;
+              differences are adjusted for comparing several arms (Tukey) and farms are taken into account as blocks.
+            </p>
+            {results.analysis.notes.map((note) => (
+              <p key={note} className="mt-2 text-sm">
+                {note}
+              </p>
+            ))}
           </Card>
 
           {results.analysis.anova ? (
             <Card title="Biological efficiency by arm, adjusted for farm">
               <table className="w-full text-sm [&_td]:pr-3 [&_th]:pr-3">
-                <thead><tr className="text-left"><th scope="col" className="py-1">Arm</th><th scope="col">Blocks</th><th scope="col">Adjusted mean BE</th><th scope="col">95 % interval</th></tr></thead>
+                <thead>
+                  <tr className="text-left">
+                    <th scope="col" className="py-1">
+                      Arm
+                    </th>
+                    <th scope="col">Blocks</th>
+                    <th scope="col">Adjusted mean BE</th>
+                    <th scope="col">95 % interval</th>
+                  </tr>
+                </thead>
                 <tbody>
                   {results.analysis.anova.adjustedMeans.map((mean) => (
                     <tr key={mean.treatment} className="border-t border-oat-300">
-                      <th scope="row" className="py-2 text-left">{mean.treatment}{mean.treatment === results.analysis.referenceArm ? " (reference)" : ""}</th>
+                      <th scope="row" className="py-2 text-left">
+                        {mean.treatment}
+                        {mean.treatment === results.analysis.referenceArm ? " (reference)" : ""}
+                      </th>
                       <td>{results.analysis.arms.find((arm) => arm.label === mean.treatment)?.n}</td>
                       <td>{fmt(mean.estimate)} %</td>
-                      <td>{fmt(mean.lower)} – {fmt(mean.upper)} %</td>
+                      <td>
+                        {fmt(mean.lower)} – {fmt(mean.upper)} %
+                      </td>
                     </tr>
                   ))}
                 </tbody>
               </table>
               <p className="mt-2 text-sm text-ink-soft">
-                Do the arms differ, once farms are allowed for? F = {fmt(results.analysis.anova.arm.f, 2)} on {results.analysis.anova.arm.df} degrees of freedom, p {pText(results.analysis.anova.arm.p)}. Do farms differ? p {pText(results.analysis.anova.farm.p)}.
+                Do the arms differ, once farms are allowed for? F = {fmt(results.analysis.anova.arm.f, 2)} on{" "}
+                {results.analysis.anova.arm.df} degrees of freedom, p {pText(results.analysis.anova.arm.p)}. Do farms differ? p{" "}
+                {pText(results.analysis.anova.farm.p)}.
               </p>
-              <div className="mt-4"><ArmBoxplot arms={results.analysis.arms} /></div>
+              <div className="mt-4">
+                <ArmBoxplot arms={results.analysis.arms} />
+              </div>
             </Card>
           ) : null}
 
@@ -88,45 +119,76 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
           {results.analysis.farmPooling.length ? (
             <Card title="Farm by farm">
               <div className="space-y-6">
-                {results.analysis.farmPooling.map((pooling) => <TrialForestChart key={pooling.arm} pooling={pooling} reference={results.analysis.referenceArm} />)}
+                {results.analysis.farmPooling.map((pooling) => (
+                  <TrialForestChart key={pooling.arm} pooling={pooling} reference={results.analysis.referenceArm} />
+                ))}
               </div>
-              <div className="mt-4"><Caution which="pooledFigures" /></div>
+              <div className="mt-4">
+                <Caution which="pooledFigures" />
+              </div>
             </Card>
           ) : null}
 
           <Card title="Contamination by arm">
             <table className="w-full text-sm [&_td]:pr-3 [&_th]:pr-3">
-              <thead><tr className="text-left"><th scope="col" className="py-1">Arm</th><th scope="col">Contaminated</th><th scope="col">Rate</th><th scope="col">95 % interval (Wilson)</th></tr></thead>
+              <thead>
+                <tr className="text-left">
+                  <th scope="col" className="py-1">
+                    Arm
+                  </th>
+                  <th scope="col">Contaminated</th>
+                  <th scope="col">Rate</th>
+                  <th scope="col">95 % interval (Wilson)</th>
+                </tr>
+              </thead>
               <tbody>
                 {results.analysis.arms.map((arm) => (
                   <tr key={arm.label} className="border-t border-oat-300">
-                    <th scope="row" className="py-2 text-left">{arm.label}</th>
-                    <td>{arm.contamination.contaminated} of {arm.contamination.blocks}</td>
+                    <th scope="row" className="py-2 text-left">
+                      {arm.label}
+                    </th>
+                    <td>
+                      {arm.contamination.contaminated} of {arm.contamination.blocks}
+                    </td>
                     <td>{fmt(arm.contamination.p * 100)} %</td>
-                    <td>{fmt(arm.contamination.lower * 100)} – {fmt(arm.contamination.upper * 100)} %</td>
+                    <td>
+                      {fmt(arm.contamination.lower * 100)} – {fmt(arm.contamination.upper * 100)} %
+                    </td>
                   </tr>
                 ))}
               </tbody>
             </table>
-            <div className="mt-4"><Caution which="spores" /></div>
+            <div className="mt-4">
+              <Caution which="spores" />
+            </div>
           </Card>
 
           <Card title="Deviations from the plan">
             <ul className="list-disc space-y-1 pl-5 text-sm">
-              <li>{results.deviations.farmsDropped} invited farm{results.deviations.farmsDropped === 1 ? "" : "s"} dropped out or never answered; {results.deviations.farmsDeclined} declined.</li>
-              <li>{results.deviations.blocksMade} of {results.deviations.blocksAssigned} listed blocks reached a season log.</li>
-              <li>{results.deviations.blocksLeftOut} block{results.deviations.blocksLeftOut === 1 ? " was" : "s were"} left out of the BE comparison (contaminated, as declared, or without a wet mass or moisture).</li>
+              <li>
+                {results.deviations.farmsDropped} invited farm{results.deviations.farmsDropped === 1 ? "" : "s"} dropped out or never
+                answered; {results.deviations.farmsDeclined} declined.
+              </li>
+              <li>
+                {results.deviations.blocksMade} of {results.deviations.blocksAssigned} listed blocks reached a season log.
+              </li>
+              <li>
+                {results.deviations.blocksLeftOut} block{results.deviations.blocksLeftOut === 1 ? " was" : "s were"} left out of the BE
+                comparison (contaminated, as declared, or without a wet mass or moisture).
+              </li>
               {trial.withdrawalsAfterPublication > 0 ? (
                 <li data-testid="withdrawal-note">
-                  {trial.withdrawalsAfterPublication === 1 ? "One farm" : `${trial.withdrawalsAfterPublication} farms`} withdrew their data from the co-op after
-                  these results were published. The figures above stay as they were published.
+                  {trial.withdrawalsAfterPublication === 1 ? "One farm" : `${trial.withdrawalsAfterPublication} farms`} withdrew their data
+                  from the co-op after these results were published. The figures above stay as they were published.
                 </li>
               ) : null}
             </ul>
           </Card>
 
           <ProtocolSummary trial={trial} />
-          <p className="text-xs text-ink-soft">Analysed {results.analysedAt.slice(0, 16).replace("T", " ")} UTC. Farms appear only as numbers.</p>
+          <p className="text-xs text-ink-soft">
+            Analysed {results.analysedAt.slice(0, 16).replace("T", " ")} UTC. Farms appear only as numbers.
+          </p>
         </div>
       )}
     </>
@@ -136,13 +198,26 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
 function DifferenceTable({ rows }: { rows: Difference[] }) {
   return (
     <table className="w-full text-sm [&_td]:pr-3 [&_th]:pr-3">
-      <thead><tr className="text-left"><th scope="col" className="py-1">Comparison</th><th scope="col">Difference (BE points)</th><th scope="col">95 % interval</th><th scope="col">Adjusted p</th></tr></thead>
+      <thead>
+        <tr className="text-left">
+          <th scope="col" className="py-1">
+            Comparison
+          </th>
+          <th scope="col">Difference (BE points)</th>
+          <th scope="col">95 % interval</th>
+          <th scope="col">Adjusted p</th>
+        </tr>
+      </thead>
       <tbody>
         {rows.map((row) => (
           <tr key={`${row.arm}-${row.versus}`} className="border-t border-oat-300">
-            <th scope="row" className="py-2 text-left">{row.arm} − {row.versus}</th>
+            <th scope="row" className="py-2 text-left">
+              {row.arm} − {row.versus}
+            </th>
             <td>{fmt(row.estimate)}</td>
-            <td>{fmt(row.lower)} to {fmt(row.upper)}</td>
+            <td>
+              {fmt(row.lower)} to {fmt(row.upper)}
+            </td>
             <td>{pText(row.pAdjusted)}</td>
           </tr>
         ))}

@@ -7,5 +7,7 @@ import { attachment } from "@/lib/season-logs/request";
 export const GET = guardedRoute<{ uploadId: string }>("season-log:upload", async (_request, { member, params }) => {
   const view = await getUploadView(farmContextOf(member), params.uploadId);
   const name = `${view.upload.fileName.replace(/\.[^.]*$/, "")}-report.csv`;
-  return new Response(`\ufeff${reportCsv(view.report.issues)}`, { headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": attachment(name) } });
+  return new Response(`\ufeff${reportCsv(view.report.issues)}`, {
+    headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": attachment(name) },
+  });
 });
