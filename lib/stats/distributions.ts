@@ -2,7 +2,7 @@
 // relative tolerance of 3e-7 and its log-gamma is good to ~2e-10, which is not enough to
 // reproduce R's printed digits, so the t, F, chi-square and noncentral t tails used by
 // lib/stats are computed here. Normal quantiles and the studentized range come from jstat,
-// whose implementations are accurate (see shared/REFERENCES.md).
+// whose implementations are accurate (see docs/references.md).
 import jStat from "jstat";
 
 const LANCZOS_G = 7;

@@ -13,17 +13,17 @@ describe("dryMass", () => {
     expect(dryMatter / (1 - 0.14) / 1000).toBeCloseTo(872.093, 3);
   });
 
-  it("gives 0.95 kg dry for a 2.5 kg block at 62 % (REFERENCES, computed)", () => {
+  it("gives 0.95 kg dry for a 2.5 kg block at 62 % (docs/references.md, computed)", () => {
     expect(dryMass(2500, 0.62)).toBeCloseTo(950, 10);
   });
 });
 
 describe("biologicalEfficiency", () => {
-  it("is 84.2105263 % for 0.80 kg from a 2.5 kg block at 62 % (REFERENCES, computed)", () => {
+  it("is 84.2105263 % for 0.80 kg from a 2.5 kg block at 62 % (docs/references.md, computed)", () => {
     expect(biologicalEfficiency({ freshG: 800, wetBlockG: 2500, moisture: 0.62 })).toBeCloseTo(84.2105263, 7);
   });
 
-  it("is 100 % for 2 lb from a 5 lb block at 60 % (REFERENCES, computed)", () => {
+  it("is 100 % for 2 lb from a 5 lb block at 60 % (docs/references.md, computed)", () => {
     const wetBlockG = 5 * GRAMS_PER_POUND;
     expect(wetBlockG).toBeCloseTo(2267.96185, 8); // 5 lb = 2.267 961 85 kg
     expect(dryMass(wetBlockG, 0.6)).toBeCloseTo(2 * GRAMS_PER_POUND, 10);

@@ -7,7 +7,7 @@ describe("sampleSizeTwoMeans", () => {
   it("matches R power.t.test(delta = 1, sd = 1, power = 0.8)", () => {
     const r = sampleSizeTwoMeans({ delta: 1, sd: 1 });
     expect(Math.abs(r.nPerGroup - 16.7147681423283)).toBeLessThan(1e-4); // as R prints it
-    expect(Math.abs(r.nPerGroup - 16.7147598311578)).toBeLessThan(1e-8); // exact root (REFERENCES, computed)
+    expect(Math.abs(r.nPerGroup - 16.7147598311578)).toBeLessThan(1e-8); // exact root (docs/references.md, computed)
     expect(r.nPerGroupCeil).toBe(17);
   });
 

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { trialSampleSize } from "./sample-size";
 
 describe("trial sample-size panel", () => {
-  it("matches R power.t.test(delta = 1, sd = 1, power = 0.8 / 0.9) — REFERENCES.md", () => {
+  it("matches R power.t.test(delta = 1, sd = 1, power = 0.8 / 0.9) — docs/references.md", () => {
     const panel = trialSampleSize({ difference: 1, sd: 1, plannedFarms: 1, expectedLoss: 0, arms: 2 });
     if (!panel.ok) throw new Error("expected a result");
     // R: n = 16.7147681423283 (root finder stops at ~1e-4); power 0.9 → 22.0210977038512.

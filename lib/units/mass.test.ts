@@ -31,7 +31,7 @@ describe("parseMass", () => {
     expect(grams("3 Kilograms")).toBe(3000);
   });
 
-  // Check values computed from NIST Handbook 44 Appendix C (REFERENCES.md, "computed from the above").
+  // Check values computed from NIST Handbook 44 Appendix C (docs/references.md, "computed from the above").
   it("5 lb = 2 267.961 85 g, 6 lb = 2 721.554 22 g, 1 lb 4 oz = 566.990 462 5 g", () => {
     expect(grams("5 lb")).toBeCloseTo(2267.96185, 9);
     expect(grams("6 lb")).toBeCloseTo(2721.55422, 9);

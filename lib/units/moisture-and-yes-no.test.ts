@@ -21,7 +21,7 @@ describe("parseMoisture", () => {
 });
 
 describe("drySubstrateGrams", () => {
-  // REFERENCES.md, computed: 2.5 kg block at 62 % -> 0.95 kg dry; 5 lb at 60 % -> exactly 2 lb dry.
+  // docs/references.md, computed: 2.5 kg block at 62 % -> 0.95 kg dry; 5 lb at 60 % -> exactly 2 lb dry.
   it("is wet mass x (1 - moisture)", () => {
     expect(drySubstrateGrams(2500, 0.62)).toBeCloseTo(950, 9);
     expect(drySubstrateGrams(5 * 453.59237, 0.6)).toBeCloseTo(2 * 453.59237, 9);
