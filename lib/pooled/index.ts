@@ -7,7 +7,7 @@ export {
   type StrainStatisticsRow,
 } from "./types";
 export { addSummaries, summaryMean, summaryVariance, type Summary } from "./sufficient";
-export { adjustedMeansFromCells, tukeyFromSummaries, type ModelCell } from "./cell-models";
+export { blockedModelFromCells, type ModelCell } from "./cell-models";
 export { addBins, binQuantile, percentileOf, type EfficiencyBins } from "./bins";
 export { differencingMessage, filterIsSafe, suppressedMessage } from "./privacy";
 export { pooledFlushProfile } from "./flush-profile";

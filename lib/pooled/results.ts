@@ -1,4 +1,4 @@
-import { holm, meanCIFromSummary, metaAnalysis, StatsInputError, wilsonInterval } from "@/lib/stats";
+import { holm, meanCIFromSummary, metaAnalysis, StatsInputError, wilsonInterval, type BlockedAnova } from "@/lib/stats";
 import { normalLowerTail } from "@/lib/stats/distributions";
 import type { Random } from "@/lib/random";
 import { addBins, binQuantile, type EfficiencyBins } from "./bins";
@@ -13,8 +13,8 @@ import {
   type FarmStrainCell,
 } from "./privacy";
 import { comparisonSentence, strainSentence } from "./sentences";
-import { adjustedMeansFromCells, tukeyFromSummaries } from "./cell-models";
-import { addSummaries, emptySummary, summaryMean, summaryVariance, type Summary } from "./sufficient";
+import { blockedModelFromCells } from "./cell-models";
+import { addSummaries, emptySummary, summaryMean, summaryVariance } from "./sufficient";
 import type { FlushStatisticsRow, PooledFilters, StrainStatisticsRow } from "./types";
 
 /** A figure that is either published or replaced by the reason it is withheld. */
@@ -40,6 +40,10 @@ export interface StrainResult {
   sentence: string;
 }
 
+/**
+ * Farm-adjusted mean BE of strain B − that of strain A, in BE points, from the same model as the
+ * strains' adjusted means (BE ~ strain + farm); interval and p-value Tukey-adjusted over all pairs.
+ */
 export interface PairwiseDifference extends Interval {
   strainA: string;
   strainB: string;
@@ -123,7 +127,8 @@ export function buildPooledResults(input: PooledResultsInput): PooledResults {
   const comparable = [...cells.entries()].filter(
     ([strainId, farms]) => safeStrains.has(strainId) && contributingFarms(farms.values(), (cell) => cell.efficiency.n) >= minimumFarms,
   );
-  const adjusted = adjustedMeans(comparable, level);
+  const model = farmBlockedModel(comparable, strainNames, level);
+  const adjusted = adjustedMeans(model);
 
   const strains: StrainResult[] = [...cells.entries()]
     .map(([strainId, farms]) => {
@@ -223,78 +228,77 @@ export function buildPooledResults(input: PooledResultsInput): PooledResults {
     minimumFarms,
     filtered: filters.substrateRecipeId !== undefined || filters.fruitingMethodId !== undefined,
     strains,
-    pairwise: pairwiseDifferences(comparable, strainNames, minimumFarms, level),
+    pairwise: pairwiseDifferences(comparable, model, strainNames, minimumFarms),
     heterogeneity: heterogeneity(comparable, strainNames, input, level),
   };
 }
 
 type StrainCells = [string, Map<string, FarmStrainCell>][];
 
-/** Least-squares strain means adjusted for farm (the farm is the statistical block). */
-function adjustedMeans(comparable: StrainCells, level: number): Map<string, Interval> {
-  const cells = comparable.flatMap(([strainId, farms]) =>
+type FarmBlockedModel = { ok: true; fit: BlockedAnova } | { ok: false; message: string };
+
+/**
+ * BE ~ strain + farm (the farm is the statistical block) on the comparable strains, fitted once:
+ * the strains' adjusted means and the pairwise differences both come from it, so they agree.
+ * Strains enter in name order, so the pairs read the same on every request.
+ */
+function farmBlockedModel(comparable: StrainCells, names: Map<string, string>, level: number): FarmBlockedModel {
+  const ordered = [...comparable].sort((a, b) => (names.get(a[0]) ?? "").localeCompare(names.get(b[0]) ?? ""));
+  const cells = ordered.flatMap(([strainId, farms]) =>
     [...farms.values()].map((cell) => ({ treatment: strainId, block: cell.farmId, ...cell.efficiency })),
   );
   try {
-    return new Map(
-      adjustedMeansFromCells(cells, level).map((mean) => [
-        mean.treatment,
-        { estimate: mean.estimate, lower: mean.lower, upper: mean.upper },
-      ]),
-    );
+    return { ok: true, fit: blockedModelFromCells(cells, level) };
   } catch (error) {
-    if (error instanceof StatsInputError) return new Map();
+    if (error instanceof StatsInputError) return { ok: false, message: error.message };
     throw error;
   }
 }
 
+/** Least-squares strain means adjusted for farm, when the model could be fitted. */
+function adjustedMeans(model: FarmBlockedModel): Map<string, Interval> {
+  if (!model.ok) return new Map();
+  return new Map(model.fit.means.map((mean) => [mean.treatment, { estimate: mean.estimate, lower: mean.lower, upper: mean.upper }]));
+}
+
 function pairwiseDifferences(
   comparable: StrainCells,
+  model: FarmBlockedModel,
   names: Map<string, string>,
   minimumFarms: number,
-  level: number,
 ): PooledResults["pairwise"] {
   if (comparable.length < 2) return suppressed(`needs at least two strains each grown on ${minimumFarms} or more farms`);
-  const groups: Record<string, Summary> = {};
-  const summaries = new Map<string, { farms: number; blocks: number }>();
-  // Pairs in strain-name order, so the table reads the same on every request.
-  const ordered = [...comparable].sort((a, b) => (names.get(a[0]) ?? "").localeCompare(names.get(b[0]) ?? ""));
-  for (const [strainId, farms] of ordered) {
-    const pooled = [...farms.values()].reduce<Summary>((sum, cell) => addSummaries(sum, cell.efficiency), emptySummary);
-    groups[strainId] = pooled;
-    summaries.set(strainId, { farms: contributingFarms(farms.values(), (cell) => cell.efficiency.n), blocks: pooled.n });
-  }
-  try {
-    return published(
-      tukeyFromSummaries(groups, level).map((comparison) => {
-        const a = names.get(comparison.a) ?? "Unnamed strain";
-        const b = names.get(comparison.b) ?? "Unnamed strain";
-        const farms = Math.min(summaries.get(comparison.a)!.farms, summaries.get(comparison.b)!.farms);
-        const blocks = summaries.get(comparison.a)!.blocks + summaries.get(comparison.b)!.blocks;
-        // tukeyHsd reports mean(a) − mean(b); read it as "b against a" for the sentence.
-        return {
-          strainA: b,
-          strainB: a,
-          estimate: comparison.diff,
-          lower: comparison.lower,
-          upper: comparison.upper,
-          pAdjusted: comparison.pAdj,
-          sentence: comparisonSentence({
-            better: a,
-            base: b,
-            estimate: comparison.diff,
-            lower: comparison.lower,
-            upper: comparison.upper,
-            farms,
-            blocks,
-          }),
-        };
-      }),
-    );
-  } catch (error) {
-    if (error instanceof StatsInputError) return suppressed(error.message);
-    throw error;
-  }
+  if (!model.ok) return suppressed(model.message);
+  const summaries = new Map(
+    comparable.map(([strainId, farms]) => [
+      strainId,
+      {
+        farms: contributingFarms(farms.values(), (cell) => cell.efficiency.n),
+        blocks: [...farms.values()].reduce((sum, cell) => sum + cell.efficiency.n, 0),
+      },
+    ]),
+  );
+  return published(
+    model.fit.comparisons.map((comparison) => {
+      // The model gives mean(a) − mean(b) with a before b in name order; the table reads "b − a".
+      const a = names.get(comparison.a) ?? "Unnamed strain";
+      const b = names.get(comparison.b) ?? "Unnamed strain";
+      const farms = Math.min(summaries.get(comparison.a)!.farms, summaries.get(comparison.b)!.farms);
+      const blocks = summaries.get(comparison.a)!.blocks + summaries.get(comparison.b)!.blocks;
+      const estimate = -comparison.difference;
+      const lower = -comparison.upper;
+      const upper = -comparison.lower;
+      return {
+        strainA: a,
+        strainB: b,
+        estimate,
+        lower,
+        upper,
+        pAdjusted: comparison.pAdjusted,
+        sentence: comparisonSentence({ better: b, base: a, estimate, lower, upper, farms, blocks }),
+      };
+    }),
+  );
 }
 
 /**

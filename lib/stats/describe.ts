@@ -43,8 +43,13 @@ export function sumOfSquares(xs: readonly number[], mean = accurateMean(xs)): nu
 export function isRoundingNoise(ss: number, xs: ArrayLike<number>): boolean {
   let largest = 0;
   for (let i = 0; i < xs.length; i++) largest = Math.max(largest, Math.abs(xs[i]));
+  return isRoundingNoiseAt(ss, xs.length, largest);
+}
+
+/** isRoundingNoise for `count` values whose magnitude is at most `largest`. */
+export function isRoundingNoiseAt(ss: number, count: number, largest: number): boolean {
   const floor = 64 * Number.EPSILON * largest;
-  return ss <= xs.length * floor * floor;
+  return ss <= count * floor * floor;
 }
 
 /** Quantile of sorted values by R's type 7: linear between order statistics at (n − 1)p. */

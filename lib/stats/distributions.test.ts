@@ -1,6 +1,17 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { chiSquareUpperTail, fUpperTail, logGamma, regularizedBeta, studentTLowerTail, studentTQuantile } from "./distributions";
+import {
+  chiSquareUpperTail,
+  fUpperTail,
+  logGamma,
+  regularizedBeta,
+  studentTLowerTail,
+  studentTQuantile,
+  studentTTwoSidedP,
+  studentizedRangeLowerTail,
+  studentizedRangeQuantile,
+  studentizedRangeUpperTail,
+} from "./distributions";
 
 describe("distribution functions", () => {
   it("log-gamma hits factorials and √π", () => {
@@ -44,5 +55,28 @@ describe("distribution functions", () => {
         expect(studentTLowerTail(studentTQuantile(p, df), df)).toBeCloseTo(p, 11);
       }),
     );
+  });
+
+  it("the studentized range of two means is √2·|t| (exact), for any degrees of freedom", () => {
+    for (const df of [1, 2, 5, 23, 400]) {
+      expect(studentizedRangeQuantile(0.95, 2, df)).toBeCloseTo(Math.SQRT2 * studentTQuantile(0.975, df), 12);
+      expect(studentizedRangeUpperTail(Math.SQRT2 * 1.7, 2, df)).toBeCloseTo(studentTTwoSidedP(1.7, df), 14);
+    }
+  });
+
+  it("the studentized range quantile inverts its distribution function (R's qtukey stops ~1e-7 short)", () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: 0.5, max: 0.995, noNaN: true }),
+        fc.integer({ min: 3, max: 12 }),
+        fc.integer({ min: 3, max: 2000 }),
+        (p, groups, df) => {
+          expect(studentizedRangeLowerTail(studentizedRangeQuantile(p, groups, df), groups, df)).toBeCloseTo(p, 11);
+        },
+      ),
+      { numRuns: 40 },
+    );
+    // SciPy 1.10.1 studentized_range.ppf(0.95, 3, 23) / √2 = 2.5043364009103732 (R's qtukey gives 2.50433657…).
+    expect(studentizedRangeQuantile(0.95, 3, 23) / Math.SQRT2).toBeCloseTo(2.5043364009103732, 10);
   });
 });

@@ -3,6 +3,7 @@ import {
   StatsInputError,
   biologicalEfficiency,
   blockedAnova,
+  blockedAnovaFromCells,
   describe as describeValues,
   dryMass,
   flushProfile,
@@ -98,6 +99,26 @@ describe("invalid input throws StatsInputError, never NaN", () => {
     );
     expectCode(() => sampleSizeTwoMeans({ delta: 0, sd: 1 }), "invalid_argument");
     expectCode(() => sampleSizeTwoMeans({ delta: 1, sd: 1, power: 1 }), "invalid_level");
+  });
+
+  it("rejects impossible cell summaries and too little error for Tukey over 3 or more treatments", () => {
+    const cell = { treatment: "a", block: "farm 1", n: 2, mean: 80, sumOfSquares: 4 };
+    expectCode(() => blockedAnovaFromCells([{ ...cell, n: 1.5 }]), "invalid_argument");
+    expectCode(() => blockedAnovaFromCells([{ ...cell, n: -1 }]), "invalid_argument");
+    expectCode(() => blockedAnovaFromCells([{ ...cell, sumOfSquares: -0.1 }]), "invalid_argument");
+    expectCode(() => blockedAnovaFromCells([{ ...cell, mean: Number.NaN }]), "not_a_number");
+    // 3 treatments on 3 farms, 7 blocks in all (farm 2 lacks c, farm 3 lacks b): 2 error df, too few
+    // for the studentized range, whose distribution function is unreliable below 3.
+    const obs = [
+      ["a", "farm 1", 70],
+      ["b", "farm 1", 74],
+      ["c", "farm 1", 77],
+      ["a", "farm 2", 72],
+      ["b", "farm 2", 75],
+      ["a", "farm 3", 69],
+      ["c", "farm 3", 78],
+    ].map(([treatment, block, y]) => ({ treatment: String(treatment), block: String(block), y: Number(y) }));
+    expectCode(() => blockedAnova(obs), "too_few_values");
   });
 
   it("rejects data with no spread instead of dividing by zero", () => {

@@ -2,7 +2,16 @@ export { StatsInputError, type StatsInputErrorCode } from "./errors";
 export { describe, type Description } from "./describe";
 export { meanCI, meanCIFromSummary, welchTest, type MeanInterval, type WelchResult } from "./intervals";
 export { oneWayAnova, type OneWayAnova } from "./anova";
-export { blockedAnova, type AdjustedMean, type AnovaTerm, type BlockedAnova, type BlockedAnovaObservation } from "./blocked-anova";
+export {
+  blockedAnova,
+  blockedAnovaFromCells,
+  type AdjustedMean,
+  type AnovaTerm,
+  type BlockedAnova,
+  type BlockedAnovaCell,
+  type BlockedAnovaObservation,
+  type PairwiseComparison,
+} from "./blocked-anova";
 export { tukeyFromGroupSummaries, tukeyHsd, type GroupSummary, type TukeyComparison } from "./tukey";
 export { holm } from "./holm";
 export { wilsonInterval, type ProportionInterval } from "./wilson";

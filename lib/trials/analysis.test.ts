@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { seededRandom } from "@/lib/random";
-import { blockedAnova, metaAnalysis, tukeyHsd, wilsonInterval, describe as describeValues } from "@/lib/stats";
+import { blockedAnova, metaAnalysis, wilsonInterval, describe as describeValues } from "@/lib/stats";
 import { analyseTrial, type OutcomeRecord } from "./analysis";
 import { blockOutcome } from "./outcome";
 
@@ -71,19 +71,18 @@ describe("analyseTrial", () => {
     expect(result.anova!.adjustedMeans.map((mean) => mean.treatment)).toEqual(["A", "B", "C"]);
     expect(result.anova!.adjustedMeans[1].estimate).toBe(fit.means.find((mean) => mean.treatment === "B")!.estimate);
 
-    const tukey = tukeyHsd({
-      A: kept.filter((r) => r.armId === "a").map((r) => r.value),
-      B: kept.filter((r) => r.armId === "b").map((r) => r.value),
-      C: kept.filter((r) => r.armId === "c").map((r) => r.value),
-    });
-    const bVersusA = tukey.find((pair) => pair.a === "B" && pair.b === "A")!;
-    expect(result.versusReference[0]).toMatchObject({
-      arm: "B",
-      versus: "A",
-      estimate: bVersusA.diff,
-      lower: bVersusA.lower,
-      pAdjusted: bVersusA.pAdj,
-    });
+    // The differences are the model's Tukey-adjusted comparisons of least-squares means (arm + farm),
+    // no longer a one-way Tukey–Kramer on pooled blocks: B − A is −(A − B).
+    // The rows come farm by farm in arm order a, b, c, so the model lists A − B first.
+    const aVersusB = fit.comparisons.find((pair) => pair.a === "A" && pair.b === "B")!;
+    expect(result.differencesFrom).toBe("arm + farm");
+    expect(result.versusReference[0]).toMatchObject({ arm: "B", versus: "A", se: aVersusB.se, pAdjusted: aVersusB.pAdjusted });
+    expect(result.versusReference[0].estimate).toBeCloseTo(-aVersusB.difference, 12);
+    expect(result.versusReference[0].lower).toBeCloseTo(-aVersusB.upper, 12);
+    expect(result.versusReference[0].estimate).toBeCloseTo(
+      result.anova!.adjustedMeans[1].estimate - result.anova!.adjustedMeans[0].estimate,
+      10,
+    );
     expect(result.betweenArms).toHaveLength(1);
     expect(result.versusReference[0].lower).toBeGreaterThan(0);
     expect(result.answer).toMatch(/^Arm B gave more than reference arm A/);

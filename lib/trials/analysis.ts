@@ -3,7 +3,6 @@ import {
   blockedAnova,
   describe,
   metaAnalysis,
-  tukeyHsd,
   wilsonInterval,
   type AdjustedMean,
   type AnovaTerm,
@@ -25,11 +24,15 @@ export interface OutcomeRecord {
   contaminated: boolean;
 }
 
+/**
+ * Least-squares mean of `arm` − that of `versus` from the model outcome ~ arm + farm, in BE
+ * points, with its standard error; interval and p-value Tukey-adjusted over all pairs of arms.
+ */
 export interface Difference {
   arm: string;
   versus: string;
-  /** mean(arm) − mean(versus), in BE points. */
   estimate: number;
+  se: number;
   lower: number;
   upper: number;
   pAdjusted: number;
@@ -63,6 +66,12 @@ export interface TrialAnalysis {
     contamination: ProportionInterval & { contaminated: number; blocks: number };
   }[];
   anova: { arm: AnovaTerm; farm: AnovaTerm; adjustedMeans: AdjustedMean[] } | null;
+  /**
+   * How `versusReference` and `betweenArms` were made: "arm + farm" = from the least-squares means
+   * of outcome ~ arm + farm with Tukey's adjustment, as R's pairs(emmeans(fit, "arm")). Results
+   * stored before this field existed hold one-way Tukey–Kramer differences on pooled blocks.
+   */
+  differencesFrom?: "arm + farm";
   versusReference: Difference[];
   betweenArms: Difference[];
   farmPooling: PooledDifference[];
@@ -78,7 +87,7 @@ function collectFarms(records: OutcomeRecord[]): string[] {
 
 /**
  * The trial's pre-declared analysis on per-block outcomes, all with lib/stats: blocked ANOVA
- * (arm + farm) with least-squares means; Tukey-adjusted pairwise differences; per-farm
+ * (arm + farm) with least-squares means and their Tukey-adjusted pairwise differences; per-farm
  * differences against the reference pooled by DerSimonian–Laird with I²; contamination by arm
  * with Wilson intervals; and the co-op's minimum-farms rule before any pooled figure is given.
  */
@@ -118,36 +127,28 @@ export function analyseTrial(input: { arms: TrialArmInfo[]; records: OutcomeReco
     );
   } else {
     try {
-      const fit = blockedAnova(analysed.map((record) => ({ treatment: labelOf.get(record.armId)!, block: record.farm, y: record.value })));
-      const order = new Map(ordered.map((arm, index) => [arm.label, index]));
-      anova = {
-        arm: fit.treatment,
-        farm: fit.block,
-        adjustedMeans: [...fit.means].sort((a, b) => order.get(a.treatment)! - order.get(b.treatment)!),
-      };
-    } catch (error) {
-      if (!(error instanceof StatsInputError)) throw error;
-      notes.push(`The blocked analysis could not be fitted: ${error.message}`);
-    }
-    try {
-      // Keys carry a prefix so labels such as "1" and "2" keep the arms' order (JavaScript sorts integer keys first).
-      const groups: Record<string, number[]> = {};
-      for (const arm of ordered)
-        groups[`arm ${arm.label}`] = analysed.filter((record) => record.armId === arm.id).map((record) => record.value);
-      const label = (key: string) => key.slice(4);
-      const pairs = tukeyHsd(groups).map((pair) => ({
-        arm: label(pair.a),
-        versus: label(pair.b),
-        estimate: pair.diff,
-        lower: pair.lower,
-        upper: pair.upper,
-        pAdjusted: pair.pAdj,
+      // Rows in the arms' order (reference first), so the model's pairs come out as (earlier, later).
+      const order = new Map(ordered.map((arm, index) => [arm.id, index]));
+      const inArmOrder = [...analysed].sort((a, b) => order.get(a.armId)! - order.get(b.armId)!);
+      const fit = blockedAnova(
+        inArmOrder.map((record) => ({ treatment: labelOf.get(record.armId)!, block: record.farm, y: record.value })),
+      );
+      anova = { arm: fit.treatment, farm: fit.block, adjustedMeans: fit.means };
+      // The model gives mean(earlier) − mean(later); read each pair as the later arm against the earlier one.
+      const pairs = fit.comparisons.map((pair) => ({
+        arm: pair.b,
+        versus: pair.a,
+        estimate: -pair.difference,
+        se: pair.se,
+        lower: -pair.upper,
+        upper: -pair.lower,
+        pAdjusted: pair.pAdjusted,
       }));
       versusReference = pairs.filter((pair) => pair.versus === reference.label);
       betweenArms = pairs.filter((pair) => pair.versus !== reference.label);
     } catch (error) {
       if (!(error instanceof StatsInputError)) throw error;
-      notes.push(`The pairwise comparison could not be made: ${error.message}`);
+      notes.push(`The blocked analysis could not be fitted, so the arms are not compared: ${error.message}`);
     }
     for (const arm of ordered.slice(1)) farmPooling.push(poolFarmDifferences(arm, reference, farms, analysed));
   }
@@ -161,6 +162,7 @@ export function analyseTrial(input: { arms: TrialArmInfo[]; records: OutcomeReco
     blocksLeftOut: records.length - analysed.length,
     arms: armSummaries,
     anova,
+    differencesFrom: "arm + farm",
     versusReference,
     betweenArms,
     farmPooling,

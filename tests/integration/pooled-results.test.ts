@@ -5,7 +5,7 @@ import type { Member } from "@/lib/data/members";
 import { getMyFarm } from "@/lib/data/my-farm";
 import { getPooledResults } from "@/lib/data/pooled-results";
 import { ownBlocksForChart, type OwnStrainBlocks } from "@/lib/pooled";
-import { blockedAnova, flushProfile, metaAnalysis, tukeyHsd, wilsonInterval } from "@/lib/stats";
+import { blockedAnova, flushProfile, metaAnalysis, wilsonInterval } from "@/lib/stats";
 import { superuserPool, twoDemoFarms, type DemoFarm } from "./support/database";
 
 // Pooled figures must equal lib/stats run on the very rows they come from. The rows are read
@@ -78,7 +78,7 @@ const efficiencyOf = (block: RawBlock, fresh: number | null) =>
   !block.contaminated && block.dry_g && fresh !== null ? (100 * fresh) / block.dry_g : null;
 
 describe("pooled results on the demo co-op equal lib/stats on the same rows", () => {
-  it("matches blocks, contamination, adjusted means, Tukey, heterogeneity and the flush profile", async () => {
+  it("matches blocks, contamination, adjusted means, farm-adjusted Tukey comparisons, heterogeneity and the flush profile", async () => {
     const page = await getPooledResults(observer, { speciesId: oysterId, flushWindow: "all" });
     const results = page.results!;
     expect(results.strains.length).toBe(3);
@@ -88,9 +88,6 @@ describe("pooled results on the demo co-op equal lib/stats on the same rows", ()
       return y === null ? [] : [{ treatment: block.strain_id, block: block.farm_id, y }];
     });
     const model = blockedAnova(observations);
-    const groups = Object.fromEntries(
-      results.strains.map((strain) => [strain.strainId, observations.filter((o) => o.treatment === strain.strainId).map((o) => o.y)]),
-    );
 
     for (const strain of results.strains) {
       const blocks = raw.filter((block) => block.strain_id === strain.strainId);
@@ -129,12 +126,19 @@ describe("pooled results on the demo co-op equal lib/stats on the same rows", ()
       });
     }
 
+    // The pairwise table comes from the same farm-blocked model as the adjusted means (no longer a
+    // one-way Tukey on pooled blocks): strains in name order, each row "later name − earlier name".
     if (results.pairwise.status !== "published") throw new Error("pairwise should be published");
-    const tukey = tukeyHsd(groups);
+    const nameOrder = [...results.strains].sort((a, b) => a.strainName.localeCompare(b.strainName)).map((strain) => strain.strainId);
+    const inNameOrder = blockedAnova([...observations].sort((a, b) => nameOrder.indexOf(a.treatment) - nameOrder.indexOf(b.treatment)));
+    expect(results.pairwise.value).toHaveLength(inNameOrder.comparisons.length);
     results.pairwise.value.forEach((pair, index) => {
-      expect(pair.estimate).toBeCloseTo(tukey[index].diff, 6);
-      expect(pair.lower).toBeCloseTo(tukey[index].lower, 6);
-      expect(pair.pAdjusted).toBeCloseTo(tukey[index].pAdj, 6);
+      const comparison = inNameOrder.comparisons[index];
+      expect(pair.strainA).toBe(results.strains.find((strain) => strain.strainId === comparison.a)!.strainName);
+      expect(pair.estimate).toBeCloseTo(-comparison.difference, 6);
+      expect(pair.lower).toBeCloseTo(-comparison.upper, 6);
+      expect(pair.upper).toBeCloseTo(-comparison.lower, 6);
+      expect(pair.pAdjusted).toBeCloseTo(comparison.pAdjusted, 6);
     });
 
     if (results.heterogeneity.status !== "published") throw new Error("heterogeneity should be published");

@@ -48,9 +48,9 @@ const strainColumns: ColumnDef<StrainRow, unknown>[] = [
 
 const pairColumns: ColumnDef<PairRow, unknown>[] = [
   { id: "comparison", header: "Comparison", accessorKey: "comparison" },
-  { id: "difference", header: "Difference (BE points)", accessorKey: "difference" },
+  { id: "difference", header: "Difference in farm-adjusted mean BE (points)", accessorKey: "difference" },
   { id: "interval", header: "95 % interval (Tukey)", accessorKey: "interval" },
-  { id: "p", header: "Adjusted p", accessorKey: "p" },
+  { id: "p", header: "p, adjusted for all pairs (Tukey)", accessorKey: "p" },
 ];
 
 const selectClass = "block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3 text-base";
@@ -215,8 +215,9 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
               ))}
             </ul>
             <p className="mt-2 text-xs text-ink-soft">
-              Tukey–Kramer intervals over all pairs, from the co-op&apos;s blocks pooled; the farm-by-farm comparison below allows for
-              differences between farms.
+              Each difference is between two strains&apos; farm-adjusted mean BE in the table above, from the model BE ~ strain + farm (each
+              farm counts as a block, so strains are compared on the farms that grew them). Intervals and p-values allow for comparing every
+              pair of strains (Tukey). The farm-by-farm comparison below shows how much farms disagree.
             </p>
           </>
         ) : (

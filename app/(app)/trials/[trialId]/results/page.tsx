@@ -60,8 +60,10 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
               {results.analysis.answer}
             </p>
             <p className="mt-2 text-sm text-ink-soft">
-              {results.analysis.blocksAnalysed} blocks from {results.analysis.farmsContributing} farms were analysed. Intervals are 95 %;
-              differences are adjusted for comparing several arms (Tukey) and farms are taken into account as blocks.
+              {results.analysis.blocksAnalysed} blocks from {results.analysis.farmsContributing} farms were analysed. Intervals are 95 %.{" "}
+              {results.analysis.differencesFrom === "arm + farm"
+                ? "Differences are between farm-adjusted means (each farm counts as a block) and are adjusted for comparing every pair of arms (Tukey)."
+                : "Differences in this analysis compare the pooled blocks of each arm without taking farms into account (one-way Tukey–Kramer); analyse again for farm-adjusted differences."}
             </p>
             {results.analysis.notes.map((note) => (
               <p key={note} className="mt-2 text-sm">
@@ -112,7 +114,10 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
 
           {results.analysis.versusReference.length ? (
             <Card title="Differences between arms">
-              <DifferenceTable rows={[...results.analysis.versusReference, ...results.analysis.betweenArms]} />
+              <DifferenceTable
+                rows={[...results.analysis.versusReference, ...results.analysis.betweenArms]}
+                farmAdjusted={results.analysis.differencesFrom === "arm + farm"}
+              />
             </Card>
           ) : null}
 
@@ -195,33 +200,41 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
   );
 }
 
-function DifferenceTable({ rows }: { rows: Difference[] }) {
+function DifferenceTable({ rows, farmAdjusted }: { rows: Difference[]; farmAdjusted: boolean }) {
+  const arms = new Set(rows.flatMap((row) => [row.arm, row.versus])).size;
   return (
-    <table className="w-full text-sm [&_td]:pr-3 [&_th]:pr-3">
-      <thead>
-        <tr className="text-left">
-          <th scope="col" className="py-1">
-            Comparison
-          </th>
-          <th scope="col">Difference (BE points)</th>
-          <th scope="col">95 % interval</th>
-          <th scope="col">Adjusted p</th>
-        </tr>
-      </thead>
-      <tbody>
-        {rows.map((row) => (
-          <tr key={`${row.arm}-${row.versus}`} className="border-t border-oat-300">
-            <th scope="row" className="py-2 text-left">
-              {row.arm} − {row.versus}
+    <>
+      <table className="w-full text-sm [&_td]:pr-3 [&_th]:pr-3">
+        <caption className="mb-2 text-left text-ink-soft">
+          {farmAdjusted
+            ? `Difference between two arms' farm-adjusted mean BE (the adjusted means above), from the model BE ~ arm + farm. Intervals and p-values allow for comparing all ${(arms * (arms - 1)) / 2} pairs of arms (Tukey).`
+            : "Difference between two arms' mean BE over the pooled blocks, farms not taken into account (one-way Tukey–Kramer), as this analysis was made."}
+        </caption>
+        <thead>
+          <tr className="text-left">
+            <th scope="col" className="py-1">
+              Comparison
             </th>
-            <td>{fmt(row.estimate)}</td>
-            <td>
-              {fmt(row.lower)} to {fmt(row.upper)}
-            </td>
-            <td>{pText(row.pAdjusted)}</td>
+            <th scope="col">{farmAdjusted ? "Difference in farm-adjusted mean BE (points)" : "Difference in mean BE (points)"}</th>
+            <th scope="col">95 % interval (Tukey)</th>
+            <th scope="col">p, adjusted for all pairs (Tukey)</th>
           </tr>
-        ))}
-      </tbody>
-    </table>
+        </thead>
+        <tbody>
+          {rows.map((row) => (
+            <tr key={`${row.arm}-${row.versus}`} className="border-t border-oat-300">
+              <th scope="row" className="py-2 text-left">
+                {row.arm} − {row.versus}
+              </th>
+              <td>{fmt(row.estimate)}</td>
+              <td>
+                {fmt(row.lower)} to {fmt(row.upper)}
+              </td>
+              <td>{pText(row.pAdjusted)}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </>
   );
 }
