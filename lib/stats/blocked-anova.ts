@@ -7,6 +7,7 @@ import {
   cellTableFromRows,
   fitWithinBlocks,
   indicatorCoding,
+  indicatorRow,
   levelsOnlyResidual,
   quadraticForm,
   type CellTable,
@@ -187,13 +188,6 @@ function blockedAnovaOfTable(table: CellTable, names: string[], level: number): 
     means,
     comparisons,
   };
-}
-
-/** Row of the last-level-as-baseline coding for level s (all zeros for the last level). */
-function indicatorRow(levels: number, s: number): Float64Array {
-  const row = new Float64Array(levels - 1);
-  if (s < levels - 1) row[s] = 1;
-  return row;
 }
 
 /**

@@ -49,6 +49,12 @@ describe("distribution functions", () => {
     );
   });
 
+  it("the t distribution stays exact near its centre (a quantile test once failed at p 0.4986, 672 df)", () => {
+    expect(studentTLowerTail(studentTQuantile(0.4986013551713794, 671.878468957373), 671.878468957373)).toBeCloseTo(0.4986013551713794, 14);
+    // Symmetry about 0 to full precision: P(T ≤ −t) = 1 − P(T ≤ t).
+    expect(studentTLowerTail(-0.0035, 672) + studentTLowerTail(0.0035, 672)).toBeCloseTo(1, 15);
+  });
+
   it("the t quantile inverts the t distribution", () => {
     fc.assert(
       fc.property(fc.double({ min: 0.001, max: 0.999, noNaN: true }), fc.double({ min: 1, max: 5000, noNaN: true }), (p, df) => {

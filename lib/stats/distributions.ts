@@ -111,6 +111,12 @@ export function studentTTwoSidedP(t: number, df: number): number {
 
 /** P(T ≤ t) for Student's t. */
 export function studentTLowerTail(t: number, df: number): number {
+  const t2 = t * t;
+  if (t2 < df) {
+    // Near the centre, from P(|T| < |t|) = I_{t²/(t²+df)}(1/2, df/2), which has no cancellation there.
+    const central = 0.5 * regularizedBeta(t2 / (t2 + df), 0.5, df / 2);
+    return t < 0 ? 0.5 - central : 0.5 + central;
+  }
   const tail = 0.5 * studentTTwoSidedP(t, df);
   return t < 0 ? tail : 1 - tail;
 }
@@ -195,11 +201,42 @@ export function studentizedRangeUpperTail(q: number, groups: number, df: number)
  */
 export function studentizedRangeQuantile(p: number, groups: number, df: number): number {
   if (groups === 2) return Math.SQRT2 * studentTQuantile((1 + p) / 2, df);
+  const key = `${p} ${groups} ${df}`;
+  const known = rangeQuantiles.get(key);
+  if (known !== undefined) return known;
+  const quantile = polishedRangeQuantile(p, groups, df);
+  if (rangeQuantiles.size >= 256) rangeQuantiles.clear();
+  rangeQuantiles.set(key, quantile);
+  return quantile;
+}
+
+// Each evaluation of the distribution function integrates numerically (about 1 ms at 20 df), and a
+// report asks for the same quantile once per family, so quantiles are remembered.
+const rangeQuantiles = new Map<string, number>();
+
+function polishedRangeQuantile(p: number, groups: number, df: number): number {
   const start = jStat.tukey.inv(p, groups, df);
   const gap = (q: number) => studentizedRangeLowerTail(q, groups, df) - p;
+  const tolerance = 1e-13 * start;
+  // Secant steps from the estimate, which is already within ~1e-7: two or three steps suffice.
+  let x0 = start;
+  let f0 = gap(x0);
+  if (f0 === 0) return x0;
+  let x1 = start * (f0 < 0 ? 1 + 1e-6 : 1 - 1e-6);
+  let f1 = gap(x1);
+  for (let step = 0; step < 8 && f1 !== 0 && f1 !== f0; step++) {
+    const x2 = x1 - (f1 * (x1 - x0)) / (f1 - f0);
+    x0 = x1;
+    f0 = f1;
+    x1 = x2;
+    f1 = gap(x1);
+    if (Math.abs(x1 - x0) <= tolerance) return x1;
+  }
+  if (f1 === 0) return x1;
+  // Not settled (it has not happened in testing): bracket the root and use Brent's method.
   let lower = start * (1 - 1e-4);
   let upper = start * (1 + 1e-4);
   while (gap(lower) > 0) lower *= 0.9;
   while (gap(upper) < 0) upper *= 1.1;
-  return brentRoot(gap, lower, upper, 1e-13 * start);
+  return brentRoot(gap, lower, upper, tolerance);
 }

@@ -4,6 +4,7 @@ import {
   biologicalEfficiency,
   blockedAnova,
   blockedAnovaFromCells,
+  factorialAnova,
   describe as describeValues,
   dryMass,
   flushProfile,
@@ -51,6 +52,7 @@ describe("invalid input throws StatsInputError, never NaN", () => {
     expectCode(() => describeValues([1, Number.NaN, 3]), "not_a_number");
     expectCode(() => welchTest([1, 2], [3, Number.POSITIVE_INFINITY]), "not_a_number");
     expectCode(() => blockedAnova([{ treatment: "a", block: "f", y: Number.NaN }]), "not_a_number");
+    expectCode(() => factorialAnova([{ a: "strain", b: "method", block: "f", y: Number.POSITIVE_INFINITY }]), "not_a_number");
     expectCode(
       () =>
         metaAnalysis([

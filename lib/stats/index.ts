@@ -12,6 +12,7 @@ export {
   type BlockedAnovaObservation,
   type PairwiseComparison,
 } from "./blocked-anova";
+export { factorialAnova, type CellMean, type FactorialAnova, type FactorialObservation } from "./factorial-anova";
 export { tukeyFromGroupSummaries, tukeyHsd, type GroupSummary, type TukeyComparison } from "./tukey";
 export { holm } from "./holm";
 export { wilsonInterval, type ProportionInterval } from "./wilson";

@@ -254,3 +254,10 @@ export function indicatorCoding(levels: number): Float64Array {
   for (let t = 0; t < size; t++) coding[t * size + t] = 1;
   return coding;
 }
+
+/** Level s's row of `indicatorCoding(levels)` (all zeros for the last level). */
+export function indicatorRow(levels: number, s: number): Float64Array {
+  const row = new Float64Array(levels - 1);
+  if (s < levels - 1) row[s] = 1;
+  return row;
+}
