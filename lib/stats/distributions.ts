@@ -196,15 +196,16 @@ export function studentizedRangeUpperTail(q: number, groups: number, df: number)
 
 /**
  * The p-quantile of the studentized range. jstat's (and R's) qtukey stops its secant steps at a
- * tolerance of 1e-4 and is off by up to ~1e-7 relative; the estimate is polished here by Brent's
- * method on the distribution function, to ~1e-13.
+ * tolerance of 1e-4 and is off by up to ~1e-7 relative; the estimate is polished here by secant
+ * steps on the distribution function, to ~1e-13. `near`, a quantile at nearby degrees of freedom,
+ * replaces jstat's estimate as the starting point (a search over sample sizes saves most of the work).
  */
-export function studentizedRangeQuantile(p: number, groups: number, df: number): number {
+export function studentizedRangeQuantile(p: number, groups: number, df: number, near?: number): number {
   if (groups === 2) return Math.SQRT2 * studentTQuantile((1 + p) / 2, df);
   const key = `${p} ${groups} ${df}`;
   const known = rangeQuantiles.get(key);
   if (known !== undefined) return known;
-  const quantile = polishedRangeQuantile(p, groups, df);
+  const quantile = polishedRangeQuantile(p, groups, df, near);
   if (rangeQuantiles.size >= 256) rangeQuantiles.clear();
   rangeQuantiles.set(key, quantile);
   return quantile;
@@ -214,15 +215,15 @@ export function studentizedRangeQuantile(p: number, groups: number, df: number):
 // report asks for the same quantile once per family, so quantiles are remembered.
 const rangeQuantiles = new Map<string, number>();
 
-function polishedRangeQuantile(p: number, groups: number, df: number): number {
-  const start = jStat.tukey.inv(p, groups, df);
+function polishedRangeQuantile(p: number, groups: number, df: number, near?: number): number {
+  const start = near ?? jStat.tukey.inv(p, groups, df);
   const gap = (q: number) => studentizedRangeLowerTail(q, groups, df) - p;
   const tolerance = 1e-13 * start;
   // Secant steps from the estimate, which is already within ~1e-7: two or three steps suffice.
   let x0 = start;
   let f0 = gap(x0);
   if (f0 === 0) return x0;
-  let x1 = start * (f0 < 0 ? 1 + 1e-6 : 1 - 1e-6);
+  let x1 = start * (f0 < 0 ? 1 + 1e-5 : 1 - 1e-5);
   let f1 = gap(x1);
   for (let step = 0; step < 8 && f1 !== 0 && f1 !== f0; step++) {
     const x2 = x1 - (f1 * (x1 - x0)) / (f1 - f0);

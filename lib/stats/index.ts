@@ -17,7 +17,14 @@ export { tukeyFromGroupSummaries, tukeyHsd, type GroupSummary, type TukeyCompari
 export { holm } from "./holm";
 export { wilsonInterval, type ProportionInterval } from "./wilson";
 export { metaAnalysis, type MetaAnalysis, type PooledEstimate } from "./meta-analysis";
-export { sampleSizeTwoMeans, powerTwoMeans, type SampleSize } from "./sample-size";
+export {
+  sampleSizeTwoMeans,
+  sampleSizePairwiseBlocked,
+  powerTwoMeans,
+  powerPairwiseBlocked,
+  type PairwiseDesign,
+  type SampleSize,
+} from "./sample-size";
 export { biologicalEfficiency, dryMass, massLoss } from "./efficiency";
 export {
   flushProfile,

@@ -19,12 +19,28 @@ describe("trial sample-size panel", () => {
   });
 
   it("allows for the expected loss and rounds up to a whole number per farm", () => {
+    // Three arms on four farms: every pair is compared with Tukey's adjustment on BE ~ arm + farm, so the
+    // size is no longer the two-sample t test's 16.71 (behaviour changed with issue 14; R check below).
     const panel = trialSampleSize({ difference: 1, sd: 1, plannedFarms: 4, expectedLoss: 0.1, arms: 3 });
     if (!panel.ok) throw new Error("expected a result");
-    // 16.71 / 0.9 = 18.57 blocks per arm → 4.64 per farm → 5 per farm → 20 per arm, 60 in all.
-    expect(panel.rows[0]).toMatchObject({ perFarmPerArm: 5, perArmToMake: 20, totalBlocks: 60 });
-    // 22.02 / 0.9 = 24.47 → 6.12 per farm → 7 per farm → 28 per arm.
-    expect(panel.rows[1]).toMatchObject({ perFarmPerArm: 7, perArmToMake: 28, totalBlocks: 84 });
+    expect(panel.pairs).toBe(3);
+    // R 4.2.2 (docs/references.md): 21.22397010189861 at 80 %, 27.20785870497318 at 90 %.
+    expect(Math.abs(panel.rows[0].exactPerArm - 21.22397010189861)).toBeLessThan(1e-5);
+    expect(Math.abs(panel.rows[1].exactPerArm - 27.20785870497318)).toBeLessThan(1e-5);
+    // 21.22 / 0.9 = 23.58 blocks per arm → 5.90 per farm → 6 per farm → 24 per arm, 72 in all.
+    expect(panel.rows[0]).toMatchObject({ perFarmPerArm: 6, perArmToMake: 24, totalBlocks: 72 });
+    // 27.21 / 0.9 = 30.23 → 7.56 per farm → 8 per farm → 32 per arm.
+    expect(panel.rows[1]).toMatchObject({ perFarmPerArm: 8, perArmToMake: 32, totalBlocks: 96 });
+  });
+
+  it("costs one error degree of freedom per farm: two arms on four farms need a little more than power.t.test", () => {
+    const panel = trialSampleSize({ difference: 10, sd: 10, plannedFarms: 4, expectedLoss: 0.05, arms: 2 });
+    if (!panel.ok) throw new Error("expected a result");
+    expect(panel.pairs).toBe(1);
+    // R 4.2.2: 16.82027074584617 (power.t.test on one farm: 16.7147598311578).
+    expect(Math.abs(panel.rows[0].exactPerArm - 16.82027074584617)).toBeLessThan(1e-8);
+    // 16.82 / 0.95 = 17.71 → 4.43 per farm → 5 → 20 per arm, as the design form's browser test expects.
+    expect(panel.rows[0].perArmToMake).toBe(20);
   });
 
   it("names the field to fix instead of giving a number for impossible input", () => {

@@ -38,7 +38,7 @@ describe("a strain trial in the browser", () => {
     await design.chooseStrain(1, "PO-02 — Valley Wild");
     await design.setSpread("10");
     await design.setSmallestDifference("10");
-    // delta = sd gives R's power.t.test n = 16.71 → 17.6 with 5 % loss → 5 per farm on 4 farms = 20.
+    // delta = sd on 4 farms as blocks gives n = 16.82 (R; power.t.test's 16.71 less 3 error df) → 17.7 with 5 % loss → 5 per farm = 20.
     expect(await design.blocksPerArm(80)).toBe(20);
     await design.setSmallestDifference("5");
     const smaller = await design.blocksPerArm(80);

@@ -385,7 +385,9 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
               {panel.ok ? (
                 <table className="w-full text-sm">
                   <caption className="mb-2 text-left text-ink-soft">
-                    Blocks to make, for each comparison with the reference (two-sided, 5 % level)
+                    {panel.pairs > 1
+                      ? `Blocks to make so that each pair of arms can be told apart (two-sided 5 % level, adjusted for comparing all ${panel.pairs} pairs, Tukey; farms as blocks)`
+                      : "Blocks to make so that the two arms can be told apart (two-sided 5 % level; farms as blocks)"}
                   </caption>
                   <thead>
                     <tr className="text-left">
@@ -415,8 +417,8 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
               )}
               {panel.ok ? (
                 <p className="mt-2 text-xs text-ink-soft">
-                  The t test needs {panel.rows[0].exactPerArm.toFixed(1)} blocks per arm for 80 % power; the figures allow for the expected
-                  loss and give every farm the same whole number.
+                  The farm-blocked comparison needs {panel.rows[0].exactPerArm.toFixed(1)} blocks per arm for 80 % power; the figures allow
+                  for the expected loss and give every farm the same whole number. The spread is between blocks of one arm on one farm.
                 </p>
               ) : null}
             </div>
