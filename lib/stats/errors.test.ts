@@ -4,7 +4,11 @@ import {
   biologicalEfficiency,
   blockedAnova,
   blockedAnovaFromCells,
+  designEffect,
   factorialAnova,
+  intraclassCorrelation,
+  roomMeanAnalysis,
+  roomsPerArm,
   describe as describeValues,
   dryMass,
   flushProfile,
@@ -121,6 +125,31 @@ describe("invalid input throws StatsInputError, never NaN", () => {
       ["c", "farm 3", 78],
     ].map(([treatment, block, y]) => ({ treatment: String(treatment), block: String(block), y: Number(y) }));
     expectCode(() => blockedAnova(obs), "too_few_values");
+  });
+
+  it("rejects room designs that cannot give a number", () => {
+    expectCode(() => designEffect(0, 0.05), "invalid_argument");
+    expectCode(() => designEffect(6, 1.2), "invalid_argument");
+    expectCode(() => roomsPerArm({ delta: 8, sd: 0, blocksPerRoom: 6, icc: 0.05 }), "invalid_argument");
+    expectCode(
+      () =>
+        intraclassCorrelation([
+          { room: "a", y: 1 },
+          { room: "a", y: 2 },
+        ]),
+      "too_few_values",
+    );
+    expectCode(
+      () =>
+        intraclassCorrelation([
+          { room: "a", y: 3 },
+          { room: "a", y: 3 },
+          { room: "b", y: 3 },
+          { room: "b", y: 3 },
+        ]),
+      "no_variation",
+    );
+    expectCode(() => roomMeanAnalysis([{ farm: "f", room: "r", treatment: "t", y: Number.NaN }]), "not_a_number");
   });
 
   it("rejects data with no spread instead of dividing by zero", () => {

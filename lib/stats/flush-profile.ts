@@ -53,7 +53,7 @@ export function flushProfile(records: FlushRecord[], level = 0.95): FlushProfile
     }
     requireMass(r.freshG, `Record ${i + 1} (block "${r.blockId}", flush ${r.flush}) fresh mass`);
     let flushes = perBlock.get(r.blockId);
-    if (!flushes) perBlock.set(r.blockId, (flushes = new Map()));
+    if (!flushes) perBlock.set(r.blockId, (flushes = new Map<number, number>()));
     flushes.set(r.flush, (flushes.get(r.flush) ?? 0) + r.freshG);
     lastFlush = Math.max(lastFlush, r.flush);
   });

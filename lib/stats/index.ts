@@ -25,6 +25,17 @@ export {
   type PairwiseDesign,
   type SampleSize,
 } from "./sample-size";
+export {
+  designEffect,
+  intraclassCorrelation,
+  roomMeanAnalysis,
+  roomsPerArm,
+  type IntraclassCorrelation,
+  type RoomBlock,
+  type RoomMeanAnalysis,
+  type RoomObservation,
+  type RoomSampleSize,
+} from "./room-trials";
 export { biologicalEfficiency, dryMass, massLoss } from "./efficiency";
 export {
   flushProfile,
