@@ -62,22 +62,20 @@ export type IntraclassCorrelation = {
  * on rooms − farms df, and m₀ = (N − Σ nᵢ²/N_f(i))/(rooms − farms), from the same expected mean square.
  */
 export function intraclassCorrelation(blocks: RoomBlock[]): IntraclassCorrelation {
-  const rooms = new Map<string, { farm: string; values: number[] }>();
+  const farms = new Map<string, { size: number; sum: number }>();
+  const rooms = new Map<string, { farm: { size: number; sum: number }; values: number[] }>();
   blocks.forEach((block, i) => {
     requireFinite(block.y, `Block ${i + 1} (room "${block.room}")`);
-    const farm = block.farm ?? "";
-    const key = `${farm}\u0000${block.room}`;
-    const entry = rooms.get(key) ?? { farm, values: [] };
-    entry.values.push(block.y);
-    rooms.set(key, entry);
+    let farm = farms.get(block.farm ?? "");
+    if (!farm) farms.set(block.farm ?? "", (farm = { size: 0, sum: 0 }));
+    farm.size++;
+    const key = `${block.farm ?? ""}\u0000${block.room}`;
+    const room = rooms.get(key) ?? { farm, values: [] };
+    room.values.push(block.y);
+    rooms.set(key, room);
   });
-  const farmSizes = new Map<string, number>();
-  const farmSums = new Map<string, number>();
-  for (const { farm, values } of rooms.values()) {
-    farmSizes.set(farm, (farmSizes.get(farm) ?? 0) + values.length);
-  }
   const total = blocks.length;
-  const dfBetween = rooms.size - farmSizes.size;
+  const dfBetween = rooms.size - farms.size;
   const dfWithin = total - rooms.size;
   if (dfBetween < 1 || dfWithin < 1) {
     throw new StatsInputError(
@@ -86,19 +84,18 @@ export function intraclassCorrelation(blocks: RoomBlock[]): IntraclassCorrelatio
     );
   }
   let ssWithin = 0;
-  const roomMeans: { farm: string; n: number; mean: number }[] = [];
+  const roomMeans: { farm: { size: number; sum: number }; n: number; mean: number }[] = [];
   for (const { farm, values } of rooms.values()) {
     const mean = accurateMean(values);
     for (const y of values) ssWithin += (y - mean) ** 2;
     roomMeans.push({ farm, n: values.length, mean });
-    farmSums.set(farm, (farmSums.get(farm) ?? 0) + values.length * mean);
+    farm.sum += values.length * mean;
   }
   let ssBetween = 0;
   let squaredSizes = 0;
   for (const { farm, n, mean } of roomMeans) {
-    const farmMean = farmSums.get(farm)! / farmSizes.get(farm)!;
-    ssBetween += n * (mean - farmMean) ** 2;
-    squaredSizes += (n * n) / farmSizes.get(farm)!;
+    ssBetween += n * (mean - farm.sum / farm.size) ** 2;
+    squaredSizes += (n * n) / farm.size;
   }
   const msBetween = ssBetween / dfBetween;
   const msWithin = ssWithin / dfWithin;

@@ -61,8 +61,11 @@ export function factorialDesignProblems(design: FactorialDesign): string[] {
 
 /** Level − versus, in BE points, from least-squares means of the factorial model; Tukey-adjusted within its family. */
 export interface FactorialComparison {
+  /** Labels of the two levels, and their ids in the design. */
   level: string;
   versus: string;
+  levelId: string;
+  versusId: string;
   estimate: number;
   se: number;
   lower: number;
@@ -123,9 +126,10 @@ export function analyseFactorialTrial(input: {
   const [first, second] = design.factors;
   const armLevels = new Map(design.arms.map((arm) => [arm.armId, arm.levels]));
   const position = (factor: TrialFactor, id: string) => factor.levels.findIndex((candidate) => candidate.id === id);
-  const analysed = records.filter(
-    (record): record is OutcomeRecord & { value: number } => record.value !== null && armLevels.has(record.armId),
-  );
+  const analysed = records.flatMap((record) => {
+    const levels = armLevels.get(record.armId);
+    return levels && record.value !== null ? [{ farm: record.farm, levels, value: record.value }] : [];
+  });
   const farms = new Set(analysed.map((record) => record.farm)).size;
   const enoughFarms = farms >= minimumFarms;
   const notes: string[] = [];
@@ -162,10 +166,13 @@ export function analyseFactorialTrial(input: {
 
   // Rows in the design's level order, so the model sees each factor's reference first.
   const observations: FactorialObservation[] = analysed
-    .map((record) => {
-      const [a, b] = armLevels.get(record.armId)!;
-      return { a, b, block: record.farm, y: record.value, order: position(first, a) * second.levels.length + position(second, b) };
-    })
+    .map(({ farm, levels: [a, b], value }) => ({
+      a,
+      b,
+      block: farm,
+      y: value,
+      order: position(first, a) * second.levels.length + position(second, b),
+    }))
     .sort((x, y) => x.order - y.order)
     .map(({ a, b, block, y }) => ({ a, b, block, y }));
   let fit: ReturnType<typeof factorialAnova>;
@@ -177,12 +184,14 @@ export function analyseFactorialTrial(input: {
     return { ...empty, answer: "No answer: the factorial analysis could not be fitted (see the notes)." };
   }
 
-  const labelOf = (factor: TrialFactor, id: string) => factor.levels.find((candidate) => candidate.id === id)!.label;
+  const labelOf = (factor: TrialFactor, id: string) => levelOf(factor, id).label;
   // The model gives mean(earlier) − mean(later); read each pair as the later level against the earlier one.
   const read = (factor: TrialFactor, pairs: PairwiseComparison[]): FactorialComparison[] =>
     pairs.map((pair) => ({
       level: labelOf(factor, pair.b),
       versus: labelOf(factor, pair.a),
+      levelId: pair.b,
+      versusId: pair.a,
       estimate: -pair.difference,
       se: pair.se,
       lower: -pair.upper,
@@ -207,8 +216,15 @@ export function analyseFactorialTrial(input: {
     ],
     interactionMaterial: fit.interaction.p < interactionLevel,
   };
-  analysis.answer = factorialAnswer(design, analysis, level);
+  analysis.answer = factorialAnswer(design, analysis, fit.interaction, level);
   return analysis;
+}
+
+/** The level of `factor` with this id (the design was checked, so it is there). */
+function levelOf(factor: TrialFactor, id: string): FactorLevel {
+  const found = factor.levels.find((candidate) => candidate.id === id);
+  if (!found) throw new Error(`Level ${id} is not in the ${factor.name} factor.`);
+  return found;
 }
 
 const whole = (x: number) => String(Math.round(x));
@@ -239,19 +255,17 @@ function comparisonClause(
     : clause;
 }
 
-function factorialAnswer(design: FactorialDesign, analysis: FactorialTrialAnalysis, level: number): string {
+function factorialAnswer(design: FactorialDesign, analysis: FactorialTrialAnalysis, interaction: AnovaTerm, level: number): string {
   const [first, second] = design.factors;
   const percent = `${Math.round(level * 100)} %`;
   const interval = (factor: TrialFactor) =>
     factor.levels.length > 2
       ? `${percent} interval, allowing for comparing ${factor.levels.length} ${factor.plural},`
       : `${percent} interval`;
-  const levelByLabel = (factor: TrialFactor, label: string) => factor.levels.find((candidate) => candidate.label === label)!;
   const againstReference = (factor: TrialFactor, comparisons: FactorialComparison[]) =>
-    comparisons.filter((comparison) => comparison.versus === factor.levels[0].label);
+    comparisons.filter((comparison) => comparison.versusId === factor.levels[0].id);
   const across = (other: TrialFactor) =>
     other.levels.length === 2 ? `, across both ${other.plural}` : `, across all ${other.levels.length} ${other.plural}`;
-  const interaction = analysis.anova!.interaction;
 
   if (!analysis.interactionMaterial) {
     const sentences = ([0, 1] as const).flatMap((index) => {
@@ -259,7 +273,7 @@ function factorialAnswer(design: FactorialDesign, analysis: FactorialTrialAnalys
       const other = design.factors[1 - index];
       return againstReference(factor, analysis.mainEffects[index]).map(
         (comparison) =>
-          `${comparisonClause(levelByLabel(factor, comparison.level).label, factor.levels[0], comparison, across(other), interval(factor))}.`,
+          `${comparisonClause(levelOf(factor, comparison.levelId).label, factor.levels[0], comparison, across(other), interval(factor))}.`,
       );
     });
     sentences.push(
@@ -269,7 +283,7 @@ function factorialAnswer(design: FactorialDesign, analysis: FactorialTrialAnalys
   }
   const within = analysis.simpleEffects[0].map((group) => {
     const clauses = againstReference(first, group.comparisons).map((comparison) =>
-      comparisonClause(inSentence(levelByLabel(first, comparison.level)), first.levels[0], comparison, "", interval(first)),
+      comparisonClause(inSentence(levelOf(first, comparison.levelId)), first.levels[0], comparison, "", interval(first)),
     );
     return `with ${group.within}, ${clauses.join("; ")}`;
   });
@@ -290,19 +304,20 @@ export function factorialDesignFromArms(
   }[],
   second: { name: string; plural: string },
 ): FactorialDesign | null {
-  if (arms.some((arm) => arm.treatment === null)) return null;
-  const reference = arms.find((arm) => arm.isReference) ?? arms[0];
-  const levels = (pick: (arm: (typeof arms)[number]) => { id: string; name: string }) => {
+  const paired = arms.flatMap((arm) => (arm.treatment ? [{ ...arm, treatment: arm.treatment }] : []));
+  if (paired.length !== arms.length || paired.length === 0) return null;
+  const reference = paired.find((arm) => arm.isReference) ?? paired[0];
+  const levels = (pick: (arm: (typeof paired)[number]) => { id: string; name: string }) => {
     const byId = new Map<string, FactorLevel>();
-    for (const arm of [reference, ...arms]) byId.set(pick(arm).id, { id: pick(arm).id, label: pick(arm).name });
+    for (const arm of [reference, ...paired]) byId.set(pick(arm).id, { id: pick(arm).id, label: pick(arm).name });
     return [...byId.values()];
   };
   const design: FactorialDesign = {
     factors: [
       { name: "strain", plural: "strains", levels: levels((arm) => arm.strain) },
-      { ...second, levels: levels((arm) => arm.treatment!) },
+      { ...second, levels: levels((arm) => arm.treatment) },
     ],
-    arms: arms.map((arm) => ({ armId: arm.id, levels: [arm.strain.id, arm.treatment!.id] })),
+    arms: paired.map((arm) => ({ armId: arm.id, levels: [arm.strain.id, arm.treatment.id] })),
   };
   const crossed = design.factors.every((factor) => factor.levels.length >= 2) && factorialDesignProblems(design).length === 0;
   return crossed ? design : null;
