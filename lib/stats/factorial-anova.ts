@@ -80,7 +80,10 @@ export function factorialAnova(observations: FactorialObservation[], level = 0.9
   const bLevels = bIndex.size;
   const blocks = blockIndex.size;
   if (aLevels < 2 || bLevels < 2) {
-    throw new StatsInputError("too_few_values", `A factorial analysis needs two or more levels of each factor; got ${aLevels} and ${bLevels}.`);
+    throw new StatsInputError(
+      "too_few_values",
+      `A factorial analysis needs two or more levels of each factor; got ${aLevels} and ${bLevels}.`,
+    );
   }
   if (blocks < 2) {
     throw new StatsInputError("too_few_values", "Only one block (farm) is present; a factorial trial across farms needs two or more.");

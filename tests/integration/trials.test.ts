@@ -217,16 +217,14 @@ describe("a strain trial from design to publication", () => {
           const be = 80 + effect[arm.label] + farmEffect + noise[arm.label].normal(0, 6);
           // The last farm has not yet recorded flush 2 of one block.
           const flushes = farmIndex === 3 && entry.sequence === unfinishedBlock ? [1] : [1, 2, 3];
-          await tx
-            .insert(harvests)
-            .values(
-              flushes.map((flush) => ({
-                farmId: manager.farmId!,
-                blockId: block.id,
-                flush,
-                freshMassG: ((1000 * be) / 100) * [0.6, 0.4, 0.2][flush - 1],
-              })),
-            );
+          await tx.insert(harvests).values(
+            flushes.map((flush) => ({
+              farmId: manager.farmId!,
+              blockId: block.id,
+              flush,
+              freshMassG: ((1000 * be) / 100) * [0.6, 0.4, 0.2][flush - 1],
+            })),
+          );
         }
       });
     }
