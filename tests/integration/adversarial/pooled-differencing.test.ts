@@ -3,7 +3,8 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase } from "@/db/client";
 import { loadMember, type Member } from "@/lib/data/members";
 import { getPooledResults } from "@/lib/data/pooled-results";
-import { updateCooperativePrivacySettings } from "@/lib/data/pooled-settings";
+import { getReleaseStatus } from "@/lib/data/pooled-releases";
+import { updateCooperativeSettings } from "@/lib/data/pooled-settings";
 import { listRegistries } from "@/lib/data/registries";
 import { databaseRefusal, superuserPool } from "../support/database";
 import { CoopFixture, fixtureEfficiency, mean, type FixtureBlock } from "./support/co-op-fixtures";
@@ -100,13 +101,30 @@ describe("an observer subtracting published pooled figures", () => {
     // Farm 1 uploads one more block.
     const newBlock: FixtureBlock = { flushes: [961.3, 412.1] };
     await fixture.blocks(farms[0].id, strain, [newBlock]);
-    await publishPooledFigures(inspector, [farms[0].id]);
+    const attempt = await publishPooledFigures(inspector, [farms[0].id]);
+    // The release waits, and the coordinator is told why and what it needs.
+    expect(attempt.outcome).toBe("waiting");
+    const waiting = (await getReleaseStatus(coordinator)).now;
+    if (waiting.outcome !== "waiting") throw new Error("the release should wait");
+    expect(waiting.waiting).toContainEqual(expect.objectContaining({ strainName: "Steady Bank", farmsChanged: 1 }));
+    expect(waiting.minimumFarms).toBe(3);
     const after = (await getPooledResults(observer, { speciesId: species.id, flushWindow: "all" })).results!.strains[0].efficiency;
 
     if (before.status !== "published" || after.status !== "published") throw new Error("the figure should be published");
     const revealed = after.value.blocks * after.value.estimate - before.value.blocks * before.value.estimate;
     // The measured attack: revealed equalled the new block's BE to 0.001 points.
     expect(after.value.blocks === before.value.blocks || Math.abs(revealed - fixtureEfficiency(newBlock)) > 0.5).toBe(true);
+
+    // Once two more farms upload, the release goes out: the step between releases now mixes three farms' new blocks.
+    const others: FixtureBlock[] = [{ flushes: [702.4, 301.9] }, { flushes: [655.0, 280.2] }];
+    await fixture.blocks(farms[1].id, strain, [others[0]]);
+    await fixture.blocks(farms[2].id, strain, [others[1]]);
+    expect((await publishPooledFigures(inspector, [farms[1].id, farms[2].id])).outcome).toBe("cut");
+    const later = (await getPooledResults(observer, { speciesId: species.id, flushWindow: "all" })).results!.strains[0].efficiency;
+    if (later.status !== "published") throw new Error("the figure should be published");
+    expect(later.value.blocks).toBe(before.value.blocks + 3);
+    // Published at 0.1 BE point, so even the three blocks' total is known only to within about n × 0.05 points.
+    expect(String(later.value.estimate).split(".")[1]?.length ?? 0).toBeLessThanOrEqual(1);
   });
 });
 
@@ -125,7 +143,9 @@ describe("counts per strain", () => {
 describe("the co-op's minimum number of farms", () => {
   it("cannot be set below 3, where each of two farms would learn the other's figures by subtracting its own", async () => {
     try {
-      await expect(updateCooperativePrivacySettings(coordinator, { minimumFarms: 2, showPerFarmEstimates: false })).rejects.toThrow();
+      await expect(
+        updateCooperativeSettings(coordinator, { minimumFarms: 2, showPerFarmEstimates: false, releaseSchedule: "daily", releaseHour: 2 }),
+      ).rejects.toThrow(/cannot be below 3/);
       expect(await databaseRefusal(inspector.query("update cooperative_settings set minimum_farms = 2"))).toMatch(/check constraint/);
     } finally {
       await inspector.query("update cooperative_settings set minimum_farms = 3");
