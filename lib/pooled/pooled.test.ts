@@ -2,7 +2,7 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { blockedAnova, tukeyHsd } from "@/lib/stats";
 import { seededRandom } from "@/lib/random";
-import { binQuantile, percentileOf } from "./bins";
+import { binQuantile, binsOf, percentileOf, publishablePercentile, publishableSpread } from "./bins";
 import { adjustedMeansFromCells, tukeyFromSummaries } from "./cell-models";
 import { filterIsSafe } from "./privacy";
 import { buildPooledResults, type PooledResultsInput, type StrainResult } from "./results";
@@ -400,5 +400,15 @@ describe("plain-language sentences and percentiles", () => {
     expect(percentileOf(bins, 80.5)).toBe(37.5);
     expect(binQuantile(bins, 0.5)).toBe(80.5);
     expect(binQuantile(bins, 0.9)).toBe(100.5);
+  });
+
+  it("publishes a percentile only with three blocks at or beyond it: whiskers from 21 blocks, quartiles from 9", () => {
+    const blocks = (n: number) => binsOf(Array.from({ length: n }, (_, index) => 60 + 2 * index));
+    // 20 blocks: the 10th percentile is the block at rank ⌊0.1 × 19⌋ = 1 (from 0), the second lowest: withheld.
+    expect(publishablePercentile(blocks(20), 0.1)).toBeNull();
+    expect(publishablePercentile(blocks(21), 0.1)).toBe(64.5);
+    expect(publishablePercentile(blocks(21), 0.9)).toBe(96.5);
+    expect(publishableSpread(blocks(8))).toBeNull();
+    expect(publishableSpread(blocks(9))).toEqual([null, 64.5, 68.5, 72.5, null]);
   });
 });

@@ -3,3 +3,4 @@ export * from "./randomisation";
 export * from "./sample-size";
 export * from "./outcome";
 export * from "./analysis";
+export * from "./report";
