@@ -50,7 +50,11 @@ async function publishedBlocksPerStrain(): Promise<{ minimumFarms: number; byStr
 }
 
 export async function listRegistries(member: Member) {
-  const [inUse, published] = await Promise.all([strainsWithBlocks(), publishedBlocksPerStrain()]);
+  // Whether any farm grows a strain matters only to the coordinator, who may delete unused ones.
+  const [inUse, published] = await Promise.all([
+    member.role === "coordinator" ? strainsWithBlocks() : Promise.resolve(new Set<string>()),
+    publishedBlocksPerStrain(),
+  ]);
   return withFarmContext(farmContextOf(member), async (tx) => {
     const speciesRows = await tx.select().from(species).orderBy(asc(species.commonName));
     const speciesName = new Map(speciesRows.map((row) => [row.id, row.commonName]));

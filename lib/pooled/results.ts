@@ -120,11 +120,14 @@ export function buildPooledResults(input: PooledResultsInput): PooledResults {
     });
   }
 
-  // Strains whose BE is published take part in the blocked model and the comparisons.
-  const comparable = [...cells.entries()].filter(
-    ([strainId, farms]) =>
-      safety.get(strainId)!.efficiency && contributingFarms(farms.values(), (cell) => cell.efficiency.n) >= minimumFarms,
-  );
+  // Strains whose BE is published take part in the blocked model and the comparisons, in name
+  // order: a release must read the same whatever order its rows come back in.
+  const comparable = [...cells.entries()]
+    .filter(
+      ([strainId, farms]) =>
+        safety.get(strainId)!.efficiency && contributingFarms(farms.values(), (cell) => cell.efficiency.n) >= minimumFarms,
+    )
+    .sort(([a], [b]) => (strainNames.get(a) ?? "").localeCompare(strainNames.get(b) ?? "") || a.localeCompare(b));
   const adjusted = adjustedMeans(comparable, level);
 
   const strains: StrainResult[] = [...cells.entries()]
