@@ -55,8 +55,6 @@ export interface ReleasePlan {
   heldBack: HeldBackFigure[];
   /** Farms whose data changed in any figure since the last release (published now or held back). */
   farmsChanged: number;
-  /** Figures left out because fewer than the minimum number of farms contribute to them now. */
-  figuresWithheld: number;
 }
 
 /** One farm's part of one figure, as numbers compared between releases; the first number says whether it contributes. */
@@ -212,16 +210,12 @@ export function planRelease(previous: ReleaseContents, live: ReleaseContents, mi
   const heldBack: HeldBackFigure[] = [];
   const farmsChanged = new Set<string>();
   let figuresChanged = 0;
-  let figuresWithheld = 0;
   for (const key of new Set([...before.keys(), ...now.keys()])) {
     for (const kind of releaseFigureKinds) {
       const old = before.get(key)?.get(kind) ?? new Map<string, Vector>();
       let candidate = now.get(key)?.get(kind) ?? new Map<string, Vector>();
       const contributing = [...candidate.values()].filter(contributes).length;
-      if (contributing > 0 && contributing < minimumFarms) {
-        candidate = new Map();
-        figuresWithheld++;
-      }
+      if (contributing > 0 && contributing < minimumFarms) candidate = new Map();
       const changed = [...new Set([...old.keys(), ...candidate.keys()])].filter(
         (farmId) => !sameVector(old.get(farmId), candidate.get(farmId)),
       );
@@ -232,7 +226,7 @@ export function planRelease(previous: ReleaseContents, live: ReleaseContents, mi
       for (const [farmId, vector] of kept) if (normal(vector).length > 0) put(next, key, kind, farmId, vector);
     }
   }
-  return { next: contentsOf(next), figuresChanged, heldBack, farmsChanged: farmsChanged.size, figuresWithheld };
+  return { next: contentsOf(next), figuresChanged, heldBack, farmsChanged: farmsChanged.size };
 }
 
 /** The live statistics keep one row per trial arm; a release adds a farm's arms together (bins included). */

@@ -129,7 +129,7 @@ export function discloseTrialAnalysis(
 
   const versusReference = analysis.versusReference.filter((row) => shown(row.arm) && shown(row.versus));
   const withheldNote =
-    [...withheldArms].length && enough
+    withheldArms.size && enough
       ? [
           `Arm${withheldArms.size === 1 ? "" : "s"} ${[...withheldArms].join(", ")}: run on fewer than ${minimumFarms} farms, so ${withheldArms.size === 1 ? "its" : "their"} figures are not published.`,
         ]
