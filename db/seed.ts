@@ -10,6 +10,7 @@ import { closeDatabase, withAnalystAccess, withFarmContext } from "./client";
 import * as schema from "./schema";
 import { publishDemoTrial } from "./seed-trials";
 import { hashPassword } from "@/lib/auth/password";
+import { cutSetupRelease } from "@/lib/data/pooled-releases";
 import { seededRandom, type Random } from "@/lib/random";
 
 export const demoPassword = "alder-valley-demo";
@@ -165,20 +166,18 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
       .insert(schema.farms)
       .values(farmPlans.map((farm) => ({ name: farm.name, region: farm.region, contactEmail: farm.manager.email })))
       .returning();
-    await owner
-      .insert(schema.users)
-      .values([
-        { email: demoSignIns[0].email, name: demoSignIns[0].name, role: "coordinator", passwordHash },
-        { email: demoSignIns[3].email, name: demoSignIns[3].name, role: "observer", passwordHash },
-        { email: demoSignIns[2].email, name: demoSignIns[2].name, role: "grower", farmId: farms[0].id, passwordHash },
-        ...farmPlans.map((farm, index) => ({
-          email: farm.manager.email,
-          name: farm.manager.name,
-          role: "farm_manager" as const,
-          farmId: farms[index].id,
-          passwordHash,
-        })),
-      ]);
+    await owner.insert(schema.users).values([
+      { email: demoSignIns[0].email, name: demoSignIns[0].name, role: "coordinator", passwordHash },
+      { email: demoSignIns[3].email, name: demoSignIns[3].name, role: "observer", passwordHash },
+      { email: demoSignIns[2].email, name: demoSignIns[2].name, role: "grower", farmId: farms[0].id, passwordHash },
+      ...farmPlans.map((farm, index) => ({
+        email: farm.manager.email,
+        name: farm.manager.name,
+        role: "farm_manager" as const,
+        farmId: farms[index].id,
+        passwordHash,
+      })),
+    ]);
 
     const species = await owner
       .insert(schema.species)
@@ -393,8 +392,11 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
         console.log(`  ${farm.name}: ${plans.length} blocks, ${harvestRows.length} harvests`);
       });
     }
-    // The co-op's pooled statistics, as the analyst role computes them after each upload.
+    // The co-op's pooled statistics, as the analyst role computes them after each upload, and
+    // their first release, so the demo's Co-op results have figures to show.
     await withAnalystAccess((tx) => tx.execute(sql`select pooled_refresh_all()`));
+    const release = await cutSetupRelease();
+    console.log(`  pooled figures: ${release.outcome === "cut" ? `release ${release.release.number}` : release.outcome}`);
     await publishDemoTrial(owner, "T-2026-01", new Date(`${today}T09:00:00Z`));
   } finally {
     await pool.end();

@@ -1,7 +1,9 @@
 // Times the pooled-statistics refresh on a generated co-op of 50 farms × 10 000 blocks ×
 // 4 flushes (2 million harvests), each beside a bare SQL GROUP BY computing the same per-farm
-// sums in the same run; then serves the built app on the same database and loads the results
-// API with 20 clients for 30 s, beside a static file from the same server. Prints figures only.
+// sums in the same run; cuts the first release of them; times one results computation from the
+// live statistics and from the release; then serves the built app on the same database and loads
+// the results API with 20 clients for 30 s, beside a static file from the same server. Prints
+// figures only.
 import { spawn, spawnSync } from "node:child_process";
 import { mkdtempSync } from "node:fs";
 import { createRequire } from "node:module";
@@ -11,7 +13,9 @@ import { performance } from "node:perf_hooks";
 import { Pool } from "pg";
 import { chromium } from "playwright-core";
 import { hashPassword } from "../lib/auth/password";
-import { buildPooledResults, type FlushStatisticsRow, type StrainStatisticsRow } from "../lib/pooled";
+import { closeDatabase } from "../db/client";
+import { cutSetupRelease } from "../lib/data/pooled-releases";
+import { buildPooledResults, roundPooledResults, type FlushStatisticsRow, type StrainStatisticsRow } from "../lib/pooled";
 import { seededRandom } from "../lib/random";
 
 interface LoadResult {
@@ -43,11 +47,6 @@ function pool(url: string | undefined, database?: string): Pool {
 const database = process.env.RHIZO_DATABASE;
 const superuser = pool(process.env.SUPERUSER_DATABASE_URL, database);
 const analyst = pool(process.env.ANALYST_DATABASE_URL);
-
-async function timed(work: () => Promise<unknown>): Promise<number> {
-  const [median] = await timedSideBySide([work]);
-  return median;
-}
 
 /** Runs the works in turn, RUNS rounds, so a cold cache or a busy moment falls on each alike; medians. */
 async function timedSideBySide(works: (() => Promise<unknown>)[]): Promise<number[]> {
@@ -116,6 +115,12 @@ async function main() {
     ? (await superuser.query<{ id: string }>("select id from farms order by name limit 1")).rows[0]?.id
     : undefined;
   const farmId = existing ?? (await generate());
+  if (existing) {
+    // A co-op kept from an earlier run has its releases too; the first release is timed again from none.
+    // Releases refuse to be removed; the superuser switches the refusing triggers off in its own transaction.
+    await superuser.query(`begin; set local session_replication_role = replica;
+      delete from pooled_release_strain_rows; delete from pooled_release_flush_rows; delete from pooled_releases; commit;`);
+  }
 
   const [fullRefresh, fullBare] = await timedSideBySide([
     () => analyst.query("select pooled_refresh_all()"),
@@ -129,32 +134,25 @@ async function main() {
     () => analyst.query(bareGroupBy(`where b.farm_id = '${farmId}'`)),
   ]);
 
-  // What one results request computes: read the species' statistics and pool them.
+  // (d) The co-op's first release of these statistics, then a scheduled attempt that finds nothing new (it plans and writes nothing).
+  const firstStart = performance.now();
+  const first = await cutSetupRelease();
+  const firstCut = performance.now() - firstStart;
+  if (first.outcome !== "cut") throw new Error(`The first release was not cut: ${first.outcome}`);
+  const [nothingNew] = await timedSideBySide([() => cutSetupRelease()]);
+
+  // What one results request computes: read the species' statistics and pool them, from the live
+  // tables (as before releases) and from the release (as the app does now), side by side.
   const species = (await analyst.query<{ id: string }>("select id from species limit 1")).rows[0].id;
   const strains = (await analyst.query<{ id: string; name: string }>("select id, name from strains")).rows;
-  const request = async () => {
-    const rows = (
-      await analyst.query(
-        `
-      select farm_id as "farmId", strain_id as "strainId", substrate_recipe_id as "substrateRecipeId", fruiting_method_id as "fruitingMethodId",
-        blocks, blocks_contaminated as "blocksContaminated", efficiency_blocks as "efficiencyBlocks", efficiency_sum as "efficiencySum",
-        efficiency_squares as "efficiencySquares", efficiency_bins as "efficiencyBins", first_harvest_blocks as "firstHarvestBlocks",
-        first_harvest_days_sum as "firstHarvestDaysSum"
-      from farm_strain_statistics where species_id = $1 and flush_window = 'all'`,
-        [species],
-      )
-    ).rows as StrainStatisticsRow[];
-    const flushRows = (
-      await analyst.query(
-        `
-      select farm_id as "farmId", strain_id as "strainId", substrate_recipe_id as "substrateRecipeId", fruiting_method_id as "fruitingMethodId",
-        flush, finished_blocks as "finishedBlocks", blocks_fruiting as "blocksFruiting", share_sum as "shareSum", share_squares as "shareSquares",
-        cumulative_sum as "cumulativeSum", cumulative_squares as "cumulativeSquares"
-      from farm_flush_statistics where species_id = $1`,
-        [species],
-      )
-    ).rows as FlushStatisticsRow[];
-    return buildPooledResults({
+  const columns = `farm_id as "farmId", strain_id as "strainId", substrate_recipe_id as "substrateRecipeId", fruiting_method_id as "fruitingMethodId"`;
+  const strainColumns = `${columns}, blocks, blocks_contaminated as "blocksContaminated", efficiency_blocks as "efficiencyBlocks",
+    efficiency_sum as "efficiencySum", efficiency_squares as "efficiencySquares", efficiency_bins as "efficiencyBins",
+    first_harvest_blocks as "firstHarvestBlocks", first_harvest_days_sum as "firstHarvestDaysSum"`;
+  const flushColumns = `${columns}, flush, finished_blocks as "finishedBlocks", blocks_fruiting as "blocksFruiting", share_sum as "shareSum",
+    share_squares as "shareSquares", cumulative_sum as "cumulativeSum", cumulative_squares as "cumulativeSquares"`;
+  const pool = (rows: StrainStatisticsRow[], flushRows: FlushStatisticsRow[]) =>
+    buildPooledResults({
       rows,
       flushRows,
       strains,
@@ -164,15 +162,49 @@ async function main() {
       viewerFarmId: farmId,
       random: seededRandom(1),
     });
-  };
-  const requestTime = await timed(request);
+  const fromLive = async () =>
+    pool(
+      (await analyst.query(`select ${strainColumns} from farm_strain_statistics where species_id = $1 and flush_window = 'all'`, [species]))
+        .rows as StrainStatisticsRow[],
+      (await analyst.query(`select ${flushColumns} from farm_flush_statistics where species_id = $1`, [species]))
+        .rows as FlushStatisticsRow[],
+    );
+  const release = first.release.number;
+  const fromRelease = async () =>
+    roundPooledResults(
+      pool(
+        (
+          await analyst.query(
+            `select ${strainColumns} from pooled_release_strain_rows where release_number = $1 and species_id = $2 and flush_window = 'all'`,
+            [release, species],
+          )
+        ).rows as StrainStatisticsRow[],
+        (
+          await analyst.query(`select ${flushColumns} from pooled_release_flush_rows where release_number = $1 and species_id = $2`, [
+            release,
+            species,
+          ])
+        ).rows as FlushStatisticsRow[],
+      ),
+    );
+  const [liveTime, releaseTime] = await timedSideBySide([fromLive, fromRelease]);
+  // The release holds every figure here (50 farms in each cell), so its figures are the live ones, rounded.
+  const same = JSON.stringify(await fromRelease()) === JSON.stringify(roundPooledResults(await fromLive()));
 
   console.log("");
   console.log(`| measurement (median of ${RUNS}) | pooled refresh | bare GROUP BY, same sums | ratio |`);
   console.log("| --- | --- | --- | --- |");
   console.log(`| (a) one farm after a 40 000-row upload | ${ms(oneRefresh)} | ${ms(oneBare)} | ${(oneRefresh / oneBare).toFixed(2)}× |`);
   console.log(`| (b) full recompute, ${FARMS} farms | ${ms(fullRefresh)} | ${ms(fullBare)} | ${(fullRefresh / fullBare).toFixed(2)}× |`);
-  console.log(`| results for one species (read statistics + pool, no HTTP) | ${ms(requestTime)} | | |`);
+  console.log("");
+  console.log("| measurement | from the live statistics (before releases) | from the release (now) |");
+  console.log("| --- | --- | --- |");
+  console.log(
+    `| results for one species (read statistics + pool, no HTTP; median of ${RUNS}) | ${ms(liveTime)} | ${ms(releaseTime)} (with rounding) |`,
+  );
+  console.log(`| figures | | ${same ? "the same as the live ones, rounded" : "DIFFERENT from the live ones"} |`);
+  console.log(`| (d) cutting the first release, ${FARMS} farms | | ${ms(firstCut)} |`);
+  console.log(`| (d) a scheduled attempt with nothing new (plans, writes nothing; median of ${RUNS}) | | ${ms(nothingNew)} |`);
 
   if (!process.env.RHIZO_BENCH_SKIP_HTTP) await loadTest(species, farmId);
 }
@@ -285,4 +317,5 @@ try {
 } finally {
   await superuser.end();
   await analyst.end();
+  await closeDatabase();
 }

@@ -35,7 +35,8 @@ fresh_database() {
   say "Applying database migrations"
   npx tsx scripts/migrate.ts
   say "Loading the demo co-op"
-  npx tsx db/seed.ts
+  # react-server: the seed calls the data layer, whose modules are marked server-only.
+  npx tsx --conditions=react-server db/seed.ts
 }
 
 if wants integration || wants e2e; then

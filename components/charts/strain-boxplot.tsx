@@ -4,8 +4,8 @@ import { ResponsiveBoxPlot, type BoxPlotCustomLayerProps } from "@nivo/boxplot";
 
 export interface StrainSpread {
   strain: string;
-  /** 10th, 25th, 50th, 75th and 90th percentiles of block biological efficiency. */
-  percentiles: [number, number, number, number, number];
+  /** 10th, 25th, 50th, 75th and 90th percentiles of block biological efficiency; whiskers null where too few blocks lie beyond them. */
+  percentiles: [number | null, number, number, number, number | null];
 }
 
 type Datum = { strain: string; efficiency: number };
@@ -22,8 +22,12 @@ export interface OwnStrainDots {
  * to the 10th and 90th (so no single co-op block is drawn), with the viewer's own blocks as dots.
  */
 export function StrainBoxplot({ spreads, ownBlocks }: { spreads: StrainSpread[]; ownBlocks: OwnStrainDots[] }) {
-  // Five values per strain whose 0/25/50/75/100 % quantiles are exactly the published percentiles.
-  const data: Datum[] = spreads.flatMap((spread) => spread.percentiles.map((efficiency) => ({ strain: spread.strain, efficiency })));
+  // Five values per strain whose 0/25/50/75/100 % quantiles are exactly the published percentiles; a whisker not
+  // published ends at its box.
+  const data: Datum[] = spreads.flatMap(({ strain, percentiles: [p10, p25, p50, p75, p90] }) =>
+    [p10 ?? p25, p25, p50, p75, p90 ?? p75].map((efficiency) => ({ strain, efficiency })),
+  );
+  const withoutWhiskers = spreads.filter((spread) => spread.percentiles[0] === null || spread.percentiles[4] === null);
   const shown = new Set(spreads.map((spread) => spread.strain));
   const ownShown = ownBlocks.filter((own) => shown.has(own.strain));
   const points = ownShown.flatMap((own) => own.efficiencies.map((efficiency) => ({ strain: own.strain, efficiency })));
@@ -79,6 +83,9 @@ export function StrainBoxplot({ spreads, ownBlocks }: { spreads: StrainSpread[];
       </div>
       <figcaption className="text-sm text-ink-soft">
         Boxes: middle half of the co-op&apos;s blocks; whiskers: 10th to 90th percentile; line: median.
+        {withoutWhiskers.length
+          ? ` No whiskers for ${withoutWhiskers.map((spread) => spread.strain).join(", ")}: fewer than 21 blocks, so a whisker would sit on a single block.`
+          : ""}
         {points.length ? " Brown dots: your own blocks." : ""}
         {thinned.length
           ? ` You have ${ownShown.reduce((sum, own) => sum + own.blocks, 0).toLocaleString("en")} blocks here; where a strain has more than ${thinned[0].efficiencies.length}, that many dots stand for its blocks, spread evenly from your lowest to your highest.`

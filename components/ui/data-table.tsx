@@ -24,10 +24,20 @@ export interface DataTableProps<Row> {
   pageSize?: number;
   /** Offer a CSV download of the filtered rows (formula injection neutralised). */
   csvFileName?: string;
+  /** Columns only the CSV has, the same on every row (e.g. which release the figures come from). */
+  csvConstants?: { header: string; value: string }[];
 }
 
 /** Sort, filter, hide columns, page through and export: the one table every list in the app uses. */
-export function DataTable<Row>({ caption, columns, rows, emptyMessage, pageSize = 25, csvFileName }: DataTableProps<Row>) {
+export function DataTable<Row>({
+  caption,
+  columns,
+  rows,
+  emptyMessage,
+  pageSize = 25,
+  csvFileName,
+  csvConstants = [],
+}: DataTableProps<Row>) {
   const [sorting, setSorting] = useState<SortingState>([]);
   const [filter, setFilter] = useState("");
   const [columnVisibility, setColumnVisibility] = useState<VisibilityState>({});
@@ -47,12 +57,19 @@ export function DataTable<Row>({ caption, columns, rows, emptyMessage, pageSize 
 
   function downloadCsv() {
     const visible = table.getVisibleLeafColumns();
+    const constants = csvConstants.map((constant, index) => ({ key: `constant-${index}`, ...constant }));
     const csv = toCsv(
-      table.getFilteredRowModel().rows.map((row) => Object.fromEntries(visible.map((column) => [column.id, row.getValue(column.id)]))),
-      visible.map((column) => ({
-        key: column.id,
-        header: typeof column.columnDef.header === "string" ? column.columnDef.header : column.id,
+      table.getFilteredRowModel().rows.map((row) => ({
+        ...Object.fromEntries(visible.map((column) => [column.id, row.getValue(column.id)])),
+        ...Object.fromEntries(constants.map((constant) => [constant.key, constant.value])),
       })),
+      [
+        ...visible.map((column) => ({
+          key: column.id,
+          header: typeof column.columnDef.header === "string" ? column.columnDef.header : column.id,
+        })),
+        ...constants.map(({ key, header }) => ({ key, header })),
+      ],
     );
     const link = document.createElement("a");
     link.href = URL.createObjectURL(new Blob([csv], { type: "text/csv;charset=utf-8" }));

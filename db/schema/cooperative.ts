@@ -11,9 +11,19 @@ export const cooperativeSettings = pgTable(
     region: text("region").notNull().default(""),
     minimumFarms: integer("minimum_farms").notNull().default(3),
     showPerFarmEstimates: boolean("show_per_farm_estimates").notNull().default(false),
+    /** When the scheduled job cuts a release of the pooled figures: "daily", "weekly" (Mondays) or "manual" (coordinator only). */
+    releaseSchedule: text("release_schedule").notNull().default("daily"),
+    /** The hour (UTC, 0–23) at which a scheduled release is due. */
+    releaseHour: integer("release_hour").notNull().default(2),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [check("cooperative_settings_single_row", sql`${t.id} = 1`), check("minimum_farms_at_least_two", sql`${t.minimumFarms} >= 2`)],
+  (t) => [
+    check("cooperative_settings_single_row", sql`${t.id} = 1`),
+    // With two farms, each learns the other's figures by subtracting its own.
+    check("minimum_farms_at_least_three", sql`${t.minimumFarms} >= 3`),
+    check("release_schedule_known", sql`${t.releaseSchedule} in ('daily', 'weekly', 'manual')`),
+    check("release_hour_of_day", sql`${t.releaseHour} between 0 and 23`),
+  ],
 );
 
 export const farms = pgTable(

@@ -6,3 +6,4 @@ export * from "./season";
 export * from "./audit";
 export * from "./mail";
 export * from "./pooled";
+export * from "./releases";

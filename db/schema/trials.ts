@@ -1,5 +1,19 @@
 import { sql } from "drizzle-orm";
-import { boolean, check, date, index, integer, jsonb, numeric, pgTable, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
+import {
+  boolean,
+  check,
+  date,
+  index,
+  integer,
+  jsonb,
+  numeric,
+  pgTable,
+  primaryKey,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+} from "drizzle-orm/pg-core";
 import { farms, users } from "./cooperative";
 import { contaminatedHandling, enrolmentStatus, trialStatus } from "./enums";
 import { species, strains, treatments } from "./registries";
@@ -104,4 +118,26 @@ export const trialBlockAssignments = pgTable(
     uniqueIndex("trial_block_assignments_code_unique").on(t.farmId, t.blockCode),
     index("trial_block_assignments_trial_idx").on(t.trialId),
   ],
+);
+
+/**
+ * Which pseudonym a trial report gave each farm ("Farm C"), drawn at random when the trial is
+ * analysed, and the farm's own estimates: row-level security lets only that farm's people read
+ * its row, so a farm finds itself in the report and nobody else can tell which row is whose.
+ * Written by rhizo_analyst with the analysis.
+ */
+export const trialReportFarms = pgTable(
+  "trial_report_farms",
+  {
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    pseudonym: text("pseudonym").notNull(),
+    /** The farm's own difference against the reference arm, per arm (BE points, 95 % interval). */
+    ownEstimates: jsonb("own_estimates").$type<{ arm: string; estimate: number; lower: number; upper: number }[]>().notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.trialId, t.farmId] })],
 );

@@ -2,7 +2,7 @@ import "server-only";
 import { sql } from "drizzle-orm";
 import { withFarmContext } from "@/db/client";
 import { farmContextOf, type Member } from "@/lib/data/members";
-import { getCoopStrainBenchmarks, getPooledUpdating } from "@/lib/data/pooled-results";
+import { getCoopStrainBenchmarks } from "@/lib/data/pooled-results";
 import { AppError } from "@/lib/errors";
 import { summariseOwnFarm, type OwnBlock, type OwnStrainSummary } from "@/lib/pooled";
 
@@ -10,7 +10,6 @@ export interface MyFarmPage {
   farmName: string;
   displayUnits: "metric" | "imperial";
   minimumFarms: number;
-  updating: boolean;
   seasonStartedOn: string;
   strains: OwnStrainSummary[];
 }
@@ -58,7 +57,6 @@ export async function getMyFarm(member: Member): Promise<MyFarmPage> {
     farmName: member.farmName ?? "Your farm",
     displayUnits: member.displayUnits,
     minimumFarms,
-    updating: await getPooledUpdating(),
     seasonStartedOn,
     strains: summariseOwnFarm(blocks, byStrain, minimumFarms),
   };

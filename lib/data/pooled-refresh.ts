@@ -1,12 +1,14 @@
 import "server-only";
 import { sql } from "drizzle-orm";
-import { withAnalystAccess } from "@/db/client";
+import { keptUntilChanged } from "@/db/change-feed";
+import { readAsAnalyst, withAnalystAccess } from "@/db/client";
 
 /**
  * Recomputes the co-op's per-farm sufficient statistics for one farm (all of its cells: a
  * committed upload may touch any strain it grows). Called without waiting by the season-log
  * commit and after a farm withdraws; a farm with no rows left drops out of the statistics.
- * While it runs, pooled_refresh_state marks the farm pending so pages can say "results updating".
+ * While it runs, pooled_refresh_state marks the farm pending, so the coordinator's release panel can
+ * say that a farm's new data is not in the statistics yet.
  * Never throws: a failure is logged and the farm stays pending until the next refresh.
  */
 export async function refreshPooledStatistics(farmId: string): Promise<void> {
@@ -38,3 +40,15 @@ export async function refreshAllPooledStatistics(): Promise<void> {
     await tx.execute(sql`select pooled_refresh_all()`);
   });
 }
+
+/** True while any farm's statistics are still being recomputed after an upload. */
+export const getPooledUpdating = keptUntilChanged(
+  "pooled-statistics",
+  async (): Promise<boolean> => {
+    const [row] = await readAsAnalyst<{ pending: boolean }>(
+      sql`select exists (select 1 from pooled_refresh_state where requested > completed) as pending`,
+    );
+    return Boolean(row?.pending);
+  },
+  () => "",
+);

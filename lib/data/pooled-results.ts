@@ -1,46 +1,29 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
-import { and, asc, eq, inArray, sql } from "drizzle-orm";
+import { asc, eq, sql } from "drizzle-orm";
 import { keptUntilChanged } from "@/db/change-feed";
-import { readAsAnalyst, withAnalystAccess, withFarmContext } from "@/db/client";
-import {
-  cooperativeSettings,
-  farmFlushStatistics,
-  farmStrainStatistics,
-  species,
-  strains,
-  substrateRecipes,
-  treatments,
-} from "@/db/schema";
+import { withAnalystAccess, withFarmContext } from "@/db/client";
+import { cooperativeSettings, species, strains, substrateRecipes, treatments } from "@/db/schema";
 import { farmContextOf, type Member } from "@/lib/data/members";
+import { latestRelease, releaseContents, type ReleaseInfo } from "@/lib/data/pooled-releases";
 import { AppError } from "@/lib/errors";
 import {
   addBins,
   buildPooledResults,
+  describeReleaseSchedule,
   ownBlocksForChart,
   pooledFlushProfile,
+  publishedSteps,
+  roundPooledResults,
+  roundTo,
   type FlushWindow,
   type OwnStrainBlocks,
   type PooledFilters,
   type PooledResults,
+  type ReleaseSchedule,
 } from "@/lib/pooled";
 import type { FlushProfile } from "@/lib/stats";
 import { seededRandom } from "@/lib/random";
-
-/** The columns of a farm's flush statistics that the pooled flush profile needs. */
-const flushStatisticsColumns = {
-  farmId: farmFlushStatistics.farmId,
-  strainId: farmFlushStatistics.strainId,
-  substrateRecipeId: farmFlushStatistics.substrateRecipeId,
-  fruitingMethodId: farmFlushStatistics.fruitingMethodId,
-  flush: farmFlushStatistics.flush,
-  finishedBlocks: farmFlushStatistics.finishedBlocks,
-  blocksFruiting: farmFlushStatistics.blocksFruiting,
-  shareSum: farmFlushStatistics.shareSum,
-  shareSquares: farmFlushStatistics.shareSquares,
-  cumulativeSum: farmFlushStatistics.cumulativeSum,
-  cumulativeSquares: farmFlushStatistics.cumulativeSquares,
-};
 
 export interface PooledResultsQuery {
   speciesId?: string;
@@ -59,46 +42,28 @@ export interface PooledResultsPage {
   flushWindow: FlushWindow;
   substrateRecipeId: string | null;
   fruitingMethodId: string | null;
-  updating: boolean;
+  /** The release the figures come from (null before the first), and when the next one may come. */
+  release: ReleaseInfo | null;
+  releaseSchedule: string;
   results: PooledResults | null;
   /** The viewer's own blocks' biological efficiency by strain, for the boxplot overlay (farm people only). */
   ownBlocks: OwnStrainBlocks[];
 }
 
-/** True while any farm's statistics are still being recomputed after an upload. */
-export const getPooledUpdating = keptUntilChanged(
-  "pooled-statistics",
-  async (): Promise<boolean> => {
-    const [row] = await readAsAnalyst<{ pending: boolean }>(
-      sql`select exists (select 1 from pooled_refresh_state where requested > completed) as pending`,
-    );
-    return Boolean(row?.pending);
-  },
-  () => "",
-);
-
-export async function getCooperativePrivacySettings(): Promise<{ minimumFarms: number; showPerFarmEstimates: boolean }> {
-  return withAnalystAccess(async (tx) => {
-    const [row] = await tx
-      .select({ minimumFarms: cooperativeSettings.minimumFarms, showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates })
-      .from(cooperativeSettings);
-    return row ?? { minimumFarms: 3, showPerFarmEstimates: false };
-  });
-}
-
 /**
- * The Co-op results for one species and flush window. Per-farm statistics are read through the
- * analyst role and leave this function only as lib/pooled aggregates; the viewer's own blocks
- * come through their own farm context.
+ * The Co-op results for one species and flush window, from the newest release (never the live
+ * statistics) and rounded to what the page shows. Per-farm rows are read through the analyst
+ * role and leave this function only as lib/pooled aggregates; the viewer's own blocks come live
+ * through their own farm context.
  */
 export async function getPooledResults(member: Member, query: PooledResultsQuery): Promise<PooledResultsPage> {
-  const [page, updating] = await Promise.all([keptPooledResults(member, query), getPooledUpdating()]);
+  const page = await keptPooledResults(member, query);
   const filters: PooledFilters = {
     ...(query.substrateRecipeId ? { substrateRecipeId: query.substrateRecipeId } : {}),
     ...(query.fruitingMethodId ? { fruitingMethodId: query.fruitingMethodId } : {}),
   };
   const ownBlocks = member.farmId && page.speciesId ? await keptOwnBlocks(member, page.speciesId, query.flushWindow, filters) : [];
-  return { ...page, updating, ownBlocks };
+  return { ...page, ownBlocks };
 }
 
 /**
@@ -113,7 +78,7 @@ export const getPooledResultsJson = keptUntilChanged(
 );
 
 /**
- * Pooled results change only when PostgreSQL says the statistics, the co-op's settings or its
+ * Pooled results change only when PostgreSQL says a release was cut or the co-op's settings or
  * registers changed (db/change-feed.ts), so each process keeps the last computation per query
  * and viewer's farm (the forest chart labels the viewer's own farm).
  */
@@ -136,7 +101,7 @@ function resultsKey(member: Member, query: PooledResultsQuery, role: Member["rol
   ]);
 }
 
-async function computePooledResults(member: Member, query: PooledResultsQuery): Promise<Omit<PooledResultsPage, "ownBlocks" | "updating">> {
+async function computePooledResults(member: Member, query: PooledResultsQuery): Promise<Omit<PooledResultsPage, "ownBlocks">> {
   const analysed = await withAnalystAccess(async (tx) => {
     const [settings] = await tx.select().from(cooperativeSettings);
     const speciesList = await tx.select({ id: species.id, name: species.commonName }).from(species).orderBy(asc(species.commonName));
@@ -153,46 +118,44 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
       .from(treatments)
       .where(eq(treatments.kind, "fruiting_method"))
       .orderBy(asc(treatments.name));
-    if (!speciesId) return { settings, speciesList, recipes, methods, speciesId, rows: [], flushRows: [], strainList: [] };
+    const release = await latestRelease(tx);
+    if (!speciesId || !release)
+      return { settings, speciesList, recipes, methods, speciesId, release, rows: [], flushRows: [], strainList: [] };
     const strainList = await tx.select({ id: strains.id, name: strains.name }).from(strains).where(eq(strains.speciesId, speciesId));
-    const rows = await tx
-      .select({
-        farmId: farmStrainStatistics.farmId,
-        strainId: farmStrainStatistics.strainId,
-        substrateRecipeId: farmStrainStatistics.substrateRecipeId,
-        fruitingMethodId: farmStrainStatistics.fruitingMethodId,
-        blocks: farmStrainStatistics.blocks,
-        blocksContaminated: farmStrainStatistics.blocksContaminated,
-        efficiencyBlocks: farmStrainStatistics.efficiencyBlocks,
-        efficiencySum: farmStrainStatistics.efficiencySum,
-        efficiencySquares: farmStrainStatistics.efficiencySquares,
-        efficiencyBins: farmStrainStatistics.efficiencyBins,
-        firstHarvestBlocks: farmStrainStatistics.firstHarvestBlocks,
-        firstHarvestDaysSum: farmStrainStatistics.firstHarvestDaysSum,
-      })
-      .from(farmStrainStatistics)
-      .where(and(eq(farmStrainStatistics.speciesId, speciesId), eq(farmStrainStatistics.flushWindow, query.flushWindow)));
-    const flushRows = await tx.select(flushStatisticsColumns).from(farmFlushStatistics).where(eq(farmFlushStatistics.speciesId, speciesId));
-    return { settings, speciesList, recipes, methods, speciesId, rows, flushRows, strainList };
+    const contents = await releaseContents(tx, release.number, { speciesId, flushWindow: query.flushWindow });
+    return {
+      settings,
+      speciesList,
+      recipes,
+      methods,
+      speciesId,
+      release,
+      rows: contents.strainRows,
+      flushRows: contents.flushRows,
+      strainList,
+    };
   });
 
   const filters: PooledFilters = {
     ...(query.substrateRecipeId ? { substrateRecipeId: query.substrateRecipeId } : {}),
     ...(query.fruitingMethodId ? { fruitingMethodId: query.fruitingMethodId } : {}),
   };
-  const results = analysed.speciesId
-    ? buildPooledResults({
-        rows: analysed.rows,
-        flushRows: analysed.flushRows,
-        strains: analysed.strainList,
-        filters,
-        minimumFarms: analysed.settings?.minimumFarms ?? 3,
-        showPerFarmEstimates: analysed.settings?.showPerFarmEstimates ?? false,
-        viewerFarmId: member.farmId,
-        // A fresh order on every computation, so a row's place says nothing about which farm it is.
-        random: seededRandom(randomUUID()),
-      })
-    : null;
+  const results =
+    analysed.speciesId && analysed.release
+      ? roundPooledResults(
+          buildPooledResults({
+            rows: analysed.rows,
+            flushRows: analysed.flushRows,
+            strains: analysed.strainList,
+            filters,
+            minimumFarms: analysed.settings?.minimumFarms ?? 3,
+            showPerFarmEstimates: analysed.settings?.showPerFarmEstimates ?? false,
+            viewerFarmId: member.farmId,
+            // A fresh order on every computation, so a row's place says nothing about which farm it is.
+            random: seededRandom(randomUUID()),
+          }),
+        )
+      : null;
 
   return {
     options: { species: analysed.speciesList, recipes: analysed.recipes, fruitingMethods: analysed.methods },
@@ -200,6 +163,11 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
     flushWindow: query.flushWindow,
     substrateRecipeId: query.substrateRecipeId ?? null,
     fruitingMethodId: query.fruitingMethodId ?? null,
+    release: analysed.release,
+    releaseSchedule: describeReleaseSchedule(
+      (analysed.settings?.releaseSchedule ?? "daily") as ReleaseSchedule,
+      analysed.settings?.releaseHour ?? 2,
+    ),
     results,
   };
 }
@@ -234,44 +202,48 @@ const keptOwnBlocks = keptUntilChanged(
 export interface CoopStrainBenchmark {
   /** Block BE bins over at least the minimum number of farms, or null when suppressed. */
   bins: Record<string, number> | null;
-  /** The pooled flush profile over at least the minimum number of farms, or null. */
+  /** The pooled flush profile over at least the minimum number of farms, at the published step, or null. */
   profile: FlushProfile | null;
 }
 
 /**
- * Per strain, the co-op's unfiltered block-BE distribution and flush profile (all flushes),
- * each only where at least the minimum number of farms contributed. For My farm's percentile
- * and forecast; the bins never leave the server, only figures computed from them.
+ * Per strain, the co-op's unfiltered block-BE distribution and flush profile (all flushes) from
+ * the newest release, each only where at least the minimum number of farms contributed. For My
+ * farm's percentile and forecast; the bins never leave the server, only figures computed from them.
  */
 export async function getCoopStrainBenchmarks(
   strainIds: string[],
 ): Promise<{ minimumFarms: number; byStrain: Map<string, CoopStrainBenchmark> }> {
-  if (strainIds.length === 0) return { minimumFarms: 3, byStrain: new Map() };
   return withAnalystAccess(async (tx) => {
     const [settings] = await tx.select({ minimumFarms: cooperativeSettings.minimumFarms }).from(cooperativeSettings);
     const minimumFarms = settings?.minimumFarms ?? 3;
-    const rows = await tx
-      .select({
-        farmId: farmStrainStatistics.farmId,
-        strainId: farmStrainStatistics.strainId,
-        efficiencyBlocks: farmStrainStatistics.efficiencyBlocks,
-        bins: farmStrainStatistics.efficiencyBins,
-      })
-      .from(farmStrainStatistics)
-      .where(and(inArray(farmStrainStatistics.strainId, strainIds), eq(farmStrainStatistics.flushWindow, "all")));
-    const flushRows = await tx
-      .select(flushStatisticsColumns)
-      .from(farmFlushStatistics)
-      .where(inArray(farmFlushStatistics.strainId, strainIds));
+    const release = await latestRelease(tx);
+    if (strainIds.length === 0 || !release) return { minimumFarms, byStrain: new Map() };
+    const wanted = new Set(strainIds);
+    const contents = await releaseContents(tx, release.number, { flushWindow: "all" });
+    const rows = contents.strainRows.filter((row) => wanted.has(row.strainId));
+    const flushRows = contents.flushRows.filter((row) => wanted.has(row.strainId));
     const byStrain = new Map<string, CoopStrainBenchmark>();
     for (const strainId of strainIds) {
       const strainRows = rows.filter((row) => row.strainId === strainId && row.efficiencyBlocks > 0);
       const binFarms = new Set(strainRows.map((row) => row.farmId)).size;
       const strainFlushRows = flushRows.filter((row) => row.strainId === strainId && row.finishedBlocks > 0);
       const flushFarms = new Set(strainFlushRows.map((row) => row.farmId)).size;
+      const profile = flushFarms >= minimumFarms ? pooledFlushProfile(strainFlushRows) : null;
       byStrain.set(strainId, {
-        bins: binFarms >= minimumFarms ? strainRows.reduce<Record<string, number>>((sum, row) => addBins(sum, row.bins), {}) : null,
-        profile: flushFarms >= minimumFarms ? pooledFlushProfile(strainFlushRows) : null,
+        bins:
+          binFarms >= minimumFarms ? strainRows.reduce<Record<string, number>>((sum, row) => addBins(sum, row.efficiencyBins), {}) : null,
+        // At the step the Co-op results publish, so a forecast cannot be turned back into finer shares.
+        profile:
+          profile?.map((share) => ({
+            ...share,
+            meanShare: roundTo(share.meanShare, publishedSteps.flushShare),
+            lower: roundTo(share.lower, publishedSteps.flushShare),
+            upper: roundTo(share.upper, publishedSteps.flushShare),
+            cumulativeShare: roundTo(share.cumulativeShare, publishedSteps.flushShare),
+            cumulativeLower: roundTo(share.cumulativeLower, publishedSteps.flushShare),
+            cumulativeUpper: roundTo(share.cumulativeUpper, publishedSteps.flushShare),
+          })) ?? null,
       });
     }
     return { minimumFarms, byStrain };

@@ -5,37 +5,44 @@ import { cooperativeSettings } from "@/db/schema";
 import { recordAudit } from "@/lib/data/audit";
 import { farmContextOf, type Member } from "@/lib/data/members";
 import { AppError } from "@/lib/errors";
+import type { CooperativeSettingsInput, ReleaseSchedule } from "@/lib/pooled";
 
-export interface CooperativePrivacySettings {
-  minimumFarms: number;
-  showPerFarmEstimates: boolean;
-}
+const settingsColumns = {
+  minimumFarms: cooperativeSettings.minimumFarms,
+  showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates,
+  releaseSchedule: cooperativeSettings.releaseSchedule,
+  releaseHour: cooperativeSettings.releaseHour,
+};
 
-export async function getCooperativeSettingsForEditing(member: Member): Promise<CooperativePrivacySettings & { name: string }> {
+export async function getCooperativeSettingsForEditing(member: Member): Promise<CooperativeSettingsInput & { name: string }> {
   return withFarmContext(farmContextOf(member), async (tx) => {
-    const [row] = await tx
-      .select({
-        name: cooperativeSettings.name,
-        minimumFarms: cooperativeSettings.minimumFarms,
-        showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates,
-      })
-      .from(cooperativeSettings);
+    const [row] = await tx.select({ name: cooperativeSettings.name, ...settingsColumns }).from(cooperativeSettings);
     if (!row) throw new AppError("not_found", "The co-op has no settings row yet; run the set-up (npm start) first.");
-    return row;
+    return { ...row, releaseSchedule: row.releaseSchedule as ReleaseSchedule };
   });
 }
 
-/** Changes who counts as "enough farms" and whether anonymised per-farm estimates are shown; audited. */
-export async function updateCooperativePrivacySettings(member: Member, next: CooperativePrivacySettings): Promise<void> {
+/**
+ * Changes who counts as "enough farms", whether anonymised per-farm estimates are shown and when
+ * releases are cut; audited. The database refuses a minimum below 3 whoever asks.
+ */
+export async function updateCooperativeSettings(member: Member, next: CooperativeSettingsInput): Promise<void> {
   await withFarmContext(farmContextOf(member), async (tx) => {
-    const [before] = await tx
-      .select({ minimumFarms: cooperativeSettings.minimumFarms, showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates })
-      .from(cooperativeSettings);
+    const [before] = await tx.select(settingsColumns).from(cooperativeSettings);
     const updated = await tx
       .update(cooperativeSettings)
-      .set({ minimumFarms: next.minimumFarms, showPerFarmEstimates: next.showPerFarmEstimates, updatedAt: sql`now()` })
+      .set({ ...next, updatedAt: sql`now()` })
       .where(eq(cooperativeSettings.id, 1))
-      .returning({ id: cooperativeSettings.id });
+      .returning({ id: cooperativeSettings.id })
+      .catch((error: { cause?: { code?: string; constraint?: string } }) => {
+        if (error.cause?.constraint === "minimum_farms_at_least_three") {
+          throw new AppError(
+            "invalid_input",
+            "The minimum number of farms cannot be below 3: with 2, each farm learns the other's figures.",
+          );
+        }
+        throw error;
+      });
     if (updated.length === 0) throw new AppError("forbidden", "Only the co-op coordinator may change these settings.");
     await recordAudit(tx, {
       action: "cooperative-settings.updated",

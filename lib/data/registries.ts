@@ -1,38 +1,74 @@
 import "server-only";
 import { asc, eq, inArray, sql } from "drizzle-orm";
 import { withAnalystAccess, withFarmContext, type Transaction } from "@/db/client";
-import { blocks, species, strains, substrateRecipes, treatments, trialArms } from "@/db/schema";
+import { blocks, cooperativeSettings, species, strains, substrateRecipes, treatments, trialArms } from "@/db/schema";
 import { AppError } from "@/lib/errors";
 import { describeProblem, parseRegistryCsv, type RegistryKind, type RegistryRow } from "@/lib/members/registry-csv";
+import { suppressedMessage, type Published } from "@/lib/pooled";
 import { recordAudit } from "./audit";
 import { farmContextOf, type Member } from "./members";
+import { latestRelease, releaseContents } from "./pooled-releases";
 
 const tables = { species, strains, substrate_recipes: substrateRecipes, treatments } as const;
 type Status = "proposed" | "active" | "retired";
 
 /**
- * How many blocks, across all farms, use each strain: a count per strain, read by the analyst
- * role because the coordinator cannot see farms' rows. Nothing but the counts leaves here.
+ * Which strains any farm has blocks of, live (whether a strain may still be deleted): a yes or
+ * no per strain, read by the analyst role because the coordinator cannot see farms' rows.
  */
-async function blocksPerStrain(): Promise<Map<string, number>> {
-  const rows = await withAnalystAccess((tx) =>
-    tx
-      .select({ strainId: blocks.strainId, count: sql<number>`count(*)::int` })
-      .from(blocks)
-      .groupBy(blocks.strainId),
-  );
-  return new Map(rows.map((row) => [row.strainId, row.count]));
+async function strainsWithBlocks(): Promise<Set<string>> {
+  const rows = await withAnalystAccess((tx) => tx.selectDistinct({ strainId: blocks.strainId }).from(blocks));
+  return new Set(rows.map((row) => row.strainId));
+}
+
+/**
+ * How many blocks of each strain the newest release counts, published only where at least the
+ * co-op's minimum number of farms have blocks of it, like every other count: a strain grown on
+ * one farm would otherwise show that farm's block count to everyone.
+ */
+async function publishedBlocksPerStrain(): Promise<{ minimumFarms: number; byStrain: Map<string, number> }> {
+  return withAnalystAccess(async (tx) => {
+    const [settings] = await tx.select({ minimumFarms: cooperativeSettings.minimumFarms }).from(cooperativeSettings);
+    const minimumFarms = settings?.minimumFarms ?? 3;
+    const release = await latestRelease(tx);
+    if (!release) return { minimumFarms, byStrain: new Map() };
+    const counts = new Map<string, { blocks: number; farms: Set<string> }>();
+    for (const row of (await releaseContents(tx, release.number, { flushWindow: "all" })).strainRows) {
+      if (row.blocks === 0) continue;
+      const entry = counts.get(row.strainId) ?? { blocks: 0, farms: new Set<string>() };
+      entry.blocks += row.blocks;
+      entry.farms.add(row.farmId);
+      counts.set(row.strainId, entry);
+    }
+    return {
+      minimumFarms,
+      byStrain: new Map(
+        [...counts].filter(([, entry]) => entry.farms.size >= minimumFarms).map(([strainId, entry]) => [strainId, entry.blocks]),
+      ),
+    };
+  });
 }
 
 export async function listRegistries(member: Member) {
-  const inUse = await blocksPerStrain();
+  // Whether any farm grows a strain matters only to the coordinator, who may delete unused ones.
+  const [inUse, published] = await Promise.all([
+    member.role === "coordinator" ? strainsWithBlocks() : Promise.resolve(new Set<string>()),
+    publishedBlocksPerStrain(),
+  ]);
   return withFarmContext(farmContextOf(member), async (tx) => {
     const speciesRows = await tx.select().from(species).orderBy(asc(species.commonName));
     const speciesName = new Map(speciesRows.map((row) => [row.id, row.commonName]));
     const strainRows = await tx.select().from(strains).orderBy(asc(strains.code));
     return {
       species: speciesRows,
-      strains: strainRows.map((row) => ({ ...row, speciesName: speciesName.get(row.speciesId) ?? "", blocks: inUse.get(row.id) ?? 0 })),
+      strains: strainRows.map((row) => {
+        const count = published.byStrain.get(row.id);
+        const blocks: Published<number> =
+          count === undefined
+            ? { status: "suppressed", message: suppressedMessage(published.minimumFarms) }
+            : { status: "published", value: count };
+        return { ...row, speciesName: speciesName.get(row.speciesId) ?? "", blocks, inUse: inUse.has(row.id) };
+      }),
       substrateRecipes: await tx.select().from(substrateRecipes).orderBy(asc(substrateRecipes.code)),
       treatments: await tx.select().from(treatments).orderBy(asc(treatments.code)),
     };
@@ -139,7 +175,7 @@ export async function moveRegistryEntry(
   move: "approve" | "retire" | "reinstate" | "delete",
 ): Promise<void> {
   if (member.role !== "coordinator") throw new AppError("forbidden", "Only the coordinator approves, retires or deletes registry entries.");
-  const inUse = kind === "strains" && move === "delete" ? ((await blocksPerStrain()).get(id) ?? 0) : 0;
+  const inUse = kind === "strains" && move === "delete" ? (await strainsWithBlocks()).has(id) : false;
   await withFarmContext(farmContextOf(member), async (tx) => {
     const table = tables[kind];
     const [entry] = await tx.select().from(table).where(eq(table.id, id));
@@ -148,10 +184,10 @@ export async function moveRegistryEntry(
     if (move === "delete") {
       if (kind === "strains") {
         const [arm] = await tx.select({ id: trialArms.id }).from(trialArms).where(eq(trialArms.strainId, id)).limit(1);
-        if (inUse > 0 || arm) {
+        if (inUse || arm) {
           throw new AppError(
             "conflict",
-            `${label} has data (${inUse} blocks${arm ? " and a trial arm" : ""}): retire it instead, so past records keep their strain.`,
+            `${label} has data (${[inUse ? "recorded blocks" : "", arm ? "a trial arm" : ""].filter(Boolean).join(" and ")}): retire it instead, so past records keep their strain.`,
           );
         }
       }

@@ -15,11 +15,13 @@ import {
   trialArms,
   trialBlockAssignments,
   trialEnrolments,
+  trialReportFarms,
   trials,
   users,
 } from "@/db/schema";
 import { recordAudit } from "@/lib/data/audit";
 import { farmContextOf, type Member } from "@/lib/data/members";
+import { latestRelease, releaseContents } from "@/lib/data/pooled-releases";
 import { AppError } from "@/lib/errors";
 import {
   enrolmentConfirmationMail,
@@ -29,14 +31,16 @@ import {
   type TrialMail,
 } from "@/lib/mail/messages/trials";
 import { sendMail } from "@/lib/mail/send";
+import { publishedSteps, roundTo, withinFarmSpread } from "@/lib/pooled";
+import { seededRandom } from "@/lib/random";
 import {
-  analyseTrial,
   assertMove,
   blockCodePrefix,
   isDesignEditable,
   permutedBlockList,
   TrialRuleError,
-  trialOutcomeRecords,
+  markOwnFarm,
+  trialReport,
   trialStatusLabels,
   type StoredTrialResults,
   type TrialStatus,
@@ -162,15 +166,48 @@ async function loadTrial(tx: Transaction, member: Member, trialId: string) {
     .leftJoin(treatments, eq(treatments.id, trialArms.treatmentId))
     .where(eq(trialArms.trialId, trialId))
     .orderBy(asc(trialArms.position));
-  return { ...trial, status: trial.status as TrialStatus, arms, results: (trial.publishedResults as StoredResults | null) ?? null };
+  return { ...trial, status: trial.status, arms, results: (trial.publishedResults as StoredResults | null) ?? null };
 }
 
 export type TrialView = Awaited<ReturnType<typeof loadTrial>>;
 
+/**
+ * A trial as the member may read it. For a farm's people the report marks their own farm's rows,
+ * from trial_report_farms, which row-level security lets them read for their own farm only.
+ */
 export async function getTrial(member: Member, trialId: string): Promise<TrialView> {
   if (!/^[0-9a-f-]{36}$/i.test(trialId))
     throw new AppError("not_found", "There is no such trial. Go back to Trials and pick one from the list.");
-  return withFarmContext(farmContextOf(member), (tx) => loadTrial(tx, member, trialId));
+  return withFarmContext(farmContextOf(member), async (tx) => {
+    const trial = await loadTrial(tx, member, trialId);
+    if (!trial.results || !member.farmId) return trial;
+    const [own] = await tx
+      .select({ pseudonym: trialReportFarms.pseudonym, ownEstimates: trialReportFarms.ownEstimates })
+      .from(trialReportFarms)
+      .where(and(eq(trialReportFarms.trialId, trialId), eq(trialReportFarms.farmId, member.farmId)));
+    return own ? { ...trial, results: { ...trial.results, analysis: markOwnFarm(trial.results.analysis, own) } } : trial;
+  });
+}
+
+/** Whether enough farms have accepted to start the trial: the trial page warns the coordinator before they try. */
+export async function getStartReadiness(member: Member, trialId: string): Promise<{ accepted: number; minimumFarms: number }> {
+  return withFarmContext(farmContextOf(member), async (tx) => ({
+    accepted: await acceptedFarms(tx, trialId),
+    minimumFarms: await minimumFarmsOf(tx),
+  }));
+}
+
+async function acceptedFarms(tx: Transaction, trialId: string): Promise<number> {
+  const [{ accepted }] = await tx
+    .select({ accepted: sql<number>`count(*)::int` })
+    .from(trialEnrolments)
+    .where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.status, "accepted")));
+  return accepted;
+}
+
+async function minimumFarmsOf(tx: Transaction): Promise<number> {
+  const [settings] = await tx.select({ minimumFarms: cooperativeSettings.minimumFarms }).from(cooperativeSettings);
+  return settings?.minimumFarms ?? 3;
 }
 
 /** The coordinator's record of every state move, newest first (audit events are co-op level). */
@@ -211,35 +248,28 @@ export async function listDesignOptions(member: Member) {
 }
 
 /**
- * The spread between blocks the co-op has seen per species: BE over the first two flushes of
- * uncontaminated blocks, pooled after taking out each farm's own mean. Only aggregates leave
- * the analyst role, and only for species with at least the co-op's minimum number of farms.
+ * The spread between blocks the co-op has published per species, for the sample-size prefill: BE
+ * over the first two flushes of uncontaminated blocks, pooled after taking out each farm's own
+ * mean, from the newest release (so it changes only with a release, like every pooled figure),
+ * and only for species with at least the co-op's minimum number of farms. The SD is given to
+ * 0.1 BE point, as the form shows it.
  */
-export async function listBlockSpreadBySpecies(): Promise<Record<string, { sd: number; blocks: number; farms: number }>> {
+export async function listBlockSpreadBySpecies(): Promise<{
+  minimumFarms: number;
+  bySpecies: Record<string, { sd: number; blocks: number; farms: number }>;
+}> {
   return withAnalystAccess(async (tx) => {
-    const result = await tx.execute(sql`
-      WITH block_be AS (
-        SELECT s.species_id, b.farm_id,
-               100 * coalesce(sum(h.fresh_mass_g) FILTER (WHERE h.flush <= 2), 0) / (b.wet_mass_g * (1 - b.moisture)) AS be
-        FROM blocks b
-        JOIN strains s ON s.id = b.strain_id
-        LEFT JOIN harvests h ON h.block_id = b.id
-        WHERE NOT b.contaminated AND b.wet_mass_g > 0 AND b.moisture IS NOT NULL
-        GROUP BY s.species_id, b.id, b.farm_id, b.wet_mass_g, b.moisture
-        HAVING count(h.id) > 0
-      ), centred AS (
-        SELECT species_id, farm_id, be - avg(be) OVER (PARTITION BY species_id, farm_id) AS deviation FROM block_be
-      )
-      SELECT species_id, count(*)::int AS blocks, count(DISTINCT farm_id)::int AS farms,
-             sqrt(sum(deviation * deviation) / nullif(count(*) - count(DISTINCT farm_id), 0))::float8 AS sd
-      FROM centred GROUP BY species_id`);
-    const [settings] = await tx.select({ minimumFarms: cooperativeSettings.minimumFarms }).from(cooperativeSettings);
-    const minimum = settings?.minimumFarms ?? 3;
-    const spread: Record<string, { sd: number; blocks: number; farms: number }> = {};
-    for (const row of result.rows as { species_id: string; blocks: number; farms: number; sd: number | null }[]) {
-      if (row.sd !== null && row.farms >= minimum) spread[row.species_id] = { sd: Number(row.sd), blocks: row.blocks, farms: row.farms };
+    const minimumFarms = await minimumFarmsOf(tx);
+    const release = await latestRelease(tx);
+    if (!release) return { minimumFarms, bySpecies: {} };
+    const rows = (await releaseContents(tx, release.number, { flushWindow: "1-2" })).strainRows;
+    const bySpecies: Record<string, { sd: number; blocks: number; farms: number }> = {};
+    for (const speciesId of new Set(rows.map((row) => row.speciesId))) {
+      const spread = withinFarmSpread(rows.filter((row) => row.speciesId === speciesId));
+      if (spread && spread.farms >= minimumFarms)
+        bySpecies[speciesId] = { ...spread, sd: roundTo(spread.sd, publishedSteps.efficiencyPoints) };
     }
-    return spread;
+    return { minimumFarms, bySpecies };
   });
 }
 
@@ -295,10 +325,10 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
     if (input.trialId) {
       const [current] = await tx.select({ status: trials.status, code: trials.code }).from(trials).where(eq(trials.id, input.trialId));
       if (!current) throw new AppError("not_found", "That trial no longer exists. Start a new design from Trials.");
-      if (!isDesignEditable(current.status as TrialStatus)) {
+      if (!isDesignEditable(current.status)) {
         throw new AppError(
           "conflict",
-          `Trial ${current.code} is "${trialStatusLabels[current.status as TrialStatus]}": its design is fixed once enrolment opens.`,
+          `Trial ${current.code} is "${trialStatusLabels[current.status]}": its design is fixed once enrolment opens.`,
         );
       }
       await tx.update(trials).set(values).where(eq(trials.id, input.trialId));
@@ -313,18 +343,16 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
         .returning({ id: trials.id });
       id = created.id;
     }
-    await tx
-      .insert(trialArms)
-      .values(
-        input.arms.map((arm, index) => ({
-          trialId: id,
-          label: arm.label,
-          strainId: arm.strainId,
-          treatmentId: arm.treatmentId,
-          isReference: arm.isReference,
-          position: index + 1,
-        })),
-      );
+    await tx.insert(trialArms).values(
+      input.arms.map((arm, index) => ({
+        trialId: id,
+        label: arm.label,
+        strainId: arm.strainId,
+        treatmentId: arm.treatmentId,
+        isReference: arm.isReference,
+        position: index + 1,
+      })),
+    );
     await recordAudit(tx, {
       ...actor(member),
       action: input.trialId ? "trial.draft_saved" : "trial.created",
@@ -354,12 +382,16 @@ export async function moveTrial(member: Member, trialId: string, to: TrialStatus
         throw new AppError("conflict", "Mark exactly one arm as the reference before enrolment opens.");
     }
     if (to === "running") {
-      const accepted = await tx
-        .select({ id: trialEnrolments.id })
-        .from(trialEnrolments)
-        .where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.status, "accepted")));
-      if (!accepted.length)
+      const accepted = await acceptedFarms(tx, trialId);
+      const minimumFarms = await minimumFarmsOf(tx);
+      if (!accepted)
         throw new AppError("conflict", "No farm has accepted yet. Invite farms and wait for at least one to accept before starting.");
+      // Below the minimum the report could show nothing, or one farm's own figures: refuse before any block is made.
+      if (accepted < minimumFarms)
+        throw new AppError(
+          "conflict",
+          `Only ${accepted} farm${accepted === 1 ? " has" : "s have"} accepted. A trial starts with at least ${minimumFarms} farms, the co-op's minimum, so that its report never shows one farm's figures. Invite more farms, or wait for them to accept.`,
+        );
       await tx
         .update(trialEnrolments)
         .set({ status: "dropped" })
@@ -398,7 +430,11 @@ async function deliver(to: string, mail: TrialMail): Promise<void> {
   await sendMail({ to, ...mail });
 }
 
-/** Runs the pre-declared analysis through the analyst role; only the aggregate result comes back. */
+/**
+ * Runs the pre-declared analysis through the analyst role and keeps only what the report may
+ * publish (lib/trials/report.ts). Each farm's pseudonym and own estimates go to
+ * trial_report_farms, which only that farm's people can read, replacing any from an earlier run.
+ */
 async function analyseStoredTrial(tx: Transaction, trial: TrialView): Promise<StoredResults> {
   const enrolments = await tx
     .select({ status: trialEnrolments.status, farmId: trialEnrolments.farmId })
@@ -409,8 +445,10 @@ async function analyseStoredTrial(tx: Transaction, trial: TrialView): Promise<St
     .from(trialBlockAssignments)
     .where(eq(trialBlockAssignments.trialId, trial.id));
   const armIds = trial.arms.map((arm) => arm.id);
-  const { analysis, blocksMade } = await withAnalystAccess(async (analyst) => {
-    const [settings] = await analyst.select({ minimumFarms: cooperativeSettings.minimumFarms }).from(cooperativeSettings);
+  return withAnalystAccess(async (analyst) => {
+    const [settings] = await analyst
+      .select({ minimumFarms: cooperativeSettings.minimumFarms, showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates })
+      .from(cooperativeSettings);
     const blockRows = armIds.length
       ? await analyst
           .select({
@@ -435,26 +473,37 @@ async function analyseStoredTrial(tx: Transaction, trial: TrialView): Promise<St
             ),
           )
       : [];
-    const records = trialOutcomeRecords(blockRows, harvestRows, {
-      flushes: trial.outcomeFlushes,
-      contaminatedHandling: trial.contaminatedHandling,
-    });
-    return {
-      analysis: analyseTrial({ arms: trial.arms, records, minimumFarms: settings?.minimumFarms ?? 3 }),
-      blocksMade: blockRows.length,
-    };
-  });
-  return {
-    analysis,
-    deviations: {
-      farmsDropped: enrolments.filter((enrolment) => enrolment.status === "dropped").length,
-      farmsDeclined: enrolments.filter((enrolment) => enrolment.status === "declined").length,
+    const { results, farms: reportFarms } = trialReport({
+      arms: trial.arms,
+      blockRows,
+      harvestRows,
+      outcome: { flushes: trial.outcomeFlushes, contaminatedHandling: trial.contaminatedHandling },
+      minimumFarms: settings?.minimumFarms ?? 3,
+      showPerFarmEstimates: settings?.showPerFarmEstimates ?? false,
+      // Unpredictable per trial, so no order the app shows (ids, names, enrolment) gives the pseudonyms away.
+      random: seededRandom(randomBytes(16).toString("hex")),
+      enrolments,
       blocksAssigned: assigned,
-      blocksMade,
-      blocksLeftOut: analysis.blocksLeftOut,
-    },
-    analysedAt: new Date().toISOString(),
-  };
+      analysedAt: new Date().toISOString(),
+    });
+    await analyst.delete(trialReportFarms).where(eq(trialReportFarms.trialId, trial.id));
+    if (reportFarms.length) {
+      await analyst.insert(trialReportFarms).values(
+        reportFarms.map((farm) => ({
+          trialId: trial.id,
+          farmId: farm.farmKey,
+          pseudonym: farm.pseudonym,
+          ownEstimates: farm.ownEstimates,
+        })),
+      );
+    }
+    return results;
+  });
+}
+
+/** The coordinator closes the demo's trial in the seed: the same analysis as closing a trial in the app. */
+export async function analyseTrialAsCoordinator(member: Member, trialId: string): Promise<StoredResults> {
+  return withFarmContext(farmContextOf(member), async (tx) => analyseStoredTrial(tx, await loadTrial(tx, member, trialId)));
 }
 
 // ——— Enrolment ———
@@ -581,19 +630,17 @@ export async function respondToInvitation(
       .update(trialEnrolments)
       .set({ status: "accepted", blocksPerArm, randomisationSeed: seed, respondedAt: new Date() })
       .where(eq(trialEnrolments.id, enrolment.id));
-    await tx
-      .insert(trialBlockAssignments)
-      .values(
-        list.map((entry) => ({
-          trialId,
-          farmId: member.farmId!,
-          enrolmentId: enrolment.id,
-          armId: entry.armId,
-          blockCode: entry.blockCode,
-          sequence: entry.sequence,
-          permutedBlock: entry.permutedBlock,
-        })),
-      );
+    await tx.insert(trialBlockAssignments).values(
+      list.map((entry) => ({
+        trialId,
+        farmId: member.farmId!,
+        enrolmentId: enrolment.id,
+        armId: entry.armId,
+        blockCode: entry.blockCode,
+        sequence: entry.sequence,
+        permutedBlock: entry.permutedBlock,
+      })),
+    );
     await recordAudit(tx, {
       ...actor(member),
       farmId: member.farmId,

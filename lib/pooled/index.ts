@@ -8,7 +8,17 @@ export {
 } from "./types";
 export { addSummaries, summaryMean, summaryVariance, type Summary } from "./sufficient";
 export { blockedModelFromCells, type ModelCell } from "./cell-models";
-export { addBins, binQuantile, percentileOf, type EfficiencyBins } from "./bins";
+export {
+  addBins,
+  binQuantile,
+  binsOf,
+  blocksBeyondPercentile,
+  percentileOf,
+  publishablePercentile,
+  publishableSpread,
+  type EfficiencyBins,
+  type Spread,
+} from "./bins";
 export { differencingMessage, filterIsSafe, suppressedMessage } from "./privacy";
 export { pooledFlushProfile } from "./flush-profile";
 export { comparisonSentence } from "./sentences";
@@ -22,5 +32,28 @@ export {
   type Published,
   type StrainResult,
 } from "./results";
+export { publishedSteps, roundPooledResults, roundTo } from "./rounding";
+export {
+  addTrialArms,
+  planRelease,
+  releaseFigureKinds,
+  releaseFigureLabels,
+  type HeldBackFigure,
+  type ReleaseContents,
+  type ReleaseFigureKind,
+  type ReleaseFlushRow,
+  type ReleasePlan,
+  type ReleaseStrainRow,
+} from "./releases";
+export {
+  describeReleaseSchedule,
+  latestReleaseSlot,
+  nextReleaseSlot,
+  releaseScheduleLabels,
+  releaseSchedules,
+  type ReleaseSchedule,
+} from "./release-schedule";
+export { withinFarmSpread } from "./within-farm";
 export { summariseOwnFarm, type OwnBlock, type OwnStrainSummary } from "./my-farm";
 export { ownBlocksForChart, type OwnStrainBlocks } from "./own-blocks";
+export { cooperativeSettingsSchema, lowestMinimumFarms, type CooperativeSettingsInput } from "./settings-schema";

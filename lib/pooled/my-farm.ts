@@ -27,7 +27,7 @@ export interface OwnStrainSummary {
   meanEfficiency: number | null;
   /** Mean mass loss (%) of finished blocks (spent mass weighed). */
   meanMassLoss: number | null;
-  /** Percent of the co-op's blocks below the farm's mean BE; a message when withheld. */
+  /** Percent of the co-op's blocks below the farm's mean BE, as published (see publishedPercentile); a message when withheld. */
   percentile: { status: "published"; value: number } | { status: "suppressed"; message: string };
   /** Fresh grams expected from active blocks, from the co-op's flush profile; null without one. */
   expectedRemaining: { expectedG: number; lowerG: number; upperG: number; blocks: number } | null;
@@ -39,6 +39,14 @@ function blockEfficiency(block: OwnBlock): number | null {
   if (block.contaminated || !block.wetG || block.moisture === null || block.harvests.length === 0) return null;
   const freshG = block.harvests.reduce((sum, harvest) => sum + harvest.freshG, 0);
   return biologicalEfficiency({ freshG, wetBlockG: block.wetG, moisture: block.moisture });
+}
+
+/**
+ * A farm's place among the co-op's blocks, in whole percent and held between 10 and 90: a farm
+ * that tries its own figures up and down cannot read the co-op's tails, where single blocks lie.
+ */
+export function publishedPercentile(percentile: number): number {
+  return Math.min(90, Math.max(10, Math.round(percentile)));
 }
 
 const mean = (values: number[]) => (values.length ? values.reduce((sum, value) => sum + value, 0) / values.length : null);
@@ -66,7 +74,8 @@ export function summariseOwnFarm(
 
       let percentile: OwnStrainSummary["percentile"] = { status: "suppressed", message: `fewer than ${minimumFarms} farms` };
       if (meanEfficiency === null) percentile = { status: "suppressed", message: "no blocks with a biological efficiency yet" };
-      else if (benchmark?.bins) percentile = { status: "published", value: percentileOf(benchmark.bins, meanEfficiency) };
+      else if (benchmark?.bins)
+        percentile = { status: "published", value: publishedPercentile(percentileOf(benchmark.bins, meanEfficiency)) };
 
       let expectedRemaining: OwnStrainSummary["expectedRemaining"] = null;
       if (benchmark?.profile) {

@@ -2,12 +2,12 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { blockedAnova } from "@/lib/stats";
 import { seededRandom } from "@/lib/random";
-import { binQuantile, percentileOf } from "./bins";
+import { binQuantile, binsOf, percentileOf, publishablePercentile, publishableSpread } from "./bins";
 import { blockedModelFromCells } from "./cell-models";
 import { filterIsSafe } from "./privacy";
-import { buildPooledResults, type PooledResultsInput } from "./results";
+import { buildPooledResults, type PooledResultsInput, type StrainResult } from "./results";
 import { comparisonSentence } from "./sentences";
-import type { StrainStatisticsRow } from "./types";
+import type { FlushStatisticsRow, StrainStatisticsRow } from "./types";
 
 /** A farm's row built from its blocks' BE values, as the refresh writes it. */
 function row(farmId: string, strainId: string, efficiencies: number[], extra: Partial<StrainStatisticsRow> = {}): StrainStatisticsRow {
@@ -169,7 +169,7 @@ describe("the differencing guard", () => {
 
   it("allows the filter once every recipe × fruiting-method cell has the minimum", () => {
     const more = [...rows, ...["f5", "f6"].map((farm) => row(farm, "a", blocksOf(random, 110, 5), { substrateRecipeId: "recipe-2" }))];
-    expect(filterIsSafe(more, { substrateRecipeId: "recipe-1" }, 3)).toBe(true);
+    expect(filterIsSafe(more, { substrateRecipeId: "recipe-1" }, 3, (r) => r.blocks)).toBe(true);
     expect(buildPooledResults(input(more, { filters: { substrateRecipeId: "recipe-1" } })).strains[0].efficiency.status).toBe("published");
   });
 
@@ -181,9 +181,9 @@ describe("the differencing guard", () => {
       row("f4", "a", [150, 151], { fruitingMethodId: "method-2" }),
       ...["f5", "f6", "f7"].map((farm) => row(farm, "a", [90, 92], { substrateRecipeId: "recipe-2", fruitingMethodId: "method-2" })),
     ];
-    expect(filterIsSafe(crossed, { substrateRecipeId: "recipe-1" }, 3)).toBe(false);
-    expect(filterIsSafe(crossed, { fruitingMethodId: "method-1" }, 3)).toBe(false);
-    expect(filterIsSafe(crossed, {}, 3)).toBe(true);
+    expect(filterIsSafe(crossed, { substrateRecipeId: "recipe-1" }, 3, (r) => r.blocks)).toBe(false);
+    expect(filterIsSafe(crossed, { fruitingMethodId: "method-1" }, 3, (r) => r.blocks)).toBe(false);
+    expect(filterIsSafe(crossed, {}, 3, (r) => r.blocks)).toBe(true);
   });
 
   it("never publishes two figures whose difference comes from fewer farms than the minimum", () => {
@@ -235,6 +235,147 @@ describe("the differencing guard", () => {
   });
 });
 
+describe("the differencing guard counts the farms that contribute to each figure", () => {
+  it("withholds 'recipe 1' BE where the other recipe's farms have blocks but only one has a BE", () => {
+    // Recipe 1: farms 1–3 with fruited blocks. Recipe 2: farm 4 fruited, farms 5 and 6 blocks not yet fruited.
+    // Three farms have blocks on recipe 2, so counts may be filtered; only farm 4 gives recipe 2 a BE.
+    const random = seededRandom("contributing");
+    const rows = [
+      ...["f1", "f2", "f3"].map((farm) => row(farm, "a", blocksOf(random, 80, 4))),
+      row("f4", "a", blocksOf(random, 120, 4), { substrateRecipeId: "recipe-2" }),
+      ...["f5", "f6"].map((farm) =>
+        row(farm, "a", [], {
+          substrateRecipeId: "recipe-2",
+          blocks: 2,
+          firstHarvestBlocks: 0,
+          firstHarvestDaysSum: 0,
+        }),
+      ),
+    ];
+    const all = buildPooledResults(input(rows)).strains[0];
+    const recipeOne = buildPooledResults(input(rows, { filters: { substrateRecipeId: "recipe-1" } })).strains[0];
+    expect(all.efficiency.status).toBe("published");
+    expect(recipeOne.efficiency.status === "suppressed" && recipeOne.efficiency.message).toMatch(/withheld/);
+    expect(recipeOne.spread.status).toBe("suppressed");
+    expect(recipeOne.firstHarvestDays.status).toBe("suppressed");
+    // Counts come from three farms on recipe 2, so 'any recipe' minus 'recipe 1' covers three farms: published.
+    expect(recipeOne.blocks).toEqual({ status: "published", value: 12 });
+  });
+
+  it("never publishes two figures of one kind whose difference comes from fewer contributing farms than the minimum", () => {
+    const kinds = {
+      counts: { figure: (s: StrainResult) => s.blocks, contributes: (r: StrainStatisticsRow) => r.blocks },
+      efficiency: { figure: (s: StrainResult) => s.efficiency, contributes: (r: StrainStatisticsRow) => r.efficiencyBlocks },
+      spread: { figure: (s: StrainResult) => s.spread, contributes: (r: StrainStatisticsRow) => r.efficiencyBlocks },
+      firstHarvest: { figure: (s: StrainResult) => s.firstHarvestDays, contributes: (r: StrainStatisticsRow) => r.firstHarvestBlocks },
+    };
+    fc.assert(
+      fc.property(
+        fc.array(
+          fc.record({
+            farm: fc.integer({ min: 1, max: 7 }),
+            recipe: fc.integer({ min: 1, max: 2 }),
+            method: fc.integer({ min: 1, max: 2 }),
+            blocks: fc.integer({ min: 1, max: 12 }),
+            // Often none: farms whose blocks have not fruited, been dated or finished are the case the guard must count right.
+            fruited: fc.oneof(fc.constant(0), fc.integer({ min: 1, max: 12 })),
+            dated: fc.oneof(fc.constant(0), fc.integer({ min: 1, max: 12 })),
+            finished: fc.oneof(fc.constant(0), fc.integer({ min: 2, max: 12 })),
+          }),
+          { minLength: 1, maxLength: 40 },
+        ),
+        (cells) => {
+          const generated = cells.map((cell) => {
+            const fruited = Math.min(cell.fruited, cell.blocks);
+            return row(
+              `f${cell.farm}`,
+              "a",
+              Array.from({ length: fruited }, (_, index) => 70 + ((cell.farm * 7 + index * 13) % 40)),
+              {
+                substrateRecipeId: `r${cell.recipe}`,
+                fruitingMethodId: `m${cell.method}`,
+                blocks: cell.blocks,
+                // Contaminated blocks that fruited count towards days to first harvest but not BE, so the two differ.
+                firstHarvestBlocks: Math.min(cell.dated, cell.blocks),
+                firstHarvestDaysSum: 30 * Math.min(cell.dated, cell.blocks),
+              },
+            );
+          });
+          const flushRows: FlushStatisticsRow[] = cells.flatMap((cell) => {
+            const finished = Math.min(cell.finished, cell.fruited, cell.blocks);
+            return [1, 2].map((flush) => ({
+              farmId: `f${cell.farm}`,
+              strainId: "a",
+              substrateRecipeId: `r${cell.recipe}`,
+              fruitingMethodId: `m${cell.method}`,
+              flush,
+              finishedBlocks: finished,
+              blocksFruiting: finished,
+              shareSum: finished * (flush === 1 ? 0.6 : 0.4),
+              shareSquares: finished * (flush === 1 ? 0.37 : 0.17),
+              cumulativeSum: finished * (flush === 1 ? 0.6 : 1),
+              cumulativeSquares: finished * (flush === 1 ? 0.37 : 1),
+            }));
+          });
+          const filterSets = [
+            {},
+            ...[1, 2].map((r) => ({ substrateRecipeId: `r${r}` })),
+            ...[1, 2].map((m) => ({ fruitingMethodId: `m${m}` })),
+            ...[1, 2].flatMap((r) => [1, 2].map((m) => ({ substrateRecipeId: `r${r}`, fruitingMethodId: `m${m}` }))),
+          ];
+          const inFilter = (
+            filters: { substrateRecipeId?: string; fruitingMethodId?: string },
+            r: { substrateRecipeId: string | null; fruitingMethodId: string | null },
+          ) =>
+            (!filters.substrateRecipeId || r.substrateRecipeId === filters.substrateRecipeId) &&
+            (!filters.fruitingMethodId || r.fruitingMethodId === filters.fruitingMethodId);
+          const results = filterSets.map((filters) => ({
+            filters,
+            strain: buildPooledResults(input(generated, { filters, flushRows, strains: [{ id: "a", name: "A" }] })).strains[0],
+          }));
+          const check = (
+            published: { filters: (typeof filterSets)[number] }[],
+            contributors: (filters: (typeof filterSets)[number]) => Set<string>,
+          ) => {
+            for (const bigger of published) {
+              const big = contributors(bigger.filters);
+              // Primary suppression: a published figure has the minimum number of contributing farms itself.
+              expect(new Set([...big].map((key) => key.split("|")[0])).size).toBeGreaterThanOrEqual(3);
+              for (const smaller of published) {
+                const small = contributors(smaller.filters);
+                if (![...small].every((key) => big.has(key)) || small.size === big.size) continue;
+                const leftover = new Set([...big].filter((key) => !small.has(key)).map((key) => key.split("|")[0]));
+                expect(leftover.size).toBeGreaterThanOrEqual(3);
+              }
+            }
+          };
+          for (const kind of Object.values(kinds)) {
+            check(
+              results.filter((result) => result.strain && kind.figure(result.strain).status === "published"),
+              (filters) =>
+                new Set(
+                  generated
+                    .filter((r) => inFilter(filters, r) && kind.contributes(r) > 0)
+                    .map((r) => `${r.farmId}|${r.substrateRecipeId}|${r.fruitingMethodId}`),
+                ),
+            );
+          }
+          check(
+            results.filter((result) => result.strain?.flushProfile.status === "published"),
+            (filters) =>
+              new Set(
+                flushRows
+                  .filter((r) => inFilter(filters, r) && r.finishedBlocks > 0)
+                  .map((r) => `${r.farmId}|${r.substrateRecipeId}|${r.fruitingMethodId}`),
+              ),
+          );
+        },
+      ),
+      { numRuns: 1000 },
+    );
+  });
+});
+
 describe("per-farm estimates in the forest chart", () => {
   const random = seededRandom("forest");
   const farms = ["f1", "f2", "f3", "f4"];
@@ -281,5 +422,15 @@ describe("plain-language sentences and percentiles", () => {
     expect(percentileOf(bins, 80.5)).toBe(37.5);
     expect(binQuantile(bins, 0.5)).toBe(80.5);
     expect(binQuantile(bins, 0.9)).toBe(100.5);
+  });
+
+  it("publishes a percentile only with three blocks at or beyond it: whiskers from 21 blocks, quartiles from 9", () => {
+    const blocks = (n: number) => binsOf(Array.from({ length: n }, (_, index) => 60 + 2 * index));
+    // 20 blocks: the 10th percentile is the block at rank ⌊0.1 × 19⌋ = 1 (from 0), the second lowest: withheld.
+    expect(publishablePercentile(blocks(20), 0.1)).toBeNull();
+    expect(publishablePercentile(blocks(21), 0.1)).toBe(64.5);
+    expect(publishablePercentile(blocks(21), 0.9)).toBe(96.5);
+    expect(publishableSpread(blocks(8))).toBeNull();
+    expect(publishableSpread(blocks(9))).toEqual([null, 64.5, 68.5, 72.5, null]);
   });
 });

@@ -33,7 +33,7 @@ export function farmCells(rows: readonly StrainStatisticsRow[], filters: PooledF
   for (const row of rows) {
     if (!matchesFilters(row, filters)) continue;
     let farms = byStrain.get(row.strainId);
-    if (!farms) byStrain.set(row.strainId, (farms = new Map()));
+    if (!farms) byStrain.set(row.strainId, (farms = new Map<string, FarmStrainCell>()));
     const cell = farms.get(row.farmId) ?? {
       farmId: row.farmId,
       strainId: row.strainId,
@@ -64,19 +64,34 @@ export function suppressedMessage(minimumFarms: number): string {
 export const differencingMessage =
   "withheld: with this filter, comparing it with the unfiltered figure could single out fewer farms than the co-op's minimum";
 
+/** What a figure is made of: a farm's row in one recipe × fruiting-method cell (strain or flush statistics). */
+export interface CellRow {
+  farmId: string;
+  substrateRecipeId: string | null;
+  fruitingMethodId: string | null;
+}
+
 /**
  * The differencing guard. Any two published figures for one strain can be subtracted, so a
- * filtered figure (by recipe and/or fruiting method) is published only when every cell of
- * that strain's full recipe × fruiting-method cross-classification is either empty or has
- * blocks from at least the minimum number of farms. Then every published figure is a union of
- * such cells, and any difference of published figures is too: none can isolate fewer farms
- * than the minimum. Unfiltered figures need only the minimum themselves.
+ * figure filtered by recipe and/or fruiting method is published only when every cell of that
+ * strain's full recipe × fruiting-method cross-classification has either no farm or at least
+ * the minimum number of farms *contributing to that figure*: `contributes` says how much a row
+ * gives to it (blocks for counts, blocks with a BE for BE, finished blocks for the flush profile
+ * …), so farms whose blocks have not fruited do not count towards a BE cell. Then every
+ * published figure of that kind is a union of such cells, and any difference of two is too:
+ * none can isolate fewer contributing farms than the minimum. Unfiltered figures need only the
+ * minimum themselves.
  */
-export function filterIsSafe(strainRows: readonly StrainStatisticsRow[], filters: PooledFilters, minimumFarms: number): boolean {
+export function filterIsSafe<Row extends CellRow>(
+  strainRows: readonly Row[],
+  filters: PooledFilters,
+  minimumFarms: number,
+  contributes: (row: Row) => number,
+): boolean {
   if (!isFiltered(filters)) return true;
   const farmsByCell = new Map<string, Set<string>>();
   for (const row of strainRows) {
-    if (row.blocks <= 0) continue;
+    if (contributes(row) <= 0) continue;
     const key = `${row.substrateRecipeId ?? "none"}|${row.fruitingMethodId ?? "none"}`;
     let farms = farmsByCell.get(key);
     if (!farms) farmsByCell.set(key, (farms = new Set()));

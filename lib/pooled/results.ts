@@ -1,7 +1,7 @@
 import { holm, meanCIFromSummary, metaAnalysis, StatsInputError, wilsonInterval, type BlockedAnova } from "@/lib/stats";
 import { normalLowerTail } from "@/lib/stats/distributions";
 import type { Random } from "@/lib/random";
-import { addBins, binQuantile, type EfficiencyBins } from "./bins";
+import { addBins, publishableSpread, type EfficiencyBins, type Spread } from "./bins";
 import { pooledFlushProfile } from "./flush-profile";
 import {
   contributingFarms,
@@ -35,8 +35,8 @@ export interface StrainResult {
   contamination: Published<Interval & { contaminated: number; blocks: number }>;
   firstHarvestDays: Published<{ mean: number; blocks: number }>;
   flushProfile: Published<{ flush: number; meanShare: number; lower: number; upper: number; cumulativeShare: number }[]>;
-  /** 10th, 25th, 50th, 75th and 90th percentiles of block BE (no single block's value). */
-  spread: Published<[number, number, number, number, number]>;
+  /** 10th, 25th, 50th, 75th and 90th percentiles of block BE, each with enough blocks beyond it to be no single block's value. */
+  spread: Published<Spread>;
   sentence: string;
 }
 
@@ -111,22 +111,27 @@ export function buildPooledResults(input: PooledResultsInput): PooledResults {
   const few = suppressedMessage(minimumFarms);
   const strainNames = new Map(input.strains.map((strain) => [strain.id, strain.name]));
 
-  const safeStrains = new Set<string>();
+  // Each kind of figure is guarded by the farms that contribute to it (see filterIsSafe).
+  const safety = new Map<string, Record<"counts" | "efficiency" | "firstHarvest" | "flushProfile", boolean>>();
   for (const strainId of cells.keys()) {
-    if (
-      filterIsSafe(
-        input.rows.filter((row) => row.strainId === strainId),
-        filters,
-        minimumFarms,
-      )
-    )
-      safeStrains.add(strainId);
+    const strainRows = input.rows.filter((row) => row.strainId === strainId);
+    const strainFlushRows = input.flushRows.filter((row) => row.strainId === strainId);
+    safety.set(strainId, {
+      counts: filterIsSafe(strainRows, filters, minimumFarms, (row) => row.blocks),
+      efficiency: filterIsSafe(strainRows, filters, minimumFarms, (row) => row.efficiencyBlocks),
+      firstHarvest: filterIsSafe(strainRows, filters, minimumFarms, (row) => row.firstHarvestBlocks),
+      flushProfile: filterIsSafe(strainFlushRows, filters, minimumFarms, (row) => row.finishedBlocks),
+    });
   }
 
-  // Strains whose BE is published take part in the blocked model and the comparisons.
-  const comparable = [...cells.entries()].filter(
-    ([strainId, farms]) => safeStrains.has(strainId) && contributingFarms(farms.values(), (cell) => cell.efficiency.n) >= minimumFarms,
-  );
+  // Strains whose BE is published take part in the blocked model and the comparisons, in name
+  // order: a release must read the same whatever order its rows come back in.
+  const comparable = [...cells.entries()]
+    .filter(
+      ([strainId, farms]) =>
+        safety.get(strainId)!.efficiency && contributingFarms(farms.values(), (cell) => cell.efficiency.n) >= minimumFarms,
+    )
+    .sort(([a], [b]) => (strainNames.get(a) ?? "").localeCompare(strainNames.get(b) ?? "") || a.localeCompare(b));
   const model = farmBlockedModel(comparable, strainNames, level);
   const adjusted = adjustedMeans(model);
 
@@ -134,17 +139,17 @@ export function buildPooledResults(input: PooledResultsInput): PooledResults {
     .map(([strainId, farms]) => {
       const name = strainNames.get(strainId) ?? "Unnamed strain";
       const farmList = [...farms.values()];
-      const safe = safeStrains.has(strainId);
-      const withhold = (count: number) => (!safe ? differencingMessage : count < minimumFarms ? few : null);
+      const safe = safety.get(strainId)!;
+      const withhold = (kind: keyof typeof safe, count: number) => (!safe[kind] ? differencingMessage : count < minimumFarms ? few : null);
 
       const blockFarms = contributingFarms(farmList, (cell) => cell.blocks);
       const totalBlocks = farmList.reduce((sum, cell) => sum + cell.blocks, 0);
       const contaminated = farmList.reduce((sum, cell) => sum + cell.blocksContaminated, 0);
-      const blockReason = withhold(blockFarms);
+      const blockReason = withhold("counts", blockFarms);
 
       const efficiencyFarms = contributingFarms(farmList, (cell) => cell.efficiency.n);
       const efficiency = farmList.reduce((sum, cell) => addSummaries(sum, cell.efficiency), emptySummary);
-      const efficiencyReason = withhold(efficiencyFarms);
+      const efficiencyReason = withhold("efficiency", efficiencyFarms);
       let efficiencyFigure: StrainResult["efficiency"] = suppressed(efficiencyReason ?? few);
       if (!efficiencyReason) {
         const fromModel = adjusted.get(strainId);
@@ -169,18 +174,18 @@ export function buildPooledResults(input: PooledResultsInput): PooledResults {
       const firstFarms = contributingFarms(farmList, (cell) => cell.firstHarvestBlocks);
       const firstBlocks = farmList.reduce((sum, cell) => sum + cell.firstHarvestBlocks, 0);
       const firstDays = farmList.reduce((sum, cell) => sum + cell.firstHarvestDaysSum, 0);
-      const firstReason = withhold(firstFarms);
+      const firstReason = withhold("firstHarvest", firstFarms);
 
       const flushRows = input.flushRows.filter((row) => row.strainId === strainId && matchesFilters(row, filters));
       const flushFarms = new Set(flushRows.filter((row) => row.finishedBlocks > 0).map((row) => row.farmId)).size;
-      const flushReason = withhold(flushFarms);
+      const flushReason = withhold("flushProfile", flushFarms);
       const profile = flushReason ? null : pooledFlushProfile(flushRows, level);
 
       const bins = farmList.reduce<EfficiencyBins>((sum, cell) => addBins(sum, cell.bins), {});
-      const spread: StrainResult["spread"] =
-        efficiencyReason || efficiency.n === 0
-          ? suppressed(efficiencyReason ?? few)
-          : published([0.1, 0.25, 0.5, 0.75, 0.9].map((p) => binQuantile(bins, p)) as [number, number, number, number, number]);
+      const spreadValue = efficiencyReason ? null : publishableSpread(bins);
+      const spread: StrainResult["spread"] = spreadValue
+        ? published(spreadValue)
+        : suppressed(efficiencyReason ?? (efficiency.n === 0 ? few : "too few blocks to draw a spread without showing single blocks"));
 
       const result: StrainResult = {
         strainId,
@@ -318,7 +323,8 @@ function heterogeneity(
     (a, b) => b[1].size - a[1].size || (names.get(a[0]) ?? "").localeCompare(names.get(b[0]) ?? ""),
   )[0];
   const referenceName = names.get(referenceId) ?? "Unnamed strain";
-  const results: (Omit<HeterogeneityResult, "pHolm"> & { p: number })[] = [];
+  const results: Omit<HeterogeneityResult, "pHolm">[] = [];
+  const pValues: number[] = [];
   for (const [strainId, farms] of comparable) {
     if (strainId === referenceId) continue;
     const studies: { farmId: string; y: number; v: number; blocks: number }[] = [];
@@ -368,6 +374,7 @@ function heterogeneity(
         upper: pooled.random.upper,
       },
     ];
+    pValues.push(2 * normalLowerTail(-Math.abs(z)));
     results.push({
       strainId,
       strainName: name,
@@ -378,7 +385,6 @@ function heterogeneity(
       upper: pooled.random.upper,
       i2: pooled.i2,
       tau: Math.sqrt(pooled.random.tau2),
-      p: 2 * normalLowerTail(-Math.abs(z)),
       sentence: comparisonSentence({
         better: name,
         base: referenceName,
@@ -392,10 +398,10 @@ function heterogeneity(
     });
   }
   if (results.length === 0) return suppressed(`no strain was grown beside ${referenceName} on ${minimumFarms} or more farms`);
-  const adjustedP = holm(results.map((result) => result.p));
+  const adjustedP = holm(pValues);
   return published({
     referenceStrainId: referenceId,
     referenceStrainName: referenceName,
-    strains: results.map(({ p: _p, ...result }, index) => ({ ...result, pHolm: adjustedP[index] })),
+    strains: results.map((result, index) => ({ ...result, pHolm: adjustedP[index] })),
   });
 }

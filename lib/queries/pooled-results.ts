@@ -21,11 +21,10 @@ export function pooledResultsUrl(selection: PooledResultsSelection): string {
   return `/api/results?${params}`;
 }
 
-/** The co-op results for a selection; polls every 5 s while a farm's statistics are being recomputed. */
+/** The co-op results for a selection, from the newest release (they change only when a new one is cut). */
 export function usePooledResults(selection: PooledResultsSelection) {
   return useQuery({
     queryKey: ["pooled-results", selection],
     queryFn: () => fetchJson<PooledResultsPage>(pooledResultsUrl(selection)),
-    refetchInterval: (query) => (query.state.data?.updating ? 5_000 : false),
   });
 }

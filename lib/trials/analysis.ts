@@ -208,7 +208,14 @@ function poolFarmDifferences(
   };
 }
 
-function plainAnswer(reference: string, differences: Difference[], enoughFarms: boolean, farms: number, minimumFarms: number): string {
+/** The plain-language answer from the differences against the reference arm. */
+export function plainAnswer(
+  reference: string,
+  differences: Difference[],
+  enoughFarms: boolean,
+  farms: number,
+  minimumFarms: number,
+): string {
   if (!enoughFarms)
     return `No answer yet: ${farms} farm${farms === 1 ? "" : "s"} reported, and the co-op needs ${minimumFarms} before it pools.`;
   if (!differences.length) return "No answer: the arms could not be compared.";
@@ -222,11 +229,4 @@ function plainAnswer(reference: string, differences: Difference[], enoughFarms: 
       return `Arm ${difference.arm} and reference arm ${reference} could not be told apart: the difference was ${round1(difference.estimate)} BE points (95 % interval ${range}).`;
     })
     .join(" ");
-}
-
-/** What is stored on the trial when it closes, and shown once published. */
-export interface StoredTrialResults {
-  analysis: TrialAnalysis;
-  deviations: { farmsDropped: number; farmsDeclined: number; blocksAssigned: number; blocksMade: number; blocksLeftOut: number };
-  analysedAt: string;
 }

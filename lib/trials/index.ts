@@ -4,3 +4,4 @@ export * from "./sample-size";
 export * from "./outcome";
 export * from "./analysis";
 export * from "./factorial";
+export * from "./report";

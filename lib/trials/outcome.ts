@@ -29,8 +29,9 @@ export function blockOutcome(
 }
 
 /**
- * Turns a trial's blocks and harvests into outcome records. Farms become "Farm 1", "Farm 2" …
- * in the order of their ids, which says nothing about who they are.
+ * Turns a trial's blocks and harvests into outcome records, each farm keyed by its id: the
+ * analysis treats the key as opaque, and discloseTrialAnalysis gives farms the pseudonyms the
+ * report shows (drawn at random, never in id order, which the coordinator could match to farms).
  */
 export function trialOutcomeRecords(
   blockRows: {
@@ -44,14 +45,12 @@ export function trialOutcomeRecords(
   harvestRows: { blockId: string; flush: number; freshMassG: number }[],
   outcome: { flushes: number; contaminatedHandling: ContaminatedHandling },
 ): { farm: string; armId: string; contaminated: boolean; value: number | null }[] {
-  const farmOrder = [...new Set(blockRows.map((row) => row.farmId))].sort();
-  const pseudonym = new Map(farmOrder.map((farmId, index) => [farmId, `Farm ${index + 1}`]));
   const byBlock = new Map<string, { flush: number; freshMassG: number }[]>();
   for (const harvest of harvestRows) byBlock.set(harvest.blockId, [...(byBlock.get(harvest.blockId) ?? []), harvest]);
   return blockRows
     .filter((row) => row.armId !== null)
     .map((row) => ({
-      farm: pseudonym.get(row.farmId)!,
+      farm: row.farmId,
       armId: row.armId!,
       contaminated: row.contaminated,
       value: blockOutcome(

@@ -29,6 +29,7 @@ const matrix: Record<string, Action | "public"> = {
   "app/(app)/settings/actions.ts#changePasswordAction": "account:manage",
   "app/(app)/settings/actions.ts#updatePreferencesAction": "account:manage",
   "app/(app)/settings/cooperative/actions.ts#updateCooperativeSettingsAction": "settings:manage",
+  "app/(app)/settings/cooperative/actions.ts#cutReleaseNowAction": "settings:manage",
   "app/(app)/strains/actions.ts#addRegistryEntryAction": "registry:add",
   "app/(app)/strains/actions.ts#moveRegistryEntryAction": "registry:manage",
   "app/(app)/strains/actions.ts#importRegistryAction": "registry:manage",

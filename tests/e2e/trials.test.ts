@@ -53,7 +53,9 @@ describe("a strain trial in the browser", () => {
     expect(await trial.status()).toBe("Draft");
     await trial.move("Open for enrolment", "Open for enrolment");
     expect(await trial.status()).toBe("Open for enrolment");
-    expect(await trial.invite("Fernbrook Farm")).toContain("1 e-mail sent");
+    expect(await trial.invite("Fernbrook Farm", "Hollow Oak Mushrooms", "Mill Creek Fungi")).toContain("3 e-mails sent");
+    // Before any farm accepts, the page says the trial cannot start yet, and why.
+    expect(await trial.tooFewFarmsWarning()).toMatch(/0 of the 3 farms a trial needs have accepted/);
     await screenshot(page, "trials-open-for-enrolment");
 
     await page.goto(`${appUrl}/outgoing-mail`);
@@ -87,11 +89,34 @@ describe("a strain trial in the browser", () => {
     await new AppShell(page).signOut();
   });
 
+  it("refuses to start the trial with one farm, and says how many it needs", async () => {
+    await signInAs("coordinator@aldervalley.example");
+    const trial = new TrialPage(page);
+    await trial.open(trialId);
+    expect(await trial.tooFewFarmsWarning()).toMatch(/1 of the 3 farms a trial needs has accepted/);
+    await page.getByRole("button", { name: "Start the trial" }).click();
+    await page.getByText("Only 1 farm has accepted. A trial starts with at least 3 farms").waitFor();
+    expect(await trial.status()).toBe("Open for enrolment");
+    await screenshot(page, "trials-too-few-farms-to-start");
+    await new AppShell(page).signOut();
+  });
+
+  it("lets two more farms accept", async () => {
+    for (const email of ["manager@hollowoak.example", "manager@millcreek.example"]) {
+      await signInAs(email);
+      const trial = new TrialPage(page);
+      await trial.open(trialId);
+      await trial.accept(2);
+      await new AppShell(page).signOut();
+    }
+  });
+
   it("lets the coordinator take the trial to publication", async () => {
     await signInAs("coordinator@aldervalley.example");
     const trial = new TrialPage(page);
     await trial.open(trialId);
     await page.getByTestId("progress-table").waitFor();
+    expect(await trial.tooFewFarmsWarning()).toBeNull();
     await trial.move("Start the trial", "Running");
     await trial.move("Close and analyse", "Collecting results");
     await trial.move("Publish the results", "Published", true);
@@ -110,6 +135,10 @@ describe("a strain trial in the browser", () => {
     expect(await page.getByTestId("trial-answer").textContent()).toMatch(/reference arm A/);
     expect(await page.getByRole("img", { name: "Biological efficiency by arm, boxplot" }).isVisible()).toBe(true);
     expect(await page.getByRole("img", { name: /Arm B minus arm A, by farm/ }).isVisible()).toBe(true);
+    // Fernbrook took part: its grower sees their own farm marked and, with per-farm estimates off, no other farm.
+    expect(await page.locator("[data-forest-row=own]").count()).toBeGreaterThan(0);
+    expect(await page.locator("[data-forest-row=farm]").count()).toBe(0);
+    expect(await page.getByText(/Farm [A-Z]\b/).count()).toBe(0);
     await screenshot(page, "trials-results-member");
     expect(await seriousAccessibilityProblems(page)).toEqual([]);
     await page.setViewportSize({ width: 390, height: 844 });

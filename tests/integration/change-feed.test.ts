@@ -3,7 +3,8 @@ import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { changeGeneration, listenerApplicationName } from "@/db/change-feed";
 import { closeDatabase } from "@/db/client";
 import { loadMemberForRequest, updatePreferences, type Member } from "@/lib/data/members";
-import { getPooledResults, getPooledUpdating } from "@/lib/data/pooled-results";
+import { getPooledUpdating } from "@/lib/data/pooled-refresh";
+import { getPooledResults } from "@/lib/data/pooled-results";
 import { superuserPool } from "./support/database";
 
 // The guard's member and the Co-op results are kept per process until PostgreSQL announces a

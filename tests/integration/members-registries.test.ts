@@ -44,7 +44,9 @@ describe("registries: proposals, approval, retirement", () => {
     expect(proposed.status).toBe("proposed");
     await expect(moveRegistryEntry(grower, "strains", proposed.id, "approve")).rejects.toThrow(/Only the coordinator/);
     await moveRegistryEntry(coordinator, "strains", proposed.id, "approve");
-    expect((await inspector.query("select status from strains where id = $1", [proposed.id])).rows[0].status).toBe("active");
+    expect((await inspector.query<{ status: string }>("select status from strains where id = $1", [proposed.id])).rows[0].status).toBe(
+      "active",
+    );
     const events = await inspector.query<{ action: string }>("select action from audit_events where subject = $1 order by id", [code]);
     expect(events.rows.map((row) => row.action)).toEqual(["registry.proposed", "registry.approved"]);
   });
@@ -54,10 +56,19 @@ describe("registries: proposals, approval, retirement", () => {
     const used = registries.strains.find((strain) => strain.code === "PO-01")!;
     const { rows } = await inspector.query<{ n: number }>("select count(*)::int as n from blocks where strain_id = $1", [used.id]);
     expect(rows[0].n).toBeGreaterThan(0);
-    expect(used.blocks).toBe(rows[0].n);
+    expect(used.inUse).toBe(true);
+    // The count shown is the newest release's (grown on five farms, so published), not the live one.
+    const { rows: released } = await inspector.query<{ n: number }>(
+      `select sum(blocks)::int as n from pooled_release_strain_rows
+       where strain_id = $1 and flush_window = 'all' and release_number = (select max(number) from pooled_releases)`,
+      [used.id],
+    );
+    expect(used.blocks).toEqual({ status: "published", value: released[0].n });
     await expect(moveRegistryEntry(coordinator, "strains", used.id, "delete")).rejects.toThrow(/retire it instead/);
     await moveRegistryEntry(coordinator, "strains", used.id, "retire");
-    expect((await inspector.query("select status from strains where id = $1", [used.id])).rows[0].status).toBe("retired");
+    expect((await inspector.query<{ status: string }>("select status from strains where id = $1", [used.id])).rows[0].status).toBe(
+      "retired",
+    );
     await moveRegistryEntry(coordinator, "strains", used.id, "reinstate");
   });
 
@@ -74,9 +85,13 @@ describe("registries: proposals, approval, retirement", () => {
     ]);
 
     const bad = `code,species,name,source\nX1-${run},Pleurotus ostreatus,Fine,culture bank\nX2-${run},No such fungus,Broken,culture bank\n`;
-    await expect(importRegistryCsv(coordinator, "strains", bad)).rejects.toMatchObject({
-      fieldProblems: [{ field: "file", message: expect.stringContaining("Line 3") }],
-    });
+    const refusal = await importRegistryCsv(coordinator, "strains", bad).then(
+      () => null,
+      (error: { fieldProblems?: { field: string; message: string }[] }) => error,
+    );
+    expect(refusal?.fieldProblems).toHaveLength(1);
+    expect(refusal?.fieldProblems?.[0].field).toBe("file");
+    expect(refusal?.fieldProblems?.[0].message).toContain("Line 3");
     expect((await inspector.query("select 1 from strains where code = any($1)", [[`X1-${run}`, `X2-${run}`]])).rowCount).toBe(0);
     await expect(importRegistryCsv(coordinator, "substrate_recipes", good)).rejects.toThrow(/already in the registry/);
   });

@@ -1,15 +1,21 @@
 import type { Pool } from "pg";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { closeDatabase } from "@/db/client";
 import type { Member } from "@/lib/data/members";
 import { getMyFarm } from "@/lib/data/my-farm";
+import { withAnalystAccess } from "@/db/client";
 import { getPooledResults } from "@/lib/data/pooled-results";
-import { ownBlocksForChart, type OwnStrainBlocks } from "@/lib/pooled";
+import { cutSetupRelease, latestRelease, releaseContents } from "@/lib/data/pooled-releases";
+import { buildPooledResults, ownBlocksForChart, roundPooledResults, type OwnStrainBlocks, type PooledResults } from "@/lib/pooled";
+import { seededRandom } from "@/lib/random";
 import { blockedAnova, flushProfile, metaAnalysis, wilsonInterval } from "@/lib/stats";
-import { superuserPool, twoDemoFarms, type DemoFarm } from "./support/database";
+import { removeAllReleases, superuserPool, twoDemoFarms, type DemoFarm } from "./support/database";
 
 // Pooled figures must equal lib/stats run on the very rows they come from. The rows are read
-// here by a superuser, which only a test may do; the app reaches them only as aggregates.
+// here by a superuser, which only a test may do; the app reaches them only as aggregates. The
+// app publishes them from a release, rounded to what the page shows: the exact figures are
+// computed here from the release's rows with lib/pooled and held to lib/stats, and the page to
+// those exact figures rounded.
 
 let inspector: Pool;
 let farm: DemoFarm;
@@ -34,8 +40,11 @@ let rawHarvests: { block_id: string; flush: number; fresh: number }[];
 
 beforeAll(async () => {
   inspector = superuserPool();
-  // Other test files change farms' rows and refresh in the background; start from settled figures.
+  // Other test files change farms' rows and refresh in the background; start from settled figures
+  // and a first release of exactly them.
   await inspector.query("select pooled_refresh_all()");
+  await removeAllReleases(inspector);
+  expect((await cutSetupRelease()).outcome).toBe("cut");
   [farm] = await twoDemoFarms(inspector);
   const { rows: species } = await inspector.query<{ id: string }>("select id from species where common_name ilike '%oyster%' limit 1");
   oysterId = species[0].id;
@@ -77,10 +86,36 @@ afterAll(async () => {
 const efficiencyOf = (block: RawBlock, fresh: number | null) =>
   !block.contaminated && block.dry_g && fresh !== null ? (100 * fresh) / block.dry_g : null;
 
+/** The release's figures for a query, exact: lib/pooled on the release's rows, as the app computes them before rounding. */
+async function exactFromRelease(speciesId: string, flushWindow: "all" | "1-2"): Promise<PooledResults> {
+  return withAnalystAccess(async (tx) => {
+    const release = (await latestRelease(tx))!;
+    const contents = await releaseContents(tx, release.number, { speciesId, flushWindow });
+    const { rows: strainList } = await inspector.query<{ id: string; name: string }>("select id, name from strains where species_id = $1", [
+      speciesId,
+    ]);
+    return buildPooledResults({
+      rows: contents.strainRows,
+      flushRows: contents.flushRows,
+      strains: strainList,
+      filters: {},
+      minimumFarms: 3,
+      showPerFarmEstimates: false,
+      viewerFarmId: null,
+      random: seededRandom("unused: no per-farm rows for an observer"),
+    });
+  });
+}
+
 describe("pooled results on the demo co-op equal lib/stats on the same rows", () => {
-  it("matches blocks, contamination, adjusted means, farm-adjusted Tukey comparisons, heterogeneity and the flush profile", async () => {
+  it("publishes exactly the release's figures, rounded to what the page shows", async () => {
     const page = await getPooledResults(observer, { speciesId: oysterId, flushWindow: "all" });
-    const results = page.results!;
+    expect(page.release?.number).toBe(1);
+    expect(page.results).toEqual(roundPooledResults(await exactFromRelease(oysterId, "all")));
+  });
+
+  it("matches blocks, contamination, adjusted means, farm-adjusted Tukey comparisons, heterogeneity and the flush profile", async () => {
+    const results = await exactFromRelease(oysterId, "all");
     expect(results.strains.length).toBe(3);
 
     const observations = raw.flatMap((block) => {
@@ -184,15 +219,15 @@ describe("pooled results on the demo co-op equal lib/stats on the same rows", ()
     );
   });
 
-  it("withholds every figure when the co-op raises the minimum above its farm count, and says results are updating", async () => {
+  it("withholds every figure when the co-op raises the minimum above its farm count", async () => {
     await inspector.query("update cooperative_settings set minimum_farms = 6");
-    await inspector.query(
-      "insert into pooled_refresh_state (farm_id, requested, completed) values ($1, 1, 0) on conflict (farm_id) do update set requested = pooled_refresh_state.completed + 1",
-      [farm.id],
-    );
     try {
+      // A change made outside this process is heard a few milliseconds after it commits (db/change-feed.ts).
+      await vi.waitFor(
+        async () => expect((await getPooledResults(manager, { speciesId: oysterId, flushWindow: "all" })).results?.minimumFarms).toBe(6),
+        { timeout: 5_000, interval: 50 },
+      );
       const page = await getPooledResults(manager, { speciesId: oysterId, flushWindow: "all" });
-      expect(page.updating).toBe(true);
       for (const strain of page.results!.strains) {
         expect(strain.efficiency).toEqual({ status: "suppressed", message: "fewer than 6 farms" });
         expect(strain.contamination.status).toBe("suppressed");
@@ -203,7 +238,6 @@ describe("pooled results on the demo co-op equal lib/stats on the same rows", ()
       expect(myFarm.strains.every((strain) => strain.percentile.status === "suppressed" && strain.expectedRemaining === null)).toBe(true);
     } finally {
       await inspector.query("update cooperative_settings set minimum_farms = 3");
-      await inspector.query("update pooled_refresh_state set completed = requested where farm_id = $1", [farm.id]);
     }
   });
 

@@ -111,7 +111,7 @@ describe("a strain trial from design to publication", () => {
     await moveTrial(coordinator, trialId, "open");
     await expectConflict(moveTrial(coordinator, trialId, "published"), /cannot move to "Published"/);
     await expectConflict(moveTrial(coordinator, trialId, "running"), /No farm has accepted yet/);
-    const { rows } = await inspector.query(
+    const { rows } = await inspector.query<{ details: unknown }>(
       "select details from audit_events where action = 'trial.status_changed' and details->>'trialId' = $1",
       [trialId],
     );
@@ -253,10 +253,10 @@ describe("a strain trial from design to publication", () => {
     const token = reminder.text.match(/\/unsubscribe\/(\S+)/)![1];
     expect(await optOutOfReminders(token.replace(/.$/, (last) => (last === "A" ? "B" : "A")))).toBeNull();
     expect(await optOutOfReminders(token)).toBe(trial.code);
-    const { rows } = await inspector.query("select reminders_allowed from trial_enrolments where trial_id = $1 and farm_id = $2", [
-      trialId,
-      managers[3].farmId,
-    ]);
+    const { rows } = await inspector.query<{ reminders_allowed: boolean }>(
+      "select reminders_allowed from trial_enrolments where trial_id = $1 and farm_id = $2",
+      [trialId, managers[3].farmId],
+    );
     expect(rows[0].reminders_allowed).toBe(false);
     await expectConflict(sendTrialReminder(coordinator, trialId, managers[3].farmId!), /asked not to get reminders/);
   });
@@ -298,10 +298,18 @@ describe("a strain trial from design to publication", () => {
     expect(results.analysis.versusReference.find((row) => row.arm === "B")!.pAdjusted).toBeCloseTo(pairAB.pAdjusted, 9);
     const armA = rows.filter((row) => row.arm === "A");
     const contaminatedA = armA.filter((row) => row.contaminated).length;
-    expect(results.analysis.arms[0].contamination.lower).toBeCloseTo(wilsonInterval(contaminatedA, armA.length).lower, 12);
+    expect(results.analysis.arms[0].contamination!.lower).toBeCloseTo(wilsonInterval(contaminatedA, armA.length).lower, 12);
     expect(results.analysis.farmsContributing).toBe(4);
     expect(results.analysis.farmPooling).toHaveLength(2);
-    expect(results.analysis.farmPooling[0].farms.map((farm) => farm.farm).sort()).toEqual(["Farm 1", "Farm 2", "Farm 3", "Farm 4"]);
+    // Per-farm rows are off by default (Co-op settings): the report names no farm, not even by pseudonym. Each
+    // farm's pseudonym, drawn for this trial, is kept where only that farm reads it.
+    expect(results.analysis.farmPooling[0].farms).toEqual([]);
+    expect(results.analysis.farmPooling[0].pooled).not.toBeNull();
+    const { rows: pseudonyms } = await inspector.query<{ pseudonym: string }>(
+      "select pseudonym from trial_report_farms where trial_id = $1 order by pseudonym",
+      [trialId],
+    );
+    expect(pseudonyms.map((row) => row.pseudonym)).toEqual(["Farm A", "Farm B", "Farm C", "Farm D"]);
     expect(results.deviations).toMatchObject({ blocksAssigned: 48, blocksMade: 48, blocksLeftOut: 4, farmsDropped: 0 });
     expect(results.analysis.answer).toMatch(/Arm B gave more than reference arm A/);
     expect(JSON.stringify(results)).not.toContain(managers[0].farmId!);

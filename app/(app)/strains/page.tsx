@@ -23,7 +23,8 @@ interface Entry {
   id: string;
   status: keyof typeof statusLabels;
   cells: string[];
-  blocks?: number;
+  /** A strain that farms have blocks of can be retired but not deleted. */
+  inUse?: boolean;
 }
 
 function RegistryTable({ kind, headers, entries, manage }: { kind: RegistryKind; headers: string[]; entries: Entry[]; manage: boolean }) {
@@ -79,7 +80,7 @@ function RegistryTable({ kind, headers, entries, manage }: { kind: RegistryKind;
                         variant="secondary"
                       />
                     ) : null}
-                    {!entry.blocks ? (
+                    {!entry.inUse ? (
                       <ActionForm
                         action={moveRegistryEntryAction}
                         inline
@@ -160,12 +161,19 @@ export default async function StrainsPage() {
     },
     {
       kind: "strains",
-      headers: ["Code", "Name", "Species", "Source", "Blocks recorded", "Notes"],
+      headers: ["Code", "Name", "Species", "Source", "Blocks in the co-op's results", "Notes"],
       entries: registries.strains.map((row) => ({
         id: row.id,
         status: row.status,
-        blocks: row.blocks,
-        cells: [row.code, row.name, row.speciesName, sourceLabels[row.source], String(row.blocks), row.notes],
+        inUse: row.inUse,
+        cells: [
+          row.code,
+          row.name,
+          row.speciesName,
+          sourceLabels[row.source],
+          row.blocks.status === "published" ? String(row.blocks.value) : row.blocks.message,
+          row.notes,
+        ],
       })),
     },
     {

@@ -61,12 +61,18 @@ export class TrialPage {
     return (await this.page.getByTestId("trial-status").first().textContent())?.trim() ?? "";
   }
 
-  async invite(farmName: string): Promise<string> {
-    await this.page.getByLabel(farmName).check();
+  async invite(...farmNames: string[]): Promise<string> {
+    for (const farmName of farmNames) await this.page.getByLabel(farmName).check();
     await this.page.getByRole("button", { name: "Invite and e-mail their managers" }).click();
     const status = this.page.getByRole("status").filter({ hasText: "Invited" });
     await status.waitFor();
     return (await status.textContent()) ?? "";
+  }
+
+  /** The coordinator's warning that too few farms have accepted to start, or null when there is none. */
+  async tooFewFarmsWarning(): Promise<string | null> {
+    const warning = this.page.getByTestId("too-few-farms");
+    return (await warning.count()) ? await warning.textContent() : null;
   }
 
   async accept(blocksPerArm: number): Promise<void> {

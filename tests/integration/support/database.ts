@@ -49,3 +49,25 @@ export async function databaseRefusal(work: Promise<unknown>): Promise<string> {
   }
   throw new Error("the database accepted what it should have refused");
 }
+
+/**
+ * Removes every release of the pooled figures, for tests that must start from a first release
+ * equal to the rows they read. Test-only: releases refuse to be changed, so this switches the
+ * refusing triggers off (session_replication_role) inside the superuser's own transaction.
+ */
+export async function removeAllReleases(pool: Pool): Promise<void> {
+  const client = await pool.connect();
+  try {
+    await client.query("begin");
+    await client.query("set local session_replication_role = replica");
+    await client.query(
+      "delete from pooled_release_strain_rows; delete from pooled_release_flush_rows; delete from pooled_releases; delete from pooled_release_schedule",
+    );
+    await client.query("commit");
+  } catch (error) {
+    await client.query("rollback");
+    throw error;
+  } finally {
+    client.release();
+  }
+}

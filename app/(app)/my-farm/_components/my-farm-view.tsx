@@ -26,6 +26,13 @@ const columns: ColumnDef<Row, unknown>[] = [
   { id: "toCome", header: "Still to come from active blocks", accessorKey: "toCome" },
 ];
 
+/** The farm's place as published: whole percent, and only "lowest" or "highest tenth" at the ends (see summariseOwnFarm). */
+function placeInCoop(percentile: number): string {
+  if (percentile <= 10) return "in the lowest tenth of co-op blocks";
+  if (percentile >= 90) return "in the highest tenth of co-op blocks";
+  return `above ${percentile} % of co-op blocks`;
+}
+
 function toRow(strain: OwnStrainSummary, units: "metric" | "imperial"): Row {
   return {
     strain: `${strain.strainName} (${strain.speciesName})`,
@@ -33,10 +40,7 @@ function toRow(strain: OwnStrainSummary, units: "metric" | "imperial"): Row {
     harvests: String(strain.harvests),
     fresh: formatMass(strain.freshG, units),
     efficiency: strain.meanEfficiency === null ? "none yet" : `${strain.meanEfficiency.toFixed(1)} %`,
-    percentile:
-      strain.percentile.status === "published"
-        ? `above ${Math.round(strain.percentile.value)} % of co-op blocks`
-        : strain.percentile.message,
+    percentile: strain.percentile.status === "published" ? placeInCoop(strain.percentile.value) : strain.percentile.message,
     contamination: `${strain.contaminated} of ${strain.blocks} (${strain.contaminationPercent.toFixed(0)} %)`,
     massLoss: strain.meanMassLoss === null ? "no spent blocks weighed" : `${strain.meanMassLoss.toFixed(1)} %`,
     toCome: strain.expectedRemaining
@@ -59,7 +63,7 @@ export function MyFarmView() {
     return (
       <Notice tone="danger" title="Your farm's figures could not be loaded">
         <p>{query.error.message}</p>
-        <button type="button" className="min-h-11 font-semibold underline" onClick={() => query.refetch()}>
+        <button type="button" className="min-h-11 font-semibold underline" onClick={() => void query.refetch()}>
           Try again
         </button>
       </Notice>
@@ -76,11 +80,6 @@ export function MyFarmView() {
   const withCurves = page.strains.filter((strain) => strain.ownCumulative || strain.coopCumulative);
   return (
     <div className="space-y-6">
-      {page.updating ? (
-        <Notice title="Results updating">
-          <p>The co-op&apos;s figures are being recomputed after a new season log; this page refreshes by itself.</p>
-        </Notice>
-      ) : null}
       <Card title={`${page.farmName} this season, by strain`}>
         <DataTable
           caption="Your season by strain"

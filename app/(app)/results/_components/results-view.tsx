@@ -8,6 +8,7 @@ import { Card } from "@/components/ui/card";
 import { DataTable } from "@/components/ui/data-table";
 import { Notice } from "@/components/ui/notice";
 import { flushWindowLabels, flushWindows, type FlushWindow, type Published, type StrainResult } from "@/lib/pooled";
+import type { ReleaseInfo } from "@/lib/data/pooled-releases";
 import { usePooledResults, type PooledResultsSelection } from "@/lib/queries/pooled-results";
 
 type StrainRow = Record<"strain" | "farms" | "blocks" | "efficiency" | "contamination" | "firstHarvest" | "flushProfile", string>;
@@ -28,7 +29,7 @@ function strainRow(result: StrainResult): StrainRow {
       result.efficiency,
       (v) => `${one(v.estimate)} % (${one(v.lower)} to ${one(v.upper)})${v.adjustedForFarm ? "" : " not adjusted for farm"}`,
     ),
-    contamination: show(result.contamination, (v) => `${one(v.estimate)} % (${one(v.lower)} to ${one(v.upper)})`),
+    contamination: show(result.contamination, (v) => `${v.estimate} % (${v.lower} to ${v.upper})`),
     firstHarvest: show(result.firstHarvestDays, (v) => `${Math.round(v.mean)} days`),
     flushProfile: show(result.flushProfile, (profile) =>
       profile.map((share) => `${share.flush}: ${Math.round(share.meanShare * 100)} %`).join(", "),
@@ -52,6 +53,15 @@ const pairColumns: ColumnDef<PairRow, unknown>[] = [
   { id: "interval", header: "95 % interval (Tukey)", accessorKey: "interval" },
   { id: "p", header: "p, adjusted for all pairs (Tukey)", accessorKey: "p" },
 ];
+
+/** The CSV says which release its figures come from, on every row. */
+const releaseColumns = (release: ReleaseInfo | null) =>
+  release
+    ? [
+        { header: "Release", value: String(release.number) },
+        { header: "Release published (UTC)", value: release.cutAt.slice(0, 16).replace("T", " ") },
+      ]
+    : [];
 
 const selectClass = "block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3 text-base";
 
@@ -118,11 +128,7 @@ export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
         </label>
       </form>
 
-      {page?.updating ? (
-        <Notice title="Results updating">
-          <p>A farm&apos;s new season log is being added to the co-op&apos;s figures. This page refreshes by itself when it is done.</p>
-        </Notice>
-      ) : null}
+      {page ? <ReleaseLine release={page.release} schedule={page.releaseSchedule} minimumFarms={page.results?.minimumFarms} /> : null}
 
       {query.isPending ? (
         <p role="status" className="rounded-lg border border-oat-300 bg-white p-4 text-ink-soft">
@@ -131,11 +137,15 @@ export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
       ) : query.isError ? (
         <Notice tone="danger" title="The results could not be loaded">
           <p>{query.error.message}</p>
-          <button type="button" className="min-h-11 font-semibold underline" onClick={() => query.refetch()}>
+          <button type="button" className="min-h-11 font-semibold underline" onClick={() => void query.refetch()}>
             Try again
           </button>
         </Notice>
-      ) : !page?.results || page.results.strains.length === 0 ? (
+      ) : !page?.release ? (
+        <Notice title="No release yet">
+          <p>The co-op publishes its pooled figures as dated releases. The first one comes {page?.releaseSchedule}.</p>
+        </Notice>
+      ) : !page.results || page.results.strains.length === 0 ? (
         <Notice title="Not enough data">
           <p>
             No member farm has recorded blocks of this species under these filters yet. Try another species, or &ldquo;Any&rdquo; recipe and
@@ -146,6 +156,21 @@ export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
         <ResultsBody page={page} showsOwnFarm={showsOwnFarm} />
       )}
     </div>
+  );
+}
+
+/** Which release the page shows, and when the figures may next change. */
+function ReleaseLine({ release, schedule, minimumFarms }: { release: ReleaseInfo | null; schedule: string; minimumFarms?: number }) {
+  if (!release) return null;
+  const cut = new Date(release.cutAt);
+  return (
+    <p className="text-sm text-ink-soft" data-testid="release-line">
+      <span className="font-semibold text-ink">
+        Release {release.number}, published {cut.toISOString().slice(0, 10)} at {cut.toISOString().slice(11, 16)} UTC.
+      </span>{" "}
+      These figures change only with a new release ({schedule}), and only by the data of at least {minimumFarms ?? 3} farms at a time, so no
+      one can work out one farm&apos;s numbers by comparing two releases.
+    </p>
   );
 }
 
@@ -173,7 +198,8 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
           columns={strainColumns}
           rows={results.strains.map(strainRow)}
           emptyMessage="No strains recorded."
-          csvFileName="co-op-strains.csv"
+          csvFileName={`co-op-strains-release-${page.release?.number}.csv`}
+          csvConstants={releaseColumns(page.release)}
         />
         <ul className="mt-3 list-disc space-y-1 pl-5 text-sm">
           {results.strains.map((strain) => (
@@ -207,7 +233,8 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
                 p: pair.pAdjusted < 0.001 ? "< 0.001" : pair.pAdjusted.toFixed(3),
               }))}
               emptyMessage="No pairs to compare."
-              csvFileName="co-op-strain-differences.csv"
+              csvFileName={`co-op-strain-differences-release-${page.release?.number}.csv`}
+              csvConstants={releaseColumns(page.release)}
             />
             <ul className="mt-3 list-disc space-y-1 pl-5 text-sm">
               {results.pairwise.value.map((pair) => (

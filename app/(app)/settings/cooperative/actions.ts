@@ -3,20 +3,33 @@
 import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { guardedAction } from "@/lib/auth/guard";
-import { updateCooperativePrivacySettings } from "@/lib/data/pooled-settings";
-
-const cooperativeSettingsSchema = z.object({
-  minimumFarms: z.coerce
-    .number("Enter the minimum number of farms as a whole number, such as 3.")
-    .int("Enter a whole number of farms, such as 3.")
-    .min(2, "At least 2 farms: with 1, a farm's own figures would be published.")
-    .max(50, "At most 50 farms; a larger minimum would hide every result."),
-  showPerFarmEstimates: z.preprocess((value) => value === "on", z.boolean()),
-});
+import { cutReleaseNow } from "@/lib/data/pooled-releases";
+import { updateCooperativeSettings } from "@/lib/data/pooled-settings";
+import { cooperativeSettingsSchema } from "@/lib/pooled";
 
 export const updateCooperativeSettingsAction = guardedAction("settings:manage", cooperativeSettingsSchema, async (input, member) => {
-  await updateCooperativePrivacySettings(member, input);
+  await updateCooperativeSettings(member, input);
   revalidatePath("/settings/cooperative");
   revalidatePath("/results");
   return { status: "ok", message: "Saved. Co-op results use the new settings from now on." };
+});
+
+// The form says what it asks for, so a form posted empty (or by mistake) publishes nothing.
+const cutReleaseSchema = z.object({ publish: z.literal("release", "Use the button “Publish a release now” to publish one.") });
+
+/** The coordinator cuts a release now, under the same rule as the schedule. */
+export const cutReleaseNowAction = guardedAction("settings:manage", cutReleaseSchema, async (_input, member) => {
+  const attempt = await cutReleaseNow(member);
+  revalidatePath("/settings/cooperative");
+  revalidatePath("/results");
+  if (attempt.outcome === "cut") {
+    return { status: "ok", message: `Release ${attempt.release.number} is published: ${attempt.figuresChanged} figures took new values.` };
+  }
+  if (attempt.outcome === "waiting") {
+    return {
+      status: "error",
+      message: `Nothing was published: the changes since the last release come from too few farms (each figure needs changes from at least ${attempt.minimumFarms}). See what waits below.`,
+    };
+  }
+  return { status: "ok", message: "Nothing was published: no farm's data has changed since the last release." };
 });

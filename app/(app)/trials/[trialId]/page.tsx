@@ -12,6 +12,7 @@ import {
   dueItems,
   getOwnEnrolment,
   getOwnProgress,
+  getStartReadiness,
   listInvitableFarms,
   listTrialHistory,
   listTrialProgress,
@@ -67,11 +68,22 @@ const answerLabels: Record<string, string> = {
 };
 
 async function CoordinatorControls({ trial, member }: { trial: TrialView; member: Member }) {
-  const history = await listTrialHistory(member, trial.id);
+  const [history, readiness] = await Promise.all([listTrialHistory(member, trial.id), getStartReadiness(member, trial.id)]);
   const moves = nextStatuses(trial.status);
   return (
     <>
       <Card title="Move the trial on">
+        {trial.status === "open" && readiness.accepted < readiness.minimumFarms ? (
+          <div className="mb-3" data-testid="too-few-farms">
+            <Notice tone="caution" title="Not enough farms to start">
+              <p>
+                {readiness.accepted} of the {readiness.minimumFarms} farms a trial needs {readiness.accepted === 1 ? "has" : "have"}{" "}
+                accepted. It can start only once at least {readiness.minimumFarms} farms take part (the co-op&apos;s minimum), so that its
+                report never shows one farm&apos;s figures.
+              </p>
+            </Notice>
+          </div>
+        ) : null}
         {moves.length === 0 ? (
           <p className="text-sm text-ink-soft">This trial is {trialStatusLabels[trial.status].toLowerCase()}; it does not move any more.</p>
         ) : null}

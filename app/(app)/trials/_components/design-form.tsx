@@ -20,6 +20,8 @@ export interface DesignOptions {
   strains: { id: string; code: string; name: string; speciesId: string }[];
   treatments: { id: string; name: string; kind: string }[];
   spreadBySpecies: Record<string, { sd: number; blocks: number; farms: number }>;
+  /** The co-op's minimum number of farms: a trial cannot start with fewer. */
+  minimumFarms: number;
 }
 
 export interface DesignValues {
@@ -372,6 +374,11 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
               value={farms}
               onChange={(event) => setFarms(event.target.value)}
               errors={errors.plannedFarms}
+              hint={
+                toNumber(farms) < options.minimumFarms
+                  ? `Too few: a trial starts only once at least ${options.minimumFarms} farms have accepted (the co-op's minimum), so that its report never shows one farm's figures.`
+                  : `A trial starts only once at least ${options.minimumFarms} farms have accepted (the co-op's minimum).`
+              }
             />
             <Field
               label="Blocks expected to be lost (%)"

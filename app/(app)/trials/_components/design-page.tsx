@@ -4,6 +4,6 @@ import { DesignForm, type DesignValues } from "./design-form";
 
 /** Loads the registries and the co-op's spread per species, then shows the design form. */
 export async function DesignPage({ member, initial }: { member: Member; initial: DesignValues }) {
-  const [options, spreadBySpecies] = await Promise.all([listDesignOptions(member), listBlockSpreadBySpecies()]);
-  return <DesignForm options={{ ...options, spreadBySpecies }} initial={initial} />;
+  const [options, spread] = await Promise.all([listDesignOptions(member), listBlockSpreadBySpecies()]);
+  return <DesignForm options={{ ...options, spreadBySpecies: spread.bySpecies, minimumFarms: spread.minimumFarms }} initial={initial} />;
 }

@@ -60,7 +60,10 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
               {results.analysis.answer}
             </p>
             <p className="mt-2 text-sm text-ink-soft">
-              {results.analysis.blocksAnalysed} blocks from {results.analysis.farmsContributing} farms were analysed. Intervals are 95 %.{" "}
+              {results.analysis.blocksAnalysed === null
+                ? `Fewer than ${results.analysis.minimumFarms} farms reported, so no figure of this trial is published.`
+                : `${results.analysis.blocksAnalysed} blocks from ${results.analysis.farmsContributing} farms were analysed.`}{" "}
+              Intervals are 95 %.{" "}
               {results.analysis.differencesFrom === "arm + farm"
                 ? "Differences are between farm-adjusted means (each farm counts as a block) and are adjusted for comparing every pair of arms (Tukey)."
                 : "Differences in this analysis compare the pooled blocks of each arm without taking farms into account (one-way Tukey–Kramer); analyse again for farm-adjusted differences."}
@@ -74,6 +77,11 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
 
           {results.analysis.anova ? (
             <Card title="Biological efficiency by arm, adjusted for farm">
+              {results.analysis.arms.some((arm) => arm.withheld) ? (
+                <p className="mb-2 text-sm text-ink-soft">
+                  Arms run on fewer than {results.analysis.minimumFarms} farms are left out of every table and chart.
+                </p>
+              ) : null}
               <table className="w-full text-sm [&_td]:pr-3 [&_th]:pr-3">
                 <thead>
                   <tr className="text-left">
@@ -92,7 +100,7 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
                         {mean.treatment}
                         {mean.treatment === results.analysis.referenceArm ? " (reference)" : ""}
                       </th>
-                      <td>{results.analysis.arms.find((arm) => arm.label === mean.treatment)?.n}</td>
+                      <td>{results.analysis.arms.find((arm) => arm.label === mean.treatment)?.n ?? "–"}</td>
                       <td>{fmt(mean.estimate)} %</td>
                       <td>
                         {fmt(mean.lower)} – {fmt(mean.upper)} %
@@ -147,18 +155,26 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
                 </tr>
               </thead>
               <tbody>
-                {results.analysis.arms.map((arm) => (
-                  <tr key={arm.label} className="border-t border-oat-300">
+                {results.analysis.arms.map(({ label, contamination }) => (
+                  <tr key={label} className="border-t border-oat-300">
                     <th scope="row" className="py-2 text-left">
-                      {arm.label}
+                      {label}
                     </th>
-                    <td>
-                      {arm.contamination.contaminated} of {arm.contamination.blocks}
-                    </td>
-                    <td>{fmt(arm.contamination.p * 100)} %</td>
-                    <td>
-                      {fmt(arm.contamination.lower * 100)} – {fmt(arm.contamination.upper * 100)} %
-                    </td>
+                    {contamination ? (
+                      <>
+                        <td>
+                          {contamination.contaminated} of {contamination.blocks}
+                        </td>
+                        <td>{fmt(contamination.p * 100)} %</td>
+                        <td>
+                          {fmt(contamination.lower * 100)} – {fmt(contamination.upper * 100)} %
+                        </td>
+                      </>
+                    ) : (
+                      <td colSpan={3} className="text-ink-soft">
+                        {`fewer than ${results.analysis.minimumFarms} farms ran this arm`}
+                      </td>
+                    )}
                   </tr>
                 ))}
               </tbody>
@@ -174,13 +190,19 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
                 {results.deviations.farmsDropped} invited farm{results.deviations.farmsDropped === 1 ? "" : "s"} dropped out or never
                 answered; {results.deviations.farmsDeclined} declined.
               </li>
-              <li>
-                {results.deviations.blocksMade} of {results.deviations.blocksAssigned} listed blocks reached a season log.
-              </li>
-              <li>
-                {results.deviations.blocksLeftOut} block{results.deviations.blocksLeftOut === 1 ? " was" : "s were"} left out of the BE
-                comparison (contaminated, as declared, or without a wet mass or moisture).
-              </li>
+              {results.deviations.blocksMade !== null && results.deviations.blocksLeftOut !== null ? (
+                <>
+                  <li>
+                    {results.deviations.blocksMade} of {results.deviations.blocksAssigned} listed blocks reached a season log.
+                  </li>
+                  <li>
+                    {results.deviations.blocksLeftOut} block{results.deviations.blocksLeftOut === 1 ? " was" : "s were"} left out of the BE
+                    comparison (contaminated, as declared, or without a wet mass or moisture).
+                  </li>
+                </>
+              ) : (
+                <li>Block counts are not published: fewer than {results.analysis.minimumFarms} farms reported.</li>
+              )}
               {trial.withdrawalsAfterPublication > 0 ? (
                 <li data-testid="withdrawal-note">
                   {trial.withdrawalsAfterPublication === 1 ? "One farm" : `${trial.withdrawalsAfterPublication} farms`} withdrew their data
@@ -192,7 +214,10 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
 
           <ProtocolSummary trial={trial} />
           <p className="text-xs text-ink-soft">
-            Analysed {results.analysedAt.slice(0, 16).replace("T", " ")} UTC. Farms appear only as numbers.
+            Analysed {results.analysedAt.slice(0, 16).replace("T", " ")} UTC.{" "}
+            {results.analysis.perFarmRows
+              ? "Farms appear only under names drawn at random for this trial; only your own farm is marked, and only for you."
+              : "The farm-by-farm charts show the pooled estimate and, for a farm taking part, its own farm only."}
           </p>
         </div>
       )}

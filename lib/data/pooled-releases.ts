@@ -1,0 +1,338 @@
+import "server-only";
+import { desc, eq, sql } from "drizzle-orm";
+import { withAnalystAccess, withFarmContext, type Transaction } from "@/db/client";
+import {
+  cooperativeSettings,
+  pooledReleaseFlushRows,
+  pooledReleases,
+  pooledReleaseSchedule,
+  pooledReleaseStrainRows,
+  strains,
+} from "@/db/schema";
+import { recordAudit } from "@/lib/data/audit";
+import { farmContextOf, type Member } from "@/lib/data/members";
+import { getPooledUpdating } from "@/lib/data/pooled-refresh";
+import { AppError } from "@/lib/errors";
+import {
+  addTrialArms,
+  latestReleaseSlot,
+  nextReleaseSlot,
+  planRelease,
+  releaseFigureLabels,
+  type ReleaseContents,
+  type ReleaseFigureKind,
+  type ReleaseFlushRow,
+  type ReleasePlan,
+  type ReleaseSchedule,
+  type ReleaseStrainRow,
+} from "@/lib/pooled";
+
+/** A release as the pages name it. */
+export interface ReleaseInfo {
+  number: number;
+  cutAt: string;
+}
+
+/** Strains whose figures wait, and for what: no farm ids, no cells, only how far the count is from the minimum. */
+export interface WaitingFigures {
+  strainName: string;
+  figures: string[];
+  /** The most farms that changed any one of them since the last release. */
+  farmsChanged: number;
+}
+
+export type ReleaseAttempt =
+  | { outcome: "cut"; release: ReleaseInfo; figuresChanged: number; waiting: WaitingFigures[]; farmsChanged: number; minimumFarms: number }
+  | { outcome: "waiting"; farmsChanged: number; minimumFarms: number; waiting: WaitingFigures[] }
+  | { outcome: "unchanged"; minimumFarms: number }
+  | { outcome: "not_due"; nextDueAt: string | null };
+
+// Every cut, scheduled or by hand, in every process, waits for this lock: one at a time, and the
+// second sees the first's release.
+const releaseLock = sql`select pg_advisory_xact_lock(hashtextextended('pooled-release', 0))`;
+
+/** The newest release, or null before the first. */
+export async function latestRelease(tx: Transaction): Promise<ReleaseInfo | null> {
+  const [row] = await tx
+    .select({ number: pooledReleases.number, cutAt: pooledReleases.cutAt })
+    .from(pooledReleases)
+    .orderBy(desc(pooledReleases.number))
+    .limit(1);
+  return row ? { number: row.number, cutAt: row.cutAt.toISOString() } : null;
+}
+
+/** Every farm's live statistics, trial arms added together, read in one statement so one snapshot sees all of them. */
+async function liveContents(tx: Transaction): Promise<ReleaseContents> {
+  const result = await tx.execute<{ strain_rows: ReleaseStrainRow[]; flush_rows: ReleaseFlushRow[] }>(sql`
+    select
+      (select coalesce(json_agg(s), '[]') from (
+        select farm_id as "farmId", species_id as "speciesId", strain_id as "strainId", substrate_recipe_id as "substrateRecipeId",
+          fruiting_method_id as "fruitingMethodId", flush_window as "flushWindow", blocks, blocks_contaminated as "blocksContaminated",
+          efficiency_blocks as "efficiencyBlocks", efficiency_sum as "efficiencySum", efficiency_squares as "efficiencySquares",
+          efficiency_bins as "efficiencyBins", first_harvest_blocks as "firstHarvestBlocks", first_harvest_days_sum as "firstHarvestDaysSum"
+        from farm_strain_statistics) s) as strain_rows,
+      (select coalesce(json_agg(f), '[]') from (
+        select farm_id as "farmId", species_id as "speciesId", strain_id as "strainId", substrate_recipe_id as "substrateRecipeId",
+          fruiting_method_id as "fruitingMethodId", flush, sum(finished_blocks)::int as "finishedBlocks",
+          sum(blocks_fruiting)::int as "blocksFruiting", sum(share_sum) as "shareSum", sum(share_squares) as "shareSquares",
+          sum(cumulative_sum) as "cumulativeSum", sum(cumulative_squares) as "cumulativeSquares"
+        from farm_flush_statistics
+        group by farm_id, species_id, strain_id, substrate_recipe_id, fruiting_method_id, flush) f) as flush_rows`);
+  const [row] = result.rows;
+  return { strainRows: addTrialArms(row.strain_rows), flushRows: row.flush_rows };
+}
+
+const strainColumns = {
+  farmId: pooledReleaseStrainRows.farmId,
+  speciesId: pooledReleaseStrainRows.speciesId,
+  strainId: pooledReleaseStrainRows.strainId,
+  substrateRecipeId: pooledReleaseStrainRows.substrateRecipeId,
+  fruitingMethodId: pooledReleaseStrainRows.fruitingMethodId,
+  flushWindow: pooledReleaseStrainRows.flushWindow,
+  blocks: pooledReleaseStrainRows.blocks,
+  blocksContaminated: pooledReleaseStrainRows.blocksContaminated,
+  efficiencyBlocks: pooledReleaseStrainRows.efficiencyBlocks,
+  efficiencySum: pooledReleaseStrainRows.efficiencySum,
+  efficiencySquares: pooledReleaseStrainRows.efficiencySquares,
+  efficiencyBins: pooledReleaseStrainRows.efficiencyBins,
+  firstHarvestBlocks: pooledReleaseStrainRows.firstHarvestBlocks,
+  firstHarvestDaysSum: pooledReleaseStrainRows.firstHarvestDaysSum,
+};
+
+const flushColumns = {
+  farmId: pooledReleaseFlushRows.farmId,
+  speciesId: pooledReleaseFlushRows.speciesId,
+  strainId: pooledReleaseFlushRows.strainId,
+  substrateRecipeId: pooledReleaseFlushRows.substrateRecipeId,
+  fruitingMethodId: pooledReleaseFlushRows.fruitingMethodId,
+  flush: pooledReleaseFlushRows.flush,
+  finishedBlocks: pooledReleaseFlushRows.finishedBlocks,
+  blocksFruiting: pooledReleaseFlushRows.blocksFruiting,
+  shareSum: pooledReleaseFlushRows.shareSum,
+  shareSquares: pooledReleaseFlushRows.shareSquares,
+  cumulativeSum: pooledReleaseFlushRows.cumulativeSum,
+  cumulativeSquares: pooledReleaseFlushRows.cumulativeSquares,
+};
+
+/** A release's rows; `speciesId` and `flushWindow` narrow them to what one results page needs. */
+export async function releaseContents(
+  tx: Transaction,
+  releaseNumber: number,
+  only: { speciesId?: string; flushWindow?: ReleaseStrainRow["flushWindow"] } = {},
+): Promise<ReleaseContents> {
+  const strainFilter = [
+    sql`${pooledReleaseStrainRows.releaseNumber} = ${releaseNumber}`,
+    ...(only.speciesId ? [sql`${pooledReleaseStrainRows.speciesId} = ${only.speciesId}`] : []),
+    ...(only.flushWindow ? [sql`${pooledReleaseStrainRows.flushWindow} = ${only.flushWindow}`] : []),
+  ];
+  const flushFilter = [
+    sql`${pooledReleaseFlushRows.releaseNumber} = ${releaseNumber}`,
+    ...(only.speciesId ? [sql`${pooledReleaseFlushRows.speciesId} = ${only.speciesId}`] : []),
+  ];
+  const strainRows = (await tx
+    .select(strainColumns)
+    .from(pooledReleaseStrainRows)
+    .where(sql.join(strainFilter, sql` and `))) as ReleaseStrainRow[];
+  const flushRows = await tx
+    .select(flushColumns)
+    .from(pooledReleaseFlushRows)
+    .where(sql.join(flushFilter, sql` and `));
+  return { strainRows, flushRows };
+}
+
+const insertSlice = 5000;
+
+async function writeRelease(
+  tx: Transaction,
+  number: number,
+  plan: ReleasePlan,
+  cutBy: "schedule" | "coordinator" | "setup",
+  minimumFarms: number,
+) {
+  const [release] = await tx
+    .insert(pooledReleases)
+    .values({
+      number,
+      cutBy,
+      minimumFarms,
+      farmsChanged: plan.farmsChanged,
+      figuresChanged: plan.figuresChanged,
+      figuresHeldBack: plan.heldBack.length,
+    })
+    .returning({ number: pooledReleases.number, cutAt: pooledReleases.cutAt });
+  // Sent as JSON and unpacked by PostgreSQL: one parameter per slice instead of fifteen per row.
+  for (let start = 0; start < plan.next.strainRows.length; start += insertSlice) {
+    const slice = plan.next.strainRows.slice(start, start + insertSlice);
+    await tx.execute(sql`
+      insert into pooled_release_strain_rows (release_number, farm_id, species_id, strain_id, substrate_recipe_id, fruiting_method_id,
+        flush_window, blocks, blocks_contaminated, efficiency_blocks, efficiency_sum, efficiency_squares, efficiency_bins,
+        first_harvest_blocks, first_harvest_days_sum)
+      select ${number}, r."farmId", r."speciesId", r."strainId", r."substrateRecipeId", r."fruitingMethodId", r."flushWindow", r.blocks,
+        r."blocksContaminated", r."efficiencyBlocks", r."efficiencySum", r."efficiencySquares", r."efficiencyBins", r."firstHarvestBlocks",
+        r."firstHarvestDaysSum"
+      from json_to_recordset(${JSON.stringify(slice)}::json) as r("farmId" uuid, "speciesId" uuid, "strainId" uuid, "substrateRecipeId" uuid,
+        "fruitingMethodId" uuid, "flushWindow" text, blocks int, "blocksContaminated" int, "efficiencyBlocks" int, "efficiencySum" float8,
+        "efficiencySquares" float8, "efficiencyBins" jsonb, "firstHarvestBlocks" int, "firstHarvestDaysSum" float8)`);
+  }
+  for (let start = 0; start < plan.next.flushRows.length; start += insertSlice) {
+    const slice = plan.next.flushRows.slice(start, start + insertSlice);
+    await tx.execute(sql`
+      insert into pooled_release_flush_rows (release_number, farm_id, species_id, strain_id, substrate_recipe_id, fruiting_method_id,
+        flush, finished_blocks, blocks_fruiting, share_sum, share_squares, cumulative_sum, cumulative_squares)
+      select ${number}, r."farmId", r."speciesId", r."strainId", r."substrateRecipeId", r."fruitingMethodId", r.flush, r."finishedBlocks",
+        r."blocksFruiting", r."shareSum", r."shareSquares", r."cumulativeSum", r."cumulativeSquares"
+      from json_to_recordset(${JSON.stringify(slice)}::json) as r("farmId" uuid, "speciesId" uuid, "strainId" uuid, "substrateRecipeId" uuid,
+        "fruitingMethodId" uuid, flush int, "finishedBlocks" int, "blocksFruiting" int, "shareSum" float8, "shareSquares" float8,
+        "cumulativeSum" float8, "cumulativeSquares" float8)`);
+  }
+  return { number: release.number, cutAt: release.cutAt.toISOString() };
+}
+
+/** What waits, by strain name: the coordinator sees which strains and how many farms are still needed, never which farms or cells. */
+async function waitingByStrain(tx: Transaction, plan: ReleasePlan): Promise<WaitingFigures[]> {
+  if (plan.heldBack.length === 0) return [];
+  const names = new Map((await tx.select({ id: strains.id, name: strains.name }).from(strains)).map((row) => [row.id, row.name]));
+  const byStrain = new Map<string, { kinds: Set<ReleaseFigureKind>; farmsChanged: number }>();
+  for (const figure of plan.heldBack) {
+    const entry = byStrain.get(figure.strainId) ?? { kinds: new Set(), farmsChanged: 0 };
+    entry.kinds.add(figure.kind);
+    entry.farmsChanged = Math.max(entry.farmsChanged, figure.farmsChanged);
+    byStrain.set(figure.strainId, entry);
+  }
+  return [...byStrain]
+    .map(([strainId, entry]) => ({
+      strainName: names.get(strainId) ?? "A strain no longer in the registry",
+      figures: [...entry.kinds].map((kind) => releaseFigureLabels[kind]),
+      farmsChanged: entry.farmsChanged,
+    }))
+    .sort((a, b) => a.strainName.localeCompare(b.strainName));
+}
+
+async function minimumFarmsNow(tx: Transaction): Promise<number> {
+  const [settings] = await tx.select({ minimumFarms: cooperativeSettings.minimumFarms }).from(cooperativeSettings);
+  return settings?.minimumFarms ?? 3;
+}
+
+/** The next release as it would be now, against the newest one. */
+async function planNext(tx: Transaction) {
+  const minimumFarms = await minimumFarmsNow(tx);
+  const previous = await latestRelease(tx);
+  const before = previous ? await releaseContents(tx, previous.number) : { strainRows: [], flushRows: [] };
+  const plan = planRelease(before, await liveContents(tx), minimumFarms);
+  return { plan, previous, minimumFarms, waiting: await waitingByStrain(tx, plan) };
+}
+
+/** What a plan comes to: a release (with its number and time), a release that waits, or nothing new. */
+function outcomeOf(
+  { plan, minimumFarms, waiting }: Awaited<ReturnType<typeof planNext>>,
+  release: ReleaseInfo,
+): Exclude<ReleaseAttempt, { outcome: "not_due" }> {
+  if (plan.figuresChanged > 0)
+    return { outcome: "cut", release, figuresChanged: plan.figuresChanged, waiting, farmsChanged: plan.farmsChanged, minimumFarms };
+  return plan.heldBack.length
+    ? { outcome: "waiting", farmsChanged: plan.farmsChanged, minimumFarms, waiting }
+    : { outcome: "unchanged", minimumFarms };
+}
+
+/** Plans against the newest release and, if any figure may change, writes the next one. Call with the release lock held. */
+async function cutInTransaction(tx: Transaction, cutBy: "schedule" | "coordinator" | "setup"): Promise<ReleaseAttempt> {
+  const next = await planNext(tx);
+  if (next.plan.figuresChanged === 0) return outcomeOf(next, { number: next.previous?.number ?? 0, cutAt: "" });
+  return outcomeOf(next, await writeRelease(tx, (next.previous?.number ?? 0) + 1, next.plan, cutBy, next.minimumFarms));
+}
+
+/**
+ * The scheduled job's one call (pg-boss, every few minutes or hourly): cuts a release if the
+ * co-op's schedule says one is due and this slot has not been tried yet; otherwise does nothing.
+ * Safe to run twice at once, in two processes: the release lock makes the second wait and then
+ * find the slot tried. A slot is tried once: if too few farms changed, the release waits for the
+ * next slot (or the coordinator).
+ */
+export async function cutReleaseIfDue(now: Date = new Date()): Promise<ReleaseAttempt> {
+  return withAnalystAccess(async (tx) => {
+    await tx.execute(releaseLock);
+    const [settings] = await tx
+      .select({ schedule: cooperativeSettings.releaseSchedule, hour: cooperativeSettings.releaseHour })
+      .from(cooperativeSettings);
+    const schedule = (settings?.schedule ?? "daily") as ReleaseSchedule;
+    const hour = settings?.hour ?? 2;
+    const slot = latestReleaseSlot(now, schedule, hour);
+    const [state] = await tx.select({ lastAttemptAt: pooledReleaseSchedule.lastAttemptAt }).from(pooledReleaseSchedule);
+    if (!slot || (state?.lastAttemptAt && state.lastAttemptAt >= slot)) {
+      return { outcome: "not_due", nextDueAt: nextReleaseSlot(now, schedule, hour)?.toISOString() ?? null };
+    }
+    const attempt = await cutInTransaction(tx, "schedule");
+    await tx
+      .insert(pooledReleaseSchedule)
+      .values({ id: 1, lastAttemptAt: now, lastOutcome: attempt.outcome })
+      .onConflictDoUpdate({ target: pooledReleaseSchedule.id, set: { lastAttemptAt: now, lastOutcome: attempt.outcome } });
+    return attempt;
+  });
+}
+
+/** The demo's and the benchmark's first release, right after their statistics are computed. */
+export async function cutSetupRelease(): Promise<ReleaseAttempt> {
+  return withAnalystAccess(async (tx) => {
+    await tx.execute(releaseLock);
+    return cutInTransaction(tx, "setup");
+  });
+}
+
+/** The coordinator's "Cut a release now": the same rule as the schedule's, and recorded in the activity log. */
+export async function cutReleaseNow(member: Member): Promise<ReleaseAttempt> {
+  if (member.role !== "coordinator") throw new AppError("forbidden", "Only the co-op coordinator cuts a release of the pooled figures.");
+  const attempt = await withAnalystAccess(async (tx) => {
+    await tx.execute(releaseLock);
+    return cutInTransaction(tx, "coordinator");
+  });
+  await withFarmContext(farmContextOf(member), (tx) =>
+    recordAudit(tx, {
+      action: attempt.outcome === "cut" ? "pooled-release.cut" : "pooled-release.checked",
+      subject: attempt.outcome === "cut" ? `Release ${attempt.release.number}` : "Co-op results",
+      farmId: null,
+      actorUserId: member.id,
+      actorLabel: member.name,
+      details:
+        attempt.outcome === "cut"
+          ? { release: attempt.release.number, figuresChanged: attempt.figuresChanged }
+          : { outcome: attempt.outcome },
+    }),
+  );
+  return attempt;
+}
+
+export interface ReleaseStatus {
+  latest: ReleaseInfo | null;
+  schedule: ReleaseSchedule;
+  hour: number;
+  nextDueAt: string | null;
+  lastAttempt: { at: string; outcome: string } | null;
+  /** What cutting now would do: the coordinator sees why a release waits and what it needs. */
+  now: Exclude<ReleaseAttempt, { outcome: "not_due" }>;
+  /** Farms whose statistics are still being recomputed after an upload: their new data joins a later release. */
+  refreshesPending: boolean;
+}
+
+/** The coordinator's release panel: plans a release without writing one. */
+export async function getReleaseStatus(member: Member, now: Date = new Date()): Promise<ReleaseStatus> {
+  if (member.role !== "coordinator") throw new AppError("forbidden", "Only the co-op coordinator manages releases of the pooled figures.");
+  const refreshesPending = await getPooledUpdating();
+  return withAnalystAccess(async (tx) => {
+    const [settings] = await tx
+      .select({ schedule: cooperativeSettings.releaseSchedule, hour: cooperativeSettings.releaseHour })
+      .from(cooperativeSettings);
+    const schedule = (settings?.schedule ?? "daily") as ReleaseSchedule;
+    const hour = settings?.hour ?? 2;
+    const [state] = await tx.select().from(pooledReleaseSchedule).where(eq(pooledReleaseSchedule.id, 1));
+    const next = await planNext(tx);
+    return {
+      latest: next.previous,
+      schedule,
+      hour,
+      nextDueAt: nextReleaseSlot(now, schedule, hour)?.toISOString() ?? null,
+      lastAttempt: state?.lastAttemptAt ? { at: state.lastAttemptAt.toISOString(), outcome: state.lastOutcome ?? "" } : null,
+      now: outcomeOf(next, { number: (next.previous?.number ?? 0) + 1, cutAt: now.toISOString() }),
+      refreshesPending,
+    };
+  });
+}

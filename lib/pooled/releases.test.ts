@@ -1,0 +1,234 @@
+import fc from "fast-check";
+import { describe, expect, it } from "vitest";
+import { addTrialArms, planRelease, type ReleaseContents, type ReleaseFlushRow, type ReleaseStrainRow } from "./releases";
+import { flushWindows } from "./types";
+
+// Invented figures: what matters is which farms' parts change between releases, not the values.
+
+interface FarmCell {
+  farm: string;
+  recipe: string;
+  /** BE of the farm's fruited blocks; `unfruited` more blocks have none yet. */
+  efficiencies: number[];
+  unfruited?: number;
+  /** Blocks whose last flush is in: they feed the flush profile. */
+  finished?: number;
+}
+
+function contents(cells: FarmCell[]): ReleaseContents {
+  const strainRows: ReleaseStrainRow[] = cells.flatMap((cell) =>
+    flushWindows.map((flushWindow) => {
+      // The first flush gives 60 % of the total, the first two 90 %.
+      const share = flushWindow === "all" ? 1 : flushWindow === "1-2" ? 0.9 : 0.6;
+      const values = cell.efficiencies.map((value) => value * share);
+      const bins: Record<string, number> = {};
+      for (const value of values) bins[Math.floor(value)] = (bins[Math.floor(value)] ?? 0) + 1;
+      return {
+        farmId: cell.farm,
+        speciesId: "oyster",
+        strainId: "grey-morning",
+        substrateRecipeId: cell.recipe,
+        fruitingMethodId: "slits",
+        flushWindow,
+        blocks: values.length + (cell.unfruited ?? 0),
+        blocksContaminated: 0,
+        efficiencyBlocks: values.length,
+        efficiencySum: values.reduce((sum, value) => sum + value, 0),
+        efficiencySquares: values.reduce((sum, value) => sum + value * value, 0),
+        efficiencyBins: bins,
+        firstHarvestBlocks: values.length,
+        firstHarvestDaysSum: 31 * values.length,
+      };
+    }),
+  );
+  const flushRows: ReleaseFlushRow[] = cells.flatMap((cell) =>
+    cell.finished
+      ? [1, 2].map((flush) => ({
+          farmId: cell.farm,
+          speciesId: "oyster",
+          strainId: "grey-morning",
+          substrateRecipeId: cell.recipe,
+          fruitingMethodId: "slits",
+          flush,
+          finishedBlocks: cell.finished!,
+          blocksFruiting: cell.finished!,
+          shareSum: cell.finished! * (flush === 1 ? 0.6 : 0.4),
+          shareSquares: cell.finished! * (flush === 1 ? 0.36 : 0.16),
+          cumulativeSum: cell.finished! * (flush === 1 ? 0.6 : 1),
+          cumulativeSquares: cell.finished! * (flush === 1 ? 0.36 : 1),
+        }))
+      : [],
+  );
+  return { strainRows, flushRows };
+}
+
+const empty: ReleaseContents = { strainRows: [], flushRows: [] };
+const sortRows = <Row extends object>(rows: Row[]) => rows.map((row) => JSON.stringify(row, Object.keys(row).sort())).sort();
+
+/** Each farm's part of each figure, as the invariants below compare them. */
+function parts(release: ReleaseContents): Map<string, Map<string, string>> {
+  const figures = new Map<string, Map<string, string>>();
+  const add = (figure: string, farm: string, value: unknown) => {
+    if (!figures.has(figure)) figures.set(figure, new Map());
+    figures.get(figure)!.set(farm, `${figures.get(figure)!.get(farm) ?? ""}${JSON.stringify(value)}`);
+  };
+  for (const row of release.strainRows) {
+    if (row.flushWindow === "all" && row.blocks > 0)
+      add(`${row.substrateRecipeId} counts`, row.farmId, [row.blocks, row.blocksContaminated]);
+    if (row.flushWindow === "all" && row.firstHarvestBlocks > 0)
+      add(`${row.substrateRecipeId} first`, row.farmId, [row.firstHarvestDaysSum]);
+    if (row.efficiencyBlocks > 0)
+      add(`${row.substrateRecipeId} BE ${row.flushWindow}`, row.farmId, [row.efficiencyBlocks, row.efficiencySum]);
+  }
+  for (const row of release.flushRows) add(`${row.substrateRecipeId} flushes`, row.farmId, [row.flush, row.shareSum]);
+  return figures;
+}
+
+describe("planning a release", () => {
+  const threeFarms: FarmCell[] = ["A", "B", "C"].map((farm, index) => ({
+    farm,
+    recipe: "r1",
+    efficiencies: [80 + index, 90 + index],
+    finished: 2,
+  }));
+
+  it("publishes the first release's figures with enough farms and leaves out a figure of one farm", () => {
+    const live = contents([...threeFarms, { farm: "D", recipe: "r2", efficiencies: [120, 125], finished: 2 }]);
+    const plan = planRelease(empty, live, 3);
+    expect(sortRows(plan.next.strainRows)).toEqual(sortRows(contents(threeFarms).strainRows));
+    expect(sortRows(plan.next.flushRows)).toEqual(sortRows(contents(threeFarms).flushRows));
+    expect(plan.farmsChanged).toBe(3);
+    expect(plan.heldBack).toEqual([]);
+  });
+
+  it("holds a figure back while fewer than the minimum number of farms changed it, and says how many did", () => {
+    const first = planRelease(empty, contents(threeFarms), 3).next;
+    const oneFarmLater = contents(
+      threeFarms.map((cell) => (cell.farm === "A" ? { ...cell, efficiencies: [...cell.efficiencies, 137.3] } : cell)),
+    );
+    const plan = planRelease(first, oneFarmLater, 3);
+    expect(plan.figuresChanged).toBe(0);
+    expect(sortRows(plan.next.strainRows)).toEqual(sortRows(first.strainRows));
+    expect(plan.farmsChanged).toBe(1);
+    expect(plan.heldBack.map((figure) => [figure.kind, figure.farmsChanged])).toEqual([
+      ["counts", 1],
+      ["first-harvest", 1],
+      ["efficiency:all", 1],
+      ["efficiency:1-2", 1],
+      ["efficiency:1", 1],
+    ]);
+  });
+
+  it("takes the new figures once three farms changed them", () => {
+    const first = planRelease(empty, contents(threeFarms), 3).next;
+    const live = contents(threeFarms.map((cell) => ({ ...cell, efficiencies: [...cell.efficiencies, 100] })));
+    const plan = planRelease(first, live, 3);
+    expect(plan.heldBack).toEqual([]);
+    expect(plan.figuresChanged).toBe(5);
+    expect(sortRows(plan.next.strainRows)).toEqual(sortRows(live.strainRows));
+  });
+
+  it("counts only the figure's own farms: a late flush on one farm is held back even when two others added unfruited blocks", () => {
+    const first = planRelease(empty, contents(threeFarms), 3).next;
+    const live = contents(
+      threeFarms.map((cell) =>
+        cell.farm === "A" ? { ...cell, efficiencies: cell.efficiencies.map((value) => value + 4) } : { ...cell, unfruited: 3 },
+      ),
+    );
+    const plan = planRelease(first, live, 3);
+    // A's counts are unchanged; B and C added blocks, so the counts changed on two farms: held back too.
+    expect(plan.heldBack.map((figure) => `${figure.kind}:${figure.farmsChanged}`).sort()).toEqual(
+      ["counts:2", "efficiency:1-2:1", "efficiency:1:1", "efficiency:all:1"].sort(),
+    );
+    expect(plan.figuresChanged).toBe(0);
+  });
+
+  it("does not count float noise from a refresh summing in another order as a change", () => {
+    const first = planRelease(empty, contents(threeFarms), 3).next;
+    const noisy = contents(threeFarms);
+    for (const row of noisy.strainRows) row.efficiencySum *= 1 + 1e-14;
+    const plan = planRelease(first, noisy, 3);
+    expect(plan.farmsChanged).toBe(0);
+    expect(plan.heldBack).toEqual([]);
+    expect(plan.next).toEqual(first);
+  });
+
+  it("keeps a farm that left in the figure until enough farms changed it (taking it out alone would reveal its part)", () => {
+    const four = [...threeFarms, { farm: "D", recipe: "r1", efficiencies: [70, 75], finished: 2 }];
+    const first = planRelease(empty, contents(four), 3).next;
+    const plan = planRelease(first, contents(threeFarms), 3);
+    expect(plan.figuresChanged).toBe(0);
+    expect(plan.next.strainRows.some((row) => row.farmId === "D")).toBe(true);
+  });
+
+  it("drops a figure whose farms fall below the minimum once three changed at once", () => {
+    const four = [...threeFarms, { farm: "D", recipe: "r1", efficiencies: [70, 75], finished: 2 }];
+    const first = planRelease(empty, contents(four), 3).next;
+    const plan = planRelease(first, contents([four[3]]), 3);
+    expect(plan.next).toEqual(empty);
+  });
+
+  it("adds a farm's trial arms together, bins included", () => {
+    const [row] = contents([threeFarms[0]]).strainRows;
+    const merged = addTrialArms([row, { ...row, blocks: 1, efficiencyBlocks: 1, efficiencySum: 81.5, efficiencyBins: { "81": 1 } }]);
+    expect(merged).toHaveLength(1);
+    expect(merged[0]).toMatchObject({
+      blocks: 3,
+      efficiencyBlocks: 3,
+      efficiencySum: 80 + 90 + 81.5,
+      efficiencyBins: { "80": 1, "81": 1, "90": 1 },
+    });
+  });
+
+  it("never lets a release hold, or change by, the data of fewer than the minimum number of farms", () => {
+    const minimumFarms = 3;
+    const farms = ["A", "B", "C", "D", "E", "F"];
+    fc.assert(
+      fc.property(
+        fc.array(
+          fc.array(
+            fc.record({
+              farm: fc.constantFrom(...farms),
+              recipe: fc.constantFrom("r1", "r2"),
+              fruited: fc.integer({ min: 0, max: 3 }),
+              unfruited: fc.integer({ min: 0, max: 2 }),
+              finished: fc.integer({ min: 0, max: 2 }),
+              level: fc.integer({ min: 60, max: 140 }),
+            }),
+            { maxLength: 10 },
+          ),
+          { minLength: 1, maxLength: 6 },
+        ),
+        (states) => {
+          let release = empty;
+          for (const state of states) {
+            const cells = new Map<string, FarmCell>();
+            for (const entry of state) {
+              const key = `${entry.farm}|${entry.recipe}`;
+              if (cells.has(key) || entry.fruited + entry.unfruited === 0) continue;
+              cells.set(key, {
+                farm: entry.farm,
+                recipe: entry.recipe,
+                efficiencies: Array.from({ length: entry.fruited }, (_, index) => entry.level + index),
+                unfruited: entry.unfruited,
+                finished: Math.min(entry.finished, entry.fruited),
+              });
+            }
+            const next = planRelease(release, contents([...cells.values()]), minimumFarms).next;
+            const before = parts(release);
+            const after = parts(next);
+            for (const byFarm of after.values()) expect(byFarm.size).toBeGreaterThanOrEqual(minimumFarms);
+            for (const figure of new Set([...before.keys(), ...after.keys()])) {
+              const old = before.get(figure) ?? new Map<string, string>();
+              const now = after.get(figure) ?? new Map<string, string>();
+              const changed = [...new Set([...old.keys(), ...now.keys()])].filter((farm) => old.get(farm) !== now.get(farm));
+              expect(changed.length === 0 || changed.length >= minimumFarms).toBe(true);
+            }
+            release = next;
+          }
+        },
+      ),
+      { numRuns: 300 },
+    );
+  });
+});

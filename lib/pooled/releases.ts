@@ -1,0 +1,252 @@
+import { flushWindows, type FlushStatisticsRow, type FlushWindow, type StrainStatisticsRow } from "./types";
+
+/** A farm's sufficient statistics for one cell and flush window, as a release keeps them (trial arms added together). */
+export interface ReleaseStrainRow extends StrainStatisticsRow {
+  speciesId: string;
+  flushWindow: FlushWindow;
+}
+
+export interface ReleaseFlushRow extends FlushStatisticsRow {
+  speciesId: string;
+}
+
+/** Everything a release publishes from: every farm's rows, read only through the analyst role. */
+export interface ReleaseContents {
+  strainRows: ReleaseStrainRow[];
+  flushRows: ReleaseFlushRow[];
+}
+
+/**
+ * The separately published figures of one cell (species × strain × recipe × fruiting method):
+ * block and contamination counts, days to first harvest, BE in each flush window, the flush
+ * profile. Each is checked on its own, as a farm can change one without the others (blocks
+ * that have not fruited change the counts, a late flush changes BE over all flushes only).
+ */
+export const releaseFigureKinds = ["counts", "first-harvest", "efficiency:all", "efficiency:1-2", "efficiency:1", "flush-profile"] as const;
+export type ReleaseFigureKind = (typeof releaseFigureKinds)[number];
+
+export const releaseFigureLabels: Record<ReleaseFigureKind, string> = {
+  counts: "block and contamination counts",
+  "first-harvest": "days to first harvest",
+  "efficiency:all": "BE over all flushes",
+  "efficiency:1-2": "BE over flushes 1–2",
+  "efficiency:1": "BE of the first flush",
+  "flush-profile": "flush profile",
+};
+
+export interface ReleaseCell {
+  speciesId: string;
+  strainId: string;
+  substrateRecipeId: string | null;
+  fruitingMethodId: string | null;
+}
+
+/** A figure whose change since the last release comes from too few farms: it keeps the last release's value. */
+export interface HeldBackFigure extends ReleaseCell {
+  kind: ReleaseFigureKind;
+  farmsChanged: number;
+}
+
+export interface ReleasePlan {
+  /** What the new release would hold. */
+  next: ReleaseContents;
+  /** Figures that take new values. */
+  figuresChanged: number;
+  heldBack: HeldBackFigure[];
+  /** Farms whose data changed in any figure since the last release (published now or held back). */
+  farmsChanged: number;
+}
+
+/** One farm's part of one figure, as numbers compared between releases; the first number says whether it contributes. */
+type Vector = number[];
+
+const sameNumber = (a: number, b: number) => a === b || Math.abs(a - b) <= 1e-9 * Math.max(1, Math.abs(a), Math.abs(b));
+
+/** A farm with no part in a figure reads as an empty vector, whether its row is missing or all zeros. */
+const normal = (vector: Vector | undefined): Vector => (vector && vector.some((value) => value !== 0) ? vector : []);
+
+/** Equal within float noise: a refresh that sums the same harvests in another order must not count as a change. */
+function sameVector(a: Vector | undefined, b: Vector | undefined): boolean {
+  const x = normal(a);
+  const y = normal(b);
+  return x.length === y.length && x.every((value, index) => sameNumber(value, y[index]));
+}
+
+const contributes = (vector: Vector | undefined) => vector !== undefined && vector[0] > 0;
+
+function cellKey(row: ReleaseCell): string {
+  return `${row.speciesId}|${row.strainId}|${row.substrateRecipeId ?? ""}|${row.fruitingMethodId ?? ""}`;
+}
+
+function cellOf(key: string): ReleaseCell {
+  const [speciesId, strainId, recipe, method] = key.split("|");
+  return { speciesId, strainId, substrateRecipeId: recipe || null, fruitingMethodId: method || null };
+}
+
+/** cell → figure kind → farm → vector */
+type Figures = Map<string, Map<ReleaseFigureKind, Map<string, Vector>>>;
+
+function put(figures: Figures, key: string, kind: ReleaseFigureKind, farmId: string, vector: Vector) {
+  let kinds = figures.get(key);
+  if (!kinds) figures.set(key, (kinds = new Map<ReleaseFigureKind, Map<string, Vector>>()));
+  let farms = kinds.get(kind);
+  if (!farms) kinds.set(kind, (farms = new Map<string, Vector>()));
+  farms.set(farmId, vector);
+}
+
+function binsVector(bins: Record<string, number>): Vector {
+  return Object.entries(bins)
+    .filter(([, count]) => count > 0)
+    .map(([bin, count]) => [Number(bin), count])
+    .sort((a, b) => a[0] - b[0])
+    .flat();
+}
+
+function figuresOf(contents: ReleaseContents): Figures {
+  const figures: Figures = new Map();
+  for (const row of contents.strainRows) {
+    const key = cellKey(row);
+    // Counts and days to first harvest are the same in every window's row: every block is in each.
+    if (row.flushWindow === "all") {
+      put(figures, key, "counts", row.farmId, [row.blocks, row.blocksContaminated]);
+      put(figures, key, "first-harvest", row.farmId, [row.firstHarvestBlocks, row.firstHarvestDaysSum]);
+    }
+    put(figures, key, `efficiency:${row.flushWindow}`, row.farmId, [
+      row.efficiencyBlocks,
+      row.efficiencySum,
+      row.efficiencySquares,
+      ...binsVector(row.efficiencyBins),
+    ]);
+  }
+  const flushes = new Map<string, ReleaseFlushRow[]>();
+  for (const row of contents.flushRows) {
+    const key = `${cellKey(row)}#${row.farmId}`;
+    flushes.set(key, [...(flushes.get(key) ?? []), row]);
+  }
+  for (const rows of flushes.values()) {
+    rows.sort((a, b) => a.flush - b.flush);
+    const vector = [
+      Math.max(...rows.map((row) => row.finishedBlocks)),
+      ...rows.flatMap((row) => [
+        row.flush,
+        row.finishedBlocks,
+        row.blocksFruiting,
+        row.shareSum,
+        row.shareSquares,
+        row.cumulativeSum,
+        row.cumulativeSquares,
+      ]),
+    ];
+    put(figures, cellKey(rows[0]), "flush-profile", rows[0].farmId, vector);
+  }
+  return figures;
+}
+
+function contentsOf(figures: Figures): ReleaseContents {
+  const strainRows: ReleaseStrainRow[] = [];
+  const flushRows: ReleaseFlushRow[] = [];
+  for (const [key, kinds] of figures) {
+    const cell = cellOf(key);
+    const farms = new Set([...kinds.values()].flatMap((byFarm) => [...byFarm.keys()]));
+    for (const farmId of farms) {
+      const counts = kinds.get("counts")?.get(farmId) ?? [0, 0];
+      const first = kinds.get("first-harvest")?.get(farmId) ?? [0, 0];
+      for (const window of flushWindows) {
+        const efficiency = kinds.get(`efficiency:${window}`)?.get(farmId) ?? [0, 0, 0];
+        if (counts[0] === 0 && first[0] === 0 && efficiency[0] === 0) continue;
+        const bins: Record<string, number> = {};
+        for (let index = 3; index < efficiency.length; index += 2) bins[String(efficiency[index])] = efficiency[index + 1];
+        strainRows.push({
+          ...cell,
+          farmId,
+          flushWindow: window,
+          blocks: counts[0],
+          blocksContaminated: counts[1],
+          firstHarvestBlocks: first[0],
+          firstHarvestDaysSum: first[1],
+          efficiencyBlocks: efficiency[0],
+          efficiencySum: efficiency[1],
+          efficiencySquares: efficiency[2],
+          efficiencyBins: bins,
+        });
+      }
+      const profile = kinds.get("flush-profile")?.get(farmId);
+      if (!profile || profile[0] === 0) continue;
+      for (let index = 1; index < profile.length; index += 7) {
+        flushRows.push({
+          ...cell,
+          farmId,
+          flush: profile[index],
+          finishedBlocks: profile[index + 1],
+          blocksFruiting: profile[index + 2],
+          shareSum: profile[index + 3],
+          shareSquares: profile[index + 4],
+          cumulativeSum: profile[index + 5],
+          cumulativeSquares: profile[index + 6],
+        });
+      }
+    }
+  }
+  return { strainRows, flushRows };
+}
+
+/**
+ * Plans the next release from the last one and the live statistics, figure by figure (cell ×
+ * kind), so that every release holds and every step between two consecutive releases reveals
+ * only sums over at least `minimumFarms` farms:
+ * 1. A figure to which fewer than the minimum number of farms contribute now is left out
+ *    (as if no farm had data there).
+ * 2. If the farms whose part of the figure differs from the last release are none, the figure
+ *    keeps the last release's value; if they are at least the minimum, it takes the new value;
+ *    otherwise it keeps the last release's value and is reported as held back, until enough
+ *    farms have changed it.
+ * By induction every figure in every release has either no farm or at least the minimum behind
+ * it, and differs from the previous release by the data of no farm or of at least the minimum.
+ */
+export function planRelease(previous: ReleaseContents, live: ReleaseContents, minimumFarms: number): ReleasePlan {
+  const before = figuresOf(previous);
+  const now = figuresOf(live);
+  const next: Figures = new Map();
+  const heldBack: HeldBackFigure[] = [];
+  const farmsChanged = new Set<string>();
+  let figuresChanged = 0;
+  for (const key of new Set([...before.keys(), ...now.keys()])) {
+    for (const kind of releaseFigureKinds) {
+      const old = before.get(key)?.get(kind) ?? new Map<string, Vector>();
+      let candidate = now.get(key)?.get(kind) ?? new Map<string, Vector>();
+      const contributing = [...candidate.values()].filter(contributes).length;
+      if (contributing > 0 && contributing < minimumFarms) candidate = new Map();
+      const changed = [...new Set([...old.keys(), ...candidate.keys()])].filter(
+        (farmId) => !sameVector(old.get(farmId), candidate.get(farmId)),
+      );
+      for (const farmId of changed) farmsChanged.add(farmId);
+      const kept = changed.length === 0 || changed.length < minimumFarms ? old : candidate;
+      if (changed.length > 0 && changed.length < minimumFarms) heldBack.push({ ...cellOf(key), kind, farmsChanged: changed.length });
+      if (kept === candidate && changed.length > 0) figuresChanged++;
+      for (const [farmId, vector] of kept) if (normal(vector).length > 0) put(next, key, kind, farmId, vector);
+    }
+  }
+  return { next: contentsOf(next), figuresChanged, heldBack, farmsChanged: farmsChanged.size };
+}
+
+/** The live statistics keep one row per trial arm; a release adds a farm's arms together (bins included). */
+export function addTrialArms(rows: readonly ReleaseStrainRow[]): ReleaseStrainRow[] {
+  const merged = new Map<string, ReleaseStrainRow>();
+  for (const row of rows) {
+    const key = `${cellKey(row)}|${row.farmId}|${row.flushWindow}`;
+    const seen = merged.get(key);
+    if (!seen) {
+      merged.set(key, { ...row, efficiencyBins: { ...row.efficiencyBins } });
+      continue;
+    }
+    seen.blocks += row.blocks;
+    seen.blocksContaminated += row.blocksContaminated;
+    seen.efficiencyBlocks += row.efficiencyBlocks;
+    seen.efficiencySum += row.efficiencySum;
+    seen.efficiencySquares += row.efficiencySquares;
+    seen.firstHarvestBlocks += row.firstHarvestBlocks;
+    seen.firstHarvestDaysSum += row.firstHarvestDaysSum;
+    for (const [bin, count] of Object.entries(row.efficiencyBins)) seen.efficiencyBins[bin] = (seen.efficiencyBins[bin] ?? 0) + count;
+  }
+  return [...merged.values()];
+}
