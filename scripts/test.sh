@@ -10,7 +10,7 @@ PHASES=("$@")
 wants() { [[ " ${PHASES[*]} " == *" $1 "* ]]; }
 
 DATABASE="${RHIZO_TEST_DB:-rhizomorph_test}"
-export_app_env "$DATABASE" "${RHIZO_TEST_APP_PORT:-3100}" "${RHIZO_TEST_SMTP_PORT:-2625}"
+export_app_env "$DATABASE" "${RHIZO_TEST_APP_PORT:-3100}" "${RHIZO_TEST_SMTP_PORT:-2625}" "${RHIZO_TEST_MAIL_WEB_PORT:-1180}"
 export NEXT_DIST_DIR="${NEXT_DIST_DIR:-.next-test}"
 export RHIZO_TEST_RESULTS="$ROOT/test-results"
 mkdir -p "$RHIZO_TEST_RESULTS"
@@ -42,11 +42,12 @@ if wants integration || wants e2e; then
   ensure_postgres_installed
   init_cluster
   start_cluster
-  say "Starting the mail catcher on 127.0.0.1:$SMTP_PORT"
+  say "Starting the local mail server (maildev): SMTP 127.0.0.1:$SMTP_PORT, inbox $MAIL_INBOX_URL"
   ensure_port_free "$SMTP_PORT"
-  setsid npx tsx scripts/mail-catcher.ts >"$RHIZO_TEST_RESULTS/mail-catcher.log" 2>&1 &
-  BACKGROUND_PIDS+=($!)
-  wait_for_port "$SMTP_PORT" "The mail catcher"
+  ensure_port_free "$MAIL_WEB_PORT"
+  BACKGROUND_PIDS+=("$(start_mail_server "$RHIZO_TEST_RESULTS/maildev.log")")
+  wait_for_port "$SMTP_PORT" "The mail server"
+  wait_for_port "$MAIL_WEB_PORT" "The mail inbox"
 fi
 
 STATUS=0
