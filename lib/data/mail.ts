@@ -80,9 +80,11 @@ async function recordOutcome(mailId: string, outcome: "sent" | "retrying" | "fai
   await withFarmContext(worker, (tx) => tx.execute(sql`select app_record_mail_outcome(${mailId}::uuid, ${outcome}, ${problem})`));
 }
 
-/** A few words on why sending failed, from nodemailer's error code and the server's reply code only. */
+/** A few words on why sending failed, from nodemailer's error code and the server's reply code only (never the reply's text). */
 function problemOf(error: unknown): string {
-  const { code, responseCode } = (error ?? {}) as { code?: unknown; responseCode?: unknown };
+  const { code, responseCode, message } = (error ?? {}) as { code?: unknown; responseCode?: unknown; message?: unknown };
+  if (typeof message === "string" && /\b(ECONNREFUSED|ENOTFOUND|EHOSTUNREACH|ENETUNREACH)\b/.test(message))
+    return "could not reach the mail server";
   const reasons: Record<string, string> = {
     ECONNECTION: "could not reach the mail server",
     ETIMEDOUT: "the mail server did not answer in time",
