@@ -41,7 +41,14 @@ export interface Attempt {
 export async function sendQueuedMail(mail: QueuedMail, attempt: Attempt): Promise<void> {
   let message: OutgoingMessage = { to: mail.to, subject: mail.subject, text: mail.text, html: mail.html };
   if (mail.link) {
-    const url = await makeLink(mail.link.target, mail.to);
+    const url = await makeLink(mail.link.target, mail.to).catch((error: unknown) => {
+      if (error instanceof LinkForAnotherAddress) return error;
+      throw error;
+    });
+    if (url instanceof LinkForAnotherAddress) {
+      await recordOutcome(mail.mailId, "failed", "Not sent: its link belongs to another address.");
+      return;
+    }
     if (!url) {
       await recordOutcome(mail.mailId, "cancelled", "Not sent: the link was cancelled, used or expired before it went out.");
       return;
@@ -57,6 +64,9 @@ export async function sendQueuedMail(mail: QueuedMail, attempt: Attempt): Promis
   await recordOutcome(mail.mailId, "sent", null);
 }
 
+/** A message whose one-time link is for someone else (a forged or mistaken job): never sent, never retried. */
+class LinkForAnotherAddress extends Error {}
+
 async function makeLink(target: SecretLinkTarget, to: string): Promise<string | null> {
   if (target.for === "reminders-opt-out") {
     return `${appUrl()}/unsubscribe/${signOptOutToken(target.enrolmentId, process.env.AUTH_SECRET ?? "")}`;
@@ -69,8 +79,8 @@ async function makeLink(target: SecretLinkTarget, to: string): Promise<string | 
         : sql`select email from app_issue_password_reset_link(${target.userId}::uuid, ${tokenHash})`,
     );
     const row = result.rows[0];
-    // Rolls the new hash back: a link only ever goes to the address it was made for.
-    if (row && row.email.toLowerCase() !== to.toLowerCase()) throw new Error(`A ${target.for} link is not for the message's recipient`);
+    // Thrown inside the transaction, so the new hash is rolled back: a link only ever goes to the address it was made for.
+    if (row && row.email.toLowerCase() !== to.toLowerCase()) throw new LinkForAnotherAddress(`A ${target.for} link is not for ${to}`);
     return Boolean(row);
   });
   return issued ? accessLink(appUrl(), target.for === "invitation" ? "invitation" : "password_reset", token) : null;

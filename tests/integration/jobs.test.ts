@@ -10,7 +10,7 @@ import { commitUpload, createUpload, getImportSetup, parseStored } from "@/lib/d
 import { roleChangedMessage } from "@/lib/mail/messages/members";
 import { enqueue } from "@/lib/jobs/queue";
 import { runQueuedJobs, startJobWorkers, stopJobWorkers, syncSchedules, workerApplicationName } from "@/lib/jobs/worker";
-import { mailsTo, mailTo } from "../support/mailbox";
+import { mailsTo, mailTo, withMailServerDown } from "../support/mailbox";
 import { databaseRefusal, superuserPool, twoDemoFarms, type DemoFarm } from "./support/database";
 
 // The job queue (pg-boss as rhizo_jobs, lib/jobs): jobs exist only if the work that queued them
@@ -155,21 +155,6 @@ describe("the pooled refresh after a season-log commit", () => {
 });
 
 describe("a mail the mail server does not take", () => {
-  const deadPort = 1; // nothing listens on port 1: the connection is refused at once
-  const mailer = globalThis as { rhizomorphMailer?: unknown };
-
-  async function withSmtpPort<T>(port: string, work: () => Promise<T>): Promise<T> {
-    const before = process.env.SMTP_PORT;
-    process.env.SMTP_PORT = port;
-    mailer.rhizomorphMailer = undefined; // lib/mail/send.ts builds its transport once per process
-    try {
-      return await work();
-    } finally {
-      process.env.SMTP_PORT = before;
-      mailer.rhizomorphMailer = undefined;
-    }
-  }
-
   async function queueRoleMail(to: string) {
     const context = await coordinatorContext();
     await withFarmContext(context, (tx) =>
@@ -192,7 +177,7 @@ describe("a mail the mail server does not take", () => {
   it("is retried later with a growing delay, says so on the record, and goes out once the server is back", async () => {
     const to = `retry-${run}@example.test`;
     await queueRoleMail(to);
-    await withSmtpPort(String(deadPort), () => runQueuedJobs(["send-mail"]));
+    await withMailServerDown(() => runQueuedJobs(["send-mail"]));
     expect(await recordOf(to)).toEqual([{ outcome: "retrying", attempts: 1, problem: "could not reach the mail server" }]);
     // First retry after 30–60 s (retry delay 30 s, doubled per attempt, with jitter): not yet.
     const [job] = await jobsFor("send-mail", "to", to);
@@ -212,7 +197,7 @@ describe("a mail the mail server does not take", () => {
     await queueRoleMail(to);
     // As if every earlier attempt had failed.
     await inspector.query(`update ${jobQueueSchema}.job set retry_count = retry_limit where name = 'send-mail' and data->>'to' = $1`, [to]);
-    await withSmtpPort(String(deadPort), () => runQueuedJobs(["send-mail"]));
+    await withMailServerDown(() => runQueuedJobs(["send-mail"]));
     expect(await recordOf(to)).toEqual([{ outcome: "failed", attempts: 1, problem: "could not reach the mail server" }]);
     expect(await jobsFor("send-mail", "to", to)).toMatchObject([{ state: "failed" }]);
     expect(await runQueuedJobs(["send-mail"])).toBe(0);

@@ -67,3 +67,21 @@ export function tokenIn(text: string, page: "accept-invitation" | "reset-passwor
   if (!match) throw new Error(`no ${page} link in:\n${text}`);
   return match[1];
 }
+
+/**
+ * Runs `work` in this process with the mail server unreachable (nothing listens on port 1, so
+ * every connection is refused at once). lib/mail/send.ts builds its SMTP transport once per
+ * process, so it is dropped before and after.
+ */
+export async function withMailServerDown<T>(work: () => Promise<T>): Promise<T> {
+  const mailer = globalThis as { rhizomorphMailer?: unknown };
+  const before = process.env.SMTP_PORT;
+  process.env.SMTP_PORT = "1";
+  mailer.rhizomorphMailer = undefined;
+  try {
+    return await work();
+  } finally {
+    process.env.SMTP_PORT = before;
+    mailer.rhizomorphMailer = undefined;
+  }
+}
