@@ -1,9 +1,8 @@
 import "server-only";
 import PgBoss from "pg-boss";
 import { jobQueueSchema } from "@/db/job-queue";
-import { withAnalystAccess } from "@/db/client";
-import { cooperativeSettings } from "@/db/schema";
 import { farmsAwaitingRefresh } from "@/lib/data/pooled-refresh";
+import { settingsForSchedules } from "@/lib/data/schedules";
 import { jobNames, jobs, scheduledJobs, type JobName, type ScheduledJob } from "./definitions";
 import { jobHandlers } from "./handlers";
 
@@ -56,19 +55,21 @@ async function runJob(name: JobName, job: PgBoss.JobWithMetadata<unknown>): Prom
 export function startJobWorkers(options: { pollingIntervalSeconds?: number } = {}): Promise<Workers> {
   globalForWorkers.rhizomorphWorkers ??= (async () => {
     const boss = newBoss(true);
-    await boss.start();
     const pollingIntervalSeconds = options.pollingIntervalSeconds ?? Number(process.env.RHIZO_JOB_POLL_SECONDS ?? 2);
-    for (const name of jobNames) {
-      await boss.work(name, { batchSize: 1, includeMetadata: true, pollingIntervalSeconds }, async ([job]) => runJob(name, job));
+    try {
+      await boss.start();
+      for (const name of jobNames) {
+        await boss.work(name, { batchSize: 1, includeMetadata: true, pollingIntervalSeconds }, async ([job]) => runJob(name, job));
+      }
+    } catch (error) {
+      await boss.stop({ graceful: false, wait: true }).catch(() => undefined);
+      throw error;
     }
-    const workers: Workers = { boss, timers: [] };
-    const upkeep = async () => {
-      await syncSchedules(boss);
-      await queueAwaitedRefreshes(boss);
-    };
+    // Schedules and the refresh catch-up, now and every minute; a failure is logged and tried again.
+    const upkeep = () =>
+      Promise.all([syncSchedules(boss), queueAwaitedRefreshes(boss)]).catch((error: unknown) => console.error("Job upkeep:", error));
     await upkeep();
-    workers.timers.push(setInterval(() => void upkeep().catch((error: unknown) => console.error("Job upkeep:", error)), 60_000).unref());
-    return workers;
+    return { boss, timers: [setInterval(() => void upkeep(), 60_000).unref()] };
   })();
   const starting = globalForWorkers.rhizomorphWorkers;
   // A start that failed (the database was down) may be tried again.
@@ -89,7 +90,7 @@ async function queueAwaitedRefreshes(boss: PgBoss): Promise<void> {
 
 /** Makes pg-boss's schedules match what the co-op's settings say for each scheduled job. */
 export async function syncSchedules(boss: PgBoss, declared: readonly ScheduledJob[] = scheduledJobs): Promise<void> {
-  const [settings] = await withAnalystAccess((tx) => tx.select().from(cooperativeSettings));
+  const settings = await settingsForSchedules();
   const wanted = new Map(declared.map((entry) => [entry.job, { entry, schedule: settings ? entry.when(settings) : null }]));
   // pg-boss's rows carry the time zone they were made with, which its type leaves out.
   const current = new Map(
