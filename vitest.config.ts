@@ -29,6 +29,18 @@ export default defineConfig({
       {
         resolve: { alias },
         test: {
+          // Several real app processes of the built app, started, killed and restarted by the tests.
+          name: "processes",
+          include: ["tests/processes/**/*.test.ts"],
+          environment: "node",
+          fileParallelism: false,
+          testTimeout: 180_000,
+          hookTimeout: 180_000,
+        },
+      },
+      {
+        resolve: { alias },
+        test: {
           name: "e2e",
           include: ["tests/e2e/**/*.test.ts"],
           environment: "node",

@@ -6,7 +6,7 @@
 . "$(dirname "$0")/lib.sh"
 
 DATABASE="${RHIZO_DB_NAME:-rhizomorph}"
-export_app_env "$DATABASE" "${RHIZO_APP_PORT:-3000}" "${RHIZO_SMTP_PORT:-2525}"
+export_app_env "$DATABASE" "${RHIZO_APP_PORT:-3000}" "${RHIZO_SMTP_PORT:-2525}" "${RHIZO_MAIL_WEB_PORT:-1080}"
 
 OUTPUT="${1:-${RHIZO_BACKUP_DIR:-$ROOT/backups}/$DATABASE-$(date -u +%Y%m%dT%H%M%SZ).dump}"
 mkdir -p "$(dirname "$OUTPUT")"

@@ -9,7 +9,7 @@
 BACKUP="${1:-}"
 [ -n "$BACKUP" ] && [ -f "$BACKUP" ] || fail "usage: npm run db:restore -- <backup file> [database]"
 DATABASE="${2:-${RHIZO_DB_NAME:-rhizomorph}}"
-export_app_env "$DATABASE" "${RHIZO_APP_PORT:-3000}" "${RHIZO_SMTP_PORT:-2525}"
+export_app_env "$DATABASE" "${RHIZO_APP_PORT:-3000}" "${RHIZO_SMTP_PORT:-2525}" "${RHIZO_MAIL_WEB_PORT:-1080}"
 
 exists="$(psql_super -d postgres -tAc "SELECT 1 FROM pg_database WHERE datname = '$DATABASE'")"
 if [ "$exists" = "1" ]; then

@@ -59,11 +59,16 @@ BEGIN
   IF NOT EXISTS (SELECT 1 FROM pg_roles WHERE rolname = 'rhizo_analyst') THEN
     CREATE ROLE rhizo_analyst LOGIN NOSUPERUSER NOBYPASSRLS NOCREATEDB NOCREATEROLE;
   END IF;
+  -- The job queue's own role: it reaches only the pgboss schema (db/job-queue.ts grants it).
+  IF NOT EXISTS (SELECT 1 FROM pg_roles WHERE rolname = 'rhizo_jobs') THEN
+    CREATE ROLE rhizo_jobs LOGIN NOSUPERUSER NOBYPASSRLS NOCREATEDB NOCREATEROLE;
+  END IF;
 END
 \$\$;
 ALTER ROLE rhizo_owner PASSWORD '$RHIZO_OWNER_PASSWORD';
 ALTER ROLE rhizo_app PASSWORD '$RHIZO_APP_PASSWORD';
 ALTER ROLE rhizo_analyst PASSWORD '$RHIZO_ANALYST_PASSWORD';
+ALTER ROLE rhizo_jobs PASSWORD '$RHIZO_JOBS_PASSWORD';
 -- The analyst's refresh groups every block of the co-op; with the default 4 MB its sorts and
 -- hash tables spill to disk. Other roles keep the default.
 ALTER ROLE rhizo_analyst SET work_mem = '256MB';

@@ -33,19 +33,19 @@ pg_bin() {
   [ -n "$version" ] && echo "/usr/lib/postgresql/$version/bin"
 }
 
-# Passwords and the sign-in secret are made once per checkout and kept out of git.
+# Passwords and the sign-in secret are made once per checkout and kept out of git. A secret
+# added by a later version (RHIZO_JOBS_PASSWORD) is appended to an existing file.
 load_secrets() {
   mkdir -p "$DATA_DIR"
-  if [ ! -f "$SECRETS_FILE" ]; then
-    umask 077
-    {
-      echo "PG_SUPERUSER_PASSWORD=$(openssl rand -hex 16)"
-      echo "RHIZO_OWNER_PASSWORD=$(openssl rand -hex 16)"
-      echo "RHIZO_APP_PASSWORD=$(openssl rand -hex 16)"
-      echo "RHIZO_ANALYST_PASSWORD=$(openssl rand -hex 16)"
-      echo "AUTH_SECRET=$(openssl rand -base64 32)"
-    } >"$SECRETS_FILE"
-  fi
+  local name previous_umask
+  previous_umask="$(umask)"
+  umask 077
+  touch "$SECRETS_FILE"
+  for name in PG_SUPERUSER_PASSWORD RHIZO_OWNER_PASSWORD RHIZO_APP_PASSWORD RHIZO_ANALYST_PASSWORD RHIZO_JOBS_PASSWORD; do
+    grep -q "^$name=" "$SECRETS_FILE" || echo "$name=$(openssl rand -hex 16)" >>"$SECRETS_FILE"
+  done
+  grep -q "^AUTH_SECRET=" "$SECRETS_FILE" || echo "AUTH_SECRET=$(openssl rand -base64 32)" >>"$SECRETS_FILE"
+  umask "$previous_umask"
   set -a
   # shellcheck disable=SC1090
   . "$SECRETS_FILE"
@@ -53,12 +53,14 @@ load_secrets() {
 }
 
 # Exports the connection strings and settings the app, the migrations and the tests read.
+# The mail ports are maildev's (scripts/mail-server.sh): SMTP for the app, the web inbox for people and tests.
 export_app_env() {
-  local database="$1" app_port="$2" smtp_port="$3"
+  local database="$1" app_port="$2" smtp_port="$3" mail_web_port="${4:-1080}"
   load_secrets
   export RHIZO_DATABASE="$database"
   export DATABASE_URL="postgres://rhizo_app:$RHIZO_APP_PASSWORD@$PG_HOST:$PG_PORT/$database"
   export ANALYST_DATABASE_URL="postgres://rhizo_analyst:$RHIZO_ANALYST_PASSWORD@$PG_HOST:$PG_PORT/$database"
+  export JOBS_DATABASE_URL="postgres://rhizo_jobs:$RHIZO_JOBS_PASSWORD@$PG_HOST:$PG_PORT/$database"
   export OWNER_DATABASE_URL="postgres://rhizo_owner:$RHIZO_OWNER_PASSWORD@$PG_HOST:$PG_PORT/$database"
   export SUPERUSER_DATABASE_URL="postgres://postgres:$PG_SUPERUSER_PASSWORD@$PG_HOST:$PG_PORT/postgres"
   export APP_PORT="$app_port"
@@ -66,6 +68,8 @@ export_app_env() {
   export AUTH_TRUST_HOST=true
   export SMTP_HOST=127.0.0.1
   export SMTP_PORT="$smtp_port"
+  export MAIL_WEB_PORT="$mail_web_port"
+  export MAIL_INBOX_URL="http://127.0.0.1:$mail_web_port"
   export MAIL_FROM="Rhizomorph <no-reply@rhizomorph.invalid>"
   export NEXT_TELEMETRY_DISABLED=1
 }
@@ -97,6 +101,17 @@ port_in_use() { (exec 3<>"/dev/tcp/127.0.0.1/$1") 2>/dev/null; }
 ensure_port_free() {
   port_in_use "$1" && fail "Port $1 is already in use: stop whatever is listening there (an earlier run?) and try again"
   return 0
+}
+
+# maildev (a dev dependency) stands in for the co-op's mail service: it accepts the app's SMTP on
+# loopback and shows what arrived in its web inbox and REST API (GET /email), which the tests read.
+# Both ports stay on 127.0.0.1. Prints the process id; the caller stops it.
+start_mail_server() {
+  local log_file="$1" mail_directory="${2:-}"
+  local args=(--smtp "$SMTP_PORT" --web "$MAIL_WEB_PORT" --ip 127.0.0.1 --web-ip 127.0.0.1)
+  [ -n "$mail_directory" ] && mkdir -p "$mail_directory" && args+=(--mail-directory "$mail_directory")
+  setsid node_modules/.bin/maildev "${args[@]}" >"$log_file" 2>&1 &
+  echo $!
 }
 
 # Builds the app into $NEXT_DIST_DIR (default .next) unless a build newer than every source is there.

@@ -5,7 +5,7 @@
 . "$ROOT/scripts/db.sh"
 
 DATABASE="${RHIZO_DB_NAME:-rhizomorph}"
-export_app_env "$DATABASE" "${RHIZO_APP_PORT:-3000}" "${RHIZO_SMTP_PORT:-2525}"
+export_app_env "$DATABASE" "${RHIZO_APP_PORT:-3000}" "${RHIZO_SMTP_PORT:-2525}" "${RHIZO_MAIL_WEB_PORT:-1080}"
 
 port_in_use "$APP_PORT" && fail "Port $APP_PORT is already in use (is Rhizomorph already running?). Stop it first, or choose another port with RHIZO_APP_PORT."
 ensure_dependencies
@@ -20,19 +20,18 @@ say "Loading the demo co-op if the database is empty"
 # the react-server condition lets Node load them outside Next.
 npx tsx --conditions=react-server db/seed.ts
 
-start_mail_catcher() {
-  if port_in_use "$SMTP_PORT"; then
-    say "Mail catcher already listening on 127.0.0.1:$SMTP_PORT"
-    return
-  fi
-  say "Starting the local mail catcher on 127.0.0.1:$SMTP_PORT"
-  setsid npx tsx scripts/mail-catcher.ts >"$DATA_DIR/mail-catcher.log" 2>&1 &
-  MAIL_CATCHER_PID=$!
-  wait_for_port "$SMTP_PORT" "The mail catcher"
-}
-MAIL_CATCHER_PID=""
-start_mail_catcher
-trap '[ -n "$MAIL_CATCHER_PID" ] && kill -- "-$MAIL_CATCHER_PID" 2>/dev/null' EXIT
+MAIL_SERVER_PID=""
+if port_in_use "$SMTP_PORT"; then
+  say "A mail server is already listening on 127.0.0.1:$SMTP_PORT (an earlier npm start?); using it"
+else
+  ensure_port_free "$MAIL_WEB_PORT"
+  say "Starting the local mail server (maildev): SMTP 127.0.0.1:$SMTP_PORT, inbox $MAIL_INBOX_URL"
+  # Kept in the data folder, so the inbox survives a restart.
+  MAIL_SERVER_PID="$(start_mail_server "$DATA_DIR/maildev.log" "$DATA_DIR/maildev")"
+  wait_for_port "$SMTP_PORT" "The mail server"
+  wait_for_port "$MAIL_WEB_PORT" "The mail inbox"
+fi
+trap '[ -n "$MAIL_SERVER_PID" ] && kill -- "-$MAIL_SERVER_PID" 2>/dev/null' EXIT
 
 ensure_app_build
 
@@ -45,6 +44,9 @@ cat <<MSG
     farm manager  manager@fernbrook.example
     grower        grower@fernbrook.example
     observer      observer@extension.example
+
+  Mail the app sends (invitations, password resets, trial notices) lands in
+  the local inbox at $MAIL_INBOX_URL
 
   Stop with Ctrl-C; stop the database with: npm run db:stop
 

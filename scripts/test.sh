@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # npm test: sets everything up against a fresh test database, then runs the unit,
 # integration and browser tests. Exit code 0 only if all passed.
-# `bash scripts/test.sh unit integration` runs only the phases named.
+# `bash scripts/test.sh unit integration` runs only the phases named; e2e includes the
+# multi-process tests (tests/processes), which need the same build.
 . "$(dirname "$0")/lib.sh"
 . "$ROOT/scripts/db.sh"
 
@@ -10,10 +11,12 @@ PHASES=("$@")
 wants() { [[ " ${PHASES[*]} " == *" $1 "* ]]; }
 
 DATABASE="${RHIZO_TEST_DB:-rhizomorph_test}"
-export_app_env "$DATABASE" "${RHIZO_TEST_APP_PORT:-3100}" "${RHIZO_TEST_SMTP_PORT:-2625}"
+export_app_env "$DATABASE" "${RHIZO_TEST_APP_PORT:-3100}" "${RHIZO_TEST_SMTP_PORT:-2625}" "${RHIZO_TEST_MAIL_WEB_PORT:-1180}"
 export NEXT_DIST_DIR="${NEXT_DIST_DIR:-.next-test}"
 export RHIZO_TEST_RESULTS="$ROOT/test-results"
 mkdir -p "$RHIZO_TEST_RESULTS"
+# A phase that does not run this time must not be reported from an earlier run's file.
+rm -f "$RHIZO_TEST_RESULTS"/vitest-*.json
 
 ensure_dependencies
 if wants e2e && [ ! -x /usr/bin/chromium ]; then
@@ -43,11 +46,12 @@ if wants integration || wants e2e; then
   ensure_postgres_installed
   init_cluster
   start_cluster
-  say "Starting the mail catcher on 127.0.0.1:$SMTP_PORT"
+  say "Starting the local mail server (maildev): SMTP 127.0.0.1:$SMTP_PORT, inbox $MAIL_INBOX_URL"
   ensure_port_free "$SMTP_PORT"
-  setsid npx tsx scripts/mail-catcher.ts >"$RHIZO_TEST_RESULTS/mail-catcher.log" 2>&1 &
-  BACKGROUND_PIDS+=($!)
-  wait_for_port "$SMTP_PORT" "The mail catcher"
+  ensure_port_free "$MAIL_WEB_PORT"
+  BACKGROUND_PIDS+=("$(start_mail_server "$RHIZO_TEST_RESULTS/maildev.log")")
+  wait_for_port "$SMTP_PORT" "The mail server"
+  wait_for_port "$MAIL_WEB_PORT" "The mail inbox"
 fi
 
 STATUS=0
@@ -55,7 +59,7 @@ run_project() {
   say "Running $1 tests"
   # RHIZO_VITEST_ARGS narrows a run to some files, e.g. "tests/integration/season-logs".
   # shellcheck disable=SC2086
-  npx vitest run --project "$1" --reporter=default --reporter=json --outputFile="$RHIZO_TEST_RESULTS/vitest-$1.json" ${RHIZO_VITEST_ARGS:-} || STATUS=1
+  npx vitest run --project "$1" --passWithNoTests --reporter=default --reporter=json --outputFile="$RHIZO_TEST_RESULTS/vitest-$1.json" ${RHIZO_VITEST_ARGS:-} || STATUS=1
 }
 
 wants unit && run_project unit
@@ -68,6 +72,9 @@ if wants e2e; then
   say "Building the app for the browser tests"
   if npx next build >"$RHIZO_TEST_RESULTS/next-build.log" 2>&1; then
     fresh_database
+    # Before the browser tests' server starts: these start, kill and restart app processes of
+    # their own, on copies of the fresh database.
+    run_project processes
     say "Starting the app on 127.0.0.1:$APP_PORT"
     ensure_port_free "$APP_PORT"
     setsid npx next start --hostname 127.0.0.1 --port "$APP_PORT" >"$RHIZO_TEST_RESULTS/next-server.log" 2>&1 &
@@ -81,5 +88,7 @@ if wants e2e; then
   fi
 fi
 
-node scripts/test-summary.mjs "$RHIZO_TEST_RESULTS" "${PHASES[@]}" || STATUS=1
+REPORTS=("${PHASES[@]}")
+wants e2e && REPORTS+=(processes)
+node scripts/test-summary.mjs "$RHIZO_TEST_RESULTS" "${REPORTS[@]}" || STATUS=1
 exit "$STATUS"

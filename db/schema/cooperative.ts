@@ -75,13 +75,16 @@ export const signInAttempts = pgTable(
   (t) => [index("sign_in_attempts_email_idx").on(t.email, t.attemptedAt), index("sign_in_attempts_ip_idx").on(t.ip, t.attemptedAt)],
 );
 
-/** One-time links for invitations and password resets; only a hash of the token is stored. */
+/**
+ * One-time links for invitations and password resets; only a hash of the token is stored. The
+ * hash is null until the mail job makes the token, just before sending it (lib/data/mail.ts).
+ */
 export const accessTokens = pgTable(
   "access_tokens",
   {
     id: uuid("id").primaryKey().defaultRandom(),
     purpose: tokenPurpose("purpose").notNull(),
-    tokenHash: text("token_hash").notNull(),
+    tokenHash: text("token_hash"),
     email: text("email").notNull(),
     userId: uuid("user_id").references(() => users.id, { onDelete: "cascade" }),
     farmId: uuid("farm_id").references(() => farms.id, { onDelete: "cascade" }),

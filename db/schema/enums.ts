@@ -12,3 +12,4 @@ export const enrolmentStatus = pgEnum("enrolment_status", ["invited", "accepted"
 export const uploadOutcome = pgEnum("upload_outcome", ["received", "rejected", "committed", "already_imported"]);
 export const displayUnits = pgEnum("display_units", ["metric", "imperial"]);
 export const tokenPurpose = pgEnum("token_purpose", ["invitation", "password_reset"]);
+export const mailOutcome = pgEnum("mail_outcome", ["queued", "sent", "retrying", "failed", "cancelled"]);

@@ -3,7 +3,7 @@ import { and, asc, desc, eq, sql } from "drizzle-orm";
 import { withFarmContext, type FarmContext } from "@/db/client";
 import { blocks, harvests, strains, substrateRecipes, trialArms, trials, uploads, users, valueChanges } from "@/db/schema";
 import { recordAudit } from "@/lib/data/audit";
-import { refreshPooledStatistics } from "@/lib/data/pooled-refresh";
+import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
 import { AppError } from "@/lib/errors";
 import { blockFigures, nextFlush } from "@/lib/season-logs/block-figures";
 
@@ -109,7 +109,7 @@ export async function listBlocks(context: FarmContext): Promise<BlockRow[]> {
       .orderBy(asc(blocks.code)),
   );
   return rows.map((row) => {
-    const full = withFigures(row as BlockSelection);
+    const full = withFigures(row);
     return {
       id: full.id,
       code: full.code,
@@ -171,7 +171,7 @@ export async function getBlock(context: FarmContext, blockId: string): Promise<B
       .where(eq(valueChanges.blockId, blockId))
       .orderBy(desc(valueChanges.changedAt), desc(valueChanges.id));
     return {
-      ...withFigures(row as BlockSelection),
+      ...withFigures(row),
       harvests: flushes,
       history: history.map((change) => ({ ...change, changedAt: change.changedAt.toISOString() })),
     };
@@ -245,8 +245,8 @@ export async function recordHarvest(
       actorUserId: farm.userId,
       details: { blockId: block.id, flush: input.flush, freshGrams: input.freshGrams },
     });
+    await queuePooledRefresh(tx, farm.farmId);
     return { blockId: block.id };
   });
-  void refreshPooledStatistics(farm.farmId).catch((error: unknown) => console.error("Refreshing pooled statistics failed", error));
   return result;
 }

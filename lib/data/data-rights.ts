@@ -22,7 +22,7 @@ import { AppError } from "@/lib/errors";
 import { exportFiles, exportReadme, originalFileName, withdrawalConfirmed } from "@/lib/members/farm-export";
 import { recordAudit } from "./audit";
 import type { Member } from "./members";
-import { refreshPooledStatistics } from "./pooled-refresh";
+import { queuePooledRefresh } from "./pooled-refresh";
 
 function farmContextOf(member: Member) {
   if (!member.farmId || member.role !== "farm_manager")
@@ -153,7 +153,7 @@ export interface WithdrawalSummary {
 /**
  * Deletes every row the farm gave (blocks, harvests, uploads, value changes, import choices) in
  * one transaction after the typed confirmation, drops its trial enrolments, records the
- * withdrawal on the farm's and the co-op's log, then has the pooled statistics recomputed.
+ * withdrawal on the farm's and the co-op's log, and queues the recompute of its pooled statistics.
  */
 export async function withdrawFarmData(member: Member, typedConfirmation: string): Promise<WithdrawalSummary> {
   const { context, farmId } = farmContextOf(member);
@@ -193,8 +193,8 @@ export async function withdrawFarmData(member: Member, typedConfirmation: string
     };
     await recordAudit(tx, { ...entry, farmId });
     await recordAudit(tx, entry);
+    await queuePooledRefresh(tx, farmId);
     return result;
   });
-  await refreshPooledStatistics(farmId);
   return summary;
 }

@@ -6,11 +6,12 @@ import { accessTokens, cooperativeSettings, farms, users } from "@/db/schema";
 import { hashPassword, unknownUserHash, verifyPassword } from "@/lib/auth/password";
 import type { MemberRole } from "@/lib/auth/permissions";
 import { AppError } from "@/lib/errors";
+import { enqueue } from "@/lib/jobs/queue";
 import { invitationMessage, passwordChangedMessage, passwordResetMessage, roleChangedMessage } from "@/lib/mail/messages/members";
-import { sendMail } from "@/lib/mail/send";
 import { deactivationProblem, invitationProblem, roleChangeProblem, transferProblem, type Person } from "@/lib/members/roles";
-import { accessLink, hashToken, isWellFormedToken, newAccessToken, tokenExpiresAt, type TokenPurpose } from "@/lib/members/tokens";
+import { hashToken, isWellFormedToken, tokenExpiresAt, type TokenPurpose } from "@/lib/members/tokens";
 import { recordAudit } from "./audit";
+import { queueMail, secretLink } from "./mail";
 
 export interface Member {
   id: string;
@@ -100,16 +101,19 @@ const personColumns = {
   lastSignInAt: users.lastSignInAt,
 };
 
-function appUrl(): string {
-  return process.env.APP_URL ?? "http://127.0.0.1:3000";
-}
-
 function actor(member: Member) {
   return { actorUserId: member.id, actorLabel: member.name };
 }
 
+/** Not used, not expired and not cancelled (cancelling an invitation expires it). */
+const invitationIsOpen = () => [
+  eq(accessTokens.purpose, "invitation"),
+  isNull(accessTokens.usedAt),
+  gt(accessTokens.expiresAt, sql`now()`),
+];
+
 async function pendingInvitations(tx: Transaction, farmId?: string): Promise<PendingInvitation[]> {
-  const conditions = [eq(accessTokens.purpose, "invitation"), isNull(accessTokens.usedAt), gt(accessTokens.expiresAt, sql`now()`)];
+  const conditions = invitationIsOpen();
   if (farmId) conditions.push(eq(accessTokens.farmId, farmId));
   return tx
     .select({
@@ -127,7 +131,7 @@ async function pendingInvitations(tx: Transaction, farmId?: string): Promise<Pen
 /** The coordinator's view: every farm, every person and the invitations still open. */
 export async function listMembership(member: Member) {
   return withFarmContext(farmContextOf(member), async (tx) => ({
-    farms: (await tx
+    farms: await tx
       .select({
         id: farms.id,
         name: farms.name,
@@ -137,8 +141,8 @@ export async function listMembership(member: Member) {
         joinedAt: farms.joinedAt,
       })
       .from(farms)
-      .orderBy(asc(farms.name))) as FarmSummary[],
-    people: (await tx.select(personColumns).from(users).orderBy(asc(users.name))) as PersonSummary[],
+      .orderBy(asc(farms.name)),
+    people: await tx.select(personColumns).from(users).orderBy(asc(users.name)),
     invitations: await pendingInvitations(tx),
   }));
 }
@@ -148,7 +152,7 @@ export async function listFarmPeople(member: Member) {
   if (!member.farmId) throw new AppError("forbidden", "Only a farm's own people have a farm to manage.");
   const farmId = member.farmId;
   return withFarmContext(farmContextOf(member), async (tx) => ({
-    people: (await tx.select(personColumns).from(users).where(eq(users.farmId, farmId)).orderBy(asc(users.name))) as PersonSummary[],
+    people: await tx.select(personColumns).from(users).where(eq(users.farmId, farmId)).orderBy(asc(users.name)),
     invitations: await pendingInvitations(tx, farmId),
   }));
 }
@@ -191,16 +195,16 @@ export async function setFarmStatus(member: Member, farmId: string, status: Farm
 }
 
 /**
- * Sends a one-time invitation link. The coordinator invites farm managers, observers and
- * coordinators; a farm manager invites growers to their own farm.
+ * Sends a one-time invitation link (from the mail job, after the commit). The coordinator invites
+ * farm managers, observers and coordinators; a farm manager invites growers to their own farm.
+ * An address with an invitation still open is refused: resend or cancel that one instead.
  */
 export async function inviteMember(member: Member, input: { email: string; role: MemberRole; farmId: string | null }): Promise<void> {
   const problem = invitationProblem(member, input.role, input.farmId);
   if (problem) throw new AppError("invalid_input", problem, [{ field: "role", message: problem }]);
-  const { token, tokenHash } = newAccessToken();
   const expiresAt = tokenExpiresAt("invitation", new Date());
   const email = input.email.trim().toLowerCase();
-  const prepared = await withFarmContext(farmContextOf(member), async (tx) => {
+  await withFarmContext(farmContextOf(member), async (tx) => {
     const [taken] = await tx
       .select({ active: users.active })
       .from(users)
@@ -219,9 +223,20 @@ export async function inviteMember(member: Member, input: { email: string; role:
         ]);
       farmName = farm.name;
     }
-    await tx
+    const [open] = await tx
+      .select({ createdAt: accessTokens.createdAt, expiresAt: accessTokens.expiresAt })
+      .from(accessTokens)
+      .where(and(...invitationIsOpen(), sql`lower(${accessTokens.email}) = ${email}`));
+    if (open)
+      throw new AppError(
+        "conflict",
+        `An invitation to ${email} is already open (sent ${day(open.createdAt)}, good until ${day(open.expiresAt)}).`,
+        [{ field: "email", message: "Resend or cancel it under Open invitations instead of sending another." }],
+      );
+    const [token] = await tx
       .insert(accessTokens)
-      .values({ purpose: "invitation", tokenHash, email, farmId: input.farmId, role: input.role, createdBy: member.id, expiresAt });
+      .values({ purpose: "invitation", email, farmId: input.farmId, role: input.role, createdBy: member.id, expiresAt })
+      .returning({ id: accessTokens.id });
     await recordAudit(tx, {
       ...actor(member),
       farmId: member.role === "farm_manager" ? member.farmId : null,
@@ -229,19 +244,81 @@ export async function inviteMember(member: Member, input: { email: string; role:
       subject: email,
       details: { role: input.role, farmId: input.farmId, expiresAt: expiresAt.toISOString() },
     });
-    const [settings] = await tx.select({ name: cooperativeSettings.name }).from(cooperativeSettings);
-    return { farmName, cooperativeName: settings?.name ?? "your co-op" };
+    await queueInvitation(tx, member, { tokenId: token.id, email, role: input.role, farmName, expiresAt });
   });
-  await sendMail(
-    invitationMessage({
-      to: email,
-      inviterName: member.name,
-      role: input.role,
-      ...prepared,
-      link: accessLink(appUrl(), "invitation", token),
+}
+
+const day = (value: Date) => value.toISOString().slice(0, 10);
+
+async function queueInvitation(
+  tx: Transaction,
+  member: Member,
+  invitation: { tokenId: string; email: string; role: MemberRole | null; farmName: string | null; expiresAt: Date },
+): Promise<void> {
+  const [settings] = await tx.select({ name: cooperativeSettings.name }).from(cooperativeSettings);
+  const link = secretLink({ for: "invitation", tokenId: invitation.tokenId });
+  const message = invitationMessage({
+    to: invitation.email,
+    inviterName: member.name,
+    role: invitation.role ?? "member",
+    farmName: invitation.farmName,
+    cooperativeName: settings?.name ?? "your co-op",
+    link: link.slot,
+    expiresAt: invitation.expiresAt,
+  });
+  await queueMail(tx, "invitation", message, link);
+}
+
+/** An open invitation the member may see (row-level security: the coordinator's, or a manager's own farm's). */
+async function openInvitation(tx: Transaction, invitationId: string) {
+  const [invitation] = await tx
+    .select({ id: accessTokens.id, email: accessTokens.email, role: accessTokens.role, farmId: accessTokens.farmId })
+    .from(accessTokens)
+    .where(and(eq(accessTokens.id, invitationId), ...invitationIsOpen()));
+  if (!invitation) throw new AppError("not_found", "That invitation is no longer open (accepted, cancelled or expired). Reload the page.");
+  return invitation;
+}
+
+/** Sends an open invitation again with a new link and a new 7 days; the link sent before stops working at once. */
+export async function resendInvitation(member: Member, invitationId: string): Promise<void> {
+  const expiresAt = tokenExpiresAt("invitation", new Date());
+  await withFarmContext(farmContextOf(member), async (tx) => {
+    const invitation = await openInvitation(tx, invitationId);
+    await tx.update(accessTokens).set({ tokenHash: null, expiresAt }).where(eq(accessTokens.id, invitation.id));
+    const [farm] = invitation.farmId ? await tx.select({ name: farms.name }).from(farms).where(eq(farms.id, invitation.farmId)) : [];
+    await recordAudit(tx, {
+      ...actor(member),
+      farmId: member.role === "farm_manager" ? member.farmId : null,
+      action: "member.invitation-resent",
+      subject: invitation.email,
+      details: { role: invitation.role, farmId: invitation.farmId, expiresAt: expiresAt.toISOString() },
+    });
+    await queueInvitation(tx, member, {
+      tokenId: invitation.id,
+      email: invitation.email,
+      role: invitation.role,
+      farmName: farm?.name ?? null,
       expiresAt,
-    }),
-  );
+    });
+  });
+}
+
+/** Withdraws an open invitation: its link stops working and a mail not yet sent is not sent. */
+export async function cancelInvitation(member: Member, invitationId: string): Promise<void> {
+  await withFarmContext(farmContextOf(member), async (tx) => {
+    const invitation = await openInvitation(tx, invitationId);
+    await tx
+      .update(accessTokens)
+      .set({ expiresAt: sql`now()` })
+      .where(eq(accessTokens.id, invitation.id));
+    await recordAudit(tx, {
+      ...actor(member),
+      farmId: member.role === "farm_manager" ? member.farmId : null,
+      action: "member.invitation-cancelled",
+      subject: invitation.email,
+      details: { role: invitation.role, farmId: invitation.farmId },
+    });
+  });
 }
 
 async function peopleOfFarm(tx: Transaction, farmId: string | null): Promise<Person[]> {
@@ -263,7 +340,7 @@ async function findPerson(tx: Transaction, userId: string) {
 
 /** The coordinator changes someone's role; they are told by e-mail. */
 export async function changeRole(member: Member, userId: string, newRole: MemberRole): Promise<void> {
-  const notice = await withFarmContext(farmContextOf(member), async (tx) => {
+  await withFarmContext(farmContextOf(member), async (tx) => {
     const target = await findPerson(tx, userId);
     const problem = roleChangeProblem(asPerson(member), target, newRole, await peopleOfFarm(tx, target.farmId));
     if (problem) throw new AppError("conflict", problem, [{ field: "role", message: problem }]);
@@ -275,7 +352,7 @@ export async function changeRole(member: Member, userId: string, newRole: Member
       details: { userId, oldRole: target.role, newRole, farmId: target.farmId },
     });
     const [farm] = target.farmId ? await tx.select({ name: farms.name }).from(farms).where(eq(farms.id, target.farmId)) : [];
-    return roleChangedMessage({
+    const notice = roleChangedMessage({
       to: target.email,
       name: target.name,
       oldRole: target.role,
@@ -283,8 +360,8 @@ export async function changeRole(member: Member, userId: string, newRole: Member
       changedBy: member.name,
       farmName: farm?.name ?? null,
     });
+    await queueMail(tx, "role-changed", notice);
   });
-  await sendMail(notice);
 }
 
 /** The coordinator deactivates anyone (but a farm's last manager); a manager removes their growers. */
@@ -306,7 +383,7 @@ export async function deactivatePerson(member: Member, userId: string): Promise<
 
 /** A farm manager makes one of their growers the manager and becomes a grower. */
 export async function transferManagerRole(member: Member, userId: string): Promise<void> {
-  const notice = await withFarmContext(farmContextOf(member), async (tx) => {
+  await withFarmContext(farmContextOf(member), async (tx) => {
     const target = await findPerson(tx, userId);
     const problem = transferProblem(asPerson(member), target);
     if (problem) throw new AppError("conflict", problem, [{ field: "userId", message: problem }]);
@@ -320,7 +397,7 @@ export async function transferManagerRole(member: Member, userId: string): Promi
       subject: target.email,
       details: { from: member.id, to: target.id },
     });
-    return roleChangedMessage({
+    const notice = roleChangedMessage({
       to: target.email,
       name: target.name,
       oldRole: "grower",
@@ -328,8 +405,8 @@ export async function transferManagerRole(member: Member, userId: string): Promi
       changedBy: member.name,
       farmName: member.farmName,
     });
+    await queueMail(tx, "role-changed", notice);
   });
-  await sendMail(notice);
 }
 
 function asPerson(member: Member): Person {
@@ -338,20 +415,37 @@ function asPerson(member: Member): Person {
 
 const anonymous = { userId: null, farmId: null, role: "anonymous" as const };
 
-/** Always the same answer to the caller; a link is sent only to an active member's address. */
+/**
+ * The reset form's request: only queues the "password-reset" job, so the answer comes in the same
+ * time, after the same work, whether or not the address belongs to anyone.
+ */
 export async function requestPasswordReset(email: string, ip: string | null): Promise<void> {
-  const { token, tokenHash } = newAccessToken();
-  const expiresAt = tokenExpiresAt("password_reset", new Date());
   const address = email.trim().toLowerCase();
-  const found = await withFarmContext(anonymous, async (tx) => {
+  await withFarmContext(anonymous, (tx) => enqueue(tx, "password-reset", { email: address, ip }));
+}
+
+/**
+ * The "password-reset" job: a reset for an active member of an active farm (at most three an
+ * hour, older unused links voided) and its e-mail; for any other address nothing but the
+ * activity-log line. The link itself is made by the mail job.
+ */
+export async function issuePasswordReset(request: { email: string; ip: string | null }): Promise<void> {
+  const expiresAt = tokenExpiresAt("password_reset", new Date());
+  await withFarmContext(anonymous, async (tx) => {
     const result = await tx.execute<{ user_id: string; name: string }>(
-      sql`select * from app_create_password_reset(${address}, ${tokenHash}, ${expiresAt.toISOString()}::timestamptz)`,
+      sql`select * from app_create_password_reset(${request.email}, ${null}::text, ${expiresAt.toISOString()}::timestamptz)`,
     );
-    await recordAudit(tx, { action: "password.reset-requested", subject: address, ip, details: { known: result.rows.length > 0 } });
-    return result.rows[0];
+    const found = result.rows[0];
+    await recordAudit(tx, {
+      action: "password.reset-requested",
+      subject: request.email,
+      ip: request.ip,
+      details: { known: Boolean(found) },
+    });
+    if (!found) return;
+    const link = secretLink({ for: "password-reset", userId: found.user_id });
+    await queueMail(tx, "password-reset", passwordResetMessage({ to: request.email, name: found.name, link: link.slot, expiresAt }), link);
   });
-  if (found)
-    await sendMail(passwordResetMessage({ to: address, name: found.name, link: accessLink(appUrl(), "password_reset", token), expiresAt }));
 }
 
 export interface AccessTokenState {
@@ -463,6 +557,6 @@ export async function changePassword(member: Member, currentPassword: string, ne
     }
     await tx.update(users).set({ passwordHash: newHash }).where(eq(users.id, member.id));
     await recordAudit(tx, { ...actor(member), farmId: member.farmId, action: "password.changed", subject: member.email });
+    await queueMail(tx, "password-changed", passwordChangedMessage({ to: member.email, name: member.name }));
   });
-  await sendMail(passwordChangedMessage({ to: member.email, name: member.name }));
 }

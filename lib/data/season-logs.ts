@@ -19,7 +19,7 @@ import {
 import { createSeasonLogParser, type SeasonLogParserOptions, type SeasonLogResult, type TemplateCodes } from "@/lib/import";
 import { AppError } from "@/lib/errors";
 import { recordAudit } from "@/lib/data/audit";
-import { refreshPooledStatistics } from "@/lib/data/pooled-refresh";
+import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
 import { type BlockWrite, type CommitPlan, type HarvestWrite, type PlanCounts, type PlanInput, planCommit } from "@/lib/season-logs/plan";
 import { type ParseChoices, type UploadReport, buildReport, parserOptions } from "@/lib/season-logs/report";
 import { packParse, stagingKey, unpackParse } from "@/lib/season-logs/staged";
@@ -527,8 +527,9 @@ async function writePlan(tx: Transaction, farmId: string, userId: string, upload
 /**
  * Commits a stored upload: takes its staged parse (or reads the file again when the choices
  * changed) and, in one transaction under the farm's lock, plans against what is stored,
- * inserts new blocks and harvests, updates changed ones, keeps every replaced value as history
- * and marks the upload committed. Any error leaves the farm's data as it was.
+ * inserts new blocks and harvests, updates changed ones, keeps every replaced value as history,
+ * marks the upload committed and queues the farm's pooled refresh (the job runs after the commit).
+ * Any error leaves the farm's data as it was.
  */
 export async function commitUpload(context: FarmContext, uploadId: string, choices: ParseChoices): Promise<CommitReceipt> {
   const farm = farmOf(context);
@@ -570,6 +571,7 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
       actorUserId: farm.userId,
       details: { uploadId, ...plan.counts, changedValues: plan.changes.length },
     });
+    await queuePooledRefresh(tx, farm.farmId);
     return {
       uploadId,
       fileName: row.fileName,
@@ -578,7 +580,6 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
       changedValues: plan.changes.length,
     };
   });
-  void refreshPooledStatistics(farm.farmId).catch((error: unknown) => console.error("Refreshing pooled statistics failed", error));
   return receipt;
 }
 

@@ -8,7 +8,6 @@ import {
   cooperativeSettings,
   farms,
   harvests,
-  mailMessages,
   species,
   strains,
   treatments,
@@ -19,7 +18,9 @@ import {
   trials,
   users,
 } from "@/db/schema";
+import { appUrl } from "@/lib/app-url";
 import { recordAudit } from "@/lib/data/audit";
+import { queueMail, secretLink } from "@/lib/data/mail";
 import { farmContextOf, type Member } from "@/lib/data/members";
 import { latestRelease, releaseContents } from "@/lib/data/pooled-releases";
 import { AppError } from "@/lib/errors";
@@ -30,7 +31,7 @@ import {
   trialReminderMail,
   type TrialMail,
 } from "@/lib/mail/messages/trials";
-import { sendMail } from "@/lib/mail/send";
+import type { MailKind, SecretLink } from "@/lib/mail/queued-mail";
 import { publishedSteps, roundTo, withinFarmSpread } from "@/lib/pooled";
 import { seededRandom } from "@/lib/random";
 import {
@@ -45,7 +46,7 @@ import {
   type StoredTrialResults,
   type TrialStatus,
 } from "@/lib/trials";
-import { signOptOutToken, verifyOptOutToken } from "@/lib/trials/reminder-opt-out";
+import { verifyOptOutToken } from "@/lib/trials/reminder-opt-out";
 
 export interface ArmInput {
   label: string;
@@ -84,7 +85,6 @@ export interface TrialArmView {
 
 export type StoredResults = StoredTrialResults;
 
-const appUrl = () => (process.env.APP_URL ?? "http://127.0.0.1:3000").replace(/\/$/, "");
 const optOutSecret = () => process.env.AUTH_SECRET ?? "";
 
 function ruleError(error: unknown): never {
@@ -366,7 +366,6 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
 // ——— Lifecycle ———
 
 export async function moveTrial(member: Member, trialId: string, to: TrialStatus): Promise<void> {
-  let published: { trial: TrialView; recipients: string[] } | null = null;
   await withFarmContext(farmContextOf(member), async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
     try {
@@ -411,23 +410,20 @@ export async function moveTrial(member: Member, trialId: string, to: TrialStatus
     });
     if (to === "published") {
       const people = await tx.select({ email: users.email }).from(users).where(eq(users.active, true));
-      published = { trial, recipients: people.map((person) => person.email) };
+      const mail = resultsPublishedMail({
+        trial,
+        answer: trial.results?.analysis.answer ?? "",
+        resultsUrl: `${appUrl()}/trials/${trialId}/results`,
+      });
+      // One message per person, so nobody sees the others' addresses.
+      for (const person of people) await deliver(tx, "trial-results", person.email, mail);
     }
   });
-  const done = published as { trial: TrialView; recipients: string[] } | null;
-  if (done && done.recipients.length) {
-    const mail = resultsPublishedMail({
-      trial: done.trial,
-      answer: done.trial.results?.analysis.answer ?? "",
-      resultsUrl: `${appUrl()}/trials/${trialId}/results`,
-    });
-    // One message per person, so nobody sees the others' addresses.
-    for (const recipient of done.recipients) await deliver(recipient, mail);
-  }
 }
 
-async function deliver(to: string, mail: TrialMail): Promise<void> {
-  await sendMail({ to, ...mail });
+/** Queued in the transaction of the change it tells about; its opt-out link is made when it is sent. */
+async function deliver(tx: Transaction, kind: MailKind, to: string, mail: TrialMail, link?: SecretLink): Promise<void> {
+  await queueMail(tx, kind, { to, ...mail }, link);
 }
 
 /**
@@ -518,8 +514,7 @@ export async function listInvitableFarms(member: Member, trialId: string) {
 }
 
 export async function inviteFarms(member: Member, trialId: string, farmIds: string[]): Promise<number> {
-  const outgoing: { to: string; mail: TrialMail }[] = [];
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  return withFarmContext(farmContextOf(member), async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
     if (trial.status !== "open")
       throw new AppError(
@@ -541,16 +536,21 @@ export async function inviteFarms(member: Member, trialId: string, farmIds: stri
       .select({ email: users.email, farmId: users.farmId })
       .from(users)
       .where(and(inArray(users.farmId, farmIds), eq(users.role, "farm_manager"), eq(users.active, true)));
+    let sent = 0;
     for (const enrolment of created) {
       const farm = farmRows.find((row) => row.id === enrolment.farmId)!;
+      const optOut = secretLink({ for: "reminders-opt-out", enrolmentId: enrolment.id });
       const mail = trialInvitationMail({
         trial,
         farmName: farm.name,
         deadline: trial.enrolmentDeadline,
         enrolUrl: `${appUrl()}/trials/${trialId}`,
-        optOutUrl: optOutUrl(enrolment.id),
+        optOutUrl: optOut.slot,
       });
-      for (const manager of managers.filter((row) => row.farmId === farm.id)) outgoing.push({ to: manager.email, mail });
+      for (const manager of managers.filter((row) => row.farmId === farm.id)) {
+        await deliver(tx, "trial-invitation", manager.email, mail, optOut);
+        sent += 1;
+      }
       await recordAudit(tx, {
         ...actor(member),
         action: "trial.farm_invited",
@@ -558,13 +558,8 @@ export async function inviteFarms(member: Member, trialId: string, farmIds: stri
         details: { trialId, farmId: farm.id },
       });
     }
+    return sent;
   });
-  for (const message of outgoing) await deliver(message.to, message.mail);
-  return outgoing.length;
-}
-
-function optOutUrl(enrolmentId: string): string {
-  return `${appUrl()}/unsubscribe/${signOptOutToken(enrolmentId, optOutSecret())}`;
 }
 
 export async function getOwnEnrolment(member: Member, trialId: string) {
@@ -591,7 +586,6 @@ export async function respondToInvitation(
   answer: { accept: boolean; blocksPerArm: number | null },
 ): Promise<void> {
   if (!member.farmId) throw new AppError("forbidden", "Only a farm's manager can answer for the farm.");
-  let confirmation: { to: string; mail: TrialMail } | null = null;
   await withFarmContext(farmContextOf(member), async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
     if (trial.status !== "open") throw new AppError("conflict", `Enrolment is closed: the trial is "${trialStatusLabels[trial.status]}".`);
@@ -648,20 +642,17 @@ export async function respondToInvitation(
       subject: trial.code,
       details: { trialId, blocksPerArm, seed, blocks: list.length },
     });
-    confirmation = {
-      to: member.email,
-      mail: enrolmentConfirmationMail({
-        trial,
-        farmName: member.farmName ?? "Your farm",
-        blocksPerArm,
-        arms: trial.arms.length,
-        listUrl: `${appUrl()}/trials/${trialId}/labels`,
-        optOutUrl: optOutUrl(enrolment.id),
-      }),
-    };
+    const optOut = secretLink({ for: "reminders-opt-out", enrolmentId: enrolment.id });
+    const mail = enrolmentConfirmationMail({
+      trial,
+      farmName: member.farmName ?? "Your farm",
+      blocksPerArm,
+      arms: trial.arms.length,
+      listUrl: `${appUrl()}/trials/${trialId}/labels`,
+      optOutUrl: optOut.slot,
+    });
+    await deliver(tx, "trial-enrolment", member.email, mail, optOut);
   });
-  const done = confirmation as { to: string; mail: TrialMail } | null;
-  if (done) await deliver(done.to, done.mail);
 }
 
 /** The farm's own randomised list; row-level security returns nothing for another farm. */
@@ -801,8 +792,8 @@ export async function sendTrialReminder(member: Member, trialId: string, farmId:
   if (!farm || farm.status !== "accepted") throw new AppError("not_found", "That farm is not taking part in this trial.");
   if (!farm.remindersAllowed) throw new AppError("conflict", `${farm.farmName} has asked not to get reminders about this trial.`);
   if (!farm.behind) throw new AppError("conflict", `${farm.farmName} has nothing due; no reminder sent.`);
-  const managers = await withFarmContext(farmContextOf(member), async (tx) => {
-    const rows = await tx
+  return withFarmContext(farmContextOf(member), async (tx) => {
+    const managers = await tx
       .select({ email: users.email })
       .from(users)
       .where(and(eq(users.farmId, farmId), eq(users.role, "farm_manager"), eq(users.active, true)));
@@ -812,20 +803,20 @@ export async function sendTrialReminder(member: Member, trialId: string, farmId:
       subject: `${trial.code}: ${farm.farmName}`,
       details: { trialId, farmId },
     });
-    return rows;
+    const optOut = secretLink({ for: "reminders-opt-out", enrolmentId: farm.enrolmentId });
+    const mail = trialReminderMail({
+      trial,
+      farmName: farm.farmName,
+      due: farm.due,
+      progressUrl: `${appUrl()}/trials/${trialId}`,
+      optOutUrl: optOut.slot,
+    });
+    for (const manager of managers) await deliver(tx, "trial-reminder", manager.email, mail, optOut);
+    return managers.length;
   });
-  const mail = trialReminderMail({
-    trial,
-    farmName: farm.farmName,
-    due: farm.due,
-    progressUrl: `${appUrl()}/trials/${trialId}`,
-    optOutUrl: optOutUrl(farm.enrolmentId),
-  });
-  for (const manager of managers) await deliver(manager.email, mail);
-  return managers.length;
 }
 
-// ——— Unsubscribe and outgoing mail ———
+// ——— Unsubscribe ———
 
 /** From the public unsubscribe link: returns the trial's code, or null for a link that is not ours. */
 export async function optOutOfReminders(token: string): Promise<string | null> {
@@ -835,21 +826,4 @@ export async function optOutOfReminders(token: string): Promise<string | null> {
     const result = await tx.execute(sql`select app_trial_reminders_opt_out(${enrolmentId}::uuid) as code`);
     return (result.rows[0] as { code: string | null } | undefined)?.code ?? null;
   });
-}
-
-export async function listOutgoingMail(member: Member, limit = 200) {
-  return withFarmContext(farmContextOf(member), (tx) =>
-    tx
-      .select({
-        id: mailMessages.id,
-        receivedAt: mailMessages.receivedAt,
-        recipients: mailMessages.recipients,
-        subject: mailMessages.subject,
-        text: mailMessages.text,
-        html: mailMessages.html,
-      })
-      .from(mailMessages)
-      .orderBy(desc(mailMessages.id))
-      .limit(limit),
-  );
 }

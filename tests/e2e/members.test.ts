@@ -2,6 +2,7 @@ import type { BrowserContext } from "playwright-core";
 import type { Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { superuserPool } from "../integration/support/database";
+import { mailTo } from "../support/mailbox";
 import { appUrl, collectPageErrors, openBrowser, screenshot } from "./support/browser";
 import { AcceptInvitationPage, FarmPeoplePage, MembersPage } from "./support/member-pages";
 import { AppShell, SignInPage } from "./support/pages";
@@ -14,18 +15,12 @@ const managerPassword = "yarrow-hill-spawn-run";
 
 let inspector: Pool;
 
-/** The link in the newest caught e-mail to `to`, as the recipient would click it. */
+/** The link in the newest e-mail to `to` in the local inbox, as the recipient would click it (the app's mail job sends it within seconds). */
 async function linkMailedTo(to: string): Promise<string> {
-  for (let attempt = 0; attempt < 100; attempt += 1) {
-    const { rows } = await inspector.query<{ text: string }>(
-      "select text from mail_messages where $1 = any(recipients) order by id desc limit 1",
-      [to],
-    );
-    const link = rows[0]?.text.match(/https?:\/\/\S+\/accept-invitation\?token=[A-Za-z0-9_-]+/)?.[0];
-    if (link) return link;
-    await new Promise((resolve) => setTimeout(resolve, 100));
-  }
-  throw new Error(`no invitation e-mailed to ${to}`);
+  const mail = await mailTo(to, /invited/, { timeout: 30_000 });
+  const link = mail.text.match(/https?:\/\/\S+\/accept-invitation\?token=[A-Za-z0-9_-]+/)?.[0];
+  if (!link) throw new Error(`no invitation link in the e-mail to ${to}`);
+  return link;
 }
 
 describe("admitting a farm and bringing in its people", () => {

@@ -7,6 +7,7 @@ import { closeDatabase } from "@/db/client";
 import { exportFarmData, withdrawFarmData } from "@/lib/data/data-rights";
 import { refreshPooledStatistics } from "@/lib/data/pooled-refresh";
 import { loadMember, type Member } from "@/lib/data/members";
+import { runQueuedJobs, stopJobWorkers } from "@/lib/jobs/worker";
 import { superuserPool } from "./support/database";
 
 let inspector: Pool;
@@ -62,6 +63,7 @@ async function withdrawalsNoted(): Promise<Record<string, { status: string; note
 
 afterAll(async () => {
   await inspector.end();
+  await stopJobWorkers();
   await closeDatabase();
 });
 
@@ -170,6 +172,13 @@ describe("withdrawing a farm's data", () => {
       otherFarms.rows[0].n,
     );
     if (pooledTable.rowCount) {
+      // The recompute is a job queued with the withdrawal: the farm shows as waiting until it has run.
+      const waiting = await inspector.query<{ waiting: boolean }>(
+        "select requested > completed as waiting from pooled_refresh_state where farm_id = $1",
+        [farmId],
+      );
+      expect(waiting.rows).toEqual([{ waiting: true }]);
+      await runQueuedJobs(["pooled-refresh"]);
       const pooledAfter = await inspector.query<{ n: number }>("select count(*)::int as n from farm_strain_statistics where farm_id = $1", [
         farmId,
       ]);

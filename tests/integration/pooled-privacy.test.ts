@@ -3,7 +3,8 @@ import type { Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase, withAnalystAccess, withFarmContext, type FarmContext } from "@/db/client";
 import { farmFlushStatistics, farmStrainStatistics } from "@/db/schema";
-import { refreshPooledStatistics } from "@/lib/data/pooled-refresh";
+import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
+import { runQueuedJobs, stopJobWorkers } from "@/lib/jobs/worker";
 import { databaseRefusal, superuserPool, twoDemoFarms, type DemoFarm } from "./support/database";
 
 let inspector: Pool;
@@ -19,6 +20,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await inspector.end();
+  await stopJobWorkers();
   await closeDatabase();
 });
 
@@ -81,6 +83,12 @@ describe("per-farm sufficient statistics under row-level security", () => {
 });
 
 describe("the background refresh", () => {
+  /** What a commit does in its transaction, as the farm's manager; then the queued job runs. */
+  async function commitAndRefresh(farmId: string) {
+    await withFarmContext({ userId: null, farmId, role: "farm_manager" }, (tx) => queuePooledRefresh(tx, farmId));
+    await runQueuedJobs(["pooled-refresh"]);
+  }
+
   it("adds a new farm's blocks, and drops the farm once its rows are gone", async () => {
     const {
       rows: [farm],
@@ -100,7 +108,7 @@ describe("the background refresh", () => {
           [farm.id, block.id, 500 + 100 * index],
         );
       }
-      await refreshPooledStatistics(farm.id);
+      await commitAndRefresh(farm.id);
       const { rows: stats } = await inspector.query(
         "select blocks, efficiency_blocks, efficiency_sum, first_harvest_days_sum from farm_strain_statistics where farm_id = $1 and flush_window = 'all'",
         [farm.id],
@@ -111,7 +119,7 @@ describe("the background refresh", () => {
       expect(state).toEqual([{ requested: 1, completed: 1 }]);
 
       await inspector.query("delete from blocks where farm_id = $1", [farm.id]);
-      await refreshPooledStatistics(farm.id);
+      await commitAndRefresh(farm.id);
       const { rows: left } = await inspector.query(
         "select (select count(*)::int from farm_strain_statistics where farm_id = $1) as strains, (select count(*)::int from farm_flush_statistics where farm_id = $1) as flushes",
         [farm.id],

@@ -14,6 +14,7 @@ import {
 } from "@/lib/data/season-logs";
 import { seasonLogTemplateCsv } from "@/lib/import";
 import { isAppError } from "@/lib/errors";
+import { runQueuedJobs, stopJobWorkers } from "@/lib/jobs/worker";
 import type { ParseChoices } from "@/lib/season-logs/report";
 import { superuserPool, twoDemoFarms, type DemoFarm } from "./support/database";
 
@@ -31,6 +32,9 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
+  // The commits queued pooled refreshes; run them, so later files find the figures settled.
+  await runQueuedJobs(["pooled-refresh"]);
+  await stopJobWorkers();
   await inspector.query("drop trigger if exists test_refuse_harvest on harvests");
   await inspector.query("drop function if exists test_refuse_harvest()");
   await inspector.query("drop trigger if exists test_slow_commit on blocks");
@@ -96,7 +100,10 @@ describe("committing a season log", () => {
     expect(view.canCommit).toBe(true);
     expect(view.report.preview.counts).toMatchObject({ newBlocks: 3, newHarvests: 6, changedBlocks: 0, changedHarvests: 0 });
 
-    const { rows: kept } = await inspector.query("select sha256, size_bytes, outcome from uploads where id = $1", [view.upload.id]);
+    const { rows: kept } = await inspector.query<{ sha256: string; size_bytes: number; outcome: string }>(
+      "select sha256, size_bytes, outcome from uploads where id = $1",
+      [view.upload.id],
+    );
     expect(kept[0]).toMatchObject({ outcome: "received" });
     expect(kept[0].sha256).toMatch(/^[0-9a-f]{64}$/);
 
@@ -165,14 +172,17 @@ describe("committing a season log", () => {
     const text = `${header}\r\nIT-D-1,PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,1,2026-04-10,1.500 g,no,\r\n`;
     const view = await upload(asFarmA, text, "decimal.csv", { decimal: "." });
     expect(view.canCommit).toBe(true);
-    const { rows: staged } = await inspector.query("select staged_parse is not null as staged from uploads where id = $1", [
-      view.upload.id,
-    ]);
+    const { rows: staged } = await inspector.query<{ staged: boolean }>(
+      "select staged_parse is not null as staged from uploads where id = $1",
+      [view.upload.id],
+    );
     expect(staged[0].staged).toBe(true);
     // With a decimal comma, "1.500 g" is 1 500 g; the parse kept at upload (decimal point) read 1.5 g.
     await commitUpload(asFarmA, view.upload.id, { decimal: "," });
     expect(await storedHarvests(farmA, "IT-D")).toEqual([{ code: "-1", flush: 1, fresh: "1500" }]);
-    const { rows: kept } = await inspector.query("select staged_parse from uploads where id = $1", [view.upload.id]);
+    const { rows: kept } = await inspector.query<{ staged_parse: unknown }>("select staged_parse from uploads where id = $1", [
+      view.upload.id,
+    ]);
     expect(kept[0].staged_parse).toBeNull();
   });
 
@@ -181,7 +191,7 @@ describe("committing a season log", () => {
     expect(view.report.errorCount).toBeGreaterThan(0);
     expect(view.canCommit).toBe(false);
     expect((await refusal(commitUpload(asFarmA, view.upload.id, {}))).code).toBe("invalid_input");
-    const { rows } = await inspector.query("select count(*)::int as count from blocks where code like 'IT-E-%'");
+    const { rows } = await inspector.query<{ count: number }>("select count(*)::int as count from blocks where code like 'IT-E-%'");
     expect(rows[0].count).toBe(0);
   });
 
@@ -196,11 +206,13 @@ describe("committing a season log", () => {
       const view = await upload(asFarmA, sheet("IT-F", [1, 2, 3], { fresh: (block) => (block === 3 ? 777 : 500) }));
       expect(view.canCommit).toBe(true);
       await expect(commitUpload(asFarmA, view.upload.id, {})).rejects.toThrow();
-      const { rows: blocks } = await inspector.query("select count(*)::int as count from blocks where code like 'IT-F-%'");
+      const { rows: blocks } = await inspector.query<{ count: number }>(
+        "select count(*)::int as count from blocks where code like 'IT-F-%'",
+      );
       expect(blocks[0].count).toBe(0);
       const { rows: kept } = await inspector.query("select outcome, committed_at from uploads where id = $1", [view.upload.id]);
       expect(kept[0]).toEqual({ outcome: "received", committed_at: null });
-      const { rows: audit } = await inspector.query(
+      const { rows: audit } = await inspector.query<{ count: number }>(
         "select count(*)::int as count from audit_events where action = 'season-log.committed' and details->>'uploadId' = $1",
         [view.upload.id],
       );

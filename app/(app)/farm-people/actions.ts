@@ -3,7 +3,7 @@
 import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { guardedAction } from "@/lib/auth/guard";
-import { deactivatePerson, inviteMember, transferManagerRole } from "@/lib/data/members";
+import { cancelInvitation, deactivatePerson, inviteMember, resendInvitation, transferManagerRole } from "@/lib/data/members";
 
 const inviteGrowerSchema = z.object({
   email: z.string().trim().toLowerCase().pipe(z.email("Enter an e-mail address such as name@farm.example.")),
@@ -13,6 +13,20 @@ export const inviteGrowerAction = guardedAction("farm-staff:manage", inviteGrowe
   await inviteMember(member, { email: input.email, role: "grower", farmId: member.farmId });
   revalidatePath("/farm-people");
   return { status: "ok", message: `Invitation sent to ${input.email}. The link works once, for 7 days.` };
+});
+
+const invitationSchema = z.object({ invitationId: z.uuid("Choose an open invitation.") });
+
+export const resendGrowerInvitationAction = guardedAction("farm-staff:manage", invitationSchema, async (input, member) => {
+  await resendInvitation(member, input.invitationId);
+  revalidatePath("/farm-people");
+  return { status: "ok", message: "Sent again with a new link, good for 7 days; the earlier link no longer works." };
+});
+
+export const cancelGrowerInvitationAction = guardedAction("farm-staff:manage", invitationSchema, async (input, member) => {
+  await cancelInvitation(member, input.invitationId);
+  revalidatePath("/farm-people");
+  return { status: "ok", message: "Invitation cancelled: its link no longer works." };
 });
 
 const personSchema = z.object({ userId: z.uuid("Choose a person of your farm.") });

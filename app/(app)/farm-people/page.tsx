@@ -6,7 +6,13 @@ import { requirePage } from "@/lib/auth/guard";
 import { roleLabels } from "@/lib/auth/permissions";
 import { listFarmPeople } from "@/lib/data/members";
 import { ActionForm } from "../members/_components/action-form";
-import { inviteGrowerAction, removeGrowerAction, transferManagerAction } from "./actions";
+import {
+  cancelGrowerInvitationAction,
+  inviteGrowerAction,
+  removeGrowerAction,
+  resendGrowerInvitationAction,
+  transferManagerAction,
+} from "./actions";
 import { OpenInvitations } from "../members/_components/open-invitations";
 
 export const metadata: Metadata = { title: "Farm people" };
@@ -89,7 +95,11 @@ export default async function FarmPeoplePage() {
         ))}
       </ul>
 
-      <OpenInvitations invitations={invitations.map((invitation) => ({ ...invitation, details: "" }))} />
+      <OpenInvitations
+        invitations={invitations.map((invitation) => ({ ...invitation, details: "" }))}
+        resendAction={resendGrowerInvitationAction}
+        cancelAction={cancelGrowerInvitationAction}
+      />
     </>
   );
 }

@@ -4,7 +4,15 @@ import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { guardedAction } from "@/lib/auth/guard";
 import { memberRoles } from "@/lib/auth/permissions";
-import { admitFarm, changeRole, deactivatePerson, inviteMember, setFarmStatus } from "@/lib/data/members";
+import {
+  admitFarm,
+  cancelInvitation,
+  changeRole,
+  deactivatePerson,
+  inviteMember,
+  resendInvitation,
+  setFarmStatus,
+} from "@/lib/data/members";
 
 const email = z.string().trim().toLowerCase().pipe(z.email("Enter an e-mail address such as name@farm.example."));
 
@@ -30,6 +38,20 @@ export const inviteMemberAction = guardedAction("members:manage", inviteSchema, 
   await inviteMember(member, input);
   revalidatePath("/members");
   return { status: "ok", message: `Invitation sent to ${input.email}. The link works for 7 days.` };
+});
+
+const invitationSchema = z.object({ invitationId: z.uuid("Choose an open invitation.") });
+
+export const resendInvitationAction = guardedAction("members:manage", invitationSchema, async (input, member) => {
+  await resendInvitation(member, input.invitationId);
+  revalidatePath("/members");
+  return { status: "ok", message: "Sent again with a new link, good for 7 days; the earlier link no longer works." };
+});
+
+export const cancelInvitationAction = guardedAction("members:manage", invitationSchema, async (input, member) => {
+  await cancelInvitation(member, input.invitationId);
+  revalidatePath("/members");
+  return { status: "ok", message: "Invitation cancelled: its link no longer works." };
 });
 
 const farmStatusSchema = z.object({ farmId: z.uuid(), status: z.enum(["active", "suspended", "removed"]) });

@@ -5,7 +5,15 @@ import { requirePage } from "@/lib/auth/guard";
 import { roleLabels } from "@/lib/auth/permissions";
 import { listMembership } from "@/lib/data/members";
 import { invitableRoles } from "@/lib/members/roles";
-import { admitFarmAction, changeRoleAction, deactivatePersonAction, inviteMemberAction, setFarmStatusAction } from "./actions";
+import {
+  admitFarmAction,
+  cancelInvitationAction,
+  changeRoleAction,
+  deactivatePersonAction,
+  inviteMemberAction,
+  resendInvitationAction,
+  setFarmStatusAction,
+} from "./actions";
 import { ActionForm } from "./_components/action-form";
 import { OpenInvitations } from "./_components/open-invitations";
 
@@ -197,6 +205,8 @@ export default async function MembersPage() {
             .filter(Boolean)
             .join(" · "),
         }))}
+        resendAction={resendInvitationAction}
+        cancelAction={cancelInvitationAction}
       />
     </>
   );
