@@ -40,6 +40,15 @@ export const jobs = {
     backoff: true,
     expireInSeconds: 120,
   },
+  "pooled-release": {
+    does: "cut a release of the pooled figures if the co-op's schedule says one is due",
+    payload: z.object({}),
+    retryLimit: 3,
+    retryDelaySeconds: 60,
+    backoff: true,
+    // Cutting copies every farm's statistics: about a second for 50 farms.
+    expireInSeconds: 300,
+  },
   "password-reset": {
     does: "look up a reset request's address and, for an active member, queue the reset e-mail",
     payload: z.object({ email: z.string().max(320), ip: z.string().max(100).nullable() }),
@@ -71,4 +80,8 @@ export type ScheduledJob = {
   [Name in JobName]: { job: Name; payload: JobPayload<Name>; when: (settings: CooperativeSettings) => JobSchedule | null };
 }[JobName];
 
-export const scheduledJobs: ScheduledJob[] = [];
+export const scheduledJobs: ScheduledJob[] = [
+  // Every ten minutes, not at the co-op's hour itself: cutReleaseIfDue tries each slot of the
+  // schedule once, so a slot that fell while no app process was up is tried when one is.
+  { job: "pooled-release", payload: {}, when: (settings) => (settings.releaseSchedule === "manual" ? null : { cron: "*/10 * * * *" }) },
+];

@@ -2,6 +2,7 @@ import "server-only";
 import { sendQueuedMail, type Attempt } from "@/lib/data/mail";
 import { issuePasswordReset } from "@/lib/data/members";
 import { refreshPooledStatistics } from "@/lib/data/pooled-refresh";
+import { cutReleaseIfDue } from "@/lib/data/pooled-releases";
 import type { JobName, JobPayload } from "./definitions";
 
 /** Which attempt this is: the first has retryCount 0, and no retry follows the one where it equals retryLimit. */
@@ -18,5 +19,8 @@ export type JobHandler<Name extends JobName> = (payload: JobPayload<Name>, attem
 export const jobHandlers: { [Name in JobName]: JobHandler<Name> } = {
   "pooled-refresh": ({ farmId }) => refreshPooledStatistics(farmId, { onlyIfPending: true }),
   "send-mail": (mail, attempt) => sendQueuedMail(mail, attempt),
+  "pooled-release": async () => {
+    await cutReleaseIfDue();
+  },
   "password-reset": (request) => issuePasswordReset(request),
 };

@@ -306,10 +306,25 @@ describe("jobs scheduled from a co-op setting", () => {
       // A schedule no job declares (a job since removed) is dropped too.
       await inspector.query("update cooperative_settings set minimum_farms = 4");
       await syncSchedules(otherProcess, settingDriven);
-      await syncSchedules(otherProcess);
+      await syncSchedules(otherProcess, []);
       expect(await schedules()).toEqual([]);
     } finally {
       await inspector.query("update cooperative_settings set minimum_farms = $1", [minimum]);
+    }
+  });
+
+  it("try to cut a release every ten minutes unless the co-op publishes releases by hand", async () => {
+    const { rows } = await inspector.query<{ schedule: string }>("select release_schedule as schedule from cooperative_settings");
+    try {
+      await inspector.query("update cooperative_settings set release_schedule = 'daily'");
+      await syncSchedules(otherProcess!);
+      expect(await schedules()).toEqual([{ name: "pooled-release", cron: "*/10 * * * *", timezone: "UTC" }]);
+      await inspector.query("update cooperative_settings set release_schedule = 'manual'");
+      await syncSchedules(otherProcess!);
+      expect(await schedules()).toEqual([]);
+    } finally {
+      await inspector.query("update cooperative_settings set release_schedule = $1", [rows[0].schedule]);
+      await syncSchedules(otherProcess!, []);
     }
   });
 });
