@@ -1,16 +1,17 @@
 import { describe, expect, it } from "vitest";
-import { CsvTokenizer, type Delimiter, sniffDecimal, sniffDelimiter, sampleRows } from "./csv";
+import { createTokeniser, tokenise } from "./csv";
+import { type Delimiter, sampleRows, sniffDecimal, sniffDelimiter } from "./sniff";
 
 function rows(text: string, delimiter: Delimiter = ",", chunk = text.length || 1): [number, string[]][] {
   const found: [number, string[]][] = [];
-  const tokenizer = new CsvTokenizer(delimiter);
+  const state = createTokeniser(delimiter);
   for (let offset = 0; offset < text.length; offset += chunk)
-    tokenizer.push(text.slice(offset, offset + chunk), false, (cells, line) => found.push([line, cells]));
-  tokenizer.push("", true, (cells, line) => found.push([line, cells]));
+    tokenise(state, text.slice(offset, offset + chunk), false, (cells, line) => found.push([line, cells]));
+  tokenise(state, "", true, (cells, line) => found.push([line, cells]));
   return found;
 }
 
-describe("CsvTokenizer", () => {
+describe("tokenise", () => {
   const text = 'a,b\r\n"x\r\ny","say ""hi"""\r\n\r\nlast,"q"\rend,1';
   const expected: [number, string[]][] = [
     [1, ["a", "b"]],
@@ -29,14 +30,14 @@ describe("CsvTokenizer", () => {
   });
 
   it("reports a quote that is never closed", () => {
-    const tokenizer = new CsvTokenizer(",");
+    const state = createTokeniser(",");
     const found: string[][] = [];
-    tokenizer.push('a,b\n1,"open\n2,3\n', true, (cells) => found.push(cells));
+    tokenise(state, 'a,b\n1,"open\n2,3\n', true, (cells) => found.push(cells));
     expect(found).toEqual([
       ["a", "b"],
       ["1", "open\n2,3\n"],
     ]);
-    expect(tokenizer.unclosedQuoteLine).toBe(2);
+    expect(state.unclosedQuoteLine).toBe(2);
   });
 });
 

@@ -37,7 +37,9 @@ describe("buildReport", () => {
 
 describe("reportCsv", () => {
   it("keeps a value that looks like a formula from running in a spreadsheet", () => {
-    const csv = reportCsv([{ line: 4, severity: "error", column: "notes", value: '=HYPERLINK("x")', message: "Line 4: bad" }]);
+    const csv = reportCsv([
+      { line: 4, code: "cell_too_long", severity: "error", column: "notes", value: '=HYPERLINK("x")', message: "Line 4: bad" },
+    ]);
     expect(csv.split("\r\n")[0]).toBe("Line,Severity,Column,Value,Message");
     expect(csv).toContain("'=HYPERLINK");
   });

@@ -1,0 +1,315 @@
+import { drySubstrateGrams, formatMass } from "../units";
+import { type IssueCode, cellIssue, shorten } from "./issues";
+import { flushWeightColumn, harvestDateColumn } from "./layout";
+import type { SeasonLogColumnName } from "./schema";
+import type { ParseState } from "./state";
+import { type SeasonRecord, absentColumn } from "./types";
+
+const moistureTolerance = 0.0005;
+const massTolerance = 0.005;
+/** Above this, fresh weight over dry substrate (biological efficiency) is implausible for sawdust blocks. */
+const highestPlausibleEfficiency = 2.5;
+
+type BlockAttribute =
+  | "substrate"
+  | "trialCode"
+  | "arm"
+  | "inoculatedOn"
+  | "wetBlockGrams"
+  | "moisture"
+  | "fruitingMethod"
+  | "contaminatedOn"
+  | "spentGrams"
+  | "strainCode";
+
+/** Position of each block attribute in `BlockState.source`. */
+export const slot: Readonly<Record<BlockAttribute, number>> = {
+  strainCode: 0,
+  substrate: 1,
+  trialCode: 2,
+  arm: 3,
+  inoculatedOn: 4,
+  wetBlockGrams: 5,
+  moisture: 6,
+  fruitingMethod: 7,
+  contaminatedOn: 8,
+  spentGrams: 9,
+};
+
+/** What the file says about one block so far, across its rows. */
+export interface BlockState {
+  /** The code as first written; rows of the block share this one string. */
+  code: string;
+  firstLine: number;
+  /** Index of the first record that gave each block attribute a value (by `slot`), or -1. */
+  source: number[];
+  /** The first yes/no written in the contaminated column, and its line. */
+  contaminated: boolean | null;
+  contaminatedLine: number;
+  /** Flush number and line of each harvest, in pairs: [flush, line, flush, line …]. */
+  harvests: readonly number[];
+  freshGrams: number;
+}
+
+// Block states are many in a large file: arrays made whole (not grown by push) hold no spare room.
+const noHarvests: readonly number[] = [];
+
+interface BlockAttributeRule {
+  field: BlockAttribute;
+  slot: number;
+  column: SeasonLogColumnName;
+  words: string;
+  same: (a: SeasonRecord, b: SeasonRecord) => boolean;
+  shown: (record: SeasonRecord) => string;
+}
+
+const sameText = (field: BlockAttribute) => (a: SeasonRecord, b: SeasonRecord) => a[field] === b[field];
+const sameMass = (field: "wetBlockGrams" | "spentGrams") => (a: SeasonRecord, b: SeasonRecord) =>
+  Math.abs((a[field] as number) - (b[field] as number)) <= massTolerance * Math.max(a[field] as number, b[field] as number);
+const shownText = (field: BlockAttribute) => (record: SeasonRecord) => String(record[field]);
+const shownMass = (written: "wetBlockAsWritten" | "spentAsWritten") => (record: SeasonRecord) => record[written]?.value ?? "";
+
+function rule(
+  field: BlockAttribute,
+  column: SeasonLogColumnName,
+  words: string,
+  same = sameText(field),
+  shown = shownText(field),
+): BlockAttributeRule {
+  return { field, slot: slot[field], column, words, same, shown };
+}
+
+// Block columns compared between rows while reading; the dates wait for the file's date order.
+const rowBlockAttributes: readonly BlockAttributeRule[] = [
+  rule("strainCode", "strain", "strain"),
+  rule("substrate", "substrate", "substrate"),
+  rule("trialCode", "trial", "trial"),
+  rule("arm", "arm", "trial arm"),
+  rule("wetBlockGrams", "block_wet_weight", "wet block weight", sameMass("wetBlockGrams"), shownMass("wetBlockAsWritten")),
+  rule(
+    "moisture",
+    "substrate_moisture",
+    "substrate moisture",
+    (a, b) => Math.abs((a.moisture as number) - (b.moisture as number)) <= moistureTolerance,
+    (record) => `${Math.round((record.moisture as number) * 1000) / 10} %`,
+  ),
+  rule("fruitingMethod", "fruiting_method", "fruiting method"),
+  rule("spentGrams", "spent_weight", "spent block weight", sameMass("spentGrams"), shownMass("spentAsWritten")),
+];
+const dateBlockAttributes: readonly BlockAttributeRule[] = [
+  rule("inoculatedOn", "inoculated_on", "inoculation date"),
+  rule("contaminatedOn", "contaminated_on", "contamination date"),
+];
+
+/** The block a row belongs to, made the first time its code is seen. */
+export function blockOf(state: ParseState, written: string, line: number, own: (text: string) => string): BlockState {
+  let block = state.blocks.get(written);
+  if (block === undefined) {
+    const code = own(written);
+    block = {
+      code,
+      firstLine: line,
+      source: [-1, -1, -1, -1, -1, -1, -1, -1, -1, -1],
+      contaminated: null,
+      contaminatedLine: 0,
+      harvests: noHarvests,
+      freshGrams: 0,
+    };
+    state.blocks.set(code, block);
+  }
+  return block;
+}
+
+function blockIssue(state: ParseState, record: SeasonRecord, name: SeasonLogColumnName, code: IssueCode, value: string, what: string) {
+  cellIssue(state.issues, record.line, state.layout.columns[name], code, value, "error", what);
+}
+
+function disagreement(state: ParseState, rule: BlockAttributeRule, record: SeasonRecord, earlier: SeasonRecord): void {
+  const value = rule.shown(record);
+  blockIssue(
+    state,
+    record,
+    rule.column,
+    "block_details_disagree",
+    value,
+    `block ${record.blockCode} has ${rule.words} "${shorten(value)}" here but "${shorten(rule.shown(earlier))}" on line ${earlier.line}. A block's details must be the same on every row: correct one of them.`,
+  );
+}
+
+/** Stage 5, while reading: a harvest of the block. The same flush twice is an error. */
+export function addFlush(state: ParseState, block: BlockState, record: SeasonRecord, flush: number, line: number): void {
+  let earlier = -1;
+  for (let index = 0; index < block.harvests.length; index += 2) if (block.harvests[index] === flush) earlier = block.harvests[index + 1];
+  if (earlier !== -1) {
+    cellIssue(
+      state.issues,
+      line,
+      flushWeightColumn(state.layout, flush, "flush"),
+      "duplicate_flush",
+      String(flush),
+      "error",
+      `block ${record.blockCode} has flush ${flush} twice: on line ${earlier} and here. Delete the duplicate row, or correct the flush number.`,
+    );
+  } else {
+    block.harvests = [...block.harvests, flush, line];
+  }
+  if (record.freshGrams !== null) block.freshGrams += record.freshGrams;
+}
+
+/**
+ * Stage 5, while reading: compares the block columns of a row with the block's earlier rows.
+ * The first row that gives a column its value becomes the block's source for that column.
+ */
+export function compareBlock(
+  state: ParseState,
+  block: BlockState,
+  recordIndex: number,
+  line: number,
+  contaminated: boolean | null,
+  contaminatedWritten: string,
+): void {
+  const record = state.records[recordIndex];
+  for (const rule of rowBlockAttributes) {
+    if (record[rule.field] === null || (rule.field === "strainCode" && record.strainCode === "")) continue;
+    const source = block.source[rule.slot];
+    if (source === -1) {
+      block.source[rule.slot] = recordIndex;
+      continue;
+    }
+    const earlier = state.records[source];
+    if (!rule.same(earlier, record)) disagreement(state, rule, record, earlier);
+  }
+  if (contaminated !== null) {
+    if (block.contaminated === null) {
+      block.contaminated = contaminated;
+      block.contaminatedLine = line;
+    } else if (block.contaminated !== contaminated) {
+      blockIssue(
+        state,
+        record,
+        "contaminated",
+        "contamination_disagrees",
+        contaminatedWritten,
+        `block ${record.blockCode} is marked ${contaminated ? "contaminated" : "not contaminated"} here but ${block.contaminated ? "contaminated" : "not contaminated"} on line ${block.contaminatedLine}. A block's details must be the same on every row: correct one of them.`,
+      );
+    }
+  }
+  for (const rule of dateBlockAttributes) {
+    if (record[rule.field] !== null && block.source[rule.slot] === -1) block.source[rule.slot] = recordIndex;
+  }
+}
+
+/**
+ * Stage 5, at the end of the file (dates resolved): compares the block's dates between rows,
+ * fills the record's blank block columns from the block's other rows, and checks the harvest
+ * against the inoculation and the contamination date against the contaminated column.
+ */
+export function blockAtFinish(state: ParseState, block: BlockState, record: SeasonRecord, index: number): void {
+  const records = state.records;
+  for (const rule of dateBlockAttributes) {
+    const source = block.source[rule.slot];
+    if (record[rule.field] === null || source === -1 || source === index) continue;
+    const earlier = records[source];
+    if (earlier[rule.field] !== null && earlier.line !== record.line && !rule.same(earlier, record))
+      disagreement(state, rule, record, earlier);
+  }
+  const source = block.source;
+  if (record.substrate === null && source[slot.substrate] !== -1) record.substrate = records[source[slot.substrate]].substrate;
+  if (record.trialCode === null && source[slot.trialCode] !== -1) record.trialCode = records[source[slot.trialCode]].trialCode;
+  if (record.arm === null && source[slot.arm] !== -1) record.arm = records[source[slot.arm]].arm;
+  if (record.inoculatedOn === null && source[slot.inoculatedOn] !== -1)
+    record.inoculatedOn = records[source[slot.inoculatedOn]].inoculatedOn;
+  if (record.wetBlockGrams === null && source[slot.wetBlockGrams] !== -1) {
+    record.wetBlockGrams = records[source[slot.wetBlockGrams]].wetBlockGrams;
+    record.wetBlockAsWritten = records[source[slot.wetBlockGrams]].wetBlockAsWritten;
+  }
+  if (record.moisture === null && source[slot.moisture] !== -1) record.moisture = records[source[slot.moisture]].moisture;
+  if (record.fruitingMethod === null && source[slot.fruitingMethod] !== -1)
+    record.fruitingMethod = records[source[slot.fruitingMethod]].fruitingMethod;
+  if (record.contaminatedOn === null && source[slot.contaminatedOn] !== -1)
+    record.contaminatedOn = records[source[slot.contaminatedOn]].contaminatedOn;
+  if (record.spentGrams === null && source[slot.spentGrams] !== -1) {
+    record.spentGrams = records[source[slot.spentGrams]].spentGrams;
+    record.spentAsWritten = records[source[slot.spentGrams]].spentAsWritten;
+  }
+  record.contaminated = block.contaminated ?? record.contaminatedOn !== null;
+  if (record.harvestedOn !== null && record.inoculatedOn !== null && record.harvestedOn < record.inoculatedOn) {
+    cellIssue(
+      state.issues,
+      record.line,
+      harvestDateColumn(state.layout, record.flush),
+      "harvest_before_inoculation",
+      record.harvestedOn,
+      "error",
+      `flush ${record.flush} of block ${record.blockCode} was harvested on ${record.harvestedOn}, before the block was inoculated (${record.inoculatedOn}). Correct the harvest date or the inoculation date.`,
+    );
+  }
+  if (block.contaminated === false && record.contaminatedOn !== null && block.source[slot.contaminatedOn] === index) {
+    cellIssue(
+      state.issues,
+      record.line,
+      state.layout.columns.contaminated_on,
+      "contamination_date_not_contaminated",
+      record.contaminatedOn,
+      "warning",
+      `block ${record.blockCode} has a contamination date (${record.contaminatedOn}) but is marked not contaminated on line ${block.contaminatedLine}. Mark it contaminated, or clear the date.`,
+    );
+  }
+}
+
+/** Stage 5, at the end of the file: a flush heavier than the whole wet block. */
+export function flushHeavierThanBlock(state: ParseState, record: SeasonRecord): void {
+  if (record.flush !== null && record.freshGrams !== null && record.wetBlockGrams !== null && record.freshGrams > record.wetBlockGrams) {
+    const wetColumn = state.layout.columns.block_wet_weight;
+    cellIssue(
+      state.issues,
+      record.line,
+      flushWeightColumn(state.layout, record.flush, "fresh_weight"),
+      "flush_heavier_than_block",
+      record.freshAsWritten?.value ?? "",
+      "warning",
+      `flush ${record.flush} of block ${record.blockCode} weighs ${formatMass(record.freshGrams, "metric")}, more than the whole wet block (${formatMass(record.wetBlockGrams, "metric")}${wetColumn.index === -1 ? "" : `, column "${wetColumn.header}"`}). Check the weight and its unit.`,
+    );
+  }
+}
+
+/** Stage 5, at the end of the file: gaps in the block's flush numbers, and its biological efficiency. */
+export function blockTotals(state: ParseState, code: string, block: BlockState): void {
+  const flushes = block.harvests.filter((_, index) => index % 2 === 0);
+  if (flushes.length > 0) {
+    const largest = Math.max(...flushes);
+    const missing: number[] = [];
+    for (let flush = 1; flush < largest; flush++) if (!flushes.includes(flush)) missing.push(flush);
+    if (missing.length > 0) {
+      const after = Math.min(...flushes.filter((flush) => flush > missing[0]));
+      const line = block.harvests[block.harvests.indexOf(after) + 1];
+      const recorded = [...flushes].sort((a, b) => a - b).join(", ");
+      cellIssue(
+        state.issues,
+        line,
+        flushWeightColumn(state.layout, after, "flush"),
+        "flush_gap",
+        String(after),
+        "warning",
+        `block ${code} has flushes ${recorded} but no flush ${missing.join(", ")}. Add the missing flush, or renumber the flushes.`,
+      );
+    }
+  }
+  const wetSource = block.source[slot.wetBlockGrams];
+  const moistureSource = block.source[slot.moisture];
+  if (wetSource === -1 || moistureSource === -1 || block.freshGrams === 0) return;
+  const dryGrams = drySubstrateGrams(state.records[wetSource].wetBlockGrams as number, state.records[moistureSource].moisture as number);
+  if (dryGrams <= 0 || block.freshGrams <= highestPlausibleEfficiency * dryGrams) return;
+  const efficiency = Math.round((block.freshGrams / dryGrams) * 100);
+  const layout = state.layout;
+  const column = layout.format === "wide" ? (layout.wide[0]?.weight ?? absentColumn) : layout.columns.fresh_weight;
+  cellIssue(
+    state.issues,
+    block.firstLine,
+    column,
+    "efficiency_implausible",
+    formatMass(block.freshGrams, "metric"),
+    "warning",
+    `block ${code} gave ${formatMass(block.freshGrams, "metric")} fresh in all from ${formatMass(dryGrams, "metric")} of dry substrate: a biological efficiency of ${efficiency} %, above the 250 % that blocks plausibly reach. Check this block's weights, their units and its moisture.`,
+  );
+}

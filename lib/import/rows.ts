@@ -1,0 +1,366 @@
+import { parseMoisture, parseYesNo, readMass } from "../units";
+import { addFlush, blockOf, compareBlock } from "./blocks";
+import { readDate } from "./dates";
+import { cellIssue, report, shorten } from "./issues";
+import { type MassValue, type ParseState, type RowValues, pendingBits } from "./state";
+import type { ColumnPlan, SeasonRecord } from "./types";
+
+const longestCell = 10_000;
+const mostInternedTexts = 20_000;
+const mostCachedDates = 50_000;
+const flushNumber = /^(?:flush|fl|f|#)?\s*(\d{1,3})(?:\.0+)?(?:st|nd|rd|th)?$/i;
+
+/**
+ * A record as the parser makes it. A class rather than an object literal: in CPU profiles the
+ * 22-field literal was the parser's most expensive line, and the constructor is not. Its
+ * fields are SeasonRecord's, by declaration merging, so they are listed once.
+ */
+// eslint-disable-next-line @typescript-eslint/no-empty-object-type, @typescript-eslint/no-unsafe-declaration-merging -- the merge is the point: the fields are listed once, in SeasonRecord
+interface ParsedRecord extends SeasonRecord {}
+// eslint-disable-next-line @typescript-eslint/no-unsafe-declaration-merging -- as above
+class ParsedRecord {
+  constructor(row: RowValues, flush: number | null, harvestedOn: string | null, fresh: MassValue, dry: MassValue) {
+    this.line = row.line;
+    this.blockCode = row.blockCode;
+    this.strainCode = row.strainCode;
+    this.substrate = row.substrate;
+    this.trialCode = row.trialCode;
+    this.arm = row.arm;
+    this.inoculatedOn = row.inoculatedOn;
+    this.wetBlockGrams = row.wet === null ? null : row.wet.grams;
+    this.wetBlockAsWritten = row.wet === null ? null : row.wet.written;
+    this.moisture = row.moisture;
+    this.fruitingMethod = row.fruitingMethod;
+    this.flush = flush;
+    this.harvestedOn = harvestedOn;
+    this.freshGrams = fresh === null ? null : fresh.grams;
+    this.freshAsWritten = fresh === null ? null : fresh.written;
+    this.dryGrams = dry === null ? null : dry.grams;
+    this.dryAsWritten = dry === null ? null : dry.written;
+    this.contaminated = row.contaminated === true;
+    this.contaminatedOn = row.contaminatedOn;
+    this.spentGrams = row.spent === null ? null : row.spent.grams;
+    this.spentAsWritten = row.spent === null ? null : row.spent.written;
+    this.notes = row.notes;
+  }
+}
+
+// V8 keeps a substring of 13 or more characters as a view of the text it was cut from, so
+// one note kept from each chunk would keep the whole file in memory; a copy lets the chunk go.
+export function ownCopy(text: string): string {
+  return text.length < 13 ? text : (JSON.parse(JSON.stringify(text)) as string);
+}
+
+function cell(cells: readonly string[], index: number): string {
+  return index < 0 || index >= cells.length ? "" : cells[index].trim();
+}
+
+function intern(state: ParseState, text: string): string {
+  const interned = state.caches.interned;
+  const known = interned.get(text);
+  if (known !== undefined) return known;
+  const copy = ownCopy(text);
+  if (interned.size < mostInternedTexts) interned.set(copy, copy);
+  return copy;
+}
+
+function mass(state: ParseState, cells: readonly string[], column: ColumnPlan, line: number): MassValue {
+  const text = cell(cells, column.index);
+  if (text === "") return null;
+  let masses = state.caches.masses.get(column.index);
+  if (masses === undefined) {
+    masses = new Map();
+    state.caches.masses.set(column.index, masses);
+  }
+  const known = masses.get(text);
+  if (known !== undefined) return known;
+  const reading = readMass(text, { defaultUnit: column.unit, decimal: state.decimal });
+  if ("error" in reading) {
+    cellIssue(state.issues, line, column, reading.code, text, "error", reading.error);
+    return null;
+  }
+  const value = ownCopy(text);
+  const read = { grams: reading.grams, written: { value, unit: reading.unit } };
+  if (masses.size < mostInternedTexts) masses.set(value, read);
+  return read;
+}
+
+/** A date as "YYYY-MM-DD", or the text itself when it waits for the file's date order (flagged for the row). */
+function date(state: ParseState, cells: readonly string[], column: ColumnPlan, line: number, bit: number): string | null {
+  const text = cell(cells, column.index);
+  if (text === "") return null;
+  const dates = state.caches.dates;
+  let reading = dates.get(text);
+  if (reading === undefined) {
+    reading = readDate(text);
+    if (reading.kind !== "date" && reading.kind !== "error") dates.set(ownCopy(text), reading);
+    else if (dates.size < mostCachedDates) dates.set(ownCopy(text), reading);
+  }
+  const evidence = state.dateEvidence;
+  switch (reading.kind) {
+    case "date":
+      return reading.iso;
+    case "error":
+      cellIssue(state.issues, line, column, reading.code, text, "error", reading.error);
+      return null;
+    case "either":
+      evidence.firstEither ??= { line, column: column.header, value: text };
+      break;
+    case "dmy-only":
+      evidence.dayFirstOnly++;
+      evidence.firstDayFirst ??= { line, column: column.header, value: text };
+      break;
+    case "mdy-only":
+      evidence.monthFirstOnly++;
+      evidence.firstMonthFirst ??= { line, column: column.header, value: text };
+      break;
+  }
+  state.rowPendingDates |= bit;
+  return ownCopy(text);
+}
+
+function optionalText(state: ParseState, cells: readonly string[], column: ColumnPlan): string | null {
+  const text = cell(cells, column.index);
+  return text === "" ? null : intern(state, text);
+}
+
+function strain(state: ParseState, text: string, line: number, column: ColumnPlan): string {
+  const register = state.strains;
+  if (register === null) return intern(state, text);
+  const checks = state.caches.strainChecks;
+  let known = checks.get(text);
+  if (known === undefined) {
+    known = register.find(text);
+    if (checks.size < mostInternedTexts) checks.set(text, known);
+  }
+  if (known !== null) return known;
+  const nearest = register.nearest(text);
+  const hint = nearest === null ? "Check the code against the co-op's strain list" : `Did you mean "${nearest}"? Correct the code`;
+  cellIssue(
+    state.issues,
+    line,
+    column,
+    "unknown_strain",
+    text,
+    "error",
+    `"${shorten(text)}" is not a strain code of the co-op. ${hint}, or ask the coordinator to add the strain to the register.`,
+  );
+  return intern(state, text);
+}
+
+function moisture(state: ParseState, cells: readonly string[], line: number): number | null {
+  const column = state.layout.columns.substrate_moisture;
+  const text = cell(cells, column.index);
+  if (text === "") return null;
+  const moistures = state.caches.moistures;
+  let reading = moistures.get(text);
+  if (reading === undefined) {
+    reading = parseMoisture(text, { decimal: state.decimal });
+    if (moistures.size < mostInternedTexts) moistures.set(text, reading);
+  }
+  if ("error" in reading) {
+    cellIssue(state.issues, line, column, reading.code, text, "error", reading.error);
+    return null;
+  }
+  return reading.fraction;
+}
+
+function addRecord(
+  state: ParseState,
+  flush: number | null,
+  harvestedOn: string | null,
+  fresh: MassValue,
+  dry: MassValue,
+  harvestPendingDates: number,
+): void {
+  const row = state.row;
+  const record = new ParsedRecord(row, flush, harvestedOn, fresh, dry);
+  const index = state.records.length;
+  state.records.push(record);
+  const pending = row.pendingDates | harvestPendingDates;
+  if (pending !== 0) {
+    if (index >= state.pendingDates.length) {
+      const grown = new Uint8Array(state.pendingDates.length * 2);
+      grown.set(state.pendingDates);
+      state.pendingDates = grown;
+    }
+    state.pendingDates[index] = pending;
+  }
+  if (row.block !== null && flush !== null) addFlush(state, row.block, record, flush, row.line);
+}
+
+function harvestRow(state: ParseState, cells: readonly string[], line: number): void {
+  const columns = state.layout.columns;
+  const flushColumn = columns.flush;
+  const freshColumn = columns.fresh_weight;
+  const flushText = cell(cells, flushColumn.index);
+  const freshText = cell(cells, freshColumn.index);
+  state.rowPendingDates = 0;
+  const harvestedOn = date(state, cells, columns.harvested_on, line, pendingBits.harvested);
+  const harvestPendingDates = state.rowPendingDates;
+  const dry = mass(state, cells, columns.dry_weight, line);
+  if (flushText === "" && freshText === "") {
+    if (harvestedOn !== null || dry !== null) {
+      const column = harvestedOn !== null ? columns.harvested_on : columns.dry_weight;
+      const value = cell(cells, column.index);
+      cellIssue(
+        state.issues,
+        line,
+        column,
+        "harvest_cell_without_harvest",
+        value,
+        "error",
+        `"${shorten(value)}" belongs to a harvest, but the row has no flush number and no fresh weight. Fill in the flush and the fresh weight, or clear this cell if the row is only the block.`,
+      );
+    }
+    addRecord(state, null, null, null, null, 0);
+    return;
+  }
+  let flush: number | null = null;
+  if (flushText === "") {
+    cellIssue(
+      state.issues,
+      line,
+      flushColumn,
+      "flush_missing",
+      "",
+      "error",
+      `the flush number is missing, but the row has a fresh weight ("${shorten(freshText)}"). Write which flush this is (1, 2, 3 …), or clear the weight if the row is only the block.`,
+    );
+  } else {
+    const match = flushNumber.exec(flushText);
+    if (match === null || Number(match[1]) < 1) {
+      cellIssue(
+        state.issues,
+        line,
+        flushColumn,
+        "flush_unreadable",
+        flushText,
+        "error",
+        `"${shorten(flushText)}" is not a flush number. Write 1 for the first flush, 2 for the second and so on.`,
+      );
+    } else flush = Number(match[1]);
+  }
+  let fresh: MassValue = null;
+  if (freshText === "") {
+    cellIssue(
+      state.issues,
+      line,
+      freshColumn,
+      "fresh_weight_missing",
+      "",
+      "error",
+      `the fresh weight${flush === null ? "" : ` of flush ${flush}`} is missing. Enter what was picked, with its unit, or clear the flush number if the row is only the block.`,
+    );
+  } else fresh = mass(state, cells, freshColumn, line);
+  addRecord(state, flush, harvestedOn, fresh, dry, harvestPendingDates);
+}
+
+/** Cells longer than a season log holds, and values beyond the header's last column. */
+function checkRowShape(state: ParseState, cells: string[], line: number): void {
+  const layout = state.layout;
+  for (let index = 0; index < cells.length; index++) {
+    if (cells[index].length > longestCell) {
+      const header = index < layout.headerWidth ? layout.mapping.columns[index].header : `(column ${index + 1})`;
+      report(
+        state.issues,
+        line,
+        "cell_too_long",
+        "error",
+        `Line ${line}, column "${header}": the value is ${cells[index].length} characters long; a season-log cell holds at most ${longestCell}. Check that this is the season log exported as CSV, and shorten the cell.`,
+        header,
+        cells[index],
+      );
+      cells[index] = "";
+    }
+  }
+  for (let index = layout.headerWidth; index < cells.length; index++) {
+    if (cells[index].trim() !== "") {
+      report(
+        state.issues,
+        line,
+        "value_beyond_header",
+        "warning",
+        `Line ${line}, column ${index + 1}: the value "${shorten(cells[index].trim())}" is beyond the last column of the header, so it is not imported. Give the column a header, or delete the value.`,
+        `(column ${index + 1})`,
+        cells[index].trim(),
+      );
+      break;
+    }
+  }
+}
+
+/**
+ * Stage 4, read cells: one data row becomes one record in long form, or one record per filled
+ * flush column in wide form (one block record when none is filled). Cells are read and
+ * checked here; the row is then compared with the block's earlier rows (stage 5).
+ */
+export function readDataRow(state: ParseState, cells: string[], line: number): void {
+  checkRowShape(state, cells, line);
+  const columns = state.layout.columns;
+  const blockColumn = columns.block_id;
+  const blockText = cell(cells, blockColumn.index);
+  if (blockText === "")
+    cellIssue(
+      state.issues,
+      line,
+      blockColumn,
+      "block_code_missing",
+      "",
+      "error",
+      "the block code is missing. Every row needs the code of its block: fill it in, or delete the row.",
+    );
+  state.rowPendingDates = 0;
+  const strainColumn = columns.strain;
+  const strainText = cell(cells, strainColumn.index);
+  let strainCode = strainText;
+  if (strainText === "")
+    cellIssue(
+      state.issues,
+      line,
+      strainColumn,
+      "strain_missing",
+      "",
+      "error",
+      "the strain is missing. Write the strain code (for example PO-03) on every row of the block.",
+    );
+  else strainCode = strain(state, strainText, line, strainColumn);
+  const row = state.row;
+  row.line = line;
+  row.block = blockText === "" ? null : blockOf(state, blockText, line, ownCopy);
+  row.blockCode = row.block === null ? "" : row.block.code;
+  row.strainCode = strainCode;
+  row.pendingDates = 0;
+  row.inoculatedOn = date(state, cells, columns.inoculated_on, line, pendingBits.inoculated);
+  row.wet = mass(state, cells, columns.block_wet_weight, line);
+  row.moisture = moisture(state, cells, line);
+  const contaminatedColumn = columns.contaminated;
+  const contaminatedText = cell(cells, contaminatedColumn.index);
+  const flag = parseYesNo(contaminatedText);
+  row.contaminated = null;
+  if ("error" in flag) cellIssue(state.issues, line, contaminatedColumn, flag.code, contaminatedText, "error", flag.error);
+  else row.contaminated = flag.value;
+  row.contaminatedOn = date(state, cells, columns.contaminated_on, line, pendingBits.contaminatedOn);
+  row.spent = mass(state, cells, columns.spent_weight, line);
+  row.substrate = optionalText(state, cells, columns.substrate);
+  row.trialCode = optionalText(state, cells, columns.trial);
+  row.arm = optionalText(state, cells, columns.arm);
+  row.fruitingMethod = optionalText(state, cells, columns.fruiting_method);
+  const notesText = cell(cells, columns.notes.index);
+  row.notes = notesText === "" ? null : ownCopy(notesText);
+  row.pendingDates = state.rowPendingDates;
+  const first = state.records.length;
+  if (state.layout.format === "wide") {
+    for (const wideFlush of state.layout.wide) {
+      if (cell(cells, wideFlush.weight.index) === "") continue;
+      const fresh = mass(state, cells, wideFlush.weight, line);
+      state.rowPendingDates = 0;
+      const harvestedOn = wideFlush.date === null ? null : date(state, cells, wideFlush.date, line, pendingBits.harvested);
+      addRecord(state, wideFlush.flush, harvestedOn, fresh, null, state.rowPendingDates);
+    }
+    if (state.records.length === first) addRecord(state, null, null, null, null, 0);
+  } else {
+    harvestRow(state, cells, line);
+  }
+  if (row.block !== null) compareBlock(state, row.block, first, line, row.contaminated, contaminatedText);
+}

@@ -1,0 +1,133 @@
+import type { DecimalMark } from "../units";
+import type { BlockState } from "./blocks";
+import type { DateReading } from "./dates";
+import { mapHeaders, withoutBadTargets } from "./headers";
+import type { StrainRegister } from "./strains";
+import { type SeasonLogColumnName, seasonLogColumnNames } from "./schema";
+import {
+  type ColumnPlan,
+  type Layout,
+  type MassAsWritten,
+  type SeasonLogIssue,
+  type SeasonLogOptions,
+  type SeasonRecord,
+  absentColumn,
+} from "./types";
+
+export type MassValue = { grams: number; written: MassAsWritten } | null;
+
+/** The block columns of the row being read, shared by the records the row gives. */
+export interface RowValues {
+  line: number;
+  blockCode: string;
+  strainCode: string;
+  substrate: string | null;
+  trialCode: string | null;
+  arm: string | null;
+  inoculatedOn: string | null;
+  wet: MassValue;
+  moisture: number | null;
+  fruitingMethod: string | null;
+  contaminated: boolean | null;
+  contaminatedOn: string | null;
+  spent: MassValue;
+  notes: string | null;
+  /** Which of the row's block dates wait for the file's date order. */
+  pendingDates: number;
+  block: BlockState | null;
+}
+
+export interface DateEvidence {
+  dayFirstOnly: number;
+  monthFirstOnly: number;
+  firstDayFirst: { line: number; column: string; value: string } | null;
+  firstMonthFirst: { line: number; column: string; value: string } | null;
+  firstEither: { line: number; column: string; value: string } | null;
+}
+
+/** Cell readings already made, by cell text: a large file repeats its codes, dates and weights. */
+export interface ReadingCaches {
+  interned: Map<string, string>;
+  dates: Map<string, DateReading>;
+  strainChecks: Map<string, string | null>;
+  moistures: Map<string, { fraction: number } | { error: string; code: "moisture_unreadable" | "moisture_out_of_range" }>;
+  /** Per mass column (by position), masses already read: records that wrote the same share one reading. */
+  masses: Map<number, Map<string, NonNullable<MassValue>>>;
+}
+
+/**
+ * Everything the row reader, the block checks and the end-of-file checks share: plain data,
+ * made once per file by `createParseState` and handed to each stage's functions.
+ */
+export interface ParseState {
+  options: SeasonLogOptions;
+  today: string;
+  strains: StrainRegister | null;
+  decimal: DecimalMark;
+  layout: Layout;
+  records: SeasonRecord[];
+  issues: SeasonLogIssue[];
+  blocks: Map<string, BlockState>;
+  caches: ReadingCaches;
+  /** Per record, bits for the dates that wait for the file's date order (see `pendingBits`). */
+  pendingDates: Uint8Array;
+  /** Bits of the dates being read for the current harvest (or block columns). */
+  rowPendingDates: number;
+  dateEvidence: DateEvidence;
+  row: RowValues;
+}
+
+export const pendingBits = { inoculated: 1, harvested: 2, contaminatedOn: 4 } as const;
+
+function emptyColumns(): Record<SeasonLogColumnName, ColumnPlan> {
+  const columns = {} as Record<SeasonLogColumnName, ColumnPlan>;
+  for (const name of seasonLogColumnNames) columns[name] = absentColumn;
+  return columns;
+}
+
+export function emptyLayout(): Layout {
+  return {
+    headerLine: 0,
+    headerWidth: 0,
+    mapping: withoutBadTargets(mapHeaders([])),
+    format: "long",
+    readRows: true,
+    columns: emptyColumns(),
+    wide: [],
+  };
+}
+
+export function createParseState(options: SeasonLogOptions, today: string, strains: StrainRegister | null): ParseState {
+  return {
+    options,
+    today,
+    strains,
+    decimal: ".",
+    layout: emptyLayout(),
+    records: [],
+    issues: [],
+    blocks: new Map(),
+    caches: { interned: new Map(), dates: new Map(), strainChecks: new Map(), moistures: new Map(), masses: new Map() },
+    pendingDates: new Uint8Array(1024),
+    rowPendingDates: 0,
+    dateEvidence: { dayFirstOnly: 0, monthFirstOnly: 0, firstDayFirst: null, firstMonthFirst: null, firstEither: null },
+    row: {
+      line: 0,
+      blockCode: "",
+      strainCode: "",
+      substrate: null,
+      trialCode: null,
+      arm: null,
+      inoculatedOn: null,
+      wet: null,
+      moisture: null,
+      fruitingMethod: null,
+      contaminated: null,
+      contaminatedOn: null,
+      spent: null,
+      notes: null,
+      pendingDates: 0,
+      block: null,
+    },
+  };
+}
