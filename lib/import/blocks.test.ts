@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { blockTotals } from "./blocks";
+import { finishRecords } from "./finish";
 import { readHeaderRow } from "./layout";
 import { readDataRow } from "./rows";
 import { createParseState } from "./state";
@@ -34,7 +34,7 @@ describe("block checks (stage 5)", () => {
       ["B-1", "PO-03", "2500 g", "60 %", "1", "2000 g", ""],
       ["B-1", "PO-03", "2500 g", "60 %", "3", "600 g", ""],
     ]);
-    for (const [code, block] of state.blocks) blockTotals(state, code, block);
+    finishRecords(state);
     expect(state.issues.map((issue) => [issue.line, issue.code])).toEqual([
       [3, "flush_gap"],
       [2, "efficiency_implausible"],

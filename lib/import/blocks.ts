@@ -1,5 +1,5 @@
 import { drySubstrateGrams, formatMass } from "../units";
-import { type IssueCode, cellIssue, shorten } from "./issues";
+import { type IssueCode, cellIssue, shorten, writtenDate } from "./issues";
 import { flushWeightColumn, harvestDateColumn } from "./layout";
 import type { SeasonLogColumnName } from "./schema";
 import type { ParseState } from "./state";
@@ -48,7 +48,11 @@ export interface BlockState {
   contaminatedLine: number;
   /** Flush number and line of each harvest, in pairs: [flush, line, flush, line …]. */
   harvests: readonly number[];
+  /** Fresh weight of all its harvests, summed at the end of the file. */
   freshGrams: number;
+  /** The inoculation and contamination dates as written on the row that first gave them. */
+  inoculatedWritten: string | null;
+  contaminatedOnWritten: string | null;
 }
 
 // Block states are many in a large file: arrays made whole (not grown by push) hold no spare room.
@@ -114,6 +118,8 @@ export function blockOf(state: ParseState, written: string, line: number, own: (
       contaminatedLine: 0,
       harvests: noHarvests,
       freshGrams: 0,
+      inoculatedWritten: null,
+      contaminatedOnWritten: null,
     };
     state.blocks.set(code, block);
   }
@@ -153,7 +159,6 @@ export function addFlush(state: ParseState, block: BlockState, record: SeasonRec
   } else {
     block.harvests = [...block.harvests, flush, line];
   }
-  if (record.freshGrams !== null) block.freshGrams += record.freshGrams;
 }
 
 /**
@@ -170,7 +175,9 @@ export function compareBlock(
 ): void {
   const record = state.records[recordIndex];
   for (const rule of rowBlockAttributes) {
-    if (record[rule.field] === null || (rule.field === "strainCode" && record.strainCode === "")) continue;
+    const value = record[rule.field];
+    // NaN: a mass whose decimal mark the end of the file settles; compared there (`compareSettledMasses`).
+    if (value === null || value !== value || (rule.field === "strainCode" && value === "")) continue;
     const source = block.source[rule.slot];
     if (source === -1) {
       block.source[rule.slot] = recordIndex;
@@ -194,9 +201,32 @@ export function compareBlock(
       );
     }
   }
-  for (const rule of dateBlockAttributes) {
-    if (record[rule.field] !== null && block.source[rule.slot] === -1) block.source[rule.slot] = recordIndex;
+  if (record.inoculatedOn !== null && block.source[slot.inoculatedOn] === -1) {
+    block.source[slot.inoculatedOn] = recordIndex;
+    block.inoculatedWritten = record.inoculatedOn;
   }
+  if (record.contaminatedOn !== null && block.source[slot.contaminatedOn] === -1) {
+    block.source[slot.contaminatedOn] = recordIndex;
+    block.contaminatedOnWritten = record.contaminatedOn;
+  }
+}
+
+/** At the end of the file, a mass whose decimal mark was settled there: compared with the block's other rows as `compareBlock` does. */
+export function compareSettledMass(state: ParseState, block: BlockState, recordIndex: number, field: "wetBlockGrams" | "spentGrams"): void {
+  const record = state.records[recordIndex];
+  if (record[field] === null) return;
+  const rule = rowBlockAttributes.find((candidate) => candidate.field === field) as BlockAttributeRule;
+  const source = block.source[rule.slot];
+  if (source === -1) block.source[rule.slot] = recordIndex;
+  else if (source !== recordIndex && state.records[source][field] !== null && !rule.same(state.records[source], record))
+    disagreement(state, rule, record, state.records[source]);
+}
+
+/** The dates of a record as written in the file, kept while the end of the file resolves them. */
+export interface WrittenDates {
+  inoculatedOn: string | null;
+  harvestedOn: string | null;
+  contaminatedOn: string | null;
 }
 
 /**
@@ -204,16 +234,25 @@ export function compareBlock(
  * fills the record's blank block columns from the block's other rows, and checks the harvest
  * against the inoculation and the contamination date against the contaminated column.
  */
-export function blockAtFinish(state: ParseState, block: BlockState, record: SeasonRecord, index: number): void {
+export function blockAtFinish(state: ParseState, block: BlockState, record: SeasonRecord, index: number, written: WrittenDates): void {
   const records = state.records;
-  for (const rule of dateBlockAttributes) {
-    const source = block.source[rule.slot];
-    if (record[rule.field] === null || source === -1 || source === index) continue;
-    const earlier = records[source];
-    if (earlier[rule.field] !== null && earlier.line !== record.line && !rule.same(earlier, record))
-      disagreement(state, rule, record, earlier);
-  }
   const source = block.source;
+  for (const rule of dateBlockAttributes) {
+    const from = source[rule.slot];
+    if (record[rule.field] === null || from === -1 || from === index) continue;
+    const earlier = records[from];
+    if (earlier[rule.field] === null || earlier.line === record.line || rule.same(earlier, record)) continue;
+    const here = rule.field === "inoculatedOn" ? written.inoculatedOn : written.contaminatedOn;
+    const there = rule.field === "inoculatedOn" ? block.inoculatedWritten : block.contaminatedOnWritten;
+    blockIssue(
+      state,
+      record,
+      rule.column,
+      "block_details_disagree",
+      here ?? "",
+      `block ${record.blockCode} has ${rule.words} "${shorten(here ?? "")}" here but "${shorten(there ?? "")}" on line ${earlier.line}. A block's details must be the same on every row: correct one of them.`,
+    );
+  }
   if (record.substrate === null && source[slot.substrate] !== -1) record.substrate = records[source[slot.substrate]].substrate;
   if (record.trialCode === null && source[slot.trialCode] !== -1) record.trialCode = records[source[slot.trialCode]].trialCode;
   if (record.arm === null && source[slot.arm] !== -1) record.arm = records[source[slot.arm]].arm;
@@ -233,26 +272,30 @@ export function blockAtFinish(state: ParseState, block: BlockState, record: Seas
     record.spentAsWritten = records[source[slot.spentGrams]].spentAsWritten;
   }
   record.contaminated = block.contaminated ?? record.contaminatedOn !== null;
+  if (record.flush !== null && record.freshGrams !== null) block.freshGrams += record.freshGrams;
   if (record.harvestedOn !== null && record.inoculatedOn !== null && record.harvestedOn < record.inoculatedOn) {
+    const harvested = written.harvestedOn ?? record.harvestedOn;
+    const inoculated = written.inoculatedOn ?? block.inoculatedWritten ?? record.inoculatedOn;
     cellIssue(
       state.issues,
       record.line,
       harvestDateColumn(state.layout, record.flush),
       "harvest_before_inoculation",
-      record.harvestedOn,
+      harvested,
       "error",
-      `flush ${record.flush} of block ${record.blockCode} was harvested on ${record.harvestedOn}, before the block was inoculated (${record.inoculatedOn}). Correct the harvest date or the inoculation date.`,
+      `flush ${record.flush} of block ${record.blockCode} was harvested on ${writtenDate(harvested, record.harvestedOn)}, before the block was inoculated (${writtenDate(inoculated, record.inoculatedOn)}). Correct the harvest date or the inoculation date.`,
     );
   }
-  if (block.contaminated === false && record.contaminatedOn !== null && block.source[slot.contaminatedOn] === index) {
+  if (block.contaminated === false && record.contaminatedOn !== null && source[slot.contaminatedOn] === index) {
+    const date = written.contaminatedOn ?? record.contaminatedOn;
     cellIssue(
       state.issues,
       record.line,
       state.layout.columns.contaminated_on,
       "contamination_date_not_contaminated",
-      record.contaminatedOn,
+      date,
       "warning",
-      `block ${record.blockCode} has a contamination date (${record.contaminatedOn}) but is marked not contaminated on line ${block.contaminatedLine}. Mark it contaminated, or clear the date.`,
+      `block ${record.blockCode} has a contamination date (${writtenDate(date, record.contaminatedOn)}) but is marked not contaminated on line ${block.contaminatedLine}. Mark it contaminated, or clear the date.`,
     );
   }
 }
@@ -268,13 +311,25 @@ export function flushHeavierThanBlock(state: ParseState, record: SeasonRecord): 
       "flush_heavier_than_block",
       record.freshAsWritten?.value ?? "",
       "warning",
-      `flush ${record.flush} of block ${record.blockCode} weighs ${formatMass(record.freshGrams, "metric")}, more than the whole wet block (${formatMass(record.wetBlockGrams, "metric")}${wetColumn.index === -1 ? "" : `, column "${wetColumn.header}"`}). Check the weight and its unit.`,
+      `flush ${record.flush} of block ${record.blockCode} weighs "${shorten(record.freshAsWritten?.value ?? "")}" (${formatMass(record.freshGrams, "metric")}), more than the whole wet block ("${shorten(record.wetBlockAsWritten?.value ?? "")}", ${formatMass(record.wetBlockGrams, "metric")}${wetColumn.index === -1 ? "" : `, column "${wetColumn.header}"`}). Check the weight and its unit.`,
     );
   }
 }
 
+/** A block's biological efficiency in percent, or null when its wet weight, moisture or harvests are missing. */
+export function blockEfficiency(state: ParseState, block: BlockState): number | null {
+  const wetSource = block.source[slot.wetBlockGrams];
+  const moistureSource = block.source[slot.moisture];
+  if (wetSource === -1 || moistureSource === -1 || block.freshGrams === 0) return null;
+  const wet = state.records[wetSource].wetBlockGrams;
+  const moisture = state.records[moistureSource].moisture;
+  if (wet === null || moisture === null) return null;
+  const dry = drySubstrateGrams(wet, moisture);
+  return dry > 0 ? (block.freshGrams / dry) * 100 : null;
+}
+
 /** Stage 5, at the end of the file: gaps in the block's flush numbers, and its biological efficiency. */
-export function blockTotals(state: ParseState, code: string, block: BlockState): void {
+export function blockTotals(state: ParseState, code: string, block: BlockState, efficiencyChecked: boolean): void {
   const flushes = block.harvests.filter((_, index) => index % 2 === 0);
   if (flushes.length > 0) {
     const largest = Math.max(...flushes);
@@ -297,19 +352,23 @@ export function blockTotals(state: ParseState, code: string, block: BlockState):
   }
   const wetSource = block.source[slot.wetBlockGrams];
   const moistureSource = block.source[slot.moisture];
-  if (wetSource === -1 || moistureSource === -1 || block.freshGrams === 0) return;
-  const dryGrams = drySubstrateGrams(state.records[wetSource].wetBlockGrams as number, state.records[moistureSource].moisture as number);
+  if (!efficiencyChecked || wetSource === -1 || moistureSource === -1 || block.freshGrams === 0) return;
+  const wetGrams = state.records[wetSource].wetBlockGrams;
+  const moisture = state.records[moistureSource].moisture;
+  if (wetGrams === null || moisture === null) return;
+  const dryGrams = drySubstrateGrams(wetGrams, moisture);
   if (dryGrams <= 0 || block.freshGrams <= highestPlausibleEfficiency * dryGrams) return;
   const efficiency = Math.round((block.freshGrams / dryGrams) * 100);
   const layout = state.layout;
   const column = layout.format === "wide" ? (layout.wide[0]?.weight ?? absentColumn) : layout.columns.fresh_weight;
+  const wetWritten = state.records[wetSource].wetBlockAsWritten?.value ?? "";
   cellIssue(
     state.issues,
     block.firstLine,
     column,
     "efficiency_implausible",
-    formatMass(block.freshGrams, "metric"),
+    wetWritten,
     "warning",
-    `block ${code} gave ${formatMass(block.freshGrams, "metric")} fresh in all from ${formatMass(dryGrams, "metric")} of dry substrate: a biological efficiency of ${efficiency} %, above the 250 % that blocks plausibly reach. Check this block's weights, their units and its moisture.`,
+    `block ${code} gave ${formatMass(block.freshGrams, "metric")} fresh in all from a wet block of "${shorten(wetWritten)}" (${formatMass(dryGrams, "metric")} of dry substrate): a biological efficiency of ${efficiency} %, above the 250 % that blocks plausibly reach. Check this block's weights, their units and its moisture.`,
   );
 }

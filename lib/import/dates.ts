@@ -16,7 +16,10 @@ export type DateReading =
   | { kind: "error"; code: DateErrorCode; error: string };
 
 const isoDate = /^(\d{4})[-/.](\d{1,2})[-/.](\d{1,2})(?:[T ]\d{1,2}:\d{2}(?::\d{2}(?:\.\d+)?)?(?:Z|[+-]\d{2}:?\d{2})?)?$/i;
-const numericDate = /^(\d{1,2})([./-])(\d{1,2})\2(\d{4}|\d{2})(?: \d{1,2}:\d{2}(?::\d{2})?)?$/;
+// A time of day as spreadsheets write it after a date: "08:30", "8:30:15", "08:30 AM", "4:45 p.m.".
+// The time is read and dropped: the season log keeps days.
+const timeOfDay = String.raw`(?:[ T]+(\d{1,2})[:.](\d{2})(?:[:.]\d{2}(?:[.,]\d+)?)?\s*(am|pm|a\.m\.|p\.m\.)?)?`;
+const numericDate = new RegExp(String.raw`^(\d{1,2})([./-])(\d{1,2})\2(\d{4}|\d{2})${timeOfDay}$`);
 const compactDate = /^(\d{4})(\d{2})(\d{2})$/;
 const serialNumber = /^\d{1,6}(?:[.,]\d+)?$/;
 const dayMonthName = /^(\d{1,2})[-\s./]*([a-z]{3,9})\.?[-\s./,]*(\d{4}|\d{2})$/;
@@ -99,6 +102,7 @@ export function readDate(text: string): DateReading {
     return iso === null ? notADay(text) : { kind: "date", iso };
   }
   match = numericDate.exec(written);
+  if (match !== null && !validTime(match[5], match[6], match[7])) return notADay(text);
   if (match !== null) {
     const first = Number(match[1]);
     const second = Number(match[3]);
@@ -133,6 +137,13 @@ export function readDate(text: string): DateReading {
   match = monthNameDay.exec(written);
   if (match !== null) return namedMonth(text, match[3], match[1], match[2]);
   return { kind: "error", code: "date_unreadable", error: `"${text.trim()}" is not a date we can read. ${howToWrite}` };
+}
+
+function validTime(hours: string | undefined, minutes: string | undefined, halfDay: string | undefined): boolean {
+  if (hours === undefined) return true;
+  const hour = Number(hours);
+  if (Number(minutes) > 59) return false;
+  return halfDay === undefined ? hour <= 24 : hour >= 1 && hour <= 12;
 }
 
 function namedMonth(text: string, year: string, monthName: string, day: string): DateReading {

@@ -1,3 +1,5 @@
+import iconv from "iconv-lite";
+
 /** How the file's bytes were read; "text" when the caller passed already-decoded text. */
 export type TextEncodingName = "utf-8" | "utf-8-bom" | "windows-1252" | "utf-16le" | "utf-16be" | "text";
 
@@ -61,7 +63,13 @@ export function createDecoder(): DecoderState {
 }
 
 const utf8 = new TextDecoder("utf-8");
-const windows1252 = new TextDecoder("windows-1252");
+
+// Node 20's TextDecoder("windows-1252") turns bytes 0x80–0x9F (’ “ ” – € …) into C1 control
+// characters; iconv-lite follows the published Windows-1252 table. It is a single-byte
+// encoding, so each chunk decodes on its own.
+function windows1252(bytes: Uint8Array): string {
+  return iconv.decode(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), "windows-1252");
+}
 
 /**
  * Stage 1, bytes to text, chunk by chunk. A byte-order mark decides the encoding; otherwise
@@ -93,12 +101,12 @@ export function decodeBytes(state: DecoderState, chunk: Uint8Array, final: boole
     }
   }
   if (state.utf16 !== null) return state.utf16.decode(bytes, { stream: !final });
-  if (state.encoding === "windows-1252") return windows1252.decode(bytes);
+  if (state.encoding === "windows-1252") return windows1252(bytes);
   const complete = validUtf8Prefix(bytes);
   if (complete === -1 || (final && complete < bytes.length)) {
     state.mixed = state.sawMultiByte || state.encoding === "utf-8-bom";
     state.encoding = "windows-1252";
-    return windows1252.decode(bytes);
+    return windows1252(bytes);
   }
   if (!state.sawMultiByte) {
     for (let index = 0; index < complete; index++) {

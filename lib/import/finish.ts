@@ -1,9 +1,10 @@
-import { blockAtFinish, blockTotals, flushHeavierThanBlock } from "./blocks";
+import { type DecimalMark, massNumberText, parseDecimalNumber, readMass } from "../units";
+import { type WrittenDates, blockAtFinish, blockEfficiency, blockTotals, compareSettledMass, flushHeavierThanBlock, slot } from "./blocks";
 import { type DateOrder, type DateReading, describeOrder, readDate, wrongOrderMessage } from "./dates";
-import { cellIssue, report, shorten } from "./issues";
-import { harvestDateColumn, type RowAboveHeader } from "./layout";
-import { type DateEvidence, type ParseState, pendingBits } from "./state";
-import type { ColumnPlan, SeasonLogIssue, SeasonRecord } from "./types";
+import { cellIssue, report, shorten, writtenDate } from "./issues";
+import { flushWeightColumn, harvestDateColumn, type RowAboveHeader } from "./layout";
+import { type DateEvidence, type ParseState, pendingBits, pendingMassBits } from "./state";
+import { type ColumnPlan, type SeasonLogIssue, type SeasonRecord, absentColumn } from "./types";
 
 /**
  * The file's date order: the grower's choice, else what the dates that read only one way say
@@ -65,6 +66,11 @@ function firstReport(reported: Reported, line: number, column: ColumnPlan): bool
   return true;
 }
 
+/** A date's reading by its text; the cache holds every date that waited (and most others). */
+function readingOf(state: ParseState, text: string): DateReading {
+  return state.caches.dates.get(text)?.reading ?? readDate(text);
+}
+
 function resolveDate(
   state: ParseState,
   reported: Reported,
@@ -75,43 +81,69 @@ function resolveDate(
 ): void {
   const text = record[field];
   if (text === null) return;
-  const reading = state.caches.dates.get(text) ?? readDate(text);
-  if (reading.kind === "either") {
-    record[field] = order === "dmy" || order === "mdy" ? reading[order] : null;
-    return;
+  const reading = readingOf(state, text);
+  switch (reading.kind) {
+    case "date":
+      record[field] = reading.iso;
+      return;
+    case "either":
+      record[field] = order === "dmy" || order === "mdy" ? reading[order] : null;
+      return;
+    case "error":
+      record[field] = null;
+      return;
+    case "dmy-only":
+    case "mdy-only": {
+      const only = reading.kind === "dmy-only" ? "dmy" : "mdy";
+      if ((order === "dmy" || order === "mdy") && only !== order) {
+        if (firstReport(reported, record.line, column))
+          cellIssue(state.issues, record.line, column, "date_wrong_order", text, "error", wrongOrderMessage(text, order));
+        record[field] = null;
+        return;
+      }
+      record[field] = reading.iso;
+    }
   }
-  if (reading.kind !== "dmy-only" && reading.kind !== "mdy-only") return;
-  const only = reading.kind === "dmy-only" ? "dmy" : "mdy";
-  if ((order === "dmy" || order === "mdy") && only !== order) {
-    if (firstReport(reported, record.line, column))
-      cellIssue(state.issues, record.line, column, "date_wrong_order", text, "error", wrongOrderMessage(text, order));
-    record[field] = null;
-    return;
-  }
-  record[field] = reading.iso;
 }
 
-function futureDate(state: ParseState, reported: Reported, record: SeasonRecord, date: string, column: ColumnPlan, words: string): void {
+function futureDate(
+  state: ParseState,
+  reported: Reported,
+  record: SeasonRecord,
+  date: string,
+  written: string | null,
+  column: ColumnPlan,
+  words: string,
+): void {
   if (column.index === -1 || !firstReport(reported, record.line, column)) return;
+  const value = written ?? date;
   cellIssue(
     state.issues,
     record.line,
     column,
     "date_in_future",
-    date,
+    value,
     "warning",
-    `the ${words} ${date} is in the future (today is ${state.today}). Check the date; with day-first and month-first dates, also check the date order.`,
+    `the ${words} ${writtenDate(value, date)} is in the future (today is ${state.today}). Check the date; with day-first and month-first dates, also check the date order.`,
   );
 }
 
-function futureDates(state: ParseState, reported: Reported, record: SeasonRecord): void {
+function futureDates(state: ParseState, reported: Reported, record: SeasonRecord, written: WrittenDates): void {
   const { today, layout } = state;
   if (record.harvestedOn !== null && record.harvestedOn > today)
-    futureDate(state, reported, record, record.harvestedOn, harvestDateColumn(layout, record.flush), "harvest date");
+    futureDate(state, reported, record, record.harvestedOn, written.harvestedOn, harvestDateColumn(layout, record.flush), "harvest date");
   if (record.inoculatedOn !== null && record.inoculatedOn > today)
-    futureDate(state, reported, record, record.inoculatedOn, layout.columns.inoculated_on, "inoculation date");
+    futureDate(state, reported, record, record.inoculatedOn, written.inoculatedOn, layout.columns.inoculated_on, "inoculation date");
   if (record.contaminatedOn !== null && record.contaminatedOn > today)
-    futureDate(state, reported, record, record.contaminatedOn, layout.columns.contaminated_on, "contamination date");
+    futureDate(
+      state,
+      reported,
+      record,
+      record.contaminatedOn,
+      written.contaminatedOn,
+      layout.columns.contaminated_on,
+      "contamination date",
+    );
 }
 
 /** What the file's end says about how it was read: the header never found, no rows, a quote never closed. */
@@ -162,34 +194,244 @@ export function fileLevelIssues(
 }
 
 /**
- * Stage 6, the end of the file, where what needs every row is done: the date order is decided
- * and the waiting dates resolved; blank block columns are filled from the block's other rows;
- * dates in the future, harvests before inoculation, flush gaps and implausible efficiency are
- * checked; the issues are sorted by line. Returns the date order decided.
+ * The decimal mark of each mass column that has numbers reading two ways: the grower's
+ * choice, else what the column's other numbers settle, else (the column's numbers settle
+ * nothing) what the file's numbers settle. When nothing settles it, an error asks the grower
+ * to choose, and the column's ambiguous cells stay empty. Returns the columns left ambiguous.
  */
-export function finishRecords(state: ParseState): DateOrder | "ambiguous" | null {
-  const { records, layout } = state;
-  const decided = decideDateOrder(state.dateEvidence, state.options.dateOrder, (text) => state.caches.dates.get(text) ?? readDate(text));
-  if (decided.issue !== undefined) state.issues.push({ ...decided.issue, severity: "error" });
-  const order = decided.order;
-  const reported: Reported = { line: 0, columns: new Set() };
+function settleDecimalMarks(state: ParseState): {
+  marks: Map<number, DecimalMark | null>;
+  ambiguous: string[];
+  fileMark: DecimalMark | null;
+} {
+  let comma = 0;
+  let point = 0;
+  for (const evidence of state.decimalEvidence.values()) {
+    comma += evidence.comma;
+    point += evidence.point;
+  }
+  const fileMark: DecimalMark | null = comma > 0 && point === 0 ? "," : point > 0 && comma === 0 ? "." : null;
+  const marks = new Map<number, DecimalMark | null>();
+  const ambiguous: string[] = [];
+  for (const [index, evidence] of state.decimalEvidence) {
+    if (evidence.firstEither === null) continue;
+    let mark: DecimalMark | null = null;
+    if (evidence.comma > 0 && evidence.point === 0) mark = ",";
+    else if (evidence.point > 0 && evidence.comma === 0) mark = ".";
+    else if (evidence.comma === 0 && evidence.point === 0) mark = fileMark;
+    marks.set(index, mark);
+    if (mark !== null) continue;
+    const { line, value } = evidence.firstEither;
+    const number = massNumberText(value) ?? value;
+    const at = Math.max(number.indexOf(","), number.indexOf("."));
+    const asFraction = parseDecimalNumber(number, number[at] === "," ? "," : ".");
+    const asThousands = parseDecimalNumber(number, number[at] === "," ? "." : ",");
+    ambiguous.push(evidence.column.header);
+    cellIssue(
+      state.issues,
+      line,
+      evidence.column,
+      "ambiguous_decimal_mark",
+      value,
+      "error",
+      `numbers such as "${shorten(value)}" read as ${asFraction} with "${number[at]}" as the decimal mark, or as ${asThousands} with "${number[at]}" grouping thousands, and ${evidence.comma > 0 && evidence.point > 0 ? "the column uses both marks" : "no number in the file settles which"}. Choose the decimal mark of this column in the mapping step, and read the file again.`,
+    );
+  }
+  return { marks, ambiguous, fileMark };
+}
+
+const massFields = [
+  { bit: pendingBits.wet, grams: "wetBlockGrams", written: "wetBlockAsWritten" },
+  { bit: pendingBits.fresh, grams: "freshGrams", written: "freshAsWritten" },
+  { bit: pendingBits.dry, grams: "dryGrams", written: "dryAsWritten" },
+  { bit: pendingBits.spent, grams: "spentGrams", written: "spentAsWritten" },
+] as const;
+
+function massColumn(state: ParseState, record: SeasonRecord, bit: number): ColumnPlan {
+  const { layout } = state;
+  if (bit === pendingBits.wet) return layout.columns.block_wet_weight;
+  if (bit === pendingBits.dry) return layout.columns.dry_weight;
+  if (bit === pendingBits.spent) return layout.columns.spent_weight;
+  return flushWeightColumn(layout, record.flush, "fresh_weight");
+}
+
+/** Reads the masses that waited for their column's decimal mark, and compares a block's settled masses. */
+function settleMasses(state: ParseState, marks: ReadonlyMap<number, DecimalMark | null>): void {
+  const { records, pending } = state;
+  const readings = new Map<string, ReturnType<typeof readMass>>();
   for (let index = 0; index < records.length; index++) {
+    const mask = index < pending.length ? pending[index] : 0;
+    if ((mask & pendingMassBits) === 0) continue;
     const record = records[index];
-    const mask = index < state.pendingDates.length ? state.pendingDates[index] : 0;
-    if (mask !== 0) {
-      if (mask & pendingBits.inoculated) resolveDate(state, reported, order, record, "inoculatedOn", layout.columns.inoculated_on);
-      if (mask & pendingBits.contaminatedOn) resolveDate(state, reported, order, record, "contaminatedOn", layout.columns.contaminated_on);
-      if (mask & pendingBits.harvested) resolveDate(state, reported, order, record, "harvestedOn", harvestDateColumn(layout, record.flush));
+    for (const field of massFields) {
+      if ((mask & field.bit) === 0) continue;
+      const written = record[field.written] as NonNullable<SeasonRecord["freshAsWritten"]>;
+      const column = massColumn(state, record, field.bit);
+      const mark = marks.get(column.index) ?? null;
+      if (mark === null) {
+        record[field.grams] = null;
+        continue;
+      }
+      const key = `${column.index}\u0000${written.value}`;
+      let reading = readings.get(key);
+      if (reading === undefined) {
+        reading = readMass(written.value, { defaultUnit: column.unit, decimal: mark });
+        readings.set(key, reading);
+      }
+      if ("error" in reading) {
+        cellIssue(state.issues, record.line, column, reading.code, written.value, "error", reading.error);
+        record[field.grams] = null;
+        record[field.written] = null;
+        continue;
+      }
+      record[field.grams] = reading.grams;
+      record[field.written] = { value: written.value, unit: reading.unit };
+    }
+    const block = record.blockCode === "" ? undefined : state.blocks.get(record.blockCode);
+    if (block === undefined) continue;
+    if (mask & pendingBits.wet) compareSettledMass(state, block, index, "wetBlockGrams");
+    if (mask & pendingBits.spent) compareSettledMass(state, block, index, "spentGrams");
+  }
+}
+
+// Oyster and shiitake blocks give roughly 50–150 % (common practice). A column whose blocks sit
+// a power of ten outside that, as a whole, has its unit or decimal mark read wrong.
+const lowestColumnEfficiency = 1;
+const highestColumnEfficiency = 1000;
+/** Blocks with a biological efficiency needed before a column is judged as a whole. */
+const fewestBlocksForColumnCheck = 3;
+
+function median(values: number[]): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  const middle = Math.floor(sorted.length / 2);
+  return sorted.length % 2 === 1 ? sorted[middle] : (sorted[middle - 1] + sorted[middle]) / 2;
+}
+
+/**
+ * The fresh weights against the wet blocks, column as a whole: when the blocks' median
+ * biological efficiency is far outside what blocks reach, the weights (or the wet block
+ * weights) are read in the wrong unit or with the wrong decimal mark, and that is an error on
+ * the column, not a warning. Returns false when it reported, so the per-block warnings are not repeated.
+ */
+function checkMassColumns(state: ParseState): boolean {
+  const efficiencies: number[] = [];
+  let example: SeasonRecord | null = null;
+  for (const block of state.blocks.values()) {
+    const efficiency = blockEfficiency(state, block);
+    if (efficiency === null) continue;
+    efficiencies.push(efficiency);
+    if (example === null) {
+      const source = block.source[slot.wetBlockGrams];
+      example =
+        state.records.find((record, index) => index >= source && record.blockCode === block.code && record.freshAsWritten !== null) ?? null;
     }
   }
-  reported.line = 0;
+  if (efficiencies.length < fewestBlocksForColumnCheck || example === null) return true;
+  const typical = median(efficiencies);
+  if (typical >= lowestColumnEfficiency && typical <= highestColumnEfficiency) return true;
+  const { layout } = state;
+  const column = layout.format === "wide" ? (layout.wide[0]?.weight ?? absentColumn) : layout.columns.fresh_weight;
+  const wet = layout.columns.block_wet_weight;
+  const fresh = example.freshAsWritten?.value ?? "";
+  cellIssue(
+    state.issues,
+    layout.headerLine,
+    column,
+    "mass_column_implausible",
+    fresh,
+    "error",
+    `read as they are written (such as "${shorten(fresh)}" on line ${example.line}, against a wet block of "${shorten(example.wetBlockAsWritten?.value ?? "")}" in column "${wet.header}"), the blocks' biological efficiency is ${Math.round(typical)} % (the median of ${efficiencies.length} blocks), far ${typical > highestColumnEfficiency ? "above" : "below"} what blocks reach (about 50–150 %). The weights of this column or of "${wet.header}" are read in the wrong unit or with the wrong decimal mark: check the units in the headers and cells, and the decimal mark in the mapping step.`,
+  );
+  return false;
+}
+
+/**
+ * Stage 6, the end of the file, where what needs every row is done: each column's decimal mark
+ * and the file's date order are decided and the cells that waited are read; blank block
+ * columns are filled from the block's other rows; dates in the future, harvests before
+ * inoculation, flush gaps and implausible efficiency are checked. Returns what was decided.
+ */
+export function finishRecords(state: ParseState): {
+  dateOrder: DateOrder | "ambiguous" | null;
+  ambiguousDecimalColumns: string[];
+  fileMark: DecimalMark | null;
+} {
+  const { records, layout } = state;
+  const settled = settleDecimalMarks(state);
+  settleMasses(state, settled.marks);
+  const decided = decideDateOrder(state.dateEvidence, state.options.dateOrder, (text) => readingOf(state, text));
+  if (decided.issue !== undefined) state.issues.push({ ...decided.issue, severity: "error" });
+  const order = decided.order;
+  const resolving: Reported = { line: 0, columns: new Set() };
+  const future: Reported = { line: 0, columns: new Set() };
   for (let index = 0; index < records.length; index++) {
     const record = records[index];
+    const written: WrittenDates = {
+      inoculatedOn: record.inoculatedOn,
+      harvestedOn: record.harvestedOn,
+      contaminatedOn: record.contaminatedOn,
+    };
+    const mask = index < state.pending.length ? state.pending[index] : 0;
+    if (mask & pendingBits.inoculated) resolveDate(state, resolving, order, record, "inoculatedOn", layout.columns.inoculated_on);
+    if (mask & pendingBits.contaminatedOn) resolveDate(state, resolving, order, record, "contaminatedOn", layout.columns.contaminated_on);
+    if (mask & pendingBits.harvested) resolveDate(state, resolving, order, record, "harvestedOn", harvestDateColumn(layout, record.flush));
     const block = record.blockCode === "" ? undefined : state.blocks.get(record.blockCode);
-    if (block !== undefined) blockAtFinish(state, block, record, index);
-    futureDates(state, reported, record);
+    if (block !== undefined) blockAtFinish(state, block, record, index, written);
+    futureDates(state, future, record, written);
     if (block !== undefined) flushHeavierThanBlock(state, record);
   }
-  for (const [code, block] of state.blocks) blockTotals(state, code, block);
-  return order;
+  const efficiencyChecked = checkMassColumns(state);
+  for (const [code, block] of state.blocks) blockTotals(state, code, block, efficiencyChecked);
+  return { dateOrder: order, ambiguousDecimalColumns: settled.ambiguous, fileMark: settled.fileMark };
+}
+
+/** "4–19, 22 and 30" from runs of lines. */
+function describeRuns(runs: readonly [number, number][]): string {
+  const parts = runs.map(([first, last]) => (first === last ? String(first) : `${first}–${last}`));
+  return parts.length === 1 ? parts[0] : `${parts.slice(0, -1).join(", ")} and ${parts[parts.length - 1]}`;
+}
+
+const linePrefix = /^Line \d+/;
+/** Runs of lines named in one grouped issue; past this, the message says how many more. */
+const mostRunsNamed = 12;
+
+/**
+ * The same problem on many rows ("nein" in a yes/no column on lines 4 to 19) becomes one issue:
+ * same code, column, value and wording apart from the line. Issues must be sorted by line.
+ */
+export function groupRepeatedIssues(issues: readonly SeasonLogIssue[]): SeasonLogIssue[] {
+  const grouped: SeasonLogIssue[] = [];
+  const byKey = new Map<string, { issue: SeasonLogIssue; rest: string; runs: [number, number][]; count: number }>();
+  for (const issue of issues) {
+    const prefix = linePrefix.exec(issue.message);
+    if (prefix === null) {
+      grouped.push(issue);
+      continue;
+    }
+    const rest = issue.message.slice(prefix[0].length);
+    const key = `${issue.code}\u0000${issue.severity}\u0000${issue.column ?? ""}\u0000${issue.value ?? ""}\u0000${rest}`;
+    const known = byKey.get(key);
+    if (known === undefined) {
+      const entry = { issue: { ...issue }, rest, runs: [[issue.line, issue.line]] as [number, number][], count: 1 };
+      byKey.set(key, entry);
+      grouped.push(entry.issue);
+      continue;
+    }
+    const last = known.runs[known.runs.length - 1];
+    if (issue.line === last[1]) continue;
+    if (issue.line === last[1] + 1) last[1] = issue.line;
+    else known.runs.push([issue.line, issue.line]);
+    known.count++;
+  }
+  for (const { issue, rest, runs, count } of byKey.values()) {
+    if (count === 1) continue;
+    issue.count = count;
+    issue.lineRanges = runs;
+    const named =
+      runs.length > mostRunsNamed
+        ? `${describeRuns(runs.slice(0, mostRunsNamed))} and ${runs.length - mostRunsNamed} more runs`
+        : describeRuns(runs);
+    issue.message = `Lines ${named} (${count} rows)${rest}`;
+  }
+  return grouped;
 }

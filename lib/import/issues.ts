@@ -107,3 +107,8 @@ export function cellIssue(
 ): void {
   report(issues, line, code, severity, `Line ${line}, column "${column.header}": ${what}`, column.header, value);
 }
+
+/** A date as written, with the day it was read as when that looks different: "03/21/26" (2026-03-21). */
+export function writtenDate(written: string, iso: string): string {
+  return written === iso ? `"${iso}"` : `"${shorten(written)}" (${iso})`;
+}

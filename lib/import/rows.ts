@@ -1,8 +1,8 @@
-import { parseMoisture, parseYesNo, readMass } from "../units";
+import { type DecimalMark, decimalEvidence, massNumberText, parseMoisture, parseYesNo, readMass } from "../units";
 import { addFlush, blockOf, compareBlock } from "./blocks";
 import { readDate } from "./dates";
 import { cellIssue, report, shorten } from "./issues";
-import { type MassValue, type ParseState, type RowValues, pendingBits } from "./state";
+import { type ColumnDecimalEvidence, type MassValue, type ParseState, type RowValues, pendingBits } from "./state";
 import type { ColumnPlan, SeasonRecord } from "./types";
 
 const longestCell = 10_000;
@@ -64,7 +64,26 @@ function intern(state: ParseState, text: string): string {
   return copy;
 }
 
-function mass(state: ParseState, cells: readonly string[], column: ColumnPlan, line: number): MassValue {
+/** The decimal mark the grower chose for the column (or the file), if any. */
+export function chosenMark(state: ParseState, column: ColumnPlan): DecimalMark | undefined {
+  return state.options.decimalByColumn?.[column.header] ?? state.options.decimal;
+}
+
+function evidenceOf(state: ParseState, column: ColumnPlan): ColumnDecimalEvidence {
+  let evidence = state.decimalEvidence.get(column.index);
+  if (evidence === undefined) {
+    evidence = { column, comma: 0, point: 0, firstEither: null };
+    state.decimalEvidence.set(column.index, evidence);
+  }
+  return evidence;
+}
+
+/**
+ * A mass cell. The decimal mark is never guessed: a number that reads only one way is read so;
+ * one that reads two ways ("2.720") is read with the mark the grower chose, or else waits for
+ * the end of the file, where the column's (or the file's) other numbers settle the mark.
+ */
+function mass(state: ParseState, cells: readonly string[], column: ColumnPlan, line: number, bit: number): MassValue {
   const text = cell(cells, column.index);
   if (text === "") return null;
   let masses = state.caches.masses.get(column.index);
@@ -74,7 +93,20 @@ function mass(state: ParseState, cells: readonly string[], column: ColumnPlan, l
   }
   const known = masses.get(text);
   if (known !== undefined) return known;
-  const reading = readMass(text, { defaultUnit: column.unit, decimal: state.decimal });
+  const chosen = chosenMark(state, column);
+  const number = massNumberText(text);
+  const evidence = number === null ? null : decimalEvidence(number);
+  if (evidence !== null) {
+    const counts = evidenceOf(state, column);
+    if (evidence === ",") counts.comma++;
+    else if (evidence === ".") counts.point++;
+    else if (chosen === undefined) {
+      counts.firstEither ??= { line, value: ownCopy(text) };
+      state.rowPending |= bit;
+      return { grams: Number.NaN, written: { value: ownCopy(text), unit: column.unit ?? "g" } };
+    }
+  }
+  const reading = readMass(text, { defaultUnit: column.unit, decimal: chosen ?? (evidence === "," ? "," : ".") });
   if ("error" in reading) {
     cellIssue(state.issues, line, column, reading.code, text, "error", reading.error);
     return null;
@@ -85,38 +117,39 @@ function mass(state: ParseState, cells: readonly string[], column: ColumnPlan, l
   return read;
 }
 
-/** A date as "YYYY-MM-DD", or the text itself when it waits for the file's date order (flagged for the row). */
+/**
+ * A date cell: its text, which the record holds until the end of the file, where the file's
+ * date order is known (flagged for the row). An unreadable date is reported here and is null.
+ */
 function date(state: ParseState, cells: readonly string[], column: ColumnPlan, line: number, bit: number): string | null {
   const text = cell(cells, column.index);
   if (text === "") return null;
   const dates = state.caches.dates;
-  let reading = dates.get(text);
-  if (reading === undefined) {
-    reading = readDate(text);
-    if (reading.kind !== "date" && reading.kind !== "error") dates.set(ownCopy(text), reading);
-    else if (dates.size < mostCachedDates) dates.set(ownCopy(text), reading);
+  let entry = dates.get(text);
+  if (entry === undefined) {
+    entry = { reading: readDate(text), written: ownCopy(text) };
+    if (entry.reading.kind !== "date" || dates.size < mostCachedDates) dates.set(entry.written, entry);
   }
+  const reading = entry.reading;
   const evidence = state.dateEvidence;
   switch (reading.kind) {
-    case "date":
-      return reading.iso;
     case "error":
       cellIssue(state.issues, line, column, reading.code, text, "error", reading.error);
       return null;
     case "either":
-      evidence.firstEither ??= { line, column: column.header, value: text };
+      evidence.firstEither ??= { line, column: column.header, value: entry.written };
       break;
     case "dmy-only":
       evidence.dayFirstOnly++;
-      evidence.firstDayFirst ??= { line, column: column.header, value: text };
+      evidence.firstDayFirst ??= { line, column: column.header, value: entry.written };
       break;
     case "mdy-only":
       evidence.monthFirstOnly++;
-      evidence.firstMonthFirst ??= { line, column: column.header, value: text };
+      evidence.firstMonthFirst ??= { line, column: column.header, value: entry.written };
       break;
   }
-  state.rowPendingDates |= bit;
-  return ownCopy(text);
+  state.rowPending |= bit;
+  return entry.written;
 }
 
 function optionalText(state: ParseState, cells: readonly string[], column: ColumnPlan): string | null {
@@ -155,7 +188,10 @@ function moisture(state: ParseState, cells: readonly string[], line: number): nu
   const moistures = state.caches.moistures;
   let reading = moistures.get(text);
   if (reading === undefined) {
-    reading = parseMoisture(text, { decimal: state.decimal });
+    // "62.500 %" read with "." grouping thousands would be 62 500 %: a moisture that reads two ways is a fraction.
+    const evidence = decimalEvidence(text.replace(/\s*%$/, ""));
+    const decimal = chosenMark(state, column) ?? (evidence === "," ? "," : evidence === "." ? "." : text.includes(",") ? "," : ".");
+    reading = parseMoisture(text, { decimal });
     if (moistures.size < mostInternedTexts) moistures.set(text, reading);
   }
   if ("error" in reading) {
@@ -171,20 +207,20 @@ function addRecord(
   harvestedOn: string | null,
   fresh: MassValue,
   dry: MassValue,
-  harvestPendingDates: number,
+  harvestPending: number,
 ): void {
   const row = state.row;
   const record = new ParsedRecord(row, flush, harvestedOn, fresh, dry);
   const index = state.records.length;
   state.records.push(record);
-  const pending = row.pendingDates | harvestPendingDates;
+  const pending = row.pending | harvestPending;
   if (pending !== 0) {
-    if (index >= state.pendingDates.length) {
-      const grown = new Uint8Array(state.pendingDates.length * 2);
-      grown.set(state.pendingDates);
-      state.pendingDates = grown;
+    if (index >= state.pending.length) {
+      const grown = new Uint8Array(state.pending.length * 2);
+      grown.set(state.pending);
+      state.pending = grown;
     }
-    state.pendingDates[index] = pending;
+    state.pending[index] = pending;
   }
   if (row.block !== null && flush !== null) addFlush(state, row.block, record, flush, row.line);
 }
@@ -195,10 +231,9 @@ function harvestRow(state: ParseState, cells: readonly string[], line: number): 
   const freshColumn = columns.fresh_weight;
   const flushText = cell(cells, flushColumn.index);
   const freshText = cell(cells, freshColumn.index);
-  state.rowPendingDates = 0;
+  state.rowPending = 0;
   const harvestedOn = date(state, cells, columns.harvested_on, line, pendingBits.harvested);
-  const harvestPendingDates = state.rowPendingDates;
-  const dry = mass(state, cells, columns.dry_weight, line);
+  const dry = mass(state, cells, columns.dry_weight, line, pendingBits.dry);
   if (flushText === "" && freshText === "") {
     if (harvestedOn !== null || dry !== null) {
       const column = harvestedOn !== null ? columns.harvested_on : columns.dry_weight;
@@ -252,8 +287,8 @@ function harvestRow(state: ParseState, cells: readonly string[], line: number): 
       "error",
       `the fresh weight${flush === null ? "" : ` of flush ${flush}`} is missing. Enter what was picked, with its unit, or clear the flush number if the row is only the block.`,
     );
-  } else fresh = mass(state, cells, freshColumn, line);
-  addRecord(state, flush, harvestedOn, fresh, dry, harvestPendingDates);
+  } else fresh = mass(state, cells, freshColumn, line, pendingBits.fresh);
+  addRecord(state, flush, harvestedOn, fresh, dry, state.rowPending);
 }
 
 /** Cells longer than a season log holds, and values beyond the header's last column. */
@@ -310,7 +345,7 @@ export function readDataRow(state: ParseState, cells: string[], line: number): v
       "error",
       "the block code is missing. Every row needs the code of its block: fill it in, or delete the row.",
     );
-  state.rowPendingDates = 0;
+  state.rowPending = 0;
   const strainColumn = columns.strain;
   const strainText = cell(cells, strainColumn.index);
   let strainCode = strainText;
@@ -330,9 +365,9 @@ export function readDataRow(state: ParseState, cells: string[], line: number): v
   row.block = blockText === "" ? null : blockOf(state, blockText, line, ownCopy);
   row.blockCode = row.block === null ? "" : row.block.code;
   row.strainCode = strainCode;
-  row.pendingDates = 0;
+  row.pending = 0;
   row.inoculatedOn = date(state, cells, columns.inoculated_on, line, pendingBits.inoculated);
-  row.wet = mass(state, cells, columns.block_wet_weight, line);
+  row.wet = mass(state, cells, columns.block_wet_weight, line, pendingBits.wet);
   row.moisture = moisture(state, cells, line);
   const contaminatedColumn = columns.contaminated;
   const contaminatedText = cell(cells, contaminatedColumn.index);
@@ -341,22 +376,22 @@ export function readDataRow(state: ParseState, cells: string[], line: number): v
   if ("error" in flag) cellIssue(state.issues, line, contaminatedColumn, flag.code, contaminatedText, "error", flag.error);
   else row.contaminated = flag.value;
   row.contaminatedOn = date(state, cells, columns.contaminated_on, line, pendingBits.contaminatedOn);
-  row.spent = mass(state, cells, columns.spent_weight, line);
+  row.spent = mass(state, cells, columns.spent_weight, line, pendingBits.spent);
   row.substrate = optionalText(state, cells, columns.substrate);
   row.trialCode = optionalText(state, cells, columns.trial);
   row.arm = optionalText(state, cells, columns.arm);
   row.fruitingMethod = optionalText(state, cells, columns.fruiting_method);
   const notesText = cell(cells, columns.notes.index);
   row.notes = notesText === "" ? null : ownCopy(notesText);
-  row.pendingDates = state.rowPendingDates;
+  row.pending = state.rowPending;
   const first = state.records.length;
   if (state.layout.format === "wide") {
     for (const wideFlush of state.layout.wide) {
       if (cell(cells, wideFlush.weight.index) === "") continue;
-      const fresh = mass(state, cells, wideFlush.weight, line);
-      state.rowPendingDates = 0;
+      state.rowPending = 0;
+      const fresh = mass(state, cells, wideFlush.weight, line, pendingBits.fresh);
       const harvestedOn = wideFlush.date === null ? null : date(state, cells, wideFlush.date, line, pendingBits.harvested);
-      addRecord(state, wideFlush.flush, harvestedOn, fresh, null, state.rowPendingDates);
+      addRecord(state, wideFlush.flush, harvestedOn, fresh, null, state.rowPending);
     }
     if (state.records.length === first) addRecord(state, null, null, null, null, 0);
   } else {

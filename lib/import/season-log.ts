@@ -1,6 +1,6 @@
 import { createTokeniser, type TokeniserState, tokenise } from "./csv";
 import { createDecoder, decodeBytes, type TextEncodingName } from "./decode";
-import { fileLevelIssues, finishRecords } from "./finish";
+import { fileLevelIssues, finishRecords, groupRepeatedIssues } from "./finish";
 import { report } from "./issues";
 import { type RowAboveHeader, readHeaderRow } from "./layout";
 import { readDataRow } from "./rows";
@@ -124,6 +124,7 @@ export function createSeasonLogParser(options: SeasonLogParserOptions = {}): Sea
   };
 
   let dateOrder: SeasonLogResult["detected"]["dateOrder"] = null;
+  let ambiguousDecimalColumns: string[] = [];
   return {
     write(chunk: string | Uint8Array): void {
       if (ended) return;
@@ -136,11 +137,17 @@ export function createSeasonLogParser(options: SeasonLogParserOptions = {}): Sea
         text(encoding === null || encoding === "text" ? "" : decodeBytes(decoder, new Uint8Array(0), true), true);
         const headerLine = state.layout.headerLine;
         fileLevelIssues(state.issues, { unclosedQuoteLine: tokeniser?.unclosedQuoteLine ?? null, headerLine, rowsAboveHeader, rows });
-        if (headerLine !== 0) dateOrder = finishRecords(state);
+        if (headerLine !== 0) {
+          const decided = finishRecords(state);
+          dateOrder = decided.dateOrder;
+          ambiguousDecimalColumns = decided.ambiguousDecimalColumns;
+          if (options.decimal === undefined && decided.fileMark !== null) state.decimal = decided.fileMark;
+        }
         state.issues.sort((a, b) => a.line - b.line);
+        state.issues = groupRepeatedIssues(state.issues);
         state.blocks.clear();
         state.caches = { interned: new Map(), dates: new Map(), strainChecks: new Map(), moistures: new Map(), masses: new Map() };
-        state.pendingDates = new Uint8Array(0);
+        state.pending = new Uint8Array(0);
         options.onProgress?.({ bytes, rows });
       }
       return {
@@ -153,6 +160,7 @@ export function createSeasonLogParser(options: SeasonLogParserOptions = {}): Sea
           dateOrder,
           format: state.layout.format,
           mapping: state.layout.mapping,
+          ...(ambiguousDecimalColumns.length > 0 ? { ambiguousDecimalColumns } : {}),
         },
       };
     },

@@ -71,10 +71,22 @@ export function sniffDecimal(rows: readonly string[][], delimiter: Delimiter): D
   return delimiter === "," ? "." : delimiter === ";" ? "," : ".";
 }
 
-const controlCharacters = /[\u0000-\u0008\u000e-\u001f\ufffd]/g;
+// C0 controls other than tab, line feed, vertical tab, form feed and carriage return. The
+// replacement character U+FFFD is not one: it is text (a program's stand-in for a character
+// it could not write, or a Windows-1252 byte the table leaves undefined).
+const controlCharacters = /[\u0000-\u0008\u000e-\u001f]/g;
+// Old DOS and Windows programs end a text file with Ctrl-Z (0x1A).
+const endOfFileMark = /\u001a+$/;
+// A short file with a stray control character or two is still a text file.
+const fewestControlsInBinary = 4;
 
-/** NUL, or more than one character in a hundred a control character: the file holds binary data, not text. */
+/**
+ * The sample holds binary data, not text: a NUL (text in UTF-8 or Windows-1252 never has
+ * one; UTF-16 was decoded before this), or control characters making up more than one in a
+ * hundred characters and at least `fewestControlsInBinary` of them.
+ */
 export function looksBinary(sample: string): boolean {
-  const control = sample.match(controlCharacters)?.length ?? 0;
-  return sample.includes("\u0000") || control > sample.length / 100;
+  if (sample.includes("\u0000")) return true;
+  const control = sample.replace(endOfFileMark, "").match(controlCharacters)?.length ?? 0;
+  return control >= fewestControlsInBinary && control > sample.length / 100;
 }

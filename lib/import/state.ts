@@ -32,8 +32,8 @@ export interface RowValues {
   contaminatedOn: string | null;
   spent: MassValue;
   notes: string | null;
-  /** Which of the row's block dates wait for the file's date order. */
-  pendingDates: number;
+  /** Which of the row's block cells are read only at the end. */
+  pending: number;
   block: BlockState | null;
 }
 
@@ -48,7 +48,8 @@ export interface DateEvidence {
 /** Cell readings already made, by cell text: a large file repeats its codes, dates and weights. */
 export interface ReadingCaches {
   interned: Map<string, string>;
-  dates: Map<string, DateReading>;
+  /** By cell text: the reading and one shared copy of the text, which records hold until the end. */
+  dates: Map<string, { reading: DateReading; written: string }>;
   strainChecks: Map<string, string | null>;
   moistures: Map<string, { fraction: number } | { error: string; code: "moisture_unreadable" | "moisture_out_of_range" }>;
   /** Per mass column (by position), masses already read: records that wrote the same share one reading. */
@@ -69,15 +70,31 @@ export interface ParseState {
   issues: SeasonLogIssue[];
   blocks: Map<string, BlockState>;
   caches: ReadingCaches;
-  /** Per record, bits for the dates that wait for the file's date order (see `pendingBits`). */
-  pendingDates: Uint8Array;
-  /** Bits of the dates being read for the current harvest (or block columns). */
-  rowPendingDates: number;
+  /**
+   * Per record, bits for the cells read only at the end (see `pendingBits`): every date, which
+   * waits for the file's date order (the record holds its text until then), and masses whose
+   * decimal mark only the whole file can settle (the record holds their text, grams null).
+   */
+  pending: Uint8Array;
+  /** Bits of the cells being read for the current harvest (or block columns). */
+  rowPending: number;
   dateEvidence: DateEvidence;
+  /** Per mass column (by position): what its numbers say about the decimal mark. */
+  decimalEvidence: Map<number, ColumnDecimalEvidence>;
   row: RowValues;
 }
 
-export const pendingBits = { inoculated: 1, harvested: 2, contaminatedOn: 4 } as const;
+export const pendingBits = { inoculated: 1, harvested: 2, contaminatedOn: 4, wet: 8, fresh: 16, dry: 32, spent: 64 } as const;
+export const pendingMassBits = pendingBits.wet | pendingBits.fresh | pendingBits.dry | pendingBits.spent;
+
+export interface ColumnDecimalEvidence {
+  column: ColumnPlan;
+  /** Numbers that read only with a decimal comma, and only with a decimal point. */
+  comma: number;
+  point: number;
+  /** The first number that reads both ways, which waits for the end of the file. */
+  firstEither: { line: number; value: string } | null;
+}
 
 function emptyColumns(): Record<SeasonLogColumnName, ColumnPlan> {
   const columns = {} as Record<SeasonLogColumnName, ColumnPlan>;
@@ -108,9 +125,10 @@ export function createParseState(options: SeasonLogOptions, today: string, strai
     issues: [],
     blocks: new Map(),
     caches: { interned: new Map(), dates: new Map(), strainChecks: new Map(), moistures: new Map(), masses: new Map() },
-    pendingDates: new Uint8Array(1024),
-    rowPendingDates: 0,
+    pending: new Uint8Array(1024),
+    rowPending: 0,
     dateEvidence: { dayFirstOnly: 0, monthFirstOnly: 0, firstDayFirst: null, firstMonthFirst: null, firstEither: null },
+    decimalEvidence: new Map(),
     row: {
       line: 0,
       blockCode: "",
@@ -126,7 +144,7 @@ export function createParseState(options: SeasonLogOptions, today: string, strai
       contaminatedOn: null,
       spent: null,
       notes: null,
-      pendingDates: 0,
+      pending: 0,
       block: null,
     },
   };

@@ -62,7 +62,7 @@ export function massUnitFromWord(word: string): MassUnit | null {
 // A troy ounce (31.1034768 g) is a precious-metals unit, never a harvest-scale "oz" (NIST Handbook 44, Appendix C).
 const troyOunce = /\btroy\b|\bozt\b|\boz\.?\s*t\b|\bt\.?\s*oz\b/;
 const poundsAndOunces = /^([-+]?)\s*([\d.,]+)\s*(?:lbs?|pounds?)\.?\s*([\d.,]+)\s*(?:oz|ounces?)\.?$/;
-const numberThenUnit = /^([-+]?)\s*([\d.,][\d.,\s'\u00a0\u202f]*?)\s*([a-z]+)?\.?$/;
+const numberThenUnit = /^([-+]?)\s*([\d.,][\d.,\s'\u00a0\u202f\u2019]*?)\s*([a-z]+)?\.?$/;
 const unicodeMinus = /\u2212/g;
 
 const howToWrite = 'Write it as a number and a unit, for example "2.5 kg", "850 g", "5 lb" or "4 lb 3 oz".';
@@ -119,6 +119,12 @@ export function readMass(text: string, options: MassOptions = {}): MassReading {
     };
   }
   return { grams: value * gramsPerUnit[unit], unit };
+}
+
+/** The number of a single mass as written ("2,5" of "2,5 kg"), for what it says about the decimal mark; null for compound masses. */
+export function massNumberText(text: string): string | null {
+  const single = numberThenUnit.exec(text.trim().toLowerCase().replace(unicodeMinus, "-"));
+  return single === null ? null : single[2].trim();
 }
 
 /** Converts a mass as written ("2,5 kg", "4 lb 3 oz", "850") to grams. */
