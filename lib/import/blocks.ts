@@ -300,6 +300,31 @@ export function blockAtFinish(state: ParseState, block: BlockState, record: Seas
   }
 }
 
+/** Dried mushrooms keep about a tenth of their fresh weight (common practice): more than all of it, or under a hundredth, is a wrong unit. */
+const fewestDryPerFresh = 0.01;
+
+/** At the end of the file: a harvest's dry weight against its fresh weight. */
+export function dryAgainstFresh(state: ParseState, record: SeasonRecord): void {
+  const { dryGrams, freshGrams } = record;
+  // A dry weight of 0 is "not weighed", as a generator rounding to whole ounces writes it.
+  if (dryGrams === null || freshGrams === null || freshGrams === 0 || dryGrams === 0) return;
+  if (dryGrams <= freshGrams && dryGrams >= fewestDryPerFresh * freshGrams) return;
+  const dry = record.dryAsWritten?.value ?? "";
+  const fresh = record.freshAsWritten?.value ?? "";
+  const what = `the dry weight "${shorten(dry)}" (${formatMass(dryGrams, "metric")}) is ${dryGrams > freshGrams ? "more than" : "under a hundredth of"} the fresh weight "${shorten(fresh)}" (${formatMass(freshGrams, "metric")}); dried mushrooms keep about a tenth. Check the units of both weights.`;
+  // Either weight can be the one read wrong: each column gets the issue.
+  cellIssue(state.issues, record.line, state.layout.columns.dry_weight, "dry_weight_implausible", dry, "error", what);
+  cellIssue(
+    state.issues,
+    record.line,
+    flushWeightColumn(state.layout, record.flush, "fresh_weight"),
+    "dry_weight_implausible",
+    fresh,
+    "error",
+    what,
+  );
+}
+
 /** Stage 5, at the end of the file: a flush heavier than the whole wet block. */
 export function flushHeavierThanBlock(state: ParseState, record: SeasonRecord): void {
   if (record.flush !== null && record.freshGrams !== null && record.wetBlockGrams !== null && record.freshGrams > record.wetBlockGrams) {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { createTokeniser, tokenise } from "./csv";
-import { type Delimiter, sampleRows, sniffDecimal, sniffDelimiter } from "./sniff";
+import { type Delimiter, looksBinary, sampleRows, sniffDecimal, sniffDelimiter } from "./sniff";
 
 function rows(text: string, delimiter: Delimiter = ",", chunk = text.length || 1): [number, string[]][] {
   const found: [number, string[]][] = [];
@@ -55,5 +55,18 @@ describe("sniffing", () => {
     expect(sniffDecimal(sampleRows("a;b\n1;2\n", ";", true), ";")).toBe(",");
     expect(sniffDecimal(sampleRows("a,b\n1,2\n", ",", true), ",")).toBe(".");
     expect(sniffDecimal(sampleRows('a,b\n1,"1.234,5"\n', ",", true), ",")).toBe(",");
+  });
+});
+
+describe("looksBinary", () => {
+  it("takes U+FFFD, a stray control character in a short file and a trailing Ctrl-Z for text", () => {
+    expect(looksBinary("a,b\nK\ufffd1,\ufffd\ufffd\n")).toBe(false);
+    expect(looksBinary("block_id,strain\nB-1,PO-03\u0007\n")).toBe(false);
+    expect(looksBinary("block_id,strain\nB-1,PO-03\n\u001a")).toBe(false);
+  });
+
+  it("takes a NUL, or control characters throughout, for binary", () => {
+    expect(looksBinary("PK\u0003\u0004\u0014\u0000\u0006")).toBe(true);
+    expect(looksBinary("a\u0001b\u0002c\u0003d\u0004e\u0005f")).toBe(true);
   });
 });

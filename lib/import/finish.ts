@@ -1,7 +1,17 @@
 import { type DecimalMark, massNumberText, parseDecimalNumber, readMass } from "../units";
-import { type WrittenDates, blockAtFinish, blockEfficiency, blockTotals, compareSettledMass, flushHeavierThanBlock, slot } from "./blocks";
+import {
+  type WrittenDates,
+  blockAtFinish,
+  blockEfficiency,
+  blockTotals,
+  compareSettledMass,
+  dryAgainstFresh,
+  flushHeavierThanBlock,
+  slot,
+} from "./blocks";
 import { type DateOrder, type DateReading, describeOrder, readDate, wrongOrderMessage } from "./dates";
 import { cellIssue, report, shorten, writtenDate } from "./issues";
+import { implausibleMass } from "./rows";
 import { flushWeightColumn, harvestDateColumn, type RowAboveHeader } from "./layout";
 import { type DateEvidence, type ParseState, pendingBits, pendingMassBits } from "./state";
 import { type ColumnPlan, type SeasonLogIssue, type SeasonRecord, absentColumn } from "./types";
@@ -286,6 +296,8 @@ function settleMasses(state: ParseState, marks: ReadonlyMap<number, DecimalMark 
       }
       record[field.grams] = reading.grams;
       record[field.written] = { value: written.value, unit: reading.unit };
+      const implausible = implausibleMass(field.bit, written.value, reading.grams);
+      if (implausible !== null) cellIssue(state.issues, record.line, column, "mass_implausible", written.value, "error", implausible);
     }
     const block = record.blockCode === "" ? undefined : state.blocks.get(record.blockCode);
     if (block === undefined) continue;
@@ -294,10 +306,10 @@ function settleMasses(state: ParseState, marks: ReadonlyMap<number, DecimalMark 
   }
 }
 
-// Oyster and shiitake blocks give roughly 50–150 % (common practice). A column whose blocks sit
-// a power of ten outside that, as a whole, has its unit or decimal mark read wrong.
-const lowestColumnEfficiency = 1;
-const highestColumnEfficiency = 1000;
+// Oyster and shiitake blocks give roughly 50–150 %, a single block rarely over 250 % (common
+// practice). When the file's typical block is outside 5–400 %, a unit or decimal mark is read wrong.
+const lowestColumnEfficiency = 5;
+const highestColumnEfficiency = 400;
 /** Blocks with a biological efficiency needed before a column is judged as a whole. */
 const fewestBlocksForColumnCheck = 3;
 
@@ -330,19 +342,57 @@ function checkMassColumns(state: ParseState): boolean {
   const typical = median(efficiencies);
   if (typical >= lowestColumnEfficiency && typical <= highestColumnEfficiency) return true;
   const { layout } = state;
-  const column = layout.format === "wide" ? (layout.wide[0]?.weight ?? absentColumn) : layout.columns.fresh_weight;
-  const wet = layout.columns.block_wet_weight;
+  const freshColumn = layout.format === "wide" ? (layout.wide[0]?.weight ?? absentColumn) : layout.columns.fresh_weight;
+  const wetColumn = layout.columns.block_wet_weight;
   const fresh = example.freshAsWritten?.value ?? "";
+  const wet = example.wetBlockAsWritten?.value ?? "";
+  const read = `read as they are written (such as "${shorten(fresh)}" in column "${freshColumn.header}" on line ${example.line}, against a wet block of "${shorten(wet)}" in column "${wetColumn.header}"), the blocks' biological efficiency is ${Math.round(typical)} % (the median of ${efficiencies.length} blocks), far ${typical > highestColumnEfficiency ? "above" : "below"} what blocks reach (about 50–150 %).`;
+  const check = "check the units in the headers and cells, and the decimal mark in the mapping step.";
+  // Either column can be the one read wrong: both are named, each on its own column.
   cellIssue(
     state.issues,
     layout.headerLine,
-    column,
+    freshColumn,
     "mass_column_implausible",
     fresh,
     "error",
-    `read as they are written (such as "${shorten(fresh)}" on line ${example.line}, against a wet block of "${shorten(example.wetBlockAsWritten?.value ?? "")}" in column "${wet.header}"), the blocks' biological efficiency is ${Math.round(typical)} % (the median of ${efficiencies.length} blocks), far ${typical > highestColumnEfficiency ? "above" : "below"} what blocks reach (about 50–150 %). The weights of this column or of "${wet.header}" are read in the wrong unit or with the wrong decimal mark: check the units in the headers and cells, and the decimal mark in the mapping step.`,
+    `${read} This column's weights or the wet block weights are read in the wrong unit or with the wrong decimal mark: ${check}`,
+  );
+  cellIssue(
+    state.issues,
+    layout.headerLine,
+    wetColumn,
+    "mass_column_implausible",
+    wet,
+    "error",
+    `${read} These wet block weights or the fresh weights are read in the wrong unit or with the wrong decimal mark: ${check}`,
   );
   return false;
+}
+
+/**
+ * The dry weights against the fresh weights, column as a whole (as `checkMassColumns` does for
+ * efficiency): a typical dry-to-fresh ratio outside 1–100 % means one of the columns is read in
+ * the wrong unit, even where no single row shows it.
+ */
+function checkDryColumn(state: ParseState): void {
+  const ratios: number[] = [];
+  let example: SeasonRecord | null = null;
+  for (const record of state.records) {
+    if (record.dryGrams === null || record.freshGrams === null || record.dryGrams === 0 || record.freshGrams === 0) continue;
+    ratios.push(record.dryGrams / record.freshGrams);
+    example ??= record;
+  }
+  if (ratios.length < fewestBlocksForColumnCheck || example === null) return;
+  const typical = median(ratios);
+  if (typical >= 0.01 && typical <= 1) return;
+  const { layout } = state;
+  const freshColumn = flushWeightColumn(layout, example.flush, "fresh_weight");
+  const dry = example.dryAsWritten?.value ?? "";
+  const fresh = example.freshAsWritten?.value ?? "";
+  const what = `read as they are written (such as "${shorten(dry)}" dry against "${shorten(fresh)}" fresh on line ${example.line}), the dry weights are typically ${Math.round(typical * 1000) / 10} % of the fresh weights (the median of ${ratios.length} harvests); dried mushrooms keep about a tenth. One of the columns "${layout.columns.dry_weight.header}" and "${freshColumn.header}" is read in the wrong unit: check the units in the headers and cells.`;
+  cellIssue(state.issues, layout.headerLine, layout.columns.dry_weight, "mass_column_implausible", dry, "error", what);
+  cellIssue(state.issues, layout.headerLine, freshColumn, "mass_column_implausible", fresh, "error", what);
 }
 
 /**
@@ -379,8 +429,10 @@ export function finishRecords(state: ParseState): {
     if (block !== undefined) blockAtFinish(state, block, record, index, written);
     futureDates(state, future, record, written);
     if (block !== undefined) flushHeavierThanBlock(state, record);
+    dryAgainstFresh(state, record);
   }
   const efficiencyChecked = checkMassColumns(state);
+  checkDryColumn(state);
   for (const [code, block] of state.blocks) blockTotals(state, code, block, efficiencyChecked);
   return { dateOrder: order, ambiguousDecimalColumns: settled.ambiguous, fileMark: settled.fileMark };
 }

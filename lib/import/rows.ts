@@ -1,4 +1,4 @@
-import { type DecimalMark, decimalEvidence, massNumberText, parseMoisture, parseYesNo, readMass } from "../units";
+import { type DecimalMark, decimalEvidence, formatMass, massNumberText, parseMoisture, parseYesNo, readMass } from "../units";
 import { addFlush, blockOf, compareBlock } from "./blocks";
 import { readDate } from "./dates";
 import { cellIssue, report, shorten } from "./issues";
@@ -64,6 +64,24 @@ function intern(state: ParseState, text: string): string {
   return copy;
 }
 
+// What one block can weigh: a bag, jar or log of substrate from 250 g to 50 kg (spent, from 100 g),
+// a flush from 1 g to 25 kg fresh and a fifth of that dried (common practice: sawdust blocks are
+// 1–5 kg, test jars about 300 g, straw logs up to about 20 kg, mushrooms dry to about a tenth). Outside that the unit is wrong (grams under a
+// "(kg)" header, pounds taken for grams …).
+const massLimits: Readonly<Record<number, { least: number; most: number; words: string }>> = {
+  [pendingBits.wet]: { least: 250, most: 50_000, words: "a block weighs when it is made (250 g to 50 kg)" },
+  [pendingBits.spent]: { least: 100, most: 50_000, words: "a spent block weighs (100 g to 50 kg)" },
+  [pendingBits.fresh]: { least: 1, most: 25_000, words: "one block gives in one flush (1 g to 25 kg)" },
+  [pendingBits.dry]: { least: 0.1, most: 5_000, words: "one block's flush weighs dried (0.1 g to 5 kg)" },
+};
+
+/** Why a mass cannot be right for its column (`bit` says which), or null when it can. */
+export function implausibleMass(bit: number, text: string, grams: number): string | null {
+  const limits = massLimits[bit];
+  if (limits === undefined || (grams >= limits.least && grams <= limits.most) || grams === 0) return null;
+  return `"${shorten(text)}" reads as ${formatMass(grams, "metric")}, ${grams > limits.most ? "more" : "less"} than ${limits.words}. Check the unit in the cell and in the column header.`;
+}
+
 /** The decimal mark the grower chose for the column (or the file), if any. */
 export function chosenMark(state: ParseState, column: ColumnPlan): DecimalMark | undefined {
   return state.options.decimalByColumn?.[column.header] ?? state.options.decimal;
@@ -113,7 +131,10 @@ function mass(state: ParseState, cells: readonly string[], column: ColumnPlan, l
   }
   const value = ownCopy(text);
   const read = { grams: reading.grams, written: { value, unit: reading.unit } };
-  if (masses.size < mostInternedTexts) masses.set(value, read);
+  const implausible = implausibleMass(bit, text, reading.grams);
+  // Not kept with the readings: each such cell is reported.
+  if (implausible !== null) cellIssue(state.issues, line, column, "mass_implausible", text, "error", implausible);
+  else if (masses.size < mostInternedTexts) masses.set(value, read);
   return read;
 }
 
