@@ -25,4 +25,7 @@ export {
   type SeasonRecord,
   createSeasonLogParser,
   parseSeasonLog,
+  parseWorkbook,
 } from "./season-log";
+export { type WorkbookKind, workbookKind } from "./spreadsheet";
+export { seasonLogTemplateXlsx } from "./template-xlsx";

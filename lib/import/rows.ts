@@ -104,15 +104,17 @@ function evidenceOf(state: ParseState, column: ColumnPlan): ColumnDecimalEvidenc
 function mass(state: ParseState, cells: readonly string[], column: ColumnPlan, line: number, bit: number): MassValue {
   const text = cell(cells, column.index);
   if (text === "") return null;
-  let masses = state.caches.masses.get(column.index);
+  let masses = state.caches.masses.get(state.typedNumbers?.[column.index] === true ? -2 - column.index : column.index);
   if (masses === undefined) {
     masses = new Map();
-    state.caches.masses.set(column.index, masses);
+    state.caches.masses.set(state.typedNumbers?.[column.index] === true ? -2 - column.index : column.index, masses);
   }
   const known = masses.get(text);
   if (known !== undefined) return known;
-  const chosen = chosenMark(state, column);
-  const number = massNumberText(text);
+  // A spreadsheet's number cell is written with "." and no grouping: there is nothing to settle.
+  const typed = state.typedNumbers?.[column.index] === true;
+  const chosen = typed ? "." : chosenMark(state, column);
+  const number = typed ? null : massNumberText(text);
   const evidence = number === null ? null : decimalEvidence(number);
   if (evidence !== null) {
     const counts = evidenceOf(state, column);
@@ -211,7 +213,10 @@ function moisture(state: ParseState, cells: readonly string[], line: number): nu
   if (reading === undefined) {
     // "62.500 %" read with "." grouping thousands would be 62 500 %: a moisture that reads two ways is a fraction.
     const evidence = decimalEvidence(text.replace(/\s*%$/, ""));
-    const decimal = chosenMark(state, column) ?? (evidence === "," ? "," : evidence === "." ? "." : text.includes(",") ? "," : ".");
+    const decimal =
+      state.typedNumbers?.[column.index] === true
+        ? "."
+        : (chosenMark(state, column) ?? (evidence === "," ? "," : evidence === "." ? "." : text.includes(",") ? "," : "."));
     reading = parseMoisture(text, { decimal });
     if (moistures.size < mostInternedTexts) moistures.set(text, reading);
   }

@@ -82,6 +82,8 @@ export interface ParseState {
   /** Per mass column (by position): what its numbers say about the decimal mark. */
   decimalEvidence: Map<number, ColumnDecimalEvidence>;
   row: RowValues;
+  /** For a spreadsheet's row: which cells held numbers (read with "." and no guessing), else null. */
+  typedNumbers: boolean[] | null;
 }
 
 export const pendingBits = { inoculated: 1, harvested: 2, contaminatedOn: 4, wet: 8, fresh: 16, dry: 32, spent: 64 } as const;
@@ -129,6 +131,7 @@ export function createParseState(options: SeasonLogOptions, today: string, strai
     rowPending: 0,
     dateEvidence: { dayFirstOnly: 0, monthFirstOnly: 0, firstDayFirst: null, firstMonthFirst: null, firstEither: null },
     decimalEvidence: new Map(),
+    typedNumbers: null,
     row: {
       line: 0,
       blockCode: "",

@@ -93,6 +93,8 @@ export interface SeasonLogDetected {
   mapping: HeaderMapping;
   /** Columns (by header) whose numbers read two ways and that nothing in the file settles: the grower must choose. */
   ambiguousDecimalColumns?: string[];
+  /** For a spreadsheet file: its kind, the sheet read (null when none could be) and every sheet's name. */
+  workbook?: { kind: "xlsx" | "ods"; sheet: string | null; sheets: string[] };
 }
 
 export interface SeasonLogResult {

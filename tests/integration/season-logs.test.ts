@@ -59,7 +59,7 @@ function sheet(prefix: string, blocks: number[], options: { flushes?: number; fr
 async function upload(context: FarmContext, text: string, fileName = "season.csv", choices: ParseChoices = {}): Promise<UploadView> {
   const content = new TextEncoder().encode(text);
   const setup = await getImportSetup(context);
-  return createUpload(context, { fileName, content, result: parseStored(content, setup, choices), choices });
+  return createUpload(context, { fileName, content, result: await parseStored(content, setup, choices), choices });
 }
 
 async function storedHarvests(farm: DemoFarm, prefix: string) {
