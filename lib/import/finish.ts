@@ -414,13 +414,13 @@ export function finishRecords(state: ParseState): {
   const order = decided.order;
   const resolving: Reported = { line: 0, columns: new Set() };
   const future: Reported = { line: 0, columns: new Set() };
+  // One object reused for every record's dates as written, rather than one per record.
+  const written: WrittenDates = { inoculatedOn: null, harvestedOn: null, contaminatedOn: null };
   for (let index = 0; index < records.length; index++) {
     const record = records[index];
-    const written: WrittenDates = {
-      inoculatedOn: record.inoculatedOn,
-      harvestedOn: record.harvestedOn,
-      contaminatedOn: record.contaminatedOn,
-    };
+    written.inoculatedOn = record.inoculatedOn;
+    written.harvestedOn = record.harvestedOn;
+    written.contaminatedOn = record.contaminatedOn;
     const mask = index < state.pending.length ? state.pending[index] : 0;
     if (mask & pendingBits.inoculated) resolveDate(state, resolving, order, record, "inoculatedOn", layout.columns.inoculated_on);
     if (mask & pendingBits.contaminatedOn) resolveDate(state, resolving, order, record, "contaminatedOn", layout.columns.contaminated_on);

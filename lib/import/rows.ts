@@ -397,7 +397,11 @@ export function readDataRow(state: ParseState, cells: string[], line: number): v
   row.moisture = moisture(state, cells, line);
   const contaminatedColumn = columns.contaminated;
   const contaminatedText = cell(cells, contaminatedColumn.index);
-  const flag = parseYesNo(contaminatedText);
+  let flag = state.caches.yesNo.get(contaminatedText);
+  if (flag === undefined) {
+    flag = parseYesNo(contaminatedText);
+    if (state.caches.yesNo.size < mostInternedTexts) state.caches.yesNo.set(ownCopy(contaminatedText), flag);
+  }
   row.contaminated = null;
   if ("error" in flag) cellIssue(state.issues, line, contaminatedColumn, flag.code, contaminatedText, "error", flag.error);
   else row.contaminated = flag.value;

@@ -5,7 +5,7 @@ import { report, shorten } from "./issues";
 import { type RowAboveHeader, readHeaderRow } from "./layout";
 import { readDataRow } from "./rows";
 import { type Delimiter, looksBinary, sampleRows, sniffDecimal, sniffDelimiter } from "./sniff";
-import { type ParseState, createParseState } from "./state";
+import { type ParseState, createParseState, emptyCaches } from "./state";
 import { StrainRegister } from "./strains";
 import { type WorkbookKind, readWorkbook } from "./spreadsheet";
 import type {
@@ -102,7 +102,7 @@ function createRowReader(options: SeasonLogParserOptions): RowReader {
       state.issues.sort((a, b) => a.line - b.line);
       state.issues = groupRepeatedIssues(state.issues);
       state.blocks.clear();
-      state.caches = { interned: new Map(), dates: new Map(), strainChecks: new Map(), moistures: new Map(), masses: new Map() };
+      state.caches = emptyCaches();
       state.pending = new Uint8Array(0);
       options.onProgress?.({ bytes, rows });
       return { issues: state.issues, dateOrder, ambiguousDecimalColumns };

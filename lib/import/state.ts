@@ -1,4 +1,4 @@
-import type { DecimalMark } from "../units";
+import type { DecimalMark, parseYesNo } from "../units";
 import type { BlockState } from "./blocks";
 import type { DateReading } from "./dates";
 import { mapHeaders, withoutBadTargets } from "./headers";
@@ -52,6 +52,7 @@ export interface ReadingCaches {
   dates: Map<string, { reading: DateReading; written: string }>;
   strainChecks: Map<string, string | null>;
   moistures: Map<string, { fraction: number } | { error: string; code: "moisture_unreadable" | "moisture_out_of_range" }>;
+  yesNo: Map<string, ReturnType<typeof parseYesNo>>;
   /** Per mass column (by position), masses already read: records that wrote the same share one reading. */
   masses: Map<number, Map<string, NonNullable<MassValue>>>;
 }
@@ -116,6 +117,10 @@ export function emptyLayout(): Layout {
   };
 }
 
+export function emptyCaches(): ReadingCaches {
+  return { interned: new Map(), dates: new Map(), strainChecks: new Map(), moistures: new Map(), yesNo: new Map(), masses: new Map() };
+}
+
 export function createParseState(options: SeasonLogOptions, today: string, strains: StrainRegister | null): ParseState {
   return {
     options,
@@ -126,7 +131,7 @@ export function createParseState(options: SeasonLogOptions, today: string, strai
     records: [],
     issues: [],
     blocks: new Map(),
-    caches: { interned: new Map(), dates: new Map(), strainChecks: new Map(), moistures: new Map(), masses: new Map() },
+    caches: emptyCaches(),
     pending: new Uint8Array(1024),
     rowPending: 0,
     dateEvidence: { dayFirstOnly: 0, monthFirstOnly: 0, firstDayFirst: null, firstMonthFirst: null, firstEither: null },

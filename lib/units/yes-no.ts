@@ -26,12 +26,12 @@ for (const language of Object.values(words)) {
   for (const word of language.no) noWords.add(word);
 }
 
+const formulaBoolean = /^=?(.*?)(?:\(\))?$/u;
+
 /** Lower case, and a spreadsheet's boolean that some programs export wrapped as a formula result ("=TRUE()"). */
 function normalise(text: string): string {
-  return text
-    .trim()
-    .toLowerCase()
-    .replace(/^=?(.*?)(?:\(\))?$/u, "$1");
+  const word = text.trim().toLowerCase();
+  return word.startsWith("=") || word.endsWith("()") ? word.replace(formulaBoolean, "$1") : word;
 }
 
 /**

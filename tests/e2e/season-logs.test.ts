@@ -74,7 +74,9 @@ describe("a grower uploads a season log", () => {
   });
 
   it("uploads an .xlsx workbook LibreOffice wrote, chooses its sheet, and commits its typed cells", async () => {
-    const page = await browser.newPage();
+    // A browser of its own: the first test's is signed in already.
+    const desk = await openBrowser();
+    const page = await desk.newPage();
     const errors = collectPageErrors(page);
     await new SignInPage(page).signIn("grower@fernbrook.example");
     await new AppShell(page).waitUntilSignedIn();
@@ -106,7 +108,7 @@ describe("a grower uploads a season log", () => {
     await blocks.filter("XL-");
     expect(await blocks.blockCodes()).toEqual(["XL-01", "XL-02"]);
     expect(errors).toEqual([]);
-    await page.close();
+    await desk.close();
   });
 
   it("records the next flush from the quick form on a phone", async () => {
