@@ -48,7 +48,7 @@ export interface BlockState {
   contaminatedLine: number;
   /** Flush number and line of each harvest, in pairs: [flush, line, flush, line …]. */
   harvests: readonly number[];
-  /** Fresh weight of all its harvests, summed at the end of the file. */
+  /** Fresh weight of all its harvests. */
   freshGrams: number;
   /** The inoculation and contamination dates as written on the row that first gave them. */
   inoculatedWritten: string | null;
@@ -159,6 +159,10 @@ export function addFlush(state: ParseState, block: BlockState, record: SeasonRec
   } else {
     block.harvests = [...block.harvests, flush, line];
   }
+  // Summed as the rows come in (NaN: a weight read at the end, added there). Summed at the end
+  // instead, the first fraction written turned the field from whole numbers to decimals on
+  // every block already made, and V8 then migrated each block object: it tripled the end's time.
+  if (record.freshGrams !== null && !Number.isNaN(record.freshGrams)) block.freshGrams += record.freshGrams;
 }
 
 /**
@@ -272,7 +276,6 @@ export function blockAtFinish(state: ParseState, block: BlockState, record: Seas
     record.spentAsWritten = records[source[slot.spentGrams]].spentAsWritten;
   }
   record.contaminated = block.contaminated ?? record.contaminatedOn !== null;
-  if (record.flush !== null && record.freshGrams !== null) block.freshGrams += record.freshGrams;
   if (record.harvestedOn !== null && record.inoculatedOn !== null && record.harvestedOn < record.inoculatedOn) {
     const harvested = written.harvestedOn ?? record.harvestedOn;
     const inoculated = written.inoculatedOn ?? block.inoculatedWritten ?? record.inoculatedOn;

@@ -296,6 +296,8 @@ function settleMasses(state: ParseState, marks: ReadonlyMap<number, DecimalMark 
       }
       record[field.grams] = reading.grams;
       record[field.written] = { value: written.value, unit: reading.unit };
+      if (field.bit === pendingBits.fresh && record.flush !== null && record.blockCode !== "")
+        (state.blocks.get(record.blockCode) as NonNullable<ReturnType<typeof state.blocks.get>>).freshGrams += reading.grams;
       const implausible = implausibleMass(field.bit, written.value, reading.grams);
       if (implausible !== null) cellIssue(state.issues, record.line, column, "mass_implausible", written.value, "error", implausible);
     }
@@ -314,7 +316,8 @@ const highestColumnEfficiency = 400;
 const fewestBlocksForColumnCheck = 3;
 
 function median(values: number[]): number {
-  const sorted = [...values].sort((a, b) => a - b);
+  // A typed array sorts numbers as numbers, without a comparison function: many times faster for the blocks of a large file.
+  const sorted = Float64Array.from(values).sort();
   const middle = Math.floor(sorted.length / 2);
   return sorted.length % 2 === 1 ? sorted[middle] : (sorted[middle - 1] + sorted[middle]) / 2;
 }

@@ -1,5 +1,4 @@
 import { Readable } from "node:stream";
-import ExcelJS from "exceljs";
 import { XMLParser } from "fast-xml-parser";
 import { Unzip, UnzipInflate, unzipSync } from "fflate";
 
@@ -102,6 +101,8 @@ async function readXlsx(bytes: Uint8Array, sheet: string | undefined, onRow: (ro
   const sheets: string[] = [];
   let chosen: string | null = null;
   try {
+    // Loaded when a workbook arrives: a CSV upload never needs exceljs.
+    const { default: ExcelJS } = await import("exceljs");
     const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength)]), {
       sharedStrings: "cache",
       styles: "cache",
