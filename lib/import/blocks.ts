@@ -130,8 +130,15 @@ function blockIssue(state: ParseState, record: SeasonRecord, name: SeasonLogColu
   cellIssue(state.issues, record.line, state.layout.columns[name], code, value, "error", what);
 }
 
-function disagreement(state: ParseState, rule: BlockAttributeRule, record: SeasonRecord, earlier: SeasonRecord): void {
-  const value = rule.shown(record);
+/** `writtenHere`: the row's cell as written, where the reading differs from it (a moisture, a strain in the co-op's spelling). */
+function disagreement(
+  state: ParseState,
+  rule: BlockAttributeRule,
+  record: SeasonRecord,
+  earlier: SeasonRecord,
+  writtenHere?: string,
+): void {
+  const value = writtenHere ?? rule.shown(record);
   blockIssue(
     state,
     record,
@@ -175,7 +182,7 @@ export function compareBlock(
   recordIndex: number,
   line: number,
   contaminated: boolean | null,
-  contaminatedWritten: string,
+  cells: readonly string[],
 ): void {
   const record = state.records[recordIndex];
   for (const rule of rowBlockAttributes) {
@@ -188,7 +195,10 @@ export function compareBlock(
       continue;
     }
     const earlier = state.records[source];
-    if (!rule.same(earlier, record)) disagreement(state, rule, record, earlier);
+    if (!rule.same(earlier, record)) {
+      const index = state.layout.columns[rule.column].index;
+      disagreement(state, rule, record, earlier, index >= 0 && index < cells.length ? cells[index].trim() : undefined);
+    }
   }
   if (contaminated !== null) {
     if (block.contaminated === null) {
@@ -200,7 +210,7 @@ export function compareBlock(
         record,
         "contaminated",
         "contamination_disagrees",
-        contaminatedWritten,
+        cells[state.layout.columns.contaminated.index]?.trim() ?? "",
         `block ${record.blockCode} is marked ${contaminated ? "contaminated" : "not contaminated"} here but ${block.contaminated ? "contaminated" : "not contaminated"} on line ${block.contaminatedLine}. A block's details must be the same on every row: correct one of them.`,
       );
     }

@@ -11,7 +11,8 @@ import {
 } from "./blocks";
 import { type DateOrder, type DateReading, describeOrder, readDate, wrongOrderMessage } from "./dates";
 import { cellIssue, report, shorten, writtenDate } from "./issues";
-import { implausibleMass } from "./rows";
+import { implausibleMass } from "./cells";
+import { massKindOfBit } from "./rows";
 import { flushWeightColumn, harvestDateColumn, type RowAboveHeader } from "./layout";
 import { type DateEvidence, type ParseState, pendingBits, pendingMassBits } from "./state";
 import { type ColumnPlan, type SeasonLogIssue, type SeasonRecord, absentColumn } from "./types";
@@ -298,7 +299,7 @@ function settleMasses(state: ParseState, marks: ReadonlyMap<number, DecimalMark 
       record[field.written] = { value: written.value, unit: reading.unit };
       if (field.bit === pendingBits.fresh && record.flush !== null && record.blockCode !== "")
         (state.blocks.get(record.blockCode) as NonNullable<ReturnType<typeof state.blocks.get>>).freshGrams += reading.grams;
-      const implausible = implausibleMass(field.bit, written.value, reading.grams);
+      const implausible = implausibleMass(massKindOfBit[field.bit], written.value, reading.grams);
       if (implausible !== null) cellIssue(state.issues, record.line, column, "mass_implausible", written.value, "error", implausible);
     }
     const block = record.blockCode === "" ? undefined : state.blocks.get(record.blockCode);

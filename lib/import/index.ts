@@ -29,3 +29,4 @@ export {
 } from "./season-log";
 export { type WorkbookKind, workbookKind } from "./spreadsheet";
 export { seasonLogTemplateXlsx } from "./template-xlsx";
+export { type CellReading, type MassKind, readDateCell, readMassCell, readMoistureCell, readNumberCell, readYesNoCell } from "./cells";

@@ -1,5 +1,6 @@
-import { type DecimalMark, decimalEvidence, formatMass, massNumberText, parseMoisture, parseYesNo, readMass } from "../units";
+import { type DecimalMark, decimalEvidence, massNumberText, parseYesNo, readMass } from "../units";
 import { addFlush, blockOf, compareBlock } from "./blocks";
+import { type MassKind, implausibleMass, readMoistureCell } from "./cells";
 import { readDate } from "./dates";
 import { cellIssue, report, shorten } from "./issues";
 import { type ColumnDecimalEvidence, type MassValue, type ParseState, type RowValues, pendingBits } from "./state";
@@ -64,23 +65,13 @@ function intern(state: ParseState, text: string): string {
   return copy;
 }
 
-// What one block can weigh: a bag, jar or log of substrate from 250 g to 50 kg (spent, from 100 g),
-// a flush from 1 g to 25 kg fresh and a fifth of that dried (common practice: sawdust blocks are
-// 1–5 kg, test jars about 300 g, straw logs up to about 20 kg, mushrooms dry to about a tenth). Outside that the unit is wrong (grams under a
-// "(kg)" header, pounds taken for grams …).
-const massLimits: Readonly<Record<number, { least: number; most: number; words: string }>> = {
-  [pendingBits.wet]: { least: 250, most: 50_000, words: "a block weighs when it is made (250 g to 50 kg)" },
-  [pendingBits.spent]: { least: 100, most: 50_000, words: "a spent block weighs (100 g to 50 kg)" },
-  [pendingBits.fresh]: { least: 1, most: 25_000, words: "one block gives in one flush (1 g to 25 kg)" },
-  [pendingBits.dry]: { least: 0.1, most: 5_000, words: "one block's flush weighs dried (0.1 g to 5 kg)" },
+/** Which kind of mass each pending bit stands for, for the limits in `cells.ts`. */
+export const massKindOfBit: Readonly<Record<number, MassKind>> = {
+  [pendingBits.wet]: "wet",
+  [pendingBits.spent]: "spent",
+  [pendingBits.fresh]: "fresh",
+  [pendingBits.dry]: "dry",
 };
-
-/** Why a mass cannot be right for its column (`bit` says which), or null when it can. */
-export function implausibleMass(bit: number, text: string, grams: number): string | null {
-  const limits = massLimits[bit];
-  if (limits === undefined || (grams >= limits.least && grams <= limits.most) || grams === 0) return null;
-  return `"${shorten(text)}" reads as ${formatMass(grams, "metric")}, ${grams > limits.most ? "more" : "less"} than ${limits.words}. Check the unit in the cell and in the column header.`;
-}
 
 /** The decimal mark the grower chose for the column (or the file), if any. */
 export function chosenMark(state: ParseState, column: ColumnPlan): DecimalMark | undefined {
@@ -133,7 +124,7 @@ function mass(state: ParseState, cells: readonly string[], column: ColumnPlan, l
   }
   const value = ownCopy(text);
   const read = { grams: reading.grams, written: { value, unit: reading.unit } };
-  const implausible = implausibleMass(bit, text, reading.grams);
+  const implausible = implausibleMass(massKindOfBit[bit], text, reading.grams);
   // Not kept with the readings: each such cell is reported.
   if (implausible !== null) cellIssue(state.issues, line, column, "mass_implausible", text, "error", implausible);
   else if (masses.size < mostInternedTexts) masses.set(value, read);
@@ -211,20 +202,14 @@ function moisture(state: ParseState, cells: readonly string[], line: number): nu
   const moistures = state.caches.moistures;
   let reading = moistures.get(text);
   if (reading === undefined) {
-    // "62.500 %" read with "." grouping thousands would be 62 500 %: a moisture that reads two ways is a fraction.
-    const evidence = decimalEvidence(text.replace(/\s*%$/, ""));
-    const decimal =
-      state.typedNumbers?.[column.index] === true
-        ? "."
-        : (chosenMark(state, column) ?? (evidence === "," ? "," : evidence === "." ? "." : text.includes(",") ? "," : "."));
-    reading = parseMoisture(text, { decimal });
+    reading = readMoistureCell(text, state.typedNumbers?.[column.index] === true ? "." : chosenMark(state, column));
     if (moistures.size < mostInternedTexts) moistures.set(text, reading);
   }
-  if ("error" in reading) {
-    cellIssue(state.issues, line, column, reading.code, text, "error", reading.error);
+  if ("code" in reading) {
+    cellIssue(state.issues, line, column, reading.code, text, "error", reading.message);
     return null;
   }
-  return reading.fraction;
+  return reading.value;
 }
 
 function addRecord(
@@ -427,5 +412,5 @@ export function readDataRow(state: ParseState, cells: string[], line: number): v
   } else {
     harvestRow(state, cells, line);
   }
-  if (row.block !== null) compareBlock(state, row.block, first, line, row.contaminated, contaminatedText);
+  if (row.block !== null) compareBlock(state, row.block, first, line, row.contaminated, cells);
 }

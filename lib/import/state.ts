@@ -1,5 +1,6 @@
 import type { DecimalMark, parseYesNo } from "../units";
 import type { BlockState } from "./blocks";
+import type { CellReading } from "./cells";
 import type { DateReading } from "./dates";
 import { mapHeaders, withoutBadTargets } from "./headers";
 import type { StrainRegister } from "./strains";
@@ -51,7 +52,7 @@ export interface ReadingCaches {
   /** By cell text: the reading and one shared copy of the text, which records hold until the end. */
   dates: Map<string, { reading: DateReading; written: string }>;
   strainChecks: Map<string, string | null>;
-  moistures: Map<string, { fraction: number } | { error: string; code: "moisture_unreadable" | "moisture_out_of_range" }>;
+  moistures: Map<string, CellReading<number>>;
   yesNo: Map<string, ReturnType<typeof parseYesNo>>;
   /** Per mass column (by position), masses already read: records that wrote the same share one reading. */
   masses: Map<number, Map<string, NonNullable<MassValue>>>;
