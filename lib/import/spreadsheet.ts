@@ -1,5 +1,5 @@
 import { Readable } from "node:stream";
-import { XMLParser } from "fast-xml-parser";
+import type { XMLParser } from "fast-xml-parser";
 import { Unzip, UnzipInflate, unzipSync } from "fflate";
 
 /**
@@ -134,13 +134,21 @@ async function readXlsx(bytes: Uint8Array, sheet: string | undefined, onRow: (ro
   return { sheets, sheet: chosen };
 }
 
-const xml = new XMLParser({
-  ignoreAttributes: false,
-  attributeNamePrefix: "",
-  preserveOrder: true,
-  parseTagValue: false,
-  trimValues: false,
-});
+/** The XML parser for .ods rows, made when the first workbook arrives (a CSV upload never needs it). */
+let odsXml: XMLParser | null = null;
+async function xmlParser(): Promise<XMLParser> {
+  if (odsXml === null) {
+    const { XMLParser } = await import("fast-xml-parser");
+    odsXml = new XMLParser({
+      ignoreAttributes: false,
+      attributeNamePrefix: "",
+      preserveOrder: true,
+      parseTagValue: false,
+      trimValues: false,
+    });
+  }
+  return odsXml;
+}
 /** Repeated empty cells or rows past this are dropped (LibreOffice writes a sheet's unused 1 024 columns as one repeated cell). */
 const mostRepeatedCells = 16_384;
 const mostRepeatedRows = 100_000;
@@ -179,7 +187,7 @@ function odsCell(node: OrderedNode, tag: string): { text: string; number: boolea
 }
 
 /** One <table:table-row> element: its cells, and how many times the row repeats. */
-function odsRow(element: string): { cells: string[]; numbers: boolean[]; repeat: number } {
+function odsRow(xml: XMLParser, element: string): { cells: string[]; numbers: boolean[]; repeat: number } {
   const [row] = xml.parse(element) as OrderedNode[];
   const repeat = Math.max(1, Number(row?.[":@"]?.["table:number-rows-repeated"] ?? 1));
   const cells: string[] = [];
@@ -204,13 +212,14 @@ function odsRow(element: string): { cells: string[]; numbers: boolean[]; repeat:
 const tableStart = /<table:table\s[^>]*?table:name="([^"]*)"[^>]*>/y;
 const nextTag = /<table:table(?:-row)?[\s>/]|<\/table:table>/g;
 
-function decodeXmlAttribute(value: string): string {
+function decodeXmlAttribute(xml: XMLParser, value: string): string {
   return (xml.parse(`<a b="${value}"/>`) as OrderedNode[])[0]?.[":@"]?.b ?? value;
 }
 
 async function readOds(bytes: Uint8Array, sheet: string | undefined, onRow: (row: WorkbookRow) => void): Promise<WorkbookReading> {
   const large = tooLargeSheet(bytes, (name) => name === "content.xml");
   if (large !== null) return large;
+  const xml = await xmlParser();
   const sheets: string[] = [];
   let chosen: string | null = null;
   let wanted = false;
@@ -243,7 +252,7 @@ async function readOds(bytes: Uint8Array, sheet: string | undefined, onRow: (row
         if (!empty && close === -1) break;
         const end = empty ? openEnd + 1 : close + "</table:table-row>".length;
         if (wanted) {
-          const row = odsRow(pending.slice(at, end));
+          const row = odsRow(xml, pending.slice(at, end));
           if (row.cells.length === 0) line += row.repeat;
           else
             for (let time = 0; time < Math.min(row.repeat, mostRepeatedRows); time++)
@@ -259,7 +268,7 @@ async function readOds(bytes: Uint8Array, sheet: string | undefined, onRow: (row
         position = at + match[0].length;
         continue;
       }
-      const name = decodeXmlAttribute(table[1]);
+      const name = decodeXmlAttribute(xml, table[1]);
       sheets.push(name);
       wanted = chosen === null && (sheet === undefined || sheet === name);
       if (wanted) chosen = name;

@@ -1,4 +1,3 @@
-import ExcelJS from "exceljs";
 import { type SeasonLogColumnName, type TemplateCodes, seasonLogColumnNames, seasonLogColumns, templateRows } from "./schema";
 
 const isoDay = /^\d{4}-\d{2}-\d{2}$/;
@@ -17,6 +16,8 @@ function cellOf(name: SeasonLogColumnName, text: string): string | number | Date
  * template, one sheet, dates formatted as dates, and a second sheet explaining each column.
  */
 export async function seasonLogTemplateXlsx(codes?: TemplateCodes): Promise<Uint8Array<ArrayBuffer>> {
+  // Loaded when the template is asked for: every other use of the importer goes without exceljs.
+  const { default: ExcelJS } = await import("exceljs");
   const workbook = new ExcelJS.Workbook();
   const sheet = workbook.addWorksheet("Season log");
   sheet.addRow([...seasonLogColumnNames]);
