@@ -1,5 +1,6 @@
-import { type DecimalMark, massNumberText, parseDecimalNumber, readMass } from "../units";
+import { type DecimalMark, drySubstrateGrams, massNumberText, parseDecimalNumber, readMass } from "../units";
 import {
+  type BlockState,
   type WrittenDates,
   blockAtFinish,
   blockEfficiency,
@@ -399,6 +400,45 @@ function checkDryColumn(state: ParseState): void {
   cellIssue(state.issues, layout.headerLine, freshColumn, "mass_column_implausible", fresh, "error", what);
 }
 
+// Dried, a block's mushrooms weigh about a tenth of their fresh weight (common practice): a typical
+// block's dry harvest outside 0.5–40 % of its dry substrate is the fresh range above, dried.
+const lowestDryEfficiency = 0.5;
+const highestDryEfficiency = 40;
+
+/**
+ * The dry weights against the wet blocks, column as a whole: catches a dry column read in the
+ * wrong unit along with the fresh one (their ratio then looks right). `dryByBlock` holds each
+ * block's dried harvest in grams.
+ */
+function checkDryEfficiency(state: ParseState, dryByBlock: ReadonlyMap<string, number>): void {
+  const efficiencies: number[] = [];
+  let example: BlockState | null = null;
+  for (const [code, dry] of dryByBlock) {
+    const block = state.blocks.get(code);
+    const wetSource = block?.source[slot.wetBlockGrams] ?? -1;
+    const moistureSource = block?.source[slot.moisture] ?? -1;
+    if (block === undefined || wetSource === -1 || moistureSource === -1 || dry === 0) continue;
+    const wet = state.records[wetSource].wetBlockGrams;
+    const moisture = state.records[moistureSource].moisture;
+    if (wet === null || moisture === null || drySubstrateGrams(wet, moisture) <= 0) continue;
+    efficiencies.push((dry / drySubstrateGrams(wet, moisture)) * 100);
+    example ??= block;
+  }
+  if (efficiencies.length < fewestBlocksForColumnCheck || example === null) return;
+  const typical = median(efficiencies);
+  if (typical >= lowestDryEfficiency && typical <= highestDryEfficiency) return;
+  const { layout } = state;
+  const dryColumn = layout.columns.dry_weight;
+  const wetColumn = layout.columns.block_wet_weight;
+  const first = example;
+  const record = state.records.find((candidate) => candidate.blockCode === first.code && candidate.dryAsWritten !== null);
+  const dry = record?.dryAsWritten?.value ?? "";
+  const wet = state.records[first.source[slot.wetBlockGrams]].wetBlockAsWritten?.value ?? "";
+  const what = `read as they are written (such as "${shorten(dry)}" against a wet block of "${shorten(wet)}"), the blocks' dried harvest is typically ${Math.round(typical * 10) / 10} % of their dry substrate (the median of ${efficiencies.length} blocks), where dried mushrooms come to about 5–15 %. The dry weights (and perhaps the fresh weights) or the wet block weights are read in the wrong unit: check the units in the headers and cells.`;
+  cellIssue(state.issues, layout.headerLine, dryColumn, "mass_column_implausible", dry, "error", what);
+  cellIssue(state.issues, layout.headerLine, wetColumn, "mass_column_implausible", wet, "error", what);
+}
+
 /**
  * Stage 6, the end of the file, where what needs every row is done: each column's decimal mark
  * and the file's date order are decided and the cells that waited are read; blank block
@@ -420,6 +460,7 @@ export function finishRecords(state: ParseState): {
   const future: Reported = { line: 0, columns: new Set() };
   // One object reused for every record's dates as written, rather than one per record.
   const written: WrittenDates = { inoculatedOn: null, harvestedOn: null, contaminatedOn: null };
+  const dryByBlock = new Map<string, number>();
   for (let index = 0; index < records.length; index++) {
     const record = records[index];
     written.inoculatedOn = record.inoculatedOn;
@@ -434,9 +475,11 @@ export function finishRecords(state: ParseState): {
     futureDates(state, future, record, written);
     if (block !== undefined) flushHeavierThanBlock(state, record);
     dryAgainstFresh(state, record);
+    if (block !== undefined && record.dryGrams !== null) dryByBlock.set(block.code, (dryByBlock.get(block.code) ?? 0) + record.dryGrams);
   }
   const efficiencyChecked = checkMassColumns(state);
   checkDryColumn(state);
+  checkDryEfficiency(state, dryByBlock);
   for (const [code, block] of state.blocks) blockTotals(state, code, block, efficiencyChecked);
   return { dateOrder: order, ambiguousDecimalColumns: settled.ambiguous, fileMark: settled.fileMark };
 }
