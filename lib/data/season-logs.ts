@@ -16,7 +16,14 @@ import {
   trials,
   uploads,
 } from "@/db/schema";
-import { createSeasonLogParser, type SeasonLogParserOptions, type SeasonLogResult, type TemplateCodes } from "@/lib/import";
+import {
+  createSeasonLogParser,
+  parseWorkbook,
+  type SeasonLogParserOptions,
+  type SeasonLogResult,
+  type TemplateCodes,
+  workbookKind,
+} from "@/lib/import";
 import { AppError } from "@/lib/errors";
 import { recordAudit } from "@/lib/data/audit";
 import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
@@ -131,13 +138,15 @@ export async function getTemplateCodes(context: FarmContext): Promise<TemplateCo
   });
 }
 
-/** Parses bytes already in memory (a stored upload) with the grower's choices. */
-export function parseStored(
+/** Parses bytes already in memory (a stored upload, CSV or a spreadsheet file) with the grower's choices. */
+export async function parseStored(
   content: Uint8Array,
   setup: ImportSetup,
   choices: ParseChoices,
   extra: Partial<SeasonLogParserOptions> = {},
-): SeasonLogResult {
+): Promise<SeasonLogResult> {
+  const kind = workbookKind(content);
+  if (kind !== null) return parseWorkbook(content, kind, { ...parserOptions(choices, setup.knownStrains), ...extra });
   const parser = createSeasonLogParser({ ...parserOptions(choices, setup.knownStrains), ...extra });
   const slice = 1024 * 1024;
   for (let start = 0; start < content.length; start += slice) parser.write(content.subarray(start, start + slice));
@@ -352,7 +361,7 @@ export async function recheckUpload(context: FarmContext, uploadId: string, choi
   if (stored.outcome === "committed")
     throw new AppError("conflict", "This upload is already committed. Upload the file again to check it against what is stored now.");
   const setup = await getImportSetup(farm);
-  const result = parseStored(await storedContent(farm, uploadId), setup, choices);
+  const result = await parseStored(await storedContent(farm, uploadId), setup, choices);
   return withFarmContext(farm, async (tx) => {
     const alreadyImportedAt = await committedBefore(tx, farm.farmId, stored.sha256, uploadId);
     const planInput = await loadPlanInput(tx, farm.farmId);
@@ -390,7 +399,7 @@ async function parseForCommit(
   );
   const packed = row?.stagedParse ? gunzipSync(Buffer.from(row.stagedParse, "base64")).toString("utf8") : null;
   const staged = packed ? unpackParse(packed, stagingKey(choices, setup.knownStrains, todayUtc())) : null;
-  return staged ?? parseStored(await storedContent(context, uploadId), setup, choices);
+  return staged ?? (await parseStored(await storedContent(context, uploadId), setup, choices));
 }
 
 const writeSlice = 20_000;

@@ -1,16 +1,17 @@
 import { describe, expect, it } from "vitest";
-import { CsvTokenizer, type Delimiter, sniffDecimal, sniffDelimiter, sampleRows } from "./csv";
+import { createTokeniser, tokenise } from "./csv";
+import { type Delimiter, looksBinary, sampleRows, sniffDecimal, sniffDelimiter } from "./sniff";
 
 function rows(text: string, delimiter: Delimiter = ",", chunk = text.length || 1): [number, string[]][] {
   const found: [number, string[]][] = [];
-  const tokenizer = new CsvTokenizer(delimiter);
+  const state = createTokeniser(delimiter);
   for (let offset = 0; offset < text.length; offset += chunk)
-    tokenizer.push(text.slice(offset, offset + chunk), false, (cells, line) => found.push([line, cells]));
-  tokenizer.push("", true, (cells, line) => found.push([line, cells]));
+    tokenise(state, text.slice(offset, offset + chunk), false, (cells, line) => found.push([line, cells]));
+  tokenise(state, "", true, (cells, line) => found.push([line, cells]));
   return found;
 }
 
-describe("CsvTokenizer", () => {
+describe("tokenise", () => {
   const text = 'a,b\r\n"x\r\ny","say ""hi"""\r\n\r\nlast,"q"\rend,1';
   const expected: [number, string[]][] = [
     [1, ["a", "b"]],
@@ -29,14 +30,14 @@ describe("CsvTokenizer", () => {
   });
 
   it("reports a quote that is never closed", () => {
-    const tokenizer = new CsvTokenizer(",");
+    const state = createTokeniser(",");
     const found: string[][] = [];
-    tokenizer.push('a,b\n1,"open\n2,3\n', true, (cells) => found.push(cells));
+    tokenise(state, 'a,b\n1,"open\n2,3\n', true, (cells) => found.push(cells));
     expect(found).toEqual([
       ["a", "b"],
       ["1", "open\n2,3\n"],
     ]);
-    expect(tokenizer.unclosedQuoteLine).toBe(2);
+    expect(state.unclosedQuoteLine).toBe(2);
   });
 });
 
@@ -54,5 +55,18 @@ describe("sniffing", () => {
     expect(sniffDecimal(sampleRows("a;b\n1;2\n", ";", true), ";")).toBe(",");
     expect(sniffDecimal(sampleRows("a,b\n1,2\n", ",", true), ",")).toBe(".");
     expect(sniffDecimal(sampleRows('a,b\n1,"1.234,5"\n', ",", true), ",")).toBe(",");
+  });
+});
+
+describe("looksBinary", () => {
+  it("takes U+FFFD, a stray control character in a short file and a trailing Ctrl-Z for text", () => {
+    expect(looksBinary("a,b\nK\ufffd1,\ufffd\ufffd\n")).toBe(false);
+    expect(looksBinary("block_id,strain\nB-1,PO-03\u0007\n")).toBe(false);
+    expect(looksBinary("block_id,strain\nB-1,PO-03\n\u001a")).toBe(false);
+  });
+
+  it("takes a NUL, or control characters throughout, for binary", () => {
+    expect(looksBinary("PK\u0003\u0004\u0014\u0000\u0006")).toBe(true);
+    expect(looksBinary("a\u0001b\u0002c\u0003d\u0004e\u0005f")).toBe(true);
   });
 });

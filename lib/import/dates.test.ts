@@ -56,3 +56,24 @@ describe("parseDate", () => {
     expect(parseDate("21/03/2026", "dmy")).toEqual({ iso: "2026-03-21" });
   });
 });
+
+describe("date-times as spreadsheets write them", () => {
+  it("reads the day of 03/21/26 08:30 AM, 21.03.2026 08:30, 2026-03-21T08:30 and a serial with a fraction", () => {
+    // LibreOffice Calc 7.4 CSV exports under en-US and de-DE (tests/fixtures/spreadsheets/README.md).
+    expect(readDate("03/21/26 08:30 AM")).toEqual({ kind: "mdy-only", iso: "2026-03-21" });
+    expect(readDate("03/21/26 04:45 PM")).toEqual({ kind: "mdy-only", iso: "2026-03-21" });
+    expect(readDate("21.03.2026 08:30")).toEqual({ kind: "dmy-only", iso: "2026-03-21" });
+    expect(readDate("21/03/2026 16:45:10")).toEqual({ kind: "dmy-only", iso: "2026-03-21" });
+    expect(readDate("2026-03-21T08:30:00")).toEqual({ kind: "date", iso: "2026-03-21" });
+    // 46102 is 2026-03-21 in the 1900 date system (Excel's DATE(2026,3,21)); .354166… is 08:30.
+    expect(readDate("46102.3541666667")).toEqual({ kind: "date", iso: "2026-03-21" });
+    expect(readDate("46102,35")).toEqual({ kind: "date", iso: "2026-03-21" });
+    expect(readDate("03/04/26 10:00 PM")).toEqual({ kind: "either", dmy: "2026-04-03", mdy: "2026-03-04" });
+  });
+
+  it("refuses a time that is no time of day", () => {
+    expect(readDate("21.03.2026 25:00").kind).toBe("error");
+    expect(readDate("03/21/26 13:30 PM").kind).toBe("error");
+    expect(readDate("21.03.2026 08:75").kind).toBe("error");
+  });
+});

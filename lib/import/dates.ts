@@ -1,5 +1,8 @@
 export type DateOrder = "dmy" | "mdy";
 
+/** Why a date could not be read; the same codes name the problem in an import report. */
+export type DateErrorCode = "date_unreadable" | "date_not_in_calendar" | "date_serial_out_of_range";
+
 /**
  * What a date cell can mean. Numeric dates such as 03/04/2026 read differently day-first
  * and month-first, so the whole file's order is settled from the cells that only read one
@@ -10,10 +13,13 @@ export type DateReading =
   | { kind: "dmy-only"; iso: string }
   | { kind: "mdy-only"; iso: string }
   | { kind: "either"; dmy: string; mdy: string }
-  | { kind: "error"; error: string };
+  | { kind: "error"; code: DateErrorCode; error: string };
 
 const isoDate = /^(\d{4})[-/.](\d{1,2})[-/.](\d{1,2})(?:[T ]\d{1,2}:\d{2}(?::\d{2}(?:\.\d+)?)?(?:Z|[+-]\d{2}:?\d{2})?)?$/i;
-const numericDate = /^(\d{1,2})([./-])(\d{1,2})\2(\d{4}|\d{2})(?: \d{1,2}:\d{2}(?::\d{2})?)?$/;
+// A time of day as spreadsheets write it after a date: "08:30", "8:30:15", "08:30 AM", "4:45 p.m.".
+// The time is read and dropped: the season log keeps days.
+const timeOfDay = String.raw`(?:[ T]+(\d{1,2})[:.](\d{2})(?:[:.]\d{2}(?:[.,]\d+)?)?\s*(am|pm|a\.m\.|p\.m\.)?)?`;
+const numericDate = new RegExp(String.raw`^(\d{1,2})([./-])(\d{1,2})\2(\d{4}|\d{2})${timeOfDay}$`);
 const compactDate = /^(\d{4})(\d{2})(\d{2})$/;
 const serialNumber = /^\d{1,6}(?:[.,]\d+)?$/;
 const dayMonthName = /^(\d{1,2})[-\s./]*([a-z]{3,9})\.?[-\s./,]*(\d{4}|\d{2})$/;
@@ -96,6 +102,7 @@ export function readDate(text: string): DateReading {
     return iso === null ? notADay(text) : { kind: "date", iso };
   }
   match = numericDate.exec(written);
+  if (match !== null && !validTime(match[5], match[6], match[7])) return notADay(text);
   if (match !== null) {
     const first = Number(match[1]);
     const second = Number(match[3]);
@@ -119,6 +126,7 @@ export function readDate(text: string): DateReading {
     if (serial < firstPlausibleSerial || serial > lastPlausibleSerial) {
       return {
         kind: "error",
+        code: "date_serial_out_of_range",
         error: `"${text.trim()}" is not a date. If it is a spreadsheet date number it falls outside 1970–2099; format the column as a date in the spreadsheet and export again. ${howToWrite}`,
       };
     }
@@ -128,18 +136,30 @@ export function readDate(text: string): DateReading {
   if (match !== null) return namedMonth(text, match[3], match[2], match[1]);
   match = monthNameDay.exec(written);
   if (match !== null) return namedMonth(text, match[3], match[1], match[2]);
-  return { kind: "error", error: `"${text.trim()}" is not a date we can read. ${howToWrite}` };
+  return { kind: "error", code: "date_unreadable", error: `"${text.trim()}" is not a date we can read. ${howToWrite}` };
+}
+
+function validTime(hours: string | undefined, minutes: string | undefined, halfDay: string | undefined): boolean {
+  if (hours === undefined) return true;
+  const hour = Number(hours);
+  if (Number(minutes) > 59) return false;
+  return halfDay === undefined ? hour <= 24 : hour >= 1 && hour <= 12;
 }
 
 function namedMonth(text: string, year: string, monthName: string, day: string): DateReading {
   const month = monthNumbers[monthName];
-  if (month === undefined) return { kind: "error", error: `"${text.trim()}" is not a date we can read. ${howToWrite}` };
+  if (month === undefined)
+    return { kind: "error", code: "date_unreadable", error: `"${text.trim()}" is not a date we can read. ${howToWrite}` };
   const iso = calendarDate(fullYear(year), month, Number(day));
   return iso === null ? notADay(text) : { kind: "date", iso };
 }
 
 function notADay(text: string): DateReading {
-  return { kind: "error", error: `"${text.trim()}" is not a day in the calendar. Check the day and month. ${howToWrite}` };
+  return {
+    kind: "error",
+    code: "date_not_in_calendar",
+    error: `"${text.trim()}" is not a day in the calendar. Check the day and month. ${howToWrite}`,
+  };
 }
 
 /**

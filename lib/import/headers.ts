@@ -173,6 +173,13 @@ export function mapHeaders(headers: readonly string[], given: Record<string, str
   };
 }
 
+/** The mapping without the list of bad targets, as the parser reports it. */
+export function withoutBadTargets(mapped: HeaderMapping & { badTargets?: string[] }): HeaderMapping {
+  const mapping = { ...mapped };
+  delete mapping.badTargets;
+  return mapping;
+}
+
 function nearestName(name: string): SeasonLogColumnName | null {
   if (name.length < 5) return null;
   const allowed = name.length >= 6 ? 2 : 1;

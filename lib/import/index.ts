@@ -1,7 +1,8 @@
 export { parseMass, formatMass, parseMoisture, parseYesNo, type MassUnit, type MassDisplay } from "../units";
 export { type DateOrder, type DateReading, parseDate, readDate, spreadsheetSerialToIso } from "./dates";
-export { type Delimiter } from "./csv";
-export { type TextEncodingName } from "./encoding";
+export { type Delimiter } from "./sniff";
+export { type TextEncodingName } from "./decode";
+export { type IssueCode, issueCodes } from "./issues";
 export { type ColumnTarget, type HeaderMapping, type MappedColumn, mapHeaders } from "./headers";
 export {
   type SeasonLogColumn,
@@ -24,4 +25,8 @@ export {
   type SeasonRecord,
   createSeasonLogParser,
   parseSeasonLog,
+  parseWorkbook,
 } from "./season-log";
+export { type WorkbookKind, workbookKind } from "./spreadsheet";
+export { seasonLogTemplateXlsx } from "./template-xlsx";
+export { type CellReading, type MassKind, readDateCell, readMassCell, readMoistureCell, readNumberCell, readYesNoCell } from "./cells";

@@ -275,7 +275,7 @@ export interface TemplateCodes {
 const inventedCodes: TemplateCodes = { strains: ["PO-03", "LM-01"], substrates: ["HW-80/20"], fruitingMethods: ["X-cut"] };
 
 // Two blocks, one with two flushes, one still colonising.
-function templateRows(codes: TemplateCodes): Partial<Record<SeasonLogColumnName, string>>[] {
+export function templateRows(codes: TemplateCodes = inventedCodes): Partial<Record<SeasonLogColumnName, string>>[] {
   const first = codes.strains[0] ?? inventedCodes.strains[0];
   const second = codes.strains[1] ?? first;
   const substrate = codes.substrates[0] ?? "";

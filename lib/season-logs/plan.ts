@@ -205,6 +205,7 @@ export function planCommit(input: PlanInput): CommitPlan {
     if (record.substrate && !recipe) {
       issues.push({
         line: record.line,
+        code: "unknown_substrate",
         column: "substrate",
         value: record.substrate,
         severity: "error",
@@ -215,6 +216,7 @@ export function planCommit(input: PlanInput): CommitPlan {
     if (record.fruitingMethod && !method) {
       issues.push({
         line: record.line,
+        code: "unknown_fruiting_method",
         column: "fruiting_method",
         value: record.fruitingMethod,
         severity: "error",
@@ -225,6 +227,7 @@ export function planCommit(input: PlanInput): CommitPlan {
     if (assignment && assignment.strainId !== strain.id) {
       issues.push({
         line: record.line,
+        code: "trial_strain_differs",
         column: "strain",
         value: record.strainCode,
         severity: "error",
@@ -234,6 +237,7 @@ export function planCommit(input: PlanInput): CommitPlan {
     if (!assignment && record.trialCode) {
       issues.push({
         line: record.line,
+        code: "trial_block_not_listed",
         column: "trial",
         value: record.trialCode,
         severity: "warning",

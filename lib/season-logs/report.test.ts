@@ -37,8 +37,11 @@ describe("buildReport", () => {
 
 describe("reportCsv", () => {
   it("keeps a value that looks like a formula from running in a spreadsheet", () => {
-    const csv = reportCsv([{ line: 4, severity: "error", column: "notes", value: '=HYPERLINK("x")', message: "Line 4: bad" }]);
-    expect(csv.split("\r\n")[0]).toBe("Line,Severity,Column,Value,Message");
+    const csv = reportCsv([
+      { line: 4, code: "cell_too_long", severity: "error", column: "notes", value: '=HYPERLINK("x")', message: "Line 4: bad" },
+    ]);
+    // The code column came in with issue codes: a spreadsheet user can filter the report by it.
+    expect(csv.split("\r\n")[0]).toBe("Line,Code,Severity,Column,Value,Message");
     expect(csv).toContain("'=HYPERLINK");
   });
 });

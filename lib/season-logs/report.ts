@@ -5,6 +5,12 @@ import type { CommitPlan, PlanCounts, ValueChange } from "./plan";
 
 /** The largest season log the upload accepts. */
 export const largestUploadBytes = 50 * 1024 * 1024;
+/**
+ * The largest spreadsheet file (.xlsx, .ods). Compressed, a spreadsheet holds 10–20 times as
+ * much: 20 MB is about 300 MB of sheet XML, read as a stream, and several times the rows a
+ * 50 MB CSV holds.
+ */
+export const largestSpreadsheetBytes = 20 * 1024 * 1024;
 /** Issues kept in a stored report; a file with more is broken throughout and the first ones say how. */
 export const mostIssuesKept = 5000;
 /** Changed values and new block codes shown in the preview; the counts cover all of them. */
@@ -16,6 +22,10 @@ export const parseChoicesSchema = z.object({
   dateOrder: z.enum(["dmy", "mdy"]).optional(),
   defaultMassUnit: z.enum(["g", "kg", "lb", "oz"]).optional(),
   decimal: z.enum([".", ","]).optional(),
+  /** Per column (by its header), the decimal mark the grower chose where the file's numbers read two ways. */
+  decimalByColumn: z.record(z.string().max(500), z.enum([".", ","])).optional(),
+  /** The sheet of a workbook that holds the season log. */
+  sheet: z.string().max(300).optional(),
 });
 export type ParseChoices = z.infer<typeof parseChoicesSchema>;
 
@@ -37,7 +47,7 @@ export interface UploadReport {
   choices: ParseChoices;
 }
 
-export function parserOptions(choices: ParseChoices, knownStrains: string[]): SeasonLogOptions {
+export function parserOptions(choices: ParseChoices, knownStrains: string[]): SeasonLogOptions & { sheet?: string } {
   return { ...choices, knownStrains };
 }
 
@@ -71,7 +81,10 @@ export function buildReport(input: {
 export function reportCsv(issues: readonly SeasonLogIssue[]): string {
   return toCsv(
     issues.map((issue) => ({
-      line: issue.line,
+      line: issue.lineRanges
+        ? issue.lineRanges.map(([first, last]) => (first === last ? first : `${first}-${last}`)).join(" ")
+        : issue.line,
+      code: issue.code,
       severity: issue.severity,
       column: issue.column ?? "",
       value: issue.value ?? "",
@@ -79,6 +92,7 @@ export function reportCsv(issues: readonly SeasonLogIssue[]): string {
     })),
     [
       { key: "line", header: "Line" },
+      { key: "code", header: "Code" },
       { key: "severity", header: "Severity" },
       { key: "column", header: "Column" },
       { key: "value", header: "Value" },

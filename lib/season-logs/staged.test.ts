@@ -21,5 +21,10 @@ describe("the staged parse", () => {
     expect(unpackParse(packed, stagingKey({ decimal: "," }, [...demoStrains, "PO-99"], "2026-12-01"))).toBeNull();
     expect(unpackParse(packed, stagingKey({ decimal: "," }, [...demoStrains], "2026-12-02"))).toBeNull();
     expect(unpackParse(packed, stagingKey({ decimal: "," }, [...demoStrains].reverse(), "2026-12-01"))).not.toBeNull();
+    // A workbook's sheet and a column's decimal mark change what the file says.
+    expect(unpackParse(packed, stagingKey({ decimal: ",", sheet: "Rooms" }, [...demoStrains], "2026-12-01"))).toBeNull();
+    expect(
+      unpackParse(packed, stagingKey({ decimal: ",", decimalByColumn: { "Fresh (g)": "." } }, [...demoStrains], "2026-12-01")),
+    ).toBeNull();
   });
 });

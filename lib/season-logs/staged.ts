@@ -73,6 +73,8 @@ export function stagingKey(choices: ParseChoices, knownStrains: readonly string[
     choices.dateOrder ?? null,
     choices.defaultMassUnit ?? null,
     choices.decimal ?? null,
+    choices.decimalByColumn ? Object.entries(choices.decimalByColumn).sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)) : null,
+    choices.sheet ?? null,
     [...knownStrains].sort(),
     today,
   ]);

@@ -4,15 +4,17 @@ export {
   GRAMS_PER_POUND,
   formatMass,
   gramsPerUnit,
+  massNumberText,
   massUnitFromWord,
   parseMass,
   readMass,
   type MassDisplay,
+  type MassErrorCode,
   type MassOptions,
   type MassReading,
   type MassUnit,
   type MassUnitAsWritten,
 } from "./mass";
 export { drySubstrateGrams, parseMoisture } from "./moisture";
-export { parseDecimalNumber, type DecimalMark } from "./number";
-export { parseYesNo } from "./yes-no";
+export { decimalEvidence, parseDecimalNumber, type DecimalMark } from "./number";
+export { parseYesNo, yesNoWords } from "./yes-no";

@@ -24,7 +24,11 @@ export interface MassOptions {
   decimal?: DecimalMark;
 }
 
-export type MassReading = { grams: number; unit: MassUnitAsWritten } | { error: string };
+/** Why a mass could not be read; the same codes name the problem in an import report. */
+export type MassErrorCode =
+  "mass_blank" | "troy_ounce" | "mass_unreadable" | "number_unreadable" | "mass_negative" | "unit_unknown" | "mass_without_unit";
+
+export type MassReading = { grams: number; unit: MassUnitAsWritten } | { error: string; code: MassErrorCode };
 
 const unitWords: Readonly<Record<string, MassUnit>> = {
   g: "g",
@@ -58,7 +62,7 @@ export function massUnitFromWord(word: string): MassUnit | null {
 // A troy ounce (31.1034768 g) is a precious-metals unit, never a harvest-scale "oz" (NIST Handbook 44, Appendix C).
 const troyOunce = /\btroy\b|\bozt\b|\boz\.?\s*t\b|\bt\.?\s*oz\b/;
 const poundsAndOunces = /^([-+]?)\s*([\d.,]+)\s*(?:lbs?|pounds?)\.?\s*([\d.,]+)\s*(?:oz|ounces?)\.?$/;
-const numberThenUnit = /^([-+]?)\s*([\d.,][\d.,\s'\u00a0\u202f]*?)\s*([a-z]+)?\.?$/;
+const numberThenUnit = /^([-+]?)\s*([\d.,][\d.,\s'\u00a0\u202f\u2019]*?)\s*([a-z]+)?\.?$/;
 const unicodeMinus = /\u2212/g;
 
 const howToWrite = 'Write it as a number and a unit, for example "2.5 kg", "850 g", "5 lb" or "4 lb 3 oz".';
@@ -67,9 +71,10 @@ const howToWrite = 'Write it as a number and a unit, for example "2.5 kg", "850 
 export function readMass(text: string, options: MassOptions = {}): MassReading {
   const decimal = options.decimal ?? ".";
   const written = text.trim().toLowerCase().replace(unicodeMinus, "-");
-  if (written === "") return { error: "The mass is blank. Enter the weight or leave the row out." };
+  if (written === "") return { code: "mass_blank", error: "The mass is blank. Enter the weight or leave the row out." };
   if (troyOunce.test(written)) {
     return {
+      code: "troy_ounce",
       error: `"${text.trim()}" is in troy ounces, a unit for precious metals, not for a harvest scale. Weigh in g, kg, lb or oz (avoirdupois) and enter that.`,
     };
   }
@@ -78,29 +83,30 @@ export function readMass(text: string, options: MassOptions = {}): MassReading {
     const pounds = parseDecimalNumber(compound[2], decimal);
     const ounces = parseDecimalNumber(compound[3], decimal);
     if (pounds === null || ounces === null) {
-      return { error: `"${text.trim()}" is not a weight we can read. ${howToWrite}` };
+      return { code: "mass_unreadable", error: `"${text.trim()}" is not a weight we can read. ${howToWrite}` };
     }
     if (compound[1] === "-") {
-      return { error: `"${text.trim()}" is negative. A weight cannot be below zero: correct the value.` };
+      return { code: "mass_negative", error: `"${text.trim()}" is negative. A weight cannot be below zero: correct the value.` };
     }
     return { grams: pounds * GRAMS_PER_POUND + ounces * GRAMS_PER_OUNCE, unit: "lb+oz" };
   }
   const single = numberThenUnit.exec(written);
   if (single === null) {
-    return { error: `"${text.trim()}" is not a weight we can read. ${howToWrite}` };
+    return { code: "mass_unreadable", error: `"${text.trim()}" is not a weight we can read. ${howToWrite}` };
   }
   const value = parseDecimalNumber(single[2].trim(), decimal);
   if (value === null) {
-    return { error: `"${text.trim()}" is not a number we can read. ${howToWrite}` };
+    return { code: "number_unreadable", error: `"${text.trim()}" is not a number we can read. ${howToWrite}` };
   }
   if (single[1] === "-" && value !== 0) {
-    return { error: `"${text.trim()}" is negative. A weight cannot be below zero: correct the value.` };
+    return { code: "mass_negative", error: `"${text.trim()}" is negative. A weight cannot be below zero: correct the value.` };
   }
   let unit: MassUnit | undefined = options.defaultUnit;
   if (single[3] !== undefined) {
     const named = unitWords[single[3]];
     if (named === undefined) {
       return {
+        code: "unit_unknown",
         error: `"${single[3]}" in "${text.trim()}" is not a unit we accept. Use g, kg, lb or oz, for example "2.5 kg".`,
       };
     }
@@ -108,10 +114,17 @@ export function readMass(text: string, options: MassOptions = {}): MassReading {
   }
   if (unit === undefined) {
     return {
+      code: "mass_without_unit",
       error: `"${text.trim()}" has no unit. Write the unit after the number (for example "${text.trim()} g"), name it in the column header (for example "Fresh weight (g)"), or choose a default unit for the upload.`,
     };
   }
   return { grams: value * gramsPerUnit[unit], unit };
+}
+
+/** The number of a single mass as written ("2,5" of "2,5 kg"), for what it says about the decimal mark; null for compound masses. */
+export function massNumberText(text: string): string | null {
+  const single = numberThenUnit.exec(text.trim().toLowerCase().replace(unicodeMinus, "-"));
+  return single === null ? null : single[2].trim();
 }
 
 /** Converts a mass as written ("2,5 kg", "4 lb 3 oz", "850") to grams. */

@@ -41,8 +41,34 @@ describe("parseYesNo", () => {
     expect(parseYesNo("  ")).toEqual({ value: null });
   });
 
-  it("says what to write for anything else", () => {
+  it("reads the words of other languages and the booleans spreadsheets export in them", () => {
+    // LibreOffice Calc 7.4 CSV export of TRUE()/FALSE() under de-DE, fr-FR and en-US (tests/fixtures/spreadsheets/README.md).
+    for (const text of [
+      "ja",
+      "Ja",
+      "WAHR",
+      "oui",
+      "VRAI",
+      "sí",
+      "si",
+      "VERDADERO",
+      "sì",
+      "VERO",
+      "sim",
+      "waar",
+      "sant",
+      "tak",
+      "kyllä",
+      "=TRUE()",
+    ])
+      expect(parseYesNo(text), text).toEqual({ value: true });
+    for (const text of ["nein", "FALSCH", "non", "FAUX", "FALSO", "não", "nee", "ONWAAR", "nej", "nie", "ei", "FALSE"])
+      expect(parseYesNo(text), text).toEqual({ value: false });
+  });
+
+  it("says what to write for anything else, with a code", () => {
     const result = parseYesNo("maybe");
+    expect("code" in result && result.code).toBe("not_yes_or_no");
     expect(result).toHaveProperty("error");
     expect("error" in result && result.error).toContain("Write yes or no");
   });

@@ -7,12 +7,16 @@ const percentValue = /^([-+]?)\s*([\d.,]+)\s*(%?)$/;
  * are percent; "0.62" (a bare number up to 1) is already a fraction. Rejects values
  * outside 0–100 %.
  */
-export function parseMoisture(text: string, options: { decimal?: DecimalMark } = {}): { fraction: number } | { error: string } {
+export function parseMoisture(
+  text: string,
+  options: { decimal?: DecimalMark } = {},
+): { fraction: number } | { error: string; code: "moisture_unreadable" | "moisture_out_of_range" } {
   const written = text.trim();
   const match = percentValue.exec(written);
   const value = match === null ? null : parseDecimalNumber(match[2], options.decimal ?? ".");
   if (match === null || value === null) {
     return {
+      code: "moisture_unreadable",
       error: `"${written}" is not a moisture we can read. Write the moisture content (wet basis) as a percentage such as "62 %" or a fraction such as "0.62".`,
     };
   }
@@ -20,6 +24,7 @@ export function parseMoisture(text: string, options: { decimal?: DecimalMark } =
   const fraction = match[3] === "%" || value > 1 ? value / 100 : value;
   if (negative || fraction > 1) {
     return {
+      code: "moisture_out_of_range",
       error: `"${written}" is outside 0–100 %. Moisture (wet basis) is the water share of the wet substrate: enter a value such as "62 %".`,
     };
   }

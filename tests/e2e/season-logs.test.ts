@@ -1,3 +1,5 @@
+import { readFileSync } from "node:fs";
+import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { BrowserContext } from "playwright-core";
 import { collectPageErrors, openBrowser, screenshot } from "./support/browser";
@@ -37,15 +39,14 @@ describe("a grower uploads a season log", () => {
 
     await logs.upload("fernbrook-season.csv", withTypo);
     expect(await logs.summary()).toContain("“;” between columns, “,” as decimal mark");
-    expect((await logs.issueMessages()).join("\n")).toContain('"Picked (g)" match no season-log column');
+    // Matched on the issues' codes, not their wording.
+    expect((await logs.issues()).map((issue) => issue.code)).toContain("unmatched_columns");
     expect(await logs.commitButton().isDisabled()).toBe(true);
     await screenshot(page, "season-logs-2-needs-mapping");
 
     await logs.mapColumn("Picked (g)", "Fresh weight");
     await logs.checkAgain();
-    const messages = await logs.issueMessages();
-    expect(messages).toHaveLength(1);
-    expect(messages[0]).toContain('"PO-1O" is not a strain code of the co-op. Did you mean "PO-01"?');
+    expect(await logs.issues()).toEqual([{ code: "unknown_strain", value: "PO-1O" }]);
     expect(await logs.commitButton().isDisabled()).toBe(true);
     await screenshot(page, "season-logs-3-error");
 
@@ -70,6 +71,44 @@ describe("a grower uploads a season log", () => {
     await screenshot(page, "season-logs-6-blocks");
     expect(errors).toEqual([]);
     await page.close();
+  });
+
+  it("uploads an .xlsx workbook LibreOffice wrote, chooses its sheet, and commits its typed cells", async () => {
+    // A browser of its own: the first test's is signed in already.
+    const desk = await openBrowser();
+    const page = await desk.newPage();
+    const errors = collectPageErrors(page);
+    await new SignInPage(page).signIn("grower@fernbrook.example");
+    await new AppShell(page).waitUntilSignedIn();
+    const logs = new SeasonLogPage(page);
+    await logs.open();
+    // tests/fixtures/spreadsheets/README.md: LibreOffice Calc 7.4 under de-DE, two sheets, dates and
+    // date-times, grouped whole grams (2.500 as shown), 0,612 kg, a percentage and booleans as cells.
+    const workbook = readFileSync(path.resolve(__dirname, "../fixtures/spreadsheets/e2e-fernbrook-de-DE.xlsx"));
+    await logs.uploadFile("fernbrook-2026.xlsx", workbook, "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet");
+    expect(await logs.summary()).toContain("read from the sheet “Harvests” of the .xlsx file");
+    expect(await logs.issues()).toEqual([{ code: "sheet_choice_needed", value: "" }]);
+    expect(await logs.commitButton().isDisabled()).toBe(true);
+    await screenshot(page, "season-logs-9-xlsx-choose-sheet");
+
+    await logs.chooseSheet("Harvests");
+    await logs.checkAgain();
+    expect(await logs.summary()).toContain("0 errors");
+    expect(await logs.issues()).toEqual([]);
+    expect(await logs.previewCounts()).toMatch(/New blocks\s*2.*New harvests\s*3/);
+    await screenshot(page, "season-logs-10-xlsx-review");
+    const receipt = await logs.commit();
+    expect(receipt).toContain("2 new blocks");
+    expect(receipt).toContain("3 new harvests");
+    await page.getByRole("row", { name: /fernbrook-2026\.xlsx.*Committed/ }).waitFor();
+    await screenshot(page, "season-logs-11-xlsx-receipt");
+
+    const blocks = new BlocksPage(page);
+    await blocks.open();
+    await blocks.filter("XL-");
+    expect(await blocks.blockCodes()).toEqual(["XL-01", "XL-02"]);
+    expect(errors).toEqual([]);
+    await desk.close();
   });
 
   it("records the next flush from the quick form on a phone", async () => {

@@ -131,7 +131,7 @@ describe("the pooled refresh after a season-log commit", () => {
     ];
     const content = new TextEncoder().encode(`${lines.join("\r\n")}\r\n`);
     const setup = await getImportSetup(asFarmA);
-    const view = await createUpload(asFarmA, { fileName: "job.csv", content, result: parseStored(content, setup, {}), choices: {} });
+    const view = await createUpload(asFarmA, { fileName: "job.csv", content, result: await parseStored(content, setup, {}), choices: {} });
     await commitUpload(asFarmA, view.upload.id, {});
 
     // Earlier commits' jobs (other test files) have run; this commit's is the one waiting.
@@ -151,7 +151,7 @@ describe("the pooled refresh after a season-log commit", () => {
     const lines = [header, `JOB-${run}-X,NO-SUCH-STRAIN,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,1,2026-04-10,500 g`];
     const content = new TextEncoder().encode(`${lines.join("\r\n")}\r\n`);
     const setup = await getImportSetup(asFarmA);
-    const view = await createUpload(asFarmA, { fileName: "bad.csv", content, result: parseStored(content, setup, {}), choices: {} });
+    const view = await createUpload(asFarmA, { fileName: "bad.csv", content, result: await parseStored(content, setup, {}), choices: {} });
     await expect(commitUpload(asFarmA, view.upload.id, {})).rejects.toThrow();
     expect(await jobsFor("pooled-refresh", "farmId", farmA.id)).toHaveLength(queued);
   });

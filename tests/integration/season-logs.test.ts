@@ -1,3 +1,5 @@
+import { readFileSync } from "node:fs";
+import path from "node:path";
 import type { Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase, type FarmContext } from "@/db/client";
@@ -10,6 +12,7 @@ import {
   getUploadFile,
   listUploads,
   parseStored,
+  recheckUpload,
   type UploadView,
 } from "@/lib/data/season-logs";
 import { seasonLogTemplateCsv } from "@/lib/import";
@@ -63,7 +66,7 @@ function sheet(prefix: string, blocks: number[], options: { flushes?: number; fr
 async function upload(context: FarmContext, text: string, fileName = "season.csv", choices: ParseChoices = {}): Promise<UploadView> {
   const content = new TextEncoder().encode(text);
   const setup = await getImportSetup(context);
-  return createUpload(context, { fileName, content, result: parseStored(content, setup, choices), choices });
+  return createUpload(context, { fileName, content, result: await parseStored(content, setup, choices), choices });
 }
 
 async function storedHarvests(farm: DemoFarm, prefix: string) {
@@ -260,6 +263,50 @@ describe("committing a season log", () => {
     const otherOrder = { harvests: await storedHarvests(farmA, "IT-SB"), history: await historyCount(farmA, "IT-SB") };
     expect(oneOrder.history).toBe(15);
     expect([oneOrder, otherOrder]).toContainEqual(concurrent);
+  });
+});
+
+describe("a spreadsheet file", () => {
+  it("keeps the .xlsx as sent, asks for the sheet, then commits its typed cells and a re-upload changes nothing", async () => {
+    // Written by LibreOffice Calc 7.4 under de-DE (tests/fixtures/spreadsheets/README.md), two sheets.
+    const content = new Uint8Array(readFileSync(path.resolve(__dirname, "../fixtures/spreadsheets/e2e-fernbrook-de-DE.xlsx")));
+    const setup = await getImportSetup(asFarmA);
+    const view = await createUpload(asFarmA, {
+      fileName: "fernbrook.xlsx",
+      content,
+      result: await parseStored(content, setup, {}),
+      choices: {},
+    });
+    expect(view.report.issues.map((issue) => issue.code)).toEqual(["sheet_choice_needed"]);
+    expect(view.canCommit).toBe(false);
+    expect(new Uint8Array((await getUploadFile(asFarmA, view.upload.id)).content)).toEqual(content);
+
+    const checked = await recheckUpload(asFarmA, view.upload.id, { sheet: "Harvests" });
+    expect(checked.report.errorCount).toBe(0);
+    expect(checked.report.detected.workbook).toEqual({ kind: "xlsx", sheet: "Harvests", sheets: ["Harvests", "Rooms"] });
+    const receipt = await commitUpload(asFarmA, view.upload.id, { sheet: "Harvests" });
+    expect(receipt.counts).toMatchObject({ newBlocks: 2, newHarvests: 3 });
+    // 0,612 kg as a number cell is 612 g; the dates came as dates, the moisture as 62 %.
+    expect(await storedHarvests(farmA, "XL-")).toEqual([
+      { code: "01", flush: 1, fresh: "612" },
+      { code: "01", flush: 2, fresh: "380" },
+      { code: "02", flush: 1, fresh: "540" },
+    ]);
+    const { rows } = await inspector.query<{ inoculated: string; moisture: string; written: string }>(
+      "select inoculated_on::text as inoculated, moisture::text, wet_mass_as_written as written from blocks where farm_id = $1 and code = 'XL-01'",
+      [farmA.id],
+    );
+    expect(rows[0]).toMatchObject({ inoculated: "2026-03-02", written: "2500" });
+    expect(Number(rows[0].moisture)).toBeCloseTo(0.62, 6);
+
+    const again = await createUpload(asFarmA, {
+      fileName: "fernbrook-again.xlsx",
+      content,
+      result: await parseStored(content, setup, { sheet: "Harvests" }),
+      choices: { sheet: "Harvests" },
+    });
+    expect(again.alreadyImportedAt).not.toBeNull();
+    expect(again.canCommit).toBe(false);
   });
 });
 

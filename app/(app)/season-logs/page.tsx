@@ -17,16 +17,24 @@ export default async function SeasonLogsPage() {
     <>
       <PageHeader
         title="Season logs"
-        lead="Upload your season's spreadsheet as CSV. We read it, show every problem by line, and change nothing until you commit."
+        lead="Upload your season's spreadsheet as .xlsx, .ods or CSV. We read it, show every problem by line, and change nothing until you commit."
       >
         <ButtonLink href="/season-logs/columns" variant="secondary">
           The shared columns
         </ButtonLink>
+        {/* eslint-disable-next-line @next/next/no-html-link-for-pages -- a file download from a route handler, not a page */}
         <a
           href="/api/season-logs/template"
           className="inline-flex min-h-11 items-center rounded-lg border border-moss-600 bg-white px-4 text-sm font-semibold text-moss-700"
         >
-          Download the template
+          Download the template (CSV)
+        </a>
+        {/* eslint-disable-next-line @next/next/no-html-link-for-pages -- a file download from a route handler, not a page */}
+        <a
+          href="/api/season-logs/template?format=xlsx"
+          className="inline-flex min-h-11 items-center rounded-lg border border-moss-600 bg-white px-4 text-sm font-semibold text-moss-700"
+        >
+          Download the template (.xlsx)
         </a>
       </PageHeader>
       <div className="space-y-8">

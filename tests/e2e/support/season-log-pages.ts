@@ -15,6 +15,16 @@ export class SeasonLogPage {
     await this.page.getByTestId("review-summary").waitFor();
   }
 
+  /** Sends a file as it is on disk (a spreadsheet program's workbook). */
+  async uploadFile(name: string, bytes: Buffer, mimeType: string): Promise<void> {
+    await this.page.locator("#season-log-file").setInputFiles({ name, mimeType, buffer: bytes });
+    await this.page.getByTestId("review-summary").waitFor();
+  }
+
+  async chooseSheet(name: string): Promise<void> {
+    await this.page.getByLabel("Which sheet holds the season log?").selectOption({ label: name });
+  }
+
   async mapColumn(header: string, targetLabel: string): Promise<void> {
     await this.page.getByLabel(`Column “${header}”`, { exact: false }).selectOption({ label: targetLabel });
   }
@@ -29,11 +39,18 @@ export class SeasonLogPage {
     return ((await this.page.getByTestId("review-summary").textContent()) ?? "").replace(/\s+/g, " ").trim();
   }
 
-  /** Messages in the problems table, as shown. */
-  async issueMessages(): Promise<string[]> {
+  /** The problems in the table by their stable codes (never by wording), with the value as written. */
+  async issues(): Promise<{ code: string; value: string }[]> {
     const table = this.page.getByRole("table", { name: "Problems found in the file" });
     if ((await table.count()) === 0) return [];
-    return (await table.locator("tbody tr td:last-child").allTextContents()).map((text) => text.trim());
+    return table.locator("tbody tr").evaluateAll((rows) =>
+      rows
+        .map((row) => ({
+          code: row.querySelector("[data-issue-code]")?.getAttribute("data-issue-code") ?? "",
+          value: (row.querySelectorAll("td")[3]?.textContent ?? "").trim(),
+        }))
+        .filter((issue) => issue.code !== ""),
+    );
   }
 
   commitButton() {

@@ -4,8 +4,14 @@ import type { ColumnDef } from "@tanstack/react-table";
 import { DataTable } from "@/components/ui/data-table";
 import type { SeasonLogIssue } from "@/lib/import";
 
+/** "4–19, 22": the runs of lines a grouped problem covers. */
+function linesOf(issue: SeasonLogIssue): string {
+  if (!issue.lineRanges) return String(issue.line);
+  return issue.lineRanges.map(([first, last]) => (first === last ? String(first) : `${first}–${last}`)).join(", ");
+}
+
 const columns: ColumnDef<SeasonLogIssue, unknown>[] = [
-  { accessorKey: "line", header: "Line" },
+  { accessorKey: "line", header: "Line", cell: ({ row }) => linesOf(row.original) },
   {
     accessorKey: "severity",
     header: "Severity",
@@ -18,7 +24,12 @@ const columns: ColumnDef<SeasonLogIssue, unknown>[] = [
   },
   { accessorFn: (issue) => issue.column ?? "", id: "column", header: "Column" },
   { accessorFn: (issue) => issue.value ?? "", id: "value", header: "Value" },
-  { accessorKey: "message", header: "Message" },
+  {
+    accessorKey: "message",
+    header: "Message",
+    // The code is what tests and the page's own logic match on; the wording may change.
+    cell: ({ row }) => <span data-issue-code={row.original.code}>{row.original.message}</span>,
+  },
 ];
 
 /** Errors and warnings by line, column and value. */

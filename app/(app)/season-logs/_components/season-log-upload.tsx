@@ -13,6 +13,16 @@ import { PreviewOfChanges } from "./preview-of-changes";
 
 type Phase = "pick" | "sending" | "review" | "committing" | "done";
 type MassUnit = NonNullable<ParseChoices["defaultMassUnit"]>;
+type DecimalMark = "." | ",";
+
+/** Problems the mapping step answers: opening it is how the grower fixes them. */
+const askedInMapping = new Set([
+  "mass_without_unit",
+  "ambiguous_decimal_mark",
+  "ambiguous_date_order",
+  "mixed_date_orders",
+  "sheet_choice_needed",
+]);
 
 const wideTargets = [1, 2, 3, 4, 5, 6].flatMap((flush) => [
   { value: `flush_${flush}`, label: `Flush ${flush} fresh weight (one column per flush)` },
@@ -39,7 +49,7 @@ function sendFile(file: File, onProgress: (fraction: number) => void): Promise<U
   return new Promise((resolve, reject) => {
     const request = new XMLHttpRequest();
     request.open("POST", "/api/season-logs");
-    request.setRequestHeader("content-type", "text/csv");
+    request.setRequestHeader("content-type", file.type || "application/octet-stream");
     request.setRequestHeader("x-file-name", encodeURIComponent(file.name));
     request.upload.onprogress = (event) => {
       if (event.lengthComputable) onProgress(event.loaded / event.total);
@@ -47,7 +57,7 @@ function sendFile(file: File, onProgress: (fraction: number) => void): Promise<U
     request.onload = () => {
       let body: { message?: string } & Partial<UploadView> = {};
       try {
-        body = JSON.parse(request.responseText);
+        body = JSON.parse(request.responseText) as typeof body;
       } catch {
         // answered with something other than JSON
       }
@@ -67,7 +77,7 @@ function needsMapping(view: UploadView): boolean {
     !detected.mapping.certain ||
     detected.mapping.unmatched.length > 0 ||
     detected.dateOrder === "ambiguous" ||
-    view.report.issues.some((issue) => issue.message.includes("has no unit"))
+    view.report.issues.some((issue) => askedInMapping.has(issue.code))
   );
 }
 
@@ -83,6 +93,8 @@ export function SeasonLogUpload() {
   const [mapping, setMapping] = useState<Record<string, string>>({});
   const [dateOrder, setDateOrder] = useState<"" | "dmy" | "mdy">("");
   const [unit, setUnit] = useState<"" | MassUnit>("");
+  const [decimals, setDecimals] = useState<Record<string, DecimalMark>>({});
+  const [sheet, setSheet] = useState("");
   const [checking, setChecking] = useState(false);
   const [receipt, setReceipt] = useState<CommitReceipt | null>(null);
   const [dragging, setDragging] = useState(false);
@@ -93,6 +105,8 @@ export function SeasonLogUpload() {
     setMapping(Object.fromEntries(detected.mapping.columns.map((column) => [column.header, column.target ?? "ignore"])));
     setDateOrder(next.report.choices.dateOrder ?? (detected.dateOrder === "dmy" || detected.dateOrder === "mdy" ? detected.dateOrder : ""));
     setUnit(next.report.choices.defaultMassUnit ?? "");
+    setDecimals(next.report.choices.decimalByColumn ?? {});
+    setSheet(next.report.choices.sheet ?? detected.workbook?.sheet ?? "");
   }
 
   async function upload(file: File) {
@@ -115,6 +129,8 @@ export function SeasonLogUpload() {
     const chosen: ParseChoices = { mapping };
     if (dateOrder) chosen.dateOrder = dateOrder;
     if (unit) chosen.defaultMassUnit = unit;
+    if (Object.keys(decimals).length > 0) chosen.decimalByColumn = decimals;
+    if (sheet && (view?.report.detected.workbook?.sheets.length ?? 0) > 1) chosen.sheet = sheet;
     return chosen;
   }
 
@@ -188,9 +204,9 @@ export function SeasonLogUpload() {
             }}
             className={`flex min-h-32 cursor-pointer flex-col items-center justify-center gap-2 rounded-lg border-2 border-dashed p-6 text-center ${dragging ? "border-moss-600 bg-moss-50" : "border-oat-300 bg-oat-50"}`}
           >
-            <span className="font-semibold text-moss-800">Drop the CSV file here, or tap to choose it</span>
+            <span className="font-semibold text-moss-800">Drop the spreadsheet or CSV file here, or tap to choose it</span>
             <span className="text-sm text-ink-soft">
-              Export the sheet from your spreadsheet as CSV (comma or semicolon, any units). Up to 50 MB.
+              An .xlsx or .ods workbook up to 20 MB, or a CSV export (comma or semicolon, any units) up to 50 MB.
             </span>
           </label>
           <input
@@ -198,8 +214,8 @@ export function SeasonLogUpload() {
             id="season-log-file"
             name="file"
             type="file"
-            accept=".csv,.txt,text/csv,text/plain"
-            aria-label="Season log file (CSV)"
+            accept=".csv,.tsv,.txt,.xlsx,.ods,text/csv,text/plain,application/vnd.openxmlformats-officedocument.spreadsheetml.sheet,application/vnd.oasis.opendocument.spreadsheet"
+            aria-label="Season log file (.xlsx, .ods or CSV)"
             className="mt-3 block min-h-11 w-full text-sm"
             onChange={(event) => {
               const file = event.target.files?.[0];
@@ -241,17 +257,31 @@ export function SeasonLogUpload() {
             onDateOrder={setDateOrder}
             unit={unit}
             onUnit={setUnit}
+            decimals={decimals}
+            onDecimals={setDecimals}
+            sheet={sheet}
+            onSheet={setSheet}
             checking={checking}
-            onCheck={checkAgain}
+            onCheck={() => void checkAgain()}
           />
 
           <Card title="3. Review">
             <p className="mb-3 text-sm text-ink-soft" data-testid="review-summary">
               {view.upload.fileName}: {view.report.rowCount} rows · {view.report.errorCount} error{view.report.errorCount === 1 ? "" : "s"}{" "}
               · {view.report.warningCount} warning
-              {view.report.warningCount === 1 ? "" : "s"} · read as {view.report.detected.encoding}, “
-              {view.report.detected.delimiter === "\t" ? "tab" : view.report.detected.delimiter}” between columns, “
-              {view.report.detected.decimal}” as decimal mark,{" "}
+              {view.report.warningCount === 1 ? "" : "s"} ·{" "}
+              {view.report.detected.workbook ? (
+                <>
+                  read from the sheet “{view.report.detected.workbook.sheet ?? "none"}” of the .{view.report.detected.workbook.kind} file,
+                  with its cells’ types,{" "}
+                </>
+              ) : (
+                <>
+                  read as {view.report.detected.encoding}, “
+                  {view.report.detected.delimiter === "\t" ? "tab" : view.report.detected.delimiter}” between columns, “
+                  {view.report.detected.decimal}” as decimal mark,{" "}
+                </>
+              )}
               {view.report.detected.format === "wide" ? "one column per flush" : "one row per harvest"}
               {view.report.detected.dateOrder === "dmy"
                 ? ", dates day first"
@@ -284,7 +314,7 @@ export function SeasonLogUpload() {
           <PreviewOfChanges preview={view.report.preview} />
 
           <div className="flex flex-wrap gap-3">
-            <Button type="button" onClick={commit} disabled={!view.canCommit || phase === "committing" || checking}>
+            <Button type="button" onClick={() => void commit()} disabled={!view.canCommit || phase === "committing" || checking}>
               {phase === "committing" ? "Committing…" : "Commit to my farm's records"}
             </Button>
             <Button type="button" variant="secondary" onClick={startOver} disabled={phase === "committing"}>
@@ -327,16 +357,23 @@ function MappingStep(props: {
   onDateOrder: (order: "" | "dmy" | "mdy") => void;
   unit: "" | MassUnit;
   onUnit: (unit: "" | MassUnit) => void;
+  decimals: Record<string, DecimalMark>;
+  onDecimals: (decimals: Record<string, DecimalMark>) => void;
+  sheet: string;
+  onSheet: (sheet: string) => void;
   checking: boolean;
   onCheck: () => void;
 }) {
   const detected = props.view.report.detected;
   const missing = detected.mapping.missingRequired;
+  const sheets = detected.workbook?.sheets ?? [];
+  // The columns whose numbers read two ways, and any the grower already chose a mark for.
+  const decimalColumns = [...new Set([...(detected.ambiguousDecimalColumns ?? []), ...Object.keys(props.decimals)])];
   return (
     <Card title="2. Check the columns">
       <details open={props.open} className="space-y-4">
         <summary className="min-h-11 cursor-pointer content-center text-sm font-semibold text-moss-700">
-          {props.open ? "Some columns or dates need your choice" : "Every column was recognised; open to change the mapping"}
+          {props.open ? "Some columns, numbers or dates need your choice" : "Every column was recognised; open to change the mapping"}
         </summary>
         {missing.length > 0 ? (
           <Notice tone="caution" title="Columns not found">
@@ -345,6 +382,51 @@ function MappingStep(props: {
               {missing.length === 1 ? "it" : "them"}.
             </p>
           </Notice>
+        ) : null}
+        {sheets.length > 1 ? (
+          <div className="space-y-1">
+            <label htmlFor="sheet" className="block text-sm font-medium">
+              Which sheet holds the season log?
+            </label>
+            <select
+              id="sheet"
+              value={props.sheet}
+              onChange={(event) => props.onSheet(event.target.value)}
+              className="block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3"
+            >
+              {sheets.map((name) => (
+                <option key={name} value={name}>
+                  {name}
+                </option>
+              ))}
+            </select>
+          </div>
+        ) : null}
+        {decimalColumns.length > 0 ? (
+          <div className="grid gap-3 sm:grid-cols-2">
+            {decimalColumns.map((header, index) => (
+              <div key={header} className="space-y-1">
+                <label htmlFor={`decimal-${index}`} className="block text-sm font-medium">
+                  Decimal mark in “{header}”
+                </label>
+                <select
+                  id={`decimal-${index}`}
+                  value={props.decimals[header] ?? ""}
+                  onChange={(event) => {
+                    const next = { ...props.decimals };
+                    if (event.target.value === "") delete next[header];
+                    else next[header] = event.target.value as DecimalMark;
+                    props.onDecimals(next);
+                  }}
+                  className="block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3"
+                >
+                  <option value="">Not chosen: the numbers read two ways</option>
+                  <option value=",">Comma (2,5 kg; 2.720 g is two thousand seven hundred and twenty)</option>
+                  <option value=".">Point (2.5 kg; 2,720 g is two thousand seven hundred and twenty)</option>
+                </select>
+              </div>
+            ))}
+          </div>
         ) : null}
         <div className="grid gap-3 sm:grid-cols-2">
           {detected.mapping.columns.map((column) => {

@@ -16,11 +16,19 @@ export default async function SeasonLogColumnsPage() {
         title="The shared season-log columns"
         lead={`Version ${seasonLogSchemaVersion}. One row per harvest; the block's columns repeat on each of its rows. A block with no harvest yet gets one row with the flush and weight left blank. Your own header names usually work: we recognise common other names and ask you when we are not sure.`}
       >
+        {/* eslint-disable-next-line @next/next/no-html-link-for-pages -- a file download from a route handler, not a page */}
         <a
           href="/api/season-logs/template"
           className="inline-flex min-h-11 items-center rounded-lg bg-moss-600 px-4 text-sm font-semibold text-white"
         >
-          Download the template
+          Download the template (CSV)
+        </a>
+        {/* eslint-disable-next-line @next/next/no-html-link-for-pages -- a file download from a route handler, not a page */}
+        <a
+          href="/api/season-logs/template?format=xlsx"
+          className="inline-flex min-h-11 items-center rounded-lg bg-moss-600 px-4 text-sm font-semibold text-white"
+        >
+          Download the template (.xlsx)
         </a>
       </PageHeader>
       <div className="space-y-4">
@@ -28,7 +36,22 @@ export default async function SeasonLogColumnsPage() {
           <ul className="list-disc space-y-1 pl-5 text-sm">
             <li>Weights in g, kg, lb or oz, also “4 lb 3 oz”; a unit in the header, like “Fresh (g)”, applies to the whole column.</li>
             <li>Decimal comma or point (“2,5 kg” or “2.5 kg”), with or without thousands separators.</li>
-            <li>Dates as 2026-03-21, 21.03.2026, 21/03/2026 or 03/21/2026; if every date could be read both ways we ask you which.</li>
+            <li>
+              Dates as 2026-03-21, 21.03.2026, 21/03/2026 or 03/21/2026, also with a time (“03/21/26 08:30 AM”); if every date could be read
+              both ways we ask you which.
+            </li>
+            <li>
+              A number that reads two ways (“2.720” is 2.72 or 2 720) is read as the file’s other numbers show; if none do, we ask you which
+              decimal mark the column uses. We never guess.
+            </li>
+            <li>
+              Yes and no in your language: yes/no, ja/nein, oui/non, sí/no, and the TRUE/FALSE (WAHR/FALSCH, VRAI/FAUX …) a spreadsheet
+              writes.
+            </li>
+            <li>
+              Spreadsheet files (.xlsx from Excel or LibreOffice, .ods) up to 20 MB are read with their cells’ types: dates, numbers and
+              yes/no as the spreadsheet holds them, formulas by their last calculated value. With several sheets we ask which one.
+            </li>
             <li>
               Commas, semicolons or tabs between columns; UTF-8 or Windows text; one column per flush (“Flush 1”, “Flush 2 (oz)”) also
               works.
