@@ -1,10 +1,9 @@
 import type { NextAuthConfig } from "next-auth";
 import { getToken } from "next-auth/jwt";
+import { sessionClaimsOf, sessionMaxAgeSeconds, type SessionClaims } from "@/lib/auth/sessions";
 
 /** Paths anyone may open without signing in. */
 export const publicPaths = ["/sign-in", "/forbidden", "/accept-invitation", "/reset-password", "/cautions", "/unsubscribe"];
-
-export const sessionMaxAgeSeconds = 8 * 60 * 60;
 
 export function isPublicPath(pathname: string): boolean {
   return publicPaths.some((path) => pathname === path || pathname.startsWith(`${path}/`));
@@ -25,25 +24,26 @@ export const authConfig = {
   },
 } satisfies NextAuthConfig;
 
-/** Session cookies already decoded, with the member and expiry they carry (a bounded map). */
-const decodedSessions = new Map<string, { memberId: string | null; expiresAt: number }>();
+/** Session cookies already decoded, with the claims and expiry they carry (a bounded map). */
+const decodedSessions = new Map<string, { claims: SessionClaims | null; expiresAt: number }>();
 
 /**
- * The signed-in member's id from the session cookie, or null. Only decodes the cookie: it is
- * never re-issued, so a session ends a fixed time after sign-in and a sign-out cannot be undone
- * by a request still in flight (next-auth's own auth() re-encrypts the cookie on every call).
- * A cookie seen before is not decrypted again until it expires.
+ * What the session cookie in a Cookie header says (member, session id and version, time of
+ * sign-in), or null. Only
+ * decodes the cookie: it is never re-issued here, and whether the session may still be used is
+ * the guard's question (lib/auth/sessions.ts), asked of the database on every request. A cookie
+ * seen before is not decrypted again until it expires.
  */
-export async function sessionMemberId(headers: Headers): Promise<string | null> {
-  const cookie = headers.get("cookie");
+export async function readSession(cookie: string | null): Promise<SessionClaims | null> {
   if (!cookie) return null;
   const seen = decodedSessions.get(cookie);
-  if (seen && seen.expiresAt > Date.now()) return seen.memberId;
+  if (seen && seen.expiresAt > Date.now()) return seen.claims;
   // Browsers keep a __Secure- cookie only for https, so its presence tells which name was used.
   const secureCookie = cookie.includes("__Secure-authjs.session-token");
-  const token = await getToken({ req: { headers }, secret: process.env.AUTH_SECRET, secureCookie });
+  const token = await getToken({ req: { headers: new Headers({ cookie }) }, secret: process.env.AUTH_SECRET, secureCookie });
   if (!token?.exp) return null;
+  const claims = sessionClaimsOf(token);
   if (decodedSessions.size >= 1000) decodedSessions.delete(decodedSessions.keys().next().value!);
-  decodedSessions.set(cookie, { memberId: token.memberId ?? null, expiresAt: token.exp * 1000 });
-  return token.memberId ?? null;
+  decodedSessions.set(cookie, { claims, expiresAt: token.exp * 1000 });
+  return claims;
 }

@@ -1,5 +1,6 @@
 import type { Metadata, Viewport } from "next";
 import localFont from "next/font/local";
+import { connection } from "next/server";
 import "./globals.css";
 
 const inter = localFont({
@@ -15,7 +16,10 @@ export const metadata: Metadata = {
 
 export const viewport: Viewport = { width: "device-width", initialScale: 1, themeColor: "#2e5e4e" };
 
-export default function RootLayout({ children }: { children: React.ReactNode }) {
+export default async function RootLayout({ children }: { children: React.ReactNode }) {
+  // Every page is rendered per request: its scripts carry that request's Content Security Policy
+  // nonce (proxy.ts), which a page prerendered at build time could not.
+  await connection();
   return (
     <html lang="en" className={inter.variable}>
       <body className="min-h-screen font-sans antialiased">{children}</body>

@@ -95,26 +95,64 @@ export function changeGeneration(topic: ChangeTopic): number | null {
 }
 
 /**
- * Keeps what `load` returns for each key until one of the topics changes. Concurrent callers
- * share one load, so a change followed by many requests costs one query, not one each.
+ * Who is asking, as a kept copy may depend on it: a request's farm context or a member. The key
+ * of every copy is made from the whole caller (user, farm, role and anything else it carries),
+ * so a loader cannot forget the farm and hand one farm's copy to another.
  */
-export function keptUntilChanged<Arguments extends unknown[], Value>(
+export interface Caller {
+  farmId: string | null;
+  role: string | null;
+}
+
+function callerKey(caller: Caller): string {
+  const fields = caller as unknown as Record<string, unknown>;
+  return JSON.stringify(
+    Object.keys(fields)
+      .sort()
+      .map((field) => [field, fields[field]]),
+  );
+}
+
+export interface KeptLoader {
+  name: string;
+  topics: readonly ChangeTopic[];
+  /** False for a loader kept once for everybody (keptForEveryone). */
+  perCaller: boolean;
+  kept: (caller: Caller, ...args: unknown[]) => Promise<unknown>;
+  load: (caller: Caller, ...args: unknown[]) => Promise<unknown>;
+}
+
+/** Every kept loader by name, so a test can run each one, kept and not, as every kind of caller. */
+const registry = new Map<string, KeptLoader>();
+
+export function keptLoaders(): KeptLoader[] {
+  return [...registry.values()];
+}
+
+/**
+ * Keeps what `load` returns for each caller and key until one of the topics changes. The first
+ * argument is always the caller, and it is always part of the key; `keyOf` covers the other
+ * arguments. Concurrent callers share one load, so a change followed by many requests costs one
+ * query, not one each.
+ */
+export function keptUntilChanged<Who extends Caller, Arguments extends unknown[], Value>(
+  name: string,
   topics: ChangeTopic | readonly ChangeTopic[],
-  load: (...args: Arguments) => Promise<Value>,
+  load: (caller: Who, ...args: Arguments) => Promise<Value>,
   keyOf: (...args: Arguments) => string,
   maximumEntries = 1000,
-): (...args: Arguments) => Promise<Value> {
+): (caller: Who, ...args: Arguments) => Promise<Value> {
   const watched = typeof topics === "string" ? [topics] : topics;
   const entries = new Map<string, { generation: string; value: Promise<Value> }>();
-  return (...args) => {
+  const kept = (caller: Who, ...args: Arguments): Promise<Value> => {
     // Read before loading: a change committed while the load runs must invalidate its result.
     const generations = watched.map(changeGeneration);
-    if (generations.includes(null)) return load(...args);
+    if (generations.includes(null)) return load(caller, ...args);
     const generation = generations.join(":");
-    const key = keyOf(...args);
+    const key = `${callerKey(caller)}|${keyOf(...args)}`;
     const kept = entries.get(key);
     if (kept && kept.generation === generation) return kept.value;
-    const value = load(...args);
+    const value = load(caller, ...args);
     const entry = { generation, value };
     entries.delete(key);
     if (entries.size >= maximumEntries) entries.delete(entries.keys().next().value!);
@@ -124,7 +162,32 @@ export function keptUntilChanged<Arguments extends unknown[], Value>(
     });
     return value;
   };
+  registry.set(name, { name, topics: watched, perCaller: true, kept: kept as KeptLoader["kept"], load: load as KeptLoader["load"] });
+  return kept;
 }
+
+/**
+ * One copy for everybody, for what is the same whoever asks (the co-op's "results updating"
+ * flag). The loader takes no arguments at all, so nothing about the caller can reach it.
+ */
+export function keptForEveryone<Value>(
+  name: string,
+  topics: ChangeTopic | readonly ChangeTopic[],
+  load: () => Promise<Value>,
+): () => Promise<Value> {
+  const kept = keptUntilChanged(
+    name,
+    topics,
+    () => load(),
+    () => "",
+    1,
+  );
+  const shared = () => kept(everyone);
+  registry.set(name, { ...registry.get(name)!, perCaller: false, kept: shared, load: () => load() });
+  return shared;
+}
+
+const everyone: Caller = { farmId: null, role: null };
 
 export async function stopChangeFeed(): Promise<void> {
   const state = globalForFeed.rhizomorphChangeFeed;

@@ -4,33 +4,14 @@
 // live statistics and from the release; then serves the built app on the same database and loads
 // the results API with 20 clients for 30 s, beside a static file from the same server. Prints
 // figures only.
-import { spawn, spawnSync } from "node:child_process";
-import { mkdtempSync } from "node:fs";
-import { createRequire } from "node:module";
-import { tmpdir } from "node:os";
-import path from "node:path";
 import { performance } from "node:perf_hooks";
 import { Pool } from "pg";
-import { chromium } from "playwright-core";
 import { hashPassword } from "../lib/auth/password";
 import { closeDatabase } from "../db/client";
 import { cutSetupRelease } from "../lib/data/pooled-releases";
 import { buildPooledResults, roundPooledResults, type FlushStatisticsRow, type StrainStatisticsRow } from "../lib/pooled";
 import { seededRandom } from "../lib/random";
-
-interface LoadResult {
-  requests: { average: number };
-  latency: { p50: number; p90: number; p97_5: number; p99: number };
-  non2xx: number;
-}
-interface LoadTracker {
-  on(event: "response", listener: (client: unknown, statusCode: number, bytes: number, milliseconds: number) => void): void;
-}
-// autocannon ships no types; this is the part of its API used here.
-const autocannon = createRequire(import.meta.url)("autocannon") as (
-  options: { url: string; connections: number; duration: number; headers: Record<string, string> },
-  done: (error: Error | null, result: LoadResult) => void,
-) => LoadTracker;
+import { load, serveApp, signIn } from "./bench-app";
 
 const FARMS = 50;
 const BLOCKS_PER_FARM = 10_000;
@@ -121,6 +102,9 @@ async function main() {
     await superuser.query(`begin; set local session_replication_role = replica;
       delete from pooled_release_strain_rows; delete from pooled_release_flush_rows; delete from pooled_releases; commit;`);
   }
+  // The baseline writes its sums into a temp table as the analyst; no role has TEMPORARY on a
+  // real database (migration 0011), so only this scratch one grants it.
+  await superuser.query(`grant temporary on database "${database}" to rhizo_analyst`);
 
   const [fullRefresh, fullBare] = await timedSideBySide([
     () => analyst.query("select pooled_refresh_all()"),
@@ -209,46 +193,6 @@ async function main() {
   if (!process.env.RHIZO_BENCH_SKIP_HTTP) await loadTest(species, farmId);
 }
 
-/** Serves the built app (built into .next-bench first if the sources changed) on this database. */
-async function serveApp(): Promise<{ url: string; stop: () => void }> {
-  console.log("\nServing the app on the bench database (building it into .next-bench first if the sources changed) …");
-  const env = { ...process.env, NEXT_DIST_DIR: process.env.NEXT_DIST_DIR ?? ".next-bench" };
-  const built = spawnSync("bash", ["-c", ". scripts/lib.sh && ensure_app_build"], { env, encoding: "utf8" });
-  if (built.status !== 0) throw new Error(`The app did not build:\n${built.stdout}${built.stderr}`);
-  const port = process.env.APP_PORT ?? "3200";
-  const server = spawn("npx", ["next", "start", "--hostname", "127.0.0.1", "--port", port], {
-    env,
-    stdio: ["ignore", "ignore", "inherit"],
-    detached: true,
-  });
-  const url = `http://127.0.0.1:${port}`;
-  for (let attempt = 0; ; attempt++) {
-    if (
-      await fetch(`${url}/icon.svg`).then(
-        (response) => response.ok,
-        () => false,
-      )
-    )
-      break;
-    if (attempt > 150) throw new Error(`The app did not start on ${url}`);
-    await new Promise((resolve) => setTimeout(resolve, 200));
-  }
-  return { url, stop: () => process.kill(-server.pid!, "SIGTERM") };
-}
-
-/** 20 clients for 30 s; p95 from every response time (autocannon itself reports p90 and p97.5). */
-function load(url: string, cookie: string): Promise<LoadResult & { p95: number }> {
-  return new Promise((resolve, reject) => {
-    const times: number[] = [];
-    const tracker = autocannon({ url, connections: 20, duration: 30, headers: { cookie } }, (error, result) => {
-      if (error) return reject(error);
-      times.sort((a, b) => a - b);
-      resolve({ ...result, p95: times[Math.floor(0.95 * (times.length - 1))] ?? Number.NaN });
-    });
-    tracker.on("response", (_client, _status, _bytes, milliseconds) => times.push(milliseconds));
-  });
-}
-
 /**
  * (c) GET /api/results as a signed-in observer (pooled figures only) and as the manager of a
  * bench farm (their own 10 000 blocks overlaid), beside GET /icon.svg: a static file, the server's own floor.
@@ -271,9 +215,9 @@ async function loadTest(species: string, farmId: string) {
     const observerCookie = await signIn(app.url, people[0].email, password);
     const managerCookie = await signIn(app.url, people[1].email, password);
     const resultsUrl = `${app.url}/api/results?species=${species}&window=all`;
-    const baseline = await load(`${app.url}/icon.svg`, observerCookie);
-    const asObserver = await load(resultsUrl, observerCookie);
-    const asManager = await load(resultsUrl, managerCookie);
+    const baseline = await load({ url: `${app.url}/icon.svg`, connections: 20, duration: 30, headers: { cookie: observerCookie } });
+    const asObserver = await load({ url: resultsUrl, connections: 20, duration: 30, headers: { cookie: observerCookie } });
+    const asManager = await load({ url: resultsUrl, connections: 20, duration: 30, headers: { cookie: managerCookie } });
     console.log("");
     console.log("| 20 clients, 30 s, loopback | requests/s | p50 | p95 | p97.5 | non-2xx |");
     console.log("| --- | --- | --- | --- | --- | --- |");
@@ -289,26 +233,6 @@ async function loadTest(species: string, farmId: string) {
     }
   } finally {
     app.stop();
-  }
-}
-
-/** Signs in through the real sign-in page and returns the session cookie. */
-async function signIn(url: string, email: string, password: string): Promise<string> {
-  const browser = await chromium.launchPersistentContext(mkdtempSync(path.join(tmpdir(), "rhizomorph-bench-")), {
-    executablePath: "/usr/bin/chromium",
-    headless: true,
-    args: ["--no-sandbox", "--disable-gpu", "--no-first-run"],
-  });
-  try {
-    const page = await browser.newPage();
-    await page.goto(`${url}/sign-in`);
-    await page.getByLabel("E-mail").fill(email);
-    await page.getByLabel("Password").fill(password);
-    await page.getByRole("button", { name: "Sign in" }).click();
-    await page.getByTestId("member-name").waitFor();
-    return (await browser.cookies()).map((entry) => `${entry.name}=${entry.value}`).join("; ");
-  } finally {
-    await browser.close();
   }
 }
 

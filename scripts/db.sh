@@ -63,6 +63,14 @@ BEGIN
   IF NOT EXISTS (SELECT 1 FROM pg_roles WHERE rolname = 'rhizo_jobs') THEN
     CREATE ROLE rhizo_jobs LOGIN NOSUPERUSER NOBYPASSRLS NOCREATEDB NOCREATEROLE;
   END IF;
+  -- Owns the pooled refresh (migration 0012) and nothing else; nobody signs in as it.
+  IF NOT EXISTS (SELECT 1 FROM pg_roles WHERE rolname = 'rhizo_statistics') THEN
+    CREATE ROLE rhizo_statistics NOLOGIN NOSUPERUSER NOBYPASSRLS NOCREATEDB NOCREATEROLE;
+  END IF;
+  -- The owner hands the refresh function to rhizo_statistics, which needs membership.
+  IF NOT pg_has_role('rhizo_owner', 'rhizo_statistics', 'MEMBER') THEN
+    GRANT rhizo_statistics TO rhizo_owner;
+  END IF;
 END
 \$\$;
 ALTER ROLE rhizo_owner PASSWORD '$RHIZO_OWNER_PASSWORD';
@@ -77,7 +85,9 @@ SQL
     say "Creating database $database"
     psql_super -d postgres -c "CREATE DATABASE \"$database\" OWNER rhizo_owner"
   fi
-  psql_super -d "$database" -c "REVOKE ALL ON SCHEMA public FROM PUBLIC; GRANT USAGE ON SCHEMA public TO rhizo_app, rhizo_analyst; ALTER SCHEMA public OWNER TO rhizo_owner;"
+  # No temporary tables for PUBLIC (so none for rhizo_app): also migration 0011's, repeated here
+  # because a restored dump does not carry database privileges.
+  psql_super -d "$database" -c "REVOKE ALL ON SCHEMA public FROM PUBLIC; GRANT USAGE ON SCHEMA public TO rhizo_app, rhizo_analyst; ALTER SCHEMA public OWNER TO rhizo_owner; REVOKE TEMPORARY ON DATABASE \"$database\" FROM PUBLIC;"
 }
 
 drop_database() {

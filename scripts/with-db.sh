@@ -3,7 +3,7 @@
 . "$(dirname "$0")/lib.sh"
 . "$ROOT/scripts/db.sh"
 DATABASE="${RHIZO_BENCH_DB:-rhizomorph_bench}"
-export_app_env "$DATABASE" 3200 2725
+export_app_env "$DATABASE" "${RHIZO_BENCH_APP_PORT:-3200}" "${RHIZO_BENCH_SMTP_PORT:-2725}"
 ensure_dependencies
 ensure_postgres_installed
 init_cluster

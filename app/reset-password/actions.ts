@@ -2,6 +2,7 @@
 
 import { headers } from "next/headers";
 import { z } from "zod";
+import { clientAddress, trustedProxyCount } from "@/lib/auth/client-address";
 import type { ActionState } from "@/lib/auth/guard";
 import { requestPasswordReset } from "@/lib/data/members";
 
@@ -16,8 +17,7 @@ export async function requestResetAction(_previous: ActionState, formData: FormD
       message: "Some fields need attention.",
       fieldErrors: { email: parsed.error.issues.map((issue) => issue.message) },
     };
-  const requestHeaders = await headers();
-  const ip = requestHeaders.get("x-forwarded-for")?.split(",")[0]?.trim() ?? null;
+  const ip = clientAddress(await headers(), trustedProxyCount(process.env.RHIZO_TRUSTED_PROXIES));
   await requestPasswordReset(parsed.data.email, ip);
   return {
     status: "ok",

@@ -42,7 +42,10 @@ export function FlushCurve({ title, series }: { title: string; series: FlushCurv
       <figcaption className="flex flex-wrap gap-3 text-sm text-ink-soft">
         {series.map((line, index) => (
           <span key={line.name} className="inline-flex items-center gap-1">
-            <span className="inline-block h-2 w-4 rounded" style={{ background: line.colour ?? palette[index % palette.length] }} />
+            {/* An SVG swatch, not a style attribute: the Content Security Policy allows no inline styles. */}
+            <svg aria-hidden="true" className="h-2 w-4" viewBox="0 0 16 8">
+              <rect width="16" height="8" rx="2" fill={line.colour ?? palette[index % palette.length]} />
+            </svg>
             {line.name}
           </span>
         ))}

@@ -15,6 +15,8 @@ export const cooperativeSettings = pgTable(
     releaseSchedule: text("release_schedule").notNull().default("daily"),
     /** The hour (UTC, 0–23) at which a scheduled release is due. */
     releaseHour: integer("release_hour").notNull().default(2),
+    /** Days the file of a rejected season-log upload is kept before it is removed (the record and report stay). */
+    rejectedUploadRetentionDays: integer("rejected_upload_retention_days").notNull().default(30),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [
@@ -23,6 +25,7 @@ export const cooperativeSettings = pgTable(
     check("minimum_farms_at_least_three", sql`${t.minimumFarms} >= 3`),
     check("release_schedule_known", sql`${t.releaseSchedule} in ('daily', 'weekly', 'manual')`),
     check("release_hour_of_day", sql`${t.releaseHour} between 0 and 23`),
+    check("rejected_upload_retention_range", sql`${t.rejectedUploadRetentionDays} between 1 and 3650`),
   ],
 );
 
@@ -53,6 +56,8 @@ export const users = pgTable(
     notifyReminders: boolean("notify_reminders").notNull().default(true),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
     lastSignInAt: timestamp("last_sign_in_at", { withTimezone: true }),
+    /** Every session cookie carries the version it was issued under; raising it ends them all (a trigger raises it on a change of password, role, farm or active flag). */
+    sessionVersion: integer("session_version").notNull().default(1),
   },
   (t) => [
     uniqueIndex("users_email_unique").on(sql`lower(${t.email})`),
@@ -60,6 +65,20 @@ export const users = pgTable(
     // Farm people belong to a farm; the coordinator and observers belong to the co-op.
     check("users_farm_matches_role", sql`(${t.role} in ('farm_manager', 'grower')) = (${t.farmId} is not null)`),
   ],
+);
+
+/** Sessions signed out one by one (the cookie names its id), kept until the cookie would have expired anyway. */
+export const endedSessions = pgTable(
+  "ended_sessions",
+  {
+    sessionId: text("session_id").primaryKey(),
+    userId: uuid("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    endedAt: timestamp("ended_at", { withTimezone: true }).notNull().defaultNow(),
+    expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+  },
+  (t) => [index("ended_sessions_user_idx").on(t.userId, t.expiresAt)],
 );
 
 /** Every sign-in attempt, kept so that rate limits hold across restarts. */

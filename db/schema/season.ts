@@ -44,8 +44,25 @@ export const uploads = pgTable(
     /** The upload's parse, packed (lib/season-logs/staged.ts), so the commit need not read the file again; cleared once committed. */
     stagedParse: text("staged_parse"),
     committedAt: timestamp("committed_at", { withTimezone: true }),
+    /** When the stored file of a rejected upload was removed after the co-op's retention period (the record and report stay). */
+    filePurgedAt: timestamp("file_purged_at", { withTimezone: true }),
   },
   (t) => [index("uploads_farm_sha_idx").on(t.farmId, t.sha256), index("uploads_farm_time_idx").on(t.farmId, t.uploadedAt)],
+);
+
+/** A season log a farm is sending or re-reading right now; at most a few per farm at once, across app processes. */
+export const uploadReservations = pgTable(
+  "upload_reservations",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    reservedAt: timestamp("reserved_at", { withTimezone: true }).notNull().defaultNow(),
+    /** A process that died mid-upload leaves its reservation; it lapses at this time. */
+    expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+  },
+  (t) => [index("upload_reservations_farm_idx").on(t.farmId, t.expiresAt)],
 );
 
 const massColumns = (prefix: string) => ({

@@ -1,22 +1,27 @@
 import "server-only";
 import { cache } from "react";
-import { headers } from "next/headers";
+import { cookies } from "next/headers";
 import { redirect } from "next/navigation";
 import { NextResponse } from "next/server";
 import type { z } from "zod";
-import { sessionMemberId } from "@/auth.config";
-import { farmContextOf, loadMemberForRequest, type Member } from "@/lib/data/members";
+import { readSession } from "@/auth.config";
+import { farmContextOf, type Member } from "@/lib/data/members";
+import { memberForSession } from "@/lib/data/sessions";
 
 export { farmContextOf };
 import { AppError, isAppError } from "@/lib/errors";
+import { crossOriginRefusal } from "@/lib/http/origin";
 import { can, type Action } from "./permissions";
 
-/** The signed-in member as the database has them now (roles are data). */
+/**
+ * The signed-in member as the database has them now (roles are data), or null when the session
+ * has ended: signed out, or issued before the member's sessions were all ended (lib/auth/sessions.ts).
+ */
 export const currentMember = cache(async (): Promise<Member | null> => {
-  const memberId = await sessionMemberId(await headers());
-  if (!memberId) return null;
-  const member = await loadMemberForRequest(memberId);
-  return member?.active ? member : null;
+  // cookies(), not the request's Cookie header: after an action signs in again (a new password),
+  // the page it renders must see the new session cookie, which only cookies() reflects.
+  const session = await readSession((await cookies()).toString());
+  return session ? memberForSession(session) : null;
 });
 
 /** The one guard: throws unless a signed-in member may do `action`. */
@@ -51,9 +56,25 @@ export function errorResponse(error: unknown): NextResponse {
 
 type RouteHandler<Params> = (request: Request, context: { member: Member; params: Params }) => Promise<Response>;
 
-/** Wraps every route handler: authorises, runs, and maps errors to JSON with the right status. */
+/**
+ * A request that could change something and does not come from the app's own origin (a page on
+ * another site posting with the member's cookie): its 403 answer, or null. Route handlers ask it
+ * here; pages and server actions in proxy.ts.
+ */
+export function crossOriginAnswer(request: Request): Response | null {
+  const refusal = crossOriginRefusal({
+    method: request.method,
+    headers: request.headers,
+    appUrl: process.env.APP_URL ?? "http://127.0.0.1:3000",
+  });
+  return refusal ? NextResponse.json({ error: "forbidden", message: refusal }, { status: 403 }) : null;
+}
+
+/** Wraps every route handler: refuses cross-site changes, authorises, runs, and maps errors to JSON with the right status. */
 export function guardedRoute<Params = Record<string, string>>(action: Action, handler: RouteHandler<Params>) {
   return async (request: Request, routeContext: { params: Promise<Params> }): Promise<Response> => {
+    const crossOrigin = crossOriginAnswer(request);
+    if (crossOrigin) return crossOrigin;
     try {
       const member = await authorize(action);
       return await handler(request, { member, params: await routeContext.params });

@@ -100,6 +100,8 @@ export async function exportFarmData(member: Member): Promise<{ fileName: string
 
     const files: Record<string, Uint8Array> = {};
     const uploadList = uploadRows.map((upload, index) => {
+      // A rejected upload's file is removed after the co-op's retention period; its row stays, naming no file.
+      if (upload.content.byteLength === 0) return { ...upload, archiveName: "" };
       const archiveName = originalFileName(index, upload.fileName);
       files[archiveName] = new Uint8Array(upload.content);
       return { ...upload, archiveName };

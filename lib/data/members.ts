@@ -22,6 +22,8 @@ export interface Member {
   farmName: string | null;
   active: boolean;
   displayUnits: "metric" | "imperial";
+  /** Sessions issued under another version have ended (lib/auth/sessions.ts). */
+  sessionVersion: number;
 }
 
 /** The member's row-level-security context: who, which farm, which role. */
@@ -41,6 +43,7 @@ export async function loadMember(userId: string): Promise<Member | null> {
         farmId: users.farmId,
         active: users.active,
         displayUnits: users.displayUnits,
+        sessionVersion: users.sessionVersion,
       })
       .from(users)
       .where(eq(users.id, userId));
@@ -59,8 +62,18 @@ export async function loadMember(userId: string): Promise<Member | null> {
 /**
  * loadMember for the guard on every request: kept in this process until PostgreSQL says a member
  * or farm changed (db/change-feed.ts), so a role change or deactivation still counts at the next click.
+ * The caller is the context loadMember reads in: the member's own id, no farm, no role yet.
  */
-export const loadMemberForRequest = keptUntilChanged("members", loadMember, (userId) => userId);
+const keptMember = keptUntilChanged(
+  "the guard's member",
+  "members",
+  (caller: FarmContext) => loadMember(caller.userId!),
+  () => "",
+);
+
+export function loadMemberForRequest(userId: string): Promise<Member | null> {
+  return keptMember({ userId, farmId: null, role: null });
+}
 
 // ---- Membership: farms, people, invitations, roles, passwords, preferences ----
 
@@ -546,16 +559,28 @@ export async function updatePreferences(
 
 /** Checks the current password first; wrong answers get the same bcrypt work as right ones. */
 export async function changePassword(member: Member, currentPassword: string, newPassword: string): Promise<void> {
-  const newHash = await hashPassword(newPassword);
+  // bcrypt is CPU work: it runs between the transactions, holding no connection.
+  const [row] = await withFarmContext(farmContextOf(member), (tx) =>
+    tx.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, member.id)),
+  );
+  const [matches, newHash] = await Promise.all([
+    verifyPassword(currentPassword, row?.passwordHash ?? (await unknownUserHash())),
+    hashPassword(newPassword),
+  ]);
+  if (!row?.passwordHash || !matches) {
+    throw new AppError("invalid_input", "Your current password is not right.", [
+      { field: "currentPassword", message: "Type the password you signed in with." },
+    ]);
+  }
+  const checkedHash = row.passwordHash;
   await withFarmContext(farmContextOf(member), async (tx) => {
-    const [row] = await tx.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, member.id));
-    const matches = await verifyPassword(currentPassword, row?.passwordHash ?? (await unknownUserHash()));
-    if (!row?.passwordHash || !matches) {
-      throw new AppError("invalid_input", "Your current password is not right.", [
-        { field: "currentPassword", message: "Type the password you signed in with." },
-      ]);
-    }
-    await tx.update(users).set({ passwordHash: newHash }).where(eq(users.id, member.id));
+    // Only over the password just checked: a reset that landed in between wins.
+    const changed = await tx
+      .update(users)
+      .set({ passwordHash: newHash })
+      .where(and(eq(users.id, member.id), eq(users.passwordHash, checkedHash)))
+      .returning({ id: users.id });
+    if (changed.length === 0) throw new AppError("conflict", "Your password was changed elsewhere a moment ago. Sign in again.");
     await recordAudit(tx, { ...actor(member), farmId: member.farmId, action: "password.changed", subject: member.email });
     await queueMail(tx, "password-changed", passwordChangedMessage({ to: member.email, name: member.name }));
   });

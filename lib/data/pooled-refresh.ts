@@ -1,6 +1,6 @@
 import "server-only";
 import { sql } from "drizzle-orm";
-import { keptUntilChanged } from "@/db/change-feed";
+import { keptForEveryone } from "@/db/change-feed";
 import { readAsAnalyst, withAnalystAccess, type Transaction } from "@/db/client";
 import { enqueue } from "@/lib/jobs/queue";
 
@@ -54,7 +54,8 @@ export async function refreshAllPooledStatistics(): Promise<void> {
 }
 
 /** True while any farm's statistics are still being recomputed after an upload. */
-export const getPooledUpdating = keptUntilChanged(
+export const getPooledUpdating = keptForEveryone(
+  "results updating",
   "pooled-statistics",
   async (): Promise<boolean> => {
     const [row] = await readAsAnalyst<{ pending: boolean }>(
@@ -62,5 +63,4 @@ export const getPooledUpdating = keptUntilChanged(
     );
     return Boolean(row?.pending);
   },
-  () => "",
 );

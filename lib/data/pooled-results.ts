@@ -71,34 +71,23 @@ export async function getPooledResults(member: Member, query: PooledResultsQuery
  * farm's blocks change, as the same few queries are asked for again and again.
  */
 export const getPooledResultsJson = keptUntilChanged(
+  "results JSON",
   ["pooled-statistics", "blocks-and-harvests"],
   async (member: Member, query: PooledResultsQuery) => JSON.stringify(await getPooledResults(member, query)),
-  (member, query) => resultsKey(member, query, member.farmId ? member.role : null),
+  resultsKey,
   500,
 );
 
 /**
  * Pooled results change only when PostgreSQL says a release was cut or the co-op's settings or
  * registers changed (db/change-feed.ts), so each process keeps the last computation per query
- * and viewer's farm (the forest chart labels the viewer's own farm).
+ * and viewer (the forest chart labels the viewer's own farm).
  */
-const keptPooledResults = keptUntilChanged(
-  "pooled-statistics",
-  computePooledResults,
-  (member, query) => resultsKey(member, query, null),
-  500,
-);
+const keptPooledResults = keptUntilChanged("results page", "pooled-statistics", computePooledResults, resultsKey, 500);
 
-/** What a results page depends on besides the database: the query, the viewer's farm (and role, where their own blocks are shown). */
-function resultsKey(member: Member, query: PooledResultsQuery, role: Member["role"] | null): string {
-  return JSON.stringify([
-    query.speciesId ?? null,
-    query.substrateRecipeId ?? null,
-    query.fruitingMethodId ?? null,
-    query.flushWindow,
-    member.farmId,
-    role,
-  ]);
+/** What a results page depends on besides the database and the viewer (who is part of every key). */
+function resultsKey(query: PooledResultsQuery): string {
+  return JSON.stringify([query.speciesId ?? null, query.substrateRecipeId ?? null, query.fruitingMethodId ?? null, query.flushWindow]);
 }
 
 async function computePooledResults(member: Member, query: PooledResultsQuery): Promise<Omit<PooledResultsPage, "ownBlocks">> {
@@ -192,10 +181,10 @@ async function listOwnBlocks(member: Member, speciesId: string, window: FlushWin
 
 /** Kept per farm until blocks or harvests change: for a farm of 10 000 blocks the query takes 0.2 s warm, 0.5 s cold. */
 const keptOwnBlocks = keptUntilChanged(
+  "own blocks",
   "blocks-and-harvests",
   listOwnBlocks,
-  (member, speciesId, window, filters) =>
-    JSON.stringify([member.farmId, member.role, speciesId, window, filters.substrateRecipeId ?? null, filters.fruitingMethodId ?? null]),
+  (speciesId, window, filters) => JSON.stringify([speciesId, window, filters.substrateRecipeId ?? null, filters.fruitingMethodId ?? null]),
   200,
 );
 

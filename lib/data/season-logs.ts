@@ -27,6 +27,7 @@ import {
 import { AppError } from "@/lib/errors";
 import { recordAudit } from "@/lib/data/audit";
 import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
+import { assertStorageRoom } from "@/lib/data/upload-limits";
 import { type BlockWrite, type CommitPlan, type HarvestWrite, type PlanCounts, type PlanInput, planCommit } from "@/lib/season-logs/plan";
 import { type ParseChoices, type UploadReport, buildReport, parserOptions } from "@/lib/season-logs/report";
 import { packParse, stagingKey, unpackParse } from "@/lib/season-logs/staged";
@@ -264,9 +265,35 @@ function stagedParseOf(
   return gzipSync(packParse(stagingKey(choices, knownStrains, todayUtc()), result), { level: 1 }).toString("base64");
 }
 
+/** A parse's report, outcome and staged parse against what the farm has stored: one short read, then CPU work with no connection held. */
+async function previewOf(farm: FarmMemberContext, sha256: string, result: SeasonLogResult, choices: ParseChoices, except?: string) {
+  const { alreadyImportedAt, planInput } = await withFarmContext(farm, async (tx) => ({
+    alreadyImportedAt: await committedBefore(tx, farm.farmId, sha256, except),
+    planInput: await loadPlanInput(tx, farm.farmId),
+  }));
+  // A preview only: the commit plans again under the farm's lock against what is stored then.
+  const plan = planCommit({ records: result.records, ...planInput });
+  const report = buildReport({
+    rowCount: result.records.length,
+    parserIssues: result.issues,
+    plan,
+    detected: result.detected,
+    choices,
+  });
+  const outcome = outcomeOf(report, alreadyImportedAt);
+  const stagedParse = stagedParseOf(
+    outcome,
+    choices,
+    planInput.strains.map((strain) => strain.code),
+    result,
+  );
+  return { alreadyImportedAt, report, outcome, stagedParse };
+}
+
 /**
  * Keeps a file the farm sent, whatever is wrong with it, with its report and a preview of what
  * committing it would change. The same file committed before is marked and changes nothing.
+ * Refused when the farm's stored files would pass the co-op's limit (lib/data/upload-limits.ts).
  */
 export async function createUpload(
   context: FarmContext,
@@ -274,18 +301,9 @@ export async function createUpload(
 ): Promise<UploadView> {
   const farm = farmOf(context);
   const sha256 = sha256Of(input.content);
+  const { alreadyImportedAt, report, outcome, stagedParse } = await previewOf(farm, sha256, input.result, input.choices);
   return withFarmContext(farm, async (tx) => {
-    const alreadyImportedAt = await committedBefore(tx, farm.farmId, sha256);
-    const planInput = await loadPlanInput(tx, farm.farmId);
-    const plan = planCommit({ records: input.result.records, ...planInput });
-    const report = buildReport({
-      rowCount: input.result.records.length,
-      parserIssues: input.result.issues,
-      plan,
-      detected: input.result.detected,
-      choices: input.choices,
-    });
-    const outcome = outcomeOf(report, alreadyImportedAt);
+    await assertStorageRoom(tx, farm.farmId, input.content.byteLength);
     const [row] = await tx
       .insert(uploads)
       .values({
@@ -299,12 +317,7 @@ export async function createUpload(
         rowCount: report.rowCount,
         report,
         options: input.choices,
-        stagedParse: stagedParseOf(
-          outcome,
-          input.choices,
-          planInput.strains.map((strain) => strain.code),
-          input.result,
-        ),
+        stagedParse,
       })
       .returning(summaryColumns);
     await recordAudit(tx, {
@@ -342,9 +355,14 @@ async function storedUpload(context: FarmMemberContext, uploadId: string) {
 /** The file's bytes, read only when they are needed: they can be tens of megabytes. */
 async function storedContent(context: FarmMemberContext, uploadId: string): Promise<Buffer> {
   const [row] = await withFarmContext(context, (tx) =>
-    tx.select({ content: uploads.content }).from(uploads).where(eq(uploads.id, uploadId)),
+    tx.select({ content: uploads.content, filePurgedAt: uploads.filePurgedAt }).from(uploads).where(eq(uploads.id, uploadId)),
   );
   if (!row) throw new AppError("not_found", notYours);
+  if (row.filePurgedAt)
+    throw new AppError(
+      "not_found",
+      "This upload was rejected, and its file was removed after the co-op's retention period; its report is kept. Upload the file again to check it.",
+    );
   return row.content;
 }
 
@@ -362,18 +380,8 @@ export async function recheckUpload(context: FarmContext, uploadId: string, choi
     throw new AppError("conflict", "This upload is already committed. Upload the file again to check it against what is stored now.");
   const setup = await getImportSetup(farm);
   const result = await parseStored(await storedContent(farm, uploadId), setup, choices);
+  const { alreadyImportedAt, report, outcome, stagedParse } = await previewOf(farm, stored.sha256, result, choices, uploadId);
   return withFarmContext(farm, async (tx) => {
-    const alreadyImportedAt = await committedBefore(tx, farm.farmId, stored.sha256, uploadId);
-    const planInput = await loadPlanInput(tx, farm.farmId);
-    const plan = planCommit({ records: result.records, ...planInput });
-    const report = buildReport({ rowCount: result.records.length, parserIssues: result.issues, plan, detected: result.detected, choices });
-    const outcome = outcomeOf(report, alreadyImportedAt);
-    const stagedParse = stagedParseOf(
-      outcome,
-      choices,
-      planInput.strains.map((strain) => strain.code),
-      result,
-    );
     const [row] = await tx
       .update(uploads)
       .set({ report, options: choices, rowCount: report.rowCount, outcome, stagedParse })
@@ -558,7 +566,13 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
       );
     }
     const plan = planCommit({ records: result.records, ...(await loadPlanInput(tx, farm.farmId)) });
-    const report = buildReport({ rowCount: result.records.length, parserIssues: result.issues, plan, detected: result.detected, choices });
+    const report = buildReport({
+      rowCount: result.records.length,
+      parserIssues: result.issues,
+        plan,
+      detected: result.detected,
+      choices,
+    });
     if (report.errorCount > 0) {
       const first = report.issues.find((issue) => issue.severity === "error");
       throw new AppError(

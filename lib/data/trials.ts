@@ -827,3 +827,31 @@ export async function optOutOfReminders(token: string): Promise<string | null> {
     return (result.rows[0] as { code: string | null } | undefined)?.code ?? null;
   });
 }
+
+export interface ReminderChoice {
+  trialCode: string;
+  remindersAllowed: boolean;
+}
+
+/** What the unsubscribe page shows before anyone clicks: the trial and whether reminders are on. Changes nothing. */
+export async function getReminderChoice(token: string): Promise<ReminderChoice | null> {
+  const enrolmentId = verifyOptOutToken(token, optOutSecret());
+  if (!enrolmentId || !optOutSecret()) return null;
+  return withFarmContext({ userId: null, farmId: null, role: "anonymous" }, async (tx) => {
+    const result = await tx.execute<{ trial_code: string; reminders_allowed: boolean }>(
+      sql`select * from app_trial_reminders_state(${enrolmentId}::uuid)`,
+    );
+    const row = result.rows[0];
+    return row ? { trialCode: row.trial_code, remindersAllowed: row.reminders_allowed } : null;
+  });
+}
+
+/** The undo on the unsubscribe page: reminders for that farm and trial come again. Returns the trial's code, or null. */
+export async function optBackIntoReminders(token: string): Promise<string | null> {
+  const enrolmentId = verifyOptOutToken(token, optOutSecret());
+  if (!enrolmentId || !optOutSecret()) return null;
+  return withFarmContext({ userId: null, farmId: null, role: "anonymous" }, async (tx) => {
+    const result = await tx.execute<{ code: string | null }>(sql`select app_trial_reminders_opt_in(${enrolmentId}::uuid) as code`);
+    return result.rows[0]?.code ?? null;
+  });
+}

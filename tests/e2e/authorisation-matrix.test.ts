@@ -145,7 +145,7 @@ beforeAll(async () => {
   await new AppShell(page).waitUntilSignedIn();
   const template = await (await page.request.get(`${appUrl}/api/season-logs/template`)).text();
   const posted = await page.request.post(`${appUrl}/api/season-logs`, {
-    headers: { "content-type": "text/csv", "x-file-name": "fernbrook-private.csv" },
+    headers: { "content-type": "text/csv", "x-file-name": "fernbrook-private.csv", origin: appUrl },
     data: `${template.split(/\r?\n/)[0]}\n`,
   });
   expect(posted.status(), await posted.text()).toBeLessThan(300);
@@ -169,11 +169,13 @@ afterAll(async () => {
   await inspector?.end();
 });
 
-async function call(entry: Entry): Promise<APIResponse> {
+/** Calls a route as the app's own pages do; a POST names its origin, as a browser's always does. */
+async function call(entry: Entry, origin: string | null = appUrl): Promise<APIResponse> {
   const url = `${appUrl}${entry.path(fixtures)}`;
   const options = { maxRedirects: 0, failOnStatusCode: false };
   const page = browser.pages()[0] ?? (await browser.newPage());
-  return entry.method === "GET" ? page.request.get(url, options) : page.request.post(url, { ...options, data: entry.body ?? "" });
+  if (entry.method === "GET") return page.request.get(url, options);
+  return page.request.post(url, { ...options, data: entry.body ?? "", headers: origin ? { origin } : {} });
 }
 
 /** Every published pooled figure in a results answer must come from at least the minimum number of farms. */
@@ -220,6 +222,35 @@ describe("the authorisation matrix", () => {
       if (entry.path(fixtures).startsWith("/api/")) expect(response.status(), where).toBe(401);
       else expect([302, 303, 307], where).toContain(response.status());
     }
+  });
+
+  it("refuses every state-changing call from another site, or naming no site, with 403 and a reason, before the handler runs", async () => {
+    await browser.clearCookies();
+    const page = browser.pages()[0] ?? (await browser.newPage());
+    await new SignInPage(page).signIn(callers.farmManager.email);
+    await new AppShell(page).waitUntilSignedIn();
+    const { rows: before } = await inspector.query<{ count: number }>("select count(*)::int as count from uploads");
+    for (const entry of matrix.filter((candidate) => candidate.method !== "GET")) {
+      for (const origin of ["https://attacker.example", "null", null]) {
+        const response = await call(entry, origin);
+        const where = `${entry.method} ${entry.file} with Origin ${origin ?? "(none)"}`;
+        expect(response.status(), where).toBe(403);
+        expect(((await response.json()) as { message: string }).message, where).toMatch(/refused/);
+      }
+    }
+    // Auth.js's own routes too (a forged sign-out or sign-in).
+    for (const path of ["/api/auth/signout", "/api/auth/callback/credentials"]) {
+      const response = await page.request.post(`${appUrl}${path}`, {
+        headers: { origin: "https://attacker.example" },
+        form: { email: callers.farmManager.email, password: "x" },
+        maxRedirects: 0,
+        failOnStatusCode: false,
+      });
+      expect(response.status(), path).toBe(403);
+    }
+    // A season-log POST from another site stored nothing.
+    const { rows: after } = await inspector.query<{ count: number }>("select count(*)::int as count from uploads");
+    expect(after[0].count).toBe(before[0].count);
   });
 
   for (const caller of Object.keys(callers) as (keyof typeof callers)[]) {

@@ -32,8 +32,10 @@ const matrix: Record<string, Action | "public"> = {
   "app/(app)/members/actions.ts#cancelInvitationAction": "members:manage",
   "app/(app)/settings/actions.ts#changePasswordAction": "account:manage",
   "app/(app)/settings/actions.ts#updatePreferencesAction": "account:manage",
+  "app/(app)/settings/actions.ts#signOutEverywhereAction": "account:manage",
   "app/(app)/settings/cooperative/actions.ts#updateCooperativeSettingsAction": "settings:manage",
   "app/(app)/settings/cooperative/actions.ts#cutReleaseNowAction": "settings:manage",
+  "app/(app)/settings/cooperative/upload-retention-actions.ts#updateUploadRetentionAction": "settings:manage",
   "app/(app)/strains/actions.ts#addRegistryEntryAction": "registry:add",
   "app/(app)/strains/actions.ts#moveRegistryEntryAction": "registry:manage",
   "app/(app)/strains/actions.ts#importRegistryAction": "registry:manage",
@@ -46,6 +48,7 @@ const matrix: Record<string, Action | "public"> = {
   "app/accept-invitation/actions.ts#acceptInvitationAction": "public",
   "app/accept-invitation/actions.ts#setNewPasswordAction": "public",
   "app/reset-password/actions.ts#requestResetAction": "public",
+  "app/unsubscribe/[token]/actions.ts#chooseRemindersAction": "public",
 };
 
 const callers: { name: string; email: string; role: MemberRole }[] = [
@@ -80,12 +83,13 @@ function builtActions(trialId: string): BuiltAction[] {
   });
 }
 
-type Outcome = "refused: role" | "refused: signed out" | "passed the guard";
+type Outcome = "refused: role" | "refused: signed out" | "refused: origin" | "passed the guard";
 
-async function call(context: BrowserContext, action: BuiltAction): Promise<{ outcome: Outcome; status: number }> {
+/** Posts the action as the browser does from the app's own page (it names the page's origin). */
+async function call(context: BrowserContext, action: BuiltAction, origin = appUrl): Promise<{ outcome: Outcome; status: number }> {
   const page = context.pages()[0] ?? (await context.newPage());
   const response = await page.request.post(`${appUrl}${action.page}`, {
-    headers: { "next-action": action.id, accept: "text/x-component" },
+    headers: { "next-action": action.id, accept: "text/x-component", origin },
     // React's encoding of (previous state, an empty form).
     multipart: { "0": JSON.stringify([{ status: "idle" }, "$K1"]) },
     maxRedirects: 0,
@@ -94,6 +98,7 @@ async function call(context: BrowserContext, action: BuiltAction): Promise<{ out
   if (response.status() >= 300 && response.status() < 400 && (response.headers().location ?? "").includes("/sign-in")) {
     return { outcome: "refused: signed out", status: response.status() };
   }
+  if (response.status() === 403 && text.includes("another site")) return { outcome: "refused: origin", status: response.status() };
   if (text.includes("Your role does not allow this.")) return { outcome: "refused: role", status: response.status() };
   if (text.includes("Your session has ended")) return { outcome: "refused: signed out", status: response.status() };
   return { outcome: "passed the guard", status: response.status() };
@@ -127,6 +132,18 @@ describe("server actions", () => {
       expect(status, action.key).toBeLessThan(500);
       if (matrix[action.key] === "public") expect(outcome, action.key).toBe("passed the guard");
       else expect(outcome, action.key).toBe("refused: signed out");
+    }
+  });
+
+  it("answer a call from another site with 403, never a 500, whoever is signed in, and change nothing", async () => {
+    await browser.clearCookies();
+    const page = browser.pages()[0] ?? (await browser.newPage());
+    await new SignInPage(page).signIn(callers[0].email);
+    await new AppShell(page).waitUntilSignedIn();
+    for (const action of actions) {
+      const { outcome, status } = await call(browser, action, "https://attacker.example");
+      expect(status, action.key).toBe(403);
+      expect(outcome, action.key).toBe("refused: origin");
     }
   });
 

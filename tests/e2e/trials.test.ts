@@ -151,6 +151,8 @@ describe("a strain trial in the browser", () => {
     await new AppShell(page).signOut();
     const signedOut = await browser.newPage();
     await signedOut.goto(`${appUrl}${unsubscribeLink}`);
+    // Opening the link only asks (tests/e2e/unsubscribe.test.ts checks it changes nothing).
+    await signedOut.getByRole("button", { name: "Stop reminders" }).click();
     await signedOut.getByRole("heading", { name: "Reminders stopped" }).waitFor();
     await screenshot(signedOut, "trials-unsubscribed");
     await signedOut.goto(`${appUrl}/unsubscribe/not-a-real-link`);

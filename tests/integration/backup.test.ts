@@ -70,11 +70,17 @@ describe("db:backup and db:restore", () => {
     const grants =
       "select table_name, grantee, privilege_type from information_schema.role_table_grants where grantee like 'rhizo_%' order by 1, 2, 3";
     expect((await copy.query(grants)).rows).toEqual((await original.query(grants)).rows);
+    const columnGrants =
+      "select table_name, column_name, grantee, privilege_type from information_schema.column_privileges where grantee like 'rhizo_%' order by 1, 2, 3, 4";
+    expect((await copy.query(columnGrants)).rows).toEqual((await original.query(columnGrants)).rows);
+    // A dump carries no database privileges: the restore must take TEMPORARY from PUBLIC again.
+    const temporary = "select has_database_privilege('rhizo_app', current_database(), 'TEMPORARY') as allowed";
+    expect((await copy.query(temporary)).rows).toEqual([{ allowed: false }]);
   });
 
   it("refuses to restore over a database that exists", async () => {
     await expect(run("bash", ["scripts/db-restore.sh", backupFile, restored], { env })).rejects.toMatchObject({
-      stderr: expect.stringContaining("already exists"),
+      stderr: expect.stringContaining("already exists") as string,
     });
   });
 });

@@ -61,6 +61,7 @@ beforeAll(async () => {
     farmName: person.farm_id ? farm.name : null,
     active: true,
     displayUnits: "metric",
+    sessionVersion: 1,
   });
   observer = asMember(people.find((person) => person.role === "observer")!);
   manager = asMember(people.find((person) => person.role === "farm_manager")!);

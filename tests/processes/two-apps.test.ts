@@ -2,7 +2,7 @@ import { randomUUID } from "node:crypto";
 import PgBoss from "pg-boss";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { mailsTo } from "../support/mailbox";
-import { as, commitSeasonLog, copyOfTestDatabase, seasonLog, signIn, startApp, type App, type Database } from "./support/apps";
+import { as, commitSeasonLog, copyOfTestDatabase, seasonLog, signIn, signOut, startApp, type App, type Database } from "./support/apps";
 
 /**
  * Two `next start` processes of one build on one database, as behind a load balancer. Each keeps
@@ -95,7 +95,15 @@ describe("two app processes on one database", () => {
     for (const to of recipients) await vi.waitFor(async () => expect(await mailsTo(to)).toHaveLength(1), { timeout: 5_000 });
   });
 
-  // Needs the session version each member gets in branch security-edge: sign in on `one`, sign
-  // out there, then `as(session, other, "/api/results")` must answer 401.
-  it.todo("end a session in both when the member signs out in one");
+  it("end a session in both when the member signs out in one", async () => {
+    const manager = await signIn(one, "manager@fernbrook.example");
+    // The other process has the member in hand (and keeps the copy) before the sign-out.
+    expect((await as(manager, other, "/api/results?window=all")).status).toBe(200);
+    await signOut(manager, one);
+    expect((await as(manager, one, "/api/results?window=all")).status).toBe(401);
+    await vi.waitFor(async () => expect((await as(manager, other, "/api/results?window=all")).status).toBe(401), {
+      timeout: 5_000,
+      interval: 50,
+    });
+  });
 });

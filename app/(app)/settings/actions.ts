@@ -1,10 +1,14 @@
 "use server";
 
+import { AuthError } from "next-auth";
 import { revalidatePath } from "next/cache";
+import { redirect } from "next/navigation";
 import { z } from "zod";
+import { signIn, signOut } from "@/auth";
 import { guardedAction } from "@/lib/auth/guard";
 import { minimumPasswordLength } from "@/lib/auth/password";
 import { changePassword, updatePreferences } from "@/lib/data/members";
+import { endEverySession } from "@/lib/data/sessions";
 
 const changePasswordSchema = z
   .object({
@@ -24,9 +28,25 @@ const changePasswordSchema = z
     message: "Choose a password different from the current one.",
   });
 
+/** A new password ends every session, this one too; this browser signs in again with the new password. */
 export const changePasswordAction = guardedAction("account:manage", changePasswordSchema, async (input, member) => {
   await changePassword(member, input.currentPassword, input.newPassword);
-  return { status: "ok", message: "Password changed. We sent a note to your e-mail address." };
+  try {
+    await signIn("credentials", { email: member.email, password: input.newPassword, redirect: false });
+  } catch (error) {
+    if (!(error instanceof AuthError)) throw error;
+    redirect("/sign-in?signedOut=password");
+  }
+  return { status: "ok", message: "Password changed. Every other device was signed out; we sent a note to your e-mail address." };
+});
+
+const everywhereSchema = z.object({ scope: z.literal("everywhere", "Use the Sign out everywhere button.") });
+
+/** Ends every session of the member on every device, this one included. */
+export const signOutEverywhereAction = guardedAction("account:manage", everywhereSchema, async (_input, member) => {
+  await endEverySession(member);
+  await signOut({ redirect: false });
+  redirect("/sign-in?signedOut=everywhere");
 });
 
 const preferencesSchema = z.object({

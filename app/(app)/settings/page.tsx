@@ -6,7 +6,7 @@ import { requirePage } from "@/lib/auth/guard";
 import { can, roleLabels } from "@/lib/auth/permissions";
 import { getAccountSettings } from "@/lib/data/members";
 import { ActionForm } from "../members/_components/action-form";
-import { changePasswordAction, updatePreferencesAction } from "./actions";
+import { changePasswordAction, signOutEverywhereAction, updatePreferencesAction } from "./actions";
 
 export const metadata: Metadata = { title: "Settings" };
 
@@ -63,6 +63,20 @@ export default async function SettingsPage() {
               },
               { name: "repeatPassword", label: "New password again", type: "password", autoComplete: "new-password" },
             ]}
+          />
+        </Card>
+        <Card title="Where you are signed in">
+          <p className="mb-3 text-sm">
+            Lost a phone, or signed in on a shared computer? This signs you out on every device and browser, this one too. Changing your
+            password does the same on every other device.
+          </p>
+          <ActionForm
+            action={signOutEverywhereAction}
+            testId="sign-out-everywhere"
+            hidden={{ scope: "everywhere" }}
+            submitLabel="Sign out everywhere"
+            pendingLabel="Signing out…"
+            variant="secondary"
           />
         </Card>
         {can(member.role, "farm-data:export") ? (

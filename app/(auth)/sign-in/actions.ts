@@ -3,8 +3,8 @@
 import { AuthError } from "next-auth";
 import { redirect } from "next/navigation";
 import { z } from "zod";
-import { signIn } from "@/auth";
-import { signInLimits } from "@/lib/data/sign-in";
+import { RateLimitedSignin, signIn } from "@/auth";
+import { waitInWords } from "@/lib/auth/sign-in-pace";
 import { safeReturnPath } from "@/lib/auth/return-path";
 
 export interface SignInState {
@@ -20,18 +20,21 @@ const signInSchema = z.object({
 
 export async function signInAction(_previous: SignInState, formData: FormData): Promise<SignInState> {
   const parsed = signInSchema.safeParse(Object.fromEntries(formData));
-  if (!parsed.success) return { message: parsed.error.issues[0]?.message, email: String(formData.get("email") ?? "") };
+  if (!parsed.success) {
+    const typed = formData.get("email");
+    return { message: parsed.error.issues[0]?.message, email: typeof typed === "string" ? typed : "" };
+  }
   const { email, password, returnTo } = parsed.data;
   try {
     await signIn("credentials", { email, password, redirect: false });
   } catch (error) {
     if (!(error instanceof AuthError)) throw error;
-    const rateLimited = "code" in error && error.code === "rate_limited";
     return {
       email,
-      message: rateLimited
-        ? `Too many attempts. Wait ${signInLimits.windowMinutes} minutes, then try again or ask your farm manager or the coordinator to reset your password.`
-        : "That e-mail and password do not match an active member. Check both and try again.",
+      message:
+        error instanceof RateLimitedSignin
+          ? `Too many tries for this account from your network. Wait ${waitInWords(error.retryAfterSeconds)}, then try again; if you have forgotten the password, reset it by e-mail.`
+          : "That e-mail and password do not match an active member. Check both and try again.",
     };
   }
   redirect(safeReturnPath(returnTo));

@@ -5,6 +5,12 @@ import { SignInForm } from "./_components/sign-in-form";
 
 export const metadata: Metadata = { title: "Sign in" };
 
+const signedOutNotes: Record<string, string> = {
+  "1": "You are signed out.",
+  everywhere: "You are signed out on every device and browser.",
+  password: "Your password is changed and you are signed out everywhere. Sign in with the new password.",
+};
+
 export default async function SignInPage({ searchParams }: { searchParams: Promise<Record<string, string | undefined>> }) {
   if (await currentMember()) redirect("/");
   const params = await searchParams;
@@ -19,7 +25,7 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
           <h1 className="mb-4 text-xl font-semibold">Sign in</h1>
           {params.signedOut ? (
             <p role="status" className="mb-4 rounded-lg bg-moss-50 px-3 py-2 text-sm text-moss-800">
-              You are signed out.
+              {signedOutNotes[params.signedOut] ?? signedOutNotes["1"]}
             </p>
           ) : null}
           <SignInForm returnTo={params.callbackUrl} />

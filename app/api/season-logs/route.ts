@@ -1,6 +1,7 @@
 import { NextResponse } from "next/server";
 import { farmContextOf, guardedRoute } from "@/lib/auth/guard";
 import { createUpload, getImportSetup, listUploads, parseStored } from "@/lib/data/season-logs";
+import { withUploadSlot } from "@/lib/data/upload-limits";
 import { AppError } from "@/lib/errors";
 import { createSeasonLogParser } from "@/lib/import";
 import { largestSpreadsheetBytes, largestUploadBytes, parserOptions } from "@/lib/season-logs/report";
@@ -40,33 +41,50 @@ export const POST = guardedRoute("season-log:upload", async (request, { member }
   const declared = Number(request.headers.get("content-length") ?? "0");
   if (declared > largestUploadBytes) throw new AppError("too_large", tooLarge);
   if (!request.body) throw new AppError("invalid_input", "The upload was empty. Choose a CSV file and send it again.");
+  const body = request.body;
+  // At most a few files per farm at once, room to keep this one, and memory in this process to read it.
+  return withUploadSlot(context, declared, () => receive(context, body, declared, fileNameOf(request)));
+});
 
+async function receive(
+  context: ReturnType<typeof farmContextOf>,
+  body: ReadableStream<Uint8Array>,
+  declared: number,
+  fileName: string,
+): Promise<Response> {
   const setup = await getImportSetup(context);
   const parser = createSeasonLogParser(parserOptions(setup.remembered, setup.knownStrains));
-  const chunks: Uint8Array[] = [];
+  // The bytes go straight into one buffer of the size announced (a file held once, not as chunks and again as their join).
+  let content = Buffer.allocUnsafe(declared > 0 ? declared : 1024 * 1024);
   let size = 0;
   // Decided on the first four bytes: a CSV is read as it streams in, a spreadsheet once it is whole.
   let spreadsheet: boolean | null = null;
-  const reader = request.body.getReader();
+  const reader = body.getReader();
   for (;;) {
     const { done, value } = await reader.read();
     if (done) break;
-    size += value.byteLength;
-    chunks.push(value);
-    if (spreadsheet === null && size >= 4) {
-      spreadsheet = startsLikeZip(Buffer.concat(chunks, size));
-      if (!spreadsheet) for (const chunk of chunks) parser.write(chunk);
-    } else if (spreadsheet === false) parser.write(value);
-    if (size > (spreadsheet ? largestSpreadsheetBytes : largestUploadBytes)) {
+    const limit = spreadsheet ? largestSpreadsheetBytes : largestUploadBytes;
+    if (size + value.byteLength > limit) {
       await reader.cancel();
       throw new AppError("too_large", spreadsheet ? spreadsheetTooLarge : tooLarge);
     }
+    if (size + value.byteLength > content.byteLength) {
+      const grown = Buffer.allocUnsafe(Math.min(largestUploadBytes, Math.max(2 * content.byteLength, size + value.byteLength)));
+      content.copy(grown, 0, 0, size);
+      content = grown;
+    }
+    content.set(value, size);
+    size += value.byteLength;
+    if (spreadsheet === null && size >= 4) {
+      spreadsheet = startsLikeZip(content);
+      if (!spreadsheet) parser.write(content.subarray(0, size));
+    } else if (spreadsheet === false) parser.write(value);
   }
   if (size === 0)
     throw new AppError("invalid_input", "The file is empty. Export the season log from your spreadsheet as CSV and upload that file.");
-  if (spreadsheet === null) for (const chunk of chunks) parser.write(chunk);
-  const content = Buffer.concat(chunks, size);
-  const result = spreadsheet ? await parseStored(content, setup, setup.remembered) : parser.end();
-  const view = await createUpload(context, { fileName: fileNameOf(request), content, result, choices: setup.remembered });
+  if (spreadsheet === null) parser.write(content.subarray(0, size));
+  const bytes = content.subarray(0, size);
+  const result = spreadsheet ? await parseStored(bytes, setup, setup.remembered) : parser.end();
+  const view = await createUpload(context, { fileName, content: bytes, result, choices: setup.remembered });
   return NextResponse.json(view, { status: 201 });
-});
+}

@@ -1,21 +1,30 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { optOutOfReminders } from "@/lib/data/trials";
+import { getReminderChoice } from "@/lib/data/trials";
+import { ReminderChoice } from "./_components/reminder-choice";
 
 export const metadata: Metadata = { title: "Trial reminders" };
 
-/** Public: the link in a trial e-mail turns off reminders for that farm and trial. */
+/**
+ * Public: the link in a trial e-mail opens this page, which only reads. Stopping the farm's
+ * reminders takes a click (a mail scanner that opens the link changes nothing), and can be undone.
+ */
 export default async function UnsubscribePage({ params }: { params: Promise<{ token: string }> }) {
-  const { token } = await params;
-  const trialCode = await optOutOfReminders(decodeURIComponent(token));
+  const token = decodeURIComponent((await params).token);
+  const choice = await getReminderChoice(token);
   return (
     <main id="main" className="mx-auto max-w-xl px-4 py-16">
-      <h1 className="text-2xl font-semibold text-moss-800">{trialCode ? "Reminders stopped" : "This link does not work"}</h1>
-      <p className="mt-4 text-base text-ink">
-        {trialCode
-          ? `Your farm will get no more reminder e-mails about trial ${trialCode}. Invitations, your enrolment confirmation and published results still arrive.`
-          : "The link is incomplete or was not made by Rhizomorph. Copy the whole link from the e-mail, or ask the coordinator to stop the reminders for you."}
-      </p>
+      {choice ? (
+        <ReminderChoice token={token} trialCode={choice.trialCode} remindersAllowed={choice.remindersAllowed} />
+      ) : (
+        <>
+          <h1 className="text-2xl font-semibold text-moss-800">This link does not work</h1>
+          <p className="mt-4 text-base text-ink">
+            The link is incomplete or was not made by Rhizomorph. Copy the whole link from the e-mail, or ask the coordinator to stop the
+            reminders for you.
+          </p>
+        </>
+      )}
       <p className="mt-6">
         <Link href="/sign-in" className="inline-flex min-h-11 items-center font-semibold text-moss-700 underline">
           Sign in to Rhizomorph

@@ -6,10 +6,14 @@ export const demoPassword = "alder-valley-demo";
 
 /** The sign-in page, as a person uses it. */
 export class SignInPage {
-  constructor(readonly page: Page) {}
+  /** `base`: another app process of the same build, where a test starts one. */
+  constructor(
+    readonly page: Page,
+    readonly base = appUrl,
+  ) {}
 
   async open(): Promise<void> {
-    await this.page.goto(`${appUrl}/sign-in`);
+    await this.page.goto(`${this.base}/sign-in`);
   }
 
   async signIn(email: string, password = demoPassword): Promise<void> {

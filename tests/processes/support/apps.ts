@@ -144,6 +144,19 @@ export async function signIn(app: App, email: string, password = "alder-valley-d
   return session;
 }
 
+/** Signs the session out through the app it is sent to, as the Sign out button does. */
+export async function signOut(session: string, app: App): Promise<void> {
+  const csrf = await fetch(`${app.url}/api/auth/csrf`, { headers: { cookie: session } });
+  const { csrfToken } = (await csrf.json()) as { csrfToken: string };
+  const answer = await fetch(`${app.url}/api/auth/signout`, {
+    method: "POST",
+    redirect: "manual",
+    headers: { "content-type": "application/x-www-form-urlencoded", cookie: `${session}; ${cookiesOf(csrf)}`, origin: app.url },
+    body: new URLSearchParams({ csrfToken, callbackUrl: `${app.url}/sign-in` }),
+  });
+  if (answer.status !== 302) throw new Error(`signing out gave status ${answer.status}`);
+}
+
 function cookiesOf(response: Response): string {
   return response.headers
     .getSetCookie()

@@ -4,14 +4,21 @@ import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { getReleaseStatus } from "@/lib/data/pooled-releases";
 import { getCooperativeSettingsForEditing } from "@/lib/data/pooled-settings";
+import { getUploadRetentionDays } from "@/lib/data/upload-limits";
+import { ActionForm } from "../../members/_components/action-form";
 import { CooperativeSettingsForm } from "./_components/cooperative-settings-form";
 import { ReleasePanel } from "./_components/release-panel";
+import { updateUploadRetentionAction } from "./upload-retention-actions";
 
 export const metadata: Metadata = { title: "Co-op settings" };
 
 export default async function CooperativeSettingsPage() {
   const member = await requirePage("settings:manage");
-  const [{ name, ...settings }, releases] = await Promise.all([getCooperativeSettingsForEditing(member), getReleaseStatus(member)]);
+  const [{ name, ...settings }, releases, retentionDays] = await Promise.all([
+    getCooperativeSettingsForEditing(member),
+    getReleaseStatus(member),
+    getUploadRetentionDays(member),
+  ]);
   return (
     <>
       <PageHeader title="Co-op settings" lead={`How ${name} publishes pooled results without exposing any one farm.`} />
@@ -21,6 +28,25 @@ export default async function CooperativeSettingsPage() {
         </Card>
         <Card title="Releases of the pooled figures">
           <ReleasePanel status={releases} />
+        </Card>
+        <Card title="Files of rejected uploads">
+          <p className="mb-3 max-w-xl text-sm">
+            A season log with errors is kept so its farm can see what was wrong and download what it sent. After this many days its file is
+            removed; the record of the upload and its report stay.
+          </p>
+          <ActionForm
+            action={updateUploadRetentionAction}
+            testId="upload-retention"
+            submitLabel="Save"
+            fields={[
+              {
+                name: "rejectedUploadRetentionDays",
+                label: "Keep the files of rejected uploads for (days)",
+                type: "number",
+                defaultValue: String(retentionDays),
+              },
+            ]}
+          />
         </Card>
       </div>
     </>

@@ -8,14 +8,6 @@ import { PrintButton } from "../../_components/print-button";
 
 export const metadata: Metadata = { title: "Label sheet" };
 
-// When printing, only the sheet shows: no menu, no buttons.
-const printStyles = `@media print {
-  body * { visibility: hidden; }
-  .label-sheet, .label-sheet * { visibility: visible; }
-  .label-sheet { position: absolute; inset: 0 auto auto 0; width: 100%; }
-  .label { break-inside: avoid; }
-}`;
-
 export default async function LabelSheetPage({ params }: { params: Promise<{ trialId: string }> }) {
   const member = await requirePage("trial-list:download");
   const { trialId } = await params;
@@ -23,7 +15,6 @@ export default async function LabelSheetPage({ params }: { params: Promise<{ tri
   const list = await listOwnAssignments(member, trialId);
   return (
     <>
-      <style>{printStyles}</style>
       <PageHeader
         title={`Label sheet — ${trial.code}`}
         lead="Print on plain paper or label stock, cut along the lines, and tape each label onto its bag."

@@ -15,12 +15,6 @@ import { ArmBoxplot, TrialForestChart } from "../../_components/trial-charts";
 
 export const metadata: Metadata = { title: "Trial results" };
 
-const printStyles = `@media print {
-  nav, aside, [data-app-navigation], .no-print { display: none !important; }
-  main { max-width: none !important; padding: 0 !important; }
-  section { break-inside: avoid; box-shadow: none !important; }
-}`;
-
 const fmt = (value: number, digits = 1) => value.toFixed(digits);
 const pText = (p: number) => (p < 0.001 ? "< 0.001" : fmt(p, 3));
 
@@ -35,7 +29,8 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
   const results = trial.results;
   return (
     <>
-      <style>{printStyles}</style>
+      {/* Printed as a report, without the menu (app/globals.css). */}
+      <span data-print="report" hidden />
       <PageHeader title={`Results — ${trial.title}`} lead={trial.question}>
         <span className="no-print">
           <PrintButton label="Print the report" />
