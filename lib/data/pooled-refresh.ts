@@ -54,13 +54,9 @@ export async function refreshAllPooledStatistics(): Promise<void> {
 }
 
 /** True while any farm's statistics are still being recomputed after an upload. */
-export const getPooledUpdating = keptForEveryone(
-  "results updating",
-  "pooled-statistics",
-  async (): Promise<boolean> => {
-    const [row] = await readAsAnalyst<{ pending: boolean }>(
-      sql`select exists (select 1 from pooled_refresh_state where requested > completed) as pending`,
-    );
-    return Boolean(row?.pending);
-  },
-);
+export const getPooledUpdating = keptForEveryone("results updating", "pooled-statistics", async (): Promise<boolean> => {
+  const [row] = await readAsAnalyst<{ pending: boolean }>(
+    sql`select exists (select 1 from pooled_refresh_state where requested > completed) as pending`,
+  );
+  return Boolean(row?.pending);
+});
