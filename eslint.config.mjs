@@ -7,7 +7,17 @@ import tseslint from "typescript-eslint";
 
 export default tseslint.config(
   {
-    ignores: ["node_modules/", ".next/", ".next-*/", ".data/", "test-results/", "bench-results/", "db/migrations/", "public/sw.js", "next-env.d.ts"],
+    ignores: [
+      "node_modules/",
+      ".next/",
+      ".next-*/",
+      ".data/",
+      "test-results/",
+      "bench-results/",
+      "db/migrations/",
+      "public/sw.js",
+      "next-env.d.ts",
+    ],
   },
   ...nextCoreWebVitals,
   ...nextTypescript,

@@ -33,8 +33,11 @@ const globalForDb = globalThis as unknown as { rhizomorphPools?: Pools };
 
 function pools(): Pools {
   if (!globalForDb.rhizomorphPools) {
+    // pg-pool waits for the promise onConnect returns (pg-pool's index.js); @types/pg types it as void.
+    /* eslint-disable @typescript-eslint/no-misused-promises */
     const appPool = new Pool({ connectionString: requireEnv("DATABASE_URL"), max: 10, onConnect: listenForChanges });
     const analystPool = new Pool({ connectionString: requireEnv("ANALYST_DATABASE_URL"), max: 4, onConnect: listenForChanges });
+    /* eslint-enable @typescript-eslint/no-misused-promises */
     globalForDb.rhizomorphPools = {
       appPool,
       analystPool,

@@ -21,5 +21,7 @@ function cellText(value: unknown): string | number {
   if (value === null || value === undefined) return "";
   if (typeof value === "number") return value;
   if (value instanceof Date) return value.toISOString();
-  return String(value);
+  if (typeof value === "string") return value;
+  if (typeof value === "boolean" || typeof value === "bigint") return String(value);
+  return JSON.stringify(value) ?? "";
 }

@@ -4,11 +4,11 @@
  */
 export interface Random {
   /** Uniform in [0, 1). */
-  next(): number;
+  next: () => number;
   /** Whole number in [min, max], both included. */
-  integer(min: number, max: number): number;
+  integer: (min: number, max: number) => number;
   /** Normal with the given mean and standard deviation (Box–Muller). */
-  normal(mean: number, sd: number): number;
+  normal: (mean: number, sd: number) => number;
   pick<T>(items: readonly T[]): T;
   shuffle<T>(items: readonly T[]): T[];
 }

@@ -103,7 +103,8 @@ async function stopPooledRefresh(): Promise<void> {
 }
 
 function copyCsv(records: ReturnType<ReturnType<typeof createSeasonLogParser>["end"]>["records"]): string {
-  const cell = (value: unknown) => (value === null || value === undefined ? "" : `"${String(value).replace(/"/g, '""')}"`);
+  const cell = (value: string | number | boolean | null | undefined) =>
+    value === null || value === undefined ? "" : `"${String(value).replace(/"/g, '""')}"`;
   const lines: string[] = [];
   for (const r of records) {
     lines.push(
@@ -134,7 +135,7 @@ function copyCsv(records: ReturnType<ReturnType<typeof createSeasonLogParser>["e
 }
 
 /** Parse only, with the sheet generated straight into the parser, so the peak is the parser's own. */
-async function measureParse(rows: number): Promise<Figures> {
+function measureParse(rows: number): Figures {
   const started = performance.now();
   const parser = createSeasonLogParser(parserOptions({}, [...demoStrains]));
   let pending: string[] = [];

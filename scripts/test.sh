@@ -2,12 +2,13 @@
 # npm test: sets everything up against a fresh test database, then runs the unit,
 # integration and browser tests. Exit code 0 only if all passed.
 # `bash scripts/test.sh unit integration` runs only the phases named; e2e includes the
-# multi-process tests (tests/processes), which need the same build.
+# multi-process tests (tests/processes), which need the same build. `static` (the type check and
+# the linter) runs first and stops the run when either fails: nothing else is worth the wait then.
 . "$(dirname "$0")/lib.sh"
 . "$ROOT/scripts/db.sh"
 
 PHASES=("$@")
-[ ${#PHASES[@]} -eq 0 ] && PHASES=(unit integration e2e)
+[ ${#PHASES[@]} -eq 0 ] && PHASES=(static unit integration e2e)
 wants() { [[ " ${PHASES[*]} " == *" $1 "* ]]; }
 
 DATABASE="${RHIZO_TEST_DB:-rhizomorph_test}"
@@ -22,6 +23,13 @@ ensure_dependencies
 if wants e2e && [ ! -x /usr/bin/chromium ]; then
   say "Installing Chromium from Debian's packages"
   apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium >/dev/null
+fi
+
+if wants static; then
+  say "Type-checking (tsc --noEmit)"
+  npx tsc --noEmit || { echo "The type check failed; no tests run."; exit 1; }
+  say "Linting (eslint, no warnings allowed)"
+  npx eslint --max-warnings 0 . || { echo "The linter found problems; no tests run."; exit 1; }
 fi
 
 BACKGROUND_PIDS=()
@@ -88,7 +96,8 @@ if wants e2e; then
   fi
 fi
 
-REPORTS=("${PHASES[@]}")
+REPORTS=()
+for phase in "${PHASES[@]}"; do [ "$phase" != static ] && REPORTS+=("$phase"); done
 wants e2e && REPORTS+=(processes)
 node scripts/test-summary.mjs "$RHIZO_TEST_RESULTS" "${REPORTS[@]}" || STATUS=1
 exit "$STATUS"

@@ -41,6 +41,8 @@ export function DataTable<Row>({
   const [sorting, setSorting] = useState<SortingState>([]);
   const [filter, setFilter] = useState("");
   const [columnVisibility, setColumnVisibility] = useState<VisibilityState>({});
+  // TanStack Table's instance is not memoisable; the React Compiler skips this component, as it should.
+  // eslint-disable-next-line react-hooks/incompatible-library
   const table = useReactTable({
     data: rows,
     columns,

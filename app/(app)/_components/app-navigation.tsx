@@ -63,9 +63,11 @@ export function AppNavigation({ items, memberName, roleLabel, farmName }: Props)
             Safety cautions
           </Link>
           {/* Through Auth.js's own endpoint, where the proxy cannot renew the cookie being cleared;
-              then a relative redirect, because Auth.js would name the host "localhost". */}
+              then a relative redirect, because Auth.js would name the host "localhost"; a full page
+              load, so nothing the signed-out member's pages held stays in memory. */}
           <button
             type="button"
+            // eslint-disable-next-line @next/next/no-location-assign-relative-destination -- the full page load above
             onClick={() => void signOut({ redirect: false }).then(() => window.location.assign("/sign-in?signedOut=1"))}
             className="mt-3 min-h-11 rounded-lg border border-oat-50/40 px-3 hover:bg-moss-700"
           >

@@ -6,7 +6,7 @@ import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { can } from "@/lib/auth/permissions";
 import { listTrials } from "@/lib/data/trials";
-import { trialStatusLabels, type TrialStatus } from "@/lib/trials/lifecycle";
+import { trialStatusLabels } from "@/lib/trials/lifecycle";
 import { StatusBadge } from "./_components/status-badge";
 
 export const metadata: Metadata = { title: "Trials" };
@@ -39,7 +39,7 @@ export default async function TrialsPage() {
               <Card>
                 <div className="flex flex-wrap items-center justify-between gap-2">
                   <span className="font-mono text-sm text-ink-soft">{trial.code}</span>
-                  <StatusBadge status={trial.status as TrialStatus} />
+                  <StatusBadge status={trial.status} />
                 </div>
                 <h2 className="mt-2 text-lg font-semibold text-moss-800">
                   <Link href={`/trials/${trial.id}`} className="underline-offset-4 hover:underline">
@@ -61,7 +61,7 @@ export default async function TrialsPage() {
                     Read the results
                   </Link>
                 ) : null}
-                <span className="sr-only">Status: {trialStatusLabels[trial.status as TrialStatus]}</span>
+                <span className="sr-only">Status: {trialStatusLabels[trial.status]}</span>
               </Card>
             </li>
           ))}
