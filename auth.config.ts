@@ -1,6 +1,7 @@
 import type { NextAuthConfig } from "next-auth";
 import { getToken } from "next-auth/jwt";
 import { sessionClaimsOf, sessionMaxAgeSeconds, type SessionClaims } from "@/lib/auth/sessions";
+import { env } from "@/lib/env";
 
 /** Paths anyone may open without signing in. */
 export const publicPaths = ["/sign-in", "/forbidden", "/accept-invitation", "/reset-password", "/cautions", "/unsubscribe"];
@@ -40,7 +41,7 @@ export async function readSession(cookie: string | null): Promise<SessionClaims 
   if (seen && seen.expiresAt > Date.now()) return seen.claims;
   // Browsers keep a __Secure- cookie only for https, so its presence tells which name was used.
   const secureCookie = cookie.includes("__Secure-authjs.session-token");
-  const token = await getToken({ req: { headers: new Headers({ cookie }) }, secret: process.env.AUTH_SECRET, secureCookie });
+  const token = await getToken({ req: { headers: new Headers({ cookie }) }, secret: env("AUTH_SECRET"), secureCookie });
   if (!token?.exp) return null;
   const claims = sessionClaimsOf(token);
   if (decodedSessions.size >= 1000) decodedSessions.delete(decodedSessions.keys().next().value!);

@@ -4,10 +4,11 @@ import Credentials from "next-auth/providers/credentials";
 import type {} from "next-auth/jwt";
 import { z } from "zod";
 import { authConfig } from "./auth.config";
-import { clientAddress, trustedProxyCount } from "@/lib/auth/client-address";
+import { clientAddress } from "@/lib/auth/client-address";
 import { sessionClaimsOf, sessionMaxAgeSeconds } from "@/lib/auth/sessions";
 import { endSession } from "@/lib/data/sessions";
 import { checkPassword, type SignInOutcome } from "@/lib/data/sign-in";
+import { env } from "@/lib/env";
 
 declare module "next-auth" {
   interface Session {
@@ -47,7 +48,7 @@ export const { handlers, auth, signIn, signOut } = NextAuth({
       async authorize(credentials, request) {
         const parsed = credentialsSchema.safeParse(credentials);
         if (!parsed.success) return null;
-        const address = clientAddress(request.headers, trustedProxyCount(process.env.RHIZO_TRUSTED_PROXIES));
+        const address = clientAddress(request.headers, env("RHIZO_TRUSTED_PROXIES"));
         const outcome: SignInOutcome = await checkPassword(parsed.data.email, parsed.data.password, address);
         if (outcome.status === "rate_limited") throw new RateLimitedSignin(outcome.retryAfterSeconds);
         if (outcome.status !== "ok") return null;

@@ -13,8 +13,12 @@ import { peerAddressHeader } from "@/lib/auth/client-address";
  */
 export async function register(): Promise<void> {
   if (process.env.NEXT_RUNTIME !== "nodejs") return;
+  if (process.env.NEXT_PHASE === "phase-production-build") return;
+  // A server with a missing or wrong setting stops here, saying which one (lib/env.ts).
+  const { checkEnv } = await import("./lib/env");
+  const settings = checkEnv();
   await stampPeerAddresses();
-  if (process.env.NEXT_PHASE === "phase-production-build" || process.env.RHIZO_JOB_WORKERS === "off") return;
+  if (settings.RHIZO_JOB_WORKERS === "off") return;
   const { startJobWorkers } = await import("./lib/jobs/worker");
   // Not awaited: a database that is down must not stop the server answering. Tried again until it starts.
   const start = () =>

@@ -2,8 +2,9 @@ import { NextResponse, type NextRequest } from "next/server";
 import { isPublicPath, readSession } from "@/auth.config";
 import { crossOriginRefusal } from "@/lib/http/origin";
 import { pageContentSecurityPolicy, resourceContentSecurityPolicy, strictTransportSecurity } from "@/lib/http/security-headers";
+import { env } from "@/lib/env";
 
-const appUrl = () => process.env.APP_URL ?? "http://127.0.0.1:3000";
+const appUrl = () => env("APP_URL");
 
 /**
  * Runs before every page and server action (not API routes, not static files):

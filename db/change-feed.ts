@@ -1,4 +1,5 @@
 import { Client, type ClientBase, type Notification } from "pg";
+import { env } from "@/lib/env";
 
 /**
  * What PostgreSQL says has changed. The triggers of migration 0010 send a notice on commit naming
@@ -49,8 +50,8 @@ function bumpAll(state: Feed) {
 }
 
 async function listen(state: Feed): Promise<void> {
-  const connectionString = process.env.DATABASE_URL;
-  if (!connectionString || state.stopped) return;
+  if (state.stopped) return;
+  const connectionString = env("DATABASE_URL");
   const client = new Client({ connectionString, application_name: listenerApplicationName });
   state.client = client;
   const lost = () => {

@@ -4,6 +4,7 @@ import { Pool } from "pg";
 import { listenForChanges, stopChangeFeed } from "./change-feed";
 import * as schema from "./schema";
 import type { MemberRole } from "@/lib/auth/permissions";
+import { env } from "@/lib/env";
 
 export type Database = NodePgDatabase<typeof schema>;
 export type Transaction = Parameters<Parameters<Database["transaction"]>[0]>[0];
@@ -22,12 +23,6 @@ interface Pools {
   analystPool: Pool;
 }
 
-function requireEnv(name: string): string {
-  const value = process.env[name];
-  if (!value) throw new Error(`${name} is not set: start the app with npm start (or npm test)`);
-  return value;
-}
-
 // One pool per role, kept on globalThis so dev reloads and test files share it.
 const globalForDb = globalThis as unknown as { rhizomorphPools?: Pools };
 
@@ -35,8 +30,8 @@ function pools(): Pools {
   if (!globalForDb.rhizomorphPools) {
     // pg-pool waits for the promise onConnect returns (pg-pool's index.js); @types/pg types it as void.
     /* eslint-disable @typescript-eslint/no-misused-promises */
-    const appPool = new Pool({ connectionString: requireEnv("DATABASE_URL"), max: 10, onConnect: listenForChanges });
-    const analystPool = new Pool({ connectionString: requireEnv("ANALYST_DATABASE_URL"), max: 4, onConnect: listenForChanges });
+    const appPool = new Pool({ connectionString: env("DATABASE_URL"), max: 10, onConnect: listenForChanges });
+    const analystPool = new Pool({ connectionString: env("ANALYST_DATABASE_URL"), max: 4, onConnect: listenForChanges });
     /* eslint-enable @typescript-eslint/no-misused-promises */
     globalForDb.rhizomorphPools = {
       appPool,

@@ -2,9 +2,10 @@
 
 import { headers } from "next/headers";
 import { z } from "zod";
-import { clientAddress, trustedProxyCount } from "@/lib/auth/client-address";
+import { clientAddress } from "@/lib/auth/client-address";
 import type { ActionState } from "@/lib/auth/guard";
 import { requestPasswordReset } from "@/lib/data/members";
+import { env } from "@/lib/env";
 
 const requestSchema = z.object({ email: z.string().trim().toLowerCase().pipe(z.email("Enter the e-mail address you sign in with.")) });
 
@@ -17,7 +18,7 @@ export async function requestResetAction(_previous: ActionState, formData: FormD
       message: "Some fields need attention.",
       fieldErrors: { email: parsed.error.issues.map((issue) => issue.message) },
     };
-  const ip = clientAddress(await headers(), trustedProxyCount(process.env.RHIZO_TRUSTED_PROXIES));
+  const ip = clientAddress(await headers(), env("RHIZO_TRUSTED_PROXIES"));
   await requestPasswordReset(parsed.data.email, ip);
   return {
     status: "ok",

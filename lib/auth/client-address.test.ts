@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { clientAddress, peerAddressHeader, trustedProxyCount, unknownAddress } from "./client-address";
+import { clientAddress, peerAddressHeader, unknownAddress } from "./client-address";
 
 const request = (peer: string | null, forwarded?: string) => {
   const headers = new Headers();
@@ -26,13 +26,5 @@ describe("the client's network address", () => {
   it("is one shared 'unknown' when the peer was not recorded, never a forwarded claim", () => {
     expect(clientAddress(request(null, "203.0.113.9"), 0)).toBe(unknownAddress);
     expect(clientAddress(request(null, "203.0.113.9"), 1)).toBe(unknownAddress);
-  });
-
-  it("reads the number of trusted proxies from the setting, none by default", () => {
-    expect(trustedProxyCount(undefined)).toBe(0);
-    expect(trustedProxyCount("")).toBe(0);
-    expect(trustedProxyCount("2")).toBe(2);
-    expect(() => trustedProxyCount("yes")).toThrow(/whole number/);
-    expect(() => trustedProxyCount("-1")).toThrow(/whole number/);
   });
 });

@@ -11,15 +11,6 @@ export const peerAddressHeader = "x-rhizomorph-peer-address";
 /** When the peer is not known (the very first request before the server was ready): one shared bucket. */
 export const unknownAddress = "unknown";
 
-export function trustedProxyCount(value: string | undefined): number {
-  if (value === undefined || value.trim() === "") return 0;
-  const count = Number(value);
-  if (!Number.isInteger(count) || count < 0 || count > 10) {
-    throw new Error(`RHIZO_TRUSTED_PROXIES must be a whole number from 0 to 10 (the reverse proxies in front of the app), not "${value}"`);
-  }
-  return count;
-}
-
 function normalise(address: string): string {
   const trimmed = address.trim();
   // IPv4 seen through an IPv6 socket.

@@ -12,6 +12,7 @@ export { farmContextOf };
 import { AppError, isAppError } from "@/lib/errors";
 import { crossOriginRefusal } from "@/lib/http/origin";
 import { can, type Action } from "./permissions";
+import { env } from "@/lib/env";
 
 /**
  * The signed-in member as the database has them now (roles are data), or null when the session
@@ -65,7 +66,7 @@ export function crossOriginAnswer(request: Request): Response | null {
   const refusal = crossOriginRefusal({
     method: request.method,
     headers: request.headers,
-    appUrl: process.env.APP_URL ?? "http://127.0.0.1:3000",
+    appUrl: env("APP_URL"),
   });
   return refusal ? NextResponse.json({ error: "forbidden", message: refusal }, { status: 403 }) : null;
 }

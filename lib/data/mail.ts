@@ -9,6 +9,7 @@ import { accessLink, newAccessToken } from "@/lib/members/tokens";
 import { signOptOutToken } from "@/lib/trials/reminder-opt-out";
 import { withLink, type MailKind, type QueuedMail, type SecretLink, type SecretLinkTarget } from "@/lib/mail/queued-mail";
 import { sendMail, type OutgoingMessage } from "@/lib/mail/send";
+import { env } from "@/lib/env";
 
 export { secretLink } from "@/lib/mail/queued-mail";
 
@@ -69,7 +70,7 @@ class LinkForAnotherAddress extends Error {}
 
 async function makeLink(target: SecretLinkTarget, to: string): Promise<string | null> {
   if (target.for === "reminders-opt-out") {
-    return `${appUrl()}/unsubscribe/${signOptOutToken(target.enrolmentId, process.env.AUTH_SECRET ?? "")}`;
+    return `${appUrl()}/unsubscribe/${signOptOutToken(target.enrolmentId, env("AUTH_SECRET"))}`;
   }
   const { token, tokenHash } = newAccessToken();
   const issued = await withFarmContext(worker, async (tx) => {

@@ -47,6 +47,7 @@ import {
   type TrialStatus,
 } from "@/lib/trials";
 import { verifyOptOutToken } from "@/lib/trials/reminder-opt-out";
+import { env } from "@/lib/env";
 
 export interface ArmInput {
   label: string;
@@ -85,7 +86,8 @@ export interface TrialArmView {
 
 export type StoredResults = StoredTrialResults;
 
-const optOutSecret = () => process.env.AUTH_SECRET ?? "";
+// Unsubscribe links are signed with the sessions' secret, which lib/env.ts never lets be empty.
+const optOutSecret = () => env("AUTH_SECRET");
 
 function ruleError(error: unknown): never {
   if (error instanceof TrialRuleError) throw new AppError("conflict", error.message);
@@ -821,7 +823,7 @@ export async function sendTrialReminder(member: Member, trialId: string, farmId:
 /** From the public unsubscribe link: returns the trial's code, or null for a link that is not ours. */
 export async function optOutOfReminders(token: string): Promise<string | null> {
   const enrolmentId = verifyOptOutToken(token, optOutSecret());
-  if (!enrolmentId || !optOutSecret()) return null;
+  if (!enrolmentId) return null;
   return withFarmContext({ userId: null, farmId: null, role: "anonymous" }, async (tx) => {
     const result = await tx.execute(sql`select app_trial_reminders_opt_out(${enrolmentId}::uuid) as code`);
     return (result.rows[0] as { code: string | null } | undefined)?.code ?? null;
@@ -836,7 +838,7 @@ export interface ReminderChoice {
 /** What the unsubscribe page shows before anyone clicks: the trial and whether reminders are on. Changes nothing. */
 export async function getReminderChoice(token: string): Promise<ReminderChoice | null> {
   const enrolmentId = verifyOptOutToken(token, optOutSecret());
-  if (!enrolmentId || !optOutSecret()) return null;
+  if (!enrolmentId) return null;
   return withFarmContext({ userId: null, farmId: null, role: "anonymous" }, async (tx) => {
     const result = await tx.execute<{ trial_code: string; reminders_allowed: boolean }>(
       sql`select * from app_trial_reminders_state(${enrolmentId}::uuid)`,
@@ -849,7 +851,7 @@ export async function getReminderChoice(token: string): Promise<ReminderChoice |
 /** The undo on the unsubscribe page: reminders for that farm and trial come again. Returns the trial's code, or null. */
 export async function optBackIntoReminders(token: string): Promise<string | null> {
   const enrolmentId = verifyOptOutToken(token, optOutSecret());
-  if (!enrolmentId || !optOutSecret()) return null;
+  if (!enrolmentId) return null;
   return withFarmContext({ userId: null, farmId: null, role: "anonymous" }, async (tx) => {
     const result = await tx.execute<{ code: string | null }>(sql`select app_trial_reminders_opt_in(${enrolmentId}::uuid) as code`);
     return result.rows[0]?.code ?? null;

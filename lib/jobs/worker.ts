@@ -5,6 +5,7 @@ import { farmsAwaitingRefresh } from "@/lib/data/pooled-refresh";
 import { settingsForSchedules } from "@/lib/data/schedules";
 import { jobNames, jobs, scheduledJobs, type JobName, type ScheduledJob } from "./definitions";
 import { jobHandlers } from "./handlers";
+import { env } from "@/lib/env";
 
 /** How the workers' connections show in pg_stat_activity. */
 export const workerApplicationName = "rhizomorph jobs";
@@ -18,8 +19,7 @@ interface Workers {
 const globalForWorkers = globalThis as unknown as { rhizomorphWorkers?: Promise<Workers> };
 
 function newBoss(working: boolean): PgBoss {
-  const connectionString = process.env.JOBS_DATABASE_URL;
-  if (!connectionString) throw new Error("JOBS_DATABASE_URL is not set: start the app with npm start (or npm test)");
+  const connectionString = env("JOBS_DATABASE_URL");
   const boss = new PgBoss({
     connectionString,
     schema: jobQueueSchema,
@@ -55,7 +55,7 @@ async function runJob(name: JobName, job: PgBoss.JobWithMetadata<unknown>): Prom
 export function startJobWorkers(options: { pollingIntervalSeconds?: number } = {}): Promise<Workers> {
   globalForWorkers.rhizomorphWorkers ??= (async () => {
     const boss = newBoss(true);
-    const pollingIntervalSeconds = options.pollingIntervalSeconds ?? Number(process.env.RHIZO_JOB_POLL_SECONDS ?? 2);
+    const pollingIntervalSeconds = options.pollingIntervalSeconds ?? env("RHIZO_JOB_POLL_SECONDS");
     try {
       await boss.start();
       for (const name of jobNames) {

@@ -1,5 +1,6 @@
 import "server-only";
 import nodemailer, { type Transporter } from "nodemailer";
+import { env } from "@/lib/env";
 
 export interface OutgoingMessage {
   to: string;
@@ -14,12 +15,13 @@ const globalForMail = globalThis as unknown as { rhizomorphMailer?: Transporter 
 // co-op's own mail service in production. Short timeouts: a mail job that cannot reach the
 // server fails and is retried later rather than holding its worker.
 function mailer(): Transporter {
+  const user = env("SMTP_USER");
   globalForMail.rhizomorphMailer ??= nodemailer.createTransport({
-    host: process.env.SMTP_HOST ?? "127.0.0.1",
-    port: Number(process.env.SMTP_PORT ?? 2525),
-    secure: process.env.SMTP_SECURE === "true",
-    auth: process.env.SMTP_USER ? { user: process.env.SMTP_USER, pass: process.env.SMTP_PASSWORD ?? "" } : undefined,
-    ignoreTLS: process.env.SMTP_SECURE !== "true" && !process.env.SMTP_USER,
+    host: env("SMTP_HOST"),
+    port: env("SMTP_PORT"),
+    secure: env("SMTP_SECURE") === "true",
+    auth: user ? { user, pass: env("SMTP_PASSWORD") ?? "" } : undefined,
+    ignoreTLS: env("SMTP_SECURE") !== "true" && !user,
     connectionTimeout: 10_000,
     greetingTimeout: 10_000,
     socketTimeout: 30_000,
@@ -30,7 +32,7 @@ function mailer(): Transporter {
 /** Speaks SMTP to the mail server. Only the mail job calls this (lib/data/mail.ts). */
 export async function sendMail(message: OutgoingMessage): Promise<void> {
   await mailer().sendMail({
-    from: process.env.MAIL_FROM ?? "Rhizomorph <no-reply@rhizomorph.invalid>",
+    from: env("MAIL_FROM"),
     to: message.to,
     subject: message.subject,
     text: message.text,
