@@ -128,8 +128,20 @@ export class QuickHarvestPage {
     return this.savedMessage();
   }
 
-  async chosenUnit(): Promise<string> {
-    return this.page.getByLabel("Unit").inputValue();
+  /** Waits until the unit picker shows `unit` (what the phone remembers is applied after hydration); false after 5 s. */
+  async showsUnit(unit: string): Promise<boolean> {
+    try {
+      await this.page.waitForFunction(
+        (expected) => (document.getElementById("unit") as HTMLSelectElement | null)?.value === expected,
+        unit,
+        {
+          timeout: 5_000,
+        },
+      );
+      return true;
+    } catch {
+      return false;
+    }
   }
 
   async weightKeypad(): Promise<string | null> {
