@@ -11,7 +11,7 @@ export const recordHarvestAction = guardedAction("harvest:record", recordHarvest
   if (result.status === "warnings")
     return {
       status: "confirm",
-      message: "Not saved yet: check what is marked, then correct it or save anyway.",
+      message: "Check what is marked, then correct it or save anyway.",
       warnings: result.warnings,
     };
   revalidatePath("/blocks", "layout");

@@ -1,6 +1,6 @@
 "use client";
 
-import { useActionState, useState, useSyncExternalStore } from "react";
+import { startTransition, useActionState, useState, useSyncExternalStore } from "react";
 import { Button } from "@/components/ui/button";
 import { Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
@@ -93,8 +93,14 @@ export function QuickHarvestForm({
 
   return (
     <form
-      action={action}
-      onSubmit={() => remember(unit, harvestedOn)}
+      onSubmit={(event) => {
+        // Sent by hand rather than through the form's action: React resets a form after its action,
+        // and a reset puts the unit picker back on its first option while the entry keeps its unit.
+        event.preventDefault();
+        const data = new FormData(event.currentTarget, event.nativeEvent.submitter);
+        remember(unit, harvestedOn);
+        startTransition(() => action(data));
+      }}
       className="space-y-4 rounded-xl border border-oat-300 bg-white p-5 shadow-sm"
     >
       {state.status === "ok" ? (
