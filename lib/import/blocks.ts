@@ -4,6 +4,7 @@ import {
   efficiencyVerdict,
   flushHeavierThanBlock as heavierThanBlock,
   harvestBeforeInoculation,
+  harvestOnContaminatedBlock,
   highestPlausibleEfficiency,
   missingFlushes,
 } from "./harvest-checks";
@@ -303,6 +304,25 @@ export function blockAtFinish(state: ParseState, block: BlockState, record: Seas
       harvested,
       "error",
       `flush ${record.flush} of block ${record.blockCode} was harvested on ${writtenDate(harvested, record.harvestedOn)}, before the block was inoculated (${writtenDate(inoculated, record.inoculatedOn)}). Correct the harvest date or the inoculation date.`,
+    );
+  }
+  if (
+    record.flush !== null &&
+    record.contaminated &&
+    record.harvestedOn !== null &&
+    record.contaminatedOn !== null &&
+    harvestOnContaminatedBlock({ contaminated: true, contaminatedOn: record.contaminatedOn }, record.harvestedOn) === "after"
+  ) {
+    const harvested = written.harvestedOn ?? record.harvestedOn;
+    const found = written.contaminatedOn ?? block.contaminatedOnWritten ?? record.contaminatedOn;
+    cellIssue(
+      state.issues,
+      record.line,
+      harvestDateColumn(state.layout, record.flush),
+      "harvest_on_contaminated_block",
+      harvested,
+      "warning",
+      `flush ${record.flush} of block ${record.blockCode} was harvested on ${writtenDate(harvested, record.harvestedOn)}, after the block was found contaminated (${writtenDate(found, record.contaminatedOn)}). Check the dates and the block code; handle a contaminated block with respiratory protection.`,
     );
   }
   if (block.contaminated === false && record.contaminatedOn !== null && source[slot.contaminatedOn] === index) {

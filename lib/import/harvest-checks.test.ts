@@ -49,6 +49,7 @@ describe("the block checks the importer and the quick form share", () => {
   it("tells a harvest after the contamination was found from one on a block only marked", () => {
     expect(harvestOnContaminatedBlock({ contaminated: true, contaminatedOn: "2026-04-10" }, "2026-04-12")).toBe("after");
     expect(harvestOnContaminatedBlock({ contaminated: true, contaminatedOn: "2026-04-10" }, "2026-04-01")).toBe("marked");
+    expect(harvestOnContaminatedBlock({ contaminated: true, contaminatedOn: "2026-04-10" }, "2026-04-10")).toBe("marked");
     expect(harvestOnContaminatedBlock({ contaminated: true, contaminatedOn: null }, "2026-04-01")).toBe("marked");
     expect(harvestOnContaminatedBlock({ contaminated: false, contaminatedOn: null }, "2026-04-01")).toBeNull();
   });

@@ -55,14 +55,17 @@ export function efficiencyVerdict(efficiency: number | null): "plausible" | "imp
 
 /**
  * A harvest on a block marked contaminated (a warning, `harvest_on_contaminated_block`): "after"
- * when it is dated after the contamination was found, "marked" when the block is only marked.
+ * when it is dated after the day the contamination was found, "marked" when the block is only
+ * marked. The importer warns of "after" only (a file holds a block's flushes from before it was
+ * lost); the quick form of both, since a flush recorded now on a block already marked is unusual.
  */
 export function harvestOnContaminatedBlock(
   block: { contaminated: boolean; contaminatedOn: string | null },
   harvestedOn: string | null,
 ): "after" | "marked" | null {
   if (!block.contaminated) return null;
-  return block.contaminatedOn !== null && harvestedOn !== null && harvestedOn >= block.contaminatedOn ? "after" : "marked";
+  // The day it was found may still have had a last pick: only a later day is "after".
+  return block.contaminatedOn !== null && harvestedOn !== null && harvestedOn > block.contaminatedOn ? "after" : "marked";
 }
 
 /** A flush weighed as nothing (`flush_weighs_nothing`): on the quick form, a flush of 0 is no flush to record. */
