@@ -128,6 +128,8 @@ export const harvests = pgTable(
     dryMassG: numeric("dry_mass_g", { mode: "number" }),
     dryMassAsWritten: text("dry_mass_as_written"),
     dryMassUnit: text("dry_mass_unit"),
+    // The warnings a grower read and saved anyway ("Save anyway" on the quick form), one a line; null when there were none.
+    acceptedWarnings: text("accepted_warnings"),
     uploadId: uuid("upload_id").references(() => uploads.id, { onDelete: "set null" }),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),

@@ -86,9 +86,11 @@ export function guardedRoute<Params = Record<string, string>>(action: Action, ha
 }
 
 export type ActionState = {
-  status: "idle" | "ok" | "error";
+  /** "confirm": nothing saved; `warnings` wait for the person to correct or confirm them. */
+  status: "idle" | "ok" | "error" | "confirm";
   message?: string;
   fieldErrors?: Record<string, string[]>;
+  warnings?: { code: string; field: string; message: string }[];
 };
 
 /**
@@ -120,7 +122,8 @@ export function guardedAction<Schema extends z.ZodType>(
       return (await run(parsed.data, member)) ?? { status: "ok" };
     } catch (error) {
       if (isAppError(error)) {
-        const fieldErrors = Object.fromEntries(error.fieldProblems.map((problem) => [problem.field, [problem.message]]));
+        const fieldErrors: Record<string, string[]> = {};
+        for (const problem of error.fieldProblems) (fieldErrors[problem.field] ??= []).push(problem.message);
         return { status: "error", message: error.message, fieldErrors };
       }
       throw error;

@@ -6,6 +6,13 @@ import { recordAudit } from "@/lib/data/audit";
 import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
 import { AppError } from "@/lib/errors";
 import { blockFigures, nextFlush } from "@/lib/season-logs/block-figures";
+import {
+  checkQuickHarvest,
+  latestToday,
+  warningsNotAccepted,
+  type HarvestProblem,
+  type QuickHarvestEntry,
+} from "@/lib/season-logs/quick-harvest";
 
 export interface BlockRow {
   id: string;
@@ -27,7 +34,14 @@ export interface BlockDetail extends BlockRow {
   spentMassG: number | null;
   contaminatedOn: string | null;
   notes: string;
-  harvests: { flush: number; harvestedOn: string | null; freshMassG: number; dryMassG: number | null; freshMassAsWritten: string | null }[];
+  harvests: {
+    flush: number;
+    harvestedOn: string | null;
+    freshMassG: number;
+    dryMassG: number | null;
+    freshMassAsWritten: string | null;
+    acceptedWarnings: string | null;
+  }[];
   history: {
     id: number;
     flush: number | null;
@@ -90,7 +104,13 @@ function withFigures(row: BlockSelection): BlockRow & { spentMassG: number | nul
     ...row,
     flushes: Number(row.flushes),
     totalFreshG,
-    ...blockFigures({ wetMassG: row.wetMassG, moisture: row.moisture, totalFreshG, spentMassG: row.spentMassG }),
+    ...blockFigures({
+      flushes: Number(row.flushes),
+      wetMassG: row.wetMassG,
+      moisture: row.moisture,
+      totalFreshG,
+      spentMassG: row.spentMassG,
+    }),
   };
 }
 
@@ -150,6 +170,7 @@ export async function getBlock(context: FarmContext, blockId: string): Promise<B
         freshMassG: harvests.freshMassG,
         dryMassG: harvests.dryMassG,
         freshMassAsWritten: harvests.freshMassAsWritten,
+        acceptedWarnings: harvests.acceptedWarnings,
       })
       .from(harvests)
       .where(eq(harvests.blockId, blockId))
@@ -196,57 +217,78 @@ export async function listHarvestTargets(context: FarmContext): Promise<HarvestT
   return rows.map((row) => ({ code: row.code, nextFlush: nextFlush(row.flushes) }));
 }
 
-/** Records one flush from the quick form. A flush already recorded is refused, not overwritten. */
+export type RecordHarvestResult =
+  | { status: "saved"; blockId: string; blockCode: string; flush: number; freshGrams: number; asWritten: string }
+  | { status: "warnings"; warnings: HarvestProblem[] };
+
+/**
+ * Records one flush from the quick form, checked by the import's rules against the stored block
+ * (`checkQuickHarvest`). An error refuses it (`invalid_input`, a problem per field); warnings not
+ * yet accepted return without saving, for the grower to correct or "save anyway", and the
+ * warnings accepted are kept with the harvest. The block code matches whatever its capitals.
+ */
 export async function recordHarvest(
   context: FarmContext,
-  input: { blockCode: string; flush: number; harvestedOn: string; freshGrams: number; asWritten: string; unit: string },
-): Promise<{ blockId: string }> {
+  entry: QuickHarvestEntry & { acceptWarnings: readonly string[] },
+  today: string = latestToday(),
+): Promise<RecordHarvestResult> {
   const farm = farmOf(context);
-  const result = await withFarmContext(farm, async (tx) => {
+  return withFarmContext(farm, async (tx) => {
     // The same per-farm lock as a season-log commit, so a commit never plans around a flush recorded meanwhile.
     await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`season-log:${farm.farmId}`}, 0))`);
-    const [block] = await tx
-      .select({ id: blocks.id, code: blocks.code })
+    const typed = entry.blockCode.trim();
+    const candidates = await tx
+      .select({
+        id: blocks.id,
+        code: blocks.code,
+        inoculatedOn: blocks.inoculatedOn,
+        wetMassG: blocks.wetMassG,
+        moisture: blocks.moisture,
+        contaminated: blocks.contaminated,
+        contaminatedOn: blocks.contaminatedOn,
+      })
       .from(blocks)
-      .where(and(eq(blocks.farmId, farm.farmId), eq(blocks.code, input.blockCode.trim())));
+      .where(and(eq(blocks.farmId, farm.farmId), sql`lower(${blocks.code}) = lower(${typed})`));
+    const block = candidates.length === 1 ? candidates[0] : candidates.find((candidate) => candidate.code === typed);
     if (!block) {
       throw new AppError("invalid_input", "No block with that code.", [
         {
           field: "blockCode",
-          message: `Your farm has no block "${input.blockCode}". Pick a code from the list, or upload the block in a season log first.`,
+          message:
+            candidates.length > 1
+              ? `Your farm has blocks ${candidates.map((candidate) => `"${candidate.code}"`).join(" and ")}, which differ only in capitals. Type the code exactly as the block has it.`
+              : `Your farm has no block "${typed}". Pick a code from the list, or upload the block in a season log first.`,
         },
       ]);
     }
-    const [existing] = await tx
-      .select({ freshMassG: harvests.freshMassG })
+    const stored = await tx
+      .select({ flush: harvests.flush, freshMassG: harvests.freshMassG })
       .from(harvests)
-      .where(and(eq(harvests.blockId, block.id), eq(harvests.flush, input.flush)));
-    if (existing) {
-      throw new AppError("invalid_input", "That flush is already recorded.", [
-        {
-          field: "flush",
-          message: `Flush ${input.flush} of ${block.code} is already recorded. Use the next flush number, or correct the weight through a season log.`,
-        },
-      ]);
-    }
+      .where(eq(harvests.blockId, block.id));
+    const check = checkQuickHarvest(entry, { ...block, harvests: stored }, today);
+    if (check.errors.length > 0) throw new AppError("invalid_input", "Not saved: correct what is marked.", check.errors);
+    const standing = warningsNotAccepted(check.warnings, entry.acceptWarnings);
+    if (standing.length > 0) return { status: "warnings", warnings: check.warnings };
+    const freshGrams = check.freshGrams as number;
+    const asWritten = check.asWritten as string;
     await tx.insert(harvests).values({
       farmId: farm.farmId,
       blockId: block.id,
-      flush: input.flush,
-      harvestedOn: input.harvestedOn,
-      freshMassG: input.freshGrams,
-      freshMassAsWritten: input.asWritten,
-      freshMassUnit: input.unit,
+      flush: entry.flush,
+      harvestedOn: entry.harvestedOn,
+      freshMassG: freshGrams,
+      freshMassAsWritten: asWritten,
+      freshMassUnit: check.unit,
+      acceptedWarnings: check.warnings.length > 0 ? check.warnings.map((warning) => warning.message).join("\n") : null,
     });
     await recordAudit(tx, {
       action: "harvest.recorded",
-      subject: `${block.code} flush ${input.flush}`,
+      subject: `${block.code} flush ${entry.flush}`,
       farmId: farm.farmId,
       actorUserId: farm.userId,
-      details: { blockId: block.id, flush: input.flush, freshGrams: input.freshGrams },
+      details: { blockId: block.id, flush: entry.flush, freshGrams, savedAnyway: check.warnings.map((warning) => warning.code) },
     });
     await queuePooledRefresh(tx, farm.farmId);
-    return { blockId: block.id };
+    return { status: "saved", blockId: block.id, blockCode: block.code, flush: entry.flush, freshGrams, asWritten };
   });
-  return result;
 }

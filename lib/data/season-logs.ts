@@ -525,7 +525,9 @@ async function writePlan(tx: Transaction, farmId: string, userId: string, upload
       update harvests h set
         harvested_on = u."harvestedOn", fresh_mass_g = u."freshMassG", fresh_mass_as_written = u."freshMassAsWritten", fresh_mass_unit = u."freshMassUnit",
         dry_mass_g = u."dryMassG", dry_mass_as_written = coalesce(u."dryMassAsWritten", h.dry_mass_as_written), dry_mass_unit = coalesce(u."dryMassUnit", h.dry_mass_unit),
-        upload_id = ${uploadId}::uuid, updated_at = now()
+        upload_id = ${uploadId}::uuid, updated_at = now(),
+        -- The file's values replace what a grower saved anyway: its warnings were about the old values.
+        accepted_warnings = null
       from ${recordset(part, harvestFields)}
       where h.id = u.id`);
     refuseIfChanged(updated.rowCount, part.length);

@@ -41,4 +41,17 @@ describe("block checks (stage 5)", () => {
     ]);
     expect(state.issues[1].message).toContain("260 %");
   });
+
+  it("at the end: a flush picked after the day its block was found contaminated, as the quick form warns", () => {
+    const dated = ["block_id", "strain", "flush", "harvested_on", "fresh_weight", "contaminated", "contaminated_on"];
+    const state = read(dated, [
+      ["B-1", "PO-03", "1", "2026-04-10", "500 g", "yes", "2026-04-20"],
+      ["B-1", "PO-03", "2", "2026-04-20", "300 g", "yes", "2026-04-20"],
+      ["B-1", "PO-03", "3", "2026-04-28", "200 g", "yes", "2026-04-20"],
+    ]);
+    finishRecords(state);
+    expect(state.issues.map((issue) => [issue.line, issue.code, issue.severity, issue.value])).toEqual([
+      [4, "harvest_on_contaminated_block", "warning", "2026-04-28"],
+    ]);
+  });
 });

@@ -1,4 +1,13 @@
 import { drySubstrateGrams, formatMass } from "../units";
+import {
+  efficiencyPercent,
+  efficiencyVerdict,
+  flushHeavierThanBlock as heavierThanBlock,
+  harvestBeforeInoculation,
+  harvestOnContaminatedBlock,
+  highestPlausibleEfficiency,
+  missingFlushes,
+} from "./harvest-checks";
 import { type IssueCode, cellIssue, shorten, writtenDate } from "./issues";
 import { flushWeightColumn, harvestDateColumn } from "./layout";
 import type { SeasonLogColumnName } from "./schema";
@@ -7,8 +16,6 @@ import { type SeasonRecord, absentColumn } from "./types";
 
 const moistureTolerance = 0.0005;
 const massTolerance = 0.005;
-/** Above this, fresh weight over dry substrate (biological efficiency) is implausible for sawdust blocks. */
-const highestPlausibleEfficiency = 2.5;
 
 type BlockAttribute =
   | "substrate"
@@ -286,7 +293,7 @@ export function blockAtFinish(state: ParseState, block: BlockState, record: Seas
     record.spentAsWritten = records[source[slot.spentGrams]].spentAsWritten;
   }
   record.contaminated = block.contaminated ?? record.contaminatedOn !== null;
-  if (record.harvestedOn !== null && record.inoculatedOn !== null && record.harvestedOn < record.inoculatedOn) {
+  if (record.harvestedOn !== null && record.inoculatedOn !== null && harvestBeforeInoculation(record.harvestedOn, record.inoculatedOn)) {
     const harvested = written.harvestedOn ?? record.harvestedOn;
     const inoculated = written.inoculatedOn ?? block.inoculatedWritten ?? record.inoculatedOn;
     cellIssue(
@@ -297,6 +304,25 @@ export function blockAtFinish(state: ParseState, block: BlockState, record: Seas
       harvested,
       "error",
       `flush ${record.flush} of block ${record.blockCode} was harvested on ${writtenDate(harvested, record.harvestedOn)}, before the block was inoculated (${writtenDate(inoculated, record.inoculatedOn)}). Correct the harvest date or the inoculation date.`,
+    );
+  }
+  if (
+    record.flush !== null &&
+    record.contaminated &&
+    record.harvestedOn !== null &&
+    record.contaminatedOn !== null &&
+    harvestOnContaminatedBlock({ contaminated: true, contaminatedOn: record.contaminatedOn }, record.harvestedOn) === "after"
+  ) {
+    const harvested = written.harvestedOn ?? record.harvestedOn;
+    const found = written.contaminatedOn ?? block.contaminatedOnWritten ?? record.contaminatedOn;
+    cellIssue(
+      state.issues,
+      record.line,
+      harvestDateColumn(state.layout, record.flush),
+      "harvest_on_contaminated_block",
+      harvested,
+      "warning",
+      `flush ${record.flush} of block ${record.blockCode} was harvested on ${writtenDate(harvested, record.harvestedOn)}, after the block was found contaminated (${writtenDate(found, record.contaminatedOn)}). Check the dates and the block code; handle a contaminated block with respiratory protection.`,
     );
   }
   if (block.contaminated === false && record.contaminatedOn !== null && source[slot.contaminatedOn] === index) {
@@ -340,7 +366,12 @@ export function dryAgainstFresh(state: ParseState, record: SeasonRecord): void {
 
 /** Stage 5, at the end of the file: a flush heavier than the whole wet block. */
 export function flushHeavierThanBlock(state: ParseState, record: SeasonRecord): void {
-  if (record.flush !== null && record.freshGrams !== null && record.wetBlockGrams !== null && record.freshGrams > record.wetBlockGrams) {
+  if (
+    record.flush !== null &&
+    record.freshGrams !== null &&
+    record.wetBlockGrams !== null &&
+    heavierThanBlock(record.freshGrams, record.wetBlockGrams)
+  ) {
     const wetColumn = state.layout.columns.block_wet_weight;
     cellIssue(
       state.issues,
@@ -361,32 +392,26 @@ export function blockEfficiency(state: ParseState, block: BlockState): number | 
   if (wetSource === -1 || moistureSource === -1 || block.freshGrams === 0) return null;
   const wet = state.records[wetSource].wetBlockGrams;
   const moisture = state.records[moistureSource].moisture;
-  if (wet === null || moisture === null) return null;
-  const dry = drySubstrateGrams(wet, moisture);
-  return dry > 0 ? (block.freshGrams / dry) * 100 : null;
+  return efficiencyPercent(block.freshGrams, wet, moisture);
 }
 
 /** Stage 5, at the end of the file: gaps in the block's flush numbers, and its biological efficiency. */
 export function blockTotals(state: ParseState, code: string, block: BlockState, efficiencyChecked: boolean): void {
   const flushes = block.harvests.filter((_, index) => index % 2 === 0);
-  if (flushes.length > 0) {
-    const largest = Math.max(...flushes);
-    const missing: number[] = [];
-    for (let flush = 1; flush < largest; flush++) if (!flushes.includes(flush)) missing.push(flush);
-    if (missing.length > 0) {
-      const after = Math.min(...flushes.filter((flush) => flush > missing[0]));
-      const line = block.harvests[block.harvests.indexOf(after) + 1];
-      const recorded = [...flushes].sort((a, b) => a - b).join(", ");
-      cellIssue(
-        state.issues,
-        line,
-        flushWeightColumn(state.layout, after, "flush"),
-        "flush_gap",
-        String(after),
-        "warning",
-        `block ${code} has flushes ${recorded} but no flush ${missing.join(", ")}. Add the missing flush, or renumber the flushes.`,
-      );
-    }
+  const missing = missingFlushes(flushes);
+  if (missing.length > 0) {
+    const after = Math.min(...flushes.filter((flush) => flush > missing[0]));
+    const line = block.harvests[block.harvests.indexOf(after) + 1];
+    const recorded = [...flushes].sort((a, b) => a - b).join(", ");
+    cellIssue(
+      state.issues,
+      line,
+      flushWeightColumn(state.layout, after, "flush"),
+      "flush_gap",
+      String(after),
+      "warning",
+      `block ${code} has flushes ${recorded} but no flush ${missing.join(", ")}. Add the missing flush, or renumber the flushes.`,
+    );
   }
   const wetSource = block.source[slot.wetBlockGrams];
   const moistureSource = block.source[slot.moisture];
@@ -395,8 +420,9 @@ export function blockTotals(state: ParseState, code: string, block: BlockState, 
   const moisture = state.records[moistureSource].moisture;
   if (wetGrams === null || moisture === null) return;
   const dryGrams = drySubstrateGrams(wetGrams, moisture);
-  if (dryGrams <= 0 || block.freshGrams <= highestPlausibleEfficiency * dryGrams) return;
-  const efficiency = Math.round((block.freshGrams / dryGrams) * 100);
+  const exact = efficiencyPercent(block.freshGrams, wetGrams, moisture);
+  if (efficiencyVerdict(exact) === "plausible") return;
+  const efficiency = Math.round(exact as number);
   const layout = state.layout;
   const column = layout.format === "wide" ? (layout.wide[0]?.weight ?? absentColumn) : layout.columns.fresh_weight;
   const wetWritten = state.records[wetSource].wetBlockAsWritten?.value ?? "";
@@ -407,6 +433,6 @@ export function blockTotals(state: ParseState, code: string, block: BlockState, 
     "efficiency_implausible",
     wetWritten,
     "warning",
-    `block ${code} gave ${formatMass(block.freshGrams, "metric")} fresh in all from a wet block of "${shorten(wetWritten)}" (${formatMass(dryGrams, "metric")} of dry substrate): a biological efficiency of ${efficiency} %, above the 250 % that blocks plausibly reach. Check this block's weights, their units and its moisture.`,
+    `block ${code} gave ${formatMass(block.freshGrams, "metric")} fresh in all from a wet block of "${shorten(wetWritten)}" (${formatMass(dryGrams, "metric")} of dry substrate): a biological efficiency of ${efficiency} %, above the ${highestPlausibleEfficiency} % that blocks plausibly reach. Check this block's weights, their units and its moisture.`,
   );
 }

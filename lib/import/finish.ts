@@ -13,6 +13,7 @@ import {
 import { type DateOrder, type DateReading, describeOrder, readDate, wrongOrderMessage } from "./dates";
 import { cellIssue, report, shorten, writtenDate } from "./issues";
 import { implausibleMass } from "./cells";
+import { highestPossibleEfficiency, lowestColumnEfficiency } from "./harvest-checks";
 import { massKindOfBit } from "./rows";
 import { flushWeightColumn, harvestDateColumn, type RowAboveHeader } from "./layout";
 import { type DateEvidence, type ParseState, pendingBits, pendingMassBits } from "./state";
@@ -310,10 +311,7 @@ function settleMasses(state: ParseState, marks: ReadonlyMap<number, DecimalMark 
   }
 }
 
-// Oyster and shiitake blocks give roughly 50–150 %, a single block rarely over 250 % (common
-// practice). When the file's typical block is outside 5–400 %, a unit or decimal mark is read wrong.
-const lowestColumnEfficiency = 5;
-const highestColumnEfficiency = 400;
+// When the file's typical block is outside 5–400 % (harvest-checks.ts), a unit or decimal mark is read wrong.
 /** Blocks with a biological efficiency needed before a column is judged as a whole. */
 const fewestBlocksForColumnCheck = 3;
 
@@ -345,13 +343,13 @@ function checkMassColumns(state: ParseState): boolean {
   }
   if (efficiencies.length < fewestBlocksForColumnCheck || example === null) return true;
   const typical = median(efficiencies);
-  if (typical >= lowestColumnEfficiency && typical <= highestColumnEfficiency) return true;
+  if (typical >= lowestColumnEfficiency && typical <= highestPossibleEfficiency) return true;
   const { layout } = state;
   const freshColumn = layout.format === "wide" ? (layout.wide[0]?.weight ?? absentColumn) : layout.columns.fresh_weight;
   const wetColumn = layout.columns.block_wet_weight;
   const fresh = example.freshAsWritten?.value ?? "";
   const wet = example.wetBlockAsWritten?.value ?? "";
-  const read = `read as they are written (such as "${shorten(fresh)}" in column "${freshColumn.header}" on line ${example.line}, against a wet block of "${shorten(wet)}" in column "${wetColumn.header}"), the blocks' biological efficiency is ${Math.round(typical)} % (the median of ${efficiencies.length} blocks), far ${typical > highestColumnEfficiency ? "above" : "below"} what blocks reach (about 50–150 %).`;
+  const read = `read as they are written (such as "${shorten(fresh)}" in column "${freshColumn.header}" on line ${example.line}, against a wet block of "${shorten(wet)}" in column "${wetColumn.header}"), the blocks' biological efficiency is ${Math.round(typical)} % (the median of ${efficiencies.length} blocks), far ${typical > highestPossibleEfficiency ? "above" : "below"} what blocks reach (about 50–150 %).`;
   const check = "check the units in the headers and cells, and the decimal mark in the mapping step.";
   // Either column can be the one read wrong: both are named, each on its own column.
   cellIssue(

@@ -66,6 +66,9 @@ export const issueCodes = [
   "flush_gap",
   "efficiency_implausible",
   "mass_column_implausible",
+  // One harvest on the quick form, against what is stored of its block (lib/season-logs/quick-harvest.ts)
+  "harvest_on_contaminated_block",
+  "flush_weighs_nothing",
   // Against the co-op's registers and what the farm has stored (lib/season-logs/plan.ts)
   "unknown_substrate",
   "unknown_fruiting_method",

@@ -4,19 +4,27 @@ import { blockFigures, nextFlush } from "./block-figures";
 describe("blockFigures", () => {
   it("gives biological efficiency as fresh mass over dry substrate mass, in percent", () => {
     // 2500 g wet at 62 % moisture = 950 g dry substrate (PRODUCT.md's definition); 760 g fresh → 80 %.
-    expect(blockFigures({ wetMassG: 2500, moisture: 0.62, totalFreshG: 760, spentMassG: null }).biologicalEfficiency).toBeCloseTo(80, 10);
+    expect(
+      blockFigures({ flushes: 2, wetMassG: 2500, moisture: 0.62, totalFreshG: 760, spentMassG: null }).biologicalEfficiency,
+    ).toBeCloseTo(80, 10);
   });
 
   it("gives mass loss from the wet and spent block weights", () => {
-    expect(blockFigures({ wetMassG: 2500, moisture: 0.62, totalFreshG: 0, spentMassG: 1400 }).massLoss).toBeCloseTo(44, 10);
+    expect(blockFigures({ flushes: 2, wetMassG: 2500, moisture: 0.62, totalFreshG: 0, spentMassG: 1400 }).massLoss).toBeCloseTo(44, 10);
+  });
+
+  it("gives a block with no harvest yet no efficiency, never 0 %", () => {
+    const figures = blockFigures({ flushes: 0, wetMassG: 2500, moisture: 0.62, totalFreshG: 0, spentMassG: 1400 });
+    expect(figures.biologicalEfficiency).toBeNull();
+    expect(figures.massLoss).toBeCloseTo(44, 10);
   });
 
   it("leaves a figure blank where the weighing it needs is missing", () => {
-    expect(blockFigures({ wetMassG: null, moisture: 0.62, totalFreshG: 500, spentMassG: 1400 })).toEqual({
+    expect(blockFigures({ flushes: 2, wetMassG: null, moisture: 0.62, totalFreshG: 500, spentMassG: 1400 })).toEqual({
       biologicalEfficiency: null,
       massLoss: null,
     });
-    expect(blockFigures({ wetMassG: 2500, moisture: null, totalFreshG: 500, spentMassG: null })).toEqual({
+    expect(blockFigures({ flushes: 2, wetMassG: 2500, moisture: null, totalFreshG: 500, spentMassG: null })).toEqual({
       biologicalEfficiency: null,
       massLoss: null,
     });

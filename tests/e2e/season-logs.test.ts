@@ -122,8 +122,29 @@ describe("a grower uploads a season log", () => {
       await form.open();
       expect(await form.suggestedFlushFor("E2E-02")).toBe("2");
       await screenshot(page, "season-logs-7-quick-harvest");
-      expect(await form.record("1 lb 2 oz", "g")).toContain("Saved flush 2 of E2E-02: 510 g");
+      expect(await form.weightKeypad()).toBe("text");
+      // The confirmation repeats the weight as typed, then in the member's units.
+      expect(await form.record("1 lb 2 oz", "g")).toContain("Saved flush 2 of E2E-02: 1 lb 2 oz (510 g)");
       await screenshot(page, "season-logs-8-quick-harvest-saved");
+
+      // Flush 4 with no flush 3, typed in lower case and in ounces: questioned, then saved anyway.
+      await form.suggestedFlushFor("e2e-02");
+      expect(await form.recordQuestioned("4", "12", "oz")).toContain("no flush 3");
+      await screenshot(page, "season-logs-9-quick-harvest-warning");
+      expect(await form.saveAnyway()).toContain("Saved flush 4 of E2E-02: 12 oz (340 g)");
+      // The unit picked stays picked on the next visit.
+      await form.open();
+      expect(await form.showsUnit("oz")).toBe(true);
+
+      const blocks = new BlocksPage(page);
+      await blocks.open();
+      await blocks.filter("E2E-02");
+      await page.getByRole("link", { name: "E2E-02" }).click();
+      const kept = page.getByTestId("accepted-warnings-4");
+      await kept.waitFor();
+      expect(await kept.textContent()).toContain("no flush 3");
+      expect(await page.getByRole("cell", { name: "12 oz", exact: true }).count()).toBe(1);
+      await screenshot(page, "season-logs-10-block-with-warning-kept");
     } finally {
       await phone.close();
     }

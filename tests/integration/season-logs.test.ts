@@ -344,14 +344,13 @@ describe("the quick harvest form's data", () => {
     await commitUpload(asFarmA, view.upload.id, {});
     expect((await listHarvestTargets(asFarmA)).find((target) => target.code === "IT-Q-1")?.nextFlush).toBe(2);
 
-    const { blockId } = await recordHarvest(asFarmA, {
-      blockCode: "IT-Q-1",
-      flush: 2,
-      harvestedOn: "2026-05-01",
-      freshGrams: 310,
-      asWritten: "310",
-      unit: "g",
-    });
+    const saved = await recordHarvest(
+      asFarmA,
+      { blockCode: "IT-Q-1", flush: 2, harvestedOn: "2026-05-01", weight: "310", unit: "g", acceptWarnings: [] },
+      "2026-05-01",
+    );
+    if (saved.status !== "saved") throw new Error(`expected the flush saved, got ${JSON.stringify(saved)}`);
+    const blockId = saved.blockId;
     const block = await getBlock(asFarmA, blockId);
     expect(block.harvests.map((harvest) => [harvest.flush, harvest.freshMassG])).toEqual([
       [1, 401],
@@ -362,11 +361,19 @@ describe("the quick harvest form's data", () => {
     expect((await listBlocks(asFarmA)).find((row) => row.code === "IT-Q-1")?.flushes).toBe(2);
 
     const again = await refusal(
-      recordHarvest(asFarmA, { blockCode: "IT-Q-1", flush: 2, harvestedOn: "2026-05-02", freshGrams: 999, asWritten: "999", unit: "g" }),
+      recordHarvest(
+        asFarmA,
+        { blockCode: "IT-Q-1", flush: 2, harvestedOn: "2026-05-02", weight: "999", unit: "g", acceptWarnings: [] },
+        "2026-05-02",
+      ),
     );
     expect(again.code).toBe("invalid_input");
     const fromB = await refusal(
-      recordHarvest(asFarmB, { blockCode: "IT-Q-1", flush: 3, harvestedOn: "2026-05-02", freshGrams: 100, asWritten: "100", unit: "g" }),
+      recordHarvest(
+        asFarmB,
+        { blockCode: "IT-Q-1", flush: 3, harvestedOn: "2026-05-02", weight: "100", unit: "g", acceptWarnings: [] },
+        "2026-05-02",
+      ),
     );
     expect(fromB.code).toBe("invalid_input");
     expect((await refusal(getBlock(asFarmB, blockId))).code).toBe("not_found");

@@ -109,9 +109,51 @@ export class QuickHarvestPage {
   }
 
   async record(weight: string, unit: string): Promise<string> {
+    await this.fill(weight, unit);
+    await this.page.getByRole("button", { name: "Save this flush" }).click();
+    return this.savedMessage();
+  }
+
+  /** Sends an entry the import's rules question; returns the warnings shown under its fields. */
+  async recordQuestioned(flush: string, weight: string, unit: string): Promise<string> {
+    await this.page.getByLabel("Flush").fill(flush);
+    await this.fill(weight, unit);
+    await this.page.getByRole("button", { name: "Save this flush" }).click();
+    await this.page.getByRole("button", { name: "Save anyway" }).waitFor();
+    return (await this.page.locator("[data-testid$='-warnings']").allTextContents()).join(" ");
+  }
+
+  async saveAnyway(): Promise<string> {
+    await this.page.getByRole("button", { name: "Save anyway" }).click();
+    return this.savedMessage();
+  }
+
+  /** Waits until the unit picker shows `unit` (what the phone remembers is applied after hydration); false after 5 s. */
+  async showsUnit(unit: string): Promise<boolean> {
+    try {
+      await this.page.waitForFunction(
+        (expected) => (document.getElementById("unit") as HTMLSelectElement | null)?.value === expected,
+        unit,
+        {
+          timeout: 5_000,
+        },
+      );
+      return true;
+    } catch {
+      return false;
+    }
+  }
+
+  async weightKeypad(): Promise<string | null> {
+    return this.page.getByLabel("Fresh weight").getAttribute("inputmode");
+  }
+
+  private async fill(weight: string, unit: string): Promise<void> {
     await this.page.getByLabel("Fresh weight").fill(weight);
     await this.page.getByLabel("Unit").selectOption(unit);
-    await this.page.getByRole("button", { name: "Save this flush" }).click();
+  }
+
+  private async savedMessage(): Promise<string> {
     const saved = this.page.getByRole("status").filter({ hasText: "Saved flush" });
     await saved.waitFor();
     return (await saved.textContent()) ?? "";

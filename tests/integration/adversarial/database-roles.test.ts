@@ -49,7 +49,7 @@ describe("the pooled-analysis role", () => {
     for (const column of ["code", "notes", "wet_mass_as_written", "wet_mass_unit", "contaminated_on", "last_upload_id", "updated_at"]) {
       expect(await refusal(`select ${column} from blocks limit 1`), column).toMatch(/permission denied for table blocks/);
     }
-    for (const column of ["fresh_mass_as_written", "fresh_mass_unit", "dry_mass_g", "upload_id", "created_at"]) {
+    for (const column of ["fresh_mass_as_written", "fresh_mass_unit", "accepted_warnings", "dry_mass_g", "upload_id", "created_at"]) {
       expect(await refusal(`select ${column} from harvests limit 1`), column).toMatch(/permission denied for table harvests/);
     }
     expect(await refusal("select * from blocks limit 1")).toMatch(/permission denied/);

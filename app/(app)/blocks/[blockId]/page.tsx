@@ -15,6 +15,8 @@ export const metadata: Metadata = { title: "Block" };
 const fieldTitles = new Map<string, string>(seasonLogColumns.map((column) => [column.name, column.title]));
 const massFields = new Set(seasonLogColumns.filter((column) => column.kind === "mass").map((column) => column.name as string));
 
+const noHarvestYet = "no harvest yet";
+
 function percent(value: number | null): string {
   return value === null ? "not known yet" : `${value.toFixed(1)} %`;
 }
@@ -40,8 +42,8 @@ export default async function BlockPage({ params }: { params: Promise<{ blockId:
     ["Inoculated", block.inoculatedOn ?? "not given"],
     ["Wet block", mass(block.wetMassG)],
     ["Moisture", block.moisture === null ? "not given" : `${(block.moisture * 100).toFixed(1)} %`],
-    ["Total fresh", formatMass(block.totalFreshG, display)],
-    ["Biological efficiency", percent(block.biologicalEfficiency)],
+    ["Total fresh", block.flushes === 0 ? noHarvestYet : formatMass(block.totalFreshG, display)],
+    ["Biological efficiency", block.flushes === 0 ? noHarvestYet : percent(block.biologicalEfficiency)],
     ["Spent block", mass(block.spentMassG)],
     ["Mass loss", percent(block.massLoss)],
     ["Contaminated", block.contaminated ? `yes${block.contaminatedOn ? `, found ${block.contaminatedOn}` : ""}` : "no"],
@@ -69,7 +71,7 @@ export default async function BlockPage({ params }: { params: Promise<{ blockId:
         </Card>
         <Card title="Flushes">
           {block.harvests.length === 0 ? (
-            <p className="text-ink-soft">No flush recorded yet.</p>
+            <p className="text-ink-soft">No harvest yet.</p>
           ) : (
             <div className="overflow-x-auto">
               <table className="min-w-full text-sm">
@@ -91,6 +93,9 @@ export default async function BlockPage({ params }: { params: Promise<{ blockId:
                     <th scope="col" className="px-3 py-2">
                       Dry
                     </th>
+                    <th scope="col" className="px-3 py-2">
+                      Saved despite
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
@@ -101,6 +106,17 @@ export default async function BlockPage({ params }: { params: Promise<{ blockId:
                       <td className="px-3 py-2">{formatMass(harvest.freshMassG, display)}</td>
                       <td className="px-3 py-2">{harvest.freshMassAsWritten ?? ""}</td>
                       <td className="px-3 py-2">{harvest.dryMassG === null ? "" : formatMass(harvest.dryMassG, display)}</td>
+                      <td className="px-3 py-2" data-testid={`accepted-warnings-${harvest.flush}`}>
+                        {harvest.acceptedWarnings === null ? (
+                          ""
+                        ) : (
+                          <ul className="space-y-1 text-caution-ink">
+                            {harvest.acceptedWarnings.split("\n").map((warning) => (
+                              <li key={warning}>{warning}</li>
+                            ))}
+                          </ul>
+                        )}
+                      </td>
                     </tr>
                   ))}
                 </tbody>

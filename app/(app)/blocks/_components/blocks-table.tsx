@@ -6,6 +6,8 @@ import { DataTable } from "@/components/ui/data-table";
 import type { BlockRow } from "@/lib/data/blocks";
 import { formatMass, type MassDisplay } from "@/lib/units";
 
+const noHarvestYet = "no harvest yet";
+
 function percent(value: number | null): string {
   return value === null ? "" : `${value.toFixed(1)} %`;
 }
@@ -37,12 +39,16 @@ function columnsFor(display: MassDisplay): ColumnDef<BlockRow, unknown>[] {
       cell: ({ getValue }) => percent(getValue() as number | null),
     },
     { accessorKey: "flushes", header: "Flushes" },
-    { accessorKey: "totalFreshG", header: "Total fresh", cell: ({ getValue }) => formatMass(getValue() as number, display) },
+    {
+      accessorKey: "totalFreshG",
+      header: "Total fresh",
+      cell: ({ row, getValue }) => (row.original.flushes === 0 ? noHarvestYet : formatMass(getValue() as number, display)),
+    },
     {
       accessorFn: (block) => block.biologicalEfficiency,
       id: "be",
       header: "BE %",
-      cell: ({ getValue }) => percent(getValue() as number | null),
+      cell: ({ row, getValue }) => (row.original.flushes === 0 ? noHarvestYet : percent(getValue() as number | null)),
     },
     { accessorFn: (block) => (block.contaminated ? "yes" : "no"), id: "contaminated", header: "Contaminated" },
     {

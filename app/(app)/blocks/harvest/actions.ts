@@ -3,21 +3,20 @@
 import { revalidatePath } from "next/cache";
 import { farmContextOf, guardedAction } from "@/lib/auth/guard";
 import { recordHarvest } from "@/lib/data/blocks";
-import { AppError } from "@/lib/errors";
 import { recordHarvestSchema } from "@/lib/season-logs/quick-harvest";
-import { formatMass, parseMass } from "@/lib/units";
+import { formatMass } from "@/lib/units";
 
 export const recordHarvestAction = guardedAction("harvest:record", recordHarvestSchema, async (input, member) => {
-  const weight = parseMass(input.weight, { defaultUnit: input.unit });
-  if ("error" in weight) throw new AppError("invalid_input", "The weight could not be read.", [{ field: "weight", message: weight.error }]);
-  await recordHarvest(farmContextOf(member), {
-    blockCode: input.blockCode,
-    flush: input.flush,
-    harvestedOn: input.harvestedOn,
-    freshGrams: weight.grams,
-    asWritten: input.weight.trim(),
-    unit: input.unit,
-  });
+  const result = await recordHarvest(farmContextOf(member), input);
+  if (result.status === "warnings")
+    return {
+      status: "confirm",
+      message: "Check what is marked, then correct it or save anyway.",
+      warnings: result.warnings,
+    };
   revalidatePath("/blocks", "layout");
-  return { status: "ok", message: `Saved flush ${input.flush} of ${input.blockCode}: ${formatMass(weight.grams, member.displayUnits)}.` };
+  const converted = formatMass(result.freshGrams, member.displayUnits);
+  // The weight as the grower typed it first, so a wrong unit shows in their own words.
+  const weight = converted === result.asWritten ? result.asWritten : `${result.asWritten} (${converted})`;
+  return { status: "ok", message: `Saved flush ${result.flush} of ${result.blockCode}: ${weight}.` };
 });

@@ -1,6 +1,6 @@
 "use client";
 
-import { useActionState, useState } from "react";
+import { startTransition, useActionState, useState, useSyncExternalStore } from "react";
 import { Button } from "@/components/ui/button";
 import { Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
@@ -9,13 +9,41 @@ import type { HarvestTarget } from "@/lib/data/blocks";
 import { recordHarvestAction } from "./actions";
 
 const initial: ActionState = { status: "idle" };
+const units = ["g", "kg", "lb", "oz"] as const;
+type Unit = (typeof units)[number];
+
+// Where this phone keeps the unit and day last used, so a round of the grow room needs them picked once.
+const rememberedKey = "rhizomorph.quick-harvest";
 
 function today(): string {
   const now = new Date();
   return `${now.getFullYear()}-${String(now.getMonth() + 1).padStart(2, "0")}-${String(now.getDate()).padStart(2, "0")}`;
 }
 
-/** Block code with suggestions, the next flush filled in, weight with its unit, and today's date. */
+/** The unit always; the day only on the day it was used (tomorrow starts at tomorrow's date). */
+function remembered(): { unit?: Unit; harvestedOn?: string } {
+  try {
+    const saved = JSON.parse(window.localStorage.getItem(rememberedKey) ?? "{}") as { unit?: string; harvestedOn?: string; on?: string };
+    return {
+      unit: units.find((unit) => unit === saved.unit),
+      harvestedOn: saved.on === today() && typeof saved.harvestedOn === "string" ? saved.harvestedOn : undefined,
+    };
+  } catch {
+    return {};
+  }
+}
+
+const nothingToWatch = () => () => {};
+
+function remember(unit: Unit, harvestedOn: string): void {
+  try {
+    window.localStorage.setItem(rememberedKey, JSON.stringify({ unit, harvestedOn, on: today() }));
+  } catch {
+    // A phone that keeps nothing (private browsing) just asks again.
+  }
+}
+
+/** Block code with suggestions, the next flush filled in, weight as written with a unit picker, and the day picked. */
 export function QuickHarvestForm({
   targets,
   initialBlock,
@@ -31,12 +59,49 @@ export function QuickHarvestForm({
   const [flush, setFlush] = useState<string>(suggested ? String(suggested) : "");
   const [flushTouched, setFlushTouched] = useState(false);
   const shownFlush = flushTouched ? flush : suggested ? String(suggested) : flush;
+  const [weight, setWeight] = useState("");
+  // What this phone remembers is read after hydration (the server knows none of it); a choice made here wins.
+  const keptUnit = useSyncExternalStore(
+    nothingToWatch,
+    () => remembered().unit ?? null,
+    () => null,
+  );
+  const keptDay = useSyncExternalStore(
+    nothingToWatch,
+    () => remembered().harvestedOn ?? today(),
+    () => "",
+  );
+  const [unitChoice, setUnitChoice] = useState<Unit | null>(null);
+  const [dayChoice, setDayChoice] = useState<string | null>(null);
+  const unit = unitChoice ?? keptUnit ?? defaultUnit;
+  const harvestedOn = dayChoice ?? keptDay;
+  // Warnings stand for the entry they were given for: changing a field takes "Save anyway" away.
+  const [edited, setEdited] = useState(false);
+  const [answered, setAnswered] = useState(state);
+  if (answered !== state) {
+    setAnswered(state);
+    setEdited(false);
+    if (state.status === "ok") {
+      setWeight("");
+      setFlushTouched(false);
+    }
+  }
+
+  const warnings = state.status === "confirm" && !edited ? (state.warnings ?? []) : [];
+  const warningsFor = (field: string) => warnings.filter((warning) => warning.field === field).map((warning) => warning.message);
+  const changed = () => setEdited(true);
 
   return (
     <form
-      action={action}
+      onSubmit={(event) => {
+        // Sent by hand rather than through the form's action: React resets a form after its action,
+        // and a reset puts the unit picker back on its first option while the entry keeps its unit.
+        event.preventDefault();
+        const data = new FormData(event.currentTarget, event.nativeEvent.submitter);
+        remember(unit, harvestedOn);
+        startTransition(() => action(data));
+      }}
       className="space-y-4 rounded-xl border border-oat-300 bg-white p-5 shadow-sm"
-      key={state.status === "ok" ? state.message : "form"}
     >
       {state.status === "ok" ? (
         <Notice title="Saved">
@@ -59,10 +124,12 @@ export function QuickHarvestForm({
         onChange={(event) => {
           setBlockCode(event.target.value);
           setFlushTouched(false);
+          changed();
         }}
         errors={state.fieldErrors?.blockCode}
-        hint="As written on the bag; start typing to pick from your blocks."
+        hint="As written on the bag, in capitals or not; start typing to pick from your blocks."
       />
+      <FieldWarnings name="blockCode" messages={warningsFor("blockCode")} />
       <datalist id="block-codes">
         {targets.map((target) => (
           <option key={target.code} value={target.code} />
@@ -80,12 +147,30 @@ export function QuickHarvestForm({
         onChange={(event) => {
           setFlush(event.target.value);
           setFlushTouched(true);
+          changed();
         }}
         errors={state.fieldErrors?.flush}
         hint={suggested ? `Flush ${suggested} is next for this block.` : undefined}
       />
+      <FieldWarnings name="flush" messages={warningsFor("flush")} />
       <div className="grid grid-cols-[1fr_7rem] items-start gap-3">
-        <Field label="Fresh weight" name="weight" inputMode="decimal" required errors={state.fieldErrors?.weight} placeholder="640" />
+        <Field
+          label="Fresh weight"
+          name="weight"
+          type="text"
+          inputMode="text"
+          autoComplete="off"
+          autoCapitalize="none"
+          required
+          value={weight}
+          onChange={(event) => {
+            setWeight(event.target.value);
+            changed();
+          }}
+          errors={state.fieldErrors?.weight}
+          placeholder="640"
+          hint={`In ${unit}, or with its own unit: 1 lb 2 oz, 12 oz, 0,45 kg.`}
+        />
         <div className="space-y-1">
           <label htmlFor="unit" className="block text-sm font-medium">
             Unit
@@ -93,20 +178,59 @@ export function QuickHarvestForm({
           <select
             id="unit"
             name="unit"
-            defaultValue={defaultUnit}
+            value={unit}
+            onChange={(event) => {
+              setUnitChoice(event.target.value as Unit);
+              changed();
+            }}
             className="block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3 text-base"
           >
-            <option value="g">g</option>
-            <option value="kg">kg</option>
-            <option value="lb">lb</option>
-            <option value="oz">oz</option>
+            {units.map((choice) => (
+              <option key={choice} value={choice}>
+                {choice}
+              </option>
+            ))}
           </select>
         </div>
       </div>
-      <Field label="Picked on" name="harvestedOn" type="date" required defaultValue={today()} errors={state.fieldErrors?.harvestedOn} />
-      <Button type="submit" disabled={pending} className="w-full">
-        {pending ? "Saving…" : "Save this flush"}
+      <FieldWarnings name="weight" messages={warningsFor("weight")} />
+      <Field
+        label="Picked on"
+        name="harvestedOn"
+        type="date"
+        required
+        value={harvestedOn}
+        onChange={(event) => {
+          setDayChoice(event.target.value);
+          changed();
+        }}
+        errors={state.fieldErrors?.harvestedOn}
+      />
+      <FieldWarnings name="harvestedOn" messages={warningsFor("harvestedOn")} />
+      {warnings.length > 0 ? (
+        <Notice tone="caution" title="Not saved yet">
+          <p>{state.message}</p>
+          <p>If the entry is right as it is, save it anyway: the warning is kept with the harvest and shown on the block&apos;s page.</p>
+          <Button type="submit" name="acceptWarnings" value={warnings.map((warning) => warning.code).join(",")} disabled={pending}>
+            Save anyway
+          </Button>
+        </Notice>
+      ) : null}
+      <Button type="submit" disabled={pending} className="w-full" variant={warnings.length > 0 ? "secondary" : "primary"}>
+        {pending ? "Saving…" : warnings.length > 0 ? "Check again" : "Save this flush"}
       </Button>
     </form>
+  );
+}
+
+/** A field's warnings, under it, in the caution colours. */
+function FieldWarnings({ name, messages }: { name: string; messages: string[] }) {
+  if (messages.length === 0) return null;
+  return (
+    <ul id={`${name}-warnings`} className="-mt-2 text-sm text-caution-ink" data-testid={`${name}-warnings`}>
+      {messages.map((message) => (
+        <li key={message}>Check: {message}</li>
+      ))}
+    </ul>
   );
 }

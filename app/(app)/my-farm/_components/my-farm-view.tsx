@@ -38,8 +38,9 @@ function toRow(strain: OwnStrainSummary, units: "metric" | "imperial"): Row {
     strain: `${strain.strainName} (${strain.speciesName})`,
     blocks: `${strain.blocks} (${strain.activeBlocks})`,
     harvests: String(strain.harvests),
-    fresh: formatMass(strain.freshG, units),
-    efficiency: strain.meanEfficiency === null ? "none yet" : `${strain.meanEfficiency.toFixed(1)} %`,
+    fresh: strain.harvests === 0 ? "no harvest yet" : formatMass(strain.freshG, units),
+    efficiency:
+      strain.harvests === 0 ? "no harvest yet" : strain.meanEfficiency === null ? "none yet" : `${strain.meanEfficiency.toFixed(1)} %`,
     percentile: strain.percentile.status === "published" ? placeInCoop(strain.percentile.value) : strain.percentile.message,
     contamination: `${strain.contaminated} of ${strain.blocks} (${strain.contaminationPercent.toFixed(0)} %)`,
     massLoss: strain.meanMassLoss === null ? "no spent blocks weighed" : `${strain.meanMassLoss.toFixed(1)} %`,

@@ -1,0 +1,1 @@
+ALTER TABLE "harvests" ADD COLUMN "accepted_warnings" text;
