@@ -595,7 +595,7 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
     const report = buildReport({
       rowCount: result.records.length,
       parserIssues: result.issues,
-        plan,
+      plan,
       detected: result.detected,
       choices,
     });

@@ -197,7 +197,14 @@ function againstTheList(
     trialNamed !== registerKey(assignment.trialCode) &&
     !(assignment.trialTitle && trialNamed === registerKey(assignment.trialTitle))
   )
-    check("trial_differs", "trial", record.trialCode!, "on your farm's randomised list", `trial "${record.trialCode}"`, `Write ${assignment.trialCode}`);
+    check(
+      "trial_differs",
+      "trial",
+      record.trialCode!,
+      "on your farm's randomised list",
+      `trial "${record.trialCode}"`,
+      `Write ${assignment.trialCode}`,
+    );
   if (record.arm && registerKey(record.arm) !== registerKey(assignment.armLabel))
     check("trial_arm_differs", "arm", record.arm, "on your farm's randomised list", `arm "${record.arm}"`, `Write ${assignment.armLabel}`);
   if (assignment.strainId !== strain.id)
