@@ -32,6 +32,7 @@ import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
 import { assertStorageRoom } from "@/lib/data/upload-limits";
 import { type BlockWrite, type CommitPlan, type HarvestWrite, type PlanCounts, type PlanInput, planCommit } from "@/lib/season-logs/plan";
 import { type ParseChoices, type UploadReport, buildReport, parserOptions } from "@/lib/season-logs/report";
+import { seasonLogExportCsv } from "@/lib/season-logs/export";
 import { packParse, stagingKey, unpackParse } from "@/lib/season-logs/staged";
 
 export type FarmMemberContext = FarmContext & { userId: string; farmId: string };
@@ -654,4 +655,52 @@ export async function getUploadFile(context: FarmContext, uploadId: string): Pro
   const farm = farmOf(context);
   const stored = await storedUpload(farm, uploadId);
   return { fileName: stored.fileName, content: await storedContent(farm, uploadId) };
+}
+
+/**
+ * The farm's blocks and harvests as a season log (`lib/season-logs/export.ts`): uploaded again
+ * unchanged it changes nothing, so a grower can download, correct or add rows, and upload.
+ */
+export async function getSeasonLogExport(context: FarmContext): Promise<{ fileName: string; csv: string }> {
+  const farm = farmOf(context);
+  return withFarmContext(farm, async (tx) => {
+    const recipes = alias(substrateRecipes, "recipes");
+    const methods = alias(treatments, "methods");
+    const blockRows = await tx
+      .select({
+        code: blocks.code,
+        strainCode: strains.code,
+        substrateCode: recipes.code,
+        trialCode: trials.code,
+        armLabel: trialArms.label,
+        inoculatedOn: blocks.inoculatedOn,
+        wetMassG: blocks.wetMassG,
+        moisture: blocks.moisture,
+        fruitingMethodCode: methods.code,
+        contaminated: blocks.contaminated,
+        contaminatedOn: blocks.contaminatedOn,
+        spentMassG: blocks.spentMassG,
+        notes: blocks.notes,
+      })
+      .from(blocks)
+      .innerJoin(strains, eq(strains.id, blocks.strainId))
+      .leftJoin(recipes, eq(recipes.id, blocks.substrateRecipeId))
+      .leftJoin(methods, eq(methods.id, blocks.fruitingMethodId))
+      .leftJoin(trialArms, eq(trialArms.id, blocks.trialArmId))
+      .leftJoin(trials, eq(trials.id, trialArms.trialId))
+      .where(eq(blocks.farmId, farm.farmId))
+      .orderBy(blocks.code);
+    const harvestRows = await tx
+      .select({
+        blockCode: blocks.code,
+        flush: harvests.flush,
+        harvestedOn: harvests.harvestedOn,
+        freshMassG: harvests.freshMassG,
+        dryMassG: harvests.dryMassG,
+      })
+      .from(harvests)
+      .innerJoin(blocks, eq(blocks.id, harvests.blockId))
+      .where(eq(harvests.farmId, farm.farmId));
+    return { fileName: `season-log-${todayUtc()}.csv`, csv: seasonLogExportCsv(blockRows, harvestRows) };
+  });
 }

@@ -666,6 +666,8 @@ export async function listOwnAssignments(member: Member, trialId: string) {
         armLabel: trialArms.label,
         strainCode: strains.code,
         treatmentName: treatments.name,
+        treatmentCode: treatments.code,
+        treatmentKind: treatments.kind,
       })
       .from(trialBlockAssignments)
       .innerJoin(trialArms, eq(trialArms.id, trialBlockAssignments.armId))

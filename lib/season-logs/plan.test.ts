@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { parseSeasonLog } from "../import";
-import { type PlanInput, type StoredBlock, planCommit } from "./plan";
+import { type PlanInput, type StoredBlock, type TrialAssignment, planCommit } from "./plan";
 
 const strains = [
   { id: "s-po01", code: "PO-01", names: ["Grey oyster, culture bank"] },
@@ -150,7 +150,7 @@ describe("planCommit", () => {
 
 describe("a trial block against its randomised list", () => {
   const trialHeader = "block_id,strain,trial,arm,fruiting_method,inoculated_on,block_wet_weight";
-  const listed = {
+  const listed: TrialAssignment = {
     blockCode: "LP-12",
     armId: "arm-b",
     armLabel: "B",

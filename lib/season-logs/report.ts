@@ -48,7 +48,10 @@ export interface UploadReport {
   choices: ParseChoices;
 }
 
-export function parserOptions(choices: ParseChoices, knownStrains: readonly (string | RegisterEntryText)[]): SeasonLogOptions & { sheet?: string } {
+export function parserOptions(
+  choices: ParseChoices,
+  knownStrains: readonly (string | RegisterEntryText)[],
+): SeasonLogOptions & { sheet?: string } {
   return { ...choices, knownStrains };
 }
 
