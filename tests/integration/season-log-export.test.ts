@@ -25,20 +25,25 @@ beforeAll(async () => {
   // Two farms in the demo trial: the farm under test and another one.
   const { rows } = await inspector.query<{ farmId: string; managerId: string; trialId: string }>(
     `select a.farm_id as "farmId", u.id as "managerId", a.trial_id as "trialId"
-     from trial_block_assignments a join users u on u.farm_id = a.farm_id and u.role = 'farm_manager'
-     group by a.farm_id, u.id, a.trial_id order by a.farm_id limit 2`,
+     from trial_block_assignments a join trials t on t.id = a.trial_id join users u on u.farm_id = a.farm_id and u.role = 'farm_manager'
+     where t.code = 'T-2026-01' group by a.farm_id, u.id, a.trial_id order by a.farm_id limit 1`,
   );
-  expect(rows).toHaveLength(2);
   manager = (await loadMember(rows[0].managerId))!;
   asFarm = { userId: manager.id, farmId: rows[0].farmId, role: "farm_manager" };
   trialId = rows[0].trialId;
   const other = await inspector.query<typeof theirs>(
     `select a.block_code as "blockCode", t.code as "trialCode", arm.label as "armLabel", s.code as "strainCode"
      from trial_block_assignments a join trials t on t.id = a.trial_id join trial_arms arm on arm.id = a.arm_id
-     join strains s on s.id = arm.strain_id where a.farm_id = $1 order by a.sequence limit 1`,
-    [rows[1].farmId],
+     join strains s on s.id = arm.strain_id where a.farm_id <> $1 order by a.sequence limit 1`,
+    [asFarm.farmId],
   );
   theirs = other.rows[0];
+  // Not on this farm's own list under any trial.
+  const own = await inspector.query(`select 1 from trial_block_assignments where farm_id = $1 and block_code = $2`, [
+    asFarm.farmId,
+    theirs.blockCode,
+  ]);
+  expect(own.rows).toEqual([]);
 });
 
 afterAll(async () => {
@@ -58,8 +63,8 @@ async function upload(text: string, fileName: string): Promise<UploadView> {
 async function farmState() {
   const blocks = await inspector.query(`select * from blocks where farm_id = $1 order by code`, [asFarm.farmId]);
   const harvests = await inspector.query(`select * from harvests where farm_id = $1 order by block_id, flush`, [asFarm.farmId]);
-  const changes = await inspector.query(`select count(*)::int as n from value_changes where farm_id = $1`, [asFarm.farmId]);
-  return { blocks: blocks.rows, harvests: harvests.rows, changes: changes.rows[0].n as number };
+  const changes = await inspector.query<{ n: number }>(`select count(*)::int as n from value_changes where farm_id = $1`, [asFarm.farmId]);
+  return { blocks: blocks.rows as { trial_arm_id: string | null }[], harvests: harvests.rows, changes: changes.rows[0].n };
 }
 
 const errors = (view: UploadView) => view.report.issues.filter((issue) => issue.severity === "error");
