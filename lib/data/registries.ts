@@ -3,6 +3,7 @@ import { asc, eq, inArray, sql } from "drizzle-orm";
 import { withAnalystAccess, withFarmContext, type Transaction } from "@/db/client";
 import { blocks, cooperativeSettings, species, strains, substrateRecipes, treatments, trialArms } from "@/db/schema";
 import { AppError } from "@/lib/errors";
+import { RegisterMatcher } from "@/lib/import/registers";
 import { describeProblem, parseRegistryCsv, type RegistryKind, type RegistryRow } from "@/lib/members/registry-csv";
 import { suppressedMessage, type Published } from "@/lib/pooled";
 import { recordAudit } from "./audit";
@@ -80,7 +81,7 @@ async function insertEntry(
   row: RegistryRow,
   status: Status,
   proposedBy: string | null,
-  speciesIdByName: Map<string, string>,
+  speciesRegister: RegisterMatcher<SpeciesEntry>,
 ): Promise<string> {
   switch (row.kind) {
     case "species": {
@@ -91,9 +92,9 @@ async function insertEntry(
       return created.id;
     }
     case "strains": {
-      const speciesId = speciesIdByName.get(row.species.toLowerCase());
+      const speciesId = speciesRegister.find(row.species)?.id;
       if (!speciesId)
-        throw new AppError("invalid_input", `Species "${row.species}" is not in the registry.`, [
+        throw new AppError("invalid_input", `Species "${row.species}" is not in the registry.${speciesRegister.suggestion(row.species)}`, [
           { field: "species", message: "Choose a species from the registry, or propose it first." },
         ]);
       const [created] = await tx
@@ -121,18 +122,19 @@ async function insertEntry(
   }
 }
 
-async function speciesLookup(tx: Transaction): Promise<Map<string, string>> {
+/** An active species by its scientific or common name (any case), or by its id, as the form sends it. */
+interface SpeciesEntry {
+  id: string;
+  code: string;
+  names: string[];
+}
+
+async function speciesLookup(tx: Transaction): Promise<RegisterMatcher<SpeciesEntry>> {
   const rows = await tx
-    .select({ id: species.id, scientificName: species.scientificName, commonName: species.commonName, status: species.status })
-    .from(species);
-  const byName = new Map<string, string>();
-  for (const row of rows) {
-    if (row.status !== "active") continue;
-    byName.set(row.scientificName.toLowerCase(), row.id);
-    byName.set(row.commonName.toLowerCase(), row.id);
-    byName.set(row.id, row.id);
-  }
-  return byName;
+    .select({ id: species.id, scientificName: species.scientificName, commonName: species.commonName })
+    .from(species)
+    .where(eq(species.status, "active"));
+  return new RegisterMatcher(rows.map((row) => ({ id: row.id, code: row.scientificName, names: [row.commonName, row.id] })));
 }
 
 function duplicateProblem(error: unknown): AppError | null {

@@ -2,6 +2,7 @@ import "server-only";
 import { createHash, randomFillSync, randomInt } from "node:crypto";
 import { gunzipSync, gzipSync } from "node:zlib";
 import { and, desc, eq, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
 import { v7 as timeOrderedId } from "uuid";
 import { withFarmContext, type FarmContext, type Transaction } from "@/db/client";
 import {
@@ -25,11 +26,13 @@ import {
   workbookKind,
 } from "@/lib/import";
 import { AppError } from "@/lib/errors";
+import type { RegisterEntryText } from "@/lib/import/registers";
 import { recordAudit } from "@/lib/data/audit";
 import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
 import { assertStorageRoom } from "@/lib/data/upload-limits";
 import { type BlockWrite, type CommitPlan, type HarvestWrite, type PlanCounts, type PlanInput, planCommit } from "@/lib/season-logs/plan";
 import { type ParseChoices, type UploadReport, buildReport, parserOptions } from "@/lib/season-logs/report";
+import { seasonLogExportCsv } from "@/lib/season-logs/export";
 import { packParse, stagingKey, unpackParse } from "@/lib/season-logs/staged";
 
 export type FarmMemberContext = FarmContext & { userId: string; farmId: string };
@@ -62,7 +65,8 @@ export interface CommitReceipt {
 
 /** What the parser needs from the database before a file streams in. */
 export interface ImportSetup {
-  knownStrains: string[];
+  /** The co-op's active strains: a file may name one by its code or its name. */
+  knownStrains: RegisterEntryText[];
   remembered: ParseChoices;
 }
 
@@ -105,13 +109,17 @@ export function sha256Of(content: Uint8Array): string {
 export async function getImportSetup(context: FarmContext): Promise<ImportSetup> {
   const farm = farmOf(context);
   return withFarmContext(farm, async (tx) => {
-    const codes = await tx.select({ code: strains.code }).from(strains).where(eq(strains.status, "active")).orderBy(strains.code);
+    const codes = await tx
+      .select({ code: strains.code, name: strains.name })
+      .from(strains)
+      .where(eq(strains.status, "active"))
+      .orderBy(strains.code);
     const [preferences] = await tx.select().from(farmImportPreferences).where(eq(farmImportPreferences.farmId, farm.farmId));
     const remembered: ParseChoices = {};
     if (preferences && Object.keys(preferences.columnMapping).length > 0) remembered.mapping = preferences.columnMapping;
     const unit = preferences?.defaultMassUnit;
     if (unit === "g" || unit === "kg" || unit === "lb" || unit === "oz") remembered.defaultMassUnit = unit;
-    return { knownStrains: codes.map((row) => row.code), remembered };
+    return { knownStrains: codes.map((row) => ({ code: row.code, names: [row.name] })), remembered };
   });
 }
 
@@ -189,36 +197,55 @@ async function loadPlanInput(tx: Transaction, farmId: string): Promise<Omit<Plan
     .from(harvests)
     .where(eq(harvests.farmId, farmId));
   const storedHarvests = harvestRows.map(({ blockId, ...harvest }) => ({ ...harvest, blockCode: codeOfBlock.get(blockId) ?? "" }));
-  const strainRows = await tx.select({ id: strains.id, code: strains.code }).from(strains).where(eq(strains.status, "active"));
-  const recipeRows = await tx
-    .select({ id: substrateRecipes.id, code: substrateRecipes.code })
-    .from(substrateRecipes)
-    .where(eq(substrateRecipes.status, "active"));
-  const methodRows = await tx
-    .select({ id: treatments.id, code: treatments.code })
-    .from(treatments)
-    .where(and(eq(treatments.status, "active"), eq(treatments.kind, "fruiting_method")));
+  // A file may name a register entry by its code or its name.
+  const named = <T extends { name: string }>(rows: T[]) => rows.map(({ name, ...row }) => ({ ...row, names: [name] }));
+  const strainRows = named(
+    await tx.select({ id: strains.id, code: strains.code, name: strains.name }).from(strains).where(eq(strains.status, "active")),
+  );
+  const recipeRows = named(
+    await tx
+      .select({ id: substrateRecipes.id, code: substrateRecipes.code, name: substrateRecipes.name })
+      .from(substrateRecipes)
+      .where(eq(substrateRecipes.status, "active")),
+  );
+  const methodRows = named(
+    await tx
+      .select({ id: treatments.id, code: treatments.code, name: treatments.name })
+      .from(treatments)
+      .where(and(eq(treatments.status, "active"), eq(treatments.kind, "fruiting_method"))),
+  );
+  const armMethods = alias(treatments, "arm_methods");
   const assignmentRows = await tx
     .select({
       blockCode: trialBlockAssignments.blockCode,
       armId: trialArms.id,
       armLabel: trialArms.label,
       trialCode: trials.code,
+      trialTitle: trials.title,
       strainId: strains.id,
       strainCode: strains.code,
+      methodId: armMethods.id,
+      methodCode: armMethods.code,
+      methodName: armMethods.name,
     })
     .from(trialBlockAssignments)
     .innerJoin(trialArms, eq(trialArms.id, trialBlockAssignments.armId))
     .innerJoin(trials, eq(trials.id, trialBlockAssignments.trialId))
     .innerJoin(strains, eq(strains.id, trialArms.strainId))
+    // Only a fruiting method is a season-log column; an arm that varies humidity fixes no fruiting method.
+    .leftJoin(armMethods, and(eq(armMethods.id, trialArms.treatmentId), eq(armMethods.kind, "fruiting_method")))
     .where(eq(trialBlockAssignments.farmId, farmId));
+  const assignments = assignmentRows.map(({ methodId, methodCode, methodName, ...row }) => ({
+    ...row,
+    fruitingMethod: methodId && methodCode && methodName ? { id: methodId, code: methodCode, name: methodName } : null,
+  }));
   return {
     storedBlocks,
     storedHarvests,
     strains: strainRows,
     substrateRecipes: recipeRows,
     fruitingMethods: methodRows,
-    assignments: assignmentRows,
+    assignments,
   };
 }
 
@@ -258,7 +285,7 @@ function todayUtc(): string {
 function stagedParseOf(
   outcome: UploadSummary["outcome"],
   choices: ParseChoices,
-  knownStrains: readonly string[],
+  knownStrains: readonly RegisterEntryText[],
   result: SeasonLogResult,
 ): string | null {
   if (outcome !== "received") return null;
@@ -284,7 +311,7 @@ async function previewOf(farm: FarmMemberContext, sha256: string, result: Season
   const stagedParse = stagedParseOf(
     outcome,
     choices,
-    planInput.strains.map((strain) => strain.code),
+    planInput.strains.map((strain) => ({ code: strain.code, names: strain.names })),
     result,
   );
   return { alreadyImportedAt, report, outcome, stagedParse };
@@ -630,4 +657,52 @@ export async function getUploadFile(context: FarmContext, uploadId: string): Pro
   const farm = farmOf(context);
   const stored = await storedUpload(farm, uploadId);
   return { fileName: stored.fileName, content: await storedContent(farm, uploadId) };
+}
+
+/**
+ * The farm's blocks and harvests as a season log (`lib/season-logs/export.ts`): uploaded again
+ * unchanged it changes nothing, so a grower can download, correct or add rows, and upload.
+ */
+export async function getSeasonLogExport(context: FarmContext): Promise<{ fileName: string; csv: string }> {
+  const farm = farmOf(context);
+  return withFarmContext(farm, async (tx) => {
+    const recipes = alias(substrateRecipes, "recipes");
+    const methods = alias(treatments, "methods");
+    const blockRows = await tx
+      .select({
+        code: blocks.code,
+        strainCode: strains.code,
+        substrateCode: recipes.code,
+        trialCode: trials.code,
+        armLabel: trialArms.label,
+        inoculatedOn: blocks.inoculatedOn,
+        wetMassG: blocks.wetMassG,
+        moisture: blocks.moisture,
+        fruitingMethodCode: methods.code,
+        contaminated: blocks.contaminated,
+        contaminatedOn: blocks.contaminatedOn,
+        spentMassG: blocks.spentMassG,
+        notes: blocks.notes,
+      })
+      .from(blocks)
+      .innerJoin(strains, eq(strains.id, blocks.strainId))
+      .leftJoin(recipes, eq(recipes.id, blocks.substrateRecipeId))
+      .leftJoin(methods, eq(methods.id, blocks.fruitingMethodId))
+      .leftJoin(trialArms, eq(trialArms.id, blocks.trialArmId))
+      .leftJoin(trials, eq(trials.id, trialArms.trialId))
+      .where(eq(blocks.farmId, farm.farmId))
+      .orderBy(blocks.code);
+    const harvestRows = await tx
+      .select({
+        blockCode: blocks.code,
+        flush: harvests.flush,
+        harvestedOn: harvests.harvestedOn,
+        freshMassG: harvests.freshMassG,
+        dryMassG: harvests.dryMassG,
+      })
+      .from(harvests)
+      .innerJoin(blocks, eq(blocks.id, harvests.blockId))
+      .where(eq(harvests.farmId, farm.farmId));
+    return { fileName: `season-log-${todayUtc()}.csv`, csv: seasonLogExportCsv(blockRows, harvestRows) };
+  });
 }

@@ -24,6 +24,7 @@ import { queueMail, secretLink } from "@/lib/data/mail";
 import { farmContextOf, type Member } from "@/lib/data/members";
 import { latestRelease, releaseContents } from "@/lib/data/pooled-releases";
 import { AppError } from "@/lib/errors";
+import { trialListCsv } from "@/lib/season-logs/export";
 import {
   enrolmentConfirmationMail,
   resultsPublishedMail,
@@ -668,6 +669,8 @@ export async function listOwnAssignments(member: Member, trialId: string) {
         armLabel: trialArms.label,
         strainCode: strains.code,
         treatmentName: treatments.name,
+        treatmentCode: treatments.code,
+        treatmentKind: treatments.kind,
       })
       .from(trialBlockAssignments)
       .innerJoin(trialArms, eq(trialArms.id, trialBlockAssignments.armId))
@@ -676,6 +679,27 @@ export async function listOwnAssignments(member: Member, trialId: string) {
       .where(and(eq(trialBlockAssignments.trialId, trialId), member.farmId ? eq(trialBlockAssignments.farmId, member.farmId) : sql`false`))
       .orderBy(asc(trialBlockAssignments.sequence)),
   );
+}
+
+/**
+ * The farm's randomised list as a season log to fill in and upload (`trialListCsv`): each listed
+ * block with the strain, trial, arm and fruiting method its arm fixes.
+ */
+export async function getTrialListSeasonLog(member: Member, trialId: string): Promise<{ fileName: string; csv: string }> {
+  const trial = await getTrial(member, trialId);
+  const list = await listOwnAssignments(member, trialId);
+  if (!list.length) throw new AppError("not_found", "Your farm has no list for this trial. Accept the invitation on the trial page first.");
+  const csv = trialListCsv(
+    list.map((entry) => ({
+      blockCode: entry.blockCode,
+      trialCode: trial.code,
+      armLabel: entry.armLabel,
+      strainCode: entry.strainCode,
+      // The season log has a column for the fruiting method only; a humidity regime belongs to the room, not the block.
+      fruitingMethodCode: entry.treatmentKind === "fruiting_method" ? entry.treatmentCode : null,
+    })),
+  );
+  return { fileName: `${trial.code}-block-list.csv`, csv };
 }
 
 // ——— Following ———

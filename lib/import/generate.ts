@@ -68,9 +68,6 @@ export function* seasonLogLines(options: GenerateSeasonLogOptions): Generator<st
     const code = `${prefix}-${String(block).padStart(5, "0")}`;
     const strain = demoStrains[Math.floor(random() * demoStrains.length)];
     const substrate = substrates[Math.floor(random() * substrates.length)];
-    const inTrial = random() < 0.3;
-    const trial = inTrial ? "T-2026-1" : "";
-    const arm = inTrial ? (random() < 0.5 ? "A" : "B") : "";
     const inoculated = seasonStart + Math.floor(random() * 120) * millisecondsPerDay;
     const wetGrams = style === "imperial" ? (5 + Math.floor(random() * 3)) * GRAMS_PER_POUND : 2200 + Math.round(random() * 600);
     const moisture = 0.58 + Math.round(random() * 7) / 100;
@@ -90,8 +87,9 @@ export function* seasonLogLines(options: GenerateSeasonLogOptions): Generator<st
       code,
       strain,
       substrate,
-      trial,
-      arm,
+      // Trial and arm stay blank: a block naming a trial must be on the farm's randomised list, and generated farms have none.
+      "",
+      "",
       writeDate(inoculated, style),
       writeMass(wetGrams, style, true),
       moistureText,

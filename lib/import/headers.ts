@@ -1,6 +1,6 @@
 import { type MassUnit, massUnitFromWord } from "../units";
 import { type SeasonLogColumnName, seasonLogColumnNames, seasonLogColumns } from "./schema";
-import { editDistance } from "./strains";
+import { editDistance } from "./registers";
 
 /**
  * Where one column of the file goes: a schema column, a wide-form flush column

@@ -73,6 +73,9 @@ export const issueCodes = [
   "unknown_substrate",
   "unknown_fruiting_method",
   "trial_strain_differs",
+  "trial_fruiting_method_differs",
+  "trial_differs",
+  "trial_arm_differs",
   "trial_block_not_listed",
 ] as const;
 

@@ -2,10 +2,10 @@ import { describe, expect, it } from "vitest";
 import { readHeaderRow } from "./layout";
 import { readDataRow } from "./rows";
 import { createParseState } from "./state";
-import { StrainRegister } from "./strains";
+import { RegisterMatcher } from "./registers";
 
 function stateFor(header: string[]) {
-  const state = createParseState({}, "2026-12-31", new StrainRegister(["PO-03"]));
+  const state = createParseState({}, "2026-12-31", new RegisterMatcher([{ code: "PO-03" }]));
   const outcome = readHeaderRow(header, 1, [], {});
   if (outcome.kind !== "header") throw new Error("expected a header");
   state.layout = outcome.layout;

@@ -177,12 +177,13 @@ function strain(state: ParseState, text: string, line: number, column: ColumnPla
   const checks = state.caches.strainChecks;
   let known = checks.get(text);
   if (known === undefined) {
-    known = register.find(text);
+    // A strain written by its name is kept as its code: the rest of the import and the planner compare codes.
+    known = register.find(text)?.code ?? null;
     if (checks.size < mostInternedTexts) checks.set(text, known);
   }
   if (known !== null) return known;
-  const nearest = register.nearest(text);
-  const hint = nearest === null ? "Check the code against the co-op's strain list" : `Did you mean "${nearest}"? Correct the code`;
+  const suggestion = register.suggestion(text);
+  const hint = suggestion === "" ? "Check it against the co-op's strain list" : `${suggestion.trim()} Correct the cell`;
   cellIssue(
     state.issues,
     line,
@@ -190,7 +191,7 @@ function strain(state: ParseState, text: string, line: number, column: ColumnPla
     "unknown_strain",
     text,
     "error",
-    `"${shorten(text)}" is not a strain code of the co-op. ${hint}, or ask the coordinator to add the strain to the register.`,
+    `"${shorten(text)}" is neither a strain code nor a strain name of the co-op. ${hint}, or ask the coordinator to add the strain to the register.`,
   );
   return intern(state, text);
 }

@@ -68,7 +68,7 @@ export const seasonLogColumns: readonly SeasonLogColumn[] = [
   {
     name: "strain",
     title: "Strain",
-    meaning: "The co-op's code for the strain the block was inoculated with.",
+    meaning: "The strain the block was inoculated with: the co-op's strain code or the strain's name in the register, in any case.",
     examples: ["PO-03", "LM-01", "SH-12"],
     required: "always",
     kind: "text",
@@ -79,7 +79,7 @@ export const seasonLogColumns: readonly SeasonLogColumn[] = [
   {
     name: "substrate",
     title: "Substrate recipe",
-    meaning: "The substrate recipe, as the co-op's recipe code or your own short name.",
+    meaning: "The substrate recipe: the co-op's recipe code or the recipe's name in the register, in any case.",
     examples: ["HW-80/20", "oak + 20 % bran", "SD-2"],
     required: "no",
     kind: "text",
@@ -90,7 +90,8 @@ export const seasonLogColumns: readonly SeasonLogColumn[] = [
   {
     name: "trial",
     title: "Trial",
-    meaning: "The trial code, if the block is part of a co-op strain trial. Leave blank otherwise.",
+    meaning:
+      "The trial code, if the block is part of a co-op strain trial; a trial block must be on your farm's trial list. Leave blank otherwise.",
     examples: ["T-2026-1", ""],
     required: "no",
     kind: "text",
@@ -101,7 +102,7 @@ export const seasonLogColumns: readonly SeasonLogColumn[] = [
   {
     name: "arm",
     title: "Trial arm",
-    meaning: "Which arm of the trial the block was given to (the strain or treatment it tests).",
+    meaning: "Which arm of the trial the block was given to (the strain or treatment it tests), as your farm's trial list says.",
     examples: ["A", "B", "X-cut"],
     required: "no",
     kind: "text",
@@ -167,7 +168,8 @@ export const seasonLogColumns: readonly SeasonLogColumn[] = [
   {
     name: "fruiting_method",
     title: "Fruiting method",
-    meaning: "How the bag was opened for fruiting.",
+    meaning:
+      "How the bag was opened for fruiting: the co-op's code or the method's name in the register. A trial block fruits as its arm says.",
     examples: ["slits", "X-cut", "open top"],
     required: "no",
     kind: "text",

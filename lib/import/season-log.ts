@@ -6,7 +6,7 @@ import { type RowAboveHeader, readHeaderRow } from "./layout";
 import { readDataRow } from "./rows";
 import { type Delimiter, looksBinary, sampleRows, sniffDecimal, sniffDelimiter } from "./sniff";
 import { type ParseState, createParseState, emptyCaches } from "./state";
-import { StrainRegister } from "./strains";
+import { RegisterMatcher } from "./registers";
 import { type WorkbookKind, readWorkbook } from "./spreadsheet";
 import type {
   SeasonLogDetected,
@@ -55,7 +55,9 @@ function createRowReader(options: SeasonLogParserOptions): RowReader {
   const state: ParseState = createParseState(
     options,
     today,
-    options.knownStrains === undefined ? null : new StrainRegister(options.knownStrains),
+    options.knownStrains === undefined
+      ? null
+      : new RegisterMatcher(options.knownStrains.map((strain) => (typeof strain === "string" ? { code: strain } : strain))),
   );
   const every = options.progressEvery ?? 10_000;
   const rowsAboveHeader: RowAboveHeader[] = [];

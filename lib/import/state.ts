@@ -3,7 +3,7 @@ import type { BlockState } from "./blocks";
 import type { CellReading } from "./cells";
 import type { DateReading } from "./dates";
 import { mapHeaders, withoutBadTargets } from "./headers";
-import type { StrainRegister } from "./strains";
+import type { RegisterEntryText, RegisterMatcher } from "./registers";
 import { type SeasonLogColumnName, seasonLogColumnNames } from "./schema";
 import {
   type ColumnPlan,
@@ -65,7 +65,7 @@ export interface ReadingCaches {
 export interface ParseState {
   options: SeasonLogOptions;
   today: string;
-  strains: StrainRegister | null;
+  strains: RegisterMatcher<RegisterEntryText> | null;
   decimal: DecimalMark;
   layout: Layout;
   records: SeasonRecord[];
@@ -122,7 +122,7 @@ export function emptyCaches(): ReadingCaches {
   return { interned: new Map(), dates: new Map(), strainChecks: new Map(), moistures: new Map(), yesNo: new Map(), masses: new Map() };
 }
 
-export function createParseState(options: SeasonLogOptions, today: string, strains: StrainRegister | null): ParseState {
+export function createParseState(options: SeasonLogOptions, today: string, strains: RegisterMatcher<RegisterEntryText> | null): ParseState {
   return {
     options,
     today,

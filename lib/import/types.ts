@@ -4,6 +4,7 @@ import type { DateOrder } from "./dates";
 import type { TextEncodingName } from "./decode";
 import type { HeaderMapping } from "./headers";
 import type { IssueCode } from "./issues";
+import type { RegisterEntryText } from "./registers";
 import type { SeasonLogColumnName } from "./schema";
 
 export interface MassAsWritten {
@@ -76,8 +77,8 @@ export interface SeasonLogOptions {
   decimal?: DecimalMark;
   /** The decimal mark of one column (by its header as written), as chosen by the grower; wins over `decimal`. */
   decimalByColumn?: Record<string, DecimalMark>;
-  /** The co-op's strain codes; when given, an unknown code is an error. */
-  knownStrains?: string[];
+  /** The co-op's strains (codes, or codes with their names); when given, a strain that is neither a code nor a name is an error. */
+  knownStrains?: readonly (string | RegisterEntryText)[];
   /** YYYY-MM-DD; dates after it are warned about. Defaults to the current UTC date. */
   today?: string;
 }

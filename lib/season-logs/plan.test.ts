@@ -1,19 +1,22 @@
 import { describe, expect, it } from "vitest";
 import { parseSeasonLog } from "../import";
-import { type PlanInput, type StoredBlock, planCommit } from "./plan";
+import { type PlanInput, type StoredBlock, type TrialAssignment, planCommit } from "./plan";
 
 const strains = [
-  { id: "s-po01", code: "PO-01" },
-  { id: "s-po02", code: "PO-02" },
+  { id: "s-po01", code: "PO-01", names: ["Grey oyster, culture bank"] },
+  { id: "s-po02", code: "PO-02", names: ["Grey oyster, wild clone"] },
 ];
-const substrateRecipes = [{ id: "r-hwb", code: "HWB-20" }];
-const fruitingMethods = [{ id: "m-slit", code: "SLIT-ACROSS" }];
+const substrateRecipes = [{ id: "r-hwb", code: "HWB-20", names: ["Hardwood sawdust with 20 % wheat bran"] }];
+const fruitingMethods = [
+  { id: "m-slit", code: "SLIT-ACROSS", names: ["Horizontal slits"] },
+  { id: "m-top", code: "TOP-OPEN", names: ["Opened top"] },
+];
 
 const header =
   "block_id,strain,substrate,inoculated_on,block_wet_weight,substrate_moisture,fruiting_method,flush,harvested_on,fresh_weight,contaminated,notes";
 
-function records(lines: string[]) {
-  const parsed = parseSeasonLog([header, ...lines].join("\n"), { knownStrains: strains.map((strain) => strain.code), today: "2026-12-01" });
+function records(lines: string[], head = header) {
+  const parsed = parseSeasonLog([head, ...lines].join("\n"), { knownStrains: strains, today: "2026-12-01" });
   expect(parsed.issues.filter((issue) => issue.severity === "error")).toEqual([]);
   return parsed.records;
 }
@@ -129,6 +132,93 @@ describe("planCommit", () => {
   it("names the nearest registered recipe for an unknown substrate code", () => {
     const plan = planCommit(input({ records: records(["A-1,PO-01,HWB-2O,2026-03-01,2500 g,62 %,,,,,no,"]) }));
     expect(plan.issues[0]).toMatchObject({ line: 2, severity: "error", column: "substrate" });
-    expect(plan.issues[0].message).toContain('Did you mean "HWB-20"?');
+    expect(plan.issues[0].message).toContain('Did you mean "HWB-20" (Hardwood sawdust with 20 % wheat bran)?');
+  });
+
+  it("reads register values by name as well as by code", () => {
+    const plan = planCommit(
+      input({
+        records: records([
+          "A-1,grey oyster wild clone,hardwood sawdust with 20 % wheat bran,2026-03-01,2500 g,62 %,horizontal SLITS,,,,no,",
+        ]),
+      }),
+    );
+    expect(plan.issues).toEqual([]);
+    expect(plan.blocks[0]).toMatchObject({ strainId: "s-po02", substrateRecipeId: "r-hwb", fruitingMethodId: "m-slit" });
+  });
+});
+
+describe("a trial block against its randomised list", () => {
+  const trialHeader = "block_id,strain,trial,arm,fruiting_method,inoculated_on,block_wet_weight";
+  const listed: TrialAssignment = {
+    blockCode: "LP-12",
+    armId: "arm-b",
+    armLabel: "B",
+    trialCode: "T-2026-01",
+    trialTitle: "Slits or an opened top?",
+    strainId: "s-po01",
+    strainCode: "PO-01",
+    fruitingMethod: { id: "m-slit", code: "SLIT-ACROSS", name: "Horizontal slits" },
+  };
+  const plan = (line: string, assignments = [listed]) => planCommit(input({ records: records([line], trialHeader), assignments }));
+  const codes = (line: string) => plan(line).issues.map((issue) => [issue.code, issue.severity, issue.column, issue.value]);
+
+  it("takes a row that agrees with the list, by code or by name, in any case", () => {
+    expect(plan("LP-12,PO-01,T-2026-01,B,SLIT-ACROSS,2026-03-01,2500 g").issues).toEqual([]);
+    expect(plan("lp-12,grey oyster culture bank,t-2026-01,b,horizontal slits,2026-03-01,2500 g").issues).toEqual([]);
+    expect(plan("LP-12,PO-01,Slits or an opened top?,,,2026-03-01,2500 g").issues).toEqual([]);
+    expect(plan("LP-12,PO-01,,,,2026-03-01,2500 g").blocks[0].trialArmId).toBe("arm-b");
+  });
+
+  it("refuses another fruiting method and says which one the arm uses", () => {
+    const [issue] = plan("LP-12,PO-01,T-2026-01,B,opened top,2026-03-01,2500 g").issues;
+    expect(issue).toMatchObject({
+      code: "trial_fruiting_method_differs",
+      severity: "error",
+      column: "fruiting_method",
+      value: "opened top",
+    });
+    expect(issue.message).toContain(
+      'block LP-12 is in arm B of trial T-2026-01, which fruits with "Horizontal slits" (SLIT-ACROSS); this row says "Opened top" (TOP-OPEN)',
+    );
+  });
+
+  it("checks no fruiting method where the arm fixes none", () => {
+    expect(plan("LP-12,PO-01,T-2026-01,B,TOP-OPEN,2026-03-01,2500 g", [{ ...listed, fruitingMethod: null }]).issues).toEqual([]);
+  });
+
+  it("refuses another arm", () => {
+    expect(codes("LP-12,PO-01,T-2026-01,A,SLIT-ACROSS,2026-03-01,2500 g")).toEqual([["trial_arm_differs", "error", "arm", "A"]]);
+    expect(plan("LP-12,PO-01,T-2026-01,D,,2026-03-01,2500 g").issues[0].message).toContain("arm B of trial T-2026-01");
+  });
+
+  it("refuses another trial", () => {
+    expect(codes("LP-12,PO-01,T-2025-07,B,,2026-03-01,2500 g")).toEqual([["trial_differs", "error", "trial", "T-2025-07"]]);
+  });
+
+  it("refuses another strain, naming the arm's", () => {
+    const issues = plan("LP-12,PO-02,T-2026-01,B,,2026-03-01,2500 g").issues;
+    expect(issues.map((issue) => issue.code)).toEqual(["trial_strain_differs"]);
+    expect(issues[0].message).toContain('which uses strain "Grey oyster, culture bank" (PO-01)');
+  });
+
+  it("reports every contradiction of one row", () => {
+    expect(codes("LP-12,PO-02,T-2025-07,C,TOP-OPEN,2026-03-01,2500 g").map(([code]) => code)).toEqual([
+      "trial_differs",
+      "trial_arm_differs",
+      "trial_strain_differs",
+      "trial_fruiting_method_differs",
+    ]);
+  });
+
+  it("refuses a trial or arm named for a block the farm's list does not have, in the same words whoever else lists it", () => {
+    // The farm's own list is all the planner sees (row-level security): another farm's LP-99 looks like no block at all.
+    const unknown = plan("LP-99,PO-01,T-2026-01,B,,2026-03-01,2500 g");
+    expect(unknown.issues.map((issue) => [issue.code, issue.severity])).toEqual([["trial_block_not_listed", "error"]]);
+    expect(unknown.issues[0].message).toBe(
+      'Line 2: block LP-99 names trial "T-2026-01", but your farm\'s randomised list has no block LP-99. Check the block code against your trial list, or leave the trial and arm cells blank to record it as an ordinary block.',
+    );
+    expect(codes("LP-99,PO-01,,B,,2026-03-01,2500 g")).toEqual([["trial_block_not_listed", "error", "arm", "B"]]);
+    expect(plan("LP-99,PO-01,,,,2026-03-01,2500 g").issues).toEqual([]);
   });
 });

@@ -1,5 +1,5 @@
-import type { SeasonLogIssue, SeasonRecord } from "../import";
-import { StrainRegister } from "../import/strains";
+import type { IssueCode, SeasonLogIssue, SeasonRecord } from "../import";
+import { RegisterMatcher, registerKey } from "../import/registers";
 
 /** A block as stored, in the shape the planner compares (masses in grams, dates YYYY-MM-DD). */
 export interface StoredBlock {
@@ -30,16 +30,21 @@ export interface StoredHarvest {
 export interface RegistryEntry {
   id: string;
   code: string;
+  /** Names a file may use instead of the code (the register's name). */
+  names?: readonly string[];
 }
 
-/** A block code on the farm's randomised list, with the arm it runs and that arm's strain. */
+/** A block code on the farm's randomised list, with the arm it runs and what that arm fixes: strain and, if any, fruiting method. */
 export interface TrialAssignment {
   blockCode: string;
   armId: string;
   armLabel: string;
   trialCode: string;
+  trialTitle?: string;
   strainId: string;
   strainCode: string;
+  /** The arm's fruiting method; null when the arm fixes none (no treatment, or one of another kind such as a humidity regime). */
+  fruitingMethod?: { id: string; code: string; name: string } | null;
 }
 
 export interface PlanInput {
@@ -122,34 +127,106 @@ function shown(value: number | string | boolean | null): string | null {
   return String(value);
 }
 
+function entryText(entry: { code: string; name?: string }): string {
+  return entry.name && registerKey(entry.name) !== registerKey(entry.code) ? `"${entry.name}" (${entry.code})` : entry.code;
+}
+
 class Register {
-  private readonly byKey = new Map<string, RegistryEntry>();
-  /** Codes as written, already looked up: a file repeats a handful of codes on every block. */
+  private readonly matcher: RegisterMatcher<RegistryEntry>;
+  /** Texts as written, already looked up: a file repeats a handful of codes on every block. */
   private readonly byWritten = new Map<string, RegistryEntry | null>();
-  private readonly nearest: StrainRegister;
   readonly codeById = new Map<string, string>();
+  readonly byId = new Map<string, RegistryEntry>();
 
   constructor(entries: readonly RegistryEntry[]) {
     for (const entry of entries) {
-      this.byKey.set(key(entry.code), entry);
       this.codeById.set(entry.id, entry.code);
+      this.byId.set(entry.id, entry);
     }
-    this.nearest = new StrainRegister(entries.map((entry) => entry.code));
+    this.matcher = new RegisterMatcher(entries);
   }
 
-  find(code: string): RegistryEntry | null {
-    let entry = this.byWritten.get(code);
+  /** The entry a cell names by code or by name. */
+  find(text: string): RegistryEntry | null {
+    let entry = this.byWritten.get(text);
     if (entry === undefined) {
-      entry = this.byKey.get(key(code)) ?? null;
-      this.byWritten.set(code, entry);
+      entry = this.matcher.find(text);
+      this.byWritten.set(text, entry);
     }
     return entry;
   }
 
-  suggestion(code: string): string {
-    const near = this.nearest.nearest(code);
-    return near ? ` Did you mean "${near}"?` : "";
+  suggestion(text: string): string {
+    return this.matcher.suggestion(text);
   }
+
+  /** `"Slits cut across the bag" (SLIT-ACROSS)`: what a message calls an entry; `fallback` for one no longer active. */
+  described(id: string, fallback: string): string {
+    const entry = this.byId.get(id);
+    return entry ? entryText({ code: entry.code, name: entry.names?.[0] }) : fallback;
+  }
+}
+
+/**
+ * What a block on the randomised list must agree with: its arm's trial, label, strain and
+ * fruiting method. A blank cell says nothing; a cell that names something else is an error
+ * that says what the list expects.
+ */
+function againstTheList(
+  record: SeasonRecord,
+  assignment: TrialAssignment,
+  strain: RegistryEntry,
+  method: RegistryEntry | null,
+  strains: Register,
+  methods: Register,
+): SeasonLogIssue[] {
+  const issues: SeasonLogIssue[] = [];
+  const where = `Line ${record.line}: block ${record.blockCode} is in arm ${assignment.armLabel} of trial ${assignment.trialCode}`;
+  const check = (code: IssueCode, column: string, value: string, expects: string, says: string, fix: string) =>
+    issues.push({
+      line: record.line,
+      code,
+      column,
+      value,
+      severity: "error",
+      message: `${where}, ${expects}; this row says ${says}. ${fix}, or check the block code against your farm's trial list.`,
+    });
+  const trialNamed = record.trialCode ? registerKey(record.trialCode) : null;
+  if (
+    trialNamed !== null &&
+    trialNamed !== registerKey(assignment.trialCode) &&
+    !(assignment.trialTitle && trialNamed === registerKey(assignment.trialTitle))
+  )
+    check(
+      "trial_differs",
+      "trial",
+      record.trialCode!,
+      "on your farm's randomised list",
+      `trial "${record.trialCode}"`,
+      `Write ${assignment.trialCode}`,
+    );
+  if (record.arm && registerKey(record.arm) !== registerKey(assignment.armLabel))
+    check("trial_arm_differs", "arm", record.arm, "on your farm's randomised list", `arm "${record.arm}"`, `Write ${assignment.armLabel}`);
+  if (assignment.strainId !== strain.id)
+    check(
+      "trial_strain_differs",
+      "strain",
+      record.strainCode,
+      `which uses strain ${strains.described(assignment.strainId, assignment.strainCode)}`,
+      `"${record.strainCode}"`,
+      "Correct the strain",
+    );
+  const expected = assignment.fruitingMethod;
+  if (expected && method && method.id !== expected.id)
+    check(
+      "trial_fruiting_method_differs",
+      "fruiting_method",
+      record.fruitingMethod!,
+      `which fruits with ${entryText(expected)}`,
+      methods.described(method.id, method.code),
+      "Correct the fruiting method",
+    );
+  return issues;
 }
 
 /**
@@ -209,7 +286,7 @@ export function planCommit(input: PlanInput): CommitPlan {
         column: "substrate",
         value: record.substrate,
         severity: "error",
-        message: `Line ${record.line}: block ${code} has substrate recipe "${record.substrate}", which is not in the co-op's recipe register.${recipes.suggestion(record.substrate)} Use a recipe code from the register, or leave the cell blank.`,
+        message: `Line ${record.line}: block ${code} has substrate recipe "${record.substrate}", which is neither a code nor a name in the co-op's recipe register.${recipes.suggestion(record.substrate)} Use a recipe from the register, or leave the cell blank.`,
       });
     }
     const method = record.fruitingMethod ? methods.find(record.fruitingMethod) : null;
@@ -220,28 +297,21 @@ export function planCommit(input: PlanInput): CommitPlan {
         column: "fruiting_method",
         value: record.fruitingMethod,
         severity: "error",
-        message: `Line ${record.line}: block ${code} has fruiting method "${record.fruitingMethod}", which is not in the co-op's register.${methods.suggestion(record.fruitingMethod)} Use a fruiting method code from the register, or leave the cell blank.`,
+        message: `Line ${record.line}: block ${code} has fruiting method "${record.fruitingMethod}", which is neither a code nor a name in the co-op's register.${methods.suggestion(record.fruitingMethod)} Use a fruiting method from the register, or leave the cell blank.`,
       });
     }
     const assignment = assignmentByCode.size === 0 ? null : (assignmentByCode.get(key(code)) ?? null);
-    if (assignment && assignment.strainId !== strain.id) {
-      issues.push({
-        line: record.line,
-        code: "trial_strain_differs",
-        column: "strain",
-        value: record.strainCode,
-        severity: "error",
-        message: `Line ${record.line}: block ${code} runs arm ${assignment.armLabel} of trial ${assignment.trialCode}, which uses strain ${assignment.strainCode}, but the file says "${record.strainCode}". Correct the strain, or check the block code against your farm's trial list.`,
-      });
-    }
-    if (!assignment && record.trialCode) {
+    if (assignment) issues.push(...againstTheList(record, assignment, strain, method, strains, methods));
+    // The same words whether or not another farm lists this code: the farm learns nothing about other farms' lists.
+    if (!assignment && (record.trialCode || record.arm)) {
+      const named = record.trialCode ? `trial "${record.trialCode}"` : `arm "${record.arm}"`;
       issues.push({
         line: record.line,
         code: "trial_block_not_listed",
-        column: "trial",
-        value: record.trialCode,
-        severity: "warning",
-        message: `Line ${record.line}: block ${code} names trial "${record.trialCode}", but it is not on your farm's randomised list, so it is stored as an ordinary block. Check the block code against the trial list if it should be a trial block.`,
+        column: record.trialCode ? "trial" : "arm",
+        value: record.trialCode ?? record.arm ?? "",
+        severity: "error",
+        message: `Line ${record.line}: block ${code} names ${named}, but your farm's randomised list has no block ${code}. Check the block code against your trial list, or leave the trial and arm cells blank to record it as an ordinary block.`,
       });
     }
 

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import type { SeasonLogDetected, SeasonLogIssue, SeasonLogOptions } from "../import";
 import { toCsv } from "../csv";
+import type { RegisterEntryText } from "../import/registers";
 import type { CommitPlan, PlanCounts, ValueChange } from "./plan";
 
 /** The largest season log the upload accepts. */
@@ -47,7 +48,10 @@ export interface UploadReport {
   choices: ParseChoices;
 }
 
-export function parserOptions(choices: ParseChoices, knownStrains: string[]): SeasonLogOptions & { sheet?: string } {
+export function parserOptions(
+  choices: ParseChoices,
+  knownStrains: readonly (string | RegisterEntryText)[],
+): SeasonLogOptions & { sheet?: string } {
   return { ...choices, knownStrains };
 }
 

@@ -1,4 +1,5 @@
 import type { MassAsWritten, SeasonLogResult, SeasonRecord } from "../import";
+import type { RegisterEntryText } from "../import/registers";
 import type { ParseChoices } from "./report";
 
 /**
@@ -66,7 +67,7 @@ interface Packed {
 }
 
 /** What a parse depended on besides the file: the grower's choices, the strain register and the day. */
-export function stagingKey(choices: ParseChoices, knownStrains: readonly string[], today: string): string {
+export function stagingKey(choices: ParseChoices, knownStrains: readonly (string | RegisterEntryText)[], today: string): string {
   const mapping = choices.mapping ? Object.entries(choices.mapping).sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)) : null;
   return JSON.stringify([
     mapping,
@@ -75,7 +76,7 @@ export function stagingKey(choices: ParseChoices, knownStrains: readonly string[
     choices.decimal ?? null,
     choices.decimalByColumn ? Object.entries(choices.decimalByColumn).sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)) : null,
     choices.sheet ?? null,
-    [...knownStrains].sort(),
+    knownStrains.map((strain) => (typeof strain === "string" ? strain : JSON.stringify([strain.code, strain.names ?? []]))).sort(),
     today,
   ]);
 }

@@ -23,6 +23,14 @@ export default async function BlocksPage() {
             Upload a season log
           </ButtonLink>
         ) : null}
+        {/* eslint-disable-next-line @next/next/no-html-link-for-pages -- a file download from a route handler, not a page */}
+        <a
+          href="/api/season-logs/export"
+          className="inline-flex min-h-11 items-center rounded-lg border border-moss-600 bg-white px-4 text-sm font-semibold text-moss-700"
+          title="Your blocks and harvests in the season-log format: correct or add rows and upload the file again."
+        >
+          Download as a season log (CSV)
+        </a>
       </PageHeader>
       <BlocksTable rows={rows} display={member.displayUnits} />
     </>

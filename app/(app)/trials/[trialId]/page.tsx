@@ -298,11 +298,17 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
               className="inline-flex min-h-11 items-center justify-center rounded-lg border border-moss-600 bg-white px-4 py-2 text-sm font-semibold text-moss-700 hover:bg-moss-50"
               download
             >
-              Download the list (CSV)
+              Download the list as a season log (CSV)
             </a>
           </>
         ) : null}
       </div>
+      {can(member.role, "trial-list:download") ? (
+        <p className="mb-4 text-sm text-ink-soft">
+          The list comes in the season-log format with each block&apos;s strain, trial, arm and fruiting method filled in: add dates and
+          weights as you go and upload it on Season logs as it stands.
+        </p>
+      ) : null}
       {progress ? (
         <dl className="grid grid-cols-2 gap-2 text-sm sm:grid-cols-4" data-testid="own-progress">
           <div>

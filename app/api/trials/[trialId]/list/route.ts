@@ -1,30 +1,11 @@
 import { guardedRoute } from "@/lib/auth/guard";
-import { toCsv } from "@/lib/csv";
-import { getTrial, listOwnAssignments } from "@/lib/data/trials";
-import { AppError } from "@/lib/errors";
+import { getTrialListSeasonLog } from "@/lib/data/trials";
+import { attachment } from "@/lib/season-logs/request";
 
-/** The farm's own randomised list as CSV: one row per block code. */
+/** The farm's own randomised list as a season log to fill in and upload: one row per block code, in the list's order. */
 export const GET = guardedRoute<{ trialId: string }>("trial-list:download", async (_request, { member, params }) => {
-  const trial = await getTrial(member, params.trialId);
-  const list = await listOwnAssignments(member, params.trialId);
-  if (!list.length) throw new AppError("not_found", "Your farm has no list for this trial. Accept the invitation on the trial page first.");
-  const csv = toCsv(
-    list.map((entry) => ({ ...entry, trial: trial.code, treatmentName: entry.treatmentName ?? "" })),
-    [
-      { key: "trial", header: "trial" },
-      { key: "sequence", header: "sequence" },
-      { key: "permutedBlock", header: "permuted_block" },
-      { key: "blockCode", header: "block_code" },
-      { key: "armLabel", header: "arm" },
-      { key: "strainCode", header: "strain" },
-      { key: "treatmentName", header: "treatment" },
-    ],
-  );
+  const { fileName, csv } = await getTrialListSeasonLog(member, params.trialId);
   return new Response(csv, {
-    headers: {
-      "content-type": "text/csv; charset=utf-8",
-      "content-disposition": `attachment; filename="${trial.code}-block-list.csv"`,
-      "cache-control": "no-store",
-    },
+    headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": attachment(fileName), "cache-control": "no-store" },
   });
 });
