@@ -205,7 +205,7 @@ describe("deviations from the plan", () => {
       {
         label: "B",
         counts: {
-          listed: 16,
+          listed: 20,
           inSeasonLog: 20,
           analysed: 8,
           countedAsZero: 0,
