@@ -45,7 +45,7 @@ describe("releases of the pooled figures in the browser", () => {
       page.getByRole("button", { name: "Download CSV" }).first().click(),
     ]);
     expect(download.suggestedFilename()).toBe(`co-op-strains-release-${release}.csv`);
-    const [header, firstRow] = readFileSync((await download.path()), "utf8").split(/\r\n/);
+    const [header, firstRow] = readFileSync(await download.path(), "utf8").split(/\r\n/);
     expect(header).toMatch(/,Release,Release published \(UTC\)$/);
     expect(firstRow).toMatch(new RegExp(`,${release},\\d{4}-\\d{2}-\\d{2} \\d{2}:\\d{2}$`));
     await screenshot(page, "results-release-line");
