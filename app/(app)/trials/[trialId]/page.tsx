@@ -302,7 +302,8 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
   if (enrolment.status !== "accepted")
     return <Notice>Your farm is not taking part in this trial ({answerLabels[enrolment.status].toLowerCase()}).</Notice>;
   const progress = await getOwnProgress(member, trial);
-  const due = progress ? dueItems(progress) : [];
+  // Once the trial is closed nothing is due any more: no reminder comes, and later records are not in its analysis.
+  const due = progress && remindersRun(trial.status) ? dueItems(progress) : [];
   return (
     <Card title="Your farm's part">
       <p className="text-sm">
@@ -352,7 +353,9 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
           ))}
         </ul>
       ) : (
-        <p className="text-sm text-ink-soft">Nothing due right now.</p>
+        <p className="text-sm text-ink-soft">
+          {remindersRun(trial.status) || trial.status === "open" ? "Nothing due right now." : "Nothing due: the trial is closed."}
+        </p>
       )}
       {progress && progress.contaminated > 0 ? (
         <div className="mt-4">
