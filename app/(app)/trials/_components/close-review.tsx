@@ -21,7 +21,7 @@ export function CloseReviewCard({ review, outcomeFlushes }: { review: CloseRevie
         {totals.notInSeasonLog === 1 ? "is" : "are"} not in any season log yet.
       </p>
       <p className="mb-3 text-sm text-ink-soft">Counts of blocks only; no farm&apos;s weights are shown here.</p>
-      <div className="overflow-x-auto">
+      <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Incomplete blocks by farm and arm">
         <table className="w-full min-w-[40rem] text-sm [&_td]:pr-3 [&_th]:pr-3" data-testid="close-review">
           <thead>
             <tr className="text-left align-bottom">

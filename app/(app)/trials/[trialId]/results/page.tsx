@@ -288,7 +288,7 @@ function PlannedAndAchievedItem({ plan }: { plan: PlannedAndAchieved }) {
 
 function ArmDeviationTable({ rows, flushes, minimumFarms }: { rows: ArmDeviation[]; flushes: number; minimumFarms: number }) {
   return (
-    <div className="mt-4 overflow-x-auto">
+    <div className="mt-4 overflow-x-auto" tabIndex={0} role="region" aria-label="Blocks left out, by arm">
       <table className="w-full min-w-[40rem] text-sm [&_td]:pr-3 [&_th]:pr-3" data-testid="deviations-by-arm">
         <caption className="mb-2 text-left text-ink-soft">
           Blocks per arm: listed by the randomisation, in a season log, compared (the achieved sample size), and left out, by reason.
