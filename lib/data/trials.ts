@@ -1,5 +1,5 @@
 import "server-only";
-import { randomBytes } from "node:crypto";
+import { createHash, randomBytes } from "node:crypto";
 import { and, asc, desc, eq, inArray, like, sql } from "drizzle-orm";
 import { withAnalystAccess, withFarmContext, type Transaction } from "@/db/client";
 import {
@@ -19,6 +19,7 @@ import {
   users,
 } from "@/db/schema";
 import { appUrl } from "@/lib/app-url";
+import { can } from "@/lib/auth/permissions";
 import { recordAudit } from "@/lib/data/audit";
 import { queueMail, secretLink } from "@/lib/data/mail";
 import { farmContextOf, type Member } from "@/lib/data/members";
@@ -38,13 +39,17 @@ import { seededRandom } from "@/lib/random";
 import {
   assertMove,
   blockCodePrefix,
+  incompleteCounts,
+  remindersRun,
   isDesignEditable,
   permutedBlockList,
   TrialRuleError,
   markOwnFarm,
   trialReport,
   trialStatusLabels,
+  type IncompleteCounts,
   type StoredTrialResults,
+  type TrialBlockRecord,
   type TrialStatus,
 } from "@/lib/trials";
 import { verifyOptOutToken } from "@/lib/trials/reminder-opt-out";
@@ -368,7 +373,13 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
 
 // ——— Lifecycle ———
 
-export async function moveTrial(member: Member, trialId: string, to: TrialStatus): Promise<void> {
+/**
+ * One step of the trial's lifecycle. Closing ("collecting") needs `reviewed`: the fingerprint of
+ * the incomplete counts the coordinator confirmed (getCloseReview), refused when missing or when
+ * records arrived since, so a result is never frozen on counts nobody saw.
+ */
+export async function moveTrial(member: Member, trialId: string, to: TrialStatus, options: { reviewed?: string } = {}): Promise<void> {
+  if (!can(member.role, "trial:manage")) throw new AppError("forbidden", "Only the co-op's coordinator moves a trial on.");
   await withFarmContext(farmContextOf(member), async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
     try {
@@ -399,7 +410,22 @@ export async function moveTrial(member: Member, trialId: string, to: TrialStatus
         .set({ status: "dropped" })
         .where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.status, "invited")));
     }
-    if (to === "collecting") changes.publishedResults = await analyseStoredTrial(tx, trial);
+    let review: CloseReview | null = null;
+    if (to === "collecting") {
+      if (!options.reviewed)
+        throw new AppError(
+          "invalid_input",
+          "Closing freezes the analysis: read what is still incomplete on the trial page, tick the confirmation and close again.",
+          [{ field: "reviewed", message: "Tick that you have read what is still incomplete." }],
+        );
+      review = await closeReviewOf(tx, trial);
+      if (review.fingerprint !== options.reviewed)
+        throw new AppError(
+          "conflict",
+          "Records have changed since you reviewed what is incomplete. Reload the trial page, read the counts again and confirm.",
+        );
+      changes.publishedResults = await analyseStoredTrial(tx, trial);
+    }
     if (to === "published") {
       if (!trial.results) throw new AppError("conflict", "The trial has no analysis yet; move it to Collecting results first.");
       changes.publishedAt = new Date();
@@ -409,7 +435,8 @@ export async function moveTrial(member: Member, trialId: string, to: TrialStatus
       ...actor(member),
       action: "trial.status_changed",
       subject: trial.code,
-      details: { trialId, from: trial.status, to },
+      // What the coordinator confirmed on closing: counts only.
+      details: review ? { trialId, from: trial.status, to, incomplete: review.totals } : { trialId, from: trial.status, to },
     });
     if (to === "published") {
       const people = await tx.select({ email: users.email }).from(users).where(eq(users.active, true));
@@ -439,10 +466,13 @@ async function analyseStoredTrial(tx: Transaction, trial: TrialView): Promise<St
     .select({ status: trialEnrolments.status, farmId: trialEnrolments.farmId })
     .from(trialEnrolments)
     .where(eq(trialEnrolments.trialId, trial.id));
-  const [{ assigned }] = await tx
-    .select({ assigned: sql<number>`count(*)::int` })
+  const assignedRows = await tx
+    .select({ armId: trialBlockAssignments.armId, assigned: sql<number>`count(*)::int` })
     .from(trialBlockAssignments)
-    .where(eq(trialBlockAssignments.trialId, trial.id));
+    .where(eq(trialBlockAssignments.trialId, trial.id))
+    .groupBy(trialBlockAssignments.armId);
+  const assignedByArm = Object.fromEntries(assignedRows.map((row) => [row.armId, row.assigned]));
+  const assigned = assignedRows.reduce((sum, row) => sum + row.assigned, 0);
   const armIds = trial.arms.map((arm) => arm.id);
   return withAnalystAccess(async (analyst) => {
     const [settings] = await analyst
@@ -457,6 +487,7 @@ async function analyseStoredTrial(tx: Transaction, trial: TrialView): Promise<St
             wetMassG: blocks.wetMassG,
             moisture: blocks.moisture,
             contaminated: blocks.contaminated,
+            spentMassG: blocks.spentMassG,
           })
           .from(blocks)
           .where(inArray(blocks.trialArmId, armIds))
@@ -483,6 +514,8 @@ async function analyseStoredTrial(tx: Transaction, trial: TrialView): Promise<St
       random: seededRandom(randomBytes(16).toString("hex")),
       enrolments,
       blocksAssigned: assigned,
+      assignedByArm,
+      design: trial,
       analysedAt: new Date().toISOString(),
     });
     await analyst.delete(trialReportFarms).where(eq(trialReportFarms.trialId, trial.id));
@@ -809,10 +842,117 @@ export async function listTrialProgress(member: Member, trial: TrialView) {
   });
 }
 
+export interface CloseReviewRow {
+  farmId: string;
+  farmName: string;
+  armLabel: string;
+  counts: IncompleteCounts;
+}
+
+/** What closing now would leave incomplete, per farm and arm, with a fingerprint of those counts for the confirmation. */
+export interface CloseReview {
+  rows: CloseReviewRow[];
+  totals: IncompleteCounts;
+  fingerprint: string;
+}
+
+/**
+ * The coordinator's review before closing: for each farm and arm, blocks not in a season log,
+ * not through the outcome's flushes, without wet mass or moisture, not yet spent, and what
+ * closing now would count or leave out. Counts only: the blocks are read through the analyst
+ * role and no mass leaves this function.
+ */
+export async function getCloseReview(member: Member, trialId: string): Promise<CloseReview> {
+  if (!can(member.role, "trial:follow-all-farms"))
+    throw new AppError("forbidden", "Only the co-op's coordinator sees every farm's progress in a trial.");
+  return withFarmContext(farmContextOf(member), async (tx) => closeReviewOf(tx, await loadTrial(tx, member, trialId)));
+}
+
+async function closeReviewOf(tx: Transaction, trial: TrialView): Promise<CloseReview> {
+  const enrolled = await tx
+    .select({ farmId: trialEnrolments.farmId, blocksPerArm: trialEnrolments.blocksPerArm })
+    .from(trialEnrolments)
+    .where(and(eq(trialEnrolments.trialId, trial.id), eq(trialEnrolments.status, "accepted")));
+  const armIds = trial.arms.map((arm) => arm.id);
+  const blockRecords = await withAnalystAccess(async (analyst) => {
+    if (!armIds.length) return [];
+    const blockRows = await analyst
+      .select({
+        id: blocks.id,
+        farmId: blocks.farmId,
+        armId: blocks.trialArmId,
+        wetMassG: blocks.wetMassG,
+        moisture: blocks.moisture,
+        contaminated: blocks.contaminated,
+        spentMassG: blocks.spentMassG,
+      })
+      .from(blocks)
+      .where(inArray(blocks.trialArmId, armIds));
+    const harvestRows = blockRows.length
+      ? await analyst
+          .select({ blockId: harvests.blockId, flush: harvests.flush, freshMassG: harvests.freshMassG })
+          .from(harvests)
+          .where(
+            inArray(
+              harvests.blockId,
+              blockRows.map((row) => row.id),
+            ),
+          )
+      : [];
+    const byBlock = new Map<string, TrialBlockRecord["harvests"]>();
+    for (const harvest of harvestRows) byBlock.set(harvest.blockId, [...(byBlock.get(harvest.blockId) ?? []), harvest]);
+    return blockRows.map((row) => ({
+      farmId: row.farmId,
+      armId: row.armId!,
+      block: { ...row, harvests: byBlock.get(row.id) ?? [] } satisfies TrialBlockRecord,
+    }));
+  });
+  // Farms taking part, and any other farm whose blocks name the trial's arms: the analysis counts those too.
+  const farmIds = [...new Set([...enrolled.map((row) => row.farmId), ...blockRecords.map((row) => row.farmId)])];
+  const farmRows = farmIds.length
+    ? await tx.select({ id: farms.id, name: farms.name }).from(farms).where(inArray(farms.id, farmIds)).orderBy(asc(farms.name))
+    : [];
+  const protocol = { flushes: trial.outcomeFlushes, contaminatedHandling: trial.contaminatedHandling };
+  const rows = farmRows.flatMap((farm) =>
+    trial.arms.map((arm) => ({
+      farmId: farm.id,
+      farmName: farm.name,
+      armLabel: arm.label,
+      counts: incompleteCounts(
+        blockRecords.filter((row) => row.farmId === farm.id && row.armId === arm.id).map((row) => row.block),
+        enrolled.find((row) => row.farmId === farm.id)?.blocksPerArm ?? 0,
+        protocol,
+      ),
+    })),
+  );
+  const totals = incompleteCounts([], 0, protocol);
+  for (const { counts } of rows) {
+    for (const key of [
+      "listed",
+      "notInSeasonLog",
+      "inSeasonLog",
+      "withoutOutcomeFlushes",
+      "withoutMass",
+      "notSpent",
+      "contaminated",
+      "wouldCount",
+    ] as const)
+      totals[key] += counts[key];
+    for (const reason of Object.keys(counts.leftOut) as (keyof IncompleteCounts["leftOut"])[])
+      totals.leftOut[reason] += counts.leftOut[reason];
+  }
+  const fingerprint = createHash("sha256")
+    .update(JSON.stringify(rows.map((row) => [row.farmId, row.armLabel, row.counts])))
+    .digest("hex")
+    .slice(0, 32);
+  return { rows, totals, fingerprint };
+}
+
 export async function sendTrialReminder(member: Member, trialId: string, farmId: string): Promise<number> {
   const trial = await getTrial(member, trialId);
-  if (trial.status !== "running" && trial.status !== "collecting")
-    throw new AppError("conflict", "Reminders go out only while a trial is running or collecting results.");
+  if (!can(member.role, "trial:manage")) throw new AppError("forbidden", "Only the co-op's coordinator sends trial reminders.");
+  if (!remindersRun(trial.status))
+    throw new AppError("conflict", `Reminders go out only while a trial is running; this one is "${trialStatusLabels[trial.status]}".`);
   const farmsProgress = await listTrialProgress(member, trial);
   const farm = farmsProgress.find((row) => row.farmId === farmId);
   if (!farm || farm.status !== "accepted") throw new AppError("not_found", "That farm is not taking part in this trial.");

@@ -2,7 +2,6 @@ import { describe, expect, it } from "vitest";
 import { seededRandom } from "@/lib/random";
 import { blockedAnova, metaAnalysis, wilsonInterval, describe as describeValues } from "@/lib/stats";
 import { analyseTrial, type OutcomeRecord } from "./analysis";
-import { blockOutcome } from "./outcome";
 
 const arms = [
   { id: "b", label: "B", isReference: false },
@@ -30,34 +29,6 @@ function generated(farms: number, seed = "analysis"): OutcomeRecord[] {
   }
   return records;
 }
-
-describe("blockOutcome", () => {
-  const block = {
-    wetMassG: 2500,
-    moisture: 0.6,
-    contaminated: false,
-    harvests: [
-      { flush: 1, freshMassG: 500 },
-      { flush: 2, freshMassG: 200 },
-      { flush: 3, freshMassG: 100 },
-    ],
-  };
-
-  it("is BE over flushes 1..k only (dry substrate 1000 g)", () => {
-    expect(blockOutcome(block, { flushes: 2, contaminatedHandling: "exclude" })).toEqual({ value: 70 });
-    expect(blockOutcome(block, { flushes: 1, contaminatedHandling: "exclude" })).toEqual({ value: 50 });
-  });
-
-  it("leaves contaminated blocks out or counts them as zero, as declared", () => {
-    const lost = { ...block, contaminated: true };
-    expect(blockOutcome(lost, { flushes: 2, contaminatedHandling: "exclude" })).toEqual({ value: null, reason: "contaminated" });
-    expect(blockOutcome(lost, { flushes: 2, contaminatedHandling: "count_as_zero" })).toEqual({ value: 0 });
-    expect(blockOutcome({ ...block, wetMassG: null }, { flushes: 2, contaminatedHandling: "exclude" })).toEqual({
-      value: null,
-      reason: "no_mass",
-    });
-  });
-});
 
 describe("analyseTrial", () => {
   it("equals lib/stats on the same rows, with the reference first", () => {

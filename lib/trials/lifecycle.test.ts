@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { assertMove, canMove, nextStatuses, trialStatuses, TrialRuleError } from "./lifecycle";
+import { assertMove, canMove, nextStatuses, trialStatuses, TrialRuleError, remindersRun } from "./lifecycle";
 
 describe("trial lifecycle", () => {
   it("moves forward one step at a time: Draft → Open for enrolment → Running → Collecting results → Published", () => {
@@ -26,5 +26,9 @@ describe("trial lifecycle", () => {
       expect(canMove(status, "withdrawn")).toBe(!finished);
       if (finished) expect(nextStatuses(status)).toEqual([]);
     }
+  });
+
+  it("sends reminders only while the trial runs, never once it is closed", () => {
+    expect(trialStatuses.filter(remindersRun)).toEqual(["running"]);
   });
 });

@@ -64,3 +64,9 @@ export const isDesignEditable = (status: TrialStatus) => status === "draft";
 export const isEnrolmentOpen = (status: TrialStatus) => status === "open";
 export const isVisibleToMembers = (status: TrialStatus) => status !== "draft";
 export const hasResults = (status: TrialStatus) => status === "collecting" || status === "published";
+
+/**
+ * Reminders go out only while a trial runs. Once it is closed (collecting results, published or
+ * withdrawn) nothing is due any more, so no reminder is sent, by the coordinator's button or by a job.
+ */
+export const remindersRun = (status: TrialStatus) => status === "running";

@@ -1,7 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { seededRandom } from "@/lib/random";
 import { analyseTrial, type OutcomeRecord, type TrialArmInfo } from "./analysis";
-import { discloseTrialAnalysis, markOwnFarm } from "./report";
+import { discloseTrialAnalysis, markOwnFarm, trialReport } from "./report";
+import { trialSampleSize } from "./sample-size";
 
 // Invented trial: arms A (reference), B and C; farm keys stand for farm ids.
 const arms: TrialArmInfo[] = [
@@ -141,5 +142,111 @@ describe("what a trial report publishes", () => {
     expect(armB.farms).toHaveLength(2);
     expect(armB.pooled).toBeNull();
     expect(armB.note).toMatch(/Fewer than 3 farms ran both arms/);
+  });
+});
+
+describe("deviations from the plan", () => {
+  // Invented: four farms, arms A and B, 4 blocks listed per farm on arm A, 5 on arm B; 2500 g wet at 60 % moisture.
+  const twoArms = arms.slice(0, 2);
+  function closing(handling: "exclude" | "count_as_zero", farmKeys = farms) {
+    const blockRows: Parameters<typeof trialReport>[0]["blockRows"] = [];
+    const harvestRows: Parameters<typeof trialReport>[0]["harvestRows"] = [];
+    const random = seededRandom("deviations");
+    for (const farm of farmKeys) {
+      for (const arm of twoArms) {
+        // Per farm and arm: 2 finished, 1 only through flush 1 (unfinished) and, on arm B, 1 contaminated and 1 without its wet mass.
+        const kinds = arm.id === "arm-b" ? ["done", "done", "flush1", "contaminated", "nomass"] : ["done", "done", "flush1"];
+        kinds.forEach((kind, index) => {
+          const id = `${farm}-${arm.id}-${index}`;
+          blockRows.push({
+            id,
+            farmId: farm,
+            armId: arm.id,
+            wetMassG: kind === "nomass" ? null : 2500,
+            moisture: 0.6,
+            contaminated: kind === "contaminated",
+            spentMassG: null,
+          });
+          if (kind === "contaminated") return;
+          for (const flush of kind === "flush1" ? [1] : [1, 2])
+            harvestRows.push({ blockId: id, flush, freshMassG: random.normal(flush === 1 ? 450 : 300, 40) });
+        });
+      }
+    }
+    return trialReport({
+      arms: twoArms,
+      blockRows,
+      harvestRows,
+      outcome: { flushes: 2, contaminatedHandling: handling },
+      minimumFarms: 3,
+      showPerFarmEstimates: false,
+      random: seededRandom("names"),
+      enrolments: farmKeys.map(() => ({ status: "accepted" })),
+      blocksAssigned: farmKeys.length * 9,
+      assignedByArm: { "arm-a": farmKeys.length * 4, "arm-b": farmKeys.length * 5 },
+      design: { smallestDifference: 10, expectedSd: 12, plannedFarms: 5, expectedLoss: 0.1 },
+      analysedAt: "2026-01-01T00:00:00.000Z",
+    }).results;
+  }
+
+  it("lists every left-out block by reason and arm, and never counts an unfinished block", () => {
+    const results = closing("exclude");
+    expect(results.deviations.byArm).toEqual([
+      {
+        label: "A",
+        counts: {
+          listed: 16,
+          inSeasonLog: 12,
+          analysed: 8,
+          countedAsZero: 0,
+          leftOut: { contaminated: 0, lost: 0, unfinished: 4, no_harvest: 0 },
+        },
+      },
+      {
+        label: "B",
+        counts: {
+          listed: 20,
+          inSeasonLog: 20,
+          analysed: 8,
+          countedAsZero: 0,
+          leftOut: { contaminated: 4, lost: 4, unfinished: 4, no_harvest: 0 },
+        },
+      },
+    ]);
+    expect(results.analysis.blocksAnalysed).toBe(16);
+    expect(results.deviations.blocksLeftOut).toBe(16);
+  });
+
+  it("counts contaminated blocks as 0 % only where the protocol says so, and says how many", () => {
+    const results = closing("count_as_zero");
+    expect(results.deviations.byArm![1].counts).toMatchObject({
+      analysed: 12,
+      countedAsZero: 4,
+      leftOut: { contaminated: 0, unfinished: 4 },
+    });
+    expect(results.analysis.blocksAnalysed).toBe(20);
+  });
+
+  it("puts the planned sample size beside the achieved one", () => {
+    const plan = closing("exclude").deviations.plan!;
+    const designed = trialSampleSize({ difference: 10, sd: 12, plannedFarms: 5, expectedLoss: 0.1, arms: 2 }, [0.8]);
+    expect(designed.ok).toBe(true);
+    if (!designed.ok) return;
+    expect(plan).toEqual({
+      farmsPlanned: 5,
+      farmsTakingPart: 4,
+      farmsContributing: 4,
+      blocksPerArmNeeded: Math.ceil(designed.rows[0].exactPerArm),
+      blocksPerArmToMake: designed.rows[0].perArmToMake,
+    });
+  });
+
+  it("publishes no arm's counts below the co-op's minimum number of farms", () => {
+    const results = closing("exclude", ["f1", "f2"]);
+    expect(results.deviations.byArm).toEqual([
+      { label: "A", counts: null },
+      { label: "B", counts: null },
+    ]);
+    expect(results.deviations.plan!.farmsContributing).toBeNull();
   });
 });

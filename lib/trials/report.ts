@@ -10,7 +10,8 @@ import {
   type TrialAnalysis,
   type TrialArmInfo,
 } from "./analysis";
-import { trialOutcomeRecords } from "./outcome";
+import { exclusionReasons, trialOutcomeRecords, type ClassifiedOutcomeRecord, type ExclusionReason } from "./outcome";
+import { trialSampleSize } from "./sample-size";
 
 /** One arm as a published report shows it: each figure only with the co-op's minimum number of farms behind it. */
 export interface PublishedArm {
@@ -183,6 +184,31 @@ export function markOwnFarm(report: PublishedTrialAnalysis, own: Omit<TrialRepor
   };
 }
 
+/** One arm's blocks in "Deviations from the plan": counts only, null where fewer than the minimum number of farms ran the arm. */
+export interface ArmDeviation {
+  label: string;
+  counts: {
+    listed: number;
+    inSeasonLog: number;
+    /** Blocks in the BE comparison: the achieved sample size. */
+    analysed: number;
+    /** Of those, contaminated blocks counted as 0 %, as declared. */
+    countedAsZero: number;
+    leftOut: Record<ExclusionReason, number>;
+  } | null;
+}
+
+/** The planned sample size from the design (80 % power, lib/trials/sample-size.ts) beside what was achieved. */
+export interface PlannedAndAchieved {
+  farmsPlanned: number | null;
+  farmsTakingPart: number;
+  /** Null where fewer than the minimum number of farms reported. */
+  farmsContributing: number | null;
+  /** Blocks per arm the comparison needs for 80 % power, and to make once the expected loss is allowed for; null when the design gave no figures. */
+  blocksPerArmNeeded: number | null;
+  blocksPerArmToMake: number | null;
+}
+
 /** What is stored on the trial when it closes, and shown once published: only what the report may show. */
 export interface StoredTrialResults {
   analysis: PublishedTrialAnalysis;
@@ -193,14 +219,44 @@ export interface StoredTrialResults {
     blocksAssigned: number;
     blocksMade: number | null;
     blocksLeftOut: number | null;
+    /** Every block left out, by reason and arm (absent from results stored before blocks were classified on closing). */
+    byArm?: ArmDeviation[];
+    plan?: PlannedAndAchieved;
   };
   analysedAt: string;
 }
 
+/** Per arm: listed, in a season log, analysed, left out by reason; withheld below the minimum number of farms, like every arm figure. */
+function armDeviations(
+  arms: readonly TrialArmInfo[],
+  records: readonly ClassifiedOutcomeRecord[],
+  assignedByArm: Readonly<Record<string, number>>,
+  published: PublishedTrialAnalysis,
+): ArmDeviation[] {
+  return arms.map((arm) => {
+    const own = records.filter((record) => record.armId === arm.id);
+    const withheld = !published.enoughFarms || published.arms.find((shown) => shown.label === arm.label)?.withheld;
+    if (withheld || farmsOf(own) < published.minimumFarms) return { label: arm.label, counts: null };
+    const leftOut = Object.fromEntries(exclusionReasons.map((reason) => [reason, 0])) as Record<ExclusionReason, number>;
+    for (const record of own) if (record.excluded) leftOut[record.excluded] += 1;
+    return {
+      label: arm.label,
+      counts: {
+        listed: assignedByArm[arm.id] ?? 0,
+        inSeasonLog: own.length,
+        analysed: own.filter((record) => record.value !== null).length,
+        countedAsZero: own.filter((record) => record.countedAsZero).length,
+        leftOut,
+      },
+    };
+  });
+}
+
 /**
  * The whole report of a closing trial, from its blocks and harvests (read through the analyst
- * role): the pre-declared analysis, then discloseTrialAnalysis. What `results` holds may be
- * stored on the trial and shown to every member; `farms` goes where only each farm reads its row.
+ * role): each block classified as the protocol declares (lib/trials/outcome.ts), the pre-declared
+ * analysis, then discloseTrialAnalysis. What `results` holds may be stored on the trial and shown
+ * to every member; `farms` goes where only each farm reads its row.
  */
 export function trialReport(input: {
   arms: readonly TrialArmInfo[];
@@ -212,11 +268,22 @@ export function trialReport(input: {
   random: Random;
   enrolments: readonly { status: string }[];
   blocksAssigned: number;
+  /** Listed blocks per arm id, over every farm. */
+  assignedByArm: Readonly<Record<string, number>>;
+  design: { smallestDifference: number | null; expectedSd: number | null; plannedFarms: number | null; expectedLoss: number | null };
   analysedAt: string;
 }): { results: StoredTrialResults; farms: TrialReportFarm[] } {
   const records = trialOutcomeRecords(input.blockRows, input.harvestRows, input.outcome);
   const analysis = analyseTrial({ arms: [...input.arms], records, minimumFarms: input.minimumFarms });
   const { report, farms } = discloseTrialAnalysis(analysis, { ...input, records });
+  const { smallestDifference, expectedSd, plannedFarms, expectedLoss } = input.design;
+  const planned =
+    smallestDifference && expectedSd && plannedFarms
+      ? trialSampleSize(
+          { difference: smallestDifference, sd: expectedSd, plannedFarms, expectedLoss: expectedLoss ?? 0, arms: input.arms.length },
+          [0.8],
+        )
+      : null;
   return {
     results: {
       analysis: report,
@@ -226,6 +293,14 @@ export function trialReport(input: {
         blocksAssigned: input.blocksAssigned,
         blocksMade: analysis.enoughFarms ? input.blockRows.length : null,
         blocksLeftOut: report.blocksLeftOut,
+        byArm: armDeviations(input.arms, records, input.assignedByArm, report),
+        plan: {
+          farmsPlanned: plannedFarms,
+          farmsTakingPart: input.enrolments.filter((enrolment) => enrolment.status === "accepted").length,
+          farmsContributing: analysis.enoughFarms ? analysis.farmsContributing : null,
+          blocksPerArmNeeded: planned?.ok ? Math.ceil(planned.rows[0].exactPerArm - 1e-9) : null,
+          blocksPerArmToMake: planned?.ok ? planned.rows[0].perArmToMake : null,
+        },
       },
       analysedAt: input.analysedAt,
     },

@@ -118,7 +118,17 @@ describe("a strain trial in the browser", () => {
     await page.getByTestId("progress-table").waitFor();
     expect(await trial.tooFewFarmsWarning()).toBeNull();
     await trial.move("Start the trial", "Running");
-    await trial.move("Close and analyse", "Collecting results");
+    // Before closing: what is incomplete per farm and arm (no block is in a season log yet), and a confirmation to tick.
+    const review = await trial.closeReview();
+    expect(review).toHaveLength(3 * 2);
+    expect(review[0]).toMatch(/^Fernbrook FarmA30000 of 3$/);
+    expect(await page.getByText("If the trial closed now, 0 blocks would be compared").isVisible()).toBe(true);
+    await screenshot(page, "trials-close-review");
+    expect(await seriousAccessibilityProblems(page)).toEqual([]);
+    const { untickedRefusal } = await trial.closeAfterReview();
+    expect(untickedRefusal).not.toBe("");
+    // Closed: no reminder can be sent any more.
+    expect(await page.getByRole("button", { name: "Send a reminder" }).count()).toBe(0);
     await trial.move("Publish the results", "Published", true);
     expect(await trial.status()).toBe("Published");
     expect(await page.getByTestId("trial-history").textContent()).toContain("Collecting results → Published");
@@ -135,6 +145,9 @@ describe("a strain trial in the browser", () => {
     expect(await page.getByTestId("trial-answer").textContent()).toMatch(/reference arm A/);
     expect(await page.getByRole("img", { name: "Biological efficiency by arm, boxplot" }).isVisible()).toBe(true);
     expect(await page.getByRole("img", { name: /Arm B minus arm A, by farm/ }).isVisible()).toBe(true);
+    // Deviations from the plan: every block left out, by reason and arm, beside the planned sample size.
+    expect(await page.getByTestId("deviations-by-arm").isVisible()).toBe(true);
+    expect(await page.getByTestId("planned-achieved").textContent()).toMatch(/^Planned: .*Achieved: \d+ farms? taking part/);
     // Fernbrook took part: its grower sees their own farm marked and, with per-farm estimates off, no other farm.
     expect(await page.locator("[data-forest-row=own]").count()).toBeGreaterThan(0);
     expect(await page.locator("[data-forest-row=farm]").count()).toBe(0);

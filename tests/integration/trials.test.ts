@@ -6,6 +6,7 @@ import { blocks, harvests, trialBlockAssignments, trialEnrolments } from "@/db/s
 import { listOutgoingMail } from "@/lib/data/mail";
 import { farmContextOf, loadMember, type Member } from "@/lib/data/members";
 import {
+  getCloseReview,
   getOwnProgress,
   getTrial,
   inviteFarms,
@@ -265,8 +266,62 @@ describe("a strain trial from design to publication", () => {
     await expectConflict(sendTrialReminder(coordinator, trialId, managers[3].farmId!), /asked not to get reminders/);
   });
 
-  it("analyses the declared outcome on closing, equal to lib/stats on the same rows", async () => {
-    await moveTrial(coordinator, trialId, "collecting");
+  it("shows the coordinator what is still incomplete per farm and arm before closing, as counts only", async () => {
+    // Farm 2 (index 1) has one block of arm B still colonising, farm 3 (index 2) one of arm B without its wet mass.
+    const armB = trial.arms.find((arm) => arm.label === "B")!;
+    await inspector.query(
+      `delete from harvests where block_id = (select id from blocks where farm_id = $1 and trial_arm_id = $2 order by code limit 1)`,
+      [managers[1].farmId, armB.id],
+    );
+    await inspector.query(
+      `update blocks set wet_mass_g = null where id = (select id from blocks where farm_id = $1 and trial_arm_id = $2 order by code limit 1)`,
+      [managers[2].farmId, armB.id],
+    );
+    const review = await getCloseReview(coordinator, trialId);
+    expect(review.rows).toHaveLength(4 * 3);
+    const row = (manager: Member, arm: string) =>
+      review.rows.find((entry) => entry.farmId === manager.farmId && entry.armLabel === arm)!.counts;
+    expect(row(managers[3], "A")).toMatchObject({ listed: 4, inSeasonLog: 4, withoutOutcomeFlushes: 1, contaminated: 1, wouldCount: 2 });
+    expect(row(managers[3], "A").leftOut).toEqual({ contaminated: 1, lost: 0, unfinished: 1, no_harvest: 0 });
+    expect(row(managers[1], "B")).toMatchObject({ withoutOutcomeFlushes: 1, wouldCount: 3, leftOut: { unfinished: 1 } });
+    expect(row(managers[2], "B")).toMatchObject({ withoutMass: 1, wouldCount: 3, leftOut: { lost: 1 } });
+    // No block has a spent mass yet: every uncontaminated block is "not yet spent", and those through flush 2 still count.
+    expect(review.totals).toMatchObject({ listed: 48, notInSeasonLog: 0, notSpent: 44, wouldCount: 41 });
+    expect(review.totals.leftOut).toEqual({ contaminated: 4, lost: 1, unfinished: 2, no_harvest: 0 });
+    // Counts only: no mass or block id of any farm is in what the page receives.
+    const shown = JSON.stringify(review);
+    expect(shown).not.toMatch(/2500|freshMass|wetMass|blockId/);
+    const { rows: blockIds } = await inspector.query<{ id: string }>("select id from blocks where trial_arm_id = any($1::uuid[])", [
+      trial.arms.map((arm) => arm.id),
+    ]);
+    expect(blockIds.some((block) => shown.includes(block.id))).toBe(false);
+  });
+
+  it("refuses to close without the coordinator's confirmation, or on counts that changed since", async () => {
+    await expectConflict(moveTrial(coordinator, trialId, "collecting"), /tick the confirmation/);
+    await expectConflict(moveTrial(coordinator, trialId, "collecting", { reviewed: "0".repeat(32) }), /Records have changed/);
+    const { rows } = await inspector.query<{ status: string; published_results: unknown }>(
+      "select status, published_results from trials where id = $1",
+      [trialId],
+    );
+    expect(rows[0]).toEqual({ status: "running", published_results: null });
+  });
+
+  it("lets no farm manager close the trial or read another farm's incomplete counts", async () => {
+    const { fingerprint } = await getCloseReview(coordinator, trialId);
+    for (const attacker of [managers[0], outsider, observer]) {
+      await expect(getCloseReview(attacker, trialId)).rejects.toMatchObject({ code: "forbidden" });
+      await expect(moveTrial(attacker, trialId, "collecting", { reviewed: fingerprint })).rejects.toMatchObject({ code: "forbidden" });
+    }
+    const { rows } = await inspector.query<{ status: string }>("select status from trials where id = $1", [trialId]);
+    expect(rows[0].status).toBe("running");
+    const { rows: reportRows } = await inspector.query("select 1 from trial_report_farms where trial_id = $1", [trialId]);
+    expect(reportRows).toEqual([]);
+  });
+
+  it("analyses the declared outcome on closing, equal to lib/stats on the same rows, leaving out and listing incomplete blocks", async () => {
+    const review = await getCloseReview(coordinator, trialId);
+    await moveTrial(coordinator, trialId, "collecting", { reviewed: review.fingerprint });
     const analysed = await getTrial(coordinator, trialId);
     const results = analysed.results!;
     const { rows } = await inspector.query<{
@@ -276,15 +331,17 @@ describe("a strain trial from design to publication", () => {
       wet: number;
       moisture: number;
       fresh: number;
+      last_flush: number | null;
     }>(
       `select b.farm_id, a.label as arm, b.contaminated, b.wet_mass_g::float8 as wet, b.moisture::float8 as moisture,
-              coalesce(sum(h.fresh_mass_g) filter (where h.flush <= 2), 0)::float8 as fresh
+              coalesce(sum(h.fresh_mass_g) filter (where h.flush <= 2), 0)::float8 as fresh, max(h.flush) as last_flush
        from blocks b join trial_arms a on a.id = b.trial_arm_id left join harvests h on h.block_id = b.id
        where a.trial_id = $1 group by b.id, a.label`,
       [trialId],
     );
+    // Compared: not contaminated (the protocol leaves those out), weighed, and through flush 2 (no block is spent yet).
     const kept = rows
-      .filter((row) => !row.contaminated)
+      .filter((row) => !row.contaminated && row.wet !== null && (row.last_flush ?? 0) >= 2)
       .map((row) => ({
         treatment: row.arm,
         block: row.farm_id,
@@ -314,9 +371,66 @@ describe("a strain trial from design to publication", () => {
       [trialId],
     );
     expect(pseudonyms.map((row) => row.pseudonym)).toEqual(["Farm A", "Farm B", "Farm C", "Farm D"]);
-    expect(results.deviations).toMatchObject({ blocksAssigned: 48, blocksMade: 48, blocksLeftOut: 4, farmsDropped: 0 });
+    expect(kept).toHaveLength(41);
+    expect(results.analysis.blocksAnalysed).toBe(41);
+    expect(results.deviations).toMatchObject({ blocksAssigned: 48, blocksMade: 48, blocksLeftOut: 7, farmsDropped: 0 });
+    expect(results.deviations.byArm).toEqual([
+      {
+        label: "A",
+        counts: {
+          listed: 16,
+          inSeasonLog: 16,
+          analysed: 11,
+          countedAsZero: 0,
+          leftOut: { contaminated: 4, lost: 0, unfinished: 1, no_harvest: 0 },
+        },
+      },
+      {
+        label: "B",
+        counts: {
+          listed: 16,
+          inSeasonLog: 16,
+          analysed: 14,
+          countedAsZero: 0,
+          leftOut: { contaminated: 0, lost: 1, unfinished: 1, no_harvest: 0 },
+        },
+      },
+      {
+        label: "C",
+        counts: {
+          listed: 16,
+          inSeasonLog: 16,
+          analysed: 16,
+          countedAsZero: 0,
+          leftOut: { contaminated: 0, lost: 0, unfinished: 0, no_harvest: 0 },
+        },
+      },
+    ]);
+    expect(results.deviations.plan).toMatchObject({ farmsPlanned: 4, farmsTakingPart: 4, farmsContributing: 4 });
+    expect(results.deviations.plan!.blocksPerArmNeeded).toBeGreaterThan(0);
+    // The close is recorded with the counts the coordinator confirmed.
+    const { rows: closed } = await inspector.query<{ details: { incomplete?: { leftOut: unknown } } }>(
+      "select details from audit_events where action = 'trial.status_changed' and details->>'trialId' = $1 and details->>'to' = 'collecting'",
+      [trialId],
+    );
+    expect(closed[0].details.incomplete?.leftOut).toEqual({ contaminated: 4, lost: 1, unfinished: 2, no_harvest: 0 });
     expect(results.analysis.answer).toMatch(/Arm B gave more than reference arm A/);
     expect(JSON.stringify(results)).not.toContain(managers[0].farmId!);
+  });
+
+  it("sends no reminder once the trial is closed", async () => {
+    const { rows: before } = await inspector.query<{ n: number }>(
+      "select count(*)::int as n from outgoing_mail where kind = 'trial-reminder'",
+    );
+    for (const manager of managers)
+      await expectConflict(
+        sendTrialReminder(coordinator, trialId, manager.farmId!),
+        /only while a trial is running; this one is "Collecting results"/,
+      );
+    const { rows: after } = await inspector.query<{ n: number }>(
+      "select count(*)::int as n from outgoing_mail where kind = 'trial-reminder'",
+    );
+    expect(after[0].n).toBe(before[0].n);
   });
 
   it("publishes to every member and observer by e-mail, and lets them read the results", async () => {

@@ -92,9 +92,22 @@ export const saveTrialDraftAction = guardedAction("trial:manage", trialDesignSch
 
 export const moveTrialAction = guardedAction(
   "trial:manage",
-  z.object({ trialId: z.uuid(), to: z.enum(trialStatuses) }),
-  async ({ trialId, to }, member) => {
-    await moveTrial(member, trialId, to);
+  z
+    .object({
+      trialId: z.uuid(),
+      to: z.enum(trialStatuses),
+      // The close dialog's confirmation: the fingerprint of the incomplete counts the coordinator read (getCloseReview).
+      reviewed: z
+        .string()
+        .regex(/^[0-9a-f]{32}$/, "Reload the trial page and confirm again.")
+        .optional(),
+    })
+    .refine((input) => input.to !== "collecting" || input.reviewed, {
+      path: ["reviewed"],
+      message: "Tick that you have read what is still incomplete before closing the trial.",
+    }),
+  async ({ trialId, to, reviewed }, member) => {
+    await moveTrial(member, trialId, to, { reviewed });
     revalidatePath(`/trials/${trialId}`);
     revalidatePath("/trials");
     return { status: "ok", message: "Done." };

@@ -57,6 +57,25 @@ export class TrialPage {
     await this.page.getByTestId("trial-status").filter({ hasText: expectedStatus }).waitFor();
   }
 
+  /** The close step: the counts of what is still incomplete, per farm and arm, as the review table shows them. */
+  async closeReview(): Promise<string[]> {
+    const table = this.page.getByTestId("close-review");
+    await table.waitFor();
+    return table.locator("tbody tr").allTextContents();
+  }
+
+  /** Closes the trial: unticked, the browser holds the form back and says why; ticked, the trial moves to Collecting results. */
+  async closeAfterReview(): Promise<{ untickedRefusal: string }> {
+    const button = this.page.getByRole("button", { name: "Close and analyse" });
+    const confirmation = this.page.getByLabel(/I have read what is still incomplete/);
+    await button.click();
+    const untickedRefusal = await confirmation.evaluate((input: HTMLInputElement) => input.validationMessage);
+    await confirmation.check();
+    await button.click();
+    await this.page.getByTestId("trial-status").filter({ hasText: "Collecting results" }).waitFor();
+    return { untickedRefusal };
+  }
+
   async status(): Promise<string> {
     return (await this.page.getByTestId("trial-status").first().textContent())?.trim() ?? "";
   }

@@ -2,7 +2,7 @@ import type { Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase } from "@/db/client";
 import { loadMember, type Member } from "@/lib/data/members";
-import { getTrial, moveTrial } from "@/lib/data/trials";
+import { getCloseReview, getTrial, moveTrial } from "@/lib/data/trials";
 import { superuserPool } from "../support/database";
 import { CoopFixture, fixtureEfficiency, mean, type FixtureBlock } from "./support/co-op-fixtures";
 
@@ -74,7 +74,7 @@ async function analysedTrial(farmList: { id: string }[], gains: number[]) {
       { trialArmId: trial.armIds[1], contaminated: true },
     ]);
   }
-  await moveTrial(coordinator, trial.id, "collecting");
+  await moveTrial(coordinator, trial.id, "collecting", { reviewed: (await getCloseReview(coordinator, trial.id)).fingerprint });
   return trial;
 }
 

@@ -10,18 +10,21 @@ import { requirePage } from "@/lib/auth/guard";
 import { can } from "@/lib/auth/permissions";
 import {
   dueItems,
+  getCloseReview,
   getOwnEnrolment,
   getOwnProgress,
   getStartReadiness,
   listInvitableFarms,
   listTrialHistory,
   listTrialProgress,
+  type CloseReview,
   type TrialView,
 } from "@/lib/data/trials";
-import { hasResults, moveLabels, nextStatuses, trialStatusLabels, type TrialStatus } from "@/lib/trials/lifecycle";
+import { hasResults, moveLabels, nextStatuses, remindersRun, trialStatusLabels, type TrialStatus } from "@/lib/trials/lifecycle";
 import { trialSampleSize } from "@/lib/trials/sample-size";
 import { inviteFarmsAction, moveTrialAction, respondToInvitationAction, sendReminderAction } from "../actions";
 import { ActionForm } from "../_components/action-form";
+import { CloseReviewCard } from "../_components/close-review";
 import { ProtocolSummary } from "../_components/protocol-summary";
 import { StatusBadge } from "../_components/status-badge";
 
@@ -33,6 +36,8 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
   const trial = await trialOrNotFound(member, trialId);
   const coordinator = can(member.role, "trial:manage");
   const showResults = (coordinator && hasResults(trial.status)) || trial.status === "published";
+  // Before closing, the coordinator reads what is still incomplete and confirms it in the close form.
+  const review = coordinator && trial.status === "running" ? await getCloseReview(member, trial.id) : null;
   return (
     <>
       <PageHeader title={trial.title} lead={trial.question}>
@@ -49,10 +54,11 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
       <div className="grid gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="space-y-6">
           {member.farmId ? <FarmSection trial={trial} member={member} /> : null}
+          {review ? <CloseReviewCard review={review} outcomeFlushes={trial.outcomeFlushes} /> : null}
           {coordinator && trial.status !== "draft" ? <CoordinatorFollowing trial={trial} member={member} /> : null}
           <ProtocolSummary trial={trial} />
         </div>
-        <div className="space-y-6">{coordinator ? <CoordinatorControls trial={trial} member={member} /> : null}</div>
+        <div className="space-y-6">{coordinator ? <CoordinatorControls trial={trial} member={member} review={review} /> : null}</div>
       </div>
     </>
   );
@@ -67,7 +73,7 @@ const answerLabels: Record<string, string> = {
   dropped: "Dropped out",
 };
 
-async function CoordinatorControls({ trial, member }: { trial: TrialView; member: Member }) {
+async function CoordinatorControls({ trial, member, review }: { trial: TrialView; member: Member; review: CloseReview | null }) {
   const [history, readiness] = await Promise.all([listTrialHistory(member, trial.id), getStartReadiness(member, trial.id)]);
   const moves = nextStatuses(trial.status);
   return (
@@ -93,25 +99,40 @@ async function CoordinatorControls({ trial, member }: { trial: TrialView; member
               Edit the design
             </ButtonLink>
           ) : null}
-          {moves.map((to) => (
-            <ActionForm
-              key={to}
-              action={moveTrialAction}
-              hidden={{ trialId: trial.id, to }}
-              label={moveLabels[to]}
-              variant={to === "withdrawn" ? "danger" : "primary"}
-              confirm={
-                to === "withdrawn"
-                  ? "Withdraw this trial? It cannot be reopened."
-                  : to === "published"
-                    ? "Publish the results to every member and observer, and e-mail them?"
-                    : undefined
-              }
-            />
-          ))}
+          {moves.map((to) =>
+            to === "collecting" && review ? (
+              <ActionForm key={to} action={moveTrialAction} hidden={{ trialId: trial.id, to }} label={moveLabels[to]}>
+                <label className="flex items-start gap-3 text-sm">
+                  <input type="checkbox" name="reviewed" value={review.fingerprint} required className="mt-0.5 h-5 w-5 shrink-0" />
+                  <span>
+                    I have read what is still incomplete. Close the trial and analyse what is in: {review.totals.wouldCount} blocks
+                    compared, the rest left out and listed under &ldquo;Deviations from the plan&rdquo;.
+                  </span>
+                </label>
+              </ActionForm>
+            ) : (
+              <ActionForm
+                key={to}
+                action={moveTrialAction}
+                hidden={{ trialId: trial.id, to }}
+                label={moveLabels[to]}
+                variant={to === "withdrawn" ? "danger" : "primary"}
+                confirm={
+                  to === "withdrawn"
+                    ? "Withdraw this trial? It cannot be reopened."
+                    : to === "published"
+                      ? "Publish the results to every member and observer, and e-mail them?"
+                      : undefined
+                }
+              />
+            ),
+          )}
         </div>
         {trial.status === "running" ? (
-          <p className="mt-3 text-sm text-ink-soft">Closing the trial runs the pre-declared analysis on the records received so far.</p>
+          <p className="mt-3 text-sm text-ink-soft">
+            Closing the trial runs the pre-declared analysis on the records received so far and stops reminders. Read what is still
+            incomplete first.
+          </p>
         ) : null}
       </Card>
       <Card title="History">
@@ -147,7 +168,7 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
     trial.status === "open" ? listInvitableFarms(member, trial.id) : Promise.resolve([]),
   ]);
   const flushHeaders = Array.from({ length: trial.outcomeFlushes }, (_, index) => `Flush ${index + 1}`);
-  const canRemind = trial.status === "running" || trial.status === "collecting";
+  const canRemind = remindersRun(trial.status);
   return (
     <>
       {trial.status === "open" ? (
@@ -281,7 +302,8 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
   if (enrolment.status !== "accepted")
     return <Notice>Your farm is not taking part in this trial ({answerLabels[enrolment.status].toLowerCase()}).</Notice>;
   const progress = await getOwnProgress(member, trial);
-  const due = progress ? dueItems(progress) : [];
+  // Once the trial is closed nothing is due any more: no reminder comes, and later records are not in its analysis.
+  const due = progress && remindersRun(trial.status) ? dueItems(progress) : [];
   return (
     <Card title="Your farm's part">
       <p className="text-sm">
@@ -337,7 +359,9 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
           ))}
         </ul>
       ) : (
-        <p className="text-sm text-ink-soft">Nothing due right now.</p>
+        <p className="text-sm text-ink-soft">
+          {remindersRun(trial.status) || trial.status === "open" ? "Nothing due right now." : "Nothing due: the trial is closed."}
+        </p>
       )}
       {progress && progress.contaminated > 0 ? (
         <div className="mt-4">

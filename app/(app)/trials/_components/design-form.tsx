@@ -301,6 +301,11 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
           <p className="mt-3 text-sm text-ink-soft">
             The contamination rate of each arm is reported as a second outcome, with its interval.
           </p>
+          <p className="mt-2 text-sm text-ink-soft">
+            Every trial also leaves out, and lists in its report: unfinished blocks (not yet through the last counted flush and not marked
+            spent), lost blocks (no wet mass or moisture) and blocks without a harvest in the counted flushes. A block without a harvest
+            never counts as 0 % unless it is contaminated and contaminated blocks count as 0 %.
+          </p>
         </Card>
 
         <Card title="Protocol">

@@ -19,6 +19,17 @@ export function ProtocolSummary({ trial }: { trial: TrialView }) {
             {trial.contaminatedHandling === "exclude" ? "left out" : "count as 0 %"}. Contamination rate by arm as a second outcome.
           </dd>
         </div>
+        <div className="sm:col-span-2">
+          <dt className="text-ink-soft">Blocks left out and listed</dt>
+          <dd data-testid="block-rules">
+            Unfinished blocks (not yet through flush {trial.outcomeFlushes} and not marked spent), lost blocks (no wet mass or moisture) and
+            blocks without a harvest in flushes 1–{trial.outcomeFlushes}
+            {trial.contaminatedHandling === "exclude" ? ", and contaminated blocks" : ""}. A block without a harvest counts as 0 % only when
+            it is contaminated
+            {trial.contaminatedHandling === "exclude" ? " and the protocol counts contaminated blocks as 0 %, which this one does not" : ""}
+            .
+          </dd>
+        </div>
         {trial.enrolmentDeadline ? (
           <div>
             <dt className="text-ink-soft">Enrolment deadline</dt>

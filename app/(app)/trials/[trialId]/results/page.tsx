@@ -8,6 +8,8 @@ import { requirePage } from "@/lib/auth/guard";
 import { can } from "@/lib/auth/permissions";
 import { notFound } from "next/navigation";
 import type { Difference } from "@/lib/trials/analysis";
+import { exclusionReasonLabel, exclusionReasons } from "@/lib/trials/outcome";
+import type { ArmDeviation, PlannedAndAchieved } from "@/lib/trials/report";
 import { PrintButton } from "../../_components/print-button";
 import { ProtocolSummary } from "../../_components/protocol-summary";
 import { StatusBadge } from "../../_components/status-badge";
@@ -185,6 +187,7 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
                 {results.deviations.farmsDropped} invited farm{results.deviations.farmsDropped === 1 ? "" : "s"} dropped out or never
                 answered; {results.deviations.farmsDeclined} declined.
               </li>
+              {results.deviations.plan ? <PlannedAndAchievedItem plan={results.deviations.plan} /> : null}
               {results.deviations.blocksMade !== null && results.deviations.blocksLeftOut !== null ? (
                 <>
                   <li>
@@ -192,7 +195,10 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
                   </li>
                   <li>
                     {results.deviations.blocksLeftOut} block{results.deviations.blocksLeftOut === 1 ? " was" : "s were"} left out of the BE
-                    comparison (contaminated, as declared, or without a wet mass or moisture).
+                    comparison
+                    {results.deviations.byArm
+                      ? ", by reason and arm below."
+                      : " (contaminated, as declared, or without a wet mass or moisture)."}
                   </li>
                 </>
               ) : (
@@ -205,6 +211,13 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
                 </li>
               ) : null}
             </ul>
+            {results.deviations.byArm && results.deviations.blocksMade !== null ? (
+              <ArmDeviationTable
+                rows={results.deviations.byArm}
+                flushes={trial.outcomeFlushes}
+                minimumFarms={results.analysis.minimumFarms}
+              />
+            ) : null}
           </Card>
 
           <ProtocolSummary trial={trial} />
@@ -256,5 +269,72 @@ function DifferenceTable({ rows, farmAdjusted }: { rows: Difference[]; farmAdjus
         </tbody>
       </table>
     </>
+  );
+}
+
+function PlannedAndAchievedItem({ plan }: { plan: PlannedAndAchieved }) {
+  return (
+    <li data-testid="planned-achieved">
+      Planned: {plan.farmsPlanned === null ? "no number of farms given" : `${plan.farmsPlanned} farms`}
+      {plan.blocksPerArmNeeded !== null
+        ? `, ${plan.blocksPerArmNeeded} blocks per arm compared for 80 % power (${plan.blocksPerArmToMake} to make, allowing for the expected loss)`
+        : ", no sample size calculated"}
+      . Achieved: {plan.farmsTakingPart} farm{plan.farmsTakingPart === 1 ? "" : "s"} taking part
+      {plan.farmsContributing !== null ? `, ${plan.farmsContributing} with blocks compared` : ""}; the blocks compared per arm are in the
+      table below.
+    </li>
+  );
+}
+
+function ArmDeviationTable({ rows, flushes, minimumFarms }: { rows: ArmDeviation[]; flushes: number; minimumFarms: number }) {
+  return (
+    <div className="mt-4 overflow-x-auto" tabIndex={0} role="region" aria-label="Blocks left out, by arm">
+      <table className="w-full min-w-[40rem] text-sm [&_td]:pr-3 [&_th]:pr-3" data-testid="deviations-by-arm">
+        <caption className="mb-2 text-left text-ink-soft">
+          Blocks per arm: listed by the randomisation, in a season log, compared (the achieved sample size), and left out, by reason.
+        </caption>
+        <thead>
+          <tr className="text-left align-bottom">
+            <th scope="col" className="py-1">
+              Arm
+            </th>
+            <th scope="col">Listed</th>
+            <th scope="col">In a season log</th>
+            <th scope="col">Compared</th>
+            {exclusionReasons.map((reason) => (
+              <th key={reason} scope="col">
+                Left out: {exclusionReasonLabel(reason, flushes)}
+              </th>
+            ))}
+          </tr>
+        </thead>
+        <tbody>
+          {rows.map(({ label, counts }) => (
+            <tr key={label} className="border-t border-oat-300" data-arm={label}>
+              <th scope="row" className="py-2 text-left">
+                {label}
+              </th>
+              {counts ? (
+                <>
+                  <td>{counts.listed}</td>
+                  <td>{counts.inSeasonLog}</td>
+                  <td>
+                    {counts.analysed}
+                    {counts.countedAsZero ? ` (${counts.countedAsZero} contaminated, at 0 %)` : ""}
+                  </td>
+                  {exclusionReasons.map((reason) => (
+                    <td key={reason}>{counts.leftOut[reason]}</td>
+                  ))}
+                </>
+              ) : (
+                <td colSpan={3 + exclusionReasons.length} className="text-ink-soft">
+                  {`fewer than ${minimumFarms} farms ran this arm`}
+                </td>
+              )}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
   );
 }
