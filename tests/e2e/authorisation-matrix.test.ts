@@ -67,6 +67,7 @@ const matrix: Entry[] = [
   { file: "app/api/season-logs/route.ts", method: "GET", path: () => "/api/season-logs", expect: farmPeopleOnly },
   { file: "app/api/season-logs/route.ts", method: "POST", path: () => "/api/season-logs", body: "", expect: farmPeopleOnly },
   { file: "app/api/season-logs/template/route.ts", method: "GET", path: () => "/api/season-logs/template", expect: everyone },
+  { file: "app/api/season-logs/export/route.ts", method: "GET", path: () => "/api/season-logs/export", expect: farmPeopleOnly },
   {
     file: "app/api/season-logs/[uploadId]/route.ts",
     method: "GET",

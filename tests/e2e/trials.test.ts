@@ -80,7 +80,10 @@ describe("a strain trial in the browser", () => {
     const response = await page.request.get(`${appUrl}/api/trials/${trialId}/list`);
     expect(response.status()).toBe(200);
     const csv = (await response.text()).trim().split(/\r\n/);
-    expect(csv[0]).toBe("trial,sequence,permuted_block,block_code,arm,strain,treatment");
+    // The list comes in the season-log upload format, one row per block, ready to fill in.
+    const header = csv[0].split(",");
+    expect(header.slice(0, 5)).toEqual(["block_id", "strain", "substrate", "trial", "arm"]);
+    expect(header).toContain("fruiting_method");
     expect(csv).toHaveLength(1 + 6);
     const labels = await trial.openLabelSheet();
     expect(labels).toHaveLength(6);
