@@ -35,8 +35,10 @@ export class SignInPage {
 export class AppShell {
   constructor(readonly page: Page) {}
 
+  /** Signed in, and the landing page's own heading is there (the shell can show before the page streams in). */
   async waitUntilSignedIn(): Promise<void> {
     await this.page.getByTestId("member-name").waitFor();
+    await this.page.getByRole("main").getByRole("heading", { level: 1 }).first().waitFor();
   }
 
   async menuLabels(): Promise<string[]> {
