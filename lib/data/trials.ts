@@ -191,6 +191,20 @@ export async function getTrial(member: Member, trialId: string): Promise<TrialVi
   });
 }
 
+/**
+ * A published trial's report for taking away (PDF, CSV): exactly what the report page shows the
+ * member, their own farm marked and nobody else's, or not_found before publication.
+ */
+export async function getPublishedReport(member: Member, trialId: string): Promise<TrialView & { results: StoredResults }> {
+  const trial = await getTrial(member, trialId);
+  if (trial.status !== "published" || !trial.results)
+    throw new AppError(
+      "not_found",
+      "This trial's report is not published yet. Its PDF and CSV can be downloaded once the coordinator publishes it.",
+    );
+  return { ...trial, results: trial.results };
+}
+
 /** Whether enough farms have accepted to start the trial: the trial page warns the coordinator before they try. */
 export async function getStartReadiness(member: Member, trialId: string): Promise<{ accepted: number; minimumFarms: number }> {
   return withFarmContext(farmContextOf(member), async (tx) => ({
@@ -667,6 +681,7 @@ export async function listOwnAssignments(member: Member, trialId: string) {
         blockCode: trialBlockAssignments.blockCode,
         armLabel: trialArms.label,
         strainCode: strains.code,
+        strainName: strains.name,
         treatmentName: treatments.name,
       })
       .from(trialBlockAssignments)
