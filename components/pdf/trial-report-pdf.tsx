@@ -1,8 +1,11 @@
 import "server-only";
-import { Document, Page, StyleSheet, Text, View, renderToBuffer } from "@react-pdf/renderer";
+import { Document, Font, Page, StyleSheet, Text, View, renderToBuffer } from "@react-pdf/renderer";
 import { pdfSafeText, type ReportTable, type TrialReportDocument } from "@/lib/trials/report-document";
 
 // Helvetica is built into every PDF reader, so nothing is embedded or fetched; pdfSafeText keeps to its characters.
+// Words are never split with a hyphen at a line's end: a block code or a strain name stays whole.
+Font.registerHyphenationCallback((word) => [word]);
+
 const styles = StyleSheet.create({
   page: {
     paddingTop: 40,
@@ -26,10 +29,11 @@ const styles = StyleSheet.create({
   footer: { position: "absolute", bottom: 24, left: 44, right: 44, fontSize: 8, color: "#4a524c" },
 });
 
-function Table({ table }: { table: ReportTable }) {
+/** A table kept on one page; its title is left out where the section's heading already says it. */
+function Table({ table, heading }: { table: ReportTable; heading: string }) {
   return (
     <View wrap={false}>
-      <Text style={styles.tableTitle}>{pdfSafeText(table.title)}</Text>
+      {table.title !== heading ? <Text style={styles.tableTitle}>{pdfSafeText(table.title)}</Text> : null}
       {table.caption ? <Text style={styles.caption}>{pdfSafeText(table.caption)}</Text> : null}
       <View style={styles.headerRow}>
         {table.columns.map((column) => (
@@ -72,7 +76,7 @@ export function renderTrialReportPdf(report: TrialReportDocument): Promise<Buffe
                 </Text>
               ))}
               {section.tables.map((table) => (
-                <Table key={table.title} table={table} />
+                <Table key={table.title} table={table} heading={section.heading} />
               ))}
             </View>
           ))}

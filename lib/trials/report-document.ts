@@ -104,7 +104,7 @@ export function trialReportDocument(trial: ReportTrial): TrialReportDocument {
       tables: [],
     },
     {
-      heading: "Arms",
+      heading: "Arms as declared",
       paragraphs: [],
       tables: [
         {
@@ -169,7 +169,7 @@ export function trialReportDocument(trial: ReportTrial): TrialReportDocument {
           ...(pooling.pooled
             ? [
                 [
-                  `All farms pooled (I² ${fmt(pooling.pooled.i2 * 100, 0)} %)`,
+                  `All farms pooled (random effects; I² = ${Math.round(pooling.pooled.i2)} %)`,
                   fmt(pooling.pooled.estimate),
                   `${fmt(pooling.pooled.lower)} to ${fmt(pooling.pooled.upper)}`,
                 ],
