@@ -135,7 +135,7 @@ describe("the trial report's CSV rows", () => {
     expect(JSON.stringify(rows)).not.toMatch(/"f[1-4]"/);
     for (const row of rows)
       for (const key of ["estimate", "lower", "upper"])
-        if (typeof row[key] === "number") expect(row[key]).toBe(Number((row[key]).toFixed(1)));
+        if (typeof row[key] === "number") expect(row[key]).toBe(Number(row[key].toFixed(1)));
   });
 });
 
