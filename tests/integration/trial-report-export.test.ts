@@ -1,11 +1,15 @@
 import Papa from "papaparse";
 import type { Pool } from "pg";
+import { createElement } from "react";
+import { renderToStaticMarkup } from "react-dom/server";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { LabelSheet } from "@/app/(app)/trials/_components/label-sheet";
 import { renderTrialReportPdf } from "@/components/pdf/trial-report-pdf";
 import { closeDatabase } from "@/db/client";
 import { toCsv } from "@/lib/csv";
 import { loadMember, type Member } from "@/lib/data/members";
-import { getPublishedReport, moveTrial } from "@/lib/data/trials";
+import { getPublishedReport, listOwnAssignments, moveTrial } from "@/lib/data/trials";
+import { harvestFormUrl, labelsFor } from "@/lib/trials/labels";
 import { pdfSafeText, trialReportColumns, trialReportDocument, trialReportRows } from "@/lib/trials/report-document";
 import { pdfPageTexts } from "../support/pdf-text";
 import { CoopFixture } from "./adversarial/support/co-op-fixtures";
@@ -24,6 +28,7 @@ let farms: { id: string; manager: Member }[];
 let outsider: { id: string; manager: Member };
 let farmNames: string[];
 let trialId: string;
+let armIds: string[];
 const strainNames = ["Grey oyster export", "Pearl oyster export"];
 
 async function memberByEmail(email: string): Promise<Member> {
@@ -58,6 +63,7 @@ beforeAll(async () => {
     farms.map((farm) => farm.id),
   );
   trialId = trial.id;
+  armIds = trial.armIds;
   for (const [index, farm] of farms.entries()) {
     // BE over flushes 1–2 of about 80 in arm A and 80 + 3·(index + 1) in arm B (1 000 g dry substrate per block).
     const blocks = (armId: string, be: number) =>
@@ -141,5 +147,31 @@ describe("the trial report for taking away", () => {
     const ownCsv = await csvFor(farms[2].manager);
     expect(ownCsv.data.filter((row) => row.farm.endsWith("(your farm)"))).toHaveLength(1);
     expect((await csvFor(outsider.manager)).data).toEqual(observerCsv.data);
+  });
+});
+
+describe("the label sheet of a farm's list", () => {
+  it("has one QR code per listed block, each for that block's harvest form, with the arm's strain, for that farm alone", async () => {
+    const farm = farms[1];
+    const codes = ["EX-CH-01", "EX-CH-02", "EX-CH-03", "EX-CH-04"];
+    await inspector.query(
+      `insert into trial_block_assignments (trial_id, farm_id, enrolment_id, arm_id, block_code, sequence, permuted_block)
+       select $1, $2, e.id, (array[$3, $4]::uuid[])[1 + (n - 1) % 2], 'EX-CH-0' || n, n, 1 + (n - 1) / 2
+       from trial_enrolments e, generate_series(1, 4) n where e.trial_id = $1 and e.farm_id = $2`,
+      [trialId, farm.id, armIds[0], armIds[1]],
+    );
+    const list = await listOwnAssignments(farm.manager, trialId);
+    expect(list.map((entry) => entry.blockCode)).toEqual(codes);
+    const html = renderToStaticMarkup(
+      createElement(LabelSheet, { labels: await labelsFor(list, "https://coop.example"), trialCode: "T-X" }),
+    );
+    expect(html.match(/<svg/g)).toHaveLength(4);
+    expect([...html.matchAll(/data-harvest-url="([^"]+)"/g)].map((match) => match[1])).toEqual(
+      codes.map((code) => harvestFormUrl("https://coop.example", code)),
+    );
+    expect(html.match(new RegExp(strainNames[0], "g"))).toHaveLength(2);
+    expect(html.match(new RegExp(strainNames[1], "g"))).toHaveLength(2);
+    for (const other of [farms[0].manager, outsider.manager, coordinator, observer])
+      expect(await listOwnAssignments(other, trialId)).toEqual([]);
   });
 });
