@@ -595,6 +595,41 @@ export async function getOwnEnrolment(member: Member, trialId: string) {
   });
 }
 
+/**
+ * A farm manager puts their own farm on an open trial's list, as an invitation would: the farm then
+ * accepts with its blocks per arm as usual. The coordinator sees the farm among the enrolments and
+ * the request in the trial's history. Row-level security lets a manager add only their own farm.
+ */
+export async function askToJoinTrial(member: Member, trialId: string): Promise<void> {
+  if (!member.farmId || member.role !== "farm_manager") throw new AppError("forbidden", "Only a farm's manager can ask for the farm.");
+  await withFarmContext(farmContextOf(member), async (tx) => {
+    const trial = await loadTrial(tx, member, trialId);
+    if (trial.status !== "open")
+      throw new AppError(
+        "conflict",
+        `Farms can join only while the trial is "Open for enrolment"; it is "${trialStatusLabels[trial.status]}".`,
+      );
+    if (trial.enrolmentDeadline && trial.enrolmentDeadline < new Date().toISOString().slice(0, 10))
+      throw new AppError(
+        "conflict",
+        `The enrolment deadline was ${trial.enrolmentDeadline}. Ask the coordinator whether your farm can still join.`,
+      );
+    const created = await tx
+      .insert(trialEnrolments)
+      .values({ trialId, farmId: member.farmId! })
+      .onConflictDoNothing()
+      .returning({ id: trialEnrolments.id });
+    if (!created.length) throw new AppError("conflict", "Your farm is already on this trial's list. Answer the invitation below.");
+    // Co-op level (no farm), so it shows in the coordinator's history of the trial.
+    await recordAudit(tx, {
+      ...actor(member),
+      action: "trial.farm_asked_to_join",
+      subject: trial.code,
+      details: { trialId, farm: member.farmName ?? "" },
+    });
+  });
+}
+
 /** The farm manager answers: accepting commits blocks per arm and makes the randomised list from a fresh, recorded seed. */
 export async function respondToInvitation(
   member: Member,
