@@ -197,6 +197,20 @@ export async function getTrial(member: Member, trialId: string): Promise<TrialVi
   });
 }
 
+/**
+ * A published trial's report for taking away (PDF, CSV): exactly what the report page shows the
+ * member, their own farm marked and nobody else's, or not_found before publication.
+ */
+export async function getPublishedReport(member: Member, trialId: string): Promise<TrialView & { results: StoredResults }> {
+  const trial = await getTrial(member, trialId);
+  if (trial.status !== "published" || !trial.results)
+    throw new AppError(
+      "not_found",
+      "This trial's report is not published yet. Its PDF and CSV can be downloaded once the coordinator publishes it.",
+    );
+  return { ...trial, results: trial.results };
+}
+
 /** Whether enough farms have accepted to start the trial: the trial page warns the coordinator before they try. */
 export async function getStartReadiness(member: Member, trialId: string): Promise<{ accepted: number; minimumFarms: number }> {
   return withFarmContext(farmContextOf(member), async (tx) => ({
@@ -615,6 +629,41 @@ export async function getOwnEnrolment(member: Member, trialId: string) {
   });
 }
 
+/**
+ * A farm manager puts their own farm on an open trial's list, as an invitation would: the farm then
+ * accepts with its blocks per arm as usual. The coordinator sees the farm among the enrolments and
+ * the request in the trial's history. Row-level security lets a manager add only their own farm.
+ */
+export async function askToJoinTrial(member: Member, trialId: string): Promise<void> {
+  if (!member.farmId || member.role !== "farm_manager") throw new AppError("forbidden", "Only a farm's manager can ask for the farm.");
+  await withFarmContext(farmContextOf(member), async (tx) => {
+    const trial = await loadTrial(tx, member, trialId);
+    if (trial.status !== "open")
+      throw new AppError(
+        "conflict",
+        `Farms can join only while the trial is "Open for enrolment"; it is "${trialStatusLabels[trial.status]}".`,
+      );
+    if (trial.enrolmentDeadline && trial.enrolmentDeadline < new Date().toISOString().slice(0, 10))
+      throw new AppError(
+        "conflict",
+        `The enrolment deadline was ${trial.enrolmentDeadline}. Ask the coordinator whether your farm can still join.`,
+      );
+    const created = await tx
+      .insert(trialEnrolments)
+      .values({ trialId, farmId: member.farmId! })
+      .onConflictDoNothing()
+      .returning({ id: trialEnrolments.id });
+    if (!created.length) throw new AppError("conflict", "Your farm is already on this trial's list. Answer the invitation below.");
+    // Co-op level (no farm), so it shows in the coordinator's history of the trial.
+    await recordAudit(tx, {
+      ...actor(member),
+      action: "trial.farm_asked_to_join",
+      subject: trial.code,
+      details: { trialId, farm: member.farmName ?? "" },
+    });
+  });
+}
+
 /** The farm manager answers: accepting commits blocks per arm and makes the randomised list from a fresh, recorded seed. */
 export async function respondToInvitation(
   member: Member,
@@ -701,6 +750,7 @@ export async function listOwnAssignments(member: Member, trialId: string) {
         blockCode: trialBlockAssignments.blockCode,
         armLabel: trialArms.label,
         strainCode: strains.code,
+        strainName: strains.name,
         treatmentName: treatments.name,
         treatmentCode: treatments.code,
         treatmentKind: treatments.kind,

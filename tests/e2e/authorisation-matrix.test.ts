@@ -106,6 +106,19 @@ const matrix: Entry[] = [
     path: (ids) => `/api/trials/${ids.trialId}/list`,
     expect: farmPeopleOnly,
   },
+  // The published report as every member reads it (T-2026-01 is published in the demo).
+  {
+    file: "app/api/trials/[trialId]/report/pdf/route.ts",
+    method: "GET",
+    path: (ids) => `/api/trials/${ids.trialId}/report/pdf`,
+    expect: everyone,
+  },
+  {
+    file: "app/api/trials/[trialId]/report/csv/route.ts",
+    method: "GET",
+    path: (ids) => `/api/trials/${ids.trialId}/report/csv`,
+    expect: everyone,
+  },
   {
     file: "app/(app)/farm-people/data/download/route.ts",
     method: "GET",

@@ -44,6 +44,7 @@ const matrix: Record<string, Action | "public"> = {
   "app/(app)/trials/actions.ts#inviteFarmsAction": "trial:manage",
   "app/(app)/trials/actions.ts#sendReminderAction": "trial:manage",
   "app/(app)/trials/actions.ts#respondToInvitationAction": "trial:enrol",
+  "app/(app)/trials/actions.ts#askToJoinTrialAction": "trial:enrol",
   "app/(auth)/sign-in/actions.ts#signInAction": "public",
   "app/accept-invitation/actions.ts#acceptInvitationAction": "public",
   "app/accept-invitation/actions.ts#setNewPasswordAction": "public",

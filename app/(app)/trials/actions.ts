@@ -4,7 +4,7 @@ import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import { z } from "zod";
 import { guardedAction } from "@/lib/auth/guard";
-import { inviteFarms, moveTrial, respondToInvitation, saveTrialDraft, sendTrialReminder } from "@/lib/data/trials";
+import { askToJoinTrial, inviteFarms, moveTrial, respondToInvitation, saveTrialDraft, sendTrialReminder } from "@/lib/data/trials";
 import { trialStatuses } from "@/lib/trials/lifecycle";
 
 const optionalNumber = (what: string, check: z.ZodNumber) =>
@@ -126,6 +126,12 @@ export const inviteFarmsAction = guardedAction("trial:manage", z.looseObject({ t
     status: "ok",
     message: `Invited ${farmIds.length} farm${farmIds.length === 1 ? "" : "s"}; ${sent} e-mail${sent === 1 ? "" : "s"} sent.`,
   };
+});
+
+export const askToJoinTrialAction = guardedAction("trial:enrol", z.object({ trialId: z.uuid() }), async (input, member) => {
+  await askToJoinTrial(member, input.trialId);
+  revalidatePath(`/trials/${input.trialId}`);
+  return { status: "ok", message: "Your farm is on the list. Accept with your blocks per arm to get your randomised list." };
 });
 
 export const respondToInvitationAction = guardedAction(

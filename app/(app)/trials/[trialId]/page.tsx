@@ -22,7 +22,7 @@ import {
 } from "@/lib/data/trials";
 import { hasResults, moveLabels, nextStatuses, remindersRun, trialStatusLabels, type TrialStatus } from "@/lib/trials/lifecycle";
 import { trialSampleSize } from "@/lib/trials/sample-size";
-import { inviteFarmsAction, moveTrialAction, respondToInvitationAction, sendReminderAction } from "../actions";
+import { askToJoinTrialAction, inviteFarmsAction, moveTrialAction, respondToInvitationAction, sendReminderAction } from "../actions";
 import { ActionForm } from "../_components/action-form";
 import { CloseReviewCard } from "../_components/close-review";
 import { ProtocolSummary } from "../_components/protocol-summary";
@@ -259,9 +259,18 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
 async function FarmSection({ trial, member }: { trial: TrialView; member: Member }) {
   const enrolment = await getOwnEnrolment(member, trial.id);
   if (!enrolment) {
-    return trial.status === "open" ? (
-      <Notice>Your farm has not been invited to this trial. If you would like to take part, ask the coordinator.</Notice>
-    ) : null;
+    if (trial.status !== "open") return null;
+    if (!can(member.role, "trial:enrol"))
+      return <Notice>Your farm has not been invited to this trial. Your farm manager can ask to join it here.</Notice>;
+    return (
+      <Card title="Take part in this trial">
+        <p className="mb-3 text-sm">
+          The trial is open for enrolment. Asking puts your farm on its list as an invitation would, and the coordinator sees it; you then
+          say how many blocks per arm your farm will make.
+        </p>
+        <ActionForm action={askToJoinTrialAction} hidden={{ trialId: trial.id }} label="Ask to join this trial" />
+      </Card>
+    );
   }
   if (enrolment.status === "invited") {
     if (trial.status !== "open") return <Notice>Enrolment closed before your farm answered.</Notice>;

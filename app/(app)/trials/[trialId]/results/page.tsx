@@ -34,8 +34,26 @@ export default async function TrialResultsPage({ params }: { params: Promise<{ t
       {/* Printed as a report, without the menu (app/globals.css). */}
       <span data-print="report" hidden />
       <PageHeader title={`Results — ${trial.title}`} lead={trial.question}>
-        <span className="no-print">
+        <span className="no-print flex flex-wrap gap-3">
           <PrintButton label="Print the report" />
+          {trial.status === "published" && results ? (
+            <>
+              <a
+                href={`/api/trials/${trial.id}/report/pdf`}
+                className="inline-flex min-h-11 items-center justify-center rounded-lg border border-moss-600 bg-white px-4 py-2 text-sm font-semibold text-moss-700 hover:bg-moss-50"
+                download
+              >
+                Download the report (PDF)
+              </a>
+              <a
+                href={`/api/trials/${trial.id}/report/csv`}
+                className="inline-flex min-h-11 items-center justify-center rounded-lg border border-moss-600 bg-white px-4 py-2 text-sm font-semibold text-moss-700 hover:bg-moss-50"
+                download
+              >
+                Its tables (CSV)
+              </a>
+            </>
+          ) : null}
         </span>
       </PageHeader>
       <div className="mb-6 flex flex-wrap items-center gap-3">

@@ -1,0 +1,17 @@
+import { renderTrialReportPdf } from "@/components/pdf/trial-report-pdf";
+import { guardedRoute } from "@/lib/auth/guard";
+import { getPublishedReport } from "@/lib/data/trials";
+import { trialReportDocument } from "@/lib/trials/report-document";
+
+/** The published trial report as a PDF, as the member reads it on the report page. */
+export const GET = guardedRoute<{ trialId: string }>("trial:read", async (_request, { member, params }) => {
+  const trial = await getPublishedReport(member, params.trialId);
+  const pdf = await renderTrialReportPdf(trialReportDocument(trial));
+  return new Response(new Uint8Array(pdf), {
+    headers: {
+      "content-type": "application/pdf",
+      "content-disposition": `attachment; filename="${trial.code}-report.pdf"`,
+      "cache-control": "no-store",
+    },
+  });
+});
