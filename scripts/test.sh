@@ -20,6 +20,10 @@ mkdir -p "$RHIZO_TEST_RESULTS"
 rm -f "$RHIZO_TEST_RESULTS"/vitest-*.json
 
 ensure_dependencies
+if wants integration && ! command -v pdftotext >/dev/null; then
+  say "Installing poppler-utils from Debian's packages (the tests read a PDF's text with pdftotext)"
+  apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq poppler-utils >/dev/null
+fi
 if wants e2e && [ ! -x /usr/bin/chromium ]; then
   say "Installing Chromium from Debian's packages"
   apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium >/dev/null

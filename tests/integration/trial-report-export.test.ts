@@ -8,7 +8,7 @@ import { renderTrialReportPdf } from "@/components/pdf/trial-report-pdf";
 import { closeDatabase } from "@/db/client";
 import { toCsv } from "@/lib/csv";
 import { loadMember, type Member } from "@/lib/data/members";
-import { getPublishedReport, listOwnAssignments, moveTrial } from "@/lib/data/trials";
+import { getCloseReview, getPublishedReport, listOwnAssignments, moveTrial } from "@/lib/data/trials";
 import { harvestFormUrl, labelsFor } from "@/lib/trials/labels";
 import { pdfSafeText, trialReportColumns, trialReportDocument, trialReportRows } from "@/lib/trials/report-document";
 import { pdfPageTexts } from "../support/pdf-text";
@@ -38,7 +38,7 @@ async function memberByEmail(email: string): Promise<Member> {
 
 async function pdfOf(member: Member) {
   const trial = await getPublishedReport(member, trialId);
-  return { trial, pages: await pdfPageTexts(new Uint8Array(await renderTrialReportPdf(trialReportDocument(trial)))) };
+  return { trial, pages: pdfPageTexts(new Uint8Array(await renderTrialReportPdf(trialReportDocument(trial)))) };
 }
 
 beforeAll(async () => {
@@ -74,7 +74,7 @@ beforeAll(async () => {
       { trialArmId: trial.armIds[1], contaminated: true },
     ]);
   }
-  await moveTrial(coordinator, trialId, "collecting");
+  await moveTrial(coordinator, trialId, "collecting", { reviewed: (await getCloseReview(coordinator, trialId)).fingerprint });
 });
 
 afterAll(async () => {
