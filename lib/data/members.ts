@@ -86,24 +86,9 @@ export function loadMemberForRequest(userId: string): Promise<Member | null> {
 
 // ---- Membership: farms, people, invitations, roles, passwords, preferences ----
 
-export interface FarmSummary {
-  id: string;
-  name: string;
-  region: string;
-  contactEmail: string | null;
-  status: "active" | "suspended" | "removed";
-  joinedAt: Date;
-}
+export type FarmSummary = Pick<typeof farms.$inferSelect, "id" | "name" | "region" | "contactEmail" | "status" | "joinedAt">;
 
-export interface PersonSummary {
-  id: string;
-  email: string;
-  name: string;
-  role: MemberRole;
-  farmId: string | null;
-  active: boolean;
-  lastSignInAt: Date | null;
-}
+export type PersonSummary = Pick<typeof users.$inferSelect, "id" | "email" | "name" | "role" | "farmId" | "active" | "lastSignInAt">;
 
 export interface PendingInvitation {
   id: string;
