@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import { ActionForm } from "@/components/forms/action-form";
+import { newPasswordFields } from "@/components/forms/password-fields";
 import { Notice } from "@/components/ui/notice";
 import { roleLabels } from "@/lib/auth/permissions";
 import { getAccessTokenState } from "@/lib/data/members";
@@ -32,11 +33,7 @@ export default async function AcceptInvitationPage({ searchParams }: { searchPar
         testId="accept-invitation"
         submitLabel="Set password and join"
         hidden={{ token }}
-        fields={[
-          { name: "name", label: "Your name", autoComplete: "name" },
-          { name: "password", label: "Password", type: "password", autoComplete: "new-password", hint: "At least 10 characters." },
-          { name: "repeatPassword", label: "Password again", type: "password", autoComplete: "new-password" },
-        ]}
+        fields={[{ name: "name", label: "Your name", autoComplete: "name" }, ...newPasswordFields("password", "Password")]}
       />
     </PublicCard>
   );

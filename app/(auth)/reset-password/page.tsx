@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import { ActionForm } from "@/components/forms/action-form";
+import { newPasswordFields } from "@/components/forms/password-fields";
 import { PublicCard } from "../_components/public-card";
 import { Notice } from "@/components/ui/notice";
 import { setNewPasswordAction } from "../accept-invitation/actions";
@@ -51,10 +52,7 @@ export default async function ResetPasswordPage({ searchParams }: { searchParams
         testId="new-password"
         submitLabel="Set new password"
         hidden={{ token }}
-        fields={[
-          { name: "password", label: "New password", type: "password", autoComplete: "new-password", hint: "At least 10 characters." },
-          { name: "repeatPassword", label: "New password again", type: "password", autoComplete: "new-password" },
-        ]}
+        fields={newPasswordFields("password", "New password")}
       />
     </PublicCard>
   );
