@@ -2,9 +2,7 @@ import { NextResponse, type NextRequest } from "next/server";
 import { isPublicPath, readSession } from "@/auth.config";
 import { crossOriginRefusal } from "@/lib/http/origin";
 import { pageContentSecurityPolicy, resourceContentSecurityPolicy, strictTransportSecurity } from "@/lib/http/security-headers";
-import { env } from "@/lib/env";
-
-const appUrl = () => env("APP_URL");
+import { appUrl } from "@/lib/app-url";
 
 /**
  * Runs before every page and server action (not API routes, not static files):

@@ -78,9 +78,9 @@ async function listen(state: Feed): Promise<void> {
 }
 
 function hear(notice: Notification) {
-  const topic = notice.payload as ChangeTopic;
+  const topic = changeTopics.find((known) => known === notice.payload);
   const state = globalForFeed.rhizomorphChangeFeed;
-  if (state && notice.channel === channel && changeTopics.includes(topic)) state.generations[topic]++;
+  if (state && notice.channel === channel && topic) state.generations[topic]++;
 }
 
 /** For the pools' connections, as they open (the pools' onConnect hook). */

@@ -1,3 +1,5 @@
+import { z } from "zod";
+
 /** The one error type the app raises on purpose; its code decides the HTTP status. */
 export const errorStatus = {
   unauthenticated: 401,
@@ -33,4 +35,15 @@ export class AppError extends Error {
 
 export function isAppError(error: unknown): error is AppError {
   return error instanceof AppError;
+}
+
+const databaseRefusal = z.object({ code: z.string().optional(), constraint: z.string().optional() });
+
+/**
+ * What PostgreSQL said when it refused a statement: its error code ("23505", a duplicate) and the
+ * constraint, read from drizzle's wrapper (`cause`) or from pg's own error; empty for anything else.
+ */
+export function databaseRefusalOf(error: unknown): { code?: string; constraint?: string } {
+  const wrapped = z.object({ cause: databaseRefusal }).safeParse(error);
+  return wrapped.success ? wrapped.data.cause : (databaseRefusal.safeParse(error).data ?? {});
 }

@@ -1,5 +1,6 @@
 import { sql } from "drizzle-orm";
 import { bigserial, boolean, check, index, integer, pgTable, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
+import type { ReleaseSchedule } from "../../lib/pooled/release-schedule";
 import { displayUnits, farmStatus, memberRole, tokenPurpose } from "./enums";
 
 /** The single row of co-op-wide settings (id is always 1). */
@@ -12,7 +13,7 @@ export const cooperativeSettings = pgTable(
     minimumFarms: integer("minimum_farms").notNull().default(3),
     showPerFarmEstimates: boolean("show_per_farm_estimates").notNull().default(false),
     /** When the scheduled job cuts a release of the pooled figures: "daily", "weekly" (Mondays) or "manual" (coordinator only). */
-    releaseSchedule: text("release_schedule").notNull().default("daily"),
+    releaseSchedule: text("release_schedule").$type<ReleaseSchedule>().notNull().default("daily"),
     /** The hour (UTC, 0–23) at which a scheduled release is due. */
     releaseHour: integer("release_hour").notNull().default(2),
     /** Days the file of a rejected season-log upload is kept before it is removed (the record and report stay). */

@@ -1,9 +1,16 @@
 import { availableParallelism } from "node:os";
 import { Worker } from "node:worker_threads";
+import { z } from "zod";
 
 // Cost 12 takes a few hundred milliseconds: slow for guessing, fine for one sign-in.
 export const passwordHashCost = 12;
 export const minimumPasswordLength = 10;
+
+/** A password someone chooses (joining, resetting, changing it): the one length rule, with what to do. */
+export const newPasswordSchema = z
+  .string()
+  .min(minimumPasswordLength, `Use at least ${minimumPasswordLength} characters; a few unrelated words are easy to remember.`)
+  .max(200, "Keep the password under 200 characters.");
 
 /**
  * bcrypt is CPU work in plain JavaScript. On the main thread a burst of sign-ins would stall

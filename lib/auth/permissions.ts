@@ -49,9 +49,10 @@ export type Action = keyof typeof permissions;
 
 export function can(role: MemberRole | null | undefined, action: Action): boolean {
   if (!role) return false;
-  return (permissions[action] as readonly MemberRole[]).includes(role);
+  const allowed: readonly MemberRole[] = permissions[action];
+  return allowed.includes(role);
 }
 
 export function isMemberRole(value: unknown): value is MemberRole {
-  return typeof value === "string" && (memberRoles as readonly string[]).includes(value);
+  return memberRoles.some((role) => role === value);
 }

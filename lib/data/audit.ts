@@ -15,6 +15,11 @@ export interface AuditEntry {
   ip?: string | null;
 }
 
+/** Who an audited change is by: the member's id, and their name as it was then. */
+export function actor(member: Member): Pick<AuditEntry, "actorUserId" | "actorLabel"> {
+  return { actorUserId: member.id, actorLabel: member.name };
+}
+
 /** Appends to the audit log inside the caller's transaction, so the event and the change land together. */
 export async function recordAudit(tx: Transaction, entry: AuditEntry): Promise<void> {
   await tx.insert(auditEvents).values({

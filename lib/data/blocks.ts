@@ -3,6 +3,7 @@ import { and, asc, desc, eq, sql } from "drizzle-orm";
 import { withFarmContext, type FarmContext } from "@/db/client";
 import { blocks, harvests, strains, substrateRecipes, trialArms, trials, uploads, users, valueChanges } from "@/db/schema";
 import { recordAudit } from "@/lib/data/audit";
+import { farmOf } from "@/lib/data/members";
 import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
 import { AppError } from "@/lib/errors";
 import { blockFigures, nextFlush } from "@/lib/season-logs/block-figures";
@@ -59,11 +60,6 @@ export interface HarvestTarget {
   nextFlush: number;
 }
 
-function farmOf(context: FarmContext): FarmContext & { farmId: string; userId: string } {
-  if (!context.farmId || !context.userId) throw new AppError("forbidden", "Only a farm's own people can see its blocks.");
-  return context as FarmContext & { farmId: string; userId: string };
-}
-
 const blockColumns = {
   id: blocks.id,
   code: blocks.code,
@@ -116,7 +112,7 @@ function withFigures(row: BlockSelection): BlockRow & { spentMassG: number | nul
 
 /** The farm's blocks with flush count, total fresh weight, biological efficiency and mass loss. */
 export async function listBlocks(context: FarmContext): Promise<BlockRow[]> {
-  const farm = farmOf(context);
+  const farm = farmOf(context, "see its blocks");
   const rows = await withFarmContext(farm, (tx) =>
     tx
       .select(blockColumns)
@@ -150,7 +146,7 @@ export async function listBlocks(context: FarmContext): Promise<BlockRow[]> {
 
 /** One block of the farm with its flushes and every value an upload or correction replaced. */
 export async function getBlock(context: FarmContext, blockId: string): Promise<BlockDetail> {
-  const farm = farmOf(context);
+  const farm = farmOf(context, "see its blocks");
   if (!/^[0-9a-f-]{36}$/i.test(blockId))
     throw new AppError("not_found", "There is no such block on your farm. Pick it from Blocks & harvests.");
   return withFarmContext(farm, async (tx) => {
@@ -201,7 +197,7 @@ export async function getBlock(context: FarmContext, blockId: string): Promise<B
 
 /** Block codes for the quick harvest form, each with the flush to suggest next. */
 export async function listHarvestTargets(context: FarmContext): Promise<HarvestTarget[]> {
-  const farm = farmOf(context);
+  const farm = farmOf(context, "see its blocks");
   const rows = await withFarmContext(farm, (tx) =>
     tx
       .select({
@@ -232,7 +228,7 @@ export async function recordHarvest(
   entry: QuickHarvestEntry & { acceptWarnings: readonly string[] },
   today: string = latestToday(),
 ): Promise<RecordHarvestResult> {
-  const farm = farmOf(context);
+  const farm = farmOf(context, "see its blocks");
   return withFarmContext(farm, async (tx) => {
     // The same per-farm lock as a season-log commit, so a commit never plans around a flush recorded meanwhile.
     await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`season-log:${farm.farmId}`}, 0))`);

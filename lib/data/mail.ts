@@ -1,6 +1,7 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
 import { desc, sql } from "drizzle-orm";
+import { z } from "zod";
 import { withFarmContext, type FarmContext, type Transaction } from "@/db/client";
 import { outgoingMail } from "@/db/schema";
 import { appUrl } from "@/lib/app-url";
@@ -91,10 +92,17 @@ async function recordOutcome(mailId: string, outcome: "sent" | "retrying" | "fai
   await withFarmContext(worker, (tx) => tx.execute(sql`select app_record_mail_outcome(${mailId}::uuid, ${outcome}, ${problem})`));
 }
 
+/** What nodemailer's error carries; a field of another type is read as missing. */
+const sendFailure = z.object({
+  code: z.string().optional().catch(undefined),
+  responseCode: z.number().optional().catch(undefined),
+  message: z.string().optional().catch(undefined),
+});
+
 /** A few words on why sending failed, from nodemailer's error code and the server's reply code only (never the reply's text). */
 function problemOf(error: unknown): string {
-  const { code, responseCode, message } = (error ?? {}) as { code?: unknown; responseCode?: unknown; message?: unknown };
-  if (typeof message === "string" && /\b(ECONNREFUSED|ENOTFOUND|EHOSTUNREACH|ENETUNREACH)\b/.test(message))
+  const { code, responseCode, message } = sendFailure.safeParse(error).data ?? {};
+  if (message !== undefined && /\b(ECONNREFUSED|ENOTFOUND|EHOSTUNREACH|ENETUNREACH)\b/.test(message))
     return "could not reach the mail server";
   const reasons: Record<string, string> = {
     ECONNECTION: "could not reach the mail server",
@@ -104,21 +112,14 @@ function problemOf(error: unknown): string {
     EENVELOPE: "the mail server refused the address",
     EMESSAGE: "the mail server refused the message",
   };
-  const said = typeof code === "string" ? (reasons[code] ?? code) : "sending failed";
-  return typeof responseCode === "number" ? `${said} (reply ${responseCode})` : said;
+  const said = code !== undefined ? (reasons[code] ?? code) : "sending failed";
+  return responseCode !== undefined ? `${said} (reply ${responseCode})` : said;
 }
 
-export interface OutgoingMailRecord {
-  id: string;
-  kind: string;
-  recipient: string;
-  subject: string;
-  queuedAt: Date;
-  outcome: "queued" | "sent" | "retrying" | "failed" | "cancelled";
-  attempts: number;
-  lastAttemptAt: Date | null;
-  problem: string | null;
-}
+export type OutgoingMailRecord = Pick<
+  typeof outgoingMail.$inferSelect,
+  "id" | "kind" | "recipient" | "subject" | "queuedAt" | "outcome" | "attempts" | "lastAttemptAt" | "problem"
+>;
 
 /** The coordinator's record of what went out, newest first (row-level security: the coordinator only). */
 export async function listOutgoingMail(context: FarmContext, limit = 200): Promise<OutgoingMailRecord[]> {

@@ -10,7 +10,7 @@ import { enqueue } from "@/lib/jobs/queue";
 import { invitationMessage, passwordChangedMessage, passwordResetMessage, roleChangedMessage } from "@/lib/mail/messages/members";
 import { deactivationProblem, invitationProblem, roleChangeProblem, transferProblem, type Person } from "@/lib/members/roles";
 import { hashToken, isWellFormedToken, tokenExpiresAt, type TokenPurpose } from "@/lib/members/tokens";
-import { recordAudit } from "./audit";
+import { actor, recordAudit } from "./audit";
 import { queueMail, secretLink } from "./mail";
 
 export interface Member {
@@ -29,6 +29,15 @@ export interface Member {
 /** The member's row-level-security context: who, which farm, which role. */
 export function farmContextOf(member: Member): FarmContext {
   return { userId: member.id, farmId: member.farmId, role: member.role };
+}
+
+/** A context of one of a farm's own people: with both a user and a farm. */
+export type FarmMemberContext = FarmContext & { userId: string; farmId: string };
+
+/** The context of a farm's own person, or a refusal that says what only they can do (`"see its blocks"`). */
+export function farmOf(context: FarmContext, onlyFarmPeopleCan: string): FarmMemberContext {
+  if (!context.farmId || !context.userId) throw new AppError("forbidden", `Only a farm's own people can ${onlyFarmPeopleCan}.`);
+  return { ...context, userId: context.userId, farmId: context.farmId };
 }
 
 /** Reads a member's own row (the `self` policy needs only the user id) and their farm's name. */
@@ -77,24 +86,9 @@ export function loadMemberForRequest(userId: string): Promise<Member | null> {
 
 // ---- Membership: farms, people, invitations, roles, passwords, preferences ----
 
-export interface FarmSummary {
-  id: string;
-  name: string;
-  region: string;
-  contactEmail: string | null;
-  status: "active" | "suspended" | "removed";
-  joinedAt: Date;
-}
+export type FarmSummary = Pick<typeof farms.$inferSelect, "id" | "name" | "region" | "contactEmail" | "status" | "joinedAt">;
 
-export interface PersonSummary {
-  id: string;
-  email: string;
-  name: string;
-  role: MemberRole;
-  farmId: string | null;
-  active: boolean;
-  lastSignInAt: Date | null;
-}
+export type PersonSummary = Pick<typeof users.$inferSelect, "id" | "email" | "name" | "role" | "farmId" | "active" | "lastSignInAt">;
 
 export interface PendingInvitation {
   id: string;
@@ -113,10 +107,6 @@ const personColumns = {
   active: users.active,
   lastSignInAt: users.lastSignInAt,
 };
-
-function actor(member: Member) {
-  return { actorUserId: member.id, actorLabel: member.name };
-}
 
 /** Not used, not expired and not cancelled (cancelling an invitation expires it). */
 const invitationIsOpen = () => [

@@ -254,7 +254,7 @@ export async function cutReleaseIfDue(now: Date = new Date()): Promise<ReleaseAt
     const [settings] = await tx
       .select({ schedule: cooperativeSettings.releaseSchedule, hour: cooperativeSettings.releaseHour })
       .from(cooperativeSettings);
-    const schedule = (settings?.schedule ?? "daily") as ReleaseSchedule;
+    const schedule = settings?.schedule ?? "daily";
     const hour = settings?.hour ?? 2;
     const slot = latestReleaseSlot(now, schedule, hour);
     const [state] = await tx.select({ lastAttemptAt: pooledReleaseSchedule.lastAttemptAt }).from(pooledReleaseSchedule);
@@ -321,7 +321,7 @@ export async function getReleaseStatus(member: Member, now: Date = new Date()): 
     const [settings] = await tx
       .select({ schedule: cooperativeSettings.releaseSchedule, hour: cooperativeSettings.releaseHour })
       .from(cooperativeSettings);
-    const schedule = (settings?.schedule ?? "daily") as ReleaseSchedule;
+    const schedule = settings?.schedule ?? "daily";
     const hour = settings?.hour ?? 2;
     const [state] = await tx.select().from(pooledReleaseSchedule).where(eq(pooledReleaseSchedule.id, 1));
     const next = await planNext(tx);

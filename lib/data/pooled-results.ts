@@ -20,7 +20,6 @@ import {
   type OwnStrainBlocks,
   type PooledFilters,
   type PooledResults,
-  type ReleaseSchedule,
 } from "@/lib/pooled";
 import type { FlushProfile } from "@/lib/stats";
 import { seededRandom } from "@/lib/random";
@@ -153,10 +152,7 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
     substrateRecipeId: query.substrateRecipeId ?? null,
     fruitingMethodId: query.fruitingMethodId ?? null,
     release: analysed.release,
-    releaseSchedule: describeReleaseSchedule(
-      (analysed.settings?.releaseSchedule ?? "daily") as ReleaseSchedule,
-      analysed.settings?.releaseHour ?? 2,
-    ),
+    releaseSchedule: describeReleaseSchedule(analysed.settings?.releaseSchedule ?? "daily", analysed.settings?.releaseHour ?? 2),
     results,
   };
 }

@@ -4,8 +4,8 @@ import { withFarmContext } from "@/db/client";
 import { cooperativeSettings } from "@/db/schema";
 import { recordAudit } from "@/lib/data/audit";
 import { farmContextOf, type Member } from "@/lib/data/members";
-import { AppError } from "@/lib/errors";
-import type { CooperativeSettingsInput, ReleaseSchedule } from "@/lib/pooled";
+import { AppError, databaseRefusalOf } from "@/lib/errors";
+import type { CooperativeSettingsInput } from "@/lib/pooled";
 
 const settingsColumns = {
   minimumFarms: cooperativeSettings.minimumFarms,
@@ -18,7 +18,7 @@ export async function getCooperativeSettingsForEditing(member: Member): Promise<
   return withFarmContext(farmContextOf(member), async (tx) => {
     const [row] = await tx.select({ name: cooperativeSettings.name, ...settingsColumns }).from(cooperativeSettings);
     if (!row) throw new AppError("not_found", "The co-op has no settings row yet; run the set-up (npm start) first.");
-    return { ...row, releaseSchedule: row.releaseSchedule as ReleaseSchedule };
+    return row;
   });
 }
 
@@ -34,8 +34,8 @@ export async function updateCooperativeSettings(member: Member, next: Cooperativ
       .set({ ...next, updatedAt: sql`now()` })
       .where(eq(cooperativeSettings.id, 1))
       .returning({ id: cooperativeSettings.id })
-      .catch((error: { cause?: { code?: string; constraint?: string } }) => {
-        if (error.cause?.constraint === "minimum_farms_at_least_three") {
+      .catch((error: unknown) => {
+        if (databaseRefusalOf(error).constraint === "minimum_farms_at_least_three") {
           throw new AppError(
             "invalid_input",
             "The minimum number of farms cannot be below 3: with 2, each farm learns the other's figures.",

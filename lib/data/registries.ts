@@ -2,7 +2,7 @@ import "server-only";
 import { asc, eq, inArray, sql } from "drizzle-orm";
 import { withAnalystAccess, withFarmContext, type Transaction } from "@/db/client";
 import { blocks, cooperativeSettings, species, strains, substrateRecipes, treatments, trialArms } from "@/db/schema";
-import { AppError } from "@/lib/errors";
+import { AppError, databaseRefusalOf } from "@/lib/errors";
 import { RegisterMatcher } from "@/lib/import/registers";
 import { describeProblem, parseRegistryCsv, type RegistryKind, type RegistryRow } from "@/lib/members/registry-csv";
 import { suppressedMessage, type Published } from "@/lib/pooled";
@@ -138,8 +138,7 @@ async function speciesLookup(tx: Transaction): Promise<RegisterMatcher<SpeciesEn
 }
 
 function duplicateProblem(error: unknown): AppError | null {
-  const cause = (error as { cause?: { code?: string } }).cause ?? (error as { code?: string });
-  if (cause?.code === "23505")
+  if (databaseRefusalOf(error).code === "23505")
     return new AppError("conflict", "That code or name is already in the registry.", [
       { field: "code", message: "Choose a code no other entry uses." },
     ]);

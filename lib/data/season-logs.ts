@@ -34,8 +34,8 @@ import { type BlockWrite, type CommitPlan, type HarvestWrite, type PlanCounts, t
 import { type ParseChoices, type UploadReport, buildReport, parserOptions } from "@/lib/season-logs/report";
 import { seasonLogExportCsv } from "@/lib/season-logs/export";
 import { packParse, stagingKey, unpackParse } from "@/lib/season-logs/staged";
-
-export type FarmMemberContext = FarmContext & { userId: string; farmId: string };
+import { todayUtc } from "@/lib/import/dates";
+import { farmOf, type FarmMemberContext } from "@/lib/data/members";
 
 export interface UploadSummary {
   id: string;
@@ -70,11 +70,6 @@ export interface ImportSetup {
   remembered: ParseChoices;
 }
 
-function farmOf(context: FarmContext): FarmMemberContext {
-  if (!context.farmId || !context.userId) throw new AppError("forbidden", "Only a farm's own people can work with its season logs.");
-  return context as FarmMemberContext;
-}
-
 function iso(value: Date | string | null): string | null {
   if (value === null) return null;
   return value instanceof Date ? value.toISOString() : new Date(value).toISOString();
@@ -107,7 +102,7 @@ export function sha256Of(content: Uint8Array): string {
 }
 
 export async function getImportSetup(context: FarmContext): Promise<ImportSetup> {
-  const farm = farmOf(context);
+  const farm = farmOf(context, "work with its season logs");
   return withFarmContext(farm, async (tx) => {
     const codes = await tx
       .select({ code: strains.code, name: strains.name })
@@ -273,10 +268,6 @@ function outcomeOf(report: UploadReport, alreadyImportedAt: Date | null): Upload
   return report.errorCount > 0 ? "rejected" : "received";
 }
 
-function todayUtc(): string {
-  return new Date().toISOString().slice(0, 10);
-}
-
 /**
  * The parse kept with an upload that can be committed, so the commit need not read the file
  * again: packed, then gzip (under a third of the packed size, so cheaper to store and read
@@ -326,7 +317,7 @@ export async function createUpload(
   context: FarmContext,
   input: { fileName: string; content: Uint8Array; result: SeasonLogResult; choices: ParseChoices },
 ): Promise<UploadView> {
-  const farm = farmOf(context);
+  const farm = farmOf(context, "work with its season logs");
   const sha256 = sha256Of(input.content);
   const { alreadyImportedAt, report, outcome, stagedParse } = await previewOf(farm, sha256, input.result, input.choices);
   return withFarmContext(farm, async (tx) => {
@@ -401,7 +392,7 @@ async function rememberChoices(tx: Transaction, farmId: string, choices: ParseCh
 
 /** Reads a stored upload again with the grower's mapping and choices; remembers them for the farm. */
 export async function recheckUpload(context: FarmContext, uploadId: string, choices: ParseChoices): Promise<UploadView> {
-  const farm = farmOf(context);
+  const farm = farmOf(context, "work with its season logs");
   const stored = await storedUpload(farm, uploadId);
   if (stored.outcome === "committed")
     throw new AppError("conflict", "This upload is already committed. Upload the file again to check it against what is stored now.");
@@ -578,7 +569,7 @@ async function writePlan(tx: Transaction, farmId: string, userId: string, upload
  * Any error leaves the farm's data as it was.
  */
 export async function commitUpload(context: FarmContext, uploadId: string, choices: ParseChoices): Promise<CommitReceipt> {
-  const farm = farmOf(context);
+  const farm = farmOf(context, "work with its season logs");
   const stored = await storedUpload(farm, uploadId);
   if (stored.outcome === "committed")
     throw new AppError("conflict", `This upload was committed on ${iso(stored.committedAt)?.slice(0, 10)}; nothing more to do.`);
@@ -636,7 +627,7 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
 }
 
 export async function listUploads(context: FarmContext): Promise<UploadSummary[]> {
-  const farm = farmOf(context);
+  const farm = farmOf(context, "work with its season logs");
   const rows = await withFarmContext(farm, (tx) =>
     tx.select(summaryColumns).from(uploads).where(eq(uploads.farmId, farm.farmId)).orderBy(desc(uploads.uploadedAt)).limit(200),
   );
@@ -644,7 +635,7 @@ export async function listUploads(context: FarmContext): Promise<UploadSummary[]
 }
 
 export async function getUploadView(context: FarmContext, uploadId: string): Promise<UploadView> {
-  const farm = farmOf(context);
+  const farm = farmOf(context, "work with its season logs");
   const stored = await storedUpload(farm, uploadId);
   const alreadyImportedAt =
     stored.outcome === "already_imported"
@@ -654,7 +645,7 @@ export async function getUploadView(context: FarmContext, uploadId: string): Pro
 }
 
 export async function getUploadFile(context: FarmContext, uploadId: string): Promise<{ fileName: string; content: Buffer }> {
-  const farm = farmOf(context);
+  const farm = farmOf(context, "work with its season logs");
   const stored = await storedUpload(farm, uploadId);
   return { fileName: stored.fileName, content: await storedContent(farm, uploadId) };
 }
@@ -664,7 +655,7 @@ export async function getUploadFile(context: FarmContext, uploadId: string): Pro
  * unchanged it changes nothing, so a grower can download, correct or add rows, and upload.
  */
 export async function getSeasonLogExport(context: FarmContext): Promise<{ fileName: string; csv: string }> {
-  const farm = farmOf(context);
+  const farm = farmOf(context, "work with its season logs");
   return withFarmContext(farm, async (tx) => {
     const recipes = alias(substrateRecipes, "recipes");
     const methods = alias(treatments, "methods");

@@ -20,11 +20,12 @@ import {
 } from "@/db/schema";
 import { appUrl } from "@/lib/app-url";
 import { can } from "@/lib/auth/permissions";
-import { recordAudit } from "@/lib/data/audit";
+import { actor, recordAudit } from "@/lib/data/audit";
 import { queueMail, secretLink } from "@/lib/data/mail";
 import { farmContextOf, type Member } from "@/lib/data/members";
 import { latestRelease, releaseContents } from "@/lib/data/pooled-releases";
 import { AppError } from "@/lib/errors";
+import { todayUtc } from "@/lib/import/dates";
 import { trialListCsv } from "@/lib/season-logs/export";
 import {
   enrolmentConfirmationMail,
@@ -98,10 +99,6 @@ const optOutSecret = () => env("AUTH_SECRET");
 function ruleError(error: unknown): never {
   if (error instanceof TrialRuleError) throw new AppError("conflict", error.message);
   throw error;
-}
-
-function actor(member: Member) {
-  return { actorUserId: member.id, actorLabel: member.name };
 }
 
 // ——— Reading ———
@@ -680,7 +677,7 @@ export async function respondToInvitation(
       .where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.farmId, member.farmId!)));
     if (!enrolment) throw new AppError("forbidden", "Your farm has not been invited to this trial. Ask the coordinator for an invitation.");
     if (enrolment.status !== "invited") throw new AppError("conflict", `Your farm has already answered (${enrolment.status}).`);
-    if (answer.accept && trial.enrolmentDeadline && trial.enrolmentDeadline < new Date().toISOString().slice(0, 10)) {
+    if (answer.accept && trial.enrolmentDeadline && trial.enrolmentDeadline < todayUtc()) {
       throw new AppError(
         "conflict",
         `The enrolment deadline was ${trial.enrolmentDeadline}. Ask the coordinator whether your farm can still join.`,

@@ -9,14 +9,7 @@ import { AppError } from "@/lib/errors";
 import { storageFullMessage, tooManyUploadsMessage, uploadLimits } from "@/lib/season-logs/limits";
 import { largestUploadBytes } from "@/lib/season-logs/report";
 import { recordAudit } from "./audit";
-import { farmContextOf, type Member } from "./members";
-
-type FarmWork = FarmContext & { farmId: string };
-
-function farmOf(context: FarmContext): FarmWork {
-  if (!context.farmId) throw new AppError("forbidden", "Only a farm's own people can work with its season logs.");
-  return context as FarmWork;
-}
+import { farmContextOf, farmOf, type Member } from "./members";
 
 // One per process, on globalThis like the pools (dev reloads share it).
 const globalForUploads = globalThis as unknown as {
@@ -55,7 +48,7 @@ export async function assertStorageRoom(tx: Transaction, farmId: string, addingB
  * until this process has the memory for it. The reservation holds across app processes.
  */
 export async function withUploadSlot<T>(context: FarmContext, declaredBytes: number, work: () => Promise<T>): Promise<T> {
-  const farm = farmOf(context);
+  const farm = farmOf(context, "work with its season logs");
   const reservation = await withFarmContext(farm, async (tx) => {
     await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`upload-slots:${farm.farmId}`}, 0))`);
     await tx

@@ -195,3 +195,8 @@ export function wrongOrderMessage(text: string, order: DateOrder): string {
   const other: DateOrder = order === "dmy" ? "mdy" : "dmy";
   return `"${text.trim()}" only makes sense ${describeOrder(other)}, but the file's dates are ${describeOrder(order)}. Correct this date, or write it as 2026-03-21.`;
 }
+
+/** Today's date in UTC as YYYY-MM-DD, the form dates are stored and compared in. */
+export function todayUtc(): string {
+  return new Date().toISOString().slice(0, 10);
+}

@@ -1,5 +1,6 @@
 import { createTokeniser, type TokeniserState, tokenise } from "./csv";
 import { createDecoder, decodeBytes, type TextEncodingName } from "./decode";
+import { todayUtc } from "./dates";
 import { fileLevelIssues, finishRecords, groupRepeatedIssues } from "./finish";
 import { report, shorten } from "./issues";
 import { type RowAboveHeader, readHeaderRow } from "./layout";
@@ -31,10 +32,6 @@ export type {
 
 const sniffLength = 64 * 1024;
 const isoDay = /^\d{4}-\d{2}-\d{2}$/;
-
-function todayUtc(): string {
-  return new Date().toISOString().slice(0, 10);
-}
 
 interface RowReader {
   state: ParseState;

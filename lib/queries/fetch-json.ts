@@ -1,7 +1,7 @@
 import { z } from "zod";
 
 /** What our routes answer when they refuse (lib/http). */
-const routeMessage = z.object({ message: z.string() });
+export const routeMessage = z.object({ message: z.string() });
 
 /** Fetches one of our JSON routes; a failure becomes an Error carrying the route's own message. */
 export async function fetchJson<T>(url: string): Promise<T> {

@@ -46,10 +46,10 @@ const matrix: Record<string, Action | "public"> = {
   "app/(app)/trials/actions.ts#respondToInvitationAction": "trial:enrol",
   "app/(app)/trials/actions.ts#askToJoinTrialAction": "trial:enrol",
   "app/(auth)/sign-in/actions.ts#signInAction": "public",
-  "app/accept-invitation/actions.ts#acceptInvitationAction": "public",
-  "app/accept-invitation/actions.ts#setNewPasswordAction": "public",
-  "app/reset-password/actions.ts#requestResetAction": "public",
-  "app/unsubscribe/[token]/actions.ts#chooseRemindersAction": "public",
+  "app/(auth)/accept-invitation/actions.ts#acceptInvitationAction": "public",
+  "app/(auth)/accept-invitation/actions.ts#setNewPasswordAction": "public",
+  "app/(auth)/reset-password/actions.ts#requestResetAction": "public",
+  "app/(auth)/unsubscribe/[token]/actions.ts#chooseRemindersAction": "public",
 };
 
 const callers: { name: string; email: string; role: MemberRole }[] = [

@@ -1,6 +1,8 @@
 import { PgDialect } from "drizzle-orm/pg-core";
 import { describe, expect, it } from "vitest";
 import { farmContextStatement } from "@/db/client";
+import { farmOf } from "@/lib/data/members";
+import { AppError } from "@/lib/errors";
 
 const dialect = new PgDialect();
 
@@ -18,5 +20,22 @@ describe("the statement that sets a request's farm context", () => {
     const query = dialect.sqlToQuery(farmContextStatement({ userId: null, farmId: null, role: null }));
     expect(query.sql.match(/set_config\('app\.(user_id|farm_id|role)', \$\d, true\)/g)).toHaveLength(3);
     expect(query.params).toEqual(["", "", ""]);
+  });
+});
+
+describe("farmOf: work only a farm's own people may do", () => {
+  it("gives a farm member's context with its user and farm", () => {
+    expect(farmOf({ userId: "u1", farmId: "f1", role: "grower" }, "see its blocks")).toEqual({
+      userId: "u1",
+      farmId: "f1",
+      role: "grower",
+    });
+  });
+
+  it("refuses the coordinator and observers, who have no farm, saying what only farm people can do", () => {
+    expect(() => farmOf({ userId: "u1", farmId: null, role: "coordinator" }, "see its blocks")).toThrow(
+      new AppError("forbidden", "Only a farm's own people can see its blocks."),
+    );
+    expect(() => farmOf({ userId: null, farmId: "f1", role: null }, "work with its season logs")).toThrow(/work with its season logs/);
   });
 });

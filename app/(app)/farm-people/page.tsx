@@ -5,7 +5,7 @@ import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { roleLabels } from "@/lib/auth/permissions";
 import { listFarmPeople } from "@/lib/data/members";
-import { ActionForm } from "../members/_components/action-form";
+import { ActionForm } from "@/components/forms/action-form";
 import {
   cancelGrowerInvitationAction,
   inviteGrowerAction,

@@ -14,7 +14,7 @@ import {
   resendInvitationAction,
   setFarmStatusAction,
 } from "./actions";
-import { ActionForm } from "./_components/action-form";
+import { ActionForm } from "@/components/forms/action-form";
 import { OpenInvitations } from "./_components/open-invitations";
 
 export const metadata: Metadata = { title: "Members" };

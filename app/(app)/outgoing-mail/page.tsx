@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 import { PageHeader } from "@/components/ui/page-header";
 import { farmContextOf, requirePage } from "@/lib/auth/guard";
 import { listOutgoingMail } from "@/lib/data/mail";
-import { mailKinds, type MailKind } from "@/lib/mail/queued-mail";
+import { mailKinds } from "@/lib/mail/queued-mail";
 import { OutgoingMailTable } from "./_components/outgoing-mail-table";
 
 export const metadata: Metadata = { title: "Outgoing mail" };
@@ -14,6 +14,9 @@ const outcomeLabels = {
   failed: "Failed",
   cancelled: "Not sent (link withdrawn)",
 } as const;
+
+// Rows keep the kind as sent; a kind no longer in the list shows as stored.
+const kindLabels: Partial<Record<string, string>> = mailKinds;
 
 export default async function OutgoingMailPage() {
   const member = await requirePage("mail:read-outgoing");
@@ -28,7 +31,7 @@ export default async function OutgoingMailPage() {
         rows={records.map((record) => ({
           queuedAt: record.queuedAt.toISOString(),
           recipient: record.recipient,
-          kind: mailKinds[record.kind as MailKind] ?? record.kind,
+          kind: kindLabels[record.kind] ?? record.kind,
           subject: record.subject,
           outcome: outcomeLabels[record.outcome],
           attempts: record.attempts,

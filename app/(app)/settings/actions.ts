@@ -6,17 +6,14 @@ import { redirect } from "next/navigation";
 import { z } from "zod";
 import { signIn, signOut } from "@/auth";
 import { guardedAction } from "@/lib/auth/guard";
-import { minimumPasswordLength } from "@/lib/auth/password";
+import { newPasswordSchema } from "@/lib/auth/password";
 import { changePassword, updatePreferences } from "@/lib/data/members";
 import { endEverySession } from "@/lib/data/sessions";
 
 const changePasswordSchema = z
   .object({
     currentPassword: z.string().min(1, "Type the password you signed in with."),
-    newPassword: z
-      .string()
-      .min(minimumPasswordLength, `Use at least ${minimumPasswordLength} characters; a few unrelated words are easy to remember.`)
-      .max(200, "Keep the password under 200 characters."),
+    newPassword: newPasswordSchema,
     repeatPassword: z.string(),
   })
   .refine((input) => input.newPassword === input.repeatPassword, {

@@ -5,7 +5,8 @@ import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { can, roleLabels } from "@/lib/auth/permissions";
 import { getAccountSettings } from "@/lib/data/members";
-import { ActionForm } from "../members/_components/action-form";
+import { ActionForm } from "@/components/forms/action-form";
+import { newPasswordFields } from "@/components/forms/password-fields";
 import { changePasswordAction, signOutEverywhereAction, updatePreferencesAction } from "./actions";
 
 export const metadata: Metadata = { title: "Settings" };
@@ -54,14 +55,7 @@ export default async function SettingsPage() {
             submitLabel="Change password"
             fields={[
               { name: "currentPassword", label: "Current password", type: "password", autoComplete: "current-password" },
-              {
-                name: "newPassword",
-                label: "New password",
-                type: "password",
-                autoComplete: "new-password",
-                hint: "At least 10 characters.",
-              },
-              { name: "repeatPassword", label: "New password again", type: "password", autoComplete: "new-password" },
+              ...newPasswordFields("newPassword", "New password"),
             ]}
           />
         </Card>

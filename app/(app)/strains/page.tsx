@@ -7,7 +7,7 @@ import { requirePage } from "@/lib/auth/guard";
 import { can } from "@/lib/auth/permissions";
 import { listRegistries } from "@/lib/data/registries";
 import { registryColumns, registryKinds, registryLabels, type RegistryKind } from "@/lib/members/registry-csv";
-import { ActionForm, type FormFieldSpec } from "../members/_components/action-form";
+import { ActionForm, type FormFieldSpec } from "@/components/forms/action-form";
 import { addRegistryEntryAction, importRegistryAction, moveRegistryEntryAction } from "./actions";
 
 export const metadata: Metadata = { title: "Strains" };

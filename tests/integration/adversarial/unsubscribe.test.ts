@@ -1,6 +1,6 @@
 import type { Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { chooseRemindersAction } from "@/app/unsubscribe/[token]/actions";
+import { chooseRemindersAction } from "@/app/(auth)/unsubscribe/[token]/actions";
 import { closeDatabase } from "@/db/client";
 import { getReminderChoice } from "@/lib/data/trials";
 import { signOptOutToken } from "@/lib/trials/reminder-opt-out";

@@ -5,7 +5,7 @@ import { Notice } from "@/components/ui/notice";
 import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { exportFiles } from "@/lib/members/farm-export";
-import { ActionForm } from "../../members/_components/action-form";
+import { ActionForm } from "@/components/forms/action-form";
 import { withdrawFarmDataAction } from "./actions";
 
 export const metadata: Metadata = { title: "Your farm's data" };

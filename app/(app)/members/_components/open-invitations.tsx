@@ -1,5 +1,5 @@
 import type { ActionState } from "@/lib/auth/guard";
-import { ActionForm } from "./action-form";
+import { ActionForm } from "@/components/forms/action-form";
 
 type InvitationAction = (state: ActionState, formData: FormData) => Promise<ActionState>;
 

@@ -7,6 +7,7 @@ import { Card } from "@/components/ui/card";
 import { Notice } from "@/components/ui/notice";
 import type { CommitReceipt, UploadView } from "@/lib/data/season-logs";
 import { seasonLogColumns } from "@/lib/import/schema";
+import { routeMessage } from "@/lib/queries/fetch-json";
 import type { ParseChoices } from "@/lib/season-logs/report";
 import { IssueTable } from "./issue-table";
 import { PreviewOfChanges } from "./preview-of-changes";
@@ -36,8 +37,8 @@ const targetOptions = [
 
 async function messageOf(response: Response): Promise<string> {
   try {
-    const body = (await response.json()) as { message?: string };
-    if (body.message) return body.message;
+    const body = routeMessage.safeParse(await response.json());
+    if (body.success && body.data.message) return body.data.message;
   } catch {
     // not JSON: fall through to the status text
   }
@@ -55,15 +56,23 @@ function sendFile(file: File, onProgress: (fraction: number) => void): Promise<U
       if (event.lengthComputable) onProgress(event.loaded / event.total);
     };
     request.onload = () => {
-      let body: { message?: string } & Partial<UploadView> = {};
+      let body: unknown = null;
       try {
-        body = JSON.parse(request.responseText) as typeof body;
+        body = JSON.parse(request.responseText);
       } catch {
         // answered with something other than JSON
       }
       if (request.status >= 200 && request.status < 300) resolve(body as UploadView);
-      else
-        reject(new Error(body.message ?? `The server answered ${request.status}. Try again; if it keeps happening, tell the coordinator.`));
+      else {
+        const refusal = routeMessage.safeParse(body);
+        reject(
+          new Error(
+            refusal.success
+              ? refusal.data.message
+              : `The server answered ${request.status}. Try again; if it keeps happening, tell the coordinator.`,
+          ),
+        );
+      }
     };
     request.onerror = () =>
       reject(new Error("The file could not be sent: the connection dropped. Check your connection and upload it again."));
@@ -120,7 +129,7 @@ export function SeasonLogUpload() {
       setPhase("review");
       router.refresh();
     } catch (error) {
-      setProblem((error as Error).message);
+      setProblem(error instanceof Error ? error.message : String(error));
       setPhase("pick");
     }
   }

@@ -5,7 +5,7 @@ import { requirePage } from "@/lib/auth/guard";
 import { getReleaseStatus } from "@/lib/data/pooled-releases";
 import { getCooperativeSettingsForEditing } from "@/lib/data/pooled-settings";
 import { getUploadRetentionDays } from "@/lib/data/upload-limits";
-import { ActionForm } from "../../members/_components/action-form";
+import { ActionForm } from "@/components/forms/action-form";
 import { CooperativeSettingsForm } from "./_components/cooperative-settings-form";
 import { ReleasePanel } from "./_components/release-panel";
 import { updateUploadRetentionAction } from "./upload-retention-actions";

@@ -23,7 +23,7 @@ import {
 import { hasResults, moveLabels, nextStatuses, remindersRun, trialStatusLabels, type TrialStatus } from "@/lib/trials/lifecycle";
 import { trialSampleSize } from "@/lib/trials/sample-size";
 import { askToJoinTrialAction, inviteFarmsAction, moveTrialAction, respondToInvitationAction, sendReminderAction } from "../actions";
-import { ActionForm } from "../_components/action-form";
+import { ActionForm } from "@/components/forms/action-form";
 import { CloseReviewCard } from "../_components/close-review";
 import { ProtocolSummary } from "../_components/protocol-summary";
 import { StatusBadge } from "../_components/status-badge";
@@ -101,7 +101,7 @@ async function CoordinatorControls({ trial, member, review }: { trial: TrialView
           ) : null}
           {moves.map((to) =>
             to === "collecting" && review ? (
-              <ActionForm key={to} action={moveTrialAction} hidden={{ trialId: trial.id, to }} label={moveLabels[to]}>
+              <ActionForm key={to} action={moveTrialAction} hidden={{ trialId: trial.id, to }} submitLabel={moveLabels[to]}>
                 <label className="flex items-start gap-3 text-sm">
                   <input type="checkbox" name="reviewed" value={review.fingerprint} required className="mt-0.5 h-5 w-5 shrink-0" />
                   <span>
@@ -115,7 +115,7 @@ async function CoordinatorControls({ trial, member, review }: { trial: TrialView
                 key={to}
                 action={moveTrialAction}
                 hidden={{ trialId: trial.id, to }}
-                label={moveLabels[to]}
+                submitLabel={moveLabels[to]}
                 variant={to === "withdrawn" ? "danger" : "primary"}
                 confirm={
                   to === "withdrawn"
@@ -176,7 +176,7 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
           {invitable.length === 0 ? (
             <p className="text-sm text-ink-soft">Every active member farm has been invited.</p>
           ) : (
-            <ActionForm action={inviteFarmsAction} hidden={{ trialId: trial.id }} label="Invite and e-mail their managers">
+            <ActionForm action={inviteFarmsAction} hidden={{ trialId: trial.id }} submitLabel="Invite and e-mail their managers">
               <fieldset className="space-y-1">
                 <legend className="mb-1 text-sm font-medium">Farms to invite</legend>
                 {invitable.map((farm) => (
@@ -237,7 +237,7 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
                           <ActionForm
                             action={sendReminderAction}
                             hidden={{ trialId: trial.id, farmId: row.farmId }}
-                            label="Send a reminder"
+                            submitLabel="Send a reminder"
                             variant="secondary"
                           />
                         ) : (
@@ -268,7 +268,7 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
           The trial is open for enrolment. Asking puts your farm on its list as an invitation would, and the coordinator sees it; you then
           say how many blocks per arm your farm will make.
         </p>
-        <ActionForm action={askToJoinTrialAction} hidden={{ trialId: trial.id }} label="Ask to join this trial" />
+        <ActionForm action={askToJoinTrialAction} hidden={{ trialId: trial.id }} submitLabel="Ask to join this trial" />
       </Card>
     );
   }
@@ -282,7 +282,11 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
           a randomised list of block codes to label your bags with.
         </p>
         <div className="flex flex-wrap items-end gap-6">
-          <ActionForm action={respondToInvitationAction} hidden={{ trialId: trial.id, answer: "accept" }} label="Accept and make our list">
+          <ActionForm
+            action={respondToInvitationAction}
+            hidden={{ trialId: trial.id, answer: "accept" }}
+            submitLabel="Accept and make our list"
+          >
             <div className="space-y-1">
               <label htmlFor="blocksPerArm" className="block text-sm font-medium">
                 Blocks per arm
@@ -300,7 +304,7 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
           <ActionForm
             action={respondToInvitationAction}
             hidden={{ trialId: trial.id, answer: "decline" }}
-            label="Decline"
+            submitLabel="Decline"
             variant="secondary"
             confirm="Decline this trial for your farm?"
           />

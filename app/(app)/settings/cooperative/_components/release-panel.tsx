@@ -1,7 +1,7 @@
 import { Notice } from "@/components/ui/notice";
 import type { ReleaseStatus } from "@/lib/data/pooled-releases";
 import { describeReleaseSchedule } from "@/lib/pooled";
-import { ActionForm } from "../../../members/_components/action-form";
+import { ActionForm } from "@/components/forms/action-form";
 import { cutReleaseNowAction } from "../actions";
 
 const when = (iso: string) => `${iso.slice(0, 10)} at ${iso.slice(11, 16)} UTC`;

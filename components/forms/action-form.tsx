@@ -19,8 +19,9 @@ export interface FormFieldSpec {
 const selectClass = "block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3 py-2 text-base text-ink";
 
 /**
- * A small form for one server action: labelled fields with their own errors, the action's
- * message, and a submit button that says when it is working. Used by every members screen.
+ * The form for one server action on every page: labelled fields with their own errors, any
+ * inputs the page adds as children, the action's message, and a submit button that says when it
+ * is working. A one-button form (a move, a reminder) needs only `action`, `hidden` and `submitLabel`.
  */
 export function ActionForm({
   action,
@@ -33,6 +34,7 @@ export function ActionForm({
   testId,
   inline = false,
   confirm,
+  children,
 }: {
   action: (state: ActionState, formData: FormData) => Promise<ActionState>;
   submitLabel: string;
@@ -45,16 +47,26 @@ export function ActionForm({
   inline?: boolean;
   /** Asked before a change that is hard to take back. */
   confirm?: string;
+  /** Inputs the page lays out itself, between the fields and the button. */
+  children?: React.ReactNode;
 }) {
   const [state, formAction, pending] = useActionState<ActionState, FormData>(action, { status: "idle" });
   const errorsOf = (name: string) => state.fieldErrors?.[name];
+  // Errors for names that have no field here (hidden inputs, inputs passed as children) are listed under the message.
+  const shown = new Set(fields.map((field) => field.name));
+  const otherErrors = Object.entries(state.fieldErrors ?? {})
+    .filter(([name]) => !shown.has(name))
+    .flatMap(([, errors]) => errors)
+    .filter((error) => error !== state.message);
   return (
     <form
       action={formAction}
       onSubmit={confirm ? (event) => (window.confirm(confirm) ? undefined : event.preventDefault()) : undefined}
       data-testid={testId}
       className={inline ? "flex flex-wrap items-end gap-2" : "space-y-4"}
-      noValidate
+      // The fields described here show the server's messages beside them; inputs a page passes as
+      // children may ask the browser to check them first (a required tick box).
+      noValidate={!children}
     >
       {Object.entries(hidden).map(([name, value]) => (
         <input key={name} type="hidden" name={name} value={value} />
@@ -80,7 +92,7 @@ export function ActionForm({
             </select>
             {errorsOf(field.name)?.length ? (
               <ul id={`${testId ?? "form"}-${field.name}-errors`} className="text-sm text-danger-ink">
-                {errorsOf(field.name)!.map((error) => (
+                {errorsOf(field.name)?.map((error) => (
                   <li key={error}>{error}</li>
                 ))}
               </ul>
@@ -104,9 +116,15 @@ export function ActionForm({
           />
         ),
       )}
+      {children}
       {state.status === "error" && state.message ? (
         <p role="alert" className="rounded-lg bg-danger-bg px-3 py-2 text-sm text-danger-ink">
           {state.message}
+          {otherErrors.map((error) => (
+            <span key={error} className="block">
+              {error}
+            </span>
+          ))}
         </p>
       ) : null}
       {state.status === "ok" ? (

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { getReminderChoice } from "@/lib/data/trials";
+import { PublicCard } from "../../_components/public-card";
 import { ReminderChoice } from "./_components/reminder-choice";
 
 export const metadata: Metadata = { title: "Trial reminders" };
@@ -13,7 +14,13 @@ export default async function UnsubscribePage({ params }: { params: Promise<{ to
   const token = decodeURIComponent((await params).token);
   const choice = await getReminderChoice(token);
   return (
-    <main id="main" className="mx-auto max-w-xl px-4 py-16">
+    <PublicCard
+      footer={
+        <Link href="/sign-in" className="inline-flex min-h-11 items-center text-base font-semibold text-moss-700 underline">
+          Sign in to Rhizomorph
+        </Link>
+      }
+    >
       {choice ? (
         <ReminderChoice token={token} trialCode={choice.trialCode} remindersAllowed={choice.remindersAllowed} />
       ) : (
@@ -25,11 +32,6 @@ export default async function UnsubscribePage({ params }: { params: Promise<{ to
           </p>
         </>
       )}
-      <p className="mt-6">
-        <Link href="/sign-in" className="inline-flex min-h-11 items-center font-semibold text-moss-700 underline">
-          Sign in to Rhizomorph
-        </Link>
-      </p>
-    </main>
+    </PublicCard>
   );
 }

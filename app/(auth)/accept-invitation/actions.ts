@@ -2,20 +2,15 @@
 
 import { z } from "zod";
 import type { ActionState } from "@/lib/auth/guard";
-import { minimumPasswordLength } from "@/lib/auth/password";
+import { newPasswordSchema } from "@/lib/auth/password";
 import { redeemAccessToken } from "@/lib/data/members";
 import { tokenRefusal } from "@/lib/members/tokens";
-
-const password = z
-  .string()
-  .min(minimumPasswordLength, `Use at least ${minimumPasswordLength} characters; a few unrelated words are easy to remember.`)
-  .max(200, "Keep the password under 200 characters.");
 
 const acceptSchema = z
   .object({
     token: z.string(),
     name: z.string().trim().min(2, "Give your name as the co-op should see it.").max(120, "Keep your name under 120 characters."),
-    password,
+    password: newPasswordSchema,
     repeatPassword: z.string(),
   })
   .refine((input) => input.password === input.repeatPassword, {
@@ -40,7 +35,7 @@ export async function acceptInvitationAction(_previous: ActionState, formData: F
 }
 
 const resetSchema = z
-  .object({ token: z.string(), password, repeatPassword: z.string() })
+  .object({ token: z.string(), password: newPasswordSchema, repeatPassword: z.string() })
   .refine((input) => input.password === input.repeatPassword, {
     path: ["repeatPassword"],
     message: "The two passwords differ: type the same one twice.",

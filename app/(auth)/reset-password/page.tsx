@@ -1,8 +1,9 @@
 import type { Metadata } from "next";
-import { ActionForm } from "@/app/(app)/members/_components/action-form";
-import { PublicFrame } from "@/app/accept-invitation/public-frame";
+import { ActionForm } from "@/components/forms/action-form";
+import { newPasswordFields } from "@/components/forms/password-fields";
+import { PublicCard } from "../_components/public-card";
 import { Notice } from "@/components/ui/notice";
-import { setNewPasswordAction } from "@/app/accept-invitation/actions";
+import { setNewPasswordAction } from "../accept-invitation/actions";
 import { getAccessTokenState } from "@/lib/data/members";
 import { tokenRefusal } from "@/lib/members/tokens";
 import { requestResetAction } from "./actions";
@@ -22,27 +23,27 @@ export default async function ResetPasswordPage({ searchParams }: { searchParams
   );
   if (!token) {
     return (
-      <PublicFrame title="Reset your password">
+      <PublicCard title="Reset your password">
         <p className="mb-4 text-sm text-ink-soft">Give the address you sign in with. We e-mail a link that works once, for one hour.</p>
         {requestForm}
-      </PublicFrame>
+      </PublicCard>
     );
   }
   const link = await getAccessTokenState(token);
   if (!link || link.purpose !== "password_reset" || link.state !== "valid") {
     return (
-      <PublicFrame title="This reset link cannot be used">
+      <PublicCard title="This reset link cannot be used">
         <div className="mb-4">
           <Notice tone="danger">
             {tokenRefusal(!link || link.purpose !== "password_reset" || link.state === "valid" ? "unknown" : link.state, "password_reset")}
           </Notice>
         </div>
         {requestForm}
-      </PublicFrame>
+      </PublicCard>
     );
   }
   return (
-    <PublicFrame title="Choose a new password">
+    <PublicCard title="Choose a new password">
       <p className="mb-4 text-sm text-ink-soft">
         For <strong>{link.email}</strong>.
       </p>
@@ -51,11 +52,8 @@ export default async function ResetPasswordPage({ searchParams }: { searchParams
         testId="new-password"
         submitLabel="Set new password"
         hidden={{ token }}
-        fields={[
-          { name: "password", label: "New password", type: "password", autoComplete: "new-password", hint: "At least 10 characters." },
-          { name: "repeatPassword", label: "New password again", type: "password", autoComplete: "new-password" },
-        ]}
+        fields={newPasswordFields("password", "New password")}
       />
-    </PublicFrame>
+    </PublicCard>
   );
 }

@@ -1,11 +1,12 @@
 import type { Metadata } from "next";
-import { ActionForm } from "@/app/(app)/members/_components/action-form";
+import { ActionForm } from "@/components/forms/action-form";
+import { newPasswordFields } from "@/components/forms/password-fields";
 import { Notice } from "@/components/ui/notice";
 import { roleLabels } from "@/lib/auth/permissions";
 import { getAccessTokenState } from "@/lib/data/members";
 import { tokenRefusal } from "@/lib/members/tokens";
 import { acceptInvitationAction } from "./actions";
-import { PublicFrame } from "./public-frame";
+import { PublicCard } from "../_components/public-card";
 
 export const metadata: Metadata = { title: "Accept your invitation" };
 
@@ -15,13 +16,13 @@ export default async function AcceptInvitationPage({ searchParams }: { searchPar
   if (!link || link.purpose !== "invitation" || link.state !== "valid") {
     const state = !link || link.purpose !== "invitation" ? "unknown" : link.state === "valid" ? "unknown" : link.state;
     return (
-      <PublicFrame title="This invitation cannot be used">
+      <PublicCard title="This invitation cannot be used">
         <Notice tone="danger">{tokenRefusal(state, "invitation")}</Notice>
-      </PublicFrame>
+      </PublicCard>
     );
   }
   return (
-    <PublicFrame title="Accept your invitation">
+    <PublicCard title="Accept your invitation">
       <p className="mb-4 text-sm text-ink-soft">
         You are joining {link.farmName ? <strong>{link.farmName}</strong> : "the co-op"} as{" "}
         {link.role ? roleLabels[link.role].toLowerCase() : "a member"}, signing in as <strong>{link.email}</strong>. Choose your password;
@@ -32,12 +33,8 @@ export default async function AcceptInvitationPage({ searchParams }: { searchPar
         testId="accept-invitation"
         submitLabel="Set password and join"
         hidden={{ token }}
-        fields={[
-          { name: "name", label: "Your name", autoComplete: "name" },
-          { name: "password", label: "Password", type: "password", autoComplete: "new-password", hint: "At least 10 characters." },
-          { name: "repeatPassword", label: "Password again", type: "password", autoComplete: "new-password" },
-        ]}
+        fields={[{ name: "name", label: "Your name", autoComplete: "name" }, ...newPasswordFields("password", "Password")]}
       />
-    </PublicFrame>
+    </PublicCard>
   );
 }
