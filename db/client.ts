@@ -1,6 +1,9 @@
+import { Readable } from "node:stream";
+import { pipeline } from "node:stream/promises";
 import { sql, type SQL } from "drizzle-orm";
 import { drizzle, type NodePgDatabase } from "drizzle-orm/node-postgres";
-import { Pool } from "pg";
+import { Pool, type PoolClient } from "pg";
+import { from as copyFrom } from "pg-copy-streams";
 import { listenForChanges, stopChangeFeed } from "./change-feed";
 import * as schema from "./schema";
 import type { MemberRole } from "@/lib/auth/permissions";
@@ -45,9 +48,12 @@ function pools(): Pools {
 
 /** The statement that sets the member context; exported so tests can check it binds its values. */
 export function farmContextStatement(context: FarmContext) {
+  // pg_temp last: the app may make temporary tables (a commit's COPY target, migration 0025), and
+  // one left in a pooled connection under a real table's name must never stand in for it.
   return sql`select set_config('app.user_id', ${context.userId ?? ""}, true),
     set_config('app.farm_id', ${context.farmId ?? ""}, true),
-    set_config('app.role', ${context.role ?? ""}, true)`;
+    set_config('app.role', ${context.role ?? ""}, true),
+    set_config('search_path', 'public, pg_temp', true)`;
 }
 
 /**
@@ -60,6 +66,16 @@ export async function withFarmContext<T>(context: FarmContext, work: (tx: Transa
     await tx.execute(farmContextStatement(context));
     return work(tx);
   });
+}
+
+/**
+ * `COPY … FROM STDIN` on the transaction's own connection (pg-copy-streams), so it runs inside
+ * the farm's transaction, as rhizo_app, and rolls back with it. `chunks` are rows in COPY's text
+ * format (lib/season-logs/copy-text.ts). Drizzle's session keeps that connection as `client`.
+ */
+export async function copyInto(tx: Transaction, statement: string, chunks: Iterable<string>): Promise<void> {
+  const { client } = tx._.session as unknown as { client: PoolClient };
+  await pipeline(Readable.from(chunks), client.query(copyFrom(statement)));
 }
 
 /**

@@ -85,9 +85,10 @@ SQL
     say "Creating database $database"
     psql_super -d postgres -c "CREATE DATABASE \"$database\" OWNER rhizo_owner"
   fi
-  # No temporary tables for PUBLIC (so none for rhizo_app): also migration 0011's, repeated here
-  # because a restored dump does not carry database privileges.
-  psql_super -d "$database" -c "REVOKE ALL ON SCHEMA public FROM PUBLIC; GRANT USAGE ON SCHEMA public TO rhizo_app, rhizo_analyst; ALTER SCHEMA public OWNER TO rhizo_owner; REVOKE TEMPORARY ON DATABASE \"$database\" FROM PUBLIC;"
+  # Temporary tables for rhizo_app alone (a commit's COPY target), none for PUBLIC (so none for the
+  # analyst): migrations 0016 and 0025, repeated here because a restored dump does not carry
+  # database privileges.
+  psql_super -d "$database" -c "REVOKE ALL ON SCHEMA public FROM PUBLIC; GRANT USAGE ON SCHEMA public TO rhizo_app, rhizo_analyst; ALTER SCHEMA public OWNER TO rhizo_owner; REVOKE TEMPORARY ON DATABASE \"$database\" FROM PUBLIC; GRANT TEMPORARY ON DATABASE \"$database\" TO rhizo_app;"
 }
 
 drop_database() {

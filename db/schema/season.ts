@@ -5,6 +5,7 @@ import {
   check,
   customType,
   date,
+  foreignKey,
   index,
   integer,
   jsonb,
@@ -12,6 +13,7 @@ import {
   pgTable,
   text,
   timestamp,
+  unique,
   uniqueIndex,
   uuid,
 } from "drizzle-orm/pg-core";
@@ -102,6 +104,8 @@ export const blocks = pgTable(
   },
   (t) => [
     uniqueIndex("blocks_farm_code_unique").on(t.farmId, t.code),
+    // The target of the tenant keys below: a harvest or a value change names its block and its farm together.
+    unique("blocks_id_farm_unique").on(t.id, t.farmId),
     index("blocks_strain_idx").on(t.strainId),
     check("blocks_wet_mass_not_negative", sql`${t.wetMassG} >= 0`),
     check("blocks_spent_mass_not_negative", sql`${t.spentMassG} >= 0`),
@@ -113,13 +117,9 @@ export const harvests = pgTable(
   "harvests",
   {
     id: uuid("id").primaryKey().defaultRandom(),
-    // Repeated from the block so row-level security needs no join.
-    farmId: uuid("farm_id")
-      .notNull()
-      .references(() => farms.id, { onDelete: "cascade" }),
-    blockId: uuid("block_id")
-      .notNull()
-      .references(() => blocks.id, { onDelete: "cascade" }),
+    // Repeated from the block so row-level security needs no join; the tenant key below makes it the block's farm.
+    farmId: uuid("farm_id").notNull(),
+    blockId: uuid("block_id").notNull(),
     flush: integer("flush").notNull(),
     harvestedOn: date("harvested_on"),
     freshMassG: numeric("fresh_mass_g", { mode: "number" }).notNull(),
@@ -135,6 +135,10 @@ export const harvests = pgTable(
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [
+    // The tenant key: the block must be one of the harvest's own farm (it also stands for keys to blocks and farms alone).
+    foreignKey({ name: "harvests_block_farm_fk", columns: [t.blockId, t.farmId], foreignColumns: [blocks.id, blocks.farmId] }).onDelete(
+      "cascade",
+    ),
     uniqueIndex("harvests_block_flush_unique").on(t.blockId, t.flush),
     index("harvests_farm_idx").on(t.farmId),
     check("harvests_flush_positive", sql`${t.flush} >= 1`),
@@ -148,12 +152,8 @@ export const valueChanges = pgTable(
   "value_changes",
   {
     id: bigserial("id", { mode: "number" }).primaryKey(),
-    farmId: uuid("farm_id")
-      .notNull()
-      .references(() => farms.id, { onDelete: "cascade" }),
-    blockId: uuid("block_id")
-      .notNull()
-      .references(() => blocks.id, { onDelete: "cascade" }),
+    farmId: uuid("farm_id").notNull(),
+    blockId: uuid("block_id").notNull(),
     flush: integer("flush"),
     field: text("field").notNull(),
     oldValue: text("old_value"),
@@ -162,7 +162,15 @@ export const valueChanges = pgTable(
     changedBy: uuid("changed_by").references(() => users.id, { onDelete: "set null" }),
     changedAt: timestamp("changed_at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [index("value_changes_block_idx").on(t.blockId, t.changedAt)],
+  (t) => [
+    // The same tenant key as a harvest's: history of a block is kept under the block's own farm.
+    foreignKey({
+      name: "value_changes_block_farm_fk",
+      columns: [t.blockId, t.farmId],
+      foreignColumns: [blocks.id, blocks.farmId],
+    }).onDelete("cascade"),
+    index("value_changes_block_idx").on(t.blockId, t.changedAt),
+  ],
 );
 
 /** What a farm chose last time: its column mapping and default mass unit. */

@@ -19,7 +19,7 @@ import { seasonLogTemplateCsv } from "@/lib/import";
 import { isAppError } from "@/lib/errors";
 import { runQueuedJobs, stopJobWorkers } from "@/lib/jobs/worker";
 import type { ParseChoices } from "@/lib/season-logs/report";
-import { superuserPool, twoDemoFarms, type DemoFarm } from "./support/database";
+import { databaseRefusal, superuserPool, twoDemoFarms, type DemoFarm } from "./support/database";
 
 let inspector: Pool;
 let farmA: DemoFarm;
@@ -377,5 +377,127 @@ describe("the quick harvest form's data", () => {
     );
     expect(fromB.code).toBe("invalid_input");
     expect((await refusal(getBlock(asFarmB, blockId))).code).toBe("not_found");
+  });
+});
+
+/** Temporary tables a commit staged its rows in, in any session: they must not outlive its transaction. */
+async function stagingTablesLeft(): Promise<number> {
+  const { rows } = await inspector.query<{ count: number }>(
+    "select count(*)::int as count from pg_class where relpersistence = 't' and relname like 'commit\\_%'",
+  );
+  return rows[0].count;
+}
+
+describe("the commit's rows staged by COPY", () => {
+  it("leaves nothing when a constraint refuses a row half-way through a large commit, and commits once the row may go in", async () => {
+    // A test-only check refuses one harvest in the middle of 3 000, so the COPY and the block insert have run by then.
+    await inspector.query("alter table harvests add constraint test_refuse_777 check (fresh_mass_g <> 777) not valid");
+    const blockNumbers = Array.from({ length: 1500 }, (_, index) => index + 1);
+    const view = await upload(asFarmA, sheet("IT-K", blockNumbers, { fresh: (block) => (block === 750 ? 777 : 500) }), "large.csv");
+    expect(view.canCommit).toBe(true);
+    try {
+      expect(await databaseRefusal(commitUpload(asFarmA, view.upload.id, {}))).toContain("test_refuse_777");
+      const { rows } = await inspector.query<{ blocks: number; harvests: number; history: number }>(
+        `select (select count(*)::int from blocks where code like 'IT-K-%') as blocks,
+           (select count(*)::int from harvests where upload_id = $1) as harvests,
+           (select count(*)::int from value_changes where upload_id = $1) as history`,
+        [view.upload.id],
+      );
+      expect(rows[0]).toEqual({ blocks: 0, harvests: 0, history: 0 });
+      const { rows: kept } = await inspector.query("select outcome, committed_at from uploads where id = $1", [view.upload.id]);
+      expect(kept[0]).toEqual({ outcome: "received", committed_at: null });
+      expect(await stagingTablesLeft()).toBe(0);
+    } finally {
+      await inspector.query("alter table harvests drop constraint if exists test_refuse_777");
+    }
+    const receipt = await commitUpload(asFarmA, view.upload.id, {});
+    expect(receipt.counts).toMatchObject({ newBlocks: 1500, newHarvests: 3000 });
+    expect(await stagingTablesLeft()).toBe(0);
+    const { rows: stored } = await inspector.query<{ count: number }>(
+      "select count(*)::int as count from harvests h join blocks b on b.id = h.block_id and b.farm_id = h.farm_id where h.upload_id = $1 and b.farm_id = $2",
+      [view.upload.id, farmA.id],
+    );
+    expect(stored[0].count).toBe(3000);
+  });
+
+  it("changes nothing when the same rows come again in another file", async () => {
+    const text = sheet("IT-S", [1, 2, 3, 4]);
+    await commitUpload(asFarmA, (await upload(asFarmA, text, "same-rows.csv")).upload.id, {});
+    const stored = async () =>
+      (
+        await inspector.query<Record<string, unknown>>(
+          `select b.code, b.updated_at, b.last_upload_id, h.flush, h.fresh_mass_g::text, h.updated_at as harvest_updated, h.upload_id
+           from blocks b join harvests h on h.block_id = b.id where b.farm_id = $1 and b.code like 'IT-S-%' order by 1, 4`,
+          [farmA.id],
+        )
+      ).rows;
+    const before = await stored();
+    // The same rows in another order: another file (another SHA-256), so it is not refused as already imported.
+    const [head, ...lines] = text.trimEnd().split("\r\n");
+    const again = await upload(asFarmA, `${[head, ...lines.reverse()].join("\r\n")}\r\n`, "same-rows-reordered.csv");
+    expect(again.canCommit).toBe(true);
+    const receipt = await commitUpload(asFarmA, again.upload.id, {});
+    expect(receipt.counts).toMatchObject({ newBlocks: 0, changedBlocks: 0, newHarvests: 0, changedHarvests: 0, untouchedHarvests: 8 });
+    expect(receipt.changedValues).toBe(0);
+    expect(await stored()).toEqual(before);
+    expect(await historyCount(farmA, "IT-S-")).toBe(0);
+  });
+
+  it("keeps history as the plan says it, value for value, and a note's tab, backslash and line break as written", async () => {
+    const first = `${header}\r\nIT-H-1,PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,1,2026-04-10,500 g,no,first note\r\n`;
+    await commitUpload(asFarmA, (await upload(asFarmA, first, "history-1.csv")).upload.id, {});
+    const note = 'bag split\tat the seam\\ see "photo 2"\nsecond line';
+    const second = `${header}\r\nIT-H-1,PO-01,HWB-20,2026-03-02,2.6 kg,60 %,SLIT-ACROSS,1,2026-04-11,1 lb,no,"${note.replace(/"/g, '""')}"\r\n`;
+    const view = await upload(asFarmA, second, "history-2.csv");
+    expect(view.canCommit).toBe(true);
+    const receipt = await commitUpload(asFarmA, view.upload.id, {});
+    expect(receipt.changedValues).toBe(view.report.preview.changes.length);
+    expect(view.report.preview.changes.length).toBeGreaterThanOrEqual(5);
+    const { rows: history } = await inspector.query<{
+      change: Record<string, unknown>;
+      upload_id: string;
+      changed_by: string;
+      farm_id: string;
+    }>(
+      `select json_build_object('blockCode', b.code, 'flush', v.flush, 'field', v.field, 'oldValue', v.old_value, 'newValue', v.new_value) as change,
+         v.upload_id, v.changed_by, v.farm_id
+       from value_changes v join blocks b on b.id = v.block_id where b.code = 'IT-H-1' and b.farm_id = $1 order by v.id`,
+      [farmA.id],
+    );
+    expect(history.map((row) => row.change)).toEqual(view.report.preview.changes);
+    for (const row of history) expect(row).toMatchObject({ upload_id: view.upload.id, changed_by: farmA.managerId, farm_id: farmA.id });
+    const { rows: block } = await inspector.query(
+      `select b.notes, b.wet_mass_as_written, h.fresh_mass_as_written, h.fresh_mass_g::float8 as fresh
+       from blocks b join harvests h on h.block_id = b.id where b.code = 'IT-H-1' and b.farm_id = $1`,
+      [farmA.id],
+    );
+    expect(block[0]).toEqual({ notes: note, wet_mass_as_written: "2.6 kg", fresh_mass_as_written: "1 lb", fresh: 453.59237 });
+  });
+});
+
+describe("the tenant key: a harvest's block is of the harvest's own farm", () => {
+  it("refuses the superuser a harvest or a value change of farm A on farm B's block, though it bypasses row-level security", async () => {
+    await commitUpload(asFarmB, (await upload(asFarmB, sheet("IT-T", [1], { flushes: 1 }), "tenant.csv")).upload.id, {});
+    const { rows } = await inspector.query<{ id: string }>("select id from blocks where farm_id = $1 and code = 'IT-T-1'", [farmB.id]);
+    const farmBBlock = rows[0].id;
+    expect(
+      await databaseRefusal(
+        inspector.query("insert into harvests (farm_id, block_id, flush, fresh_mass_g) values ($1, $2, 5, 100)", [farmA.id, farmBBlock]),
+      ),
+    ).toContain("harvests_block_farm_fk");
+    expect(
+      await databaseRefusal(
+        inspector.query("insert into value_changes (farm_id, block_id, field, old_value, new_value) values ($1, $2, 'notes', 'a', 'b')", [
+          farmA.id,
+          farmBBlock,
+        ]),
+      ),
+    ).toContain("value_changes_block_farm_fk");
+    // Nor may a stored harvest be moved to another farm while its block stays.
+    expect(
+      await databaseRefusal(inspector.query("update harvests set farm_id = $1 where block_id = $2", [farmA.id, farmBBlock])),
+    ).toContain("harvests_block_farm_fk");
+    const { rows: kept } = await inspector.query<{ farm_id: string }>("select farm_id from harvests where block_id = $1", [farmBBlock]);
+    expect(kept).toEqual([{ farm_id: farmB.id }]);
   });
 });

@@ -1,6 +1,8 @@
 import { Client, type Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { closeDatabase } from "@/db/client";
+import { eq, sql } from "drizzle-orm";
+import { closeDatabase, withFarmContext } from "@/db/client";
+import { blocks } from "@/db/schema";
 import { hashPassword } from "@/lib/auth/password";
 import { checkPassword } from "@/lib/data/sign-in";
 import { superuserPool } from "../support/database";
@@ -12,6 +14,11 @@ import { superuserPool } from "../support/database";
  * "access_tokens" would read the attacker's table: a reset "token" the attacker made up for the
  * victim, and the victim's password hash overwritten with the attacker's. PostgreSQL
  * documentation, "Writing SECURITY DEFINER Functions Safely" (CREATE FUNCTION).
+ * Migration 0016 fixed every such function's search_path with pg_temp last and took TEMPORARY
+ * from the app role; 0025 gave TEMPORARY back to rhizo_app alone (a commit stages its rows in
+ * temporary tables). What must hold now: the attack fails with the grant in place, no definer
+ * function searches pg_temp before public, the app's own queries in a farm transaction do not
+ * read a temporary table named like a real one, and the analyst still cannot make one.
  */
 
 let inspector: Pool;
@@ -71,26 +78,48 @@ async function victimHash(): Promise<string> {
 }
 
 describe("a temporary table named like a real one", () => {
-  it("cannot be made by the app role: rhizo_app has no TEMPORARY privilege on the database", async () => {
-    const { rows } = await inspector.query<{ allowed: boolean }>(
-      "select has_database_privilege('rhizo_app', current_database(), 'TEMPORARY') as allowed",
+  it("is not read by a definer function although the app role may make one (search_path puts pg_temp last)", async () => {
+    const { rows } = await inspector.query<{ app: boolean; analyst: boolean; everyone: boolean }>(
+      `select has_database_privilege('rhizo_app', current_database(), 'TEMPORARY') as app,
+        has_database_privilege('rhizo_analyst', current_database(), 'TEMPORARY') as analyst,
+        exists (select 1 from pg_database d, aclexplode(d.datacl) a
+                where d.datname = current_database() and a.grantee = 0 and a.privilege_type = 'TEMPORARY') as everyone`,
     );
-    expect(rows[0].allowed).toBe(false);
-    await expect(asApp(shadowAccessTokens)).rejects.toThrow(/permission denied to create temporary tables/);
+    expect(rows[0]).toEqual({ app: true, analyst: false, everyone: false });
+    expect(await asApp(shadowAccessTokens)).toBe("unknown");
     expect(await victimHash()).toBe(victim.passwordHash);
     expect(await checkPassword(victim.email, attackerPassword, "10.9.0.1")).toEqual({ status: "refused" });
   });
 
-  it("would not be read by a definer function even where the role could make one (search_path puts pg_temp last)", async () => {
-    const database = process.env.RHIZO_DATABASE!;
-    await inspector.query(`grant temporary on database "${database}" to rhizo_app`);
+  it("is not read by the app's own queries in a farm transaction, even left behind in a pooled connection", async () => {
+    const { rows: managers } = await inspector.query<{ userId: string; farmId: string }>(
+      `select u.id as "userId", u.farm_id as "farmId" from users u
+       where u.role = 'farm_manager' and exists (select 1 from blocks b where b.farm_id = u.farm_id) limit 1`,
+    );
+    const context = { ...managers[0], role: "farm_manager" as const };
+    const farmId = context.farmId;
+    const seen = await withFarmContext(context, async (tx) => {
+      // What an attacker with one statement as rhizo_app would leave for the connection's next user.
+      await tx.execute(sql`create temporary table blocks (id uuid, farm_id uuid, code text)`);
+      await tx.execute(sql`insert into pg_temp.blocks values (gen_random_uuid(), ${farmId}::uuid, 'SHADOW-1')`);
+      const read = await tx.select({ code: blocks.code }).from(blocks).where(eq(blocks.farmId, farmId));
+      await tx.execute(sql`drop table pg_temp.blocks`);
+      return read.map((row) => row.code);
+    });
+    expect(seen.length).toBeGreaterThan(0);
+    expect(seen).not.toContain("SHADOW-1");
+  });
+
+  it("cannot be made by the analyst role", async () => {
+    const client = new Client({ connectionString: process.env.ANALYST_DATABASE_URL });
+    await client.connect();
     try {
-      const outcome = await asApp(shadowAccessTokens);
-      expect(outcome).toBe("unknown");
+      await expect(client.query("create temp table access_tokens (id uuid)")).rejects.toThrow(
+        /permission denied to create temporary tables/,
+      );
     } finally {
-      await inspector.query(`revoke temporary on database "${database}" from rhizo_app`);
+      await client.end();
     }
-    expect(await victimHash()).toBe(victim.passwordHash);
   });
 
   it("every SECURITY DEFINER function of the app sets search_path with pg_temp last", async () => {
