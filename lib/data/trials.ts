@@ -30,6 +30,7 @@ import { AppError } from "@/lib/errors";
 import { trialListCsv } from "@/lib/season-logs/export";
 import {
   enrolmentConfirmationMail,
+  resultsAmendedMail,
   resultsPublishedMail,
   trialInvitationMail,
   trialReminderMail,
@@ -739,7 +740,7 @@ export async function amendPublishedAnalysis(
       );
     await tx.execute(sql`select 1 from trials where id = ${trialId} for update`);
     const [run] = await tx
-      .select({ id: trialAnalyses.id, run: trialAnalyses.run, version: trialPublications.version })
+      .select({ id: trialAnalyses.id, run: trialAnalyses.run, results: trialAnalyses.results, version: trialPublications.version })
       .from(trialAnalyses)
       .leftJoin(trialPublications, eq(trialPublications.analysisId, trialAnalyses.id))
       .where(and(eq(trialAnalyses.id, input.analysisId), eq(trialAnalyses.trialId, trialId)));
@@ -768,6 +769,16 @@ export async function amendPublishedAnalysis(
       subject: `${trial.code}: version ${version}`,
       details: { trialId, run: run.run, version, reason: input.reason.trim() },
     });
+    // Everyone was told of the results when they were published; each is told of the amendment too.
+    const people = await tx.select({ email: users.email }).from(users).where(eq(users.active, true));
+    const mail = resultsAmendedMail({
+      trial,
+      version,
+      reason: input.reason.trim(),
+      answer: (run.results as StoredResults).analysis.answer,
+      resultsUrl: `${appUrl()}/trials/${trialId}/results`,
+    });
+    for (const person of people) await deliver(tx, "trial-results", person.email, mail);
     return { version };
   });
 }

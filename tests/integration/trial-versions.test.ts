@@ -272,6 +272,13 @@ describe("publishing and amending", () => {
       [trialId],
     );
     expect(rows.map((row) => [row.details.version, row.details.reason])).toEqual([[2, reason]]);
+    // Everyone told of the results is told of the amendment, one message each (queued with the amendment).
+    const { rows: mail } = await inspector.query<{ recipient: string }>(
+      "select recipient from outgoing_mail where kind = 'trial-results' and subject like $1",
+      [`Amended results of trial ${(await getTrial(coordinator, trialId)).code}:%`],
+    );
+    const { rows: people } = await inspector.query<{ email: string }>("select email from users where active");
+    expect(mail.map((row) => row.recipient).sort()).toEqual(people.map((person) => person.email).sort());
     await expect(amendPublishedAnalysis(coordinator, trialId, { analysisId: run2.id, reason })).rejects.toMatchObject({ code: "conflict" });
   });
 });
