@@ -6,6 +6,7 @@ import { Notice } from "@/components/ui/notice";
 import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { can } from "@/lib/auth/permissions";
+import Link from "next/link";
 import { notFound } from "next/navigation";
 import type { PublishedVersion, StoredResults, TrialView } from "@/lib/data/trials";
 import type { Difference } from "@/lib/trials/analysis";
@@ -67,6 +68,11 @@ export default async function TrialResultsPage({
         <p className="mb-6 text-sm text-ink-soft" data-testid="shown-version">
           Version {shownVersion.version} of this report{shownVersion.version > 1 ? " (an amendment)" : ""}, published{" "}
           {day(shownVersion.publishedAt)}: run {shownVersion.run.run} of the analysis, made {day(shownVersion.run.ranAt)}.
+          {shownVersion.version < trial.versions[0].version ? (
+            <strong className="ml-1">
+              Version {trial.versions[0].version} replaces it: <Link href={`/trials/${trial.id}/results`}>read the version in force</Link>.
+            </strong>
+          ) : null}
         </p>
       ) : null}
       {!results ? (
