@@ -57,7 +57,13 @@ import {
   type TrialStatus,
 } from "@/lib/trials";
 import { verifyOptOutToken } from "@/lib/trials/reminder-opt-out";
-import { amendmentReasonProblem, analysisFingerprint, analysisInputCounts, type AnalysisInputCounts } from "@/lib/trials/versions";
+import {
+  amendmentReasonProblem,
+  analysisFingerprint,
+  analysisInputCounts,
+  farmsChangedBetween,
+  type AnalysisInputCounts,
+} from "@/lib/trials/versions";
 import { env } from "@/lib/env";
 
 export interface ArmInput {
@@ -740,7 +746,13 @@ export async function amendPublishedAnalysis(
       );
     await tx.execute(sql`select 1 from trials where id = ${trialId} for update`);
     const [run] = await tx
-      .select({ id: trialAnalyses.id, run: trialAnalyses.run, results: trialAnalyses.results, version: trialPublications.version })
+      .select({
+        id: trialAnalyses.id,
+        run: trialAnalyses.run,
+        results: trialAnalyses.results,
+        inputs: trialAnalyses.inputs,
+        version: trialPublications.version,
+      })
       .from(trialAnalyses)
       .leftJoin(trialPublications, eq(trialPublications.analysisId, trialAnalyses.id))
       .where(and(eq(trialAnalyses.id, input.analysisId), eq(trialAnalyses.trialId, trialId)));
@@ -750,11 +762,25 @@ export async function amendPublishedAnalysis(
         "conflict",
         `Run ${run.run} is already published as version ${run.version}. Run the analysis again and amend with the new run.`,
       );
-    const [{ highest }] = await tx
-      .select({ highest: sql<number>`coalesce(max(${trialPublications.version}), 0)::int` })
+    const [inForce] = await tx
+      .select({ version: trialPublications.version, run: trialAnalyses.run, inputs: trialAnalyses.inputs })
       .from(trialPublications)
-      .where(eq(trialPublications.trialId, trialId));
-    const version = highest + 1;
+      .innerJoin(trialAnalyses, eq(trialAnalyses.id, trialPublications.analysisId))
+      .where(eq(trialPublications.trialId, trialId))
+      .orderBy(desc(trialPublications.version))
+      .limit(1);
+    // Both versions stay readable, so their difference must not show a few farms' blocks: as with the
+    // co-op's releases, records must have changed on no farm or on at least the minimum number of farms.
+    const before = (inForce.inputs as AnalysisInputCounts | null)?.farmFingerprints;
+    const after = (run.inputs as AnalysisInputCounts | null)?.farmFingerprints;
+    const minimumFarms = await minimumFarmsOf(tx);
+    const changed = before && after ? farmsChangedBetween(before, after) : 0;
+    if (changed > 0 && changed < minimumFarms)
+      throw new AppError(
+        "conflict",
+        `Since version ${inForce.version} (run ${inForce.run}) the records of ${changed === 1 ? "one farm" : `${changed} farms`} changed. Both versions stay readable, so comparing them would show ${changed === 1 ? "that farm's" : "those farms'"} blocks; an amendment needs changes from no farm or from at least ${minimumFarms} farms, the co-op's minimum. Wait for the other farms' late records and run the analysis again.`,
+      );
+    const version = inForce.version + 1;
     await tx.insert(trialPublications).values({
       trialId,
       analysisId: run.id,

@@ -1,5 +1,12 @@
 import { describe, expect, it } from "vitest";
-import { amendmentLine, amendmentReasonProblem, analysisFingerprint, analysisInputCounts, type AnalysisInputs } from "./versions";
+import {
+  amendmentLine,
+  amendmentReasonProblem,
+  analysisFingerprint,
+  analysisInputCounts,
+  farmsChangedBetween,
+  type AnalysisInputs,
+} from "./versions";
 
 // Invented blocks: 2500 g wet at 60 % moisture is 1000 g of dry substrate.
 const inputs: AnalysisInputs = {
@@ -87,7 +94,33 @@ describe("analysisFingerprint", () => {
 describe("analysisInputCounts", () => {
   it("counts farms, blocks, harvests, and the blocks compared and left out", () => {
     // b1 is through flush 2; b2 gave flush 1 only but is marked spent; b3 is contaminated (left out); b4 is unfinished.
-    expect(analysisInputCounts(inputs)).toEqual({ farms: 2, blocks: 4, harvests: 4, compared: 2, leftOut: 2 });
+    const counts = analysisInputCounts(inputs);
+    expect(counts).toMatchObject({ farms: 2, blocks: 4, harvests: 4, compared: 2, leftOut: 2 });
+    expect(counts.farmFingerprints).toHaveLength(2);
+    expect(counts.farmFingerprints.every((fingerprint) => /^[0-9a-f]{32}$/.test(fingerprint))).toBe(true);
+    // No farm id is stored beside them, and they come sorted, not in farm order.
+    expect([...counts.farmFingerprints].sort()).toEqual(counts.farmFingerprints);
+  });
+});
+
+describe("farmsChangedBetween", () => {
+  const farmPrints = (change: Partial<AnalysisInputs>) => analysisInputCounts({ ...inputs, ...change }).farmFingerprints;
+  const before = farmPrints({});
+
+  it("counts the farms whose records changed, were added or are gone", () => {
+    expect(farmsChangedBetween(before, farmPrints({ harvestRows: [...inputs.harvestRows].reverse() }))).toBe(0);
+    // Farm f2's unfinished block gets its flush 2.
+    const f2Late = farmPrints({ harvestRows: [...inputs.harvestRows, { blockId: "b4", flush: 2, freshMassG: 190 }] });
+    expect(farmsChangedBetween(before, f2Late)).toBe(1);
+    // Both farms change.
+    const bothLate = farmPrints({
+      harvestRows: [...inputs.harvestRows, { blockId: "b4", flush: 2, freshMassG: 190 }, { blockId: "b2", flush: 2, freshMassG: 200 }],
+    });
+    expect(farmsChangedBetween(before, bothLate)).toBe(2);
+    // A third farm's first block; and a farm gone.
+    const third = farmPrints({ blockRows: [...inputs.blockRows, { ...inputs.blockRows[0], id: "b9", farmId: "f3" }] });
+    expect(farmsChangedBetween(before, third)).toBe(1);
+    expect(farmsChangedBetween(third, before)).toBe(1);
   });
 });
 

@@ -14,6 +14,12 @@ export interface AnalysisInputCounts {
   /** Blocks the outcome compared, and those it left out (listed by reason in the report). */
   compared: number;
   leftOut: number;
+  /**
+   * One fingerprint per farm of that farm's values, sorted (no farm id beside them): two runs show
+   * how many farms' records changed between them, and nobody learns which. Their block ids (random
+   * UUIDs) are part of each, so none can be worked back to a farm's masses.
+   */
+  farmFingerprints: string[];
 }
 
 /** Everything a run's result depends on, apart from the pseudonyms it draws and the time it ran. */
@@ -36,7 +42,56 @@ export function analysisInputCounts(inputs: AnalysisInputs): AnalysisInputCounts
     harvests: inputs.harvestRows.length,
     compared: records.filter((record) => record.value !== null).length,
     leftOut: records.filter((record) => record.excluded !== null).length,
+    farmFingerprints: [...new Set(inputs.blockRows.map((row) => row.farmId))]
+      .map((farmId) => {
+        const own = new Set(inputs.blockRows.filter((row) => row.farmId === farmId).map((row) => row.id));
+        return sha(
+          canonicalBlocks(
+            inputs.blockRows.filter((row) => own.has(row.id)),
+            inputs.harvestRows.filter((row) => own.has(row.blockId)),
+          ),
+        );
+      })
+      .sort(byText),
   };
+}
+
+/**
+ * How many farms' records differ between two runs, from their farm fingerprints: a farm changed,
+ * added or gone counts once.
+ */
+export function farmsChangedBetween(before: readonly string[], after: readonly string[]): number {
+  const missingFrom = (from: readonly string[], other: readonly string[]) => {
+    const left = [...other];
+    return from.filter((fingerprint) => {
+      const at = left.indexOf(fingerprint);
+      if (at === -1) return true;
+      left.splice(at, 1);
+      return false;
+    }).length;
+  };
+  return Math.max(missingFrom(after, before), missingFrom(before, after));
+}
+
+const sha = (value: unknown) => createHash("sha256").update(JSON.stringify(value)).digest("hex").slice(0, 32);
+
+function canonicalBlocks(blockRows: readonly TrialBlockRow[], harvestRows: AnalysisInputs["harvestRows"]) {
+  const harvestsByBlock = new Map<string, [number, number][]>();
+  for (const harvest of harvestRows)
+    harvestsByBlock.set(harvest.blockId, [...(harvestsByBlock.get(harvest.blockId) ?? []), [harvest.flush, Number(harvest.freshMassG)]]);
+  const numberOrNull = (value: number | null) => (value === null ? null : Number(value));
+  return [...blockRows]
+    .sort((a, b) => byText(a.id, b.id))
+    .map((row) => [
+      row.id,
+      row.farmId,
+      row.armId,
+      numberOrNull(row.wetMassG),
+      numberOrNull(row.moisture),
+      row.contaminated,
+      numberOrNull(row.spentMassG),
+      (harvestsByBlock.get(row.id) ?? []).sort((a, b) => a[0] - b[0] || a[1] - b[1]),
+    ]);
 }
 
 const byText = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
@@ -48,30 +103,14 @@ const byText = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
  * numbers, so 2500 and 2500.0 are the same value.
  */
 export function analysisFingerprint(inputs: AnalysisInputs): string {
-  const harvestsByBlock = new Map<string, [number, number][]>();
-  for (const harvest of inputs.harvestRows)
-    harvestsByBlock.set(harvest.blockId, [...(harvestsByBlock.get(harvest.blockId) ?? []), [harvest.flush, Number(harvest.freshMassG)]]);
-  const numberOrNull = (value: number | null) => (value === null ? null : Number(value));
-  const canonical = {
+  return sha({
     outcome: [inputs.outcome.flushes, inputs.outcome.contaminatedHandling],
     settings: [inputs.minimumFarms, inputs.showPerFarmEstimates],
     arms: [...inputs.arms].sort((a, b) => byText(a.id, b.id)).map((arm) => [arm.id, arm.label, arm.isReference]),
     enrolments: inputs.enrolments.map((enrolment) => enrolment.status).sort(byText),
     assigned: Object.entries(inputs.assignedByArm).sort(([a], [b]) => byText(a, b)),
-    blocks: [...inputs.blockRows]
-      .sort((a, b) => byText(a.id, b.id))
-      .map((row) => [
-        row.id,
-        row.farmId,
-        row.armId,
-        numberOrNull(row.wetMassG),
-        numberOrNull(row.moisture),
-        row.contaminated,
-        numberOrNull(row.spentMassG),
-        (harvestsByBlock.get(row.id) ?? []).sort((a, b) => a[0] - b[0] || a[1] - b[1]),
-      ]),
-  };
-  return createHash("sha256").update(JSON.stringify(canonical)).digest("hex").slice(0, 32);
+    blocks: canonicalBlocks(inputs.blockRows, inputs.harvestRows),
+  });
 }
 
 /** An amendment says why the published analysis changed; a word or two is not a reason a reader can weigh. */

@@ -70,7 +70,11 @@ export default async function TrialResultsPage({
           {day(shownVersion.publishedAt)}: run {shownVersion.run.run} of the analysis, made {day(shownVersion.run.ranAt)}.
           {shownVersion.version < trial.versions[0].version ? (
             <strong className="ml-1">
-              Version {trial.versions[0].version} replaces it: <Link href={`/trials/${trial.id}/results`}>read the version in force</Link>.
+              Version {trial.versions[0].version} replaces it:{" "}
+              <Link className="underline" href={`/trials/${trial.id}/results`}>
+                read the version in force
+              </Link>
+              .
             </strong>
           ) : null}
         </p>
