@@ -126,7 +126,9 @@ export function AnalysisRunsCard({ trial }: { trial: TrialView }) {
                   className="block w-full rounded-lg border border-oat-300 px-3 py-2"
                 />
                 <p id="reason-help" className="text-sm text-ink-soft">
-                  Shown above the original on the report, e.g. &ldquo;Two farms&apos; flush 2 records arrived after publication.&rdquo;
+                  Shown above the original on the report, e.g. &ldquo;Three farms&apos; flush 2 records arrived after publication.&rdquo;
+                  Both versions stay readable, so records must have changed on no farm or on at least the co-op&apos;s minimum number of
+                  farms: otherwise comparing them would show those farms&apos; blocks.
                 </p>
               </div>
             </ActionForm>
