@@ -1,7 +1,7 @@
 /**
  * Publishes the demo's finished oyster trial with its analysis, so the demo shows a published
- * report. Runs at the end of the seed: the analysis is the one the app runs when the coordinator
- * closes a trial (lib/data/trials.ts), so only what a report may show is stored.
+ * report. Runs at the end of the seed: the analysis is the run the app makes when the coordinator
+ * closes a trial (lib/data/trials.ts), so only what a report may show is stored; it is published as version 1.
  */
 import { eq } from "drizzle-orm";
 import type { NodePgDatabase } from "drizzle-orm/node-postgres";
@@ -15,24 +15,31 @@ export async function publishDemoTrial(owner: NodePgDatabase<typeof schema>, cod
   const coordinatorRow = await owner.query.users.findFirst({ where: (users, { eq: equals }) => equals(users.role, "coordinator") });
   const coordinator = coordinatorRow ? await loadMember(coordinatorRow.id) : null;
   if (!trial || !coordinator) return;
-  const results = { ...(await analyseTrialAsCoordinator(coordinator, trial.id)), analysedAt: publishedAt.toISOString() };
-  await owner
-    .update(schema.trials)
-    .set({ status: "published", publishedResults: results, publishedAt })
-    .where(eq(schema.trials.id, trial.id));
-  // The audit log is append-only and forced under row-level security: write it as the coordinator would.
-  await withFarmContext({ userId: coordinator.id, farmId: null, role: "coordinator" }, (tx) =>
-    tx.insert(schema.auditEvents).values(
+  const closedAt = new Date(publishedAt.getTime() - 86_400_000);
+  const { id: analysisId, results } = await analyseTrialAsCoordinator(coordinator, trial.id, closedAt);
+  await owner.update(schema.trials).set({ status: "published", publishedAt }).where(eq(schema.trials.id, trial.id));
+  // The audit log and the published versions are forced under row-level security: write them as the coordinator would.
+  await withFarmContext({ userId: coordinator.id, farmId: null, role: "coordinator" }, async (tx) => {
+    await tx.insert(schema.trialPublications).values({
+      trialId: trial.id,
+      analysisId,
+      version: 1,
+      publishedAt,
+      publishedBy: coordinator.id,
+      publishedByName: coordinator.name,
+    });
+    await tx.insert(schema.auditEvents).values(
       (["collecting", "published"] as const).map((to, index) => ({
         action: "trial.status_changed",
         subject: code,
         actorUserId: coordinator.id,
         actorLabel: coordinator.name,
-        details: { trialId: trial.id, from: index === 0 ? "running" : "collecting", to },
-        occurredAt: new Date(publishedAt.getTime() - (1 - index) * 86_400_000),
+        details:
+          index === 0 ? { trialId: trial.id, from: "running", to } : { trialId: trial.id, from: "collecting", to, run: 1, version: 1 },
+        occurredAt: index === 0 ? closedAt : publishedAt,
       })),
-    ),
-  );
+    );
+  });
   console.log(
     `  trial ${code}: published with its analysis (${results.analysis.blocksAnalysed} blocks from ${results.analysis.farmsContributing} farms)`,
   );

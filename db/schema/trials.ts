@@ -37,11 +37,11 @@ export const trials = pgTable(
     expectedSd: numeric("expected_sd", { mode: "number" }),
     plannedFarms: integer("planned_farms"),
     expectedLoss: numeric("expected_loss", { mode: "number" }),
-    publishedResults: jsonb("published_results"),
     // Farms that withdrew their data after publication: the report keeps its figures and says so.
     withdrawalsAfterPublication: integer("withdrawals_after_publication").notNull().default(0),
     createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    /** When the first version was published; each version's own date is in trial_publications. */
     publishedAt: timestamp("published_at", { withTimezone: true }),
   },
   (t) => [
@@ -121,10 +121,68 @@ export const trialBlockAssignments = pgTable(
 );
 
 /**
- * Which pseudonym a trial report gave each farm ("Farm C"), drawn at random when the trial is
- * analysed, and the farm's own estimates: row-level security lets only that farm's people read
- * its row, so a farm finds itself in the report and nobody else can tell which row is whose.
- * Written by rhizo_analyst with the analysis.
+ * Every run of a trial's analysis, kept: closing runs it first, the coordinator runs it again as
+ * records arrive. A run holds only what the report may show (StoredTrialResults), what it read
+ * (counts) and a fingerprint of the values it analysed. Nobody updates or deletes a run (0025):
+ * members and observers read only runs that were published (trial_publications).
+ */
+export const trialAnalyses = pgTable(
+  "trial_analyses",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    /** 1, 2, … per trial, in the order the runs were made. */
+    run: integer("run").notNull(),
+    ranAt: timestamp("ran_at", { withTimezone: true }).notNull().defaultNow(),
+    // Who ran it, as the audit log keeps an actor: no foreign key, so removing a user never rewrites a run.
+    ranBy: uuid("ran_by"),
+    ranByName: text("ran_by_name").notNull(),
+    results: jsonb("results").notNull(),
+    /** Null for the one analysis a trial kept before runs were (see the migration). */
+    inputs: jsonb("inputs"),
+    fingerprint: text("fingerprint"),
+  },
+  (t) => [uniqueIndex("trial_analyses_run_unique").on(t.trialId, t.run), check("trial_analyses_run_positive", sql`${t.run} >= 1`)],
+);
+
+/**
+ * A published version of a trial's report: version 1 is the original; each later one is an
+ * amendment with its reason, shown above the versions before it, which stay readable. Insert-only.
+ */
+export const trialPublications = pgTable(
+  "trial_publications",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    analysisId: uuid("analysis_id")
+      .notNull()
+      .references(() => trialAnalyses.id, { onDelete: "cascade" }),
+    version: integer("version").notNull(),
+    publishedAt: timestamp("published_at", { withTimezone: true }).notNull().defaultNow(),
+    publishedBy: uuid("published_by"),
+    publishedByName: text("published_by_name").notNull(),
+    /** Why the version before was amended; none for the original. */
+    reason: text("reason"),
+  },
+  (t) => [
+    uniqueIndex("trial_publications_version_unique").on(t.trialId, t.version),
+    uniqueIndex("trial_publications_analysis_unique").on(t.analysisId),
+    check(
+      "trial_publications_reason",
+      sql`(${t.version} = 1 and ${t.reason} is null) or (${t.version} > 1 and ${t.reason} is not null and length(btrim(${t.reason})) >= 10)`,
+    ),
+  ],
+);
+
+/**
+ * Which pseudonym a run of a trial's analysis gave each farm ("Farm C"), drawn at random per run,
+ * and the farm's own estimates: row-level security lets only that farm's people read its row, and
+ * only for a published run, so a farm finds itself in the report and nobody else can tell which
+ * row is whose. Written with the run by the coordinator, who cannot read it.
  */
 export const trialReportFarms = pgTable(
   "trial_report_farms",
@@ -132,6 +190,9 @@ export const trialReportFarms = pgTable(
     trialId: uuid("trial_id")
       .notNull()
       .references(() => trials.id, { onDelete: "cascade" }),
+    analysisId: uuid("analysis_id")
+      .notNull()
+      .references(() => trialAnalyses.id, { onDelete: "cascade" }),
     farmId: uuid("farm_id")
       .notNull()
       .references(() => farms.id, { onDelete: "cascade" }),
@@ -139,5 +200,5 @@ export const trialReportFarms = pgTable(
     /** The farm's own difference against the reference arm, per arm (BE points, 95 % interval). */
     ownEstimates: jsonb("own_estimates").$type<{ arm: string; estimate: number; lower: number; upper: number }[]>().notNull(),
   },
-  (t) => [primaryKey({ columns: [t.trialId, t.farmId] })],
+  (t) => [primaryKey({ columns: [t.analysisId, t.farmId] }), index("trial_report_farms_trial_idx").on(t.trialId)],
 );

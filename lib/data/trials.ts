@@ -14,6 +14,8 @@ import {
   trialArms,
   trialBlockAssignments,
   trialEnrolments,
+  trialAnalyses,
+  trialPublications,
   trialReportFarms,
   trials,
   users,
@@ -29,6 +31,7 @@ import { todayUtc } from "@/lib/import/dates";
 import { trialListCsv } from "@/lib/season-logs/export";
 import {
   enrolmentConfirmationMail,
+  resultsAmendedMail,
   resultsPublishedMail,
   trialInvitationMail,
   trialReminderMail,
@@ -42,6 +45,7 @@ import {
   blockCodePrefix,
   incompleteCounts,
   remindersRun,
+  hasResults,
   isDesignEditable,
   permutedBlockList,
   TrialRuleError,
@@ -54,6 +58,13 @@ import {
   type TrialStatus,
 } from "@/lib/trials";
 import { verifyOptOutToken } from "@/lib/trials/reminder-opt-out";
+import {
+  amendmentReasonProblem,
+  analysisFingerprint,
+  analysisInputCounts,
+  farmsChangedBetween,
+  type AnalysisInputCounts,
+} from "@/lib/trials/versions";
 import { env } from "@/lib/env";
 
 export interface ArmInput {
@@ -144,7 +155,6 @@ async function loadTrial(tx: Transaction, member: Member, trialId: string) {
       expectedSd: trials.expectedSd,
       plannedFarms: trials.plannedFarms,
       expectedLoss: trials.expectedLoss,
-      publishedResults: trials.publishedResults,
       publishedAt: trials.publishedAt,
       withdrawalsAfterPublication: trials.withdrawalsAfterPublication,
     })
@@ -171,26 +181,118 @@ async function loadTrial(tx: Transaction, member: Member, trialId: string) {
     .leftJoin(treatments, eq(treatments.id, trialArms.treatmentId))
     .where(eq(trialArms.trialId, trialId))
     .orderBy(asc(trialArms.position));
-  return { ...trial, status: trial.status, arms, results: (trial.publishedResults as StoredResults | null) ?? null };
+  return { ...trial, arms };
 }
 
-export type TrialView = Awaited<ReturnType<typeof loadTrial>>;
+export type TrialBase = Awaited<ReturnType<typeof loadTrial>>;
+
+/** One run of the analysis as a page lists it: when, who, what it read; its publication if it has one. */
+export interface AnalysisRunView {
+  id: string;
+  run: number;
+  ranAt: Date;
+  ranByName: string;
+  /** Null for the analysis a trial kept before runs were recorded. */
+  inputs: AnalysisInputCounts | null;
+  fingerprint: string | null;
+  publication: { version: number; publishedAt: Date; publishedByName: string; reason: string | null } | null;
+}
+
+/** A published version of the report, with what it shows. */
+export interface PublishedVersion {
+  version: number;
+  publishedAt: Date;
+  reason: string | null;
+  run: AnalysisRunView;
+  results: StoredResults;
+}
+
+export interface TrialView extends TrialBase {
+  /** The report the page shows: the run asked for, else the newest published version, else (coordinator only) the newest run. */
+  results: StoredResults | null;
+  shownRun: AnalysisRunView | null;
+  /** Every run this member may read, newest first: all for the coordinator, the published ones for everybody else. */
+  runs: AnalysisRunView[];
+  /** Published versions, newest (the amendment in force) first. */
+  versions: PublishedVersion[];
+}
 
 /**
- * A trial as the member may read it. For a farm's people the report marks their own farm's rows,
- * from trial_report_farms, which row-level security lets them read for their own farm only.
+ * A trial as the member may read it, with the runs of its analysis that member may see (row-level
+ * security gives members and observers published runs only). For a farm's people each report marks
+ * their own farm's row, from trial_report_farms, which they can read for their own farm only.
  */
-export async function getTrial(member: Member, trialId: string): Promise<TrialView> {
+export async function getTrial(member: Member, trialId: string, options: { run?: number } = {}): Promise<TrialView> {
   if (!/^[0-9a-f-]{36}$/i.test(trialId))
     throw new AppError("not_found", "There is no such trial. Go back to Trials and pick one from the list.");
   return withFarmContext(farmContextOf(member), async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
-    if (!trial.results || !member.farmId) return trial;
-    const [own] = await tx
-      .select({ pseudonym: trialReportFarms.pseudonym, ownEstimates: trialReportFarms.ownEstimates })
-      .from(trialReportFarms)
-      .where(and(eq(trialReportFarms.trialId, trialId), eq(trialReportFarms.farmId, member.farmId)));
-    return own ? { ...trial, results: { ...trial.results, analysis: markOwnFarm(trial.results.analysis, own) } } : trial;
+    const rows = await tx
+      .select({
+        id: trialAnalyses.id,
+        run: trialAnalyses.run,
+        ranAt: trialAnalyses.ranAt,
+        ranByName: trialAnalyses.ranByName,
+        inputs: trialAnalyses.inputs,
+        fingerprint: trialAnalyses.fingerprint,
+        results: trialAnalyses.results,
+        version: trialPublications.version,
+        publishedAt: trialPublications.publishedAt,
+        publishedByName: trialPublications.publishedByName,
+        reason: trialPublications.reason,
+      })
+      .from(trialAnalyses)
+      .leftJoin(trialPublications, eq(trialPublications.analysisId, trialAnalyses.id))
+      .where(eq(trialAnalyses.trialId, trialId))
+      .orderBy(desc(trialAnalyses.run));
+    const own = member.farmId
+      ? await tx
+          .select({
+            analysisId: trialReportFarms.analysisId,
+            pseudonym: trialReportFarms.pseudonym,
+            ownEstimates: trialReportFarms.ownEstimates,
+          })
+          .from(trialReportFarms)
+          .where(and(eq(trialReportFarms.trialId, trialId), eq(trialReportFarms.farmId, member.farmId)))
+      : [];
+    const resultsOf = (row: (typeof rows)[number]): StoredResults => {
+      const stored = row.results as StoredResults;
+      const mine = own.find((entry) => entry.analysisId === row.id);
+      return mine ? { ...stored, analysis: markOwnFarm(stored.analysis, mine) } : stored;
+    };
+    const runs: AnalysisRunView[] = rows.map((row) => ({
+      id: row.id,
+      run: row.run,
+      ranAt: row.ranAt,
+      ranByName: row.ranByName,
+      inputs: row.inputs as AnalysisInputCounts | null,
+      fingerprint: row.fingerprint,
+      publication:
+        row.version === null
+          ? null
+          : { version: row.version, publishedAt: row.publishedAt!, publishedByName: row.publishedByName!, reason: row.reason },
+    }));
+    const versions: PublishedVersion[] = rows
+      .filter((row) => row.version !== null)
+      .sort((a, b) => b.version! - a.version!)
+      .map((row) => ({
+        version: row.version!,
+        publishedAt: row.publishedAt!,
+        reason: row.reason,
+        run: runs.find((run) => run.id === row.id)!,
+        results: resultsOf(row),
+      }));
+    // Row-level security has already left out the runs this member may not read, so asking for one gives the default.
+    const shown =
+      rows.find((row) => row.run === options.run) ??
+      (versions.length ? rows.find((row) => row.id === versions[0].run.id) : member.role === "coordinator" ? rows[0] : undefined);
+    return {
+      ...trial,
+      results: shown ? resultsOf(shown) : null,
+      shownRun: shown ? runs.find((run) => run.id === shown.id)! : null,
+      runs,
+      versions,
+    };
   });
 }
 
@@ -387,9 +489,15 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
 /**
  * One step of the trial's lifecycle. Closing ("collecting") needs `reviewed`: the fingerprint of
  * the incomplete counts the coordinator confirmed (getCloseReview), refused when missing or when
- * records arrived since, so a result is never frozen on counts nobody saw.
+ * records arrived since, so a result is never frozen on counts nobody saw; it makes run 1 of the
+ * analysis. Publishing ("published") publishes one run as version 1: `analysisId`, or the newest.
  */
-export async function moveTrial(member: Member, trialId: string, to: TrialStatus, options: { reviewed?: string } = {}): Promise<void> {
+export async function moveTrial(
+  member: Member,
+  trialId: string,
+  to: TrialStatus,
+  options: { reviewed?: string; analysisId?: string } = {},
+): Promise<void> {
   if (!can(member.role, "trial:manage")) throw new AppError("forbidden", "Only the co-op's coordinator moves a trial on.");
   await withFarmContext(farmContextOf(member), async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
@@ -426,7 +534,7 @@ export async function moveTrial(member: Member, trialId: string, to: TrialStatus
       if (!options.reviewed)
         throw new AppError(
           "invalid_input",
-          "Closing freezes the analysis: read what is still incomplete on the trial page, tick the confirmation and close again.",
+          "Closing runs the analysis on what is in: read what is still incomplete on the trial page, tick the confirmation and close again.",
           [{ field: "reviewed", message: "Tick that you have read what is still incomplete." }],
         );
       review = await closeReviewOf(tx, trial);
@@ -435,27 +543,47 @@ export async function moveTrial(member: Member, trialId: string, to: TrialStatus
           "conflict",
           "Records have changed since you reviewed what is incomplete. Reload the trial page, read the counts again and confirm.",
         );
-      changes.publishedResults = await analyseStoredTrial(tx, trial);
     }
+    const now = new Date();
+    let published: { run: number; version: number; answer: string } | null = null;
     if (to === "published") {
-      if (!trial.results) throw new AppError("conflict", "The trial has no analysis yet; move it to Collecting results first.");
-      changes.publishedAt = new Date();
+      const runs = await tx
+        .select({ id: trialAnalyses.id, run: trialAnalyses.run, results: trialAnalyses.results })
+        .from(trialAnalyses)
+        .where(eq(trialAnalyses.trialId, trialId))
+        .orderBy(desc(trialAnalyses.run));
+      if (!runs.length) throw new AppError("conflict", "The trial has no analysis yet; move it to Collecting results first.");
+      const chosen = options.analysisId ? runs.find((run) => run.id === options.analysisId) : runs[0];
+      if (!chosen)
+        throw new AppError("not_found", "That run of the analysis is not one of this trial's. Reload the trial page and pick again.");
+      await tx.insert(trialPublications).values({
+        trialId,
+        analysisId: chosen.id,
+        version: 1,
+        publishedAt: now,
+        publishedBy: member.id,
+        publishedByName: member.name,
+      });
+      changes.publishedAt = now;
+      published = { run: chosen.run, version: 1, answer: (chosen.results as StoredResults).analysis.answer };
     }
     await tx.update(trials).set(changes).where(eq(trials.id, trialId));
     await recordAudit(tx, {
       ...actor(member),
       action: "trial.status_changed",
       subject: trial.code,
-      // What the coordinator confirmed on closing: counts only.
-      details: review ? { trialId, from: trial.status, to, incomplete: review.totals } : { trialId, from: trial.status, to },
+      // What the coordinator confirmed on closing: counts only; on publishing, which run.
+      details: review
+        ? { trialId, from: trial.status, to, incomplete: review.totals }
+        : published
+          ? { trialId, from: trial.status, to, run: published.run, version: 1 }
+          : { trialId, from: trial.status, to },
     });
-    if (to === "published") {
+    // Run 1 is made after the move, so its audit event follows the close's.
+    if (to === "collecting") await storeAnalysisRun(tx, member, trial, { ranAt: now });
+    if (published) {
       const people = await tx.select({ email: users.email }).from(users).where(eq(users.active, true));
-      const mail = resultsPublishedMail({
-        trial,
-        answer: trial.results?.analysis.answer ?? "",
-        resultsUrl: `${appUrl()}/trials/${trialId}/results`,
-      });
+      const mail = resultsPublishedMail({ trial, answer: published.answer, resultsUrl: `${appUrl()}/trials/${trialId}/results` });
       // One message per person, so nobody sees the others' addresses.
       for (const person of people) await deliver(tx, "trial-results", person.email, mail);
     }
@@ -468,11 +596,21 @@ async function deliver(tx: Transaction, kind: MailKind, to: string, mail: TrialM
 }
 
 /**
- * Runs the pre-declared analysis through the analyst role and keeps only what the report may
- * publish (lib/trials/report.ts). Each farm's pseudonym and own estimates go to
- * trial_report_farms, which only that farm's people can read, replacing any from an earlier run.
+ * Runs the pre-declared analysis on the records in now and keeps the run: the blocks are read
+ * through the analyst role, and only what the report may publish is stored (lib/trials/report.ts),
+ * with what the run read (counts) and a fingerprint of the values it analysed. The run, and each
+ * farm's pseudonym and own estimates for it (trial_report_farms, which only that farm's people
+ * read, once the run is published), are written in the caller's transaction.
  */
-async function analyseStoredTrial(tx: Transaction, trial: TrialView): Promise<StoredResults> {
+async function storeAnalysisRun(
+  tx: Transaction,
+  member: Member,
+  trial: TrialBase,
+  options: { ranAt?: Date; refuseUnchanged?: boolean } = {},
+): Promise<{ id: string; run: number; results: StoredResults }> {
+  // One run at a time per trial, so two coordinators' clicks cannot take the same number.
+  await tx.execute(sql`select 1 from trials where id = ${trial.id} for update`);
+  const ranAt = options.ranAt ?? new Date();
   const enrolments = await tx
     .select({ status: trialEnrolments.status, farmId: trialEnrolments.farmId })
     .from(trialEnrolments)
@@ -485,7 +623,8 @@ async function analyseStoredTrial(tx: Transaction, trial: TrialView): Promise<St
   const assignedByArm = Object.fromEntries(assignedRows.map((row) => [row.armId, row.assigned]));
   const assigned = assignedRows.reduce((sum, row) => sum + row.assigned, 0);
   const armIds = trial.arms.map((arm) => arm.id);
-  return withAnalystAccess(async (analyst) => {
+  const outcome = { flushes: trial.outcomeFlushes, contaminatedHandling: trial.contaminatedHandling };
+  const analysed = await withAnalystAccess(async (analyst) => {
     const [settings] = await analyst
       .select({ minimumFarms: cooperativeSettings.minimumFarms, showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates })
       .from(cooperativeSettings);
@@ -514,39 +653,182 @@ async function analyseStoredTrial(tx: Transaction, trial: TrialView): Promise<St
             ),
           )
       : [];
-    const { results, farms: reportFarms } = trialReport({
-      arms: trial.arms,
-      blockRows,
-      harvestRows,
-      outcome: { flushes: trial.outcomeFlushes, contaminatedHandling: trial.contaminatedHandling },
+    const inputs = {
+      outcome,
       minimumFarms: settings?.minimumFarms ?? 3,
       showPerFarmEstimates: settings?.showPerFarmEstimates ?? false,
-      // Unpredictable per trial, so no order the app shows (ids, names, enrolment) gives the pseudonyms away.
-      random: seededRandom(randomBytes(16).toString("hex")),
+      arms: trial.arms,
       enrolments,
-      blocksAssigned: assigned,
       assignedByArm,
+      blockRows,
+      harvestRows,
+    };
+    const report = trialReport({
+      ...inputs,
+      arms: trial.arms,
+      // Unpredictable per run, so no order the app shows (ids, names, enrolment) gives the pseudonyms away.
+      random: seededRandom(randomBytes(16).toString("hex")),
+      blocksAssigned: assigned,
       design: trial,
-      analysedAt: new Date().toISOString(),
+      analysedAt: ranAt.toISOString(),
     });
-    await analyst.delete(trialReportFarms).where(eq(trialReportFarms.trialId, trial.id));
-    if (reportFarms.length) {
-      await analyst.insert(trialReportFarms).values(
-        reportFarms.map((farm) => ({
-          trialId: trial.id,
-          farmId: farm.farmKey,
-          pseudonym: farm.pseudonym,
-          ownEstimates: farm.ownEstimates,
-        })),
+    return { ...report, counts: analysisInputCounts(inputs), fingerprint: analysisFingerprint(inputs) };
+  });
+  const [latest] = await tx
+    .select({ run: trialAnalyses.run, fingerprint: trialAnalyses.fingerprint })
+    .from(trialAnalyses)
+    .where(eq(trialAnalyses.trialId, trial.id))
+    .orderBy(desc(trialAnalyses.run))
+    .limit(1);
+  if (options.refuseUnchanged && latest?.fingerprint === analysed.fingerprint)
+    throw new AppError(
+      "conflict",
+      `Nothing has changed since run ${latest.run}: it analysed the same records (fingerprint ${analysed.fingerprint.slice(0, 8)}). Run again once new records are in.`,
+    );
+  const run = (latest?.run ?? 0) + 1;
+  const [stored] = await tx
+    .insert(trialAnalyses)
+    .values({
+      trialId: trial.id,
+      run,
+      ranAt,
+      ranBy: member.id,
+      ranByName: member.name,
+      results: analysed.results,
+      inputs: analysed.counts,
+      fingerprint: analysed.fingerprint,
+    })
+    .returning({ id: trialAnalyses.id });
+  if (analysed.farms.length) {
+    await tx.insert(trialReportFarms).values(
+      analysed.farms.map((farm) => ({
+        trialId: trial.id,
+        analysisId: stored.id,
+        farmId: farm.farmKey,
+        pseudonym: farm.pseudonym,
+        ownEstimates: farm.ownEstimates,
+      })),
+    );
+  }
+  await recordAudit(tx, {
+    ...actor(member),
+    action: "trial.analysed",
+    subject: `${trial.code}: run ${run}`,
+    details: { trialId: trial.id, run, fingerprint: analysed.fingerprint, inputs: analysed.counts },
+  });
+  return { id: stored.id, run, results: analysed.results };
+}
+
+/**
+ * The coordinator runs the analysis again on what has arrived, while the trial collects results or
+ * after publication (to amend it); every run is kept. Refused when nothing changed since the last run.
+ */
+export async function runTrialAnalysis(member: Member, trialId: string): Promise<number> {
+  if (!can(member.role, "trial:manage")) throw new AppError("forbidden", "Only the co-op's coordinator runs a trial's analysis.");
+  return withFarmContext(farmContextOf(member), async (tx) => {
+    const trial = await loadTrial(tx, member, trialId);
+    if (!hasResults(trial.status))
+      throw new AppError(
+        "conflict",
+        `The analysis runs once the trial is closed (Collecting results) and after publication; this one is "${trialStatusLabels[trial.status]}".`,
       );
-    }
-    return results;
+    return (await storeAnalysisRun(tx, member, trial, { refuseUnchanged: true })).run;
   });
 }
 
-/** The coordinator closes the demo's trial in the seed: the same analysis as closing a trial in the app. */
-export async function analyseTrialAsCoordinator(member: Member, trialId: string): Promise<StoredResults> {
-  return withFarmContext(farmContextOf(member), async (tx) => analyseStoredTrial(tx, await loadTrial(tx, member, trialId)));
+/**
+ * After publication a correction is an amendment: a run not yet published becomes the next version,
+ * with the coordinator's reason, shown above the versions before it, which stay as they were.
+ */
+export async function amendPublishedAnalysis(
+  member: Member,
+  trialId: string,
+  input: { analysisId: string; reason: string },
+): Promise<{ version: number }> {
+  if (!can(member.role, "trial:manage")) throw new AppError("forbidden", "Only the co-op's coordinator amends a published trial.");
+  const problem = amendmentReasonProblem(input.reason);
+  if (problem) throw new AppError("invalid_input", problem, [{ field: "reason", message: problem }]);
+  return withFarmContext(farmContextOf(member), async (tx) => {
+    const trial = await loadTrial(tx, member, trialId);
+    if (trial.status !== "published")
+      throw new AppError(
+        "conflict",
+        `Only a published trial is amended; this one is "${trialStatusLabels[trial.status]}". Publish a run instead.`,
+      );
+    await tx.execute(sql`select 1 from trials where id = ${trialId} for update`);
+    const [run] = await tx
+      .select({
+        id: trialAnalyses.id,
+        run: trialAnalyses.run,
+        results: trialAnalyses.results,
+        inputs: trialAnalyses.inputs,
+        version: trialPublications.version,
+      })
+      .from(trialAnalyses)
+      .leftJoin(trialPublications, eq(trialPublications.analysisId, trialAnalyses.id))
+      .where(and(eq(trialAnalyses.id, input.analysisId), eq(trialAnalyses.trialId, trialId)));
+    if (!run) throw new AppError("not_found", "That run of the analysis is not one of this trial's. Reload the trial page and pick again.");
+    if (run.version !== null)
+      throw new AppError(
+        "conflict",
+        `Run ${run.run} is already published as version ${run.version}. Run the analysis again and amend with the new run.`,
+      );
+    const [inForce] = await tx
+      .select({ version: trialPublications.version, run: trialAnalyses.run, inputs: trialAnalyses.inputs })
+      .from(trialPublications)
+      .innerJoin(trialAnalyses, eq(trialAnalyses.id, trialPublications.analysisId))
+      .where(eq(trialPublications.trialId, trialId))
+      .orderBy(desc(trialPublications.version))
+      .limit(1);
+    // Both versions stay readable, so their difference must not show a few farms' blocks: as with the
+    // co-op's releases, records must have changed on no farm or on at least the minimum number of farms.
+    const before = (inForce.inputs as AnalysisInputCounts | null)?.farmFingerprints;
+    const after = (run.inputs as AnalysisInputCounts | null)?.farmFingerprints;
+    const minimumFarms = await minimumFarmsOf(tx);
+    const changed = before && after ? farmsChangedBetween(before, after) : 0;
+    if (changed > 0 && changed < minimumFarms)
+      throw new AppError(
+        "conflict",
+        `Since version ${inForce.version} (run ${inForce.run}) the records of ${changed === 1 ? "one farm" : `${changed} farms`} changed. Both versions stay readable, so comparing them would show ${changed === 1 ? "that farm's" : "those farms'"} blocks; an amendment needs changes from no farm or from at least ${minimumFarms} farms, the co-op's minimum. Wait for the other farms' late records and run the analysis again.`,
+      );
+    const version = inForce.version + 1;
+    await tx.insert(trialPublications).values({
+      trialId,
+      analysisId: run.id,
+      version,
+      publishedBy: member.id,
+      publishedByName: member.name,
+      reason: input.reason.trim(),
+    });
+    await recordAudit(tx, {
+      ...actor(member),
+      action: "trial.amended",
+      subject: `${trial.code}: version ${version}`,
+      details: { trialId, run: run.run, version, reason: input.reason.trim() },
+    });
+    // Everyone was told of the results when they were published; each is told of the amendment too.
+    const people = await tx.select({ email: users.email }).from(users).where(eq(users.active, true));
+    const mail = resultsAmendedMail({
+      trial,
+      version,
+      reason: input.reason.trim(),
+      answer: (run.results as StoredResults).analysis.answer,
+      resultsUrl: `${appUrl()}/trials/${trialId}/results`,
+    });
+    for (const person of people) await deliver(tx, "trial-results", person.email, mail);
+    return { version };
+  });
+}
+
+/** The demo seed closes its trial as the coordinator: the same run the app makes on closing, dated as the seed says. */
+export async function analyseTrialAsCoordinator(
+  member: Member,
+  trialId: string,
+  ranAt: Date,
+): Promise<{ id: string; results: StoredResults }> {
+  return withFarmContext(farmContextOf(member), async (tx) =>
+    storeAnalysisRun(tx, member, await loadTrial(tx, member, trialId), { ranAt }),
+  );
 }
 
 // ——— Enrolment ———
@@ -805,7 +1087,7 @@ export function dueItems(progress: FarmProgress): string[] {
 }
 
 /** The farm's own progress, read under its own context. */
-export async function getOwnProgress(member: Member, trial: TrialView): Promise<FarmProgress | null> {
+export async function getOwnProgress(member: Member, trial: TrialBase): Promise<FarmProgress | null> {
   if (!member.farmId) return null;
   return withFarmContext(farmContextOf(member), async (tx) => {
     const list = await tx
@@ -818,12 +1100,12 @@ export async function getOwnProgress(member: Member, trial: TrialView): Promise<
   });
 }
 
-function emptyCounts(trial: TrialView) {
+function emptyCounts(trial: TrialBase) {
   return { blocksMade: 0, fruiting: 0, contaminated: 0, flushesRecorded: Array.from({ length: trial.outcomeFlushes }, () => 0) };
 }
 
 /** Counts only: how many blocks, never how much they weighed. */
-async function progressCounts(tx: Transaction, trial: TrialView, farmId?: string) {
+async function progressCounts(tx: Transaction, trial: TrialBase, farmId?: string) {
   const armIds = trial.arms.map((arm) => arm.id);
   if (!armIds.length) return [];
   const flushColumns = Array.from(
@@ -853,7 +1135,7 @@ async function progressCounts(tx: Transaction, trial: TrialView, farmId?: string
 }
 
 /** The coordinator's view: every enrolled farm with its counts, read through the analyst role. */
-export async function listTrialProgress(member: Member, trial: TrialView) {
+export async function listTrialProgress(member: Member, trial: TrialBase) {
   const enrolled = await withFarmContext(farmContextOf(member), async (tx) => {
     const rows = await tx
       .select({
@@ -915,7 +1197,7 @@ export async function getCloseReview(member: Member, trialId: string): Promise<C
   return withFarmContext(farmContextOf(member), async (tx) => closeReviewOf(tx, await loadTrial(tx, member, trialId)));
 }
 
-async function closeReviewOf(tx: Transaction, trial: TrialView): Promise<CloseReview> {
+async function closeReviewOf(tx: Transaction, trial: TrialBase): Promise<CloseReview> {
   const enrolled = await tx
     .select({ farmId: trialEnrolments.farmId, blocksPerArm: trialEnrolments.blocksPerArm })
     .from(trialEnrolments)

@@ -300,11 +300,11 @@ describe("a strain trial from design to publication", () => {
   it("refuses to close without the coordinator's confirmation, or on counts that changed since", async () => {
     await expectConflict(moveTrial(coordinator, trialId, "collecting"), /tick the confirmation/);
     await expectConflict(moveTrial(coordinator, trialId, "collecting", { reviewed: "0".repeat(32) }), /Records have changed/);
-    const { rows } = await inspector.query<{ status: string; published_results: unknown }>(
-      "select status, published_results from trials where id = $1",
+    const { rows } = await inspector.query<{ status: string; runs: number }>(
+      "select status, (select count(*)::int from trial_analyses a where a.trial_id = t.id) as runs from trials t where id = $1",
       [trialId],
     );
-    expect(rows[0]).toEqual({ status: "running", published_results: null });
+    expect(rows[0]).toEqual({ status: "running", runs: 0 });
   });
 
   it("lets no farm manager close the trial or read another farm's incomplete counts", async () => {

@@ -4,7 +4,16 @@ import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import { z } from "zod";
 import { guardedAction } from "@/lib/auth/guard";
-import { askToJoinTrial, inviteFarms, moveTrial, respondToInvitation, saveTrialDraft, sendTrialReminder } from "@/lib/data/trials";
+import {
+  amendPublishedAnalysis,
+  askToJoinTrial,
+  inviteFarms,
+  moveTrial,
+  respondToInvitation,
+  runTrialAnalysis,
+  saveTrialDraft,
+  sendTrialReminder,
+} from "@/lib/data/trials";
 import { trialStatuses } from "@/lib/trials/lifecycle";
 
 const optionalNumber = (what: string, check: z.ZodNumber) =>
@@ -101,16 +110,38 @@ export const moveTrialAction = guardedAction(
         .string()
         .regex(/^[0-9a-f]{32}$/, "Reload the trial page and confirm again.")
         .optional(),
+      // Publishing: the run the coordinator picked (the newest when none is sent).
+      analysisId: z.uuid("Pick the run to publish.").optional(),
     })
     .refine((input) => input.to !== "collecting" || input.reviewed, {
       path: ["reviewed"],
       message: "Tick that you have read what is still incomplete before closing the trial.",
     }),
-  async ({ trialId, to, reviewed }, member) => {
-    await moveTrial(member, trialId, to, { reviewed });
+  async ({ trialId, to, reviewed, analysisId }, member) => {
+    await moveTrial(member, trialId, to, { reviewed, analysisId });
     revalidatePath(`/trials/${trialId}`);
     revalidatePath("/trials");
     return { status: "ok", message: "Done." };
+  },
+);
+
+export const runAnalysisAction = guardedAction("trial:manage", z.object({ trialId: z.uuid() }), async ({ trialId }, member) => {
+  const run = await runTrialAnalysis(member, trialId);
+  revalidatePath(`/trials/${trialId}`);
+  return { status: "ok", message: `Run ${run} of the analysis is kept. It is seen by you only until you publish it.` };
+});
+
+export const amendAnalysisAction = guardedAction(
+  "trial:manage",
+  z.object({
+    trialId: z.uuid(),
+    analysisId: z.uuid("Pick the run that corrects the published analysis."),
+    reason: z.string().max(1000, "Keep the reason for the amendment under 1000 characters."),
+  }),
+  async ({ trialId, analysisId, reason }, member) => {
+    const { version } = await amendPublishedAnalysis(member, trialId, { analysisId, reason });
+    revalidatePath(`/trials/${trialId}`);
+    return { status: "ok", message: `Published as version ${version}, above the earlier version, which stays readable.` };
   },
 );
 

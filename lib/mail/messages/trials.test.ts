@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { resultsPublishedMail, trialInvitationMail } from "./trials";
+import { resultsAmendedMail, resultsPublishedMail, trialInvitationMail } from "./trials";
 
 const trial = { code: "T-9", title: "Bran <20 %> & more", question: "Which is better?" };
 
@@ -23,5 +23,20 @@ describe("trial e-mails", () => {
     const mail = resultsPublishedMail({ trial, answer: "Arm B gave more.", resultsUrl: "http://x/r" });
     expect(mail.text).not.toMatch(/unsubscribe|stop reminders/i);
     expect(mail.subject).toBe("Results of trial T-9: Bran <20 %> & more");
+  });
+
+  it("says an amendment's version and reason, and that the earlier version stays readable", () => {
+    const mail = resultsAmendedMail({
+      trial,
+      version: 2,
+      reason: "Late flush 2 records <of two farms>.",
+      answer: "Arm B gave more.",
+      resultsUrl: "http://x/r",
+    });
+    expect(mail.subject).toBe("Amended results of trial T-9: Bran <20 %> & more");
+    expect(mail.text).toContain("are amended (version 2). Why: Late flush 2 records <of two farms>.");
+    expect(mail.text).toContain("The earlier version stays readable");
+    expect(mail.html).toContain("&lt;of two farms&gt;");
+    expect(mail.text).not.toMatch(/unsubscribe|stop reminders/i);
   });
 });

@@ -99,3 +99,22 @@ export function resultsPublishedMail(input: { trial: TrialFacts; answer: string;
     { label: "Read the results", url: input.resultsUrl },
   );
 }
+
+/** To everyone who was told of the results: the published results changed, why, and what they now say. */
+export function resultsAmendedMail(input: {
+  trial: TrialFacts;
+  version: number;
+  reason: string;
+  answer: string;
+  resultsUrl: string;
+}): TrialMail {
+  return compose(
+    `Amended results of trial ${input.trial.code}: ${input.trial.title}`,
+    [
+      `The published results of trial ${input.trial.code}, "${input.trial.title}", are amended (version ${input.version}). Why: ${input.reason}`,
+      input.answer,
+      "The earlier version stays readable below the amendment.",
+    ],
+    { label: "Read the amended results", url: input.resultsUrl },
+  );
+}

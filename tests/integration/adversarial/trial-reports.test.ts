@@ -55,7 +55,7 @@ afterAll(async () => {
   await closeDatabase();
 });
 
-/** A running trial on the fixture farms, each farm's gain of arm B over arm A set by `gains`; closed and analysed. */
+/** A running trial on the fixture farms, each farm's gain of arm B over arm A set by `gains`; closed, analysed and published. */
 async function analysedTrial(farmList: { id: string }[], gains: number[]) {
   const arms = [
     { label: "A", strainId: species.strainIds[0], reference: true },
@@ -75,6 +75,8 @@ async function analysedTrial(farmList: { id: string }[], gains: number[]) {
     ]);
   }
   await moveTrial(coordinator, trial.id, "collecting", { reviewed: (await getCloseReview(coordinator, trial.id)).fingerprint });
+  // Members and observers read published versions only.
+  await moveTrial(coordinator, trial.id, "published");
   return trial;
 }
 

@@ -24,6 +24,7 @@ import { hasResults, moveLabels, nextStatuses, remindersRun, trialStatusLabels, 
 import { trialSampleSize } from "@/lib/trials/sample-size";
 import { askToJoinTrialAction, inviteFarmsAction, moveTrialAction, respondToInvitationAction, sendReminderAction } from "../actions";
 import { ActionForm } from "@/components/forms/action-form";
+import { AnalysisRunsCard, RunChoice } from "../_components/analysis-runs";
 import { CloseReviewCard } from "../_components/close-review";
 import { ProtocolSummary } from "../_components/protocol-summary";
 import { StatusBadge } from "../_components/status-badge";
@@ -50,11 +51,19 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
       <div className="mb-6 flex flex-wrap items-center gap-3">
         <span className="font-mono text-sm text-ink-soft">{trial.code}</span>
         <StatusBadge status={trial.status} />
+        {trial.versions.length ? (
+          <span className="text-sm text-ink-soft" data-testid="version-in-force">
+            {trial.versions[0].version === 1
+              ? `Results published ${trial.versions[0].publishedAt.toISOString().slice(0, 10)}`
+              : `Results amended ${trial.versions[0].publishedAt.toISOString().slice(0, 10)} (version ${trial.versions[0].version})`}
+          </span>
+        ) : null}
       </div>
       <div className="grid gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="space-y-6">
           {member.farmId ? <FarmSection trial={trial} member={member} /> : null}
           {review ? <CloseReviewCard review={review} outcomeFlushes={trial.outcomeFlushes} /> : null}
+          {coordinator && (trial.runs.length || hasResults(trial.status)) ? <AnalysisRunsCard trial={trial} /> : null}
           {coordinator && trial.status !== "draft" ? <CoordinatorFollowing trial={trial} member={member} /> : null}
           <ProtocolSummary trial={trial} />
         </div>
@@ -109,6 +118,16 @@ async function CoordinatorControls({ trial, member, review }: { trial: TrialView
                     compared, the rest left out and listed under &ldquo;Deviations from the plan&rdquo;.
                   </span>
                 </label>
+              </ActionForm>
+            ) : to === "published" && trial.runs.length ? (
+              <ActionForm
+                key={to}
+                action={moveTrialAction}
+                hidden={{ trialId: trial.id, to }}
+                submitLabel={moveLabels[to]}
+                confirm="Publish the run you picked to every member and observer, and e-mail them? A published version cannot be changed; a correction is an amendment."
+              >
+                <RunChoice runs={trial.runs} />
               </ActionForm>
             ) : (
               <ActionForm
