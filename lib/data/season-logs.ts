@@ -1,7 +1,7 @@
 import "server-only";
 import { createHash, randomFillSync, randomInt } from "node:crypto";
 import { gunzipSync, gzipSync } from "node:zlib";
-import { and, desc, eq, sql } from "drizzle-orm";
+import { and, desc, eq, isNull, sql } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { v7 as timeOrderedId } from "uuid";
 import { withFarmContext, type FarmContext, type Transaction } from "@/db/client";
@@ -45,6 +45,8 @@ export interface UploadSummary {
   sizeBytes: number;
   rowCount: number;
   committedAt: string | null;
+  /** When the commit was undone (lib/data/corrections.ts); null while it stands. */
+  undoneAt: string | null;
 }
 
 export interface UploadView {
@@ -88,6 +90,7 @@ const summaryColumns = {
   sizeBytes: uploads.sizeBytes,
   rowCount: uploads.rowCount,
   committedAt: uploads.committedAt,
+  undoneAt: uploads.undoneAt,
 };
 
 function summary(row: {
@@ -98,8 +101,9 @@ function summary(row: {
   sizeBytes: number;
   rowCount: number;
   committedAt: Date | null;
+  undoneAt: Date | null;
 }): UploadSummary {
-  return { ...row, uploadedAt: iso(row.uploadedAt)!, committedAt: iso(row.committedAt) };
+  return { ...row, uploadedAt: iso(row.uploadedAt)!, committedAt: iso(row.committedAt), undoneAt: iso(row.undoneAt) };
 }
 
 export function sha256Of(content: Uint8Array): string {
@@ -253,7 +257,8 @@ async function committedBefore(tx: Transaction, farmId: string, sha256: string, 
   const rows = await tx
     .select({ committedAt: uploads.committedAt, id: uploads.id })
     .from(uploads)
-    .where(and(eq(uploads.farmId, farmId), eq(uploads.sha256, sha256), eq(uploads.outcome, "committed")))
+    // An undone commit no longer counts: the same file may be committed again.
+    .where(and(eq(uploads.farmId, farmId), eq(uploads.sha256, sha256), eq(uploads.outcome, "committed"), isNull(uploads.undoneAt)))
     .orderBy(uploads.committedAt)
     .limit(2);
   return rows.find((row) => row.id !== except)?.committedAt ?? null;
@@ -365,17 +370,17 @@ export async function createUpload(
 }
 
 const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-const notYours = "That upload is not one of your farm's. Pick it again from the list of past uploads.";
+export const uploadNotFound = "That upload is not one of your farm's. Pick it again from the list of past uploads.";
 
 async function storedUpload(context: FarmMemberContext, uploadId: string) {
-  if (!uuidPattern.test(uploadId)) throw new AppError("not_found", notYours);
+  if (!uuidPattern.test(uploadId)) throw new AppError("not_found", uploadNotFound);
   const [row] = await withFarmContext(context, (tx) =>
     tx
       .select({ ...summaryColumns, sha256: uploads.sha256, report: uploads.report })
       .from(uploads)
       .where(eq(uploads.id, uploadId)),
   );
-  if (!row) throw new AppError("not_found", notYours);
+  if (!row) throw new AppError("not_found", uploadNotFound);
   return row;
 }
 
@@ -384,7 +389,7 @@ async function storedContent(context: FarmMemberContext, uploadId: string): Prom
   const [row] = await withFarmContext(context, (tx) =>
     tx.select({ content: uploads.content, filePurgedAt: uploads.filePurgedAt }).from(uploads).where(eq(uploads.id, uploadId)),
   );
-  if (!row) throw new AppError("not_found", notYours);
+  if (!row) throw new AppError("not_found", uploadNotFound);
   if (row.filePurgedAt)
     throw new AppError(
       "not_found",
@@ -487,6 +492,16 @@ function refuseIfChanged(updated: number | null, expected: number): void {
     );
 }
 
+/** Copies the stored rows a commit is about to update, whole, so undoing it puts them back exactly (lib/data/corrections.ts). */
+async function keepReplacedRows(tx: Transaction, uploadId: string, kind: "block" | "harvest", part: readonly { id: string | null }[]) {
+  const ids = JSON.stringify(part.map((row) => row.id));
+  const table = sql.raw(kind === "block" ? "blocks" : "harvests");
+  await tx.execute(sql`
+    insert into season_log_replaced_rows (farm_id, upload_id, row_kind, row_id, before)
+    select r.farm_id, ${uploadId}::uuid, ${kind}, r.id, to_jsonb(r) from ${table} r
+    where r.id in (select value::uuid from json_array_elements_text(${ids}::json))`);
+}
+
 /**
  * Writes the plan: plain inserts for new rows and updates by id for changed ones. The plan was
  * made under the farm's lock, so it knows which is which. New rows get their ids here: their
@@ -515,6 +530,7 @@ async function writePlan(tx: Transaction, farmId: string, userId: string, upload
       from ${recordset(part, blockFields)}`);
   }
   for (const part of slices(changedBlocks)) {
+    await keepReplacedRows(tx, uploadId, "block", part);
     const updated = await tx.execute(sql`
       update blocks b set
         strain_id = u."strainId", substrate_recipe_id = u."substrateRecipeId", fruiting_method_id = u."fruitingMethodId",
@@ -548,6 +564,7 @@ async function writePlan(tx: Transaction, farmId: string, userId: string, upload
       from ${recordset(part, harvestFields)}`);
   }
   for (const part of slices(changedHarvests)) {
+    await keepReplacedRows(tx, uploadId, "harvest", part);
     const updated = await tx.execute(sql`
       update harvests h set
         harvested_on = u."harvestedOn", fresh_mass_g = u."freshMassG", fresh_mass_as_written = u."freshMassAsWritten", fresh_mass_unit = u."freshMassUnit",
@@ -612,7 +629,16 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
     await writePlan(tx, farm.farmId, farm.userId, uploadId, plan);
     const [row] = await tx
       .update(uploads)
-      .set({ outcome: "committed", committedAt: new Date(), report, options: choices, rowCount: report.rowCount, stagedParse: null })
+      // The transaction's own time, as every row it writes gets in updated_at: an undo knows a row untouched since by that.
+      .set({
+        outcome: "committed",
+        committedAt: sql`now()`,
+        keptForUndo: true,
+        report,
+        options: choices,
+        rowCount: report.rowCount,
+        stagedParse: null,
+      })
       .where(eq(uploads.id, uploadId))
       .returning({ committedAt: uploads.committedAt, fileName: uploads.fileName });
     await rememberChoices(tx, farm.farmId, choices);

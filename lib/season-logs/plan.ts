@@ -121,7 +121,8 @@ function sameNumber(a: number | null, b: number | null, tolerance: number): bool
   return Math.abs(a - b) <= tolerance;
 }
 
-function shown(value: number | string | boolean | null): string | null {
+/** A stored value as value history keeps it: numbers to three decimals, booleans as "true"/"false". */
+export function shown(value: number | string | boolean | null): string | null {
   if (value === null) return null;
   if (typeof value === "number") return String(Math.round(value * 1000) / 1000);
   return String(value);
