@@ -172,8 +172,8 @@ export const valueChanges = pgTable(
 );
 
 /**
- * A block or harvest row as it was just before a season-log commit updated it, whole (to_jsonb of
- * the row), so undoing the commit puts back exactly what was stored. Rows the commit inserted
+ * A block or harvest row as it was just before a season-log commit updated or removed it, whole
+ * (to_jsonb of the row), so undoing the commit puts back exactly what was stored. Rows the commit inserted
  * need no copy: they carry the upload's id, and undoing removes them.
  */
 export const seasonLogReplacedRows = pgTable(
@@ -186,7 +186,8 @@ export const seasonLogReplacedRows = pgTable(
     uploadId: uuid("upload_id")
       .notNull()
       .references(() => uploads.id, { onDelete: "cascade" }),
-    rowKind: text("row_kind", { enum: ["block", "harvest"] }).notNull(),
+    // "removed_harvest": a stored harvest the file did not have, removed as the grower chose.
+    rowKind: text("row_kind", { enum: ["block", "harvest", "removed_harvest"] }).notNull(),
     rowId: uuid("row_id").notNull(),
     before: jsonb("before").$type<Record<string, unknown>>().notNull(),
   },

@@ -11,13 +11,13 @@ import {
   blockValueChanges,
   checkBlockCorrection,
   checkHarvestCorrection,
-  harvestRemovalChanges,
   harvestValueChanges,
   type BlockCorrection,
   type BlockProblem,
   type ChangedValue,
   type HarvestCorrection,
 } from "@/lib/season-logs/corrections";
+import { harvestRemovalChanges } from "@/lib/season-logs/plan";
 import { latestToday, warningsNotAccepted, type HarvestProblem } from "@/lib/season-logs/quick-harvest";
 import type { UploadReport } from "@/lib/season-logs/report";
 import { planUndo, type CommitChange } from "@/lib/season-logs/undo";
@@ -301,6 +301,13 @@ export async function undoCommit(context: FarmContext, entry: { uploadId: string
       .from(seasonLogReplacedRows)
       .leftJoin(harvests, eq(harvests.id, seasonLogReplacedRows.rowId))
       .where(and(eq(seasonLogReplacedRows.uploadId, uploadId), eq(seasonLogReplacedRows.rowKind, "harvest")));
+    // A harvest the commit removed cannot go back where a flush was recorded since, or whose block is gone.
+    const blockedReturns = await tx.execute<{ label: string }>(sql`
+      select 'flush ' || (s.before->>'flush') || ' of ' || coalesce(b.code, 'a removed block') as label
+      from season_log_replaced_rows s
+      left join blocks b on b.id = (s.before->>'block_id')::uuid
+      where s.upload_id = ${uploadId}::uuid and s.row_kind = 'removed_harvest'
+        and (b.id is null or exists (select 1 from harvests h where h.block_id = b.id and h.flush = (s.before->>'flush')::int))`);
     const createdBlocks = await tx
       .select({ id: blocks.id, code: blocks.code, untouched: untouched(blocks.updatedAt) })
       .from(blocks)
@@ -383,10 +390,14 @@ export async function undoCommit(context: FarmContext, entry: { uploadId: string
           untouched: row.untouched,
         })),
       ],
-      rewrittenSince: rewrittenSince.map((row) => ({
-        kind: row.kind,
-        label: row.kind === "block" ? `block ${row.code ?? ""}` : `flush ${row.flush} of ${row.code ?? "a removed block"}`,
-      })),
+      rewrittenSince: [
+        ...rewrittenSince.map((row) => ({
+          kind: row.kind === "block" ? ("block" as const) : ("harvest" as const),
+          label: row.kind === "block" ? `block ${row.code ?? ""}` : `flush ${row.flush} of ${row.code ?? "a removed block"}`,
+        })),
+        // Not a row it added, so counted apart from those: a conflict all the same.
+        ...blockedReturns.rows.map((row) => ({ kind: "removed" as const, label: row.label })),
+      ],
       changes,
     });
     if ("conflicts" in plan) throw new AppError("conflict", `Nothing was undone. ${plan.conflicts.join(" ")}`);
@@ -402,6 +413,10 @@ export async function undoCommit(context: FarmContext, entry: { uploadId: string
         from season_log_replaced_rows s, jsonb_populate_record(null::${table}, s.before) r
         where s.upload_id = ${uploadId}::uuid and s.row_kind = ${kind} and t.id = s.row_id`);
     }
+    // Harvests the commit removed (the grower chose to remove what the file did not have) go back whole.
+    await tx.execute(sql`
+      insert into harvests select (jsonb_populate_record(null::harvests, s.before)).*
+      from season_log_replaced_rows s where s.upload_id = ${uploadId}::uuid and s.row_kind = 'removed_harvest'`);
     const ids = (list: string[]) => sql`(select value::uuid from json_array_elements_text(${JSON.stringify(list)}::json))`;
     if (steps.removeHarvestIds.length > 0) await tx.delete(harvests).where(sql`${harvests.id} in ${ids(steps.removeHarvestIds)}`);
     if (steps.removeBlockIds.length > 0) await tx.delete(blocks).where(sql`${blocks.id} in ${ids(steps.removeBlockIds)}`);

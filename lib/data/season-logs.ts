@@ -30,7 +30,16 @@ import type { RegisterEntryText } from "@/lib/import/registers";
 import { recordAudit } from "@/lib/data/audit";
 import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
 import { assertStorageRoom } from "@/lib/data/upload-limits";
-import { type BlockWrite, type CommitPlan, type HarvestWrite, type PlanCounts, type PlanInput, planCommit } from "@/lib/season-logs/plan";
+import {
+  type BlockWrite,
+  type CommitPlan,
+  type HarvestWrite,
+  type PlanCounts,
+  type PlanInput,
+  type StoredHarvest,
+  planCommit,
+  withNotInFileRemoved,
+} from "@/lib/season-logs/plan";
 import { type ParseChoices, type UploadReport, buildReport, parserOptions } from "@/lib/season-logs/report";
 import { seasonLogExportCsv } from "@/lib/season-logs/export";
 import { packParse, stagingKey, unpackParse } from "@/lib/season-logs/staged";
@@ -63,6 +72,8 @@ export interface CommitReceipt {
   committedAt: string;
   counts: PlanCounts;
   changedValues: number;
+  /** Stored harvests of the file's blocks that the file did not have, removed as the grower chose. */
+  removedHarvests: number;
 }
 
 /** What the parser needs from the database before a file streams in. */
@@ -197,6 +208,7 @@ async function loadPlanInput(tx: Transaction, farmId: string): Promise<Omit<Plan
       harvestedOn: harvests.harvestedOn,
       freshMassG: harvests.freshMassG,
       dryMassG: harvests.dryMassG,
+      fromFile: sql<boolean>`${harvests.uploadId} is not null`,
     })
     .from(harvests)
     .where(eq(harvests.farmId, farmId));
@@ -493,7 +505,12 @@ function refuseIfChanged(updated: number | null, expected: number): void {
 }
 
 /** Copies the stored rows a commit is about to update, whole, so undoing it puts them back exactly (lib/data/corrections.ts). */
-async function keepReplacedRows(tx: Transaction, uploadId: string, kind: "block" | "harvest", part: readonly { id: string | null }[]) {
+async function keepReplacedRows(
+  tx: Transaction,
+  uploadId: string,
+  kind: "block" | "harvest" | "removed_harvest",
+  part: readonly { id: string | null }[],
+) {
   const ids = JSON.stringify(part.map((row) => row.id));
   const table = sql.raw(kind === "block" ? "blocks" : "harvests");
   await tx.execute(sql`
@@ -508,7 +525,13 @@ async function keepReplacedRows(tx: Transaction, uploadId: string, kind: "block"
  * harvests need no look-up by block code, and time-ordered ids (UUIDv7) land at the end of the
  * indexes instead of on random pages, which makes writing many harvests far cheaper.
  */
-async function writePlan(tx: Transaction, farmId: string, userId: string, uploadId: string, plan: CommitPlan): Promise<void> {
+async function writePlan(
+  tx: Transaction,
+  farmId: string,
+  userId: string,
+  uploadId: string,
+  plan: CommitPlan & { removedHarvests?: readonly StoredHarvest[] },
+): Promise<void> {
   // The plan is this commit's own, so its rows take their ids in place rather than as copies.
   const nextId = idsInOrder();
   const blockIds = new Map<string, string>();
@@ -577,7 +600,22 @@ async function writePlan(tx: Transaction, farmId: string, userId: string, upload
     refuseIfChanged(updated.rowCount, part.length);
   }
 
-  // Every change is of a block or harvest the plan writes, so its block id is known.
+  // Removed only when the grower chose so; kept whole, so undoing the commit puts them back.
+  for (const part of slices(plan.removedHarvests ?? [])) {
+    await keepReplacedRows(tx, uploadId, "removed_harvest", part);
+    const ids = JSON.stringify(part.map((harvest) => harvest.id));
+    const removed = await tx.execute(
+      sql`delete from harvests where id in (select value::uuid from json_array_elements_text(${ids}::json))`,
+    );
+    refuseIfChanged(removed.rowCount, part.length);
+  }
+  if ((plan.removedHarvests ?? []).length > 0) {
+    // A removed harvest's block may be one the plan leaves untouched: its history needs the block's id.
+    const stored = await tx.select({ id: blocks.id, code: blocks.code }).from(blocks).where(eq(blocks.farmId, farmId));
+    for (const row of stored) if (!blockIds.has(row.code)) blockIds.set(row.code, row.id);
+  }
+
+  // Every change is of a block or harvest the plan writes or removes, so its block id is known.
   for (const part of slices(plan.changes)) {
     const rows = part.map((change) => ({ ...change, blockId: blockIds.get(change.blockCode) }));
     await tx.execute(sql`
@@ -594,7 +632,12 @@ async function writePlan(tx: Transaction, farmId: string, userId: string, upload
  * marks the upload committed and queues the farm's pooled refresh (the job runs after the commit).
  * Any error leaves the farm's data as it was.
  */
-export async function commitUpload(context: FarmContext, uploadId: string, choices: ParseChoices): Promise<CommitReceipt> {
+export async function commitUpload(
+  context: FarmContext,
+  uploadId: string,
+  choices: ParseChoices,
+  { removeNotInFile = false }: { removeNotInFile?: boolean } = {},
+): Promise<CommitReceipt> {
   const farm = farmOf(context);
   const stored = await storedUpload(farm, uploadId);
   if (stored.outcome === "committed")
@@ -611,7 +654,8 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
         `This file was already imported on ${iso(alreadyImportedAt)!.slice(0, 10)}; committing it again would change nothing.`,
       );
     }
-    const plan = planCommit({ records: result.records, ...(await loadPlanInput(tx, farm.farmId)) });
+    const planned = planCommit({ records: result.records, ...(await loadPlanInput(tx, farm.farmId)) });
+    const plan = removeNotInFile ? withNotInFileRemoved(planned) : { ...planned, removedHarvests: [] };
     const report = buildReport({
       rowCount: result.records.length,
       parserIssues: result.issues,
@@ -647,7 +691,7 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
       subject: row.fileName,
       farmId: farm.farmId,
       actorUserId: farm.userId,
-      details: { uploadId, ...plan.counts, changedValues: plan.changes.length },
+      details: { uploadId, ...plan.counts, changedValues: plan.changes.length, removedHarvests: plan.removedHarvests.length },
     });
     await queuePooledRefresh(tx, farm.farmId);
     return {
@@ -656,6 +700,7 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
       committedAt: iso(row.committedAt)!,
       counts: plan.counts,
       changedValues: plan.changes.length,
+      removedHarvests: plan.removedHarvests.length,
     };
   });
   return receipt;

@@ -5,10 +5,10 @@ import {
   checkBlockCorrection,
   checkHarvestCorrection,
   harvestCorrectionSchema,
-  harvestRemovalChanges,
   type BlockCorrection,
   type BlockValues,
 } from "./corrections";
+import { harvestRemovalChanges } from "./plan";
 
 const today = "2026-05-02";
 // A 2.5 kg block at 60 % moisture (1 000 g dry substrate), flushes of 600 g and 300 g.

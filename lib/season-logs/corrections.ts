@@ -286,18 +286,3 @@ export function harvestValueChanges(
     changes.push({ flush, field: "fresh_weight", oldValue: shown(before.freshMassG), newValue: shown(after.freshMassG) });
   return changes;
 }
-
-/** A harvest removed: each of its values goes to blank. */
-export function harvestRemovalChanges(harvest: {
-  flush: number;
-  harvestedOn: string | null;
-  freshMassG: number;
-  dryMassG: number | null;
-}): ChangedValue[] {
-  const changes: ChangedValue[] = [{ flush: harvest.flush, field: "fresh_weight", oldValue: shown(harvest.freshMassG), newValue: null }];
-  if (harvest.harvestedOn !== null)
-    changes.push({ flush: harvest.flush, field: "harvested_on", oldValue: harvest.harvestedOn, newValue: null });
-  if (harvest.dryMassG !== null)
-    changes.push({ flush: harvest.flush, field: "dry_weight", oldValue: shown(harvest.dryMassG), newValue: null });
-  return changes;
-}

@@ -1,4 +1,5 @@
-import { harvestRemovalChanges, type ChangedValue } from "./corrections";
+import type { ChangedValue } from "./corrections";
+import { harvestRemovalChanges } from "./plan";
 
 /**
  * What undoing a season-log commit must do, or why it cannot. A row the commit wrote is
@@ -47,8 +48,12 @@ export interface UndoInput {
   /** Harvests on blocks the commit added that it did not add itself (a flush recorded since). */
   laterHarvestsOnCreatedBlocks: readonly { blockCode: string; flush: number }[];
   replaced: readonly ReplacedRow[];
-  /** Rows the commit added that a later commit (not undone) rewrote: they no longer carry this commit's id. */
-  rewrittenSince: readonly { kind: "block" | "harvest"; label: string }[];
+  /**
+   * Rows the commit added that a later commit (not undone) rewrote or removed: they no longer carry
+   * this commit's id; and ("removed") harvests the commit removed that cannot go back, a flush
+   * having been recorded in their place since.
+   */
+  rewrittenSince: readonly { kind: "block" | "harvest" | "removed"; label: string }[];
   changes: readonly CommitChange[];
 }
 

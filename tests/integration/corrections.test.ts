@@ -11,7 +11,7 @@ import { closeDatabase, type FarmContext } from "@/db/client";
 import { jobQueueSchema } from "@/db/job-queue";
 import { demoSignIns } from "@/db/seed";
 import { correctBlock, correctHarvest, deleteHarvest, noSuchHarvest, undoCommit } from "@/lib/data/corrections";
-import { noSuchBlock } from "@/lib/data/blocks";
+import { noSuchBlock, recordHarvest } from "@/lib/data/blocks";
 import { commitUpload, createUpload, getImportSetup, parseStored, uploadNotFound } from "@/lib/data/season-logs";
 import { AppError, isAppError } from "@/lib/errors";
 import { runQueuedJobs, stopJobWorkers } from "@/lib/jobs/worker";
@@ -37,10 +37,14 @@ const first = [
   "CO-E,PO-01,HWB-20,2026-03-01,2.5 kg,60 %,SLIT-ACROSS,2,2026-04-24,300 g",
 ].join("\n");
 
-async function commit(context: FarmContext, fileName: string, csv: string): Promise<string> {
+async function upload(context: FarmContext, fileName: string, csv: string) {
   const content = new TextEncoder().encode(csv);
   const setup = await getImportSetup(context);
-  const view = await createUpload(context, { fileName, content, result: await parseStored(content, setup, {}), choices: {} });
+  return createUpload(context, { fileName, content, result: await parseStored(content, setup, {}), choices: {} });
+}
+
+async function commit(context: FarmContext, fileName: string, csv: string): Promise<string> {
+  const view = await upload(context, fileName, csv);
   await commitUpload(context, view.upload.id, {});
   return view.upload.id;
 }
@@ -326,6 +330,45 @@ describe("undoing a season-log commit", () => {
     const error = await refusal(undoCommit(asManager, { uploadId, reason: "wrong file" }));
     expect(error.code).toBe("conflict");
     expect(error.message).toMatch(/CO-F/);
+  });
+});
+
+describe("re-uploading the grown sheet", () => {
+  const sheet = (grams: number) => [header, `CO-G,PO-01,HWB-20,2026-03-01,2.5 kg,60 %,SLIT-ACROSS,1,2026-04-10,${grams} g`].join("\n");
+
+  it("lists the flushes recorded with the phone form that the file lacks, keeps them by default, removes them when asked, and an undo puts them back", async () => {
+    await commit(asManager, "corrections-grown-1.csv", sheet(400));
+    const phone = await recordHarvest(
+      asGrower,
+      { blockCode: "CO-G", flush: 2, weight: "300", unit: "g", harvestedOn: "2026-04-24", acceptWarnings: [] },
+      today,
+    );
+    expect(phone.status).toBe("saved");
+
+    const kept = await upload(asManager, "corrections-grown-2.csv", sheet(410));
+    expect(kept.report.preview.notInFile).toMatchObject({ phoneForm: 1, otherFiles: 0, harvests: [{ blockCode: "CO-G", flush: 2 }] });
+    expect((await commitUpload(asManager, kept.upload.id, {})).removedHarvests).toBe(0);
+    expect((await inspector.query("select 1 from harvests where id = $1", [await harvestId("CO-G", 2)])).rowCount).toBe(1);
+
+    const before = await farmRows();
+    const removing = await upload(asManager, "corrections-grown-3.csv", sheet(420));
+    expect((await commitUpload(asManager, removing.upload.id, {}, { removeNotInFile: true })).removedHarvests).toBe(1);
+    const { rows } = await inspector.query(
+      "select flush, field, old_value, new_value from value_changes where upload_id = $1 and new_value is null order by id",
+      [removing.upload.id],
+    );
+    expect(rows).toEqual([
+      { flush: 2, field: "fresh_weight", old_value: "300", new_value: null },
+      { flush: 2, field: "harvested_on", old_value: "2026-04-24", new_value: null },
+    ]);
+    const remaining = await inspector.query(
+      "select h.flush from harvests h join blocks b on b.id = h.block_id where b.farm_id = $1 and b.code = 'CO-G'",
+      [farmId],
+    );
+    expect(remaining.rows).toEqual([{ flush: 1 }]);
+
+    await undoCommit(asManager, { uploadId: removing.upload.id, reason: "the phone flushes were right" });
+    expect(await farmRows()).toEqual(before);
   });
 });
 
