@@ -333,6 +333,28 @@ describe("undoing a season-log commit", () => {
   });
 });
 
+describe("undoing commits in turn", () => {
+  const sheet = (wet: string) => [header, `CO-H,PO-01,HWB-20,2026-03-01,${wet},60 %,SLIT-ACROSS,1,2026-04-10,400 g`].join("\n");
+
+  it("undoes the later of two commits, then the earlier one, back to the farm as it was", async () => {
+    const before = await farmRows();
+    const earlier = await commit(asManager, "corrections-turn-1.csv", sheet("2.5 kg"));
+    const later = await commit(asManager, "corrections-turn-2.csv", sheet("2.6 kg"));
+    expect((await refusal(undoCommit(asManager, { uploadId: earlier, reason: "both wrong" }))).message).toMatch(/block CO-H/);
+    await undoCommit(asManager, { uploadId: later, reason: "both wrong" });
+    await undoCommit(asManager, { uploadId: earlier, reason: "both wrong" });
+    expect(await farmRows()).toEqual(before);
+  });
+
+  it("refuses a commit made before commits kept what they replaced, and an upload never committed", async () => {
+    const old = await commit(asManager, "corrections-old.csv", sheet("2.7 kg"));
+    await inspector.query("update uploads set kept_for_undo = false where id = $1", [old]);
+    expect((await refusal(undoCommit(asManager, { uploadId: old, reason: "old" }))).message).toMatch(/cannot be undone exactly/);
+    const unchecked = await upload(asManager, "corrections-never.csv", sheet("2.8 kg"));
+    expect((await refusal(undoCommit(asManager, { uploadId: unchecked.upload.id, reason: "never" }))).message).toMatch(/never committed/);
+  });
+});
+
 describe("re-uploading the grown sheet", () => {
   const sheet = (grams: number) => [header, `CO-G,PO-01,HWB-20,2026-03-01,2.5 kg,60 %,SLIT-ACROSS,1,2026-04-10,${grams} g`].join("\n");
 
