@@ -11,6 +11,7 @@ import {
   blockValueChanges,
   checkBlockCorrection,
   checkHarvestCorrection,
+  checkHarvestRemoval,
   harvestValueChanges,
   type BlockCorrection,
   type BlockProblem,
@@ -136,12 +137,30 @@ export async function correctHarvest(
   });
 }
 
-/** Deletes a harvest; its values go to the block's history as removed, with the reason. */
-export async function deleteHarvest(context: FarmContext, entry: { harvestId: string; reason: string }): Promise<{ blockId: string }> {
+export type DeleteHarvestResult = { status: "deleted"; blockId: string } | { status: "warnings"; warnings: HarvestProblem[] };
+
+/**
+ * Deletes a harvest; its values go to the block's history as removed, with the reason. A gap it
+ * would leave in the flush numbers is a warning to accept first, as the importer's.
+ */
+export async function deleteHarvest(
+  context: FarmContext,
+  entry: { harvestId: string; reason: string; acceptWarnings?: readonly string[] },
+): Promise<DeleteHarvestResult> {
   const farm = farmOf(context);
   return withFarmContext(farm, async (tx) => {
     await lockFarm(tx, farm.farmId);
     const harvest = await harvestOf(tx, entry.harvestId);
+    const others = await tx
+      .select({ flush: harvests.flush })
+      .from(harvests)
+      .where(and(eq(harvests.blockId, harvest.blockId), ne(harvests.id, harvest.id)));
+    const warnings = checkHarvestRemoval(
+      harvest.code,
+      harvest.flush,
+      others.map((other) => other.flush),
+    );
+    if (warningsNotAccepted(warnings, entry.acceptWarnings ?? []).length > 0) return { status: "warnings", warnings };
     const changes = harvestRemovalChanges(harvest);
     await tx.delete(harvests).where(eq(harvests.id, harvest.id));
     await keepHistory(tx, farm, harvest.blockId, changes, entry.reason);
@@ -153,7 +172,7 @@ export async function deleteHarvest(context: FarmContext, entry: { harvestId: st
       details: { blockId: harvest.blockId, flush: harvest.flush, reason: entry.reason, changes },
     });
     await queuePooledRefresh(tx, farm.farmId);
-    return { blockId: harvest.blockId };
+    return { status: "deleted", blockId: harvest.blockId };
   });
 }
 

@@ -4,6 +4,7 @@ import {
   blockValueChanges,
   checkBlockCorrection,
   checkHarvestCorrection,
+  checkHarvestRemoval,
   harvestCorrectionSchema,
   type BlockCorrection,
   type BlockValues,
@@ -187,5 +188,12 @@ describe("value history of a correction", () => {
       { flush: 3, field: "fresh_weight", oldValue: "120.5", newValue: null },
       { flush: 3, field: "harvested_on", oldValue: "2026-05-01", newValue: null },
     ]);
+  });
+});
+
+describe("checkHarvestRemoval", () => {
+  it("warns when the flushes left would have a gap, and not when the last flush goes", () => {
+    expect(checkHarvestRemoval("FE-001", 1, [2, 3]).map((warning) => [warning.code, warning.field])).toEqual([["flush_gap", "flush"]]);
+    expect(checkHarvestRemoval("FE-001", 3, [1, 2])).toEqual([]);
   });
 });

@@ -9,10 +9,11 @@ import {
   harvestOnContaminatedBlock,
   highestPlausibleEfficiency,
   highestPossibleEfficiency,
+  missingFlushes,
 } from "../import/harvest-checks";
 import { formatMass } from "../units";
 import { shown } from "./plan";
-import { checkQuickHarvest, recordHarvestSchema, type QuickHarvestCheck } from "./quick-harvest";
+import { checkQuickHarvest, recordHarvestSchema, type HarvestProblem, type QuickHarvestCheck } from "./quick-harvest";
 
 /**
  * Corrections made in the app: a harvest edited or deleted, a block's recorded values edited.
@@ -43,7 +44,11 @@ export const harvestCorrectionSchema = recordHarvestSchema
   });
 export type HarvestCorrection = z.infer<typeof harvestCorrectionSchema>;
 
-export const harvestRemovalSchema = z.object({ harvestId: uuid, reason: correctionReason });
+export const harvestRemovalSchema = z.object({
+  harvestId: uuid,
+  reason: correctionReason,
+  acceptWarnings: recordHarvestSchema.shape.acceptWarnings,
+});
 
 export const blockCorrectionSchema = z.object({
   blockId: uuid,
@@ -242,6 +247,22 @@ export function checkHarvestCorrection(
       message: `Flush ${harvest.flush} of ${block.code} dried to ${formatMass(harvest.dryMassG, "metric")}; with "${check.asWritten}" (${formatMass(check.freshGrams, "metric")}) fresh that is ${harvest.dryMassG > check.freshGrams ? "more than" : "under a hundredth of"} the fresh weight, and dried mushrooms keep about a tenth. Check the weight and its unit.`,
     });
   return check;
+}
+
+/**
+ * Deleting a flush that leaves a gap in the block's flush numbers (the importer's `flush_gap`, a
+ * warning): the grower confirms it, as for a file with the gap.
+ */
+export function checkHarvestRemoval(blockCode: string, flush: number, otherFlushes: readonly number[]): HarvestProblem[] {
+  const missing = missingFlushes(otherFlushes);
+  if (missing.length === 0) return [];
+  return [
+    {
+      code: "flush_gap",
+      field: "flush",
+      message: `Without flush ${flush}, ${blockCode} would have flushes ${[...otherFlushes].sort((a, b) => a - b).join(", ")} but no flush ${missing.join(", ")}. Check it is the flush to delete; the others keep their numbers.`,
+    },
+  ];
 }
 
 /** One replaced value, as value_changes keeps it (the planner's field names). */

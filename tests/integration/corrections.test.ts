@@ -189,9 +189,18 @@ describe("correcting a harvest", () => {
     expect(rows[0].accepted_warnings).toMatch(/more than the whole wet block/);
   });
 
+  it("asks before deleting a flush that leaves a gap in the flush numbers", async () => {
+    const id = await harvestId("CO-E", 1);
+    const answer = await deleteHarvest(asManager, { harvestId: id, reason: "wrong block" });
+    expect(answer.status === "warnings" && answer.warnings.map((warning) => [warning.code, warning.field])).toEqual([
+      ["flush_gap", "flush"],
+    ]);
+    expect((await inspector.query("select 1 from harvests where id = $1", [id])).rowCount).toBe(1);
+  });
+
   it("deletes a harvest, its values kept in the history as removed, with the reason", async () => {
     const id = await harvestId("CO-E", 2);
-    await deleteHarvest(asManager, { harvestId: id, reason: "entered twice" });
+    expect(await deleteHarvest(asManager, { harvestId: id, reason: "entered twice" })).toMatchObject({ status: "deleted" });
     const { rowCount } = await inspector.query("select 1 from harvests where id = $1", [id]);
     expect(rowCount).toBe(0);
     const history = await inspector.query(

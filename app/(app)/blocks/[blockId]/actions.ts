@@ -39,9 +39,11 @@ const harvestFormSchema = z.preprocess(
 
 export const correctHarvestAction = guardedAction("farm-data:correct", harvestFormSchema, async (input, member) => {
   if (input.intent === "delete") {
-    const { blockId } = await deleteHarvest(farmContextOf(member), input);
+    const deleted = await deleteHarvest(farmContextOf(member), input);
+    if (deleted.status === "warnings")
+      return { ...confirm(deleted.warnings), message: "Check what is marked, then delete anyway or keep the harvest." };
     revalidatePath("/blocks", "layout");
-    redirect(`/blocks/${blockId}?deleted=1`);
+    redirect(`/blocks/${deleted.blockId}?deleted=1`);
   }
   const result = await correctHarvest(farmContextOf(member), input);
   if (result.status === "warnings") return confirm(result.warnings);

@@ -66,14 +66,24 @@ function FieldWarnings({ name, messages }: { name: string; messages: string[] })
   );
 }
 
-function SaveAnyway({ warnings, message, pending }: { warnings: { code: string }[]; message?: string; pending: boolean }) {
+function SaveAnyway({
+  warnings,
+  message,
+  pending,
+  label = "Save anyway",
+}: {
+  warnings: { code: string }[];
+  message?: string;
+  pending: boolean;
+  label?: string;
+}) {
   if (warnings.length === 0) return null;
   return (
     <Notice tone="caution" title="Not saved yet">
       <p>{message}</p>
       <p>If the values are right as they are, save them anyway: the warning is kept and the history shows your reason.</p>
       <Button type="submit" name="acceptWarnings" value={warnings.map((warning) => warning.code).join(",")} disabled={pending}>
-        Save anyway
+        {label}
       </Button>
     </Notice>
   );
@@ -193,10 +203,23 @@ export function HarvestCorrectionForm({
 }) {
   const form = useCorrection(correctHarvestAction);
   const errors = form.state.fieldErrors;
+  // Which button was pressed last: warnings after "Delete" are answered by "Delete anyway".
+  const [intent, setIntent] = useState<"correct" | "delete">("correct");
+  const deleting = intent === "delete" && form.warnings.length > 0;
   return (
-    <form onSubmit={form.onSubmit} onChange={form.onChange} className="space-y-4">
+    <form
+      onSubmit={(event) => {
+        const pressed = event.nativeEvent.submitter?.getAttribute("value");
+        if (pressed === "delete" || pressed === "correct") setIntent(pressed);
+        form.onSubmit(event);
+      }}
+      onChange={form.onChange}
+      className="space-y-4"
+    >
       <Answer state={form.state} />
       <input type="hidden" name="harvestId" value={harvest.id} />
+      {/* Before the buttons: a button pressed after it says its own intent, which wins. */}
+      {deleting ? <input type="hidden" name="intent" value="delete" /> : null}
       <div className="grid grid-cols-[1fr_7rem] items-start gap-3">
         <Field
           label={`Fresh weight of flush ${harvest.flush}`}
@@ -214,7 +237,12 @@ export function HarvestCorrectionForm({
       <FieldWarnings name="flush" messages={form.warningsFor("flush")} />
       <FieldWarnings name="blockCode" messages={form.warningsFor("blockCode")} />
       <ReasonField errors={errors?.reason} />
-      <SaveAnyway warnings={form.warnings} message={form.state.message} pending={form.pending} />
+      <SaveAnyway
+        warnings={form.warnings}
+        message={form.state.message}
+        pending={form.pending}
+        label={deleting ? "Delete anyway" : undefined}
+      />
       <div className="flex flex-wrap gap-3">
         <Button
           type="submit"
