@@ -48,6 +48,10 @@ export const uploads = pgTable(
     committedAt: timestamp("committed_at", { withTimezone: true }),
     /** When the stored file of a rejected upload was removed after the co-op's retention period (the record and report stay). */
     filePurgedAt: timestamp("file_purged_at", { withTimezone: true }),
+    /** Set on commits that kept the rows they replaced (season_log_replaced_rows), so they can be undone exactly. */
+    keptForUndo: boolean("kept_for_undo").notNull().default(false),
+    undoneAt: timestamp("undone_at", { withTimezone: true }),
+    undoneBy: uuid("undone_by").references(() => users.id, { onDelete: "set null" }),
   },
   (t) => [index("uploads_farm_sha_idx").on(t.farmId, t.sha256), index("uploads_farm_time_idx").on(t.farmId, t.uploadedAt)],
 );
@@ -159,6 +163,8 @@ export const valueChanges = pgTable(
     oldValue: text("old_value"),
     newValue: text("new_value"),
     uploadId: uuid("upload_id").references(() => uploads.id, { onDelete: "set null" }),
+    /** Why a person changed it in the app (an edit, a deletion, an undone commit); null for a file's change. */
+    reason: text("reason"),
     changedBy: uuid("changed_by").references(() => users.id, { onDelete: "set null" }),
     changedAt: timestamp("changed_at", { withTimezone: true }).notNull().defaultNow(),
   },
@@ -171,6 +177,29 @@ export const valueChanges = pgTable(
     }).onDelete("cascade"),
     index("value_changes_block_idx").on(t.blockId, t.changedAt),
   ],
+);
+
+/**
+ * A block or harvest row as it was just before a season-log commit updated or removed it, whole
+ * (to_jsonb of the row), so undoing the commit puts back exactly what was stored. Rows the commit inserted
+ * need no copy: they carry the upload's id, and undoing removes them.
+ */
+export const seasonLogReplacedRows = pgTable(
+  "season_log_replaced_rows",
+  {
+    id: bigserial("id", { mode: "number" }).primaryKey(),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    uploadId: uuid("upload_id")
+      .notNull()
+      .references(() => uploads.id, { onDelete: "cascade" }),
+    // "removed_harvest": a stored harvest the file did not have, removed as the grower chose.
+    rowKind: text("row_kind", { enum: ["block", "harvest", "removed_harvest"] }).notNull(),
+    rowId: uuid("row_id").notNull(),
+    before: jsonb("before").$type<Record<string, unknown>>().notNull(),
+  },
+  (t) => [index("season_log_replaced_rows_upload_idx").on(t.uploadId)],
 );
 
 /** What a farm chose last time: its column mapping and default mass unit. */

@@ -11,6 +11,7 @@ const expected: Record<Action, string[]> = {
   "farm-data:read": ["farm_manager", "grower"],
   "season-log:upload": ["farm_manager", "grower"],
   "harvest:record": ["farm_manager", "grower"],
+  "farm-data:correct": ["farm_manager", "grower"],
   "registry:propose": ["farm_manager", "grower"],
   "registry:add": ["coordinator", "farm_manager", "grower"],
   "trial-list:download": ["farm_manager", "grower"],

@@ -25,6 +25,8 @@ export const permissions = {
   "farm-data:read": farmPeople,
   "season-log:upload": farmPeople,
   "harvest:record": farmPeople,
+  // Editing or deleting a harvest, editing a block's values, undoing a season-log commit.
+  "farm-data:correct": farmPeople,
   "registry:propose": farmPeople,
   // Adding an entry: the coordinator's goes straight in, a farm's waits as a proposal.
   "registry:add": ["coordinator", "farm_manager", "grower"],

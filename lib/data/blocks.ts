@@ -36,11 +36,13 @@ export interface BlockDetail extends BlockRow {
   contaminatedOn: string | null;
   notes: string;
   harvests: {
+    id: string;
     flush: number;
     harvestedOn: string | null;
     freshMassG: number;
     dryMassG: number | null;
     freshMassAsWritten: string | null;
+    freshMassUnit: string | null;
     acceptedWarnings: string | null;
   }[];
   history: {
@@ -52,7 +54,15 @@ export interface BlockDetail extends BlockRow {
     changedAt: string;
     changedBy: string | null;
     fileName: string | null;
+    reason: string | null;
   }[];
+  /** The stored values as a correction form starts from them. */
+  recorded: {
+    wetMassAsWritten: string | null;
+    wetMassUnit: string | null;
+    spentMassAsWritten: string | null;
+    spentMassUnit: string | null;
+  };
 }
 
 export interface HarvestTarget {
@@ -144,11 +154,13 @@ export async function listBlocks(context: FarmContext): Promise<BlockRow[]> {
   });
 }
 
+/** The same words for a block of another farm as for one that does not exist. */
+export const noSuchBlock = "There is no such block on your farm. Pick it from Blocks & harvests.";
+
 /** One block of the farm with its flushes and every value an upload or correction replaced. */
 export async function getBlock(context: FarmContext, blockId: string): Promise<BlockDetail> {
   const farm = farmOf(context, "see its blocks");
-  if (!/^[0-9a-f-]{36}$/i.test(blockId))
-    throw new AppError("not_found", "There is no such block on your farm. Pick it from Blocks & harvests.");
+  if (!/^[0-9a-f-]{36}$/i.test(blockId)) throw new AppError("not_found", noSuchBlock);
   return withFarmContext(farm, async (tx) => {
     const [row] = await tx
       .select(blockColumns)
@@ -158,14 +170,16 @@ export async function getBlock(context: FarmContext, blockId: string): Promise<B
       .leftJoin(trialArms, eq(trialArms.id, blocks.trialArmId))
       .leftJoin(trials, eq(trials.id, trialArms.trialId))
       .where(and(eq(blocks.farmId, farm.farmId), eq(blocks.id, blockId)));
-    if (!row) throw new AppError("not_found", "There is no such block on your farm. Pick it from Blocks & harvests.");
+    if (!row) throw new AppError("not_found", noSuchBlock);
     const flushes = await tx
       .select({
+        id: harvests.id,
         flush: harvests.flush,
         harvestedOn: harvests.harvestedOn,
         freshMassG: harvests.freshMassG,
         dryMassG: harvests.dryMassG,
         freshMassAsWritten: harvests.freshMassAsWritten,
+        freshMassUnit: harvests.freshMassUnit,
         acceptedWarnings: harvests.acceptedWarnings,
       })
       .from(harvests)
@@ -181,14 +195,25 @@ export async function getBlock(context: FarmContext, blockId: string): Promise<B
         changedAt: valueChanges.changedAt,
         changedBy: users.name,
         fileName: uploads.fileName,
+        reason: valueChanges.reason,
       })
       .from(valueChanges)
       .leftJoin(users, eq(users.id, valueChanges.changedBy))
       .leftJoin(uploads, eq(uploads.id, valueChanges.uploadId))
       .where(eq(valueChanges.blockId, blockId))
       .orderBy(desc(valueChanges.changedAt), desc(valueChanges.id));
+    const [written] = await tx
+      .select({
+        wetMassAsWritten: blocks.wetMassAsWritten,
+        wetMassUnit: blocks.wetMassUnit,
+        spentMassAsWritten: blocks.spentMassAsWritten,
+        spentMassUnit: blocks.spentMassUnit,
+      })
+      .from(blocks)
+      .where(eq(blocks.id, blockId));
     return {
       ...withFigures(row),
+      recorded: written,
       harvests: flushes,
       history: history.map((change) => ({ ...change, changedAt: change.changedAt.toISOString() })),
     };

@@ -87,6 +87,7 @@ export async function exportFarmData(member: Member): Promise<{ fileName: string
         oldValue: valueChanges.oldValue,
         newValue: valueChanges.newValue,
         changedAt: valueChanges.changedAt,
+        reason: valueChanges.reason,
       })
       .from(valueChanges)
       .innerJoin(blocks, eq(blocks.id, valueChanges.blockId))

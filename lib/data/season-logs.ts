@@ -1,7 +1,7 @@
 import "server-only";
 import { createHash, randomFillSync, randomInt } from "node:crypto";
 import { gunzipSync, gzipSync } from "node:zlib";
-import { and, desc, eq, sql } from "drizzle-orm";
+import { and, desc, eq, isNull, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { v7 as timeOrderedId } from "uuid";
 import { copyInto, withFarmContext, type FarmContext, type Transaction } from "@/db/client";
@@ -30,7 +30,16 @@ import type { RegisterEntryText } from "@/lib/import/registers";
 import { recordAudit } from "@/lib/data/audit";
 import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
 import { assertStorageRoom } from "@/lib/data/upload-limits";
-import { type BlockWrite, type CommitPlan, type HarvestWrite, type PlanCounts, type PlanInput, planCommit } from "@/lib/season-logs/plan";
+import {
+  type BlockWrite,
+  type CommitPlan,
+  type HarvestWrite,
+  type PlanCounts,
+  type PlanInput,
+  type StoredHarvest,
+  planCommit,
+  withNotInFileRemoved,
+} from "@/lib/season-logs/plan";
 import { type ParseChoices, type UploadReport, buildReport, parserOptions } from "@/lib/season-logs/report";
 import { copyChunks } from "@/lib/season-logs/copy-text";
 import { seasonLogExportCsv } from "@/lib/season-logs/export";
@@ -46,6 +55,8 @@ export interface UploadSummary {
   sizeBytes: number;
   rowCount: number;
   committedAt: string | null;
+  /** When the commit was undone (lib/data/corrections.ts); null while it stands. */
+  undoneAt: string | null;
 }
 
 export interface UploadView {
@@ -62,6 +73,8 @@ export interface CommitReceipt {
   committedAt: string;
   counts: PlanCounts;
   changedValues: number;
+  /** Stored harvests of the file's blocks that the file did not have, removed as the grower chose. */
+  removedHarvests: number;
 }
 
 /** What the parser needs from the database before a file streams in. */
@@ -84,6 +97,7 @@ const summaryColumns = {
   sizeBytes: uploads.sizeBytes,
   rowCount: uploads.rowCount,
   committedAt: uploads.committedAt,
+  undoneAt: uploads.undoneAt,
 };
 
 function summary(row: {
@@ -94,8 +108,9 @@ function summary(row: {
   sizeBytes: number;
   rowCount: number;
   committedAt: Date | null;
+  undoneAt: Date | null;
 }): UploadSummary {
-  return { ...row, uploadedAt: iso(row.uploadedAt)!, committedAt: iso(row.committedAt) };
+  return { ...row, uploadedAt: iso(row.uploadedAt)!, committedAt: iso(row.committedAt), undoneAt: iso(row.undoneAt) };
 }
 
 export function sha256Of(content: Uint8Array): string {
@@ -189,6 +204,7 @@ async function loadPlanInput(tx: Transaction, farmId: string): Promise<Omit<Plan
       harvestedOn: harvests.harvestedOn,
       freshMassG: harvests.freshMassG,
       dryMassG: harvests.dryMassG,
+      fromFile: sql<boolean>`${harvests.uploadId} is not null`,
     })
     .from(harvests)
     .where(eq(harvests.farmId, farmId));
@@ -249,7 +265,8 @@ async function committedBefore(tx: Transaction, farmId: string, sha256: string, 
   const rows = await tx
     .select({ committedAt: uploads.committedAt, id: uploads.id })
     .from(uploads)
-    .where(and(eq(uploads.farmId, farmId), eq(uploads.sha256, sha256), eq(uploads.outcome, "committed")))
+    // An undone commit no longer counts: the same file may be committed again.
+    .where(and(eq(uploads.farmId, farmId), eq(uploads.sha256, sha256), eq(uploads.outcome, "committed"), isNull(uploads.undoneAt)))
     .orderBy(uploads.committedAt)
     .limit(2);
   return rows.find((row) => row.id !== except)?.committedAt ?? null;
@@ -357,17 +374,17 @@ export async function createUpload(
 }
 
 const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-const notYours = "That upload is not one of your farm's. Pick it again from the list of past uploads.";
+export const uploadNotFound = "That upload is not one of your farm's. Pick it again from the list of past uploads.";
 
 async function storedUpload(context: FarmMemberContext, uploadId: string) {
-  if (!uuidPattern.test(uploadId)) throw new AppError("not_found", notYours);
+  if (!uuidPattern.test(uploadId)) throw new AppError("not_found", uploadNotFound);
   const [row] = await withFarmContext(context, (tx) =>
     tx
       .select({ ...summaryColumns, sha256: uploads.sha256, report: uploads.report })
       .from(uploads)
       .where(eq(uploads.id, uploadId)),
   );
-  if (!row) throw new AppError("not_found", notYours);
+  if (!row) throw new AppError("not_found", uploadNotFound);
   return row;
 }
 
@@ -376,7 +393,7 @@ async function storedContent(context: FarmMemberContext, uploadId: string): Prom
   const [row] = await withFarmContext(context, (tx) =>
     tx.select({ content: uploads.content, filePurgedAt: uploads.filePurgedAt }).from(uploads).where(eq(uploads.id, uploadId)),
   );
-  if (!row) throw new AppError("not_found", notYours);
+  if (!row) throw new AppError("not_found", uploadNotFound);
   if (row.filePurgedAt)
     throw new AppError(
       "not_found",
@@ -474,6 +491,13 @@ function refuseIfChanged(updated: number | null, expected: number): void {
     );
 }
 
+/** Copies the stored rows a commit is about to update or remove, whole, so undoing it puts them back exactly (lib/data/corrections.ts). */
+async function keepReplacedRows(tx: Transaction, uploadId: string, kind: "block" | "harvest" | "removed_harvest", rows: SQL) {
+  await tx.execute(sql`
+    insert into season_log_replaced_rows (farm_id, upload_id, row_kind, row_id, before)
+    select r.farm_id, ${uploadId}::uuid, ${kind}, r.id, to_jsonb(r) from (${rows}) r`);
+}
+
 /**
  * Writes the plan: new rows inserted and changed ones updated by id, each table's rows staged by
  * COPY and written by one statement, as rhizo_app under row-level security. The plan was made
@@ -481,7 +505,13 @@ function refuseIfChanged(updated: number | null, expected: number): void {
  * harvests need no look-up by block code, and time-ordered ids (UUIDv7) land at the end of the
  * indexes instead of on random pages, which makes writing many harvests far cheaper.
  */
-async function writePlan(tx: Transaction, farmId: string, userId: string, uploadId: string, plan: CommitPlan): Promise<void> {
+async function writePlan(
+  tx: Transaction,
+  farmId: string,
+  userId: string,
+  uploadId: string,
+  plan: CommitPlan & { removedHarvests?: readonly StoredHarvest[] },
+): Promise<void> {
   const nextId = idsInOrder();
   const blockIds = new Map<string, string>();
   let changedBlocks = 0;
@@ -542,6 +572,7 @@ async function writePlan(tx: Transaction, farmId: string, userId: string, upload
         from pg_temp.commit_blocks where is_new`);
     }
     if (changedBlocks > 0) {
+      await keepReplacedRows(tx, uploadId, "block", sql`select b.* from blocks b join pg_temp.commit_blocks u on u.id = b.id and not u.is_new`);
       const updated = await tx.execute(sql`
         update blocks b set
           strain_id = u.strain_id, substrate_recipe_id = u.substrate_recipe_id, fruiting_method_id = u.fruiting_method_id,
@@ -584,6 +615,7 @@ async function writePlan(tx: Transaction, farmId: string, userId: string, upload
         from pg_temp.commit_harvests where is_new`);
     }
     if (changedHarvests > 0) {
+      await keepReplacedRows(tx, uploadId, "harvest", sql`select h.* from harvests h join pg_temp.commit_harvests u on u.id = h.id and not u.is_new`);
       const updated = await tx.execute(sql`
         update harvests h set
           harvested_on = u.harvested_on, fresh_mass_g = u.fresh_mass_g, fresh_mass_as_written = u.fresh_mass_as_written,
@@ -598,9 +630,22 @@ async function writePlan(tx: Transaction, farmId: string, userId: string, upload
     }
   }
 
+  // Removed only when the grower chose so; kept whole, so undoing the commit puts them back.
+  const removedHarvests = plan.removedHarvests ?? [];
+  if (removedHarvests.length > 0) {
+    const ids = JSON.stringify(removedHarvests.map((harvest) => harvest.id));
+    const chosen = sql`h.id in (select value::uuid from json_array_elements_text(${ids}::json))`;
+    await keepReplacedRows(tx, uploadId, "removed_harvest", sql`select h.* from harvests h where ${chosen}`);
+    const removed = await tx.execute(sql`delete from harvests h where ${chosen}`);
+    refuseIfChanged(removed.rowCount, removedHarvests.length);
+    // A removed harvest's block may be one the plan leaves untouched: its history needs the block's id.
+    const stored = await tx.select({ id: blocks.id, code: blocks.code }).from(blocks).where(eq(blocks.farmId, farmId));
+    for (const row of stored) if (!blockIds.has(row.code)) blockIds.set(row.code, row.id);
+  }
+
   if (plan.changes.length > 0) {
     await tx.execute(sql.raw(stagedChanges));
-    // Every change is of a block or harvest the plan writes, so its block id is known.
+    // Every change is of a block or harvest the plan writes or removes, so its block id is known.
     await copyInto(
       tx,
       "copy pg_temp.commit_value_changes from stdin",
@@ -620,7 +665,12 @@ async function writePlan(tx: Transaction, farmId: string, userId: string, upload
  * marks the upload committed and queues the farm's pooled refresh (the job runs after the commit).
  * Any error leaves the farm's data as it was.
  */
-export async function commitUpload(context: FarmContext, uploadId: string, choices: ParseChoices): Promise<CommitReceipt> {
+export async function commitUpload(
+  context: FarmContext,
+  uploadId: string,
+  choices: ParseChoices,
+  { removeNotInFile = false }: { removeNotInFile?: boolean } = {},
+): Promise<CommitReceipt> {
   const farm = farmOf(context, "work with its season logs");
   const stored = await storedUpload(farm, uploadId);
   if (stored.outcome === "committed")
@@ -637,7 +687,8 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
         `This file was already imported on ${iso(alreadyImportedAt)!.slice(0, 10)}; committing it again would change nothing.`,
       );
     }
-    const plan = planCommit({ records: result.records, ...(await loadPlanInput(tx, farm.farmId)) });
+    const planned = planCommit({ records: result.records, ...(await loadPlanInput(tx, farm.farmId)) });
+    const plan = removeNotInFile ? withNotInFileRemoved(planned) : { ...planned, removedHarvests: [] };
     const report = buildReport({
       rowCount: result.records.length,
       parserIssues: result.issues,
@@ -655,7 +706,16 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
     await writePlan(tx, farm.farmId, farm.userId, uploadId, plan);
     const [row] = await tx
       .update(uploads)
-      .set({ outcome: "committed", committedAt: new Date(), report, options: choices, rowCount: report.rowCount, stagedParse: null })
+      // The transaction's own time, as every row it writes gets in updated_at: an undo knows a row untouched since by that.
+      .set({
+        outcome: "committed",
+        committedAt: sql`now()`,
+        keptForUndo: true,
+        report,
+        options: choices,
+        rowCount: report.rowCount,
+        stagedParse: null,
+      })
       .where(eq(uploads.id, uploadId))
       .returning({ committedAt: uploads.committedAt, fileName: uploads.fileName });
     await rememberChoices(tx, farm.farmId, choices);
@@ -664,7 +724,7 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
       subject: row.fileName,
       farmId: farm.farmId,
       actorUserId: farm.userId,
-      details: { uploadId, ...plan.counts, changedValues: plan.changes.length },
+      details: { uploadId, ...plan.counts, changedValues: plan.changes.length, removedHarvests: plan.removedHarvests.length },
     });
     await queuePooledRefresh(tx, farm.farmId);
     return {
@@ -673,6 +733,7 @@ export async function commitUpload(context: FarmContext, uploadId: string, choic
       committedAt: iso(row.committedAt)!,
       counts: plan.counts,
       changedValues: plan.changes.length,
+      removedHarvests: plan.removedHarvests.length,
     };
   });
   return receipt;

@@ -2,6 +2,7 @@ import { drySubstrateGrams, formatMass } from "../units";
 import {
   efficiencyPercent,
   efficiencyVerdict,
+  dryWeightImplausible,
   flushHeavierThanBlock as heavierThanBlock,
   harvestBeforeInoculation,
   harvestOnContaminatedBlock,
@@ -339,15 +340,10 @@ export function blockAtFinish(state: ParseState, block: BlockState, record: Seas
   }
 }
 
-/** Dried mushrooms keep about a tenth of their fresh weight (common practice): more than all of it, or under a hundredth, is a wrong unit. */
-const fewestDryPerFresh = 0.01;
-
 /** At the end of the file: a harvest's dry weight against its fresh weight. */
 export function dryAgainstFresh(state: ParseState, record: SeasonRecord): void {
   const { dryGrams, freshGrams } = record;
-  // A dry weight of 0 is "not weighed", as a generator rounding to whole ounces writes it.
-  if (dryGrams === null || freshGrams === null || freshGrams === 0 || dryGrams === 0) return;
-  if (dryGrams <= freshGrams && dryGrams >= fewestDryPerFresh * freshGrams) return;
+  if (dryGrams === null || freshGrams === null || !dryWeightImplausible(dryGrams, freshGrams)) return;
   const dry = record.dryAsWritten?.value ?? "";
   const fresh = record.freshAsWritten?.value ?? "";
   const what = `the dry weight "${shorten(dry)}" (${formatMass(dryGrams, "metric")}) is ${dryGrams > freshGrams ? "more than" : "under a hundredth of"} the fresh weight "${shorten(fresh)}" (${formatMass(freshGrams, "metric")}); dried mushrooms keep about a tenth. Check the units of both weights.`;

@@ -72,3 +72,12 @@ export function harvestOnContaminatedBlock(
 export function flushWeighsNothing(freshGrams: number): boolean {
   return freshGrams === 0;
 }
+
+/** Dried mushrooms keep about a tenth of their fresh weight (common practice): more than all of it, or under a hundredth, is a wrong unit. */
+const fewestDryPerFresh = 0.01;
+
+/** A dry weight that cannot go with its fresh weight (`dry_weight_implausible`, an error). 0 is "not weighed", as a generator rounding to whole ounces writes it. */
+export function dryWeightImplausible(dryGrams: number, freshGrams: number): boolean {
+  if (freshGrams === 0 || dryGrams === 0) return false;
+  return dryGrams > freshGrams || dryGrams < fewestDryPerFresh * freshGrams;
+}

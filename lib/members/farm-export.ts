@@ -69,6 +69,11 @@ export const exportFiles = {
       { key: "oldValue", header: "old_value", meaning: "The value before." },
       { key: "newValue", header: "new_value", meaning: "The value after." },
       { key: "changedAt", header: "changed_at", meaning: "When it changed (UTC)." },
+      {
+        key: "reason",
+        header: "reason",
+        meaning: "Why a person changed it in the app (an edit, a deletion, an undone commit); blank for a file's change.",
+      },
     ],
   },
   activity: {

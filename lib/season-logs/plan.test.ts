@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { parseSeasonLog } from "../import";
-import { type PlanInput, type StoredBlock, type TrialAssignment, planCommit } from "./plan";
+import { type PlanInput, type StoredBlock, type TrialAssignment, planCommit, withNotInFileRemoved } from "./plan";
 
 const strains = [
   { id: "s-po01", code: "PO-01", names: ["Grey oyster, culture bank"] },
@@ -220,5 +220,45 @@ describe("a trial block against its randomised list", () => {
     );
     expect(codes("LP-99,PO-01,,B,,2026-03-01,2500 g")).toEqual([["trial_block_not_listed", "error", "arm", "B"]]);
     expect(plan("LP-99,PO-01,,,,2026-03-01,2500 g").issues).toEqual([]);
+  });
+});
+
+describe("what is stored but not in the file", () => {
+  const storedA2: StoredBlock = { ...storedA1, id: "b-2", code: "A-2" };
+  const stored = input({
+    storedBlocks: [storedA1, storedA2],
+    storedHarvests: [
+      { id: "h-1", blockCode: "A-1", flush: 1, harvestedOn: "2026-04-02", freshMassG: 400, dryMassG: null, fromFile: true },
+      { id: "h-2", blockCode: "A-1", flush: 2, harvestedOn: "2026-04-20", freshMassG: 250, dryMassG: 24, fromFile: false },
+      { id: "h-3", blockCode: "A-2", flush: 1, harvestedOn: "2026-04-05", freshMassG: 300, dryMassG: null, fromFile: false },
+    ],
+  });
+  const sheet = records(["A-1,PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,1,2026-04-02,400 g,no,"]);
+
+  it("lists the harvests of the file's blocks that the file lacks, and counts the blocks it leaves out", () => {
+    const plan = planCommit({ ...stored, records: sheet });
+    expect(plan.notInFile.harvests.map((harvest) => harvest.id)).toEqual(["h-2"]);
+    expect(plan.notInFile.blocks).toBe(1);
+    // Kept unless asked: the plan writes and changes nothing for them.
+    expect(plan.changes).toEqual([]);
+  });
+
+  it("removes them only when asked, each removal a value change for the history", () => {
+    const plan = withNotInFileRemoved(planCommit({ ...stored, records: sheet }));
+    expect(plan.removedHarvests.map((harvest) => harvest.id)).toEqual(["h-2"]);
+    expect(plan.changes).toEqual([
+      { blockCode: "A-1", flush: 2, field: "fresh_weight", oldValue: "250", newValue: null },
+      { blockCode: "A-1", flush: 2, field: "harvested_on", oldValue: "2026-04-20", newValue: null },
+      { blockCode: "A-1", flush: 2, field: "dry_weight", oldValue: "24", newValue: null },
+    ]);
+  });
+
+  it("lists nothing when the file has every stored flush of its blocks", () => {
+    const full = records([
+      "A-1,PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,1,2026-04-02,400 g,no,",
+      "A-1,PO-01,,,,,,2,2026-04-20,250 g,no,",
+      "A-2,PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,1,2026-04-05,300 g,no,",
+    ]);
+    expect(planCommit({ ...stored, records: full }).notInFile).toEqual({ harvests: [], blocks: 0 });
   });
 });

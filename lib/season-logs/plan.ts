@@ -25,6 +25,14 @@ export interface StoredHarvest {
   harvestedOn: string | null;
   freshMassG: number;
   dryMassG: number | null;
+  /** False for a flush recorded with the phone form, true for one from a season log. */
+  fromFile?: boolean;
+}
+
+/** What the farm has stored that the file does not have: harvests of the file's blocks, and how many blocks it leaves out. */
+export interface NotInFile {
+  harvests: StoredHarvest[];
+  blocks: number;
 }
 
 export interface RegistryEntry {
@@ -102,6 +110,8 @@ export interface CommitPlan {
   changes: ValueChange[];
   newBlockCodes: string[];
   counts: PlanCounts;
+  /** Kept unless the grower chooses to remove these harvests (`withNotInFileRemoved`). */
+  notInFile: NotInFile;
   /** Problems only the stored data and registries reveal (unknown substrate, trial strain mismatch …). */
   issues: SeasonLogIssue[];
 }
@@ -121,7 +131,8 @@ function sameNumber(a: number | null, b: number | null, tolerance: number): bool
   return Math.abs(a - b) <= tolerance;
 }
 
-function shown(value: number | string | boolean | null): string | null {
+/** A stored value as value history keeps it: numbers to three decimals, booleans as "true"/"false". */
+export function shown(value: number | string | boolean | null): string | null {
   if (value === null) return null;
   if (typeof value === "number") return String(Math.round(value * 1000) / 1000);
   return String(value);
@@ -376,7 +387,9 @@ export function planCommit(input: PlanInput): CommitPlan {
   }
 
   const harvests: HarvestWrite[] = [];
+  const inFile = new Set<string>();
   for (const record of input.records) {
+    if (record.flush !== null) inFile.add(`${record.blockCode}\u0000${record.flush}`);
     if (record.flush === null || record.freshGrams === null) continue;
     const blockId = plannedBlocks.get(record.blockCode);
     if (blockId === undefined) continue;
@@ -417,5 +430,40 @@ export function planCommit(input: PlanInput): CommitPlan {
     }
   }
 
-  return { blocks, harvests, changes, newBlockCodes, counts, issues };
+  const notInFile: NotInFile = {
+    harvests: input.storedHarvests.filter(
+      (harvest) => firstRecord.has(harvest.blockCode) && !inFile.has(`${harvest.blockCode}\u0000${harvest.flush}`),
+    ),
+    blocks: input.storedBlocks.filter((block) => !firstRecord.has(block.code)).length,
+  };
+  return { blocks, harvests, changes, newBlockCodes, counts, issues, notInFile };
+}
+
+/**
+ * The plan when the grower chose to remove the stored harvests of the file's blocks that the file
+ * does not have: each removal is a value change (its values to blank), kept in the history like
+ * any other. Blocks the file leaves out are never removed: a file may hold only some blocks.
+ */
+export function withNotInFileRemoved(plan: CommitPlan): CommitPlan & { removedHarvests: StoredHarvest[] } {
+  const removals = plan.notInFile.harvests.flatMap((harvest) =>
+    harvestRemovalChanges(harvest).map((change) => ({ ...change, blockCode: harvest.blockCode })),
+  );
+  return { ...plan, changes: [...plan.changes, ...removals], removedHarvests: plan.notInFile.harvests };
+}
+
+/** A harvest removed, as value history keeps it: each of its values goes to blank. */
+export function harvestRemovalChanges(harvest: {
+  flush: number;
+  harvestedOn: string | null;
+  freshMassG: number;
+  dryMassG: number | null;
+}): Omit<ValueChange, "blockCode">[] {
+  const changes: Omit<ValueChange, "blockCode">[] = [
+    { flush: harvest.flush, field: "fresh_weight", oldValue: shown(harvest.freshMassG), newValue: null },
+  ];
+  if (harvest.harvestedOn !== null)
+    changes.push({ flush: harvest.flush, field: "harvested_on", oldValue: harvest.harvestedOn, newValue: null });
+  if (harvest.dryMassG !== null)
+    changes.push({ flush: harvest.flush, field: "dry_weight", oldValue: shown(harvest.dryMassG), newValue: null });
+  return changes;
 }

@@ -175,7 +175,10 @@ export function checkQuickHarvest(entry: QuickHarvestEntry, block: StoredBlock, 
  * The warnings still standing after the grower's "Save anyway": none when every warning's code
  * was accepted. An accepted code can never stand in for an error.
  */
-export function warningsNotAccepted(warnings: readonly HarvestProblem[], accepted: readonly string[]): HarvestProblem[] {
+export function warningsNotAccepted<Problem extends { code: string }>(
+  warnings: readonly Problem[],
+  accepted: readonly string[],
+): Problem[] {
   return warnings.filter((warning) => !accepted.includes(warning.code));
 }
 

@@ -34,6 +34,12 @@ export interface UploadPreview {
   counts: PlanCounts;
   changes: ValueChange[];
   newBlockCodes: string[];
+  /**
+   * What is stored but not in the file: harvests of the file's blocks, by where they came from
+   * (the phone form or another file, the first few listed), and blocks the file leaves out.
+   * Missing from reports stored before it existed.
+   */
+  notInFile?: { phoneForm: number; otherFiles: number; harvests: { blockCode: string; flush: number }[]; blocks: number };
 }
 
 /** What the review step shows and what is kept with the upload. */
@@ -76,6 +82,12 @@ export function buildReport(input: {
       counts: input.plan.counts,
       changes: input.plan.changes.slice(0, mostPreviewItems),
       newBlockCodes: input.plan.newBlockCodes.slice(0, mostPreviewItems),
+      notInFile: {
+        phoneForm: input.plan.notInFile.harvests.filter((harvest) => harvest.fromFile === false).length,
+        otherFiles: input.plan.notInFile.harvests.filter((harvest) => harvest.fromFile !== false).length,
+        harvests: input.plan.notInFile.harvests.slice(0, mostPreviewItems).map(({ blockCode, flush }) => ({ blockCode, flush })),
+        blocks: input.plan.notInFile.blocks,
+      },
     },
     choices: input.choices,
   };

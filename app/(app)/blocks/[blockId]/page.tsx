@@ -1,14 +1,18 @@
 import type { Metadata } from "next";
+import Link from "next/link";
 import { notFound } from "next/navigation";
 import { ButtonLink } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { Caution } from "@/components/ui/caution";
+import { Notice } from "@/components/ui/notice";
 import { PageHeader } from "@/components/ui/page-header";
 import { farmContextOf, requirePage } from "@/lib/auth/guard";
+import { can } from "@/lib/auth/permissions";
 import { getBlock, type BlockDetail } from "@/lib/data/blocks";
 import { isAppError } from "@/lib/errors";
 import { seasonLogColumns } from "@/lib/import/schema";
 import { formatMass } from "@/lib/units";
+import { BlockCorrectionForm, HarvestCorrectionForm } from "./_components/correction-forms";
 
 export const metadata: Metadata = { title: "Block" };
 
@@ -17,13 +21,26 @@ const massFields = new Set(seasonLogColumns.filter((column) => column.kind === "
 
 const noHarvestYet = "no harvest yet";
 
+/** A stored mass as a correction form starts from it: as written, with its unit when the file had it in the header. */
+function written(asWritten: string | null, unit: string | null, grams: number | null): string {
+  if (asWritten !== null && asWritten !== "") return /[a-z]/i.test(asWritten) || !unit ? asWritten : `${asWritten} ${unit}`;
+  return grams === null ? "" : `${grams} g`;
+}
+
 function percent(value: number | null): string {
   return value === null ? "not known yet" : `${value.toFixed(1)} %`;
 }
 
-export default async function BlockPage({ params }: { params: Promise<{ blockId: string }> }) {
+export default async function BlockPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ blockId: string }>;
+  searchParams: Promise<{ correct?: string; deleted?: string }>;
+}) {
   const member = await requirePage("farm-data:read");
   const { blockId } = await params;
+  const { correct, deleted } = await searchParams;
   let block: BlockDetail;
   try {
     block = await getBlock(farmContextOf(member), blockId);
@@ -32,6 +49,12 @@ export default async function BlockPage({ params }: { params: Promise<{ blockId:
     throw error;
   }
   const display = member.displayUnits;
+  const canCorrect = can(member.role, "farm-data:correct");
+  const defaultUnit = display === "imperial" ? "lb" : "g";
+  // One correction form at a time: the block's values, or one harvest (its id in ?correct=).
+  const correctedHarvest = canCorrect ? block.harvests.find((harvest) => harvest.id === correct) : undefined;
+  const correctingBlock = canCorrect && correct === "block";
+  const here = `/blocks/${block.id}`;
   const mass = (grams: number | null) => (grams === null ? "not weighed" : formatMass(grams, display));
   // History keeps masses in grams as text; show them in the reader's units like every other mass.
   const shownValue = (field: string, value: string | null) =>
@@ -55,9 +78,19 @@ export default async function BlockPage({ params }: { params: Promise<{ blockId:
         <ButtonLink href="/blocks" variant="secondary">
           All blocks
         </ButtonLink>
+        {canCorrect ? (
+          <ButtonLink href={`${here}?correct=block#correction`} variant="secondary">
+            Correct the block&apos;s values
+          </ButtonLink>
+        ) : null}
         <ButtonLink href={`/blocks/harvest?block=${encodeURIComponent(block.code)}`}>Record a harvest</ButtonLink>
       </PageHeader>
       <div className="space-y-6">
+        {deleted ? (
+          <Notice title="Harvest deleted">
+            <p role="status">The harvest was deleted; its values and your reason are kept in the history below.</p>
+          </Notice>
+        ) : null}
         {block.contaminated ? <Caution which="spores" /> : null}
         <Card title="The block">
           <dl className="grid gap-x-6 gap-y-2 text-sm sm:grid-cols-[12rem_1fr]">
@@ -96,6 +129,11 @@ export default async function BlockPage({ params }: { params: Promise<{ blockId:
                     <th scope="col" className="px-3 py-2">
                       Saved despite
                     </th>
+                    {canCorrect ? (
+                      <th scope="col" className="px-3 py-2">
+                        <span className="sr-only">Correct</span>
+                      </th>
+                    ) : null}
                   </tr>
                 </thead>
                 <tbody>
@@ -117,6 +155,16 @@ export default async function BlockPage({ params }: { params: Promise<{ blockId:
                           </ul>
                         )}
                       </td>
+                      {canCorrect ? (
+                        <td className="px-3 py-2">
+                          <Link
+                            className="inline-flex min-h-11 items-center font-semibold text-moss-700 underline"
+                            href={`${here}?correct=${harvest.id}#correction`}
+                          >
+                            Correct or delete<span className="sr-only"> flush {harvest.flush}</span>
+                          </Link>
+                        </td>
+                      ) : null}
                     </tr>
                   ))}
                 </tbody>
@@ -124,6 +172,45 @@ export default async function BlockPage({ params }: { params: Promise<{ blockId:
             </div>
           )}
         </Card>
+        {correctingBlock || correctedHarvest ? (
+          <div id="correction">
+            <Card title={correctedHarvest ? `Correct flush ${correctedHarvest.flush}` : "Correct the block's values"}>
+              <p className="mb-4 text-sm text-ink-soft">
+                The same rules as a season log apply. Every change is kept in the history with your name, the time and your reason, and the
+                co-op&apos;s figures follow.{" "}
+                <Link href={here} className="underline">
+                  Cancel
+                </Link>
+              </p>
+              {correctedHarvest ? (
+                <HarvestCorrectionForm
+                  key={correctedHarvest.id}
+                  defaultUnit={defaultUnit}
+                  harvest={{
+                    id: correctedHarvest.id,
+                    flush: correctedHarvest.flush,
+                    weight: written(correctedHarvest.freshMassAsWritten, correctedHarvest.freshMassUnit, correctedHarvest.freshMassG),
+                    harvestedOn: correctedHarvest.harvestedOn ?? "",
+                  }}
+                />
+              ) : (
+                <BlockCorrectionForm
+                  defaultUnit={defaultUnit}
+                  values={{
+                    blockId: block.id,
+                    wetMass: written(block.recorded.wetMassAsWritten, block.recorded.wetMassUnit, block.wetMassG),
+                    moisture: block.moisture === null ? "" : `${Math.round(block.moisture * 100000) / 1000} %`,
+                    inoculatedOn: block.inoculatedOn ?? "",
+                    contaminated: block.contaminated,
+                    contaminatedOn: block.contaminatedOn ?? "",
+                    spentMass: written(block.recorded.spentMassAsWritten, block.recorded.spentMassUnit, block.spentMassG),
+                    notes: block.notes,
+                  }}
+                />
+              )}
+            </Card>
+          </div>
+        ) : null}
         <Card title="History of changed values">
           {block.history.length === 0 ? (
             <p className="text-ink-soft">No value of this block has been replaced since it was first recorded.</p>
@@ -138,6 +225,7 @@ export default async function BlockPage({ params }: { params: Promise<{ blockId:
                     {change.changedAt.slice(0, 16).replace("T", " ")} UTC{change.changedBy ? ` by ${change.changedBy}` : ""}
                     {change.fileName ? `, from ${change.fileName}` : ""}
                   </span>
+                  {change.reason ? <span className="block">Why: {change.reason}</span> : null}
                 </li>
               ))}
             </ul>

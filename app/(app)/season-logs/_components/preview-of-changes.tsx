@@ -17,8 +17,27 @@ const columns: ColumnDef<ValueChange, unknown>[] = [
   { accessorFn: (change) => change.newValue ?? "(blank)", id: "new", header: "After commit" },
 ];
 
-/** What a commit would do to the farm's stored blocks and harvests. */
-export function PreviewOfChanges({ preview }: { preview: UploadPreview }) {
+const plural = (count: number, one: string) => `${count} ${one}${count === 1 ? "" : "s"}`;
+
+/** "8 harvests recorded with the phone form and 2 from other files are not in this file." */
+function notInFileWords(phoneForm: number, otherFiles: number): string {
+  const parts = [
+    ...(phoneForm > 0 ? [`${plural(phoneForm, "harvest")} recorded with the phone form`] : []),
+    ...(otherFiles > 0 ? [`${phoneForm > 0 ? otherFiles : plural(otherFiles, "harvest")} from other files`] : []),
+  ];
+  return `${parts.join(" and ")} ${phoneForm + otherFiles === 1 ? "is" : "are"} not in this file.`;
+}
+
+/** What a commit would do to the farm's stored blocks and harvests, and what it would leave or remove that the file does not have. */
+export function PreviewOfChanges({
+  preview,
+  removeNotInFile,
+  onRemoveNotInFile,
+}: {
+  preview: UploadPreview;
+  removeNotInFile: boolean;
+  onRemoveNotInFile: (remove: boolean) => void;
+}) {
   const { counts } = preview;
   const figures = [
     { label: "New blocks", value: counts.newBlocks },
@@ -43,6 +62,34 @@ export function PreviewOfChanges({ preview }: { preview: UploadPreview }) {
           <h3 className="mb-2 font-semibold">Values that would be replaced (the old ones are kept in each block’s history)</h3>
           <DataTable caption="Values that would be replaced" columns={columns} rows={preview.changes} emptyMessage="" pageSize={10} />
         </div>
+      ) : null}
+      {preview.notInFile && preview.notInFile.harvests.length > 0 ? (
+        <fieldset className="mt-4 space-y-2 rounded-lg border border-caution-ink/40 p-3" data-testid="not-in-file">
+          <legend className="px-1 font-semibold">{notInFileWords(preview.notInFile.phoneForm, preview.notInFile.otherFiles)}</legend>
+          <p className="text-sm text-ink-soft">
+            Stored for blocks this file lists:{" "}
+            {preview.notInFile.harvests
+              .slice(0, 30)
+              .map((harvest) => `${harvest.blockCode} flush ${harvest.flush}`)
+              .join(", ")}
+            {preview.notInFile.phoneForm + preview.notInFile.otherFiles > 30 ? " …" : ""}.
+          </p>
+          <label className="flex min-h-11 items-center gap-2 text-sm">
+            <input type="radio" name="notInFile" checked={!removeNotInFile} onChange={() => onRemoveNotInFile(false)} />
+            Keep them (they stay as they are)
+          </label>
+          <label className="flex min-h-11 items-center gap-2 text-sm">
+            <input type="radio" name="notInFile" checked={removeNotInFile} onChange={() => onRemoveNotInFile(true)} />
+            Remove them: this file is the whole record of these blocks (each removal is kept in the block&apos;s history, and undoing the
+            commit puts them back)
+          </label>
+        </fieldset>
+      ) : null}
+      {preview.notInFile && preview.notInFile.blocks > 0 ? (
+        <p className="mt-4 text-sm text-ink-soft">
+          {plural(preview.notInFile.blocks, "stored block")} {preview.notInFile.blocks === 1 ? "is" : "are"} not in this file; committing
+          leaves {preview.notInFile.blocks === 1 ? "it" : "them"} as {preview.notInFile.blocks === 1 ? "it is" : "they are"}.
+        </p>
       ) : null}
       {preview.newBlockCodes.length > 0 ? (
         <p className="mt-4 text-sm text-ink-soft">

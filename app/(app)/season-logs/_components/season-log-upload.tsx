@@ -107,9 +107,12 @@ export function SeasonLogUpload() {
   const [checking, setChecking] = useState(false);
   const [receipt, setReceipt] = useState<CommitReceipt | null>(null);
   const [dragging, setDragging] = useState(false);
+  // What is stored but not in the file is kept unless the grower chooses otherwise, each time.
+  const [removeNotInFile, setRemoveNotInFile] = useState(false);
 
   function show(next: UploadView) {
     setView(next);
+    setRemoveNotInFile(false);
     const detected = next.report.detected;
     setMapping(Object.fromEntries(detected.mapping.columns.map((column) => [column.header, column.target ?? "ignore"])));
     setDateOrder(next.report.choices.dateOrder ?? (detected.dateOrder === "dmy" || detected.dateOrder === "mdy" ? detected.dateOrder : ""));
@@ -143,11 +146,11 @@ export function SeasonLogUpload() {
     return chosen;
   }
 
-  async function post(path: string): Promise<Response> {
+  async function post(path: string, extra: Record<string, unknown> = {}): Promise<Response> {
     return fetch(`/api/season-logs/${view!.upload.id}/${path}`, {
       method: "POST",
       headers: { "content-type": "application/json" },
-      body: JSON.stringify(choices()),
+      body: JSON.stringify({ ...choices(), ...extra }),
     });
   }
 
@@ -169,7 +172,7 @@ export function SeasonLogUpload() {
   async function commit() {
     setPhase("committing");
     setProblem(null);
-    const response = await post("commit");
+    const response = await post("commit", { removeNotInFile });
     if (!response.ok) {
       setProblem(await messageOf(response));
       setPhase("review");
@@ -320,7 +323,7 @@ export function SeasonLogUpload() {
             ) : null}
           </Card>
 
-          <PreviewOfChanges preview={view.report.preview} />
+          <PreviewOfChanges preview={view.report.preview} removeNotInFile={removeNotInFile} onRemoveNotInFile={setRemoveNotInFile} />
 
           <div className="flex flex-wrap gap-3">
             <Button type="button" onClick={() => void commit()} disabled={!view.canCommit || phase === "committing" || checking}>
@@ -343,6 +346,7 @@ export function SeasonLogUpload() {
               {receipt.counts.newBlocks} new blocks, {receipt.counts.changedBlocks} blocks changed, {receipt.counts.newHarvests} new
               harvests, {receipt.counts.changedHarvests} harvests changed; {receipt.changedValues} replaced values kept in the blocks’
               history.
+              {receipt.removedHarvests > 0 ? ` ${receipt.removedHarvests} harvests that were not in the file removed, as you chose.` : ""}
             </p>
           </div>
           <div className="mt-4 flex flex-wrap gap-3">
