@@ -572,7 +572,12 @@ async function writePlan(
         from pg_temp.commit_blocks where is_new`);
     }
     if (changedBlocks > 0) {
-      await keepReplacedRows(tx, uploadId, "block", sql`select b.* from blocks b join pg_temp.commit_blocks u on u.id = b.id and not u.is_new`);
+      await keepReplacedRows(
+        tx,
+        uploadId,
+        "block",
+        sql`select b.* from blocks b join pg_temp.commit_blocks u on u.id = b.id and not u.is_new`,
+      );
       const updated = await tx.execute(sql`
         update blocks b set
           strain_id = u.strain_id, substrate_recipe_id = u.substrate_recipe_id, fruiting_method_id = u.fruiting_method_id,
@@ -615,7 +620,12 @@ async function writePlan(
         from pg_temp.commit_harvests where is_new`);
     }
     if (changedHarvests > 0) {
-      await keepReplacedRows(tx, uploadId, "harvest", sql`select h.* from harvests h join pg_temp.commit_harvests u on u.id = h.id and not u.is_new`);
+      await keepReplacedRows(
+        tx,
+        uploadId,
+        "harvest",
+        sql`select h.* from harvests h join pg_temp.commit_harvests u on u.id = h.id and not u.is_new`,
+      );
       const updated = await tx.execute(sql`
         update harvests h set
           harvested_on = u.harvested_on, fresh_mass_g = u.fresh_mass_g, fresh_mass_as_written = u.fresh_mass_as_written,

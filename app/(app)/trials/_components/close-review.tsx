@@ -10,8 +10,8 @@ export function CloseReviewCard({ review, outcomeFlushes }: { review: CloseRevie
   return (
     <Card title="Before closing: what is still incomplete">
       <p className="mb-3 text-sm">
-        Closing runs the pre-declared analysis (run 1); you can run it again as late records arrive, and publishing freezes the run you pick. If the trial closed now,{" "}
-        <strong>{plural(totals.wouldCount, "block")}</strong> would be compared and{" "}
+        Closing runs the pre-declared analysis (run 1); you can run it again as late records arrive, and publishing freezes the run you
+        pick. If the trial closed now, <strong>{plural(totals.wouldCount, "block")}</strong> would be compared and{" "}
         <strong>
           {plural(totals.leftOut.unfinished + totals.leftOut.lost + totals.leftOut.no_harvest + totals.leftOut.contaminated, "block")}
         </strong>{" "}
