@@ -17,6 +17,9 @@ import { AppShell, SignInPage } from "./support/pages";
  */
 const matrix: Record<string, Action | "public"> = {
   "app/(app)/blocks/harvest/actions.ts#recordHarvestAction": "harvest:record",
+  "app/(app)/blocks/[blockId]/actions.ts#correctBlockAction": "farm-data:correct",
+  "app/(app)/blocks/[blockId]/actions.ts#correctHarvestAction": "farm-data:correct",
+  "app/(app)/season-logs/[uploadId]/undo/actions.ts#undoCommitAction": "farm-data:correct",
   "app/(app)/farm-people/actions.ts#inviteGrowerAction": "farm-staff:manage",
   "app/(app)/farm-people/actions.ts#removeGrowerAction": "farm-staff:manage",
   "app/(app)/farm-people/actions.ts#transferManagerAction": "farm-staff:manage",
@@ -41,6 +44,8 @@ const matrix: Record<string, Action | "public"> = {
   "app/(app)/strains/actions.ts#importRegistryAction": "registry:manage",
   "app/(app)/trials/actions.ts#saveTrialDraftAction": "trial:manage",
   "app/(app)/trials/actions.ts#moveTrialAction": "trial:manage",
+  "app/(app)/trials/actions.ts#runAnalysisAction": "trial:manage",
+  "app/(app)/trials/actions.ts#amendAnalysisAction": "trial:manage",
   "app/(app)/trials/actions.ts#inviteFarmsAction": "trial:manage",
   "app/(app)/trials/actions.ts#sendReminderAction": "trial:manage",
   "app/(app)/trials/actions.ts#respondToInvitationAction": "trial:enrol",
@@ -67,7 +72,7 @@ interface BuiltAction {
 }
 
 /** The build's own list of server actions, with the page each one is posted to. */
-function builtActions(trialId: string): BuiltAction[] {
+function builtActions(ids: { trialId: string; blockId: string; uploadId: string }): BuiltAction[] {
   const manifest = JSON.parse(
     readFileSync(path.join(process.env.NEXT_DIST_DIR ?? ".next", "server", "server-reference-manifest.json"), "utf8"),
   ) as {
@@ -79,7 +84,9 @@ function builtActions(trialId: string): BuiltAction[] {
       .replace(/^app/, "")
       .replace(/\/\([^)]+\)/g, "")
       .replace(/\/page$/, "")
-      .replace("[trialId]", trialId);
+      .replace("[trialId]", ids.trialId)
+      .replace("[blockId]", ids.blockId)
+      .replace("[uploadId]", ids.uploadId);
     return { id, key: `${entry.filename}#${entry.exportedName}`, page: page || "/" };
   });
 }
@@ -113,7 +120,12 @@ beforeAll(async () => {
   browser = await openBrowser();
   inspector = superuserPool();
   const trialId = (await inspector.query<{ id: string }>("select id from trials where code = 'T-2026-02'")).rows[0].id;
-  actions = builtActions(trialId);
+  // Fernbrook's, so that a caller of another farm is refused on a real row, not a missing one.
+  const fernbrook = "(select id from farms where name ilike 'Fernbrook%')";
+  const blockId = (await inspector.query<{ id: string }>(`select id from blocks where farm_id = ${fernbrook} limit 1`)).rows[0].id;
+  const uploadId =
+    (await inspector.query<{ id: string }>(`select id from uploads where farm_id = ${fernbrook} limit 1`)).rows[0]?.id ?? blockId;
+  actions = builtActions({ trialId, blockId, uploadId });
 });
 
 afterAll(async () => {
