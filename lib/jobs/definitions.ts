@@ -49,6 +49,14 @@ export const jobs = {
     // Cutting copies every farm's statistics: about a second for 50 farms.
     expireInSeconds: 300,
   },
+  "rejected-upload-files": {
+    does: "remove the stored files of rejected uploads older than the co-op's retention period (their records and reports stay)",
+    payload: z.object({}),
+    retryLimit: 3,
+    retryDelaySeconds: 300,
+    backoff: true,
+    expireInSeconds: 600,
+  },
   "password-reset": {
     does: "look up a reset request's address and, for an active member, queue the reset e-mail",
     payload: z.object({ email: z.string().max(320), ip: z.string().max(100).nullable() }),
@@ -84,4 +92,6 @@ export const scheduledJobs: ScheduledJob[] = [
   // Every ten minutes, not at the co-op's hour itself: cutReleaseIfDue tries each slot of the
   // schedule once, so a slot that fell while no app process was up is tried when one is.
   { job: "pooled-release", payload: {}, when: (settings) => (settings.releaseSchedule === "manual" ? null : { cron: "*/10 * * * *" }) },
+  // Once a night, after the release hour's usual slot; the retention period itself is read when it runs.
+  { job: "rejected-upload-files", payload: {}, when: () => ({ cron: "30 3 * * *" }) },
 ];

@@ -3,6 +3,7 @@ import { sendQueuedMail, type Attempt } from "@/lib/data/mail";
 import { issuePasswordReset } from "@/lib/data/members";
 import { refreshPooledStatistics } from "@/lib/data/pooled-refresh";
 import { cutReleaseIfDue } from "@/lib/data/pooled-releases";
+import { purgeRejectedUploadFiles } from "@/lib/data/upload-limits";
 import type { JobName, JobPayload } from "./definitions";
 
 /** Which attempt this is: the first has retryCount 0, and no retry follows the one where it equals retryLimit. */
@@ -21,6 +22,9 @@ export const jobHandlers: { [Name in JobName]: JobHandler<Name> } = {
   "send-mail": (mail, attempt) => sendQueuedMail(mail, attempt),
   "pooled-release": async () => {
     await cutReleaseIfDue();
+  },
+  "rejected-upload-files": async () => {
+    await purgeRejectedUploadFiles();
   },
   "password-reset": (request) => issuePasswordReset(request),
 };
