@@ -215,7 +215,7 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
           <p className="text-sm text-ink-soft">No farm has been invited yet.</p>
         ) : (
           <div className="overflow-x-auto">
-            <table className="w-full min-w-[36rem] text-sm" data-testid="progress-table">
+            <table className="w-full min-w-[44rem] text-sm [&_td]:pr-3 [&_th]:pr-3" data-testid="progress-table">
               <thead>
                 <tr className="text-left">
                   <th scope="col" className="py-2">
