@@ -628,31 +628,7 @@ async function storeAnalysisRun(
     const [settings] = await analyst
       .select({ minimumFarms: cooperativeSettings.minimumFarms, showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates })
       .from(cooperativeSettings);
-    const blockRows = armIds.length
-      ? await analyst
-          .select({
-            id: blocks.id,
-            farmId: blocks.farmId,
-            armId: blocks.trialArmId,
-            wetMassG: blocks.wetMassG,
-            moisture: blocks.moisture,
-            contaminated: blocks.contaminated,
-            spentMassG: blocks.spentMassG,
-          })
-          .from(blocks)
-          .where(inArray(blocks.trialArmId, armIds))
-      : [];
-    const harvestRows = blockRows.length
-      ? await analyst
-          .select({ blockId: harvests.blockId, flush: harvests.flush, freshMassG: harvests.freshMassG })
-          .from(harvests)
-          .where(
-            inArray(
-              harvests.blockId,
-              blockRows.map((row) => row.id),
-            ),
-          )
-      : [];
+    const { blockRows, harvestRows } = await trialBlockRows(analyst, armIds);
     const inputs = {
       outcome,
       minimumFarms: settings?.minimumFarms ?? 3,
@@ -1197,6 +1173,35 @@ export async function getCloseReview(member: Member, trialId: string): Promise<C
   return withFarmContext(farmContextOf(member), async (tx) => closeReviewOf(tx, await loadTrial(tx, member, trialId)));
 }
 
+/** A trial's blocks and their harvests as the analysis and the close review read them (as the analyst: aggregates only leave). */
+async function trialBlockRows(analyst: Transaction, armIds: string[]) {
+  if (!armIds.length) return { blockRows: [], harvestRows: [] };
+  const blockRows = await analyst
+    .select({
+      id: blocks.id,
+      farmId: blocks.farmId,
+      armId: blocks.trialArmId,
+      wetMassG: blocks.wetMassG,
+      moisture: blocks.moisture,
+      contaminated: blocks.contaminated,
+      spentMassG: blocks.spentMassG,
+    })
+    .from(blocks)
+    .where(inArray(blocks.trialArmId, armIds));
+  const harvestRows = blockRows.length
+    ? await analyst
+        .select({ blockId: harvests.blockId, flush: harvests.flush, freshMassG: harvests.freshMassG })
+        .from(harvests)
+        .where(
+          inArray(
+            harvests.blockId,
+            blockRows.map((row) => row.id),
+          ),
+        )
+    : [];
+  return { blockRows, harvestRows };
+}
+
 async function closeReviewOf(tx: Transaction, trial: TrialBase): Promise<CloseReview> {
   const enrolled = await tx
     .select({ farmId: trialEnrolments.farmId, blocksPerArm: trialEnrolments.blocksPerArm })
@@ -1204,30 +1209,7 @@ async function closeReviewOf(tx: Transaction, trial: TrialBase): Promise<CloseRe
     .where(and(eq(trialEnrolments.trialId, trial.id), eq(trialEnrolments.status, "accepted")));
   const armIds = trial.arms.map((arm) => arm.id);
   const blockRecords = await withAnalystAccess(async (analyst) => {
-    if (!armIds.length) return [];
-    const blockRows = await analyst
-      .select({
-        id: blocks.id,
-        farmId: blocks.farmId,
-        armId: blocks.trialArmId,
-        wetMassG: blocks.wetMassG,
-        moisture: blocks.moisture,
-        contaminated: blocks.contaminated,
-        spentMassG: blocks.spentMassG,
-      })
-      .from(blocks)
-      .where(inArray(blocks.trialArmId, armIds));
-    const harvestRows = blockRows.length
-      ? await analyst
-          .select({ blockId: harvests.blockId, flush: harvests.flush, freshMassG: harvests.freshMassG })
-          .from(harvests)
-          .where(
-            inArray(
-              harvests.blockId,
-              blockRows.map((row) => row.id),
-            ),
-          )
-      : [];
+    const { blockRows, harvestRows } = await trialBlockRows(analyst, armIds);
     const byBlock = new Map<string, TrialBlockRecord["harvests"]>();
     for (const harvest of harvestRows) byBlock.set(harvest.blockId, [...(byBlock.get(harvest.blockId) ?? []), harvest]);
     return blockRows.map((row) => ({
