@@ -23,7 +23,7 @@ import path from "node:path";
 import { pipeline } from "node:stream/promises";
 import { Pool } from "pg";
 import { from as copyFrom, to as copyTo } from "pg-copy-streams";
-import type { FarmContext } from "@/db/client";
+import type { Member } from "@/lib/data/members";
 import { createSeasonLogParser } from "@/lib/import";
 import { demoStrains, seasonLogLines } from "@/lib/import/generate";
 import { parserOptions } from "@/lib/season-logs/report";
@@ -62,7 +62,7 @@ function generate(rows: number, prefix: string): Buffer {
 }
 
 /** A farm, its manager and the registry entries the generated sheets use, made as the owner. */
-async function prepareFarm(owner: Pool, name: string): Promise<FarmContext> {
+async function prepareFarm(owner: Pool, name: string): Promise<Member> {
   const [{ id: speciesId }] = (
     await owner.query<{ id: string }>(
       "insert into species (scientific_name, common_name) values ('Fungus inventus', 'bench mushroom') on conflict (scientific_name) do update set common_name = excluded.common_name returning id",
@@ -90,7 +90,17 @@ async function prepareFarm(owner: Pool, name: string): Promise<FarmContext> {
       [`bench-${farmId}@example.invalid`, farmId],
     )
   ).rows;
-  return { userId, farmId, role: "farm_manager" };
+  return {
+    id: userId,
+    email: `bench-${farmId}@example.invalid`,
+    name: "Bench Manager",
+    role: "farm_manager",
+    farmId,
+    farmName: name,
+    active: true,
+    displayUnits: "metric",
+    sessionVersion: 1,
+  };
 }
 
 /**

@@ -5,10 +5,9 @@ import { redirect } from "next/navigation";
 import { NextResponse } from "next/server";
 import type { z } from "zod";
 import { readSession } from "@/auth.config";
-import { farmContextOf, type Member } from "@/lib/data/members";
+import type { Member } from "@/lib/data/members";
 import { memberForSession } from "@/lib/data/sessions";
 
-export { farmContextOf };
 import { AppError, isAppError } from "@/lib/errors";
 import { crossOriginRefusal } from "@/lib/http/origin";
 import { can, type Action } from "./permissions";

@@ -1,9 +1,10 @@
 import "server-only";
 import { desc, eq, isNull } from "drizzle-orm";
-import { withFarmContext, type Transaction } from "@/db/client";
+import { type Transaction } from "@/db/client";
 import { auditEvents } from "@/db/schema";
 import { AppError } from "@/lib/errors";
 import type { Member } from "./members";
+import { asMember } from "./context";
 
 export interface AuditEntry {
   action: string;
@@ -55,7 +56,7 @@ export async function listAuditEvents(member: Member, scope: "coop" | "farm"): P
     throw new AppError("forbidden", "Only the coordinator reads the co-op's activity log.");
   if (scope === "farm" && (member.role !== "farm_manager" || !member.farmId))
     throw new AppError("forbidden", "Only a farm manager reads the farm's activity log.");
-  return withFarmContext({ userId: member.id, farmId: member.farmId, role: member.role }, async (tx) => {
+  return asMember(member, async (tx) => {
     const rows = await tx
       .select()
       .from(auditEvents)

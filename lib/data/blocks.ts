@@ -1,9 +1,7 @@
 import "server-only";
 import { and, asc, desc, eq, sql } from "drizzle-orm";
-import { withFarmContext, type FarmContext } from "@/db/client";
 import { blocks, harvests, strains, substrateRecipes, trialArms, trials, uploads, users, valueChanges } from "@/db/schema";
-import { recordAudit } from "@/lib/data/audit";
-import { farmOf } from "@/lib/data/members";
+import { actor, recordAudit } from "@/lib/data/audit";
 import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
 import { AppError } from "@/lib/errors";
 import { blockFigures, nextFlush } from "@/lib/season-logs/block-figures";
@@ -14,6 +12,8 @@ import {
   type HarvestProblem,
   type QuickHarvestEntry,
 } from "@/lib/season-logs/quick-harvest";
+import type { Member } from "./members";
+import { asMember, farmOf } from "./context";
 
 export interface BlockRow {
   id: string;
@@ -121,9 +121,9 @@ function withFigures(row: BlockSelection): BlockRow & { spentMassG: number | nul
 }
 
 /** The farm's blocks with flush count, total fresh weight, biological efficiency and mass loss. */
-export async function listBlocks(context: FarmContext): Promise<BlockRow[]> {
-  const farm = farmOf(context, "see its blocks");
-  const rows = await withFarmContext(farm, (tx) =>
+export async function listBlocks(member: Member): Promise<BlockRow[]> {
+  const farm = farmOf(member, "see its blocks");
+  const rows = await asMember(member, (tx) =>
     tx
       .select(blockColumns)
       .from(blocks)
@@ -158,10 +158,10 @@ export async function listBlocks(context: FarmContext): Promise<BlockRow[]> {
 export const noSuchBlock = "There is no such block on your farm. Pick it from Blocks & harvests.";
 
 /** One block of the farm with its flushes and every value an upload or correction replaced. */
-export async function getBlock(context: FarmContext, blockId: string): Promise<BlockDetail> {
-  const farm = farmOf(context, "see its blocks");
+export async function getBlock(member: Member, blockId: string): Promise<BlockDetail> {
+  const farm = farmOf(member, "see its blocks");
   if (!/^[0-9a-f-]{36}$/i.test(blockId)) throw new AppError("not_found", noSuchBlock);
-  return withFarmContext(farm, async (tx) => {
+  return asMember(member, async (tx) => {
     const [row] = await tx
       .select(blockColumns)
       .from(blocks)
@@ -221,9 +221,9 @@ export async function getBlock(context: FarmContext, blockId: string): Promise<B
 }
 
 /** Block codes for the quick harvest form, each with the flush to suggest next. */
-export async function listHarvestTargets(context: FarmContext): Promise<HarvestTarget[]> {
-  const farm = farmOf(context, "see its blocks");
-  const rows = await withFarmContext(farm, (tx) =>
+export async function listHarvestTargets(member: Member): Promise<HarvestTarget[]> {
+  const farm = farmOf(member, "see its blocks");
+  const rows = await asMember(member, (tx) =>
     tx
       .select({
         code: blocks.code,
@@ -249,12 +249,12 @@ export type RecordHarvestResult =
  * warnings accepted are kept with the harvest. The block code matches whatever its capitals.
  */
 export async function recordHarvest(
-  context: FarmContext,
+  member: Member,
   entry: QuickHarvestEntry & { acceptWarnings: readonly string[] },
   today: string = latestToday(),
 ): Promise<RecordHarvestResult> {
-  const farm = farmOf(context, "see its blocks");
-  return withFarmContext(farm, async (tx) => {
+  const farm = farmOf(member, "see its blocks");
+  return asMember(member, async (tx) => {
     // The same per-farm lock as a season-log commit, so a commit never plans around a flush recorded meanwhile.
     await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`season-log:${farm.farmId}`}, 0))`);
     const typed = entry.blockCode.trim();
@@ -306,7 +306,7 @@ export async function recordHarvest(
       action: "harvest.recorded",
       subject: `${block.code} flush ${entry.flush}`,
       farmId: farm.farmId,
-      actorUserId: farm.userId,
+      ...actor(member),
       details: { blockId: block.id, flush: entry.flush, freshGrams, savedAnyway: check.warnings.map((warning) => warning.code) },
     });
     await queuePooledRefresh(tx, farm.farmId);

@@ -1,9 +1,8 @@
 import "server-only";
 import { and, eq, getTableColumns, isNull, ne, sql } from "drizzle-orm";
-import { withFarmContext, type FarmContext, type Transaction } from "@/db/client";
+import { type Transaction } from "@/db/client";
 import { blocks, harvests, seasonLogReplacedRows, uploads, valueChanges } from "@/db/schema";
-import { recordAudit } from "@/lib/data/audit";
-import { farmOf, type FarmMemberContext } from "@/lib/data/members";
+import { actor, recordAudit } from "@/lib/data/audit";
 import { noSuchBlock } from "@/lib/data/blocks";
 import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
 import { uploadNotFound } from "@/lib/data/season-logs";
@@ -23,6 +22,8 @@ import { harvestRemovalChanges } from "@/lib/season-logs/plan";
 import { latestToday, warningsNotAccepted, type HarvestProblem } from "@/lib/season-logs/quick-harvest";
 import type { UploadReport } from "@/lib/season-logs/report";
 import { planUndo, type CommitChange } from "@/lib/season-logs/undo";
+import type { Member } from "./members";
+import { asMember, farmOf, type FarmMemberContext } from "./context";
 
 /**
  * Corrections in the app and undoing a season-log commit. Each runs in one transaction through
@@ -84,12 +85,12 @@ async function harvestOf(tx: Transaction, harvestId: string) {
  * and the warnings accepted are kept with the harvest.
  */
 export async function correctHarvest(
-  context: FarmContext,
+  member: Member,
   entry: Omit<HarvestCorrection, "acceptWarnings"> & { acceptWarnings: readonly string[] },
   today: string = latestToday(),
 ): Promise<CorrectionResult<HarvestProblem>> {
-  const farm = farmOf(context, "correct its records");
-  return withFarmContext(farm, async (tx) => {
+  const farm = farmOf(member, "correct its records");
+  return asMember(member, async (tx) => {
     await lockFarm(tx, farm.farmId);
     const harvest = await harvestOf(tx, entry.harvestId);
     const others = await tx
@@ -117,7 +118,7 @@ export async function correctHarvest(
       action: "harvest.corrected",
       subject: `${harvest.code} flush ${harvest.flush}`,
       farmId: farm.farmId,
-      actorUserId: farm.userId,
+      ...actor(member),
       details: {
         blockId: harvest.blockId,
         flush: harvest.flush,
@@ -138,11 +139,11 @@ export type DeleteHarvestResult = { status: "deleted"; blockId: string } | { sta
  * would leave in the flush numbers is a warning to accept first, as the importer's.
  */
 export async function deleteHarvest(
-  context: FarmContext,
+  member: Member,
   entry: { harvestId: string; reason: string; acceptWarnings?: readonly string[] },
 ): Promise<DeleteHarvestResult> {
-  const farm = farmOf(context, "correct its records");
-  return withFarmContext(farm, async (tx) => {
+  const farm = farmOf(member, "correct its records");
+  return asMember(member, async (tx) => {
     await lockFarm(tx, farm.farmId);
     const harvest = await harvestOf(tx, entry.harvestId);
     const others = await tx
@@ -162,7 +163,7 @@ export async function deleteHarvest(
       action: "harvest.deleted",
       subject: `${harvest.code} flush ${harvest.flush}`,
       farmId: farm.farmId,
-      actorUserId: farm.userId,
+      ...actor(member),
       details: { blockId: harvest.blockId, flush: harvest.flush, reason: entry.reason, changes },
     });
     await queuePooledRefresh(tx, farm.farmId);
@@ -187,13 +188,13 @@ const blockValueColumns = {
 
 /** Corrects a block's recorded values by the import's rules against its stored harvests; the same answers as `correctHarvest`. */
 export async function correctBlock(
-  context: FarmContext,
+  member: Member,
   entry: Omit<BlockCorrection, "acceptWarnings"> & { acceptWarnings: readonly string[] },
   today: string = latestToday(),
 ): Promise<CorrectionResult<BlockProblem>> {
-  const farm = farmOf(context, "correct its records");
+  const farm = farmOf(member, "correct its records");
   if (!uuidPattern.test(entry.blockId)) throw new AppError("not_found", noSuchBlock);
-  return withFarmContext(farm, async (tx) => {
+  return asMember(member, async (tx) => {
     await lockFarm(tx, farm.farmId);
     const [stored] = await tx.select(blockValueColumns).from(blocks).where(eq(blocks.id, entry.blockId));
     if (!stored) throw new AppError("not_found", noSuchBlock);
@@ -226,7 +227,7 @@ export async function correctBlock(
       action: "block.corrected",
       subject: stored.code,
       farmId: farm.farmId,
-      actorUserId: farm.userId,
+      ...actor(member),
       details: { blockId: entry.blockId, reason: entry.reason, changes, savedAnyway: check.warnings.map((w) => w.code) },
     });
     await queuePooledRefresh(tx, farm.farmId);
@@ -258,11 +259,11 @@ function restoredColumns(table: typeof blocks | typeof harvests) {
  * be committed again), writes the activity log and queues the pooled refresh. Refused, with what
  * stands in the way, when a later commit or correction changed rows the commit wrote.
  */
-export async function undoCommit(context: FarmContext, entry: { uploadId: string; reason: string }): Promise<UndoReceipt> {
-  const farm = farmOf(context, "correct its records");
+export async function undoCommit(member: Member, entry: { uploadId: string; reason: string }): Promise<UndoReceipt> {
+  const farm = farmOf(member, "correct its records");
   if (!uuidPattern.test(entry.uploadId)) throw new AppError("not_found", uploadNotFound);
   const uploadId = entry.uploadId;
-  return withFarmContext(farm, async (tx) => {
+  return asMember(member, async (tx) => {
     await lockFarm(tx, farm.farmId);
     const [upload] = await tx
       .select({
@@ -453,7 +454,7 @@ export async function undoCommit(context: FarmContext, entry: { uploadId: string
       action: "season-log.undone",
       subject: upload.fileName,
       farmId: farm.farmId,
-      actorUserId: farm.userId,
+      ...actor(member),
       details: {
         ...receipt,
         reason: entry.reason,

@@ -2,7 +2,6 @@ import "server-only";
 import { asc, eq, sql } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { zipSync, strToU8 } from "fflate";
-import { withFarmContext } from "@/db/client";
 import {
   auditEvents,
   blocks,
@@ -23,11 +22,11 @@ import { exportFiles, exportReadme, originalFileName, withdrawalConfirmed } from
 import { recordAudit } from "./audit";
 import type { Member } from "./members";
 import { queuePooledRefresh } from "./pooled-refresh";
+import { asMember, farmOf, type FarmMemberContext } from "./context";
 
-function farmContextOf(member: Member) {
-  if (!member.farmId || member.role !== "farm_manager")
-    throw new AppError("forbidden", "Only a farm manager can download or withdraw the farm's data.");
-  return { context: { userId: member.id, farmId: member.farmId, role: member.role }, farmId: member.farmId };
+function managedFarmOf(member: Member): FarmMemberContext {
+  if (member.role !== "farm_manager") throw new AppError("forbidden", "Only a farm manager can download or withdraw the farm's data.");
+  return farmOf(member, "download or withdraw the farm's data");
 }
 
 function csvOf(kind: keyof typeof exportFiles, rows: Record<string, unknown>[]): string {
@@ -36,8 +35,8 @@ function csvOf(kind: keyof typeof exportFiles, rows: Record<string, unknown>[]):
 
 /** Everything the farm gave the co-op, as a zip: CSVs, original files and a README. Read under the farm's own policies. */
 export async function exportFarmData(member: Member): Promise<{ fileName: string; zip: Uint8Array }> {
-  const { context, farmId } = farmContextOf(member);
-  return withFarmContext(context, async (tx) => {
+  const { farmId } = managedFarmOf(member);
+  return asMember(member, async (tx) => {
     const recipes = alias(substrateRecipes, "recipes");
     const methods = alias(treatments, "methods");
     const blockRows = await tx
@@ -159,8 +158,8 @@ export interface WithdrawalSummary {
  * withdrawal on the farm's and the co-op's log, and queues the recompute of its pooled statistics.
  */
 export async function withdrawFarmData(member: Member, typedConfirmation: string): Promise<WithdrawalSummary> {
-  const { context, farmId } = farmContextOf(member);
-  const summary = await withFarmContext(context, async (tx) => {
+  const { farmId } = managedFarmOf(member);
+  const summary = await asMember(member, async (tx) => {
     const [farm] = await tx.select({ name: farms.name }).from(farms).where(eq(farms.id, farmId));
     if (!farm || !withdrawalConfirmed(farm.name, typedConfirmation)) {
       throw new AppError("invalid_input", "The confirmation does not match.", [

@@ -2,7 +2,7 @@ import "server-only";
 import { randomUUID } from "node:crypto";
 import { desc, sql } from "drizzle-orm";
 import { z } from "zod";
-import { withFarmContext, type FarmContext, type Transaction } from "@/db/client";
+import { type Transaction } from "@/db/client";
 import { outgoingMail } from "@/db/schema";
 import { appUrl } from "@/lib/app-url";
 import { enqueue } from "@/lib/jobs/queue";
@@ -11,6 +11,8 @@ import { signOptOutToken } from "@/lib/trials/reminder-opt-out";
 import { withLink, type MailKind, type QueuedMail, type SecretLink, type SecretLinkTarget } from "@/lib/mail/queued-mail";
 import { sendMail, type OutgoingMessage } from "@/lib/mail/send";
 import { env } from "@/lib/env";
+import { asMember, asNobody } from "./context";
+import type { Member } from "./members";
 
 export { secretLink } from "@/lib/mail/queued-mail";
 
@@ -26,8 +28,6 @@ export async function queueMail(tx: Transaction, kind: MailKind, message: Outgoi
   await tx.insert(outgoingMail).values({ id: mailId, kind, recipient: message.to, subject: message.subject });
   await enqueue(tx, "send-mail", { mailId, ...message, link });
 }
-
-const worker: FarmContext = { userId: null, farmId: null, role: "anonymous" };
 
 export interface Attempt {
   retryCount: number;
@@ -74,7 +74,7 @@ async function makeLink(target: SecretLinkTarget, to: string): Promise<string | 
     return `${appUrl()}/unsubscribe/${signOptOutToken(target.enrolmentId, env("AUTH_SECRET"))}`;
   }
   const { token, tokenHash } = newAccessToken();
-  const issued = await withFarmContext(worker, async (tx) => {
+  const issued = await asNobody(async (tx) => {
     const result = await tx.execute<{ email: string }>(
       target.for === "invitation"
         ? sql`select email from app_issue_invitation_link(${target.tokenId}::uuid, ${tokenHash})`
@@ -89,7 +89,7 @@ async function makeLink(target: SecretLinkTarget, to: string): Promise<string | 
 }
 
 async function recordOutcome(mailId: string, outcome: "sent" | "retrying" | "failed" | "cancelled", problem: string | null) {
-  await withFarmContext(worker, (tx) => tx.execute(sql`select app_record_mail_outcome(${mailId}::uuid, ${outcome}, ${problem})`));
+  await asNobody((tx) => tx.execute(sql`select app_record_mail_outcome(${mailId}::uuid, ${outcome}, ${problem})`));
 }
 
 /** What nodemailer's error carries; a field of another type is read as missing. */
@@ -122,8 +122,8 @@ export type OutgoingMailRecord = Pick<
 >;
 
 /** The coordinator's record of what went out, newest first (row-level security: the coordinator only). */
-export async function listOutgoingMail(context: FarmContext, limit = 200): Promise<OutgoingMailRecord[]> {
-  return withFarmContext(context, (tx) =>
+export async function listOutgoingMail(member: Member, limit = 200): Promise<OutgoingMailRecord[]> {
+  return asMember(member, (tx) =>
     tx
       .select({
         id: outgoingMail.id,

@@ -1,7 +1,7 @@
 import "server-only";
 import { and, asc, desc, eq, gt, isNull, sql } from "drizzle-orm";
 import { keptUntilChanged } from "@/db/change-feed";
-import { farmContextStatement, withFarmContext, type FarmContext, type Transaction } from "@/db/client";
+import type { FarmContext, Transaction } from "@/db/client";
 import { accessTokens, cooperativeSettings, farms, users } from "@/db/schema";
 import { hashPassword, unknownUserHash, verifyPassword } from "@/lib/auth/password";
 import type { MemberRole } from "@/lib/auth/permissions";
@@ -12,6 +12,7 @@ import { deactivationProblem, invitationProblem, roleChangeProblem, transferProb
 import { hashToken, isWellFormedToken, tokenExpiresAt, type TokenPurpose } from "@/lib/members/tokens";
 import { actor, recordAudit } from "./audit";
 import { queueMail, secretLink } from "./mail";
+import { selfContext, asMember, asNobody, asSelf, continueAsRedeemer } from "./context";
 
 export interface Member {
   id: string;
@@ -26,24 +27,10 @@ export interface Member {
   sessionVersion: number;
 }
 
-/** The member's row-level-security context: who, which farm, which role. */
-export function farmContextOf(member: Member): FarmContext {
-  return { userId: member.id, farmId: member.farmId, role: member.role };
-}
-
-/** A context of one of a farm's own people: with both a user and a farm. */
-export type FarmMemberContext = FarmContext & { userId: string; farmId: string };
-
-/** The context of a farm's own person, or a refusal that says what only they can do (`"see its blocks"`). */
-export function farmOf(context: FarmContext, onlyFarmPeopleCan: string): FarmMemberContext {
-  if (!context.farmId || !context.userId) throw new AppError("forbidden", `Only a farm's own people can ${onlyFarmPeopleCan}.`);
-  return { ...context, userId: context.userId, farmId: context.farmId };
-}
-
-/** Reads a member's own row (the `self` policy needs only the user id) and their farm's name. */
+/** Reads a member's own row (the `self` policy needs only the user id), then their farm's name as them. */
 export async function loadMember(userId: string): Promise<Member | null> {
-  return withFarmContext({ userId, farmId: null, role: null }, async (tx) => {
-    const [row] = await tx
+  const row = await asSelf(userId, async (tx) => {
+    const [found] = await tx
       .select({
         id: users.id,
         email: users.email,
@@ -56,16 +43,15 @@ export async function loadMember(userId: string): Promise<Member | null> {
       })
       .from(users)
       .where(eq(users.id, userId));
-    if (!row) return null;
-    let farmName: string | null = null;
-    if (row.farmId) {
-      await tx.execute(farmContextStatement({ userId, farmId: row.farmId, role: row.role }));
-      const [farm] = await tx.select({ name: farms.name, status: farms.status }).from(farms).where(eq(farms.id, row.farmId));
-      if (!farm || farm.status !== "active") return { ...row, farmName: farm?.name ?? null, active: false };
-      farmName = farm.name;
-    }
-    return { ...row, farmName };
+    return found;
   });
+  if (!row) return null;
+  if (!row.farmId) return { ...row, farmName: null };
+  const [farm] = await asMember({ ...row, farmName: null }, (tx) =>
+    tx.select({ name: farms.name, status: farms.status }).from(farms).where(eq(farms.id, row.farmId!)),
+  );
+  if (!farm || farm.status !== "active") return { ...row, farmName: farm?.name ?? null, active: false };
+  return { ...row, farmName: farm.name };
 }
 
 /**
@@ -81,7 +67,7 @@ const keptMember = keptUntilChanged(
 );
 
 export function loadMemberForRequest(userId: string): Promise<Member | null> {
-  return keptMember({ userId, farmId: null, role: null });
+  return keptMember(selfContext(userId));
 }
 
 // ---- Membership: farms, people, invitations, roles, passwords, preferences ----
@@ -133,7 +119,7 @@ async function pendingInvitations(tx: Transaction, farmId?: string): Promise<Pen
 
 /** The coordinator's view: every farm, every person and the invitations still open. */
 export async function listMembership(member: Member) {
-  return withFarmContext(farmContextOf(member), async (tx) => ({
+  return asMember(member, async (tx) => ({
     farms: await tx
       .select({
         id: farms.id,
@@ -154,14 +140,14 @@ export async function listMembership(member: Member) {
 export async function listFarmPeople(member: Member) {
   if (!member.farmId) throw new AppError("forbidden", "Only a farm's own people have a farm to manage.");
   const farmId = member.farmId;
-  return withFarmContext(farmContextOf(member), async (tx) => ({
+  return asMember(member, async (tx) => ({
     people: await tx.select(personColumns).from(users).where(eq(users.farmId, farmId)).orderBy(asc(users.name)),
     invitations: await pendingInvitations(tx, farmId),
   }));
 }
 
 export async function admitFarm(member: Member, input: { name: string; region: string; contactEmail: string }): Promise<string> {
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const [existing] = await tx
       .select({ id: farms.id })
       .from(farms)
@@ -185,7 +171,7 @@ export async function admitFarm(member: Member, input: { name: string; region: s
 }
 
 export async function setFarmStatus(member: Member, farmId: string, status: FarmSummary["status"]): Promise<void> {
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     const [farm] = await tx.update(farms).set({ status }).where(eq(farms.id, farmId)).returning({ name: farms.name });
     if (!farm) throw new AppError("not_found", "That farm is not a member. Reload the page.");
     await recordAudit(tx, {
@@ -207,7 +193,7 @@ export async function inviteMember(member: Member, input: { email: string; role:
   if (problem) throw new AppError("invalid_input", problem, [{ field: "role", message: problem }]);
   const expiresAt = tokenExpiresAt("invitation", new Date());
   const email = input.email.trim().toLowerCase();
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     const [taken] = await tx
       .select({ active: users.active })
       .from(users)
@@ -285,7 +271,7 @@ async function openInvitation(tx: Transaction, invitationId: string) {
 /** Sends an open invitation again with a new link and a new 7 days; the link sent before stops working at once. */
 export async function resendInvitation(member: Member, invitationId: string): Promise<void> {
   const expiresAt = tokenExpiresAt("invitation", new Date());
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     const invitation = await openInvitation(tx, invitationId);
     await tx.update(accessTokens).set({ tokenHash: null, expiresAt }).where(eq(accessTokens.id, invitation.id));
     const [farm] = invitation.farmId ? await tx.select({ name: farms.name }).from(farms).where(eq(farms.id, invitation.farmId)) : [];
@@ -308,7 +294,7 @@ export async function resendInvitation(member: Member, invitationId: string): Pr
 
 /** Withdraws an open invitation: its link stops working and a mail not yet sent is not sent. */
 export async function cancelInvitation(member: Member, invitationId: string): Promise<void> {
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     const invitation = await openInvitation(tx, invitationId);
     await tx
       .update(accessTokens)
@@ -343,7 +329,7 @@ async function findPerson(tx: Transaction, userId: string) {
 
 /** The coordinator changes someone's role; they are told by e-mail. */
 export async function changeRole(member: Member, userId: string, newRole: MemberRole): Promise<void> {
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     const target = await findPerson(tx, userId);
     const problem = roleChangeProblem(asPerson(member), target, newRole, await peopleOfFarm(tx, target.farmId));
     if (problem) throw new AppError("conflict", problem, [{ field: "role", message: problem }]);
@@ -369,7 +355,7 @@ export async function changeRole(member: Member, userId: string, newRole: Member
 
 /** The coordinator deactivates anyone (but a farm's last manager); a manager removes their growers. */
 export async function deactivatePerson(member: Member, userId: string): Promise<void> {
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     const target = await findPerson(tx, userId);
     const problem = deactivationProblem(asPerson(member), target, await peopleOfFarm(tx, target.farmId));
     if (problem) throw new AppError("conflict", problem);
@@ -386,7 +372,7 @@ export async function deactivatePerson(member: Member, userId: string): Promise<
 
 /** A farm manager makes one of their growers the manager and becomes a grower. */
 export async function transferManagerRole(member: Member, userId: string): Promise<void> {
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     const target = await findPerson(tx, userId);
     const problem = transferProblem(asPerson(member), target);
     if (problem) throw new AppError("conflict", problem, [{ field: "userId", message: problem }]);
@@ -416,15 +402,13 @@ function asPerson(member: Member): Person {
   return { id: member.id, role: member.role, farmId: member.farmId, active: member.active };
 }
 
-const anonymous = { userId: null, farmId: null, role: "anonymous" as const };
-
 /**
  * The reset form's request: only queues the "password-reset" job, so the answer comes in the same
  * time, after the same work, whether or not the address belongs to anyone.
  */
 export async function requestPasswordReset(email: string, ip: string | null): Promise<void> {
   const address = email.trim().toLowerCase();
-  await withFarmContext(anonymous, (tx) => enqueue(tx, "password-reset", { email: address, ip }));
+  await asNobody((tx) => enqueue(tx, "password-reset", { email: address, ip }));
 }
 
 /**
@@ -434,7 +418,7 @@ export async function requestPasswordReset(email: string, ip: string | null): Pr
  */
 export async function issuePasswordReset(request: { email: string; ip: string | null }): Promise<void> {
   const expiresAt = tokenExpiresAt("password_reset", new Date());
-  await withFarmContext(anonymous, async (tx) => {
+  await asNobody(async (tx) => {
     const result = await tx.execute<{ user_id: string; name: string }>(
       sql`select * from app_create_password_reset(${request.email}, ${null}::text, ${expiresAt.toISOString()}::timestamptz)`,
     );
@@ -462,7 +446,7 @@ export interface AccessTokenState {
 /** What the accept or reset page may say about a link before it is used. */
 export async function getAccessTokenState(token: string): Promise<AccessTokenState | null> {
   if (!isWellFormedToken(token)) return null;
-  return withFarmContext(anonymous, async (tx) => {
+  return asNobody(async (tx) => {
     const result = await tx.execute<{
       purpose: TokenPurpose;
       email: string;
@@ -485,7 +469,7 @@ export async function redeemAccessToken(
 ): Promise<RedeemOutcome> {
   if (!isWellFormedToken(token)) return { status: "unknown" };
   const passwordHash = await hashPassword(input.password);
-  return withFarmContext(anonymous, async (tx) => {
+  return asNobody(async (tx) => {
     const state = await tx.execute<{ purpose: TokenPurpose }>(sql`select purpose from app_access_token_state(${hashToken(token)})`);
     if (state.rows[0]?.purpose !== purpose) return { status: "unknown" } as const;
     const result = await tx.execute<{
@@ -498,7 +482,7 @@ export async function redeemAccessToken(
     const row = result.rows[0];
     if (!row || (row.outcome !== "accepted" && row.outcome !== "reset")) return { status: row?.outcome ?? "unknown" } as RedeemOutcome;
     // Recorded as the new member, on their farm's log when they have a farm and on the co-op's.
-    await tx.execute(farmContextStatement({ userId: row.user_id, farmId: row.farm_id, role: "anonymous" }));
+    await continueAsRedeemer(tx, { userId: row.user_id!, farmId: row.farm_id });
     const action = row.outcome === "accepted" ? "member.joined" : "password.reset";
     const entry = {
       action,
@@ -521,7 +505,7 @@ export interface AccountSettings {
 }
 
 export async function getAccountSettings(member: Member): Promise<AccountSettings> {
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const [row] = await tx
       .select({ email: users.email, name: users.name, displayUnits: users.displayUnits, notifyReminders: users.notifyReminders })
       .from(users)
@@ -535,7 +519,7 @@ export async function updatePreferences(
   member: Member,
   input: { displayUnits: "metric" | "imperial"; notifyReminders: boolean },
 ): Promise<void> {
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     await tx.update(users).set(input).where(eq(users.id, member.id));
     await recordAudit(tx, {
       ...actor(member),
@@ -550,9 +534,7 @@ export async function updatePreferences(
 /** Checks the current password first; wrong answers get the same bcrypt work as right ones. */
 export async function changePassword(member: Member, currentPassword: string, newPassword: string): Promise<void> {
   // bcrypt is CPU work: it runs between the transactions, holding no connection.
-  const [row] = await withFarmContext(farmContextOf(member), (tx) =>
-    tx.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, member.id)),
-  );
+  const [row] = await asMember(member, (tx) => tx.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, member.id)));
   const [matches, newHash] = await Promise.all([
     verifyPassword(currentPassword, row?.passwordHash ?? (await unknownUserHash())),
     hashPassword(newPassword),
@@ -563,7 +545,7 @@ export async function changePassword(member: Member, currentPassword: string, ne
     ]);
   }
   const checkedHash = row.passwordHash;
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     // Only over the password just checked: a reset that landed in between wins.
     const changed = await tx
       .update(users)

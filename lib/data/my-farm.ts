@@ -1,10 +1,10 @@
 import "server-only";
 import { sql } from "drizzle-orm";
-import { withFarmContext } from "@/db/client";
-import { farmContextOf, type Member } from "@/lib/data/members";
+import { type Member } from "@/lib/data/members";
 import { getCoopStrainBenchmarks } from "@/lib/data/pooled-results";
 import { AppError } from "@/lib/errors";
 import { summariseOwnFarm, type OwnBlock, type OwnStrainSummary } from "@/lib/pooled";
+import { asMember } from "./context";
 
 export interface MyFarmPage {
   farmName: string;
@@ -19,7 +19,7 @@ export async function getMyFarm(member: Member): Promise<MyFarmPage> {
   if (!member.farmId)
     throw new AppError("forbidden", "My farm is for farm managers and growers; your role belongs to the co-op as a whole.");
   const seasonStartedOn = new Date(Date.now() - 365 * 86_400_000).toISOString().slice(0, 10);
-  const blocks = await withFarmContext(farmContextOf(member), async (tx) => {
+  const blocks = await asMember(member, async (tx) => {
     const result = await tx.execute<{
       id: string;
       strain_id: string;

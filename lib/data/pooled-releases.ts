@@ -1,6 +1,6 @@
 import "server-only";
 import { desc, eq, sql } from "drizzle-orm";
-import { withAnalystAccess, withFarmContext, type Transaction } from "@/db/client";
+import { withAnalystAccess, type Transaction } from "@/db/client";
 import {
   cooperativeSettings,
   pooledReleaseFlushRows,
@@ -10,7 +10,7 @@ import {
   strains,
 } from "@/db/schema";
 import { recordAudit } from "@/lib/data/audit";
-import { farmContextOf, type Member } from "@/lib/data/members";
+import { type Member } from "@/lib/data/members";
 import { getPooledUpdating } from "@/lib/data/pooled-refresh";
 import { AppError } from "@/lib/errors";
 import {
@@ -26,6 +26,7 @@ import {
   type ReleaseSchedule,
   type ReleaseStrainRow,
 } from "@/lib/pooled";
+import { asMember } from "./context";
 
 /** A release as the pages name it. */
 export interface ReleaseInfo {
@@ -285,7 +286,7 @@ export async function cutReleaseNow(member: Member): Promise<ReleaseAttempt> {
     await tx.execute(releaseLock);
     return cutInTransaction(tx, "coordinator");
   });
-  await withFarmContext(farmContextOf(member), (tx) =>
+  await asMember(member, (tx) =>
     recordAudit(tx, {
       action: attempt.outcome === "cut" ? "pooled-release.cut" : "pooled-release.checked",
       subject: attempt.outcome === "cut" ? `Release ${attempt.release.number}` : "Co-op results",

@@ -2,9 +2,9 @@ import "server-only";
 import { randomUUID } from "node:crypto";
 import { asc, eq, sql } from "drizzle-orm";
 import { keptUntilChanged } from "@/db/change-feed";
-import { withAnalystAccess, withFarmContext } from "@/db/client";
+import { withAnalystAccess } from "@/db/client";
 import { cooperativeSettings, species, strains, substrateRecipes, treatments } from "@/db/schema";
-import { farmContextOf, type Member } from "@/lib/data/members";
+import { type Member } from "@/lib/data/members";
 import { latestRelease, releaseContents, type ReleaseInfo } from "@/lib/data/pooled-releases";
 import { AppError } from "@/lib/errors";
 import {
@@ -23,6 +23,7 @@ import {
 } from "@/lib/pooled";
 import type { FlushProfile } from "@/lib/stats";
 import { seededRandom } from "@/lib/random";
+import { asMember } from "./context";
 
 export interface PooledResultsQuery {
   speciesId?: string;
@@ -161,7 +162,7 @@ const windowLastFlush: Record<FlushWindow, number> = { all: 1_000_000, "1-2": 2,
 
 /** The viewer's own blocks' BE under the same definition as the pooled statistics (row-level security limits it to their farm). */
 async function listOwnBlocks(member: Member, speciesId: string, window: FlushWindow, filters: PooledFilters): Promise<OwnStrainBlocks[]> {
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const result = await tx.execute<{ strain_id: string; efficiency: number }>(sql`
       select b.strain_id, 100 * sum(h.fresh_mass_g)::float8 / (b.wet_mass_g * (1 - b.moisture))::float8 as efficiency
       from blocks b

@@ -1,11 +1,11 @@
 import "server-only";
 import { eq, sql } from "drizzle-orm";
-import { withFarmContext } from "@/db/client";
 import { cooperativeSettings } from "@/db/schema";
 import { recordAudit } from "@/lib/data/audit";
-import { farmContextOf, type Member } from "@/lib/data/members";
+import { type Member } from "@/lib/data/members";
 import { AppError, databaseRefusalOf } from "@/lib/errors";
 import type { CooperativeSettingsInput } from "@/lib/pooled";
+import { asMember } from "./context";
 
 const settingsColumns = {
   minimumFarms: cooperativeSettings.minimumFarms,
@@ -15,7 +15,7 @@ const settingsColumns = {
 };
 
 export async function getCooperativeSettingsForEditing(member: Member): Promise<CooperativeSettingsInput & { name: string }> {
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const [row] = await tx.select({ name: cooperativeSettings.name, ...settingsColumns }).from(cooperativeSettings);
     if (!row) throw new AppError("not_found", "The co-op has no settings row yet; run the set-up (npm start) first.");
     return row;
@@ -27,7 +27,7 @@ export async function getCooperativeSettingsForEditing(member: Member): Promise<
  * releases are cut; audited. The database refuses a minimum below 3 whoever asks.
  */
 export async function updateCooperativeSettings(member: Member, next: CooperativeSettingsInput): Promise<void> {
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     const [before] = await tx.select(settingsColumns).from(cooperativeSettings);
     const updated = await tx
       .update(cooperativeSettings)

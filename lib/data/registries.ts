@@ -1,14 +1,15 @@
 import "server-only";
 import { asc, eq, inArray, sql } from "drizzle-orm";
-import { withAnalystAccess, withFarmContext, type Transaction } from "@/db/client";
+import { withAnalystAccess, type Transaction } from "@/db/client";
 import { blocks, cooperativeSettings, species, strains, substrateRecipes, treatments, trialArms } from "@/db/schema";
 import { AppError, databaseRefusalOf } from "@/lib/errors";
 import { RegisterMatcher } from "@/lib/import/registers";
 import { describeProblem, parseRegistryCsv, type RegistryKind, type RegistryRow } from "@/lib/members/registry-csv";
 import { suppressedMessage, type Published } from "@/lib/pooled";
 import { recordAudit } from "./audit";
-import { farmContextOf, type Member } from "./members";
+import { type Member } from "./members";
 import { latestRelease, releaseContents } from "./pooled-releases";
+import { asMember } from "./context";
 
 const tables = { species, strains, substrate_recipes: substrateRecipes, treatments } as const;
 type Status = "proposed" | "active" | "retired";
@@ -56,7 +57,7 @@ export async function listRegistries(member: Member) {
     member.role === "coordinator" ? strainsWithBlocks() : Promise.resolve(new Set<string>()),
     publishedBlocksPerStrain(),
   ]);
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const speciesRows = await tx.select().from(species).orderBy(asc(species.commonName));
     const speciesName = new Map(speciesRows.map((row) => [row.id, row.commonName]));
     const strainRows = await tx.select().from(strains).orderBy(asc(strains.code));
@@ -149,7 +150,7 @@ function duplicateProblem(error: unknown): AppError | null {
 export async function createRegistryEntry(member: Member, row: RegistryRow): Promise<Status> {
   const status: Status = member.role === "coordinator" ? "active" : "proposed";
   try {
-    await withFarmContext(farmContextOf(member), async (tx) => {
+    await asMember(member, async (tx) => {
       const id = await insertEntry(tx, row, status, member.role === "coordinator" ? null : member.id, await speciesLookup(tx));
       await recordAudit(tx, {
         actorUserId: member.id,
@@ -177,7 +178,7 @@ export async function moveRegistryEntry(
 ): Promise<void> {
   if (member.role !== "coordinator") throw new AppError("forbidden", "Only the coordinator approves, retires or deletes registry entries.");
   const inUse = kind === "strains" && move === "delete" ? (await strainsWithBlocks()).has(id) : false;
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     const table = tables[kind];
     const [entry] = await tx.select().from(table).where(eq(table.id, id));
     if (!entry) throw new AppError("not_found", "That entry is not in the registry. Reload the page.");
@@ -223,7 +224,7 @@ export async function importRegistryCsv(member: Member, kind: RegistryKind, text
       [{ field: "file", message: problems.slice(0, 20).map(describeProblem).join(" · ") }],
     );
   }
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const lookup = await speciesLookup(tx);
     const table = tables[kind];
     const existing =

@@ -1,7 +1,7 @@
 import "server-only";
-import { withFarmContext } from "@/db/client";
 import { cooperativeSettings } from "@/db/schema";
 import type { CooperativeSettings } from "@/lib/jobs/definitions";
+import { asNobody } from "./context";
 
 /**
  * The co-op's settings row as the job workers read it to set their schedules (lib/jobs/worker.ts,
@@ -9,6 +9,6 @@ import type { CooperativeSettings } from "@/lib/jobs/definitions";
  * schedule can follow any column without widening the analyst's reach.
  */
 export async function settingsForSchedules(): Promise<CooperativeSettings | null> {
-  const [row] = await withFarmContext({ userId: null, farmId: null, role: null }, (tx) => tx.select().from(cooperativeSettings));
+  const [row] = await asNobody((tx) => tx.select().from(cooperativeSettings));
   return row ?? null;
 }

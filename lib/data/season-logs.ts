@@ -4,7 +4,7 @@ import { gunzipSync, gzipSync } from "node:zlib";
 import { and, desc, eq, isNull, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { v7 as timeOrderedId } from "uuid";
-import { copyInto, withFarmContext, type FarmContext, type Transaction } from "@/db/client";
+import { copyInto, type Transaction } from "@/db/client";
 import {
   blocks,
   farmImportPreferences,
@@ -27,7 +27,7 @@ import {
 } from "@/lib/import";
 import { AppError } from "@/lib/errors";
 import type { RegisterEntryText } from "@/lib/import/registers";
-import { recordAudit } from "@/lib/data/audit";
+import { actor, recordAudit } from "@/lib/data/audit";
 import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
 import { assertStorageRoom } from "@/lib/data/upload-limits";
 import {
@@ -45,7 +45,8 @@ import { copyChunks } from "@/lib/season-logs/copy-text";
 import { seasonLogExportCsv } from "@/lib/season-logs/export";
 import { packParse, stagingKey, unpackParse } from "@/lib/season-logs/staged";
 import { todayUtc } from "@/lib/import/dates";
-import { farmOf, type FarmMemberContext } from "@/lib/data/members";
+import type { Member } from "./members";
+import { asMember, farmOf } from "./context";
 
 export interface UploadSummary {
   id: string;
@@ -117,9 +118,9 @@ export function sha256Of(content: Uint8Array): string {
   return createHash("sha256").update(content).digest("hex");
 }
 
-export async function getImportSetup(context: FarmContext): Promise<ImportSetup> {
-  const farm = farmOf(context, "work with its season logs");
-  return withFarmContext(farm, async (tx) => {
+export async function getImportSetup(member: Member): Promise<ImportSetup> {
+  const farm = farmOf(member, "work with its season logs");
+  return asMember(member, async (tx) => {
     const codes = await tx
       .select({ code: strains.code, name: strains.name })
       .from(strains)
@@ -135,8 +136,8 @@ export async function getImportSetup(context: FarmContext): Promise<ImportSetup>
 }
 
 /** The co-op's active registry codes, so the downloadable template imports as it stands. */
-export async function getTemplateCodes(context: FarmContext): Promise<TemplateCodes> {
-  return withFarmContext(context, async (tx) => {
+export async function getTemplateCodes(member: Member): Promise<TemplateCodes> {
+  return asMember(member, async (tx) => {
     const active = <T extends { code: string }>(rows: T[]) => rows.map((row) => row.code);
     return {
       strains: active(await tx.select({ code: strains.code }).from(strains).where(eq(strains.status, "active")).orderBy(strains.code)),
@@ -302,8 +303,9 @@ function stagedParseOf(
 }
 
 /** A parse's report, outcome and staged parse against what the farm has stored: one short read, then CPU work with no connection held. */
-async function previewOf(farm: FarmMemberContext, sha256: string, result: SeasonLogResult, choices: ParseChoices, except?: string) {
-  const { alreadyImportedAt, planInput } = await withFarmContext(farm, async (tx) => ({
+async function previewOf(member: Member, sha256: string, result: SeasonLogResult, choices: ParseChoices, except?: string) {
+  const farm = farmOf(member, "work with its season logs");
+  const { alreadyImportedAt, planInput } = await asMember(member, async (tx) => ({
     alreadyImportedAt: await committedBefore(tx, farm.farmId, sha256, except),
     planInput: await loadPlanInput(tx, farm.farmId),
   }));
@@ -332,13 +334,13 @@ async function previewOf(farm: FarmMemberContext, sha256: string, result: Season
  * Refused when the farm's stored files would pass the co-op's limit (lib/data/upload-limits.ts).
  */
 export async function createUpload(
-  context: FarmContext,
+  member: Member,
   input: { fileName: string; content: Uint8Array; result: SeasonLogResult; choices: ParseChoices },
 ): Promise<UploadView> {
-  const farm = farmOf(context, "work with its season logs");
+  const farm = farmOf(member, "work with its season logs");
   const sha256 = sha256Of(input.content);
-  const { alreadyImportedAt, report, outcome, stagedParse } = await previewOf(farm, sha256, input.result, input.choices);
-  return withFarmContext(farm, async (tx) => {
+  const { alreadyImportedAt, report, outcome, stagedParse } = await previewOf(member, sha256, input.result, input.choices);
+  return asMember(member, async (tx) => {
     await assertStorageRoom(tx, farm.farmId, input.content.byteLength);
     const [row] = await tx
       .insert(uploads)
@@ -360,7 +362,7 @@ export async function createUpload(
       action: "season-log.uploaded",
       subject: input.fileName,
       farmId: farm.farmId,
-      actorUserId: farm.userId,
+      ...actor(member),
       details: {
         uploadId: row.id,
         rows: report.rowCount,
@@ -376,9 +378,10 @@ export async function createUpload(
 const uuidPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 export const uploadNotFound = "That upload is not one of your farm's. Pick it again from the list of past uploads.";
 
-async function storedUpload(context: FarmMemberContext, uploadId: string) {
+async function storedUpload(member: Member, uploadId: string) {
+  farmOf(member, "work with its season logs");
   if (!uuidPattern.test(uploadId)) throw new AppError("not_found", uploadNotFound);
-  const [row] = await withFarmContext(context, (tx) =>
+  const [row] = await asMember(member, (tx) =>
     tx
       .select({ ...summaryColumns, sha256: uploads.sha256, report: uploads.report })
       .from(uploads)
@@ -389,8 +392,8 @@ async function storedUpload(context: FarmMemberContext, uploadId: string) {
 }
 
 /** The file's bytes, read only when they are needed: they can be tens of megabytes. */
-async function storedContent(context: FarmMemberContext, uploadId: string): Promise<Buffer> {
-  const [row] = await withFarmContext(context, (tx) =>
+async function storedContent(member: Member, uploadId: string): Promise<Buffer> {
+  const [row] = await asMember(member, (tx) =>
     tx.select({ content: uploads.content, filePurgedAt: uploads.filePurgedAt }).from(uploads).where(eq(uploads.id, uploadId)),
   );
   if (!row) throw new AppError("not_found", uploadNotFound);
@@ -409,15 +412,15 @@ async function rememberChoices(tx: Transaction, farmId: string, choices: ParseCh
 }
 
 /** Reads a stored upload again with the grower's mapping and choices; remembers them for the farm. */
-export async function recheckUpload(context: FarmContext, uploadId: string, choices: ParseChoices): Promise<UploadView> {
-  const farm = farmOf(context, "work with its season logs");
-  const stored = await storedUpload(farm, uploadId);
+export async function recheckUpload(member: Member, uploadId: string, choices: ParseChoices): Promise<UploadView> {
+  const farm = farmOf(member, "work with its season logs");
+  const stored = await storedUpload(member, uploadId);
   if (stored.outcome === "committed")
     throw new AppError("conflict", "This upload is already committed. Upload the file again to check it against what is stored now.");
-  const setup = await getImportSetup(farm);
-  const result = await parseStored(await storedContent(farm, uploadId), setup, choices);
-  const { alreadyImportedAt, report, outcome, stagedParse } = await previewOf(farm, stored.sha256, result, choices, uploadId);
-  return withFarmContext(farm, async (tx) => {
+  const setup = await getImportSetup(member);
+  const result = await parseStored(await storedContent(member, uploadId), setup, choices);
+  const { alreadyImportedAt, report, outcome, stagedParse } = await previewOf(member, stored.sha256, result, choices, uploadId);
+  return asMember(member, async (tx) => {
     const [row] = await tx
       .update(uploads)
       .set({ report, options: choices, rowCount: report.rowCount, outcome, stagedParse })
@@ -432,18 +435,13 @@ export async function recheckUpload(context: FarmContext, uploadId: string, choi
  * The upload's staged parse when it was made with these choices, today's strain register and
  * today's date (so it equals a fresh parse); otherwise the stored file, read again.
  */
-async function parseForCommit(
-  context: FarmMemberContext,
-  uploadId: string,
-  setup: ImportSetup,
-  choices: ParseChoices,
-): Promise<SeasonLogResult> {
-  const [row] = await withFarmContext(context, (tx) =>
+async function parseForCommit(member: Member, uploadId: string, setup: ImportSetup, choices: ParseChoices): Promise<SeasonLogResult> {
+  const [row] = await asMember(member, (tx) =>
     tx.select({ stagedParse: uploads.stagedParse }).from(uploads).where(eq(uploads.id, uploadId)),
   );
   const packed = row?.stagedParse ? gunzipSync(Buffer.from(row.stagedParse, "base64")).toString("utf8") : null;
   const staged = packed ? unpackParse(packed, stagingKey(choices, setup.knownStrains, todayUtc())) : null;
-  return staged ?? (await parseStored(await storedContent(context, uploadId), setup, choices));
+  return staged ?? (await parseStored(await storedContent(member, uploadId), setup, choices));
 }
 
 /**
@@ -676,18 +674,18 @@ async function writePlan(
  * Any error leaves the farm's data as it was.
  */
 export async function commitUpload(
-  context: FarmContext,
+  member: Member,
   uploadId: string,
   choices: ParseChoices,
   { removeNotInFile = false }: { removeNotInFile?: boolean } = {},
 ): Promise<CommitReceipt> {
-  const farm = farmOf(context, "work with its season logs");
-  const stored = await storedUpload(farm, uploadId);
+  const farm = farmOf(member, "work with its season logs");
+  const stored = await storedUpload(member, uploadId);
   if (stored.outcome === "committed")
     throw new AppError("conflict", `This upload was committed on ${iso(stored.committedAt)?.slice(0, 10)}; nothing more to do.`);
-  const setup = await getImportSetup(farm);
-  const result = await parseForCommit(farm, uploadId, setup, choices);
-  const receipt = await withFarmContext(farm, async (tx) => {
+  const setup = await getImportSetup(member);
+  const result = await parseForCommit(member, uploadId, setup, choices);
+  const receipt = await asMember(member, async (tx) => {
     // Two commits for one farm run one after the other, so overlapping sheets end as if sent in turn.
     await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`season-log:${farm.farmId}`}, 0))`);
     const alreadyImportedAt = await committedBefore(tx, farm.farmId, stored.sha256, uploadId);
@@ -733,7 +731,7 @@ export async function commitUpload(
       action: "season-log.committed",
       subject: row.fileName,
       farmId: farm.farmId,
-      actorUserId: farm.userId,
+      ...actor(member),
       details: { uploadId, ...plan.counts, changedValues: plan.changes.length, removedHarvests: plan.removedHarvests.length },
     });
     await queuePooledRefresh(tx, farm.farmId);
@@ -749,37 +747,36 @@ export async function commitUpload(
   return receipt;
 }
 
-export async function listUploads(context: FarmContext): Promise<UploadSummary[]> {
-  const farm = farmOf(context, "work with its season logs");
-  const rows = await withFarmContext(farm, (tx) =>
+export async function listUploads(member: Member): Promise<UploadSummary[]> {
+  const farm = farmOf(member, "work with its season logs");
+  const rows = await asMember(member, (tx) =>
     tx.select(summaryColumns).from(uploads).where(eq(uploads.farmId, farm.farmId)).orderBy(desc(uploads.uploadedAt)).limit(200),
   );
   return rows.map(summary);
 }
 
-export async function getUploadView(context: FarmContext, uploadId: string): Promise<UploadView> {
-  const farm = farmOf(context, "work with its season logs");
-  const stored = await storedUpload(farm, uploadId);
+export async function getUploadView(member: Member, uploadId: string): Promise<UploadView> {
+  const farm = farmOf(member, "work with its season logs");
+  const stored = await storedUpload(member, uploadId);
   const alreadyImportedAt =
     stored.outcome === "already_imported"
-      ? await withFarmContext(farm, (tx) => committedBefore(tx, farm.farmId, stored.sha256, uploadId))
+      ? await asMember(member, (tx) => committedBefore(tx, farm.farmId, stored.sha256, uploadId))
       : null;
   return viewOf(summary(stored), stored.report as UploadReport, alreadyImportedAt);
 }
 
-export async function getUploadFile(context: FarmContext, uploadId: string): Promise<{ fileName: string; content: Buffer }> {
-  const farm = farmOf(context, "work with its season logs");
-  const stored = await storedUpload(farm, uploadId);
-  return { fileName: stored.fileName, content: await storedContent(farm, uploadId) };
+export async function getUploadFile(member: Member, uploadId: string): Promise<{ fileName: string; content: Buffer }> {
+  const stored = await storedUpload(member, uploadId);
+  return { fileName: stored.fileName, content: await storedContent(member, uploadId) };
 }
 
 /**
  * The farm's blocks and harvests as a season log (`lib/season-logs/export.ts`): uploaded again
  * unchanged it changes nothing, so a grower can download, correct or add rows, and upload.
  */
-export async function getSeasonLogExport(context: FarmContext): Promise<{ fileName: string; csv: string }> {
-  const farm = farmOf(context, "work with its season logs");
-  return withFarmContext(farm, async (tx) => {
+export async function getSeasonLogExport(member: Member): Promise<{ fileName: string; csv: string }> {
+  const farm = farmOf(member, "work with its season logs");
+  return asMember(member, async (tx) => {
     const recipes = alias(substrateRecipes, "recipes");
     const methods = alias(treatments, "methods");
     const blockRows = await tx

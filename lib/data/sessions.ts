@@ -1,20 +1,16 @@
 import "server-only";
 import { and, eq, gt, lt, sql } from "drizzle-orm";
 import { keptUntilChanged } from "@/db/change-feed";
-import { withFarmContext, type FarmContext } from "@/db/client";
+import { type FarmContext } from "@/db/client";
 import { endedSessions, users } from "@/db/schema";
 import { sessionIsCurrent, type SessionClaims } from "@/lib/auth/sessions";
 import { recordAudit } from "./audit";
-import { farmContextOf, loadMemberForRequest, type Member } from "./members";
-
-/** The context a member's own session rows are read and written in: their id alone (the `self` policies). */
-function selfContext(memberId: string): FarmContext {
-  return { userId: memberId, farmId: null, role: null };
-}
+import { loadMemberForRequest, type Member } from "./members";
+import { selfContext, asMember, asSelf } from "./context";
 
 /** Signing out: this session ends for good, in every process (the change feed drops their copies). */
 export async function endSession(claims: SessionClaims, expiresAt: Date): Promise<void> {
-  await withFarmContext(selfContext(claims.memberId), async (tx) => {
+  await asSelf(claims.memberId, async (tx) => {
     await tx.insert(endedSessions).values({ sessionId: claims.sessionId, userId: claims.memberId, expiresAt }).onConflictDoNothing();
     // Rows of sessions that would have expired by now say nothing any more.
     await tx.delete(endedSessions).where(and(eq(endedSessions.userId, claims.memberId), lt(endedSessions.expiresAt, sql`now()`)));
@@ -23,7 +19,7 @@ export async function endSession(claims: SessionClaims, expiresAt: Date): Promis
 
 /** "Sign out everywhere": every session of the member, this one included, ends. */
 export async function endEverySession(member: Member): Promise<void> {
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     await tx
       .update(users)
       .set({ sessionVersion: sql`${users.sessionVersion} + 1` })
@@ -39,7 +35,7 @@ export async function endEverySession(member: Member): Promise<void> {
 }
 
 async function listEndedSessions(caller: FarmContext): Promise<ReadonlySet<string>> {
-  return withFarmContext(caller, async (tx) => {
+  return asSelf(caller.userId!, async (tx) => {
     const rows = await tx
       .select({ sessionId: endedSessions.sessionId })
       .from(endedSessions)

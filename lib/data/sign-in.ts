@@ -1,11 +1,11 @@
 import "server-only";
 import { eq, sql } from "drizzle-orm";
-import { withFarmContext } from "@/db/client";
 import { signInAttempts, users } from "@/db/schema";
 import { passwordWorkersBusy, unknownUserHash, verifyPassword } from "@/lib/auth/password";
 import { signInPace, waitBeforeNextTry } from "@/lib/auth/sign-in-pace";
 import { keyedTurns } from "@/lib/async/keyed-turns";
 import { recordAudit } from "./audit";
+import { asNobody } from "./context";
 
 export type SignInOutcome =
   | { status: "ok"; userId: string; name: string; sessionVersion: number }
@@ -23,8 +23,6 @@ interface SignInRow extends Record<string, unknown> {
 /** How long to come back after when the password workers are swamped (a burst of sign-ins). */
 const busyRetrySeconds = 30;
 
-const anonymous = { userId: null, farmId: null, role: "anonymous" as const };
-
 const admissionTurn = keyedTurns();
 
 /**
@@ -41,7 +39,7 @@ export async function checkPassword(email: string, password: string, ip: string)
   // sent in turn: in turn within this process (waiting without a connection), then under a lock
   // in PostgreSQL for other processes.
   const admitted = await admissionTurn(ip, () =>
-    withFarmContext(anonymous, async (tx) => {
+    asNobody(async (tx) => {
       await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`sign-in:${ip}`}, 0))`);
       const pair = signInPace.accountAndAddress;
       const address = signInPace.address;
@@ -86,7 +84,7 @@ export async function checkPassword(email: string, password: string, ip: string)
   const passwordMatches = await verifyPassword(password, member?.password_hash ?? (await unknownUserHash()));
   const succeeded = Boolean(member && member.password_hash && passwordMatches && member.active && member.farm_active);
 
-  return withFarmContext(anonymous, async (tx) => {
+  return asNobody(async (tx) => {
     if (!succeeded || !member) {
       await recordAudit(tx, { action: "sign-in.failed", subject: email, ip });
       return { status: "refused" } as const;

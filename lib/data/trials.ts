@@ -1,7 +1,7 @@
 import "server-only";
 import { createHash, randomBytes } from "node:crypto";
 import { and, asc, desc, eq, inArray, like, sql } from "drizzle-orm";
-import { withAnalystAccess, withFarmContext, type Transaction } from "@/db/client";
+import { withAnalystAccess, type Transaction } from "@/db/client";
 import {
   auditEvents,
   blocks,
@@ -24,7 +24,7 @@ import { appUrl } from "@/lib/app-url";
 import { can } from "@/lib/auth/permissions";
 import { actor, recordAudit } from "@/lib/data/audit";
 import { queueMail, secretLink } from "@/lib/data/mail";
-import { farmContextOf, type Member } from "@/lib/data/members";
+import { type Member } from "@/lib/data/members";
 import { latestRelease, releaseContents } from "@/lib/data/pooled-releases";
 import { AppError } from "@/lib/errors";
 import { todayUtc } from "@/lib/import/dates";
@@ -66,6 +66,7 @@ import {
   type AnalysisInputCounts,
 } from "@/lib/trials/versions";
 import { env } from "@/lib/env";
+import { asMember, asNobody } from "./context";
 
 export interface ArmInput {
   label: string;
@@ -115,7 +116,7 @@ function ruleError(error: unknown): never {
 // ——— Reading ———
 
 export async function listTrials(member: Member) {
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const rows = await tx
       .select({
         id: trials.id,
@@ -225,7 +226,7 @@ export interface TrialView extends TrialBase {
 export async function getTrial(member: Member, trialId: string, options: { run?: number } = {}): Promise<TrialView> {
   if (!/^[0-9a-f-]{36}$/i.test(trialId))
     throw new AppError("not_found", "There is no such trial. Go back to Trials and pick one from the list.");
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
     const rows = await tx
       .select({
@@ -312,7 +313,7 @@ export async function getPublishedReport(member: Member, trialId: string): Promi
 
 /** Whether enough farms have accepted to start the trial: the trial page warns the coordinator before they try. */
 export async function getStartReadiness(member: Member, trialId: string): Promise<{ accepted: number; minimumFarms: number }> {
-  return withFarmContext(farmContextOf(member), async (tx) => ({
+  return asMember(member, async (tx) => ({
     accepted: await acceptedFarms(tx, trialId),
     minimumFarms: await minimumFarmsOf(tx),
   }));
@@ -333,7 +334,7 @@ async function minimumFarmsOf(tx: Transaction): Promise<number> {
 
 /** The coordinator's record of every state move, newest first (audit events are co-op level). */
 export async function listTrialHistory(member: Member, trialId: string) {
-  return withFarmContext(farmContextOf(member), (tx) =>
+  return asMember(member, (tx) =>
     tx
       .select({
         occurredAt: auditEvents.occurredAt,
@@ -348,7 +349,7 @@ export async function listTrialHistory(member: Member, trialId: string) {
 }
 
 export async function listDesignOptions(member: Member) {
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const speciesRows = await tx
       .select({ id: species.id, name: species.commonName })
       .from(species)
@@ -407,7 +408,7 @@ async function nextTrialCode(tx: Transaction): Promise<string> {
 }
 
 export async function saveTrialDraft(member: Member, input: TrialDesignInput): Promise<{ id: string; code: string }> {
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const strainRows = await tx
       .select({ id: strains.id, speciesId: strains.speciesId, code: strains.code })
       .from(strains)
@@ -499,7 +500,7 @@ export async function moveTrial(
   options: { reviewed?: string; analysisId?: string } = {},
 ): Promise<void> {
   if (!can(member.role, "trial:manage")) throw new AppError("forbidden", "Only the co-op's coordinator moves a trial on.");
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
     try {
       assertMove(trial.status, to);
@@ -701,7 +702,7 @@ async function storeAnalysisRun(
  */
 export async function runTrialAnalysis(member: Member, trialId: string): Promise<number> {
   if (!can(member.role, "trial:manage")) throw new AppError("forbidden", "Only the co-op's coordinator runs a trial's analysis.");
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
     if (!hasResults(trial.status))
       throw new AppError(
@@ -724,7 +725,7 @@ export async function amendPublishedAnalysis(
   if (!can(member.role, "trial:manage")) throw new AppError("forbidden", "Only the co-op's coordinator amends a published trial.");
   const problem = amendmentReasonProblem(input.reason);
   if (problem) throw new AppError("invalid_input", problem, [{ field: "reason", message: problem }]);
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
     if (trial.status !== "published")
       throw new AppError(
@@ -802,15 +803,13 @@ export async function analyseTrialAsCoordinator(
   trialId: string,
   ranAt: Date,
 ): Promise<{ id: string; results: StoredResults }> {
-  return withFarmContext(farmContextOf(member), async (tx) =>
-    storeAnalysisRun(tx, member, await loadTrial(tx, member, trialId), { ranAt }),
-  );
+  return asMember(member, async (tx) => storeAnalysisRun(tx, member, await loadTrial(tx, member, trialId), { ranAt }));
 }
 
 // ——— Enrolment ———
 
 export async function listInvitableFarms(member: Member, trialId: string) {
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const all = await tx.select({ id: farms.id, name: farms.name }).from(farms).where(eq(farms.status, "active")).orderBy(asc(farms.name));
     const enrolled = await tx.select({ farmId: trialEnrolments.farmId }).from(trialEnrolments).where(eq(trialEnrolments.trialId, trialId));
     const taken = new Set(enrolled.map((row) => row.farmId));
@@ -819,7 +818,7 @@ export async function listInvitableFarms(member: Member, trialId: string) {
 }
 
 export async function inviteFarms(member: Member, trialId: string, farmIds: string[]): Promise<number> {
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
     if (trial.status !== "open")
       throw new AppError(
@@ -869,7 +868,7 @@ export async function inviteFarms(member: Member, trialId: string, farmIds: stri
 
 export async function getOwnEnrolment(member: Member, trialId: string) {
   if (!member.farmId) return null;
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const [row] = await tx
       .select({
         id: trialEnrolments.id,
@@ -891,7 +890,7 @@ export async function getOwnEnrolment(member: Member, trialId: string) {
  */
 export async function askToJoinTrial(member: Member, trialId: string): Promise<void> {
   if (!member.farmId || member.role !== "farm_manager") throw new AppError("forbidden", "Only a farm's manager can ask for the farm.");
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
     if (trial.status !== "open")
       throw new AppError(
@@ -926,7 +925,7 @@ export async function respondToInvitation(
   answer: { accept: boolean; blocksPerArm: number | null },
 ): Promise<void> {
   if (!member.farmId) throw new AppError("forbidden", "Only a farm's manager can answer for the farm.");
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
     if (trial.status !== "open") throw new AppError("conflict", `Enrolment is closed: the trial is "${trialStatusLabels[trial.status]}".`);
     const [enrolment] = await tx
@@ -997,7 +996,7 @@ export async function respondToInvitation(
 
 /** The farm's own randomised list; row-level security returns nothing for another farm. */
 export async function listOwnAssignments(member: Member, trialId: string) {
-  return withFarmContext(farmContextOf(member), (tx) =>
+  return asMember(member, (tx) =>
     tx
       .select({
         sequence: trialBlockAssignments.sequence,
@@ -1065,7 +1064,7 @@ export function dueItems(progress: FarmProgress): string[] {
 /** The farm's own progress, read under its own context. */
 export async function getOwnProgress(member: Member, trial: TrialBase): Promise<FarmProgress | null> {
   if (!member.farmId) return null;
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const list = await tx
       .select({ blockCode: trialBlockAssignments.blockCode })
       .from(trialBlockAssignments)
@@ -1112,7 +1111,7 @@ async function progressCounts(tx: Transaction, trial: TrialBase, farmId?: string
 
 /** The coordinator's view: every enrolled farm with its counts, read through the analyst role. */
 export async function listTrialProgress(member: Member, trial: TrialBase) {
-  const enrolled = await withFarmContext(farmContextOf(member), async (tx) => {
+  const enrolled = await asMember(member, async (tx) => {
     const rows = await tx
       .select({
         enrolmentId: trialEnrolments.id,
@@ -1170,7 +1169,7 @@ export interface CloseReview {
 export async function getCloseReview(member: Member, trialId: string): Promise<CloseReview> {
   if (!can(member.role, "trial:follow-all-farms"))
     throw new AppError("forbidden", "Only the co-op's coordinator sees every farm's progress in a trial.");
-  return withFarmContext(farmContextOf(member), async (tx) => closeReviewOf(tx, await loadTrial(tx, member, trialId)));
+  return asMember(member, async (tx) => closeReviewOf(tx, await loadTrial(tx, member, trialId)));
 }
 
 /** A trial's blocks and their harvests as the analysis and the close review read them (as the analyst: aggregates only leave). */
@@ -1269,7 +1268,7 @@ export async function sendTrialReminder(member: Member, trialId: string, farmId:
   if (!farm || farm.status !== "accepted") throw new AppError("not_found", "That farm is not taking part in this trial.");
   if (!farm.remindersAllowed) throw new AppError("conflict", `${farm.farmName} has asked not to get reminders about this trial.`);
   if (!farm.behind) throw new AppError("conflict", `${farm.farmName} has nothing due; no reminder sent.`);
-  return withFarmContext(farmContextOf(member), async (tx) => {
+  return asMember(member, async (tx) => {
     const managers = await tx
       .select({ email: users.email })
       .from(users)
@@ -1299,7 +1298,7 @@ export async function sendTrialReminder(member: Member, trialId: string, farmId:
 export async function optOutOfReminders(token: string): Promise<string | null> {
   const enrolmentId = verifyOptOutToken(token, optOutSecret());
   if (!enrolmentId) return null;
-  return withFarmContext({ userId: null, farmId: null, role: "anonymous" }, async (tx) => {
+  return asNobody(async (tx) => {
     const result = await tx.execute(sql`select app_trial_reminders_opt_out(${enrolmentId}::uuid) as code`);
     return (result.rows[0] as { code: string | null } | undefined)?.code ?? null;
   });
@@ -1314,7 +1313,7 @@ export interface ReminderChoice {
 export async function getReminderChoice(token: string): Promise<ReminderChoice | null> {
   const enrolmentId = verifyOptOutToken(token, optOutSecret());
   if (!enrolmentId) return null;
-  return withFarmContext({ userId: null, farmId: null, role: "anonymous" }, async (tx) => {
+  return asNobody(async (tx) => {
     const result = await tx.execute<{ trial_code: string; reminders_allowed: boolean }>(
       sql`select * from app_trial_reminders_state(${enrolmentId}::uuid)`,
     );
@@ -1327,7 +1326,7 @@ export async function getReminderChoice(token: string): Promise<ReminderChoice |
 export async function optBackIntoReminders(token: string): Promise<string | null> {
   const enrolmentId = verifyOptOutToken(token, optOutSecret());
   if (!enrolmentId) return null;
-  return withFarmContext({ userId: null, farmId: null, role: "anonymous" }, async (tx) => {
+  return asNobody(async (tx) => {
     const result = await tx.execute<{ code: string | null }>(sql`select app_trial_reminders_opt_in(${enrolmentId}::uuid) as code`);
     return result.rows[0]?.code ?? null;
   });

@@ -2,14 +2,15 @@ import "server-only";
 import { setFlagsFromString } from "node:v8";
 import { runInNewContext } from "node:vm";
 import { and, eq, isNull, lt, sql } from "drizzle-orm";
-import { withFarmContext, type FarmContext, type Transaction } from "@/db/client";
+import { type Transaction } from "@/db/client";
 import { cooperativeSettings, uploadReservations, uploads } from "@/db/schema";
 import { byteBudget } from "@/lib/async/byte-budget";
 import { AppError } from "@/lib/errors";
 import { storageFullMessage, tooManyUploadsMessage, uploadLimits } from "@/lib/season-logs/limits";
 import { largestUploadBytes } from "@/lib/season-logs/report";
 import { recordAudit } from "./audit";
-import { farmContextOf, farmOf, type Member } from "./members";
+import { type Member } from "./members";
+import { asMember, asNobody, farmOf } from "./context";
 
 // One per process, on globalThis like the pools (dev reloads share it).
 const globalForUploads = globalThis as unknown as {
@@ -47,9 +48,9 @@ export async function assertStorageRoom(tx: Transaction, farmId: string, addingB
  * size the request declares, no room to keep another; then it waits, holding no connection,
  * until this process has the memory for it. The reservation holds across app processes.
  */
-export async function withUploadSlot<T>(context: FarmContext, declaredBytes: number, work: () => Promise<T>): Promise<T> {
-  const farm = farmOf(context, "work with its season logs");
-  const reservation = await withFarmContext(farm, async (tx) => {
+export async function withUploadSlot<T>(member: Member, declaredBytes: number, work: () => Promise<T>): Promise<T> {
+  const farm = farmOf(member, "work with its season logs");
+  const reservation = await asMember(member, async (tx) => {
     await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`upload-slots:${farm.farmId}`}, 0))`);
     await tx
       .delete(uploadReservations)
@@ -84,7 +85,7 @@ export async function withUploadSlot<T>(context: FarmContext, declaredBytes: num
       }
     });
   } finally {
-    await withFarmContext(farm, (tx) => tx.delete(uploadReservations).where(eq(uploadReservations.id, reservation)));
+    await asMember(member, (tx) => tx.delete(uploadReservations).where(eq(uploadReservations.id, reservation)));
   }
 }
 
@@ -102,7 +103,7 @@ function collectGarbage(): void {
  * records and reports stay). For the scheduled job; safe to run at any time, as often as wanted.
  */
 export async function purgeRejectedUploadFiles(): Promise<{ files: number; bytes: number }> {
-  return withFarmContext({ userId: null, farmId: null, role: "anonymous" }, async (tx) => {
+  return asNobody(async (tx) => {
     const result = await tx.execute<{ files: number; bytes: string }>(sql`select * from app_purge_rejected_upload_files()`);
     const row = result.rows[0];
     return { files: row?.files ?? 0, bytes: Number(row?.bytes ?? 0) };
@@ -110,12 +111,12 @@ export async function purgeRejectedUploadFiles(): Promise<{ files: number; bytes
 }
 
 export async function getUploadRetentionDays(member: Member): Promise<number> {
-  return withFarmContext(farmContextOf(member), retentionDays);
+  return asMember(member, retentionDays);
 }
 
 /** The coordinator sets how long rejected files are kept; audited. */
 export async function updateUploadRetentionDays(member: Member, days: number): Promise<void> {
-  await withFarmContext(farmContextOf(member), async (tx) => {
+  await asMember(member, async (tx) => {
     const before = await retentionDays(tx);
     const updated = await tx
       .update(cooperativeSettings)

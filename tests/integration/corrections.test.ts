@@ -7,7 +7,8 @@
  */
 import type { Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { closeDatabase, type FarmContext } from "@/db/client";
+import { closeDatabase } from "@/db/client";
+import type { Member } from "@/lib/data/members";
 import { jobQueueSchema } from "@/db/job-queue";
 import { demoSignIns } from "@/db/seed";
 import { correctBlock, correctHarvest, deleteHarvest, noSuchHarvest, undoCommit } from "@/lib/data/corrections";
@@ -15,14 +16,14 @@ import { noSuchBlock, recordHarvest } from "@/lib/data/blocks";
 import { commitUpload, createUpload, getImportSetup, parseStored, uploadNotFound } from "@/lib/data/season-logs";
 import { AppError, isAppError } from "@/lib/errors";
 import { runQueuedJobs, stopJobWorkers } from "@/lib/jobs/worker";
-import { superuserPool } from "./support/database";
+import { superuserPool, memberOf } from "./support/database";
 
 let inspector: Pool;
-let asGrower: FarmContext;
-let asManager: FarmContext;
-let asOtherManager: FarmContext;
-let asObserver: FarmContext;
-let asCoordinator: FarmContext;
+let asGrower: Member;
+let asManager: Member;
+let asOtherManager: Member;
+let asObserver: Member;
+let asCoordinator: Member;
 let farmId: string;
 
 const today = "2026-05-02";
@@ -37,13 +38,13 @@ const first = [
   "CO-E,PO-01,HWB-20,2026-03-01,2.5 kg,60 %,SLIT-ACROSS,2,2026-04-24,300 g",
 ].join("\n");
 
-async function upload(context: FarmContext, fileName: string, csv: string) {
+async function upload(context: Member, fileName: string, csv: string) {
   const content = new TextEncoder().encode(csv);
   const setup = await getImportSetup(context);
   return createUpload(context, { fileName, content, result: await parseStored(content, setup, {}), choices: {} });
 }
 
-async function commit(context: FarmContext, fileName: string, csv: string): Promise<string> {
+async function commit(context: Member, fileName: string, csv: string): Promise<string> {
   const view = await upload(context, fileName, csv);
   await commitUpload(context, view.upload.id, {});
   return view.upload.id;
@@ -93,19 +94,19 @@ beforeAll(async () => {
     [demoSignIns.find((member) => member.role === "grower")!.email],
   );
   farmId = growers[0].farmId;
-  asGrower = { userId: growers[0].id, farmId, role: "grower" };
+  asGrower = await memberOf(growers[0].id);
   const { rows: managers } = await inspector.query<{ id: string; farmId: string }>(
     `select id, farm_id as "farmId" from users where role = 'farm_manager' order by email`,
   );
   const own = managers.find((manager) => manager.farmId === farmId)!;
   const other = managers.find((manager) => manager.farmId !== farmId)!;
-  asManager = { userId: own.id, farmId, role: "farm_manager" };
-  asOtherManager = { userId: other.id, farmId: other.farmId, role: "farm_manager" };
+  asManager = await memberOf(own.id);
+  asOtherManager = await memberOf(other.id);
   const { rows: others } = await inspector.query<{ id: string; role: "observer" | "coordinator" }>(
     `select id, role from users where role in ('observer', 'coordinator') order by email`,
   );
-  asObserver = { userId: others.find((user) => user.role === "observer")!.id, farmId: null, role: "observer" };
-  asCoordinator = { userId: others.find((user) => user.role === "coordinator")!.id, farmId: null, role: "coordinator" };
+  asObserver = await memberOf(others.find((user) => user.role === "observer")!.id);
+  asCoordinator = await memberOf(others.find((user) => user.role === "coordinator")!.id);
   await commit(asManager, "corrections-first.csv", first);
 });
 
@@ -141,7 +142,7 @@ describe("correcting a harvest", () => {
         old_value: "2026-04-10",
         new_value: "2026-04-11",
         reason: "read the scale wrong",
-        changed_by: asGrower.userId,
+        changed_by: asGrower.id,
         upload_id: null,
       },
       {
@@ -149,7 +150,7 @@ describe("correcting a harvest", () => {
         old_value: "500",
         new_value: "550",
         reason: "read the scale wrong",
-        changed_by: asGrower.userId,
+        changed_by: asGrower.id,
         upload_id: null,
       },
     ]);
@@ -157,7 +158,7 @@ describe("correcting a harvest", () => {
       "select actor_user_id, subject, details->>'reason' as reason from audit_events where farm_id = $1 and action = 'harvest.corrected'",
       [farmId],
     );
-    expect(audit.rows).toEqual([{ actor_user_id: asGrower.userId, subject: "CO-A flush 1", reason: "read the scale wrong" }]);
+    expect(audit.rows).toEqual([{ actor_user_id: asGrower.id, subject: "CO-A flush 1", reason: "read the scale wrong" }]);
     expect(await refreshesQueued()).toBe(queued + 1);
   });
 
@@ -294,7 +295,7 @@ describe("undoing a season-log commit", () => {
     );
     expect(audit.rows).toEqual([{ subject: "corrections-second.csv", codes: ["CO-N"] }]);
     const { rows } = await inspector.query("select undone_at is not null as undone, undone_by from uploads where id = $1", [uploadId]);
-    expect(rows[0]).toEqual({ undone: true, undone_by: asGrower.userId });
+    expect(rows[0]).toEqual({ undone: true, undone_by: asGrower.id });
 
     // Undone once is done: a second undo is refused; the same file may be committed again.
     expect((await refusal(undoCommit(asGrower, { uploadId, reason: "again" }))).code).toBe("conflict");
@@ -462,7 +463,7 @@ describe("who may correct", () => {
     for (const context of [asObserver, asCoordinator])
       expect((await refusal(deleteHarvest(context, { harvestId: harvest, reason: "curious" }))).code).toBe("forbidden");
     // An observer's id with the farm's id set: the policies still match no row.
-    const forged: FarmContext = { userId: asObserver.userId, farmId, role: "observer" };
+    const forged: Member = { ...asObserver, farmId };
     expect((await refusal(deleteHarvest(forged, { harvestId: harvest, reason: "curious" }))).code).toBe("not_found");
     const { rowCount } = await inspector.query("select 1 from harvests where id = $1", [harvest]);
     expect(rowCount).toBe(1);

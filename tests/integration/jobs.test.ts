@@ -3,6 +3,8 @@ import PgBoss from "pg-boss";
 import { Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { closeDatabase, withFarmContext, type FarmContext } from "@/db/client";
+import { farmContextOf } from "@/lib/data/context";
+import type { Member } from "@/lib/data/members";
 import { jobQueueSchema } from "@/db/job-queue";
 import { queueMail } from "@/lib/data/mail";
 import { getPooledUpdating } from "@/lib/data/pooled-refresh";
@@ -11,7 +13,7 @@ import { roleChangedMessage } from "@/lib/mail/messages/members";
 import { enqueue } from "@/lib/jobs/queue";
 import { runQueuedJobs, startJobWorkers, stopJobWorkers, syncSchedules, workerApplicationName } from "@/lib/jobs/worker";
 import { mailsTo, mailTo, withMailServerDown } from "../support/mailbox";
-import { databaseRefusal, superuserPool, twoDemoFarms, type DemoFarm } from "./support/database";
+import { databaseRefusal, superuserPool, twoDemoFarms, type DemoFarm, memberOf } from "./support/database";
 
 // The job queue (pg-boss as rhizo_jobs, lib/jobs): jobs exist only if the work that queued them
 // commits, run once, are retried with backoff, survive a lost attempt, and follow the co-op's
@@ -19,7 +21,7 @@ import { databaseRefusal, superuserPool, twoDemoFarms, type DemoFarm } from "./s
 
 let inspector: Pool;
 let farmA: DemoFarm;
-let asFarmA: FarmContext;
+let asFarmA: Member;
 let otherProcess: PgBoss;
 const startedAt = new Date();
 const run = Date.now().toString(36);
@@ -31,7 +33,7 @@ const coordinatorContext = async (): Promise<FarmContext> => {
 beforeAll(async () => {
   inspector = superuserPool();
   [farmA] = await twoDemoFarms(inspector);
-  asFarmA = { userId: farmA.managerId, farmId: farmA.id, role: "farm_manager" };
+  asFarmA = await memberOf(farmA.managerId);
 });
 
 afterAll(async () => {
@@ -52,7 +54,7 @@ async function jobsFor(name: string, field: string, value: string) {
 
 describe("who starts workers", () => {
   it("is nobody, for a test or script that imports the data layer and the queue", async () => {
-    await withFarmContext(asFarmA, (tx) => tx.execute(sql`select 1`));
+    await withFarmContext(farmContextOf(asFarmA), (tx) => tx.execute(sql`select 1`));
     expect((globalThis as { rhizomorphWorkers?: unknown }).rhizomorphWorkers).toBeUndefined();
     const { rows } = await inspector.query<{ n: number }>(
       "select count(*)::int as n from pg_stat_activity where application_name = $1 and backend_start >= $2",
@@ -80,7 +82,9 @@ describe("adding a job inside a request's transaction", () => {
   });
 
   it("refuses a payload its job's schema does not allow", async () => {
-    await expect(withFarmContext(asFarmA, (tx) => enqueue(tx, "pooled-refresh", { farmId: "not-a-farm" }))).rejects.toThrow();
+    await expect(
+      withFarmContext(farmContextOf(asFarmA), (tx) => enqueue(tx, "pooled-refresh", { farmId: "not-a-farm" })),
+    ).rejects.toThrow();
   });
 
   it("gives the app's role no way to read, change or take jobs, and the workers' role nothing outside the queue", async () => {
@@ -91,7 +95,7 @@ describe("adding a job inside a request's transaction", () => {
       sql`select * from pgboss.archive limit 1`,
       sql`insert into pgboss.schedule (name, cron) values ('pooled-refresh', '* * * * *')`,
     ]) {
-      expect(await databaseRefusal(withFarmContext(asFarmA, (tx) => tx.execute(statement)))).toMatch(/permission denied/);
+      expect(await databaseRefusal(withFarmContext(farmContextOf(asFarmA), (tx) => tx.execute(statement)))).toMatch(/permission denied/);
     }
     const workers = new Pool({ connectionString: process.env.JOBS_DATABASE_URL, max: 1 });
     try {

@@ -7,17 +7,18 @@
  */
 import type { Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { closeDatabase, type FarmContext } from "@/db/client";
+import { closeDatabase } from "@/db/client";
+import type { Member } from "@/lib/data/members";
 import { demoSignIns } from "@/db/seed";
 import { getBlock, listBlocks, recordHarvest, type RecordHarvestResult } from "@/lib/data/blocks";
 import { commitUpload, createUpload, getImportSetup, parseStored } from "@/lib/data/season-logs";
 import { AppError, isAppError } from "@/lib/errors";
 import { runQueuedJobs, stopJobWorkers } from "@/lib/jobs/worker";
-import { superuserPool } from "./support/database";
+import { superuserPool, memberOf } from "./support/database";
 
 let inspector: Pool;
-let asGrower: FarmContext;
-let asOtherFarm: FarmContext;
+let asGrower: Member;
+let asOtherFarm: Member;
 let farmId: string;
 
 const today = "2026-05-02";
@@ -38,14 +39,14 @@ beforeAll(async () => {
     [demoSignIns.find((member) => member.role === "grower")!.email],
   );
   farmId = growers[0].farmId;
-  asGrower = { userId: growers[0].id, farmId, role: "grower" };
+  asGrower = await memberOf(growers[0].id);
   const { rows: managers } = await inspector.query<{ id: string; farmId: string }>(
     `select id, farm_id as "farmId" from users where role = 'farm_manager' order by email`,
   );
   const own = managers.find((manager) => manager.farmId === farmId)!;
   const other = managers.find((manager) => manager.farmId !== farmId)!;
-  asOtherFarm = { userId: other.id, farmId: other.farmId, role: "grower" };
-  const asManager: FarmContext = { userId: own.id, farmId, role: "farm_manager" };
+  asOtherFarm = await memberOf(other.id);
+  const asManager: Member = await memberOf(own.id);
   const content = new TextEncoder().encode(sheet);
   const setup = await getImportSetup(asManager);
   const view = await createUpload(asManager, {
@@ -74,7 +75,7 @@ type Entry = {
 };
 const good: Entry = { blockCode: "QH-A", flush: 2, weight: "640", unit: "g", harvestedOn: "2026-05-01" };
 
-function record(context: FarmContext, entry: Entry): Promise<RecordHarvestResult> {
+function record(context: Member, entry: Entry): Promise<RecordHarvestResult> {
   return recordHarvest(context, { acceptWarnings: [], ...entry }, today);
 }
 

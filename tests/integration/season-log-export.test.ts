@@ -6,16 +6,16 @@
  */
 import type { Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { closeDatabase, type FarmContext } from "@/db/client";
+import { closeDatabase } from "@/db/client";
 import { loadMember, type Member } from "@/lib/data/members";
 import { commitUpload, createUpload, getImportSetup, getSeasonLogExport, parseStored, type UploadView } from "@/lib/data/season-logs";
 import { getTrialListSeasonLog } from "@/lib/data/trials";
 import { runQueuedJobs, stopJobWorkers } from "@/lib/jobs/worker";
-import { superuserPool } from "./support/database";
+import { superuserPool, memberOf } from "./support/database";
 
 let inspector: Pool;
 let manager: Member;
-let asFarm: FarmContext;
+let asFarm: Member;
 let trialId: string;
 /** A block code on another farm's list, with that list's trial and arm. */
 let theirs: { blockCode: string; trialCode: string; armLabel: string; strainCode: string };
@@ -29,7 +29,7 @@ beforeAll(async () => {
      where t.code = 'T-2026-01' group by a.farm_id, u.id, a.trial_id order by a.farm_id limit 1`,
   );
   manager = (await loadMember(rows[0].managerId))!;
-  asFarm = { userId: manager.id, farmId: rows[0].farmId, role: "farm_manager" };
+  asFarm = await memberOf(manager.id);
   trialId = rows[0].trialId;
   const other = await inspector.query<typeof theirs>(
     `select a.block_code as "blockCode", t.code as "trialCode", arm.label as "armLabel", s.code as "strainCode"

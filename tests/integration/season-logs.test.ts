@@ -2,7 +2,8 @@ import { readFileSync } from "node:fs";
 import path from "node:path";
 import type { Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { closeDatabase, type FarmContext } from "@/db/client";
+import { closeDatabase } from "@/db/client";
+import type { Member } from "@/lib/data/members";
 import { getBlock, listBlocks, listHarvestTargets, recordHarvest } from "@/lib/data/blocks";
 import {
   commitUpload,
@@ -19,19 +20,19 @@ import { seasonLogTemplateCsv } from "@/lib/import";
 import { isAppError } from "@/lib/errors";
 import { runQueuedJobs, stopJobWorkers } from "@/lib/jobs/worker";
 import type { ParseChoices } from "@/lib/season-logs/report";
-import { databaseRefusal, superuserPool, twoDemoFarms, type DemoFarm } from "./support/database";
+import { databaseRefusal, superuserPool, twoDemoFarms, type DemoFarm, memberOf } from "./support/database";
 
 let inspector: Pool;
 let farmA: DemoFarm;
 let farmB: DemoFarm;
-let asFarmA: FarmContext;
-let asFarmB: FarmContext;
+let asFarmA: Member;
+let asFarmB: Member;
 
 beforeAll(async () => {
   inspector = superuserPool();
   [farmA, farmB] = await twoDemoFarms(inspector);
-  asFarmA = { userId: farmA.managerId, farmId: farmA.id, role: "farm_manager" };
-  asFarmB = { userId: farmB.managerId, farmId: farmB.id, role: "farm_manager" };
+  asFarmA = await memberOf(farmA.managerId);
+  asFarmB = await memberOf(farmB.managerId);
 });
 
 afterAll(async () => {
@@ -63,7 +64,7 @@ function sheet(prefix: string, blocks: number[], options: { flushes?: number; fr
   return `${lines.join("\r\n")}\r\n`;
 }
 
-async function upload(context: FarmContext, text: string, fileName = "season.csv", choices: ParseChoices = {}): Promise<UploadView> {
+async function upload(context: Member, text: string, fileName = "season.csv", choices: ParseChoices = {}): Promise<UploadView> {
   const content = new TextEncoder().encode(text);
   const setup = await getImportSetup(context);
   return createUpload(context, { fileName, content, result: await parseStored(content, setup, choices), choices });

@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { closeDatabase, withFarmContext } from "@/db/client";
 import { blocks, harvests, trialBlockAssignments, trialEnrolments } from "@/db/schema";
 import { listOutgoingMail } from "@/lib/data/mail";
-import { farmContextOf, loadMember, type Member } from "@/lib/data/members";
+import { loadMember, type Member } from "@/lib/data/members";
 import {
   getCloseReview,
   getOwnProgress,
@@ -446,12 +446,12 @@ describe("a strain trial from design to publication", () => {
   });
 
   it("keeps a record of the mail sent, shown on Outgoing mail to the coordinator only", async () => {
-    const forCoordinator = await listOutgoingMail(farmContextOf(coordinator));
+    const forCoordinator = await listOutgoingMail(coordinator);
     const results = forCoordinator.filter((record) => record.subject.startsWith(`Results of trial ${trial.code}`));
     const { rows: people } = await inspector.query<{ email: string }>("select email from users where active");
     expect(results.map((record) => record.recipient).sort()).toEqual(people.map((person) => person.email).sort());
     expect(results.every((record) => record.kind === "trial-results" && record.outcome === "sent" && record.attempts === 1)).toBe(true);
-    expect(await listOutgoingMail(farmContextOf(managers[0]))).toEqual([]);
-    expect(await listOutgoingMail(farmContextOf(observer))).toEqual([]);
+    expect(await listOutgoingMail(managers[0])).toEqual([]);
+    expect(await listOutgoingMail(observer)).toEqual([]);
   });
 });

@@ -1,7 +1,8 @@
 import { PgDialect } from "drizzle-orm/pg-core";
 import { describe, expect, it } from "vitest";
 import { farmContextStatement } from "@/db/client";
-import { farmOf } from "@/lib/data/members";
+import { farmContextOf, farmOf } from "@/lib/data/context";
+import type { Member } from "@/lib/data/members";
 import { AppError } from "@/lib/errors";
 
 const dialect = new PgDialect();
@@ -23,19 +24,39 @@ describe("the statement that sets a request's farm context", () => {
   });
 });
 
+const member = (fields: Partial<Member>): Member => ({
+  id: "u1",
+  email: "u1@example.invalid",
+  name: "U One",
+  role: "grower",
+  farmId: "f1",
+  farmName: "Farm One",
+  active: true,
+  displayUnits: "metric",
+  sessionVersion: 1,
+  ...fields,
+});
+
+describe("farmContextOf: the one place a member's context comes from", () => {
+  it("takes the member's id, farm and role as the database has them, and nothing else", () => {
+    expect(farmContextOf(member({ id: "u2", farmId: "f2", role: "farm_manager" }))).toEqual({
+      userId: "u2",
+      farmId: "f2",
+      role: "farm_manager",
+    });
+    expect(farmContextOf(member({ role: "coordinator", farmId: null }))).toEqual({ userId: "u1", farmId: null, role: "coordinator" });
+  });
+});
+
 describe("farmOf: work only a farm's own people may do", () => {
   it("gives a farm member's context with its user and farm", () => {
-    expect(farmOf({ userId: "u1", farmId: "f1", role: "grower" }, "see its blocks")).toEqual({
-      userId: "u1",
-      farmId: "f1",
-      role: "grower",
-    });
+    expect(farmOf(member({}), "see its blocks")).toEqual({ userId: "u1", farmId: "f1", role: "grower" });
   });
 
   it("refuses the coordinator and observers, who have no farm, saying what only farm people can do", () => {
-    expect(() => farmOf({ userId: "u1", farmId: null, role: "coordinator" }, "see its blocks")).toThrow(
+    expect(() => farmOf(member({ farmId: null, role: "coordinator" }), "see its blocks")).toThrow(
       new AppError("forbidden", "Only a farm's own people can see its blocks."),
     );
-    expect(() => farmOf({ userId: null, farmId: "f1", role: null }, "work with its season logs")).toThrow(/work with its season logs/);
+    expect(() => farmOf(member({ farmId: null, role: "observer" }), "work with its season logs")).toThrow(/work with its season logs/);
   });
 });

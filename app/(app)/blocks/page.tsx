@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { ButtonLink } from "@/components/ui/button";
 import { PageHeader } from "@/components/ui/page-header";
-import { farmContextOf, requirePage } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { can } from "@/lib/auth/permissions";
 import { listBlocks } from "@/lib/data/blocks";
 import { BlocksTable } from "./_components/blocks-table";
@@ -10,7 +10,7 @@ export const metadata: Metadata = { title: "Blocks & harvests" };
 
 export default async function BlocksPage() {
   const member = await requirePage("farm-data:read");
-  const rows = await listBlocks(farmContextOf(member));
+  const rows = await listBlocks(member);
   return (
     <>
       <PageHeader

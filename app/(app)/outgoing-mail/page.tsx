@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import { PageHeader } from "@/components/ui/page-header";
-import { farmContextOf, requirePage } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { listOutgoingMail } from "@/lib/data/mail";
 import { mailKinds } from "@/lib/mail/queued-mail";
 import { OutgoingMailTable } from "./_components/outgoing-mail-table";
@@ -20,7 +20,7 @@ const kindLabels: Partial<Record<string, string>> = mailKinds;
 
 export default async function OutgoingMailPage() {
   const member = await requirePage("mail:read-outgoing");
-  const records = await listOutgoingMail(farmContextOf(member));
+  const records = await listOutgoingMail(member);
   return (
     <>
       <PageHeader

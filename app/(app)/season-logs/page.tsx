@@ -3,7 +3,7 @@ import { ButtonLink } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { Caution } from "@/components/ui/caution";
 import { PageHeader } from "@/components/ui/page-header";
-import { farmContextOf, requirePage } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { listUploads } from "@/lib/data/season-logs";
 import { SeasonLogUpload } from "./_components/season-log-upload";
 import { UploadHistory } from "./_components/upload-history";
@@ -12,7 +12,7 @@ export const metadata: Metadata = { title: "Season logs" };
 
 export default async function SeasonLogsPage() {
   const member = await requirePage("season-log:upload");
-  const uploads = await listUploads(farmContextOf(member));
+  const uploads = await listUploads(member);
   return (
     <>
       <PageHeader

@@ -1,7 +1,8 @@
 import { NextResponse } from "next/server";
-import { farmContextOf, guardedRoute } from "@/lib/auth/guard";
+import { guardedRoute } from "@/lib/auth/guard";
 import { createUpload, getImportSetup, listUploads, parseStored } from "@/lib/data/season-logs";
 import { withUploadSlot } from "@/lib/data/upload-limits";
+import type { Member } from "@/lib/data/members";
 import { AppError } from "@/lib/errors";
 import { createSeasonLogParser } from "@/lib/import";
 import { largestSpreadsheetBytes, largestUploadBytes, parserOptions } from "@/lib/season-logs/report";
@@ -29,7 +30,7 @@ function fileNameOf(request: Request): string {
 
 /** The farm's past uploads, newest first. */
 export const GET = guardedRoute("season-log:upload", async (_request, { member }) => {
-  return NextResponse.json({ uploads: await listUploads(farmContextOf(member)) });
+  return NextResponse.json({ uploads: await listUploads(member) });
 });
 
 /**
@@ -37,22 +38,16 @@ export const GET = guardedRoute("season-log:upload", async (_request, { member }
  * whatever its state, and answers with the report and a preview of what a commit would change.
  */
 export const POST = guardedRoute("season-log:upload", async (request, { member }) => {
-  const context = farmContextOf(member);
   const declared = Number(request.headers.get("content-length") ?? "0");
   if (declared > largestUploadBytes) throw new AppError("too_large", tooLarge);
   if (!request.body) throw new AppError("invalid_input", "The upload was empty. Choose a CSV file and send it again.");
   const body = request.body;
   // At most a few files per farm at once, room to keep this one, and memory in this process to read it.
-  return withUploadSlot(context, declared, () => receive(context, body, declared, fileNameOf(request)));
+  return withUploadSlot(member, declared, () => receive(member, body, declared, fileNameOf(request)));
 });
 
-async function receive(
-  context: ReturnType<typeof farmContextOf>,
-  body: ReadableStream<Uint8Array>,
-  declared: number,
-  fileName: string,
-): Promise<Response> {
-  const setup = await getImportSetup(context);
+async function receive(member: Member, body: ReadableStream<Uint8Array>, declared: number, fileName: string): Promise<Response> {
+  const setup = await getImportSetup(member);
   const parser = createSeasonLogParser(parserOptions(setup.remembered, setup.knownStrains));
   // The bytes go straight into one buffer of the size announced (a file held once, not as chunks and again as their join).
   let content = Buffer.allocUnsafe(declared > 0 ? declared : 1024 * 1024);
@@ -85,6 +80,6 @@ async function receive(
   if (spreadsheet === null) parser.write(content.subarray(0, size));
   const bytes = content.subarray(0, size);
   const result = spreadsheet ? await parseStored(bytes, setup, setup.remembered) : parser.end();
-  const view = await createUpload(context, { fileName, content: bytes, result, choices: setup.remembered });
+  const view = await createUpload(member, { fileName, content: bytes, result, choices: setup.remembered });
   return NextResponse.json(view, { status: 201 });
 }

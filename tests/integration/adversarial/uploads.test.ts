@@ -1,11 +1,12 @@
 import { Client, type Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
-import { closeDatabase, type FarmContext } from "@/db/client";
+import { closeDatabase } from "@/db/client";
+import type { Member } from "@/lib/data/members";
 import { createSeasonLogParser } from "@/lib/import";
 import { createUpload, getUploadFile } from "@/lib/data/season-logs";
 import { purgeRejectedUploadFiles, withUploadSlot } from "@/lib/data/upload-limits";
 import { uploadLimits } from "@/lib/season-logs/limits";
-import { superuserPool, twoDemoFarms, type DemoFarm } from "../support/database";
+import { superuserPool, twoDemoFarms, type DemoFarm, memberOf } from "../support/database";
 
 /**
  * A farm (or a script with a member's password) that sends file after file: it must not fill
@@ -16,8 +17,8 @@ import { superuserPool, twoDemoFarms, type DemoFarm } from "../support/database"
 let inspector: Pool;
 let farmA: DemoFarm;
 let farmB: DemoFarm;
-let asFarmA: FarmContext;
-let asFarmB: FarmContext;
+let asFarmA: Member;
+let asFarmB: Member;
 const madeNames = "limits-probe-%";
 
 function gate() {
@@ -49,8 +50,8 @@ async function storedUpload(farm: DemoFarm, options: { outcome: string; daysAgo:
 beforeAll(async () => {
   inspector = superuserPool();
   [farmA, farmB] = await twoDemoFarms(inspector);
-  asFarmA = { userId: farmA.managerId, farmId: farmA.id, role: "farm_manager" };
-  asFarmB = { userId: farmB.managerId, farmId: farmB.id, role: "farm_manager" };
+  asFarmA = await memberOf(farmA.managerId);
+  asFarmB = await memberOf(farmB.managerId);
 });
 
 afterAll(async () => {

@@ -1,4 +1,5 @@
 import { Pool } from "pg";
+import { loadMember, type Member } from "@/lib/data/members";
 
 /**
  * A superuser connection, for tests only: it sees past row-level security (even the owner
@@ -70,4 +71,11 @@ export async function removeAllReleases(pool: Pool): Promise<void> {
   } finally {
     client.release();
   }
+}
+
+/** The member a user id names, as the guard would load them: the data layer acts for a Member. */
+export async function memberOf(userId: string): Promise<Member> {
+  const member = await loadMember(userId);
+  if (!member) throw new Error(`no member with id ${userId}`);
+  return member;
 }

@@ -3,7 +3,7 @@
 import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import { z } from "zod";
-import { farmContextOf, guardedAction } from "@/lib/auth/guard";
+import { guardedAction } from "@/lib/auth/guard";
 import { correctBlock, correctHarvest, deleteHarvest } from "@/lib/data/corrections";
 import { blockCorrectionSchema, harvestCorrectionSchema, harvestRemovalSchema } from "@/lib/season-logs/corrections";
 
@@ -22,7 +22,7 @@ const saved = (changed: number) => ({
 });
 
 export const correctBlockAction = guardedAction("farm-data:correct", blockCorrectionSchema, async (input, member) => {
-  const result = await correctBlock(farmContextOf(member), input);
+  const result = await correctBlock(member, input);
   if (result.status === "warnings") return confirm(result.warnings);
   revalidatePath("/blocks", "layout");
   return saved(result.changed);
@@ -39,13 +39,13 @@ const harvestFormSchema = z.preprocess(
 
 export const correctHarvestAction = guardedAction("farm-data:correct", harvestFormSchema, async (input, member) => {
   if (input.intent === "delete") {
-    const deleted = await deleteHarvest(farmContextOf(member), input);
+    const deleted = await deleteHarvest(member, input);
     if (deleted.status === "warnings")
       return { ...confirm(deleted.warnings), message: "Check what is marked, then delete anyway or keep the harvest." };
     revalidatePath("/blocks", "layout");
     redirect(`/blocks/${deleted.blockId}?deleted=1`);
   }
-  const result = await correctHarvest(farmContextOf(member), input);
+  const result = await correctHarvest(member, input);
   if (result.status === "warnings") return confirm(result.warnings);
   revalidatePath("/blocks", "layout");
   return saved(result.changed);

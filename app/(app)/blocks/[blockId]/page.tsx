@@ -6,7 +6,7 @@ import { Card } from "@/components/ui/card";
 import { Caution } from "@/components/ui/caution";
 import { Notice } from "@/components/ui/notice";
 import { PageHeader } from "@/components/ui/page-header";
-import { farmContextOf, requirePage } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { can } from "@/lib/auth/permissions";
 import { getBlock, type BlockDetail } from "@/lib/data/blocks";
 import { isAppError } from "@/lib/errors";
@@ -43,7 +43,7 @@ export default async function BlockPage({
   const { correct, deleted } = await searchParams;
   let block: BlockDetail;
   try {
-    block = await getBlock(farmContextOf(member), blockId);
+    block = await getBlock(member, blockId);
   } catch (error) {
     if (isAppError(error) && error.code === "not_found") notFound();
     throw error;

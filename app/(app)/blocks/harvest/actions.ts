@@ -1,13 +1,13 @@
 "use server";
 
 import { revalidatePath } from "next/cache";
-import { farmContextOf, guardedAction } from "@/lib/auth/guard";
+import { guardedAction } from "@/lib/auth/guard";
 import { recordHarvest } from "@/lib/data/blocks";
 import { recordHarvestSchema } from "@/lib/season-logs/quick-harvest";
 import { formatMass } from "@/lib/units";
 
 export const recordHarvestAction = guardedAction("harvest:record", recordHarvestSchema, async (input, member) => {
-  const result = await recordHarvest(farmContextOf(member), input);
+  const result = await recordHarvest(member, input);
   if (result.status === "warnings")
     return {
       status: "confirm",

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { Caution } from "@/components/ui/caution";
 import { PageHeader } from "@/components/ui/page-header";
-import { farmContextOf, requirePage } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { listHarvestTargets } from "@/lib/data/blocks";
 import { QuickHarvestForm } from "./quick-harvest-form";
 
@@ -9,7 +9,7 @@ export const metadata: Metadata = { title: "Record a harvest" };
 
 export default async function RecordHarvestPage({ searchParams }: { searchParams: Promise<{ block?: string }> }) {
   const member = await requirePage("harvest:record");
-  const targets = await listHarvestTargets(farmContextOf(member));
+  const targets = await listHarvestTargets(member);
   const { block } = await searchParams;
   return (
     <>

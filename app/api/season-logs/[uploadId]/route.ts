@@ -1,8 +1,8 @@
 import { NextResponse } from "next/server";
-import { farmContextOf, guardedRoute } from "@/lib/auth/guard";
+import { guardedRoute } from "@/lib/auth/guard";
 import { getUploadView } from "@/lib/data/season-logs";
 
 /** One upload's report and preview, as last checked. */
 export const GET = guardedRoute<{ uploadId: string }>("season-log:upload", async (_request, { member, params }) => {
-  return NextResponse.json(await getUploadView(farmContextOf(member), params.uploadId));
+  return NextResponse.json(await getUploadView(member, params.uploadId));
 });

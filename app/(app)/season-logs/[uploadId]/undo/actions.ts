@@ -2,14 +2,14 @@
 
 import { revalidatePath } from "next/cache";
 import { z } from "zod";
-import { farmContextOf, guardedAction } from "@/lib/auth/guard";
+import { guardedAction } from "@/lib/auth/guard";
 import { undoCommit } from "@/lib/data/corrections";
 import { correctionReason } from "@/lib/season-logs/corrections";
 
 const undoCommitSchema = z.object({ uploadId: z.string().max(100), reason: correctionReason });
 
 export const undoCommitAction = guardedAction("farm-data:correct", undoCommitSchema, async (input, member) => {
-  const receipt = await undoCommit(farmContextOf(member), input);
+  const receipt = await undoCommit(member, input);
   revalidatePath("/season-logs");
   revalidatePath("/blocks", "layout");
   const count = (n: number, one: string) => `${n} ${one}${n === 1 ? "" : "s"}`;

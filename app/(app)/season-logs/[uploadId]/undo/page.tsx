@@ -3,7 +3,7 @@ import { notFound } from "next/navigation";
 import { ButtonLink } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { PageHeader } from "@/components/ui/page-header";
-import { farmContextOf, requirePage } from "@/lib/auth/guard";
+import { requirePage } from "@/lib/auth/guard";
 import { getUploadView, type UploadView } from "@/lib/data/season-logs";
 import { isAppError } from "@/lib/errors";
 import { UndoCommitForm } from "./undo-form";
@@ -15,7 +15,7 @@ export default async function UndoCommitPage({ params }: { params: Promise<{ upl
   const { uploadId } = await params;
   let view: UploadView;
   try {
-    view = await getUploadView(farmContextOf(member), uploadId);
+    view = await getUploadView(member, uploadId);
   } catch (error) {
     if (isAppError(error) && error.code === "not_found") notFound();
     throw error;

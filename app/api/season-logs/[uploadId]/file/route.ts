@@ -1,11 +1,11 @@
-import { farmContextOf, guardedRoute } from "@/lib/auth/guard";
+import { guardedRoute } from "@/lib/auth/guard";
 import { getUploadFile } from "@/lib/data/season-logs";
 import { workbookKind } from "@/lib/import";
 import { attachment } from "@/lib/season-logs/request";
 
 /** The original file exactly as the farm sent it. */
 export const GET = guardedRoute<{ uploadId: string }>("season-log:upload", async (_request, { member, params }) => {
-  const file = await getUploadFile(farmContextOf(member), params.uploadId);
+  const file = await getUploadFile(member, params.uploadId);
   const content = new Uint8Array(file.content);
   const kind = workbookKind(content);
   const type =
