@@ -1,5 +1,6 @@
 import { sql } from "drizzle-orm";
 import {
+  bigint,
   bigserial,
   boolean,
   check,
@@ -43,8 +44,11 @@ export const uploads = pgTable(
     rowCount: integer("row_count").notNull().default(0),
     report: jsonb("report"),
     options: jsonb("options"),
-    /** The upload's parse, packed (lib/season-logs/staged.ts), so the commit need not read the file again; cleared once committed. */
-    stagedParse: text("staged_parse"),
+    /**
+     * The rows a commit would write, as planned at upload (lib/season-logs/commit-rows.ts, gzip), with
+     * what they were planned against; written as they are when nothing changed since. Cleared once committed.
+     */
+    commitRows: bytea("commit_rows"),
     committedAt: timestamp("committed_at", { withTimezone: true }),
     /** When the stored file of a rejected upload was removed after the co-op's retention period (the record and report stay). */
     filePurgedAt: timestamp("file_purged_at", { withTimezone: true }),
@@ -55,6 +59,17 @@ export const uploads = pgTable(
   },
   (t) => [index("uploads_farm_sha_idx").on(t.farmId, t.sha256), index("uploads_farm_time_idx").on(t.farmId, t.uploadedAt)],
 );
+
+/**
+ * A count that goes up with every statement that writes a farm's blocks or harvests (triggers,
+ * migration 0031), whoever writes them: an upload's planned rows are still right while it stays put.
+ */
+export const farmDataVersions = pgTable("farm_data_versions", {
+  farmId: uuid("farm_id")
+    .primaryKey()
+    .references(() => farms.id, { onDelete: "cascade" }),
+  version: bigint("version", { mode: "number" }).notNull(),
+});
 
 /** A season log a farm is sending or re-reading right now; at most a few per farm at once, across app processes. */
 export const uploadReservations = pgTable(

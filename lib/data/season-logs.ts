@@ -1,9 +1,7 @@
 import "server-only";
-import { createHash, randomFillSync, randomInt } from "node:crypto";
-import { gunzipSync, gzipSync } from "node:zlib";
+import { createHash } from "node:crypto";
 import { and, desc, eq, isNull, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
-import { v7 as timeOrderedId } from "uuid";
 import { copyInto, type Transaction } from "@/db/client";
 import {
   blocks,
@@ -30,20 +28,10 @@ import type { RegisterEntryText } from "@/lib/import/registers";
 import { actor, recordAudit } from "@/lib/data/audit";
 import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
 import { assertStorageRoom } from "@/lib/data/upload-limits";
-import {
-  type BlockWrite,
-  type CommitPlan,
-  type HarvestWrite,
-  type PlanCounts,
-  type PlanInput,
-  type StoredHarvest,
-  planCommit,
-  withNotInFileRemoved,
-} from "@/lib/season-logs/plan";
+import { type PlanCounts, type PlanInput, planCommit, withNotInFileRemoved } from "@/lib/season-logs/plan";
 import { type ParseChoices, type UploadReport, buildReport, parserOptions } from "@/lib/season-logs/report";
-import { copyChunks } from "@/lib/season-logs/copy-text";
 import { seasonLogExportCsv } from "@/lib/season-logs/export";
-import { packParse, stagingKey, unpackParse } from "@/lib/season-logs/staged";
+import { commitRowsOf, keepCommitRows, keptCommitRows, stagingKey, type CommitRows } from "@/lib/season-logs/commit-rows";
 import { todayUtc } from "@/lib/import/dates";
 import type { Member } from "./members";
 import { asMember, farmOf } from "./context";
@@ -273,6 +261,26 @@ async function committedBefore(tx: Transaction, farmId: string, sha256: string, 
   return rows.find((row) => row.id !== except)?.committedAt ?? null;
 }
 
+/**
+ * What an upload's plan depended on besides the file: the farm's data version (a number triggers
+ * move with every statement that writes its blocks or harvests, migration 0031), the registers a
+ * file's codes resolve against and the farm's trial lists. Read before the rows it vouches for, so a
+ * write landing in between makes it older than they are, never newer: the commit then plans again.
+ */
+async function farmDataMarker(tx: Transaction, farmId: string): Promise<string> {
+  const result = await tx.execute<{ marker: string }>(sql`
+    select coalesce((select version from farm_data_versions where farm_id = ${farmId}::uuid), 0)::text || ':' || md5(concat_ws(';',
+      (select string_agg(concat_ws('|', id, code, name), ',' order by id) from strains where status = 'active'),
+      (select string_agg(concat_ws('|', id, code, name), ',' order by id) from substrate_recipes where status = 'active'),
+      (select string_agg(concat_ws('|', id, code, name), ',' order by id) from treatments where status = 'active' and kind = 'fruiting_method'),
+      (select string_agg(concat_ws('|', a.block_code, a.arm_id, r.label, r.strain_id, r.treatment_id, t.code, t.title), ',' order by a.block_code)
+        from trial_block_assignments a join trial_arms r on r.id = a.arm_id join trials t on t.id = a.trial_id
+        where a.farm_id = ${farmId}::uuid))) as marker`);
+  return result.rows[0].marker;
+}
+
+const storedBlockIds = (input: Omit<PlanInput, "records">) => new Map(input.storedBlocks.map((block) => [block.code, block.id]));
+
 function viewOf(row: UploadSummary, report: UploadReport, alreadyImportedAt: Date | null): UploadView {
   return {
     upload: row,
@@ -288,28 +296,16 @@ function outcomeOf(report: UploadReport, alreadyImportedAt: Date | null): Upload
 }
 
 /**
- * The parse kept with an upload that can be committed, so the commit need not read the file
- * again: packed, then gzip (under a third of the packed size, so cheaper to store and read
- * back), as base64 text.
+ * A parse's report and outcome against what the farm has stored, and for a file that can be
+ * committed the rows the commit would write: one short read, then CPU work with no connection held.
  */
-function stagedParseOf(
-  outcome: UploadSummary["outcome"],
-  choices: ParseChoices,
-  knownStrains: readonly RegisterEntryText[],
-  result: SeasonLogResult,
-): string | null {
-  if (outcome !== "received") return null;
-  return gzipSync(packParse(stagingKey(choices, knownStrains, todayUtc()), result), { level: 1 }).toString("base64");
-}
-
-/** A parse's report, outcome and staged parse against what the farm has stored: one short read, then CPU work with no connection held. */
 async function previewOf(member: Member, sha256: string, result: SeasonLogResult, choices: ParseChoices, except?: string) {
   const farm = farmOf(member, "work with its season logs");
-  const { alreadyImportedAt, planInput } = await asMember(member, async (tx) => ({
+  const { alreadyImportedAt, marker, planInput } = await asMember(member, async (tx) => ({
     alreadyImportedAt: await committedBefore(tx, farm.farmId, sha256, except),
+    marker: await farmDataMarker(tx, farm.farmId),
     planInput: await loadPlanInput(tx, farm.farmId),
   }));
-  // A preview only: the commit plans again under the farm's lock against what is stored then.
   const plan = planCommit({ records: result.records, ...planInput });
   const report = buildReport({
     rowCount: result.records.length,
@@ -319,13 +315,13 @@ async function previewOf(member: Member, sha256: string, result: SeasonLogResult
     choices,
   });
   const outcome = outcomeOf(report, alreadyImportedAt);
-  const stagedParse = stagedParseOf(
-    outcome,
-    choices,
-    planInput.strains.map((strain) => ({ code: strain.code, names: strain.names })),
-    result,
-  );
-  return { alreadyImportedAt, report, outcome, stagedParse };
+  const knownStrains = planInput.strains.map((strain) => ({ code: strain.code, names: strain.names }));
+  // Kept for the commit, which writes them as they are if the marker has not moved by then.
+  const commitRows =
+    outcome === "received"
+      ? keepCommitRows(stagingKey(choices, knownStrains, todayUtc()), marker, commitRowsOf(plan, storedBlockIds(planInput)))
+      : null;
+  return { alreadyImportedAt, report, outcome, commitRows };
 }
 
 /**
@@ -339,7 +335,7 @@ export async function createUpload(
 ): Promise<UploadView> {
   const farm = farmOf(member, "work with its season logs");
   const sha256 = sha256Of(input.content);
-  const { alreadyImportedAt, report, outcome, stagedParse } = await previewOf(member, sha256, input.result, input.choices);
+  const { alreadyImportedAt, report, outcome, commitRows } = await previewOf(member, sha256, input.result, input.choices);
   return asMember(member, async (tx) => {
     await assertStorageRoom(tx, farm.farmId, input.content.byteLength);
     const [row] = await tx
@@ -355,7 +351,7 @@ export async function createUpload(
         rowCount: report.rowCount,
         report,
         options: input.choices,
-        stagedParse,
+        commitRows,
       })
       .returning(summaryColumns);
     await recordAudit(tx, {
@@ -419,29 +415,16 @@ export async function recheckUpload(member: Member, uploadId: string, choices: P
     throw new AppError("conflict", "This upload is already committed. Upload the file again to check it against what is stored now.");
   const setup = await getImportSetup(member);
   const result = await parseStored(await storedContent(member, uploadId), setup, choices);
-  const { alreadyImportedAt, report, outcome, stagedParse } = await previewOf(member, stored.sha256, result, choices, uploadId);
+  const { alreadyImportedAt, report, outcome, commitRows } = await previewOf(member, stored.sha256, result, choices, uploadId);
   return asMember(member, async (tx) => {
     const [row] = await tx
       .update(uploads)
-      .set({ report, options: choices, rowCount: report.rowCount, outcome, stagedParse })
+      .set({ report, options: choices, rowCount: report.rowCount, outcome, commitRows })
       .where(eq(uploads.id, uploadId))
       .returning(summaryColumns);
     await rememberChoices(tx, farm.farmId, choices);
     return viewOf(summary(row), report, alreadyImportedAt);
   });
-}
-
-/**
- * The upload's staged parse when it was made with these choices, today's strain register and
- * today's date (so it equals a fresh parse); otherwise the stored file, read again.
- */
-async function parseForCommit(member: Member, uploadId: string, setup: ImportSetup, choices: ParseChoices): Promise<SeasonLogResult> {
-  const [row] = await asMember(member, (tx) =>
-    tx.select({ stagedParse: uploads.stagedParse }).from(uploads).where(eq(uploads.id, uploadId)),
-  );
-  const packed = row?.stagedParse ? gunzipSync(Buffer.from(row.stagedParse, "base64")).toString("utf8") : null;
-  const staged = packed ? unpackParse(packed, stagingKey(choices, setup.knownStrains, todayUtc())) : null;
-  return staged ?? (await parseStored(await storedContent(member, uploadId), setup, choices));
 }
 
 /**
@@ -461,26 +444,6 @@ const stagedHarvests = `create temporary table commit_harvests (is_new boolean n
 const stagedChanges = `create temporary table commit_value_changes (block_id uuid not null, flush integer, field text not null,
   old_value text, new_value text) on commit drop`;
 
-/**
- * Time-ordered ids (UUIDv7) for one commit's new rows: the commit's millisecond, then a counter
- * from a random start, so they sort in the order made. Random bits come from one buffer filled
- * at a time: the package's default asks the system for 16 random bytes per id, 20 times slower.
- */
-function idsInOrder(): () => string {
-  const msecs = Date.now();
-  const random = new Uint8Array(16 * 1024);
-  let seq = randomInt(2 ** 30);
-  let used = random.length;
-  return () => {
-    if (used === random.length) {
-      randomFillSync(random);
-      used = 0;
-    }
-    used += 16;
-    return timeOrderedId({ msecs, seq: seq++, random: random.subarray(used - 16, used) });
-  };
-}
-
 function refuseIfChanged(updated: number | null, expected: number): void {
   if (updated !== expected)
     throw new AppError(
@@ -497,69 +460,16 @@ async function keepReplacedRows(tx: Transaction, uploadId: string, kind: "block"
 }
 
 /**
- * Writes the plan: new rows inserted and changed ones updated by id, each table's rows staged by
- * COPY and written by one statement, as rhizo_app under row-level security. The plan was made
- * under the farm's lock, so it knows which rows are new. New rows get their ids here: their
- * harvests need no look-up by block code, and time-ordered ids (UUIDv7) land at the end of the
- * indexes instead of on random pages, which makes writing many harvests far cheaper.
+ * Writes a commit's rows: new rows inserted and changed ones updated by id, each table's rows
+ * staged by COPY and written by one statement, as rhizo_app under row-level security. The rows
+ * were planned against exactly what is stored (the farm's lock is held, and a kept plan is used
+ * only while the farm's data marker has not moved), so they know which rows are new.
  */
-async function writePlan(
-  tx: Transaction,
-  farmId: string,
-  userId: string,
-  uploadId: string,
-  plan: CommitPlan & { removedHarvests?: readonly StoredHarvest[] },
-): Promise<void> {
-  const nextId = idsInOrder();
-  const blockIds = new Map<string, string>();
-  let changedBlocks = 0;
-  const isNew = new Set<object>();
-  for (const block of plan.blocks) {
-    if (block.id === null) isNew.add(block);
-    else changedBlocks++;
-    // The plan is this commit's own, so its rows take their ids in place rather than as copies.
-    block.id ??= nextId();
-    blockIds.set(block.code, block.id);
-  }
-  let changedHarvests = 0;
-  for (const harvest of plan.harvests) {
-    if (harvest.blockId === null) {
-      const blockId = blockIds.get(harvest.blockCode);
-      if (blockId === undefined) throw new Error(`the plan has a harvest of block ${harvest.blockCode} but not the block`);
-      harvest.blockId = blockId;
-    } else blockIds.set(harvest.blockCode, harvest.blockId);
-    if (harvest.id === null) isNew.add(harvest);
-    else changedHarvests++;
-    harvest.id ??= nextId();
-  }
-
-  if (plan.blocks.length > 0) {
+async function writeRows(tx: Transaction, farmId: string, userId: string, uploadId: string, rows: CommitRows): Promise<void> {
+  if (rows.blockCount > 0) {
     await tx.execute(sql.raw(stagedBlocks));
-    await copyInto(
-      tx,
-      "copy pg_temp.commit_blocks from stdin",
-      copyChunks(plan.blocks, (b: BlockWrite) => [
-        isNew.has(b),
-        b.id,
-        b.code,
-        b.strainId,
-        b.substrateRecipeId,
-        b.fruitingMethodId,
-        b.trialArmId,
-        b.inoculatedOn,
-        b.wetMassG,
-        b.wetMassAsWritten,
-        b.wetMassUnit,
-        b.moisture,
-        b.contaminated,
-        b.contaminatedOn,
-        b.spentMassG,
-        b.spentMassAsWritten,
-        b.spentMassUnit,
-        b.notes,
-      ]),
-    );
-    if (plan.blocks.length > changedBlocks) {
+    await copyInto(tx, "copy pg_temp.commit_blocks from stdin", [rows.blocks]);
+    if (rows.blockCount > rows.changedBlocks) {
       await tx.execute(sql`
         insert into blocks (id, farm_id, code, strain_id, substrate_recipe_id, fruiting_method_id, trial_arm_id, inoculated_on,
           wet_mass_g, wet_mass_as_written, wet_mass_unit, moisture, contaminated, contaminated_on,
@@ -569,7 +479,7 @@ async function writePlan(
           spent_mass_g, spent_mass_as_written, spent_mass_unit, notes, ${uploadId}::uuid
         from pg_temp.commit_blocks where is_new`);
     }
-    if (changedBlocks > 0) {
+    if (rows.changedBlocks > 0) {
       await keepReplacedRows(
         tx,
         uploadId,
@@ -586,30 +496,14 @@ async function writePlan(
           notes = u.notes, last_upload_id = ${uploadId}::uuid, updated_at = now()
         from pg_temp.commit_blocks u
         where b.id = u.id and not u.is_new`);
-      refuseIfChanged(updated.rowCount, changedBlocks);
+      refuseIfChanged(updated.rowCount, rows.changedBlocks);
     }
   }
 
-  if (plan.harvests.length > 0) {
+  if (rows.harvestCount > 0) {
     await tx.execute(sql.raw(stagedHarvests));
-    await copyInto(
-      tx,
-      "copy pg_temp.commit_harvests from stdin",
-      copyChunks(plan.harvests, (h: HarvestWrite) => [
-        isNew.has(h),
-        h.id,
-        h.blockId,
-        h.flush,
-        h.harvestedOn,
-        h.freshMassG,
-        h.freshMassAsWritten,
-        h.freshMassUnit,
-        h.dryMassG,
-        h.dryMassAsWritten,
-        h.dryMassUnit,
-      ]),
-    );
-    if (plan.harvests.length > changedHarvests) {
+    await copyInto(tx, "copy pg_temp.commit_harvests from stdin", [rows.harvests]);
+    if (rows.harvestCount > rows.changedHarvests) {
       await tx.execute(sql`
         insert into harvests (id, farm_id, block_id, flush, harvested_on, fresh_mass_g, fresh_mass_as_written, fresh_mass_unit,
           dry_mass_g, dry_mass_as_written, dry_mass_unit, upload_id)
@@ -617,7 +511,7 @@ async function writePlan(
           dry_mass_g, dry_mass_as_written, dry_mass_unit, ${uploadId}::uuid
         from pg_temp.commit_harvests where is_new`);
     }
-    if (changedHarvests > 0) {
+    if (rows.changedHarvests > 0) {
       await keepReplacedRows(
         tx,
         uploadId,
@@ -634,31 +528,21 @@ async function writePlan(
           accepted_warnings = null
         from pg_temp.commit_harvests u
         where h.id = u.id and not u.is_new`);
-      refuseIfChanged(updated.rowCount, changedHarvests);
+      refuseIfChanged(updated.rowCount, rows.changedHarvests);
     }
   }
 
   // Removed only when the grower chose so; kept whole, so undoing the commit puts them back.
-  const removedHarvests = plan.removedHarvests ?? [];
-  if (removedHarvests.length > 0) {
-    const ids = JSON.stringify(removedHarvests.map((harvest) => harvest.id));
-    const chosen = sql`h.id in (select value::uuid from json_array_elements_text(${ids}::json))`;
+  if (rows.removedHarvestIds.length > 0) {
+    const chosen = sql`h.id in (select value::uuid from json_array_elements_text(${JSON.stringify(rows.removedHarvestIds)}::json))`;
     await keepReplacedRows(tx, uploadId, "removed_harvest", sql`select h.* from harvests h where ${chosen}`);
     const removed = await tx.execute(sql`delete from harvests h where ${chosen}`);
-    refuseIfChanged(removed.rowCount, removedHarvests.length);
-    // A removed harvest's block may be one the plan leaves untouched: its history needs the block's id.
-    const stored = await tx.select({ id: blocks.id, code: blocks.code }).from(blocks).where(eq(blocks.farmId, farmId));
-    for (const row of stored) if (!blockIds.has(row.code)) blockIds.set(row.code, row.id);
+    refuseIfChanged(removed.rowCount, rows.removedHarvestIds.length);
   }
 
-  if (plan.changes.length > 0) {
+  if (rows.changeCount > 0) {
     await tx.execute(sql.raw(stagedChanges));
-    // Every change is of a block or harvest the plan writes or removes, so its block id is known.
-    await copyInto(
-      tx,
-      "copy pg_temp.commit_value_changes from stdin",
-      copyChunks(plan.changes, (change) => [blockIds.get(change.blockCode), change.flush, change.field, change.oldValue, change.newValue]),
-    );
+    await copyInto(tx, "copy pg_temp.commit_value_changes from stdin", [rows.changes]);
     await tx.execute(sql`
       insert into value_changes (farm_id, block_id, flush, field, old_value, new_value, upload_id, changed_by)
       select ${farmId}::uuid, block_id, flush, field, old_value, new_value, ${uploadId}::uuid, ${userId}::uuid
@@ -667,11 +551,12 @@ async function writePlan(
 }
 
 /**
- * Commits a stored upload: takes its staged parse (or reads the file again when the choices
- * changed) and, in one transaction under the farm's lock, plans against what is stored,
- * inserts new blocks and harvests, updates changed ones, keeps every replaced value as history,
- * marks the upload committed and queues the farm's pooled refresh (the job runs after the commit).
- * Any error leaves the farm's data as it was.
+ * Commits a stored upload in one transaction under the farm's lock: writes the rows planned at
+ * upload when neither the grower's choices, the registers, the day nor the farm's stored data have
+ * changed since (farmDataMarker), and otherwise reads the file again and plans against what is
+ * stored now. Either way it inserts new blocks and harvests, updates changed ones, keeps every
+ * replaced value as history, marks the upload committed and queues the farm's pooled refresh
+ * (the job runs after the commit). Any error leaves the farm's data as it was.
  */
 export async function commitUpload(
   member: Member,
@@ -684,7 +569,7 @@ export async function commitUpload(
   if (stored.outcome === "committed")
     throw new AppError("conflict", `This upload was committed on ${iso(stored.committedAt)?.slice(0, 10)}; nothing more to do.`);
   const setup = await getImportSetup(member);
-  const result = await parseForCommit(member, uploadId, setup, choices);
+  const key = stagingKey(choices, setup.knownStrains, todayUtc());
   const receipt = await asMember(member, async (tx) => {
     // Two commits for one farm run one after the other, so overlapping sheets end as if sent in turn.
     await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`season-log:${farm.farmId}`}, 0))`);
@@ -695,23 +580,12 @@ export async function commitUpload(
         `This file was already imported on ${iso(alreadyImportedAt)!.slice(0, 10)}; committing it again would change nothing.`,
       );
     }
-    const planned = planCommit({ records: result.records, ...(await loadPlanInput(tx, farm.farmId)) });
-    const plan = removeNotInFile ? withNotInFileRemoved(planned) : { ...planned, removedHarvests: [] };
-    const report = buildReport({
-      rowCount: result.records.length,
-      parserIssues: result.issues,
-      plan,
-      detected: result.detected,
-      choices,
-    });
-    if (report.errorCount > 0) {
-      const first = report.issues.find((issue) => issue.severity === "error");
-      throw new AppError(
-        "invalid_input",
-        `The file still has ${report.errorCount} error${report.errorCount === 1 ? "" : "s"}, so nothing was saved. First: ${first?.message ?? ""} Correct the file or the mapping and check it again.`,
-      );
-    }
-    await writePlan(tx, farm.farmId, farm.userId, uploadId, plan);
+    const [upload] = await tx.select({ commitRows: uploads.commitRows }).from(uploads).where(eq(uploads.id, uploadId));
+    const kept = keptCommitRows(upload?.commitRows ?? null, key, await farmDataMarker(tx, farm.farmId));
+    // Removing the stored harvests the file leaves out is a plan of its own.
+    const planned = kept && !(removeNotInFile && kept.notInFileHarvests > 0) ? { rows: kept, report: stored.report as UploadReport } : null;
+    const { rows, report } = planned ?? (await planAgain(tx, member, uploadId, setup, choices, removeNotInFile));
+    await writeRows(tx, farm.farmId, farm.userId, uploadId, rows);
     const [row] = await tx
       .update(uploads)
       // The transaction's own time, as every row it writes gets in updated_at: an undo knows a row untouched since by that.
@@ -722,7 +596,7 @@ export async function commitUpload(
         report,
         options: choices,
         rowCount: report.rowCount,
-        stagedParse: null,
+        commitRows: null,
       })
       .where(eq(uploads.id, uploadId))
       .returning({ committedAt: uploads.committedAt, fileName: uploads.fileName });
@@ -732,19 +606,48 @@ export async function commitUpload(
       subject: row.fileName,
       farmId: farm.farmId,
       ...actor(member),
-      details: { uploadId, ...plan.counts, changedValues: plan.changes.length, removedHarvests: plan.removedHarvests.length },
+      details: { uploadId, ...rows.counts, changedValues: rows.changeCount, removedHarvests: rows.removedHarvestIds.length },
     });
     await queuePooledRefresh(tx, farm.farmId);
     return {
       uploadId,
       fileName: row.fileName,
       committedAt: iso(row.committedAt)!,
-      counts: plan.counts,
-      changedValues: plan.changes.length,
-      removedHarvests: plan.removedHarvests.length,
+      counts: rows.counts,
+      changedValues: rows.changeCount,
+      removedHarvests: rows.removedHarvestIds.length,
     };
   });
   return receipt;
+}
+
+/**
+ * The commit's rows when the ones planned at upload no longer hold: the file read again under
+ * the commit's choices and planned against what is stored now, inside the commit's transaction
+ * (the farm's lock is held, so nothing can change between the plan and the writes).
+ */
+async function planAgain(
+  tx: Transaction,
+  member: Member,
+  uploadId: string,
+  setup: ImportSetup,
+  choices: ParseChoices,
+  removeNotInFile: boolean,
+): Promise<{ rows: CommitRows; report: UploadReport }> {
+  const farm = farmOf(member, "work with its season logs");
+  const result = await parseStored(await storedContent(member, uploadId), setup, choices);
+  const planInput = await loadPlanInput(tx, farm.farmId);
+  const planned = planCommit({ records: result.records, ...planInput });
+  const plan = removeNotInFile ? withNotInFileRemoved(planned) : planned;
+  const report = buildReport({ rowCount: result.records.length, parserIssues: result.issues, plan, detected: result.detected, choices });
+  if (report.errorCount > 0) {
+    const first = report.issues.find((issue) => issue.severity === "error");
+    throw new AppError(
+      "invalid_input",
+      `The file still has ${report.errorCount} error${report.errorCount === 1 ? "" : "s"}, so nothing was saved. First: ${first?.message ?? ""} Correct the file or the mapping and check it again.`,
+    );
+  }
+  return { rows: commitRowsOf(plan, storedBlockIds(planInput)), report };
 }
 
 export async function listUploads(member: Member): Promise<UploadSummary[]> {

@@ -2,7 +2,9 @@ import { readFileSync } from "node:fs";
 import path from "node:path";
 import type { Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { closeDatabase } from "@/db/client";
+import { sql } from "drizzle-orm";
+import { closeDatabase, withFarmContext } from "@/db/client";
+import { farmContextOf } from "@/lib/data/context";
 import type { Member } from "@/lib/data/members";
 import { getBlock, listBlocks, listHarvestTargets, recordHarvest } from "@/lib/data/blocks";
 import {
@@ -172,22 +174,80 @@ describe("committing a season log", () => {
     ]);
   });
 
-  it("commits what the file says under the commit's own choices, not the parse kept from the upload", async () => {
+  it("commits what the file says under the commit's own choices, not the rows planned at upload", async () => {
     const text = `${header}\r\nIT-D-1,PO-01,HWB-20,2026-03-01,2500 g,62 %,SLIT-ACROSS,1,2026-04-10,1.500 g,no,\r\n`;
     const view = await upload(asFarmA, text, "decimal.csv", { decimal: "." });
     expect(view.canCommit).toBe(true);
-    const { rows: staged } = await inspector.query<{ staged: boolean }>(
-      "select staged_parse is not null as staged from uploads where id = $1",
-      [view.upload.id],
-    );
-    expect(staged[0].staged).toBe(true);
-    // With a decimal comma, "1.500 g" is 1 500 g; the parse kept at upload (decimal point) read 1.5 g.
+    const kept = async () =>
+      (await inspector.query<{ kept: boolean }>("select commit_rows is not null as kept from uploads where id = $1", [view.upload.id]))
+        .rows[0].kept;
+    expect(await kept()).toBe(true);
+    // With a decimal comma, "1.500 g" is 1 500 g; the rows planned at upload (decimal point) said 1.5 g.
     await commitUpload(asFarmA, view.upload.id, { decimal: "," });
     expect(await storedHarvests(farmA, "IT-D")).toEqual([{ code: "-1", flush: 1, fresh: "1500" }]);
-    const { rows: kept } = await inspector.query<{ staged_parse: unknown }>("select staged_parse from uploads where id = $1", [
-      view.upload.id,
+    expect(await kept()).toBe(false);
+  });
+
+  it("writes the rows planned at upload while nothing changed, without reading the file again", async () => {
+    const view = await upload(asFarmA, sheet("IT-KP", [1, 2]), "kept-plan.csv");
+    expect(view.canCommit).toBe(true);
+    // Were the file read again, this would be committed: an unreadable cell in every row.
+    await inspector.query("update uploads set content = convert_to('block_id\nnot a season log', 'UTF8') where id = $1", [view.upload.id]);
+    const receipt = await commitUpload(asFarmA, view.upload.id, {});
+    expect(receipt.counts).toMatchObject({ newBlocks: 2, newHarvests: 4 });
+    expect(await storedHarvests(farmA, "IT-KP")).toEqual([
+      { code: "-1", flush: 1, fresh: "401" },
+      { code: "-1", flush: 2, fresh: "250" },
+      { code: "-2", flush: 1, fresh: "402" },
+      { code: "-2", flush: 2, fresh: "250" },
     ]);
-    expect(kept[0].staged_parse).toBeNull();
+  });
+
+  it("plans again when the farm's data changed after the upload: a phone harvest in between is replaced, with history, not doubled", async () => {
+    await commitUpload(asFarmA, (await upload(asFarmA, sheet("IT-KQ", [1], { flushes: 1 }), "kq-1.csv")).upload.id, {});
+    const view = await upload(asFarmA, sheet("IT-KQ", [1], { flushes: 2 }), "kq-2.csv");
+    expect(view.report.preview.counts).toMatchObject({ newHarvests: 1 });
+    // The grower weighs flush 2 on the phone before the file is committed: planned at upload, the
+    // file's flush 2 was a new row, and inserting it now would break the one-harvest-per-flush key.
+    await recordHarvest(
+      asFarmA,
+      { blockCode: "IT-KQ-1", flush: 2, harvestedOn: "2026-04-20", weight: "333", unit: "g", acceptWarnings: [] },
+      "2026-04-20",
+    );
+    const receipt = await commitUpload(asFarmA, view.upload.id, {});
+    expect(receipt.counts).toMatchObject({ newHarvests: 0, changedHarvests: 1 });
+    expect(await storedHarvests(farmA, "IT-KQ")).toEqual([
+      { code: "-1", flush: 1, fresh: "401" },
+      { code: "-1", flush: 2, fresh: "250" },
+    ]);
+    const { rows } = await inspector.query<{ old_value: string; new_value: string }>(
+      `select v.old_value, v.new_value from value_changes v join blocks b on b.id = v.block_id
+       where b.code = 'IT-KQ-1' and v.flush = 2 and v.upload_id = $1`,
+      [view.upload.id],
+    );
+    expect(rows).toContainEqual({ old_value: "333", new_value: "250" });
+  });
+
+  it("moves a farm's data version with each statement that writes its rows, and shows it to that farm alone", async () => {
+    const versionOf = async (member: Member) =>
+      withFarmContext(
+        farmContextOf(member),
+        async (tx) => (await tx.execute<{ version: string }>(sql`select version::text from farm_data_versions`)).rows,
+      );
+    const before = await versionOf(asFarmA);
+    expect(before).toHaveLength(1);
+    await recordHarvest(
+      asFarmA,
+      { blockCode: "IT-KQ-1", flush: 3, harvestedOn: "2026-05-01", weight: "120", unit: "g", acceptWarnings: [] },
+      "2026-05-01",
+    );
+    expect(Number((await versionOf(asFarmA))[0].version)).toBeGreaterThan(Number(before[0].version));
+    // Farm B sees its own number only, and cannot move farm A's.
+    expect((await versionOf(asFarmB)).length).toBeLessThanOrEqual(1);
+    const moved = await withFarmContext(farmContextOf(asFarmB), (tx) =>
+      tx.execute(sql`update farm_data_versions set version = version + 1 where farm_id = ${farmA.id}::uuid`),
+    );
+    expect(moved.rowCount).toBe(0);
   });
 
   it("refuses to commit a file with errors and saves nothing from it", async () => {

@@ -1,0 +1,166 @@
+import { randomFillSync, randomInt } from "node:crypto";
+import { gunzipSync, gzipSync } from "node:zlib";
+import { v7 as timeOrderedId } from "uuid";
+import type { RegisterEntryText } from "../import/registers";
+import { copyChunks } from "./copy-text";
+import type { BlockWrite, CommitPlan, HarvestWrite, PlanCounts, StoredHarvest } from "./plan";
+import type { ParseChoices } from "./report";
+
+/**
+ * A plan as the rows the commit writes: each table's rows in COPY's text format, new rows with
+ * their ids already given, so a harvest of a new block carries that block's id. Made at upload,
+ * it is kept with the upload (gzip) and, when neither the farm's data nor the registers changed
+ * since, written as it is: the commit then neither reads the file again nor plans again.
+ */
+export interface CommitRows {
+  /** is_new, id, code, strain … notes: the columns of the commit's staging table for blocks. */
+  blocks: string;
+  harvests: string;
+  changes: string;
+  blockCount: number;
+  changedBlocks: number;
+  harvestCount: number;
+  changedHarvests: number;
+  changeCount: number;
+  /** Ids of the stored harvests the grower chose to remove (empty unless they did). */
+  removedHarvestIds: string[];
+  counts: PlanCounts;
+  /** Stored harvests of the file's blocks that the file leaves out: a choice to remove them needs a plan of its own. */
+  notInFileHarvests: number;
+}
+
+/**
+ * Time-ordered ids (UUIDv7) for one commit's new rows: the millisecond they were made, then a
+ * counter from a random start, so they sort in the order made and land at the end of the indexes
+ * instead of on random pages. Random bits come from one buffer filled at a time: the package's
+ * default asks the system for 16 random bytes per id, 20 times slower.
+ */
+export function idsInOrder(): () => string {
+  const msecs = Date.now();
+  const random = new Uint8Array(16 * 1024);
+  let seq = randomInt(2 ** 30);
+  let used = random.length;
+  return () => {
+    if (used === random.length) {
+      randomFillSync(random);
+      used = 0;
+    }
+    used += 16;
+    return timeOrderedId({ msecs, seq: seq++, random: random.subarray(used - 16, used) });
+  };
+}
+
+const joined = (chunks: Iterable<string>) => Array.from(chunks).join("");
+
+/**
+ * The plan's rows. `storedBlockIds` maps the farm's stored block codes to their ids: a value
+ * change or a removed harvest of a block the plan leaves untouched still needs its block's id.
+ */
+export function commitRowsOf(
+  plan: CommitPlan & { removedHarvests?: readonly StoredHarvest[] },
+  storedBlockIds: ReadonlyMap<string, string>,
+  nextId: () => string = idsInOrder(),
+): CommitRows {
+  const blockIds = new Map(storedBlockIds);
+  const newBlocks = new Map<BlockWrite, string>();
+  for (const block of plan.blocks) {
+    const id = block.id ?? nextId();
+    if (block.id === null) newBlocks.set(block, id);
+    blockIds.set(block.code, id);
+  }
+  const newHarvests = new Map<HarvestWrite, string>();
+  for (const harvest of plan.harvests) if (harvest.id === null) newHarvests.set(harvest, nextId());
+  const blockIdOf = (code: string, known: string | null = null) => {
+    const id = known ?? blockIds.get(code);
+    if (id === undefined) throw new Error(`the plan has a row of block ${code} but not the block`);
+    return id;
+  };
+  const removedHarvests = plan.removedHarvests ?? [];
+  return {
+    blocks: joined(
+      copyChunks(plan.blocks, (b) => [
+        newBlocks.has(b),
+        b.id ?? newBlocks.get(b),
+        b.code,
+        b.strainId,
+        b.substrateRecipeId,
+        b.fruitingMethodId,
+        b.trialArmId,
+        b.inoculatedOn,
+        b.wetMassG,
+        b.wetMassAsWritten,
+        b.wetMassUnit,
+        b.moisture,
+        b.contaminated,
+        b.contaminatedOn,
+        b.spentMassG,
+        b.spentMassAsWritten,
+        b.spentMassUnit,
+        b.notes,
+      ]),
+    ),
+    harvests: joined(
+      copyChunks(plan.harvests, (h) => [
+        newHarvests.has(h),
+        h.id ?? newHarvests.get(h),
+        blockIdOf(h.blockCode, h.blockId),
+        h.flush,
+        h.harvestedOn,
+        h.freshMassG,
+        h.freshMassAsWritten,
+        h.freshMassUnit,
+        h.dryMassG,
+        h.dryMassAsWritten,
+        h.dryMassUnit,
+      ]),
+    ),
+    changes: joined(
+      copyChunks(plan.changes, (change) => [blockIdOf(change.blockCode), change.flush, change.field, change.oldValue, change.newValue]),
+    ),
+    blockCount: plan.blocks.length,
+    changedBlocks: plan.blocks.length - newBlocks.size,
+    harvestCount: plan.harvests.length,
+    changedHarvests: plan.harvests.length - newHarvests.size,
+    changeCount: plan.changes.length,
+    removedHarvestIds: removedHarvests.map((harvest) => harvest.id),
+    counts: plan.counts,
+    notInFileHarvests: plan.notInFile.harvests.length,
+  };
+}
+
+/** What a file's reading depended on besides its bytes: the grower's choices, the strain register and the day. */
+export function stagingKey(choices: ParseChoices, knownStrains: readonly (string | RegisterEntryText)[], today: string): string {
+  const sorted = (entries: [string, string][]) => entries.sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
+  return JSON.stringify([
+    choices.mapping ? sorted(Object.entries(choices.mapping)) : null,
+    choices.dateOrder ?? null,
+    choices.defaultMassUnit ?? null,
+    choices.decimal ?? null,
+    choices.decimalByColumn ? sorted(Object.entries(choices.decimalByColumn)) : null,
+    choices.sheet ?? null,
+    knownStrains.map((strain) => (typeof strain === "string" ? strain : JSON.stringify([strain.code, strain.names ?? []]))).sort(),
+    today,
+  ]);
+}
+
+/** What an upload keeps: the rows, and what they were planned against (see `commitRowsFor`). */
+interface Kept {
+  key: string;
+  marker: string;
+  rows: CommitRows;
+}
+
+export function keepCommitRows(key: string, marker: string, rows: CommitRows): Buffer {
+  return gzipSync(JSON.stringify({ key, marker, rows } satisfies Kept), { level: 1 });
+}
+
+/**
+ * The kept rows if they were planned under the same choices, registers and day (`key`, the
+ * parse's staging key) against the same stored data (`marker`, lib/data's farm data marker);
+ * otherwise null, and the commit reads the file and plans again.
+ */
+export function keptCommitRows(kept: Buffer | null, key: string, marker: string): CommitRows | null {
+  if (!kept) return null;
+  const { key: keptKey, marker: keptMarker, rows } = JSON.parse(gunzipSync(kept).toString("utf8")) as Kept;
+  return keptKey === key && keptMarker === marker ? rows : null;
+}
