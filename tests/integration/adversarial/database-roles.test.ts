@@ -88,6 +88,8 @@ describe("the pooled-analysis role", () => {
           [farm.id],
         )
       ).rows[0].sum;
+    // Settled first: a file run before this one may have changed the farm's rows and left its refresh queued.
+    await refreshPooledStatistics(farm.id);
     const before = await statistics();
     // A stale row planted by someone with the owner's rights is replaced by what the rows say.
     await inspector.query("update farm_strain_statistics set efficiency_sum = efficiency_sum + 1000 where farm_id = $1", [farm.id]);
