@@ -34,7 +34,8 @@ export function collectPageErrors(page: Page): string[] {
   const errors: string[] = [];
   page.on("pageerror", (error) => errors.push(error.message));
   page.on("console", (message) => {
-    if (message.type() === "error") errors.push(message.text());
+    // A failed resource's message does not name it; its location does.
+    if (message.type() === "error") errors.push(`${message.text()} (${message.location().url || "no address"})`);
   });
   return errors;
 }
