@@ -13,6 +13,8 @@ export default defineConfig({
           name: "unit",
           include: ["lib/**/*.test.ts", "tests/unit/**/*.test.ts"],
           environment: "node",
+          // Property tests run many cases; on a busy 2-core machine one took 6 s against the 5 s default.
+          testTimeout: 30_000,
         },
       },
       {
