@@ -2,12 +2,15 @@ import "server-only";
 import { desc, eq, isNull } from "drizzle-orm";
 import { type Transaction } from "@/db/client";
 import { auditEvents } from "@/db/schema";
+import type { AuditAction } from "@/lib/audit/actions";
+import { foldRepeats } from "@/lib/audit/fold";
+import { describeAuditEvent, whoOf, type AuditDescription } from "@/lib/audit/sentences";
 import { AppError } from "@/lib/errors";
 import type { Member } from "./members";
 import { asMember } from "./context";
 
 export interface AuditEntry {
-  action: string;
+  action: AuditAction;
   subject?: string;
   farmId?: string | null;
   actorUserId?: string | null;
@@ -34,14 +37,17 @@ export async function recordAudit(tx: Transaction, entry: AuditEntry): Promise<v
   });
 }
 
-export interface AuditRow {
+/** One line of an activity log, in words (lib/audit/sentences.ts); `action` and `subject` are for tests and filters, not shown. */
+export interface AuditRow extends AuditDescription {
   id: number;
   occurredAt: string;
-  actorLabel: string;
+  /** The earliest of the events folded into this row; the same as occurredAt when it is one event. */
+  firstOccurredAt: string;
+  /** How many identical events in a row (same person, same change) this row stands for. */
+  times: number;
+  who: string;
   action: string;
   subject: string;
-  details: string;
-  ip: string;
 }
 
 /** How many of the latest events a log page shows; the CSV export takes the same rows. */
@@ -63,14 +69,20 @@ export async function listAuditEvents(member: Member, scope: "coop" | "farm"): P
       .where(scope === "coop" ? isNull(auditEvents.farmId) : eq(auditEvents.farmId, member.farmId!))
       .orderBy(desc(auditEvents.occurredAt), desc(auditEvents.id))
       .limit(auditListLimit);
-    return rows.map((row) => ({
-      id: row.id,
-      occurredAt: row.occurredAt.toISOString(),
-      actorLabel: row.actorLabel,
-      action: row.action,
-      subject: row.subject,
-      details: Object.keys(row.details).length ? JSON.stringify(row.details) : "",
-      ip: row.ip ?? "",
-    }));
+    return foldRepeats(rows).map(({ first, latest, times }) => {
+      const described = describeAuditEvent(latest);
+      const details = latest.ip ? [...described.details, { label: "Network address", value: latest.ip }] : described.details;
+      return {
+        ...described,
+        details,
+        id: latest.id,
+        occurredAt: latest.occurredAt.toISOString(),
+        firstOccurredAt: first.occurredAt.toISOString(),
+        times,
+        who: whoOf(latest.actorLabel),
+        action: latest.action,
+        subject: latest.subject,
+      };
+    });
   });
 }

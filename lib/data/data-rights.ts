@@ -189,7 +189,7 @@ export async function withdrawFarmData(member: Member, typedConfirmation: string
     const entry = {
       actorUserId: member.id,
       actorLabel: member.name,
-      action: "farm.withdrew-data",
+      action: "farm.withdrew-data" as const,
       subject: farm.name,
       details: { farmId, ...result },
     };

@@ -3,6 +3,7 @@ import { and, asc, desc, eq, gt, isNull, sql } from "drizzle-orm";
 import { keptUntilChanged } from "@/db/change-feed";
 import type { FarmContext, Transaction } from "@/db/client";
 import { accessTokens, cooperativeSettings, farms, users } from "@/db/schema";
+import type { AuditAction } from "@/lib/audit/actions";
 import { hashPassword, unknownUserHash, verifyPassword } from "@/lib/auth/password";
 import type { MemberRole } from "@/lib/auth/permissions";
 import { AppError } from "@/lib/errors";
@@ -170,13 +171,15 @@ export async function admitFarm(member: Member, input: { name: string; region: s
   });
 }
 
+const farmMoves = { active: "farm.reinstated", suspended: "farm.suspended", removed: "farm.removed" } as const;
+
 export async function setFarmStatus(member: Member, farmId: string, status: FarmSummary["status"]): Promise<void> {
   await asMember(member, async (tx) => {
     const [farm] = await tx.update(farms).set({ status }).where(eq(farms.id, farmId)).returning({ name: farms.name });
     if (!farm) throw new AppError("not_found", "That farm is not a member. Reload the page.");
     await recordAudit(tx, {
       ...actor(member),
-      action: `farm.${status === "active" ? "reinstated" : status}`,
+      action: farmMoves[status],
       subject: farm.name,
       details: { farmId },
     });
@@ -483,7 +486,7 @@ export async function redeemAccessToken(
     if (!row || (row.outcome !== "accepted" && row.outcome !== "reset")) return { status: row?.outcome ?? "unknown" } as RedeemOutcome;
     // Recorded as the new member, on their farm's log when they have a farm and on the co-op's.
     await continueAsRedeemer(tx, { userId: row.user_id!, farmId: row.farm_id });
-    const action = row.outcome === "accepted" ? "member.joined" : "password.reset";
+    const action: AuditAction = row.outcome === "accepted" ? "member.joined" : "password.reset";
     const entry = {
       action,
       subject: row.email ?? "",

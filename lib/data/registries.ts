@@ -166,6 +166,13 @@ export async function createRegistryEntry(member: Member, row: RegistryRow): Pro
   return status;
 }
 
+const registryMoves = {
+  approve: "registry.approved",
+  retire: "registry.retired",
+  reinstate: "registry.reinstated",
+  delete: "registry.deleted",
+} as const;
+
 /**
  * The coordinator approves a proposal, retires or reinstates an entry, or deletes one. A strain
  * that any block or trial uses can be retired but never deleted; the foreign keys hold that too.
@@ -206,7 +213,7 @@ export async function moveRegistryEntry(
     await recordAudit(tx, {
       actorUserId: member.id,
       actorLabel: member.name,
-      action: `registry.${move === "approve" ? "approved" : move === "delete" ? "deleted" : `${move}d`}`,
+      action: registryMoves[move],
       subject: label,
       details: { registry: kind, id },
     });

@@ -14,6 +14,7 @@ import {
   trialBlockAssignments,
   trials,
   uploads,
+  users,
 } from "@/db/schema";
 import {
   createSeasonLogParser,
@@ -33,6 +34,8 @@ import { type ParseChoices, type UploadReport, buildReport, parserOptions } from
 import { seasonLogExportCsv } from "@/lib/season-logs/export";
 import { commitRowsOf, keepCommitRows, keptCommitRows, stagingKey, type CommitRows } from "@/lib/season-logs/commit-rows";
 import { todayUtc } from "@/lib/import/dates";
+import { uploadHistoryDetails, uploadOutcomeWords, type UploadCheck } from "@/lib/season-logs/upload-history";
+import type { AuditDetail } from "@/lib/audit/sentences";
 import type { Member } from "./members";
 import { asMember, farmOf } from "./context";
 
@@ -650,12 +653,58 @@ async function planAgain(
   return { rows: commitRowsOf(plan, storedBlockIds(planInput)), report };
 }
 
-export async function listUploads(member: Member): Promise<UploadSummary[]> {
+/** A row of the farm's past uploads: one per upload, its checks folded into its details. */
+export interface UploadHistoryRow extends UploadSummary {
+  /** Who sent the file (empty when that person's account is gone). */
+  sentBy: string;
+  outcomeWords: string;
+  details: AuditDetail[];
+}
+
+/** How many of a report's problems a past upload's row lists; the review page has them all. */
+const issuesInHistory = 3;
+
+export async function listUploads(member: Member): Promise<UploadHistoryRow[]> {
   const farm = farmOf(member, "work with its season logs");
+  const sender = alias(users, "sender");
+  const undoer = alias(users, "undoer");
   const rows = await asMember(member, (tx) =>
-    tx.select(summaryColumns).from(uploads).where(eq(uploads.farmId, farm.farmId)).orderBy(desc(uploads.uploadedAt)).limit(200),
+    tx
+      .select({
+        ...summaryColumns,
+        sentBy: sender.name,
+        undoneBy: undoer.name,
+        // Only what the row shows: a report can hold hundreds of problems and the whole preview.
+        errorCount: sql<number | null>`(${uploads.report}->>'errorCount')::int`,
+        warningCount: sql<number | null>`(${uploads.report}->>'warningCount')::int`,
+        counts: sql<UploadCheck["counts"]>`${uploads.report}->'preview'->'counts'`,
+        firstIssues: sql<
+          UploadCheck["firstIssues"] | null
+        >`jsonb_path_query_array(${uploads.report}->'issues', ${`$[0 to ${issuesInHistory - 1}]`}::jsonpath)`,
+      })
+      .from(uploads)
+      .leftJoin(sender, eq(sender.id, uploads.uploadedBy))
+      .leftJoin(undoer, eq(undoer.id, uploads.undoneBy))
+      .where(eq(uploads.farmId, farm.farmId))
+      .orderBy(desc(uploads.uploadedAt))
+      .limit(200),
   );
-  return rows.map(summary);
+  return rows.map(({ sentBy, undoneBy, errorCount, warningCount, counts, firstIssues, ...row }) => {
+    const upload = summary(row);
+    const check: UploadCheck = {
+      rowCount: upload.rowCount,
+      errorCount: errorCount ?? 0,
+      warningCount: warningCount ?? 0,
+      counts: counts ?? null,
+      firstIssues: (firstIssues ?? []).map(({ line, severity, message }) => ({ line, severity, message })),
+    };
+    return {
+      ...upload,
+      sentBy: sentBy ?? "",
+      outcomeWords: uploadOutcomeWords(upload),
+      details: uploadHistoryDetails({ ...upload, undoneBy: undoneBy ?? "", check }),
+    };
+  });
 }
 
 export async function getUploadView(member: Member, uploadId: string): Promise<UploadView> {

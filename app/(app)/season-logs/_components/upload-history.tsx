@@ -3,23 +3,34 @@
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
 import { DataTable } from "@/components/ui/data-table";
-import type { UploadSummary } from "@/lib/data/season-logs";
+import type { UploadHistoryRow } from "@/lib/data/season-logs";
 
-const outcomeWords: Record<UploadSummary["outcome"], string> = {
-  received: "Checked, not committed",
-  rejected: "Has errors, not committed",
-  committed: "Committed",
-  already_imported: "Same file as an earlier one",
-};
-
-const columns: ColumnDef<UploadSummary, unknown>[] = [
+const columns: ColumnDef<UploadHistoryRow, unknown>[] = [
   { accessorFn: (upload) => upload.uploadedAt.slice(0, 16).replace("T", " "), id: "uploadedAt", header: "Sent (UTC)" },
   { accessorKey: "fileName", header: "File" },
+  { accessorKey: "sentBy", header: "Sent by" },
   { accessorKey: "rowCount", header: "Rows" },
+  { accessorKey: "outcomeWords", header: "Outcome" },
   {
-    accessorFn: (upload) => (upload.undoneAt ? `Committed, undone ${upload.undoneAt.slice(0, 10)}` : outcomeWords[upload.outcome]),
-    id: "outcome",
-    header: "Outcome",
+    accessorFn: (upload) => upload.details.map((detail) => `${detail.label}: ${detail.value}`).join("; "),
+    id: "checks",
+    header: "Checks",
+    enableSorting: false,
+    cell: ({ row }) => (
+      <details>
+        <summary className="min-h-11 cursor-pointer content-center font-semibold text-moss-700">
+          What the check found<span className="sr-only"> in {row.original.fileName}</span>
+        </summary>
+        <dl className="mt-1 max-w-md space-y-1">
+          {row.original.details.map((detail, index) => (
+            <div key={index}>
+              <dt className="font-semibold">{detail.label}</dt>
+              <dd className="break-words">{detail.value}</dd>
+            </div>
+          ))}
+        </dl>
+      </details>
+    ),
   },
   {
     id: "download",
@@ -50,7 +61,8 @@ const columns: ColumnDef<UploadSummary, unknown>[] = [
   },
 ];
 
-export function UploadHistory({ uploads }: { uploads: UploadSummary[] }) {
+/** One row per upload, however often it was checked again: the checks are folded into its row. */
+export function UploadHistory({ uploads }: { uploads: UploadHistoryRow[] }) {
   return (
     <DataTable
       caption="Past uploads"
