@@ -61,8 +61,15 @@ describe("a grower uploads a season log", () => {
     expect(receipt).toContain("2 new blocks");
     expect(receipt).toContain("3 new harvests");
     // The list of past uploads follows the commit without a reload.
-    await page.getByRole("row", { name: /fernbrook-season-corrected\.csv.*Committed/ }).waitFor();
+    const row = page.getByRole("row", { name: /fernbrook-season-corrected\.csv.*Committed/ });
+    await row.waitFor();
     await screenshot(page, "season-logs-5-receipt");
+    // One row for the upload, what its check found folded into it.
+    await row.getByText("What the check found").click();
+    await row.getByText("2 new blocks and 3 new harvests").waitFor();
+    expect(await row.getByText(/^3 rows, 0 errors and \d+ warnings?$/).count()).toBe(1);
+    await row.scrollIntoViewIfNeeded();
+    await screenshot(page, "season-logs-5b-past-upload-checks");
 
     const blocks = new BlocksPage(page);
     await blocks.open();

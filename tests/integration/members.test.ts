@@ -114,6 +114,11 @@ describe("admitting a farm and inviting its people by e-mail", () => {
     );
     const farmLog = await listAuditEvents(manager, "farm");
     expect(farmLog.map((event) => event.action)).toEqual(expect.arrayContaining(["member.invited", "member.joined"]));
+    // Once each in the farm's log, though a joining is recorded on the co-op's log as well.
+    expect(farmLog.filter((event) => event.subject === growerEmail).map((event) => [event.who, event.sentence])).toEqual([
+      ["Eli Marsh", "Eli Marsh accepted the invitation and joined as a grower."],
+      ["Noor Castell", `Noor Castell invited ${growerEmail} to join as a grower.`],
+    ]);
   });
 
   it("refuses a manager inviting to another farm or into a role above a grower", async () => {

@@ -4,6 +4,7 @@ import type { Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { sql } from "drizzle-orm";
 import { closeDatabase, withFarmContext } from "@/db/client";
+import { listAuditEvents } from "@/lib/data/audit";
 import { farmContextOf } from "@/lib/data/context";
 import type { Member } from "@/lib/data/members";
 import { getBlock, listBlocks, listHarvestTargets, recordHarvest } from "@/lib/data/blocks";
@@ -347,6 +348,24 @@ describe("a spreadsheet file", () => {
     expect(checked.report.detected.workbook).toEqual({ kind: "xlsx", sheet: "Harvests", sheets: ["Harvests", "Rooms"] });
     const receipt = await commitUpload(asFarmA, view.upload.id, { sheet: "Harvests" });
     expect(receipt.counts).toMatchObject({ newBlocks: 2, newHarvests: 3 });
+    // Checked twice, committed once: one row in the past uploads, the last check folded into it.
+    const listed = (await listUploads(asFarmA)).filter((item) => item.id === view.upload.id);
+    expect(listed).toHaveLength(1);
+    expect(listed[0]).toMatchObject({ sentBy: asFarmA.name, outcomeWords: "Committed" });
+    expect(listed[0].details).toEqual(
+      expect.arrayContaining([
+        { label: "Last check", value: "3 rows, 0 errors and 0 warnings" },
+        { label: "The commit changed", value: "2 new blocks and 3 new harvests" },
+      ]),
+    );
+    // The farm's activity log says it in words, with a link to the file.
+    const logged = (await listAuditEvents(asFarmA, "farm")).filter(
+      (event) => event.link?.href === `/api/season-logs/${view.upload.id}/file`,
+    );
+    expect(logged.map((event) => event.sentence)).toEqual([
+      `${asFarmA.name} committed the season log 'fernbrook.xlsx': 2 new blocks and 3 new harvests.`,
+      `${asFarmA.name} uploaded the season log 'fernbrook.xlsx': 3 rows, 1 error and 0 warnings.`,
+    ]);
     // 0,612 kg as a number cell is 612 g; the dates came as dates, the moisture as 62 %.
     expect(await storedHarvests(farmA, "XL-")).toEqual([
       { code: "01", flush: 1, fresh: "612" },
