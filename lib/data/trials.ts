@@ -347,6 +347,7 @@ export async function listTrialHistory(member: Member, trialId: string) {
       .select({
         occurredAt: auditEvents.occurredAt,
         action: auditEvents.action,
+        subject: auditEvents.subject,
         actorLabel: auditEvents.actorLabel,
         details: auditEvents.details,
       })

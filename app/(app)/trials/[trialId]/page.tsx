@@ -7,6 +7,7 @@ import { Caution } from "@/components/ui/caution";
 import { Notice } from "@/components/ui/notice";
 import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
+import { describeAuditEvent } from "@/lib/audit/sentences";
 import { can } from "@/lib/auth/permissions";
 import {
   dueItems,
@@ -161,16 +162,17 @@ async function CoordinatorControls({ trial, member, review }: { trial: TrialView
           <ol className="space-y-2 text-sm" data-testid="trial-history">
             {history.map((event, index) => {
               const details = event.details as { from?: TrialStatus; to?: TrialStatus };
+              // A move reads as its two states; anything else as the activity log's sentence, not its internal name.
               const what =
                 event.action === "trial.status_changed" && details.to
-                  ? `${trialStatusLabels[details.from!]} → ${trialStatusLabels[details.to]}`
-                  : event.action.replace("trial.", "").replaceAll("_", " ");
+                  ? `${trialStatusLabels[details.from!]} → ${trialStatusLabels[details.to]} · ${event.actorLabel}`
+                  : describeAuditEvent(event).sentence;
               return (
                 <li key={index}>
                   <time dateTime={event.occurredAt.toISOString()} className="text-ink-soft">
                     {event.occurredAt.toISOString().slice(0, 16).replace("T", " ")} UTC
                   </time>{" "}
-                  · {what} · {event.actorLabel}
+                  · {what}
                 </li>
               );
             })}
