@@ -118,6 +118,19 @@ describe("admitting a farm and bringing in its people", () => {
     const { rows } = await inspector.query<{ display_units: string }>("select display_units from users where email = $1", [managerEmail]);
     expect(rows[0].display_units).toBe("imperial");
     await screenshot(farmPage, "members-settings-phone");
+
+    // The farm's own log: the manager's invitation and settings, in words, the particulars folded.
+    await farmPage.goto(`${appUrl}/farm-activity`);
+    const farmLog = farmPage.getByRole("table", { name: `${farmName} activity log` });
+    await farmLog.getByText(`Sofia Lindqvist invited ${growerEmail} to join as a grower.`).waitFor();
+    const changed = farmLog.getByRole("row").filter({ hasText: "Sofia Lindqvist changed their settings." });
+    await changed
+      .first()
+      .getByText(/details?$/)
+      .click();
+    await changed.first().getByText("Pounds and ounces").waitFor();
+    expect(await farmLog.textContent()).not.toMatch(/preferences\.changed|member\.invited|displayUnits/);
+    await screenshot(farmPage, "members-farm-activity-phone");
     expect(farmErrors).toEqual([]);
   });
 });
