@@ -229,6 +229,15 @@ describe("people, farms and settings", () => {
     });
     expect(
       describeAuditEvent({
+        action: "member.invited",
+        subject: "eli@example.test",
+        actorLabel: "Noor",
+        details: { role: "grower" },
+        onFarmLog: true,
+      }).link,
+    ).toEqual({ href: "/farm-people", label: "Farm people" });
+    expect(
+      describeAuditEvent({
         action: "member.role-changed",
         subject: "noor@example.test",
         actorLabel: "Ana",

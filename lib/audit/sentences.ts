@@ -13,6 +13,8 @@ export interface AuditEventInput {
   subject: string;
   actorLabel: string;
   details: Record<string, unknown>;
+  /** True on a farm's own log, whose people are managed on the farm's page rather than the co-op's. */
+  onFarmLog?: boolean;
 }
 
 export interface AuditDetail {
@@ -143,7 +145,10 @@ const incompleteTitles: Record<string, string> = {
 const listOf = (details: Record<string, unknown>): string => registryWords[text(details.registry)] ?? "registers";
 const registryMove = (sentence: string): AuditDescription => ({ sentence, details: [], link: { href: "/strains", label: "Strains" } });
 
-type Describe = (who: string, subject: string, details: Record<string, unknown>) => AuditDescription;
+type Describe = (who: string, subject: string, details: Record<string, unknown>, onFarmLog: boolean) => AuditDescription;
+
+const peopleLink = (onFarmLog: boolean) =>
+  onFarmLog ? { href: "/farm-people", label: "Farm people" } : { href: "/members", label: "Members" };
 
 /** What each action means; the type makes a missing one a compile error, and the unit test a failing test. */
 export const auditSentences: Record<AuditAction, Describe> = {
@@ -174,37 +179,43 @@ export const auditSentences: Record<AuditAction, Describe> = {
     ],
   }),
 
-  "member.invited": (who, subject, details) => ({
+  "member.invited": (who, subject, details, onFarmLog) => ({
     sentence: `${who} invited ${subject} to join as ${aRole(details.role)}.`,
     details: [{ label: "The link expires on", value: day(details.expiresAt) }],
-    link: { href: "/members", label: "Members" },
+    link: peopleLink(onFarmLog),
   }),
-  "member.invitation-resent": (who, subject, details) => ({
+  "member.invitation-resent": (who, subject, details, onFarmLog) => ({
     sentence: `${who} sent ${subject} a new invitation link.`,
     details: [
       { label: "Role", value: roleWords(details.role) },
       { label: "The link expires on", value: day(details.expiresAt) },
     ],
+    link: peopleLink(onFarmLog),
   }),
-  "member.invitation-cancelled": (who, subject, details) => ({
+  "member.invitation-cancelled": (who, subject, details, onFarmLog) => ({
     sentence: `${who} cancelled the invitation to ${subject}.`,
     details: [{ label: "Role", value: roleWords(details.role) }],
+    link: peopleLink(onFarmLog),
   }),
-  "member.joined": (who, subject, details) => ({
+  "member.joined": (who, subject, details, onFarmLog) => ({
     sentence: `${who} accepted the invitation and joined as ${aRole(details.role)}.`,
     details: [{ label: "Address", value: subject }],
+    link: peopleLink(onFarmLog),
   }),
-  "member.role-changed": (who, subject, details) => ({
+  "member.role-changed": (who, subject, details, onFarmLog) => ({
     sentence: `${who} changed ${subject}'s role from ${roleWords(details.oldRole)} to ${roleWords(details.newRole)}.`,
     details: [],
+    link: peopleLink(onFarmLog),
   }),
-  "member.deactivated": (who, subject, details) => ({
+  "member.deactivated": (who, subject, details, onFarmLog) => ({
     sentence: `${who} deactivated ${subject}, who can no longer sign in.`,
     details: [{ label: "Role", value: roleWords(details.role) }],
+    link: peopleLink(onFarmLog),
   }),
-  "member.manager-transferred": (who, subject) => ({
+  "member.manager-transferred": (who, subject, _details, onFarmLog) => ({
     sentence: `${who} handed the farm manager role to ${subject} and became a grower.`,
     details: [],
+    link: peopleLink(onFarmLog),
   }),
 
   "farm.admitted": (who, subject, details) => ({
@@ -443,6 +454,6 @@ const isKnown = (action: string): action is AuditAction => Object.hasOwn(auditSe
 export function describeAuditEvent(entry: AuditEventInput): AuditDescription {
   const who = whoOf(entry.actorLabel);
   if (!isKnown(entry.action)) return { sentence: `${who} made a change: ${entry.subject || "no subject recorded"}.`, details: [] };
-  const described = auditSentences[entry.action](who, entry.subject, entry.details ?? {});
+  const described = auditSentences[entry.action](who, entry.subject, entry.details ?? {}, entry.onFarmLog ?? false);
   return described.link ? described : { sentence: described.sentence, details: described.details };
 }

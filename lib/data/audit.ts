@@ -70,7 +70,7 @@ export async function listAuditEvents(member: Member, scope: "coop" | "farm"): P
       .orderBy(desc(auditEvents.occurredAt), desc(auditEvents.id))
       .limit(auditListLimit);
     return foldRepeats(rows).map(({ first, latest, times }) => {
-      const described = describeAuditEvent(latest);
+      const described = describeAuditEvent({ ...latest, onFarmLog: scope === "farm" });
       const details = latest.ip ? [...described.details, { label: "Network address", value: latest.ip }] : described.details;
       return {
         ...described,

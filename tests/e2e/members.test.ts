@@ -130,6 +130,9 @@ describe("admitting a farm and bringing in its people", () => {
       .click();
     await changed.first().getByText("Pounds and ounces").waitFor();
     expect(await farmLog.textContent()).not.toMatch(/preferences\.changed|member\.invited|displayUnits/);
+    // A farm's people are managed on its own page, so the farm's log links there, not to the co-op's members.
+    expect(await farmLog.getByRole("link", { name: "Farm people" }).count()).toBeGreaterThan(0);
+    expect(await farmLog.getByRole("link", { name: "Members" }).count()).toBe(0);
     await screenshot(farmPage, "members-farm-activity-phone");
     expect(farmErrors).toEqual([]);
   });
