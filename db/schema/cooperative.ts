@@ -18,6 +18,9 @@ export const cooperativeSettings = pgTable(
     releaseHour: integer("release_hour").notNull().default(2),
     /** Days the file of a rejected season-log upload is kept before it is removed (the record and report stay). */
     rejectedUploadRetentionDays: integer("rejected_upload_retention_days").notNull().default(30),
+    /** The day the co-op's season starts (lib/seasons.ts); a block inoculated before it belongs to the season before. */
+    seasonStartMonth: integer("season_start_month").notNull().default(1),
+    seasonStartDay: integer("season_start_day").notNull().default(1),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [
@@ -27,6 +30,11 @@ export const cooperativeSettings = pgTable(
     check("release_schedule_known", sql`${t.releaseSchedule} in ('daily', 'weekly', 'manual')`),
     check("release_hour_of_day", sql`${t.releaseHour} between 0 and 23`),
     check("rejected_upload_retention_range", sql`${t.rejectedUploadRetentionDays} between 1 and 3650`),
+    // A day every year has: 29 February is refused, or the season would have no first day in most years.
+    check(
+      "season_start_every_year",
+      sql`${t.seasonStartMonth} between 1 and 12 and ${t.seasonStartDay} >= 1 and ${t.seasonStartDay} <= (case ${t.seasonStartMonth} when 2 then 28 when 4 then 30 when 6 then 30 when 9 then 30 when 11 then 30 else 31 end)`,
+    ),
   ],
 );
 
