@@ -1,5 +1,14 @@
 import { describe, expect, it } from "vitest";
-import { blockSeason, calendarYear, readSeason, seasonFromSearchParam, seasonLabel, seasonOfDate, seasonStartProblem } from "./seasons";
+import {
+  blockSeason,
+  calendarYear,
+  readSeason,
+  seasonFromSearchParam,
+  seasonLabel,
+  seasonOfDate,
+  seasonStartProblem,
+  seasonStartSchema,
+} from "./seasons";
 
 // Calendar facts (common practice, the Gregorian calendar): February has 28 days, 29 in leap years
 // (2028 is one, 2027 is not); April, June, September and November have 30.
@@ -87,5 +96,21 @@ describe("a season as written", () => {
     expect(seasonFromSearchParam(["2025", "2026"])).toBe(2025);
     expect(seasonFromSearchParam("all")).toBeNull();
     expect(seasonFromSearchParam(undefined)).toBeNull();
+  });
+});
+
+describe("the season start on the Co-op settings form", () => {
+  it("takes a month and a day, and refuses 29 February and days a month lacks beside the day", () => {
+    expect(seasonStartSchema.parse({ seasonStartMonth: "3", seasonStartDay: "1" })).toEqual({ seasonStartMonth: 3, seasonStartDay: 1 });
+    for (const [month, day] of [
+      ["2", "29"],
+      ["11", "31"],
+      ["3", "0"],
+    ]) {
+      const parsed = seasonStartSchema.safeParse({ seasonStartMonth: month, seasonStartDay: day });
+      expect(parsed.success, `${day}/${month}`).toBe(false);
+      expect(parsed.error?.issues[0].path).toEqual(["seasonStartDay"]);
+    }
+    expect(seasonStartSchema.safeParse({ seasonStartMonth: "13", seasonStartDay: "1" }).success).toBe(false);
   });
 });

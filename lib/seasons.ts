@@ -1,3 +1,5 @@
+import { z } from "zod";
+
 /**
  * Seasons: a co-op's growing year starts on a day of its choosing (co-op settings), and a block
  * belongs to the season in which it was inoculated, or to the season its season log names.
@@ -128,3 +130,20 @@ export function seasonFromSearchParam(value: string | string[] | undefined): num
   const reading = readSeason(text);
   return reading?.ok ? reading.seasonYear : null;
 }
+
+/** The Co-op settings form for the season start: a month and a day every year has. */
+export const seasonStartSchema = z
+  .object({
+    seasonStartMonth: z.coerce
+      .number("Choose the month the season starts in.")
+      .int("Choose the month the season starts in.")
+      .min(1, "Choose the month the season starts in.")
+      .max(12, "Choose the month the season starts in."),
+    seasonStartDay: z.coerce.number("Enter the day of the month as a number, such as 1.").int("Enter a whole day of the month, such as 1."),
+  })
+  .superRefine((input, context) => {
+    const problem = seasonStartProblem({ month: input.seasonStartMonth, day: input.seasonStartDay });
+    if (problem) context.addIssue({ code: "custom", path: ["seasonStartDay"], message: problem });
+  });
+
+export const monthOptions = monthNames.map((name, index) => ({ value: String(index + 1), label: name }));

@@ -14,6 +14,7 @@ import {
 } from "@/lib/season-logs/quick-harvest";
 import type { Member } from "./members";
 import { asMember, farmOf } from "./context";
+import { blockSeasonYear } from "./seasons";
 
 export interface BlockRow {
   id: string;
@@ -21,6 +22,8 @@ export interface BlockRow {
   strainCode: string;
   recipeCode: string | null;
   inoculatedOn: string | null;
+  /** The season (its starting year): the one its season log named, else its inoculation date's; null with neither. */
+  season: number | null;
   wetMassG: number | null;
   moisture: number | null;
   flushes: number;
@@ -76,6 +79,7 @@ const blockColumns = {
   strainCode: strains.code,
   recipeCode: substrateRecipes.code,
   inoculatedOn: blocks.inoculatedOn,
+  season: blockSeasonYear,
   wetMassG: blocks.wetMassG,
   moisture: blocks.moisture,
   contaminated: blocks.contaminated,
@@ -93,6 +97,7 @@ type BlockSelection = {
   strainCode: string;
   recipeCode: string | null;
   inoculatedOn: string | null;
+  season: number | null;
   wetMassG: number | null;
   moisture: number | null;
   contaminated: boolean;
@@ -108,6 +113,7 @@ function withFigures(row: BlockSelection): BlockRow & { spentMassG: number | nul
   const totalFreshG = Number(row.totalFreshG);
   return {
     ...row,
+    season: row.season === null ? null : Number(row.season),
     flushes: Number(row.flushes),
     totalFreshG,
     ...blockFigures({
@@ -120,8 +126,8 @@ function withFigures(row: BlockSelection): BlockRow & { spentMassG: number | nul
   };
 }
 
-/** The farm's blocks with flush count, total fresh weight, biological efficiency and mass loss. */
-export async function listBlocks(member: Member): Promise<BlockRow[]> {
+/** The farm's blocks with flush count, total fresh weight, biological efficiency and mass loss; of one season when asked. */
+export async function listBlocks(member: Member, filter: { season?: number | null } = {}): Promise<BlockRow[]> {
   const farm = farmOf(member, "see its blocks");
   const rows = await asMember(member, (tx) =>
     tx
@@ -131,7 +137,7 @@ export async function listBlocks(member: Member): Promise<BlockRow[]> {
       .leftJoin(substrateRecipes, eq(substrateRecipes.id, blocks.substrateRecipeId))
       .leftJoin(trialArms, eq(trialArms.id, blocks.trialArmId))
       .leftJoin(trials, eq(trials.id, trialArms.trialId))
-      .where(eq(blocks.farmId, farm.farmId))
+      .where(and(eq(blocks.farmId, farm.farmId), filter.season == null ? undefined : eq(blockSeasonYear, filter.season)))
       .orderBy(asc(blocks.code)),
   );
   return rows.map((row) => {
@@ -142,6 +148,7 @@ export async function listBlocks(member: Member): Promise<BlockRow[]> {
       strainCode: full.strainCode,
       recipeCode: full.recipeCode,
       inoculatedOn: full.inoculatedOn,
+      season: full.season,
       wetMassG: full.wetMassG,
       moisture: full.moisture,
       flushes: full.flushes,

@@ -4,6 +4,7 @@ import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
 import { DataTable } from "@/components/ui/data-table";
 import type { BlockRow } from "@/lib/data/blocks";
+import { seasonLabel, type SeasonStart } from "@/lib/seasons";
 import { formatMass, type MassDisplay } from "@/lib/units";
 
 const noHarvestYet = "no harvest yet";
@@ -12,7 +13,7 @@ function percent(value: number | null): string {
   return value === null ? "" : `${value.toFixed(1)} %`;
 }
 
-function columnsFor(display: MassDisplay): ColumnDef<BlockRow, unknown>[] {
+function columnsFor(display: MassDisplay, seasonStart: SeasonStart): ColumnDef<BlockRow, unknown>[] {
   return [
     {
       accessorKey: "code",
@@ -26,6 +27,7 @@ function columnsFor(display: MassDisplay): ColumnDef<BlockRow, unknown>[] {
     { accessorKey: "strainCode", header: "Strain" },
     { accessorFn: (block) => block.recipeCode ?? "", id: "recipe", header: "Recipe" },
     { accessorFn: (block) => block.inoculatedOn ?? "", id: "inoculated", header: "Inoculated" },
+    { accessorFn: (block) => (block.season === null ? "" : seasonLabel(block.season, seasonStart)), id: "season", header: "Season" },
     {
       accessorFn: (block) => block.wetMassG,
       id: "wet",
@@ -62,13 +64,13 @@ function columnsFor(display: MassDisplay): ColumnDef<BlockRow, unknown>[] {
 }
 
 /** The farm's blocks, sortable and filterable; masses in the member's display units. */
-export function BlocksTable({ rows, display }: { rows: BlockRow[]; display: MassDisplay }) {
+export function BlocksTable({ rows, display, seasonStart }: { rows: BlockRow[]; display: MassDisplay; seasonStart: SeasonStart }) {
   return (
     <DataTable
       caption="Blocks and harvests"
-      columns={columnsFor(display)}
+      columns={columnsFor(display, seasonStart)}
       rows={rows}
-      emptyMessage="No blocks yet. Upload your season log, or ask the farm manager to."
+      emptyMessage="No blocks here yet. Upload your season log, or ask the farm manager to; or choose another season."
       csvFileName="blocks-and-harvests.csv"
     />
   );

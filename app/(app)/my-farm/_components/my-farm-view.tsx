@@ -52,8 +52,8 @@ function toRow(strain: OwnStrainSummary, units: "metric" | "imperial"): Row {
   };
 }
 
-export function MyFarmView() {
-  const query = useMyFarm();
+export function MyFarmView({ season }: { season: number | null }) {
+  const query = useMyFarm(season);
   if (query.isPending)
     return (
       <p role="status" className="rounded-lg border border-oat-300 bg-white p-4 text-ink-soft">
@@ -73,7 +73,7 @@ export function MyFarmView() {
   const page = query.data;
   if (page.strains.length === 0) {
     return (
-      <Notice title="No blocks this season yet">
+      <Notice title={season === null ? "No blocks this season yet" : "No blocks in this season"}>
         <p>Upload a season log to see your blocks, harvests and biological efficiency here, beside the co-op.</p>
       </Notice>
     );
@@ -81,7 +81,9 @@ export function MyFarmView() {
   const withCurves = page.strains.filter((strain) => strain.ownCumulative || strain.coopCumulative);
   return (
     <div className="space-y-6">
-      <Card title={`${page.farmName} this season, by strain`}>
+      <Card
+        title={page.seasonLabel ? `${page.farmName} in season ${page.seasonLabel}, by strain` : `${page.farmName} this season, by strain`}
+      >
         <DataTable
           caption="Your season by strain"
           columns={columns}
@@ -90,9 +92,11 @@ export function MyFarmView() {
           csvFileName="my-farm-by-strain.csv"
         />
         <p className="mt-2 text-xs text-ink-soft">
-          Blocks inoculated since {page.seasonStartedOn}. Place in the co-op compares your mean with every co-op block of the strain, shown
-          only where at least {page.minimumFarms} farms grew it. Still to come: the co-op&apos;s average flush profile applied to your
-          active blocks, with 95 % prediction bounds.
+          {page.seasonLabel
+            ? `Blocks of season ${page.seasonLabel}: inoculated in it, or named in it by their season log. The co-op's figures cover every season.`
+            : `Blocks inoculated since ${page.seasonStartedOn}.`}{" "}
+          Place in the co-op compares your mean with every co-op block of the strain, shown only where at least {page.minimumFarms} farms
+          grew it. Still to come: the co-op&apos;s average flush profile applied to your active blocks, with 95 % prediction bounds.
         </p>
       </Card>
       <Card title="Flush curves: share of a block's yield picked by each flush">
