@@ -9,6 +9,8 @@ import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { can } from "@/lib/auth/permissions";
 import { getBlock, type BlockDetail } from "@/lib/data/blocks";
+import { getSeasonStart } from "@/lib/data/seasons";
+import { seasonLabel } from "@/lib/seasons";
 import { isAppError } from "@/lib/errors";
 import { seasonLogColumns } from "@/lib/import/schema";
 import { formatMass } from "@/lib/units";
@@ -42,6 +44,7 @@ export default async function BlockPage({
   const { blockId } = await params;
   const { correct, deleted } = await searchParams;
   let block: BlockDetail;
+  const seasonStart = await getSeasonStart(member);
   try {
     block = await getBlock(member, blockId);
   } catch (error) {
@@ -63,6 +66,7 @@ export default async function BlockPage({
     ["Strain", block.strainCode],
     ["Substrate recipe", block.recipeCode ?? "not given"],
     ["Inoculated", block.inoculatedOn ?? "not given"],
+    ["Season", block.season === null ? "none (no inoculation date or season given)" : seasonLabel(block.season, seasonStart)],
     ["Wet block", mass(block.wetMassG)],
     ["Moisture", block.moisture === null ? "not given" : `${(block.moisture * 100).toFixed(1)} %`],
     ["Total fresh", block.flushes === 0 ? noHarvestYet : formatMass(block.totalFreshG, display)],
