@@ -13,7 +13,7 @@ export default async function ResultsPage() {
     <>
       <PageHeader
         title="Co-op results"
-        lead="Pooled strain comparisons from every member farm, with honest intervals. No farm's own rows are ever shown here."
+        lead="Pooled strain comparisons from every member farm and every season together, with honest intervals. No farm's own rows are ever shown here."
       />
       <div className="mb-6 grid gap-3 lg:grid-cols-2">
         <Caution which="pooledFigures" />
