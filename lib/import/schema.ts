@@ -326,7 +326,7 @@ function csvField(value: string): string {
   return /[",\n\r]/.test(value) ? `"${value.replace(/"/g, '""')}"` : value;
 }
 
-/** A CSV template of schema version 1: the header and a few example rows. */
+/** A CSV template of the current schema version: the header and a few example rows. */
 export function seasonLogTemplateCsv(codes: TemplateCodes = inventedCodes): string {
   const lines = [seasonLogColumnNames.join(",")];
   for (const row of templateRows(codes)) {
