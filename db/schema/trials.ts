@@ -15,7 +15,7 @@ import {
   uuid,
 } from "drizzle-orm/pg-core";
 import { farms, users } from "./cooperative";
-import { contaminatedHandling, enrolmentStatus, trialStatus } from "./enums";
+import { contaminatedHandling, enrolmentStatus, trialDesignKind, trialStatus } from "./enums";
 import { species, strains, treatments } from "./registries";
 
 export const trials = pgTable(
@@ -29,6 +29,8 @@ export const trials = pgTable(
       .notNull()
       .references(() => species.id),
     status: trialStatus("status").notNull().default("draft"),
+    /** One factor, or strains crossed with fruiting methods: each arm's levels are its strain and its treatment. */
+    designKind: trialDesignKind("design_kind").notNull().default("one_factor"),
     outcomeFlushes: integer("outcome_flushes").notNull().default(2),
     contaminatedHandling: contaminatedHandling("contaminated_handling").notNull().default("exclude"),
     protocolNotes: text("protocol_notes").notNull().default(""),

@@ -57,6 +57,8 @@ import {
   type TrialBlockRecord,
   type TrialStatus,
 } from "@/lib/trials";
+import type { TrialDesignKind } from "@/lib/trials/design-kind";
+import { crossedArmsProblems } from "@/lib/trials/factorial";
 import { verifyOptOutToken } from "@/lib/trials/reminder-opt-out";
 import {
   amendmentReasonProblem,
@@ -80,6 +82,8 @@ export interface TrialDesignInput {
   title: string;
   question: string;
   speciesId: string;
+  /** One factor (default), or the arms cross strains with fruiting methods, one arm per combination. */
+  designKind?: TrialDesignKind;
   arms: ArmInput[];
   outcomeFlushes: number;
   contaminatedHandling: "exclude" | "count_as_zero";
@@ -146,6 +150,7 @@ async function loadTrial(tx: Transaction, member: Member, trialId: string) {
       title: trials.title,
       question: trials.question,
       status: trials.status,
+      designKind: trials.designKind,
       speciesId: trials.speciesId,
       speciesName: species.commonName,
       outcomeFlushes: trials.outcomeFlushes,
@@ -418,6 +423,32 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
           input.arms.map((arm) => arm.strainId),
         ),
       );
+    const designKind = input.designKind ?? "one_factor";
+    if (designKind === "strain_by_method") {
+      const treatmentIds = [...new Set(input.arms.flatMap((arm) => (arm.treatmentId ? [arm.treatmentId] : [])))];
+      const treatmentRows = treatmentIds.length
+        ? await tx
+            .select({ id: treatments.id, name: treatments.name, kind: treatments.kind })
+            .from(treatments)
+            .where(inArray(treatments.id, treatmentIds))
+        : [];
+      const strainNames = await tx
+        .select({ id: strains.id, name: strains.name })
+        .from(strains)
+        .where(
+          inArray(
+            strains.id,
+            input.arms.map((arm) => arm.strainId),
+          ),
+        );
+      const problems = crossedArmsProblems(input.arms, strainNames, treatmentRows);
+      if (problems.length)
+        throw new AppError(
+          "invalid_input",
+          problems[0],
+          problems.map((message) => ({ field: "arms", message })),
+        );
+    }
     input.arms.forEach((arm, index) => {
       const strain = strainRows.find((row) => row.id === arm.strainId);
       if (!strain)
@@ -433,6 +464,7 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
       title: input.title,
       question: input.question,
       speciesId: input.speciesId,
+      designKind,
       outcomeFlushes: input.outcomeFlushes,
       contaminatedHandling: input.contaminatedHandling,
       protocolNotes: input.protocolNotes,
@@ -479,7 +511,7 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
       ...actor(member),
       action: input.trialId ? "trial.draft_saved" : "trial.created",
       subject: code,
-      details: { trialId: id, arms: input.arms.length },
+      details: { trialId: id, arms: input.arms.length, designKind },
     });
     return { id, code };
   });

@@ -414,7 +414,8 @@ describe("a strain trial from design to publication", () => {
       [trialId],
     );
     expect(closed[0].details.incomplete?.leftOut).toEqual({ contaminated: 4, lost: 1, unfinished: 2, no_harvest: 0 });
-    expect(results.analysis.answer).toMatch(/Arm B gave more than reference arm A/);
+    // Arms are named by their strains, the letter in brackets for the block labels.
+    expect(results.analysis.answer).toMatch(/^\S.* \(arm B\) gave more than the reference, .* \(arm A\): /);
     expect(JSON.stringify(results)).not.toContain(managers[0].farmId!);
   });
 

@@ -14,6 +14,7 @@ import {
   saveTrialDraft,
   sendTrialReminder,
 } from "@/lib/data/trials";
+import { trialDesignKinds } from "@/lib/trials/design-kind";
 import { trialStatuses } from "@/lib/trials/lifecycle";
 
 const optionalNumber = (what: string, check: z.ZodNumber) =>
@@ -50,6 +51,9 @@ const trialDesignSchema = z.object({
     .min(10, "Write the question in one sentence, e.g. \u201cDoes PO-02 give more BE than PO-01 over two flushes?\u201d")
     .max(400, "Keep the question to one sentence (under 400 characters)."),
   speciesId: z.uuid("Pick the species the trial is about."),
+  designKind: z
+    .enum(trialDesignKinds, "Say whether the arms compare one thing or cross strains with fruiting methods.")
+    .default("one_factor"),
   arms: z
     .string()
     .transform((value, context) => {

@@ -16,6 +16,7 @@ export default async function NewTrialPage() {
           title: "",
           question: "",
           speciesId: "",
+          designKind: "one_factor",
           arms: [
             { label: "A", strainId: "", treatmentId: "", isReference: true },
             { label: "B", strainId: "", treatmentId: "", isReference: false },

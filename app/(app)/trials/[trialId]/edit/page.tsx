@@ -24,6 +24,7 @@ export default async function EditTrialPage({ params }: { params: Promise<{ tria
           title: trial.title,
           question: trial.question,
           speciesId: trial.speciesId,
+          designKind: trial.designKind,
           arms: trial.arms.map((arm) => ({
             label: arm.label,
             strainId: arm.strainId,
