@@ -345,7 +345,8 @@ export function crossedArmsProblems(
   const problems: string[] = [];
   for (const arm of arms) {
     const treatment = treatments.find((candidate) => candidate.id === arm.treatmentId);
-    if (!treatment) problems.push(`Arm ${arm.label}: pick its fruiting method; in a crossed trial every arm is one strain with one method.`);
+    if (!treatment)
+      problems.push(`Arm ${arm.label}: pick its fruiting method; in a crossed trial every arm is one strain with one method.`);
     else if (treatment.kind && treatment.kind !== "fruiting_method")
       problems.push(`Arm ${arm.label}: ${treatment.name} is not a fruiting method; a crossed trial crosses strains with fruiting methods.`);
   }
@@ -354,8 +355,22 @@ export function crossedArmsProblems(
     [...new Set(ids)].map((id) => ({ id, label: names.find((candidate) => candidate.id === id)?.name ?? id }));
   return factorialDesignProblems({
     factors: [
-      { name: "strain", plural: "strains", levels: levels(arms.map((arm) => arm.strainId), strains) },
-      { name: "fruiting method", plural: "fruiting methods", levels: levels(arms.map((arm) => arm.treatmentId!), treatments) },
+      {
+        name: "strain",
+        plural: "strains",
+        levels: levels(
+          arms.map((arm) => arm.strainId),
+          strains,
+        ),
+      },
+      {
+        name: "fruiting method",
+        plural: "fruiting methods",
+        levels: levels(
+          arms.map((arm) => arm.treatmentId!),
+          treatments,
+        ),
+      },
     ],
     arms: arms.map((arm) => ({ armId: arm.label, levels: [arm.strainId, arm.treatmentId!] })),
   });
