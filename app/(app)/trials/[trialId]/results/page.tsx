@@ -17,6 +17,7 @@ import { PrintButton } from "../../_components/print-button";
 import { ProtocolSummary } from "../../_components/protocol-summary";
 import { StatusBadge } from "../../_components/status-badge";
 import { ArmBoxplot, TrialForestChart } from "../../_components/trial-charts";
+import { FactorialResults } from "../../_components/factorial-results";
 
 export const metadata: Metadata = { title: "Trial results" };
 
@@ -173,6 +174,8 @@ function Report({ trial, results }: { trial: TrialView; results: StoredResults }
           </p>
         ))}
       </Card>
+
+      {results.factorial?.anova ? <FactorialResults factorial={results.factorial} /> : null}
 
       {results.analysis.anova ? (
         <Card title="Biological efficiency by arm, adjusted for farm">
