@@ -316,12 +316,21 @@ export async function getPublishedReport(member: Member, trialId: string): Promi
   return { ...trial, results: trial.results };
 }
 
-/** Whether enough farms have accepted to start the trial: the trial page warns the coordinator before they try. */
-export async function getStartReadiness(member: Member, trialId: string): Promise<{ accepted: number; minimumFarms: number }> {
-  return asMember(member, async (tx) => ({
-    accepted: await acceptedFarms(tx, trialId),
-    minimumFarms: await minimumFarmsOf(tx),
-  }));
+/**
+ * Whether enough farms have accepted to start the trial, and the blocks per arm they committed
+ * between them: the trial page warns the coordinator, against the co-op's minimum and the plan.
+ */
+export async function getStartReadiness(
+  member: Member,
+  trialId: string,
+): Promise<{ accepted: number; blocksPerArm: number; minimumFarms: number }> {
+  return asMember(member, async (tx) => {
+    const [{ blocksPerArm }] = await tx
+      .select({ blocksPerArm: sql<number>`coalesce(sum(${trialEnrolments.blocksPerArm}), 0)::int` })
+      .from(trialEnrolments)
+      .where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.status, "accepted")));
+    return { accepted: await acceptedFarms(tx, trialId), blocksPerArm, minimumFarms: await minimumFarmsOf(tx) };
+  });
 }
 
 async function acceptedFarms(tx: Transaction, trialId: string): Promise<number> {

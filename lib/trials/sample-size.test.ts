@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { trialSampleSize } from "./sample-size";
+import { powerPairwiseBlocked } from "@/lib/stats";
+import { enrolmentWarnings, trialSampleSize } from "./sample-size";
 
 describe("trial sample-size panel", () => {
   it("matches R power.t.test(delta = 1, sd = 1, power = 0.8 / 0.9) — docs/references.md", () => {
@@ -48,5 +49,36 @@ describe("trial sample-size panel", () => {
     expect(panel.ok).toBe(false);
     if (panel.ok) return;
     expect(Object.keys(panel.problems).sort()).toEqual(["expectedLoss", "expectedSd", "plannedFarms", "smallestDifference"]);
+  });
+});
+
+describe("warnings before a trial starts", () => {
+  // The design form's plan: 10 BE points, SD 10, 4 farms, 5 % loss, 2 arms → 20 blocks per arm (test above, R-checked).
+  const plan = { difference: 10, sd: 10, plannedFarms: 4, expectedLoss: 0.05, arms: 2 };
+
+  it("says nothing when the farms and blocks the plan needs have been committed", () => {
+    expect(enrolmentWarnings(plan, { acceptedFarms: 4, blocksPerArm: 20, minimumFarms: 3 })).toEqual([]);
+  });
+
+  it("warns of too few farms, fewer than planned, and fewer blocks, with the power they give", () => {
+    const warnings = enrolmentWarnings(plan, { acceptedFarms: 2, blocksPerArm: 10, minimumFarms: 3 });
+    expect(warnings.map((warning) => warning.kind)).toEqual([
+      "below_minimum_farms",
+      "fewer_farms_than_planned",
+      "fewer_blocks_than_planned",
+    ]);
+    expect(warnings[0].message).toMatch(/^2 farms have accepted; a trial starts only with at least 3/);
+    expect(warnings[1].message).toBe("2 farms of the 4 planned have accepted.");
+    // The power of what is committed is the plan's own calculation (R-checked above) at 10 × 0.95 blocks on 2 farms.
+    const power = powerPairwiseBlocked(9.5, { delta: 10, sd: 10, arms: 2, farms: 2, alpha: 0.05 });
+    expect(power).toBeGreaterThan(0.4);
+    expect(power).toBeLessThan(0.6);
+    expect(warnings[2].message).toContain(`the plan needs 20 for 80 % power to find 10 BE points once 5 % are lost`);
+    expect(warnings[2].message).toContain(`the power is about ${Math.round(power * 100)} %`);
+  });
+
+  it("gives only the co-op's minimum when the design has no sample-size figures", () => {
+    expect(enrolmentWarnings(null, { acceptedFarms: 5, blocksPerArm: 1, minimumFarms: 3 })).toEqual([]);
+    expect(enrolmentWarnings(null, { acceptedFarms: 1, blocksPerArm: 1, minimumFarms: 3 })[0].message).toMatch(/^1 farm has accepted/);
   });
 });

@@ -1,4 +1,4 @@
-import { StatsInputError, sampleSizePairwiseBlocked } from "@/lib/stats";
+import { StatsInputError, powerPairwiseBlocked, sampleSizePairwiseBlocked } from "@/lib/stats";
 
 export interface SampleSizeInput {
   /** Smallest difference in biological efficiency worth detecting, in BE percentage points. */
@@ -59,4 +59,61 @@ export function trialSampleSize(input: SampleSizeInput, powers: readonly number[
     if (error instanceof StatsInputError) return { ok: false, problems: { form: error.message } };
     throw error;
   }
+}
+
+export interface EnrolmentCheck {
+  /** Farms that accepted, and the blocks per arm they committed between them. */
+  acceptedFarms: number;
+  blocksPerArm: number;
+  minimumFarms: number;
+}
+
+export interface EnrolmentWarning {
+  kind: "below_minimum_farms" | "fewer_farms_than_planned" | "fewer_blocks_than_planned";
+  message: string;
+}
+
+/**
+ * What the coordinator should hear before starting a trial, from the farms that accepted against
+ * the plan (trialSampleSize at 80 % power): fewer farms than the co-op's minimum (the trial cannot
+ * start), fewer than planned, and fewer blocks per arm than the plan needs once the expected loss
+ * is allowed for, with the power the committed blocks give (powerPairwiseBlocked on the farms
+ * that accepted, same adjustment and blocking as the plan). No plan figures: only the minimum.
+ */
+export function enrolmentWarnings(plan: SampleSizeInput | null, enrolment: EnrolmentCheck): EnrolmentWarning[] {
+  const warnings: EnrolmentWarning[] = [];
+  const { acceptedFarms, blocksPerArm, minimumFarms } = enrolment;
+  const farmsWord = (n: number) => `${n} farm${n === 1 ? "" : "s"}`;
+  if (acceptedFarms < minimumFarms)
+    warnings.push({
+      kind: "below_minimum_farms",
+      message: `${farmsWord(acceptedFarms)} ${acceptedFarms === 1 ? "has" : "have"} accepted; a trial starts only with at least ${minimumFarms} (the co-op's minimum), so that its report never shows one farm's figures.`,
+    });
+  const panel = plan ? trialSampleSize(plan, [0.8]) : null;
+  if (!plan || !panel?.ok) return warnings;
+  if (acceptedFarms < plan.plannedFarms)
+    warnings.push({
+      kind: "fewer_farms_than_planned",
+      message: `${farmsWord(acceptedFarms)} of the ${plan.plannedFarms} planned ${acceptedFarms === 1 ? "has" : "have"} accepted.`,
+    });
+  const needed = panel.rows[0].perArmToMake;
+  if (acceptedFarms > 0 && blocksPerArm < needed) {
+    const kept = blocksPerArm * (1 - plan.expectedLoss);
+    const arms = Math.max(plan.arms, 2);
+    // The error needs degrees of freedom left after arms and farms; below that no power can be given.
+    const power =
+      arms * kept - arms - acceptedFarms + 1 >= 1
+        ? powerPairwiseBlocked(kept, { delta: plan.difference, sd: plan.sd, arms, farms: acceptedFarms, alpha: 0.05 })
+        : null;
+    warnings.push({
+      kind: "fewer_blocks_than_planned",
+      message:
+        `The farms that accepted make ${blocksPerArm} blocks per arm between them; the plan needs ${needed} for 80 % power to find ${plan.difference} BE points` +
+        (plan.expectedLoss > 0 ? ` once ${Math.round(plan.expectedLoss * 100)} % are lost` : "") +
+        (power === null
+          ? ", and so few blocks leave nothing to judge the spread by."
+          : `. With what is committed the power is about ${Math.round(power * 100)} %: invite more farms or ask for more blocks per arm.`),
+    });
+  }
+  return warnings;
 }

@@ -21,7 +21,7 @@ import {
   type TrialView,
 } from "@/lib/data/trials";
 import { hasResults, moveLabels, nextStatuses, remindersRun, trialStatusLabels, type TrialStatus } from "@/lib/trials/lifecycle";
-import { trialSampleSize } from "@/lib/trials/sample-size";
+import { enrolmentWarnings, trialSampleSize, type SampleSizeInput } from "@/lib/trials/sample-size";
 import { askToJoinTrialAction, inviteFarmsAction, moveTrialAction, respondToInvitationAction, sendReminderAction } from "../actions";
 import { ActionForm } from "@/components/forms/action-form";
 import { AnalysisRunsCard, RunChoice } from "../_components/analysis-runs";
@@ -99,6 +99,7 @@ async function CoordinatorControls({ trial, member, review }: { trial: TrialView
             </Notice>
           </div>
         ) : null}
+        {trial.status === "open" || trial.status === "running" ? <EnrolmentShortfall trial={trial} readiness={readiness} /> : null}
         {moves.length === 0 ? (
           <p className="text-sm text-ink-soft">This trial is {trialStatusLabels[trial.status].toLowerCase()}; it does not move any more.</p>
         ) : null}
@@ -410,15 +411,48 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
   );
 }
 
-/** What the coordinator's plan asks of each farm at 80 % power, or 6 when the plan has no figures. */
-function suggestedBlocksPerArm(trial: TrialView): number {
-  if (!trial.smallestDifference || !trial.expectedSd || !trial.plannedFarms) return 6;
-  const panel = trialSampleSize({
+/** The design's sample-size figures, or null when the coordinator gave none. */
+function planOf(trial: TrialView): SampleSizeInput | null {
+  if (!trial.smallestDifference || !trial.expectedSd || !trial.plannedFarms) return null;
+  return {
     difference: trial.smallestDifference,
     sd: trial.expectedSd,
     plannedFarms: trial.plannedFarms,
     expectedLoss: trial.expectedLoss ?? 0,
     arms: trial.arms.length,
-  });
+  };
+}
+
+/** Fewer farms or blocks than the plan needs: said while farms can still be invited, and once running. */
+function EnrolmentShortfall({
+  trial,
+  readiness,
+}: {
+  trial: TrialView;
+  readiness: { accepted: number; blocksPerArm: number; minimumFarms: number };
+}) {
+  // The co-op's minimum has its own notice above; before anyone accepts there is nothing to compare yet.
+  const warnings = enrolmentWarnings(planOf(trial), {
+    acceptedFarms: readiness.accepted,
+    blocksPerArm: readiness.blocksPerArm,
+    minimumFarms: readiness.minimumFarms,
+  }).filter((warning) => warning.kind !== "below_minimum_farms");
+  if (!warnings.length || readiness.accepted === 0) return null;
+  return (
+    <div className="mb-3" data-testid="enrolment-short">
+      <Notice tone="caution" title="Short of the planned size">
+        {warnings.map((warning) => (
+          <p key={warning.kind}>{warning.message}</p>
+        ))}
+      </Notice>
+    </div>
+  );
+}
+
+/** What the coordinator's plan asks of each farm at 80 % power, or 6 when the plan has no figures. */
+function suggestedBlocksPerArm(trial: TrialView): number {
+  const plan = planOf(trial);
+  if (!plan) return 6;
+  const panel = trialSampleSize(plan);
   return panel.ok ? panel.rows[0].perFarmPerArm : 6;
 }
