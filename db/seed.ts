@@ -224,7 +224,7 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
         },
       ])
       .returning();
-    const [slitsAcross, slitsAlong] = await owner
+    const [slitsAcross, slitsAlong, topOpen] = await owner
       .insert(schema.treatments)
       .values([
         {
@@ -250,7 +250,7 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
       .returning();
 
     const coordinator = await owner.query.users.findFirst({ where: (users, { eq }) => eq(users.role, "coordinator") });
-    const [finishedTrial, enrollingTrial] = await owner
+    const [finishedTrial, enrollingTrial, crossedTrial] = await owner
       .insert(schema.trials)
       .values([
         {
@@ -284,6 +284,23 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
           expectedLoss: 0.08,
           createdBy: coordinator?.id,
         },
+        {
+          // A draft crossing two strains with two fruiting methods, for the coordinator to open (no blocks yet).
+          code: "T-2026-03",
+          title: "Slits or an opened top, for PO-01 and PO-02?",
+          question: "Do slits across the bag give more BE over two flushes than an opened top, and does the answer depend on the strain?",
+          speciesId: speciesByKey.get("oyster")!.row.id,
+          status: "draft",
+          designKind: "strain_by_method",
+          outcomeFlushes: 2,
+          contaminatedHandling: "exclude",
+          protocolNotes: "2.5 kg blocks of HWB-20 at 62 % moisture, 5 % spawn by wet mass.",
+          smallestDifference: 8,
+          expectedSd: 12,
+          plannedFarms: 4,
+          expectedLoss: 0.05,
+          createdBy: coordinator?.id,
+        },
       ])
       .returning();
     const trialArms = await owner
@@ -308,6 +325,16 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
           position: 1,
         },
         { trialId: enrollingTrial.id, label: "Along", strainId: strainByCode.get("HE-01")!.id, treatmentId: slitsAlong.id, position: 2 },
+        ...(["PO-01", "PO-02"] as const).flatMap((strainCode, i) =>
+          [slitsAcross, topOpen].map((method, j) => ({
+            trialId: crossedTrial.id,
+            label: String.fromCharCode(65 + 2 * i + j),
+            strainId: strainByCode.get(strainCode)!.id,
+            treatmentId: method.id,
+            isReference: i === 0 && j === 0,
+            position: 2 * i + j + 1,
+          })),
+        ),
       ])
       .returning();
     const finishedArms = trialArms.slice(0, 3);
