@@ -13,6 +13,14 @@ export function ProtocolSummary({ trial }: { trial: TrialView }) {
           <dd>{trial.speciesName}</dd>
         </div>
         <div>
+          <dt className="text-ink-soft">Arms compare</dt>
+          <dd data-testid="design-kind-summary">
+            {trial.designKind === "strain_by_method"
+              ? "Strains crossed with fruiting methods, one arm per combination: the report tests the method, the strain and whether the best method depends on the strain (farms as blocks)."
+              : "One thing at a time: each arm against the reference arm (farms as blocks)."}
+          </dd>
+        </div>
+        <div>
           <dt className="text-ink-soft">Outcome</dt>
           <dd>
             Biological efficiency over flushes 1–{trial.outcomeFlushes}; contaminated blocks{" "}
