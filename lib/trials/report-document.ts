@@ -1,5 +1,6 @@
 import { cautions } from "@/lib/cautions";
 import type { Difference } from "./analysis";
+import type { FactorialComparison, FactorialTrialAnalysis } from "./factorial";
 import type { StoredTrialResults } from "./report";
 
 /** What a report export needs of a trial: the trial as the reader may see it (lib/data/trials.ts getTrial gives it). */
@@ -142,6 +143,9 @@ export function trialReportDocument(trial: ReportTrial): TrialReportDocument {
       ],
     });
   }
+
+  const factorial = trial.results.factorial;
+  if (factorial?.anova) first.push(factorialSection(factorial, factorial.anova));
 
   const second: ReportSection[] = [];
   if (analysis.versusReference.length) {
@@ -352,4 +356,69 @@ export function pdfSafeText(text: string): string {
       return typewritten[char] ?? "?";
     })
     .join("");
+}
+
+const capitalised = (text: string) => text[0].toUpperCase() + text.slice(1);
+
+/** A crossed trial's figures as the report page shows them: the terms, each combination's mean, the comparisons. */
+function factorialSection(factorial: FactorialTrialAnalysis, anova: NonNullable<FactorialTrialAnalysis["anova"]>): ReportSection {
+  const [first, second] = factorial.factors;
+  const comparisonRows = (rows: FactorialComparison[], within?: string) =>
+    rows.map((row) => [
+      `${within ? `With ${within}: ` : ""}${row.level} - ${row.versus}`,
+      fmt(row.estimate),
+      `${fmt(row.lower)} to ${fmt(row.upper)}`,
+      pText(row.pAdjusted),
+    ]);
+  const comparisonColumns = ["Difference", "BE points", "95 % interval", "p (adjusted)"];
+  return {
+    heading: `Does the ${first} matter, does the ${second}, and does one depend on the other?`,
+    paragraphs: [
+      `BE ~ ${first} + ${second} + ${first} x ${second} + farm, type II sums of squares. The interaction counts as material below p = ${fmt(factorial.interactionLevel, 2)}, decided before the trial.`,
+    ],
+    tables: [
+      {
+        title: "Terms of the model",
+        columns: ["Term", "df", "F", "p"],
+        rows: (
+          [
+            [capitalised(first), anova.first],
+            [capitalised(second), anova.second],
+            [`${capitalised(first)} x ${second}`, anova.interaction],
+            ["Farm", anova.farm],
+          ] as const
+        ).map(([name, term]) => [name, String(term.df), fmt(term.f, 2), pText(term.p)]),
+      },
+      {
+        title: `Farm-adjusted mean BE of each ${first} with each ${second}`,
+        columns: [capitalised(first), capitalised(second), "Blocks", "Mean BE", "95 % interval"],
+        rows: factorial.cellMeans.map((cell) => [
+          cell.levels[0],
+          cell.levels[1],
+          String(cell.blocks),
+          `${fmt(cell.estimate)} %`,
+          `${fmt(cell.lower)} - ${fmt(cell.upper)} %`,
+        ]),
+      },
+      ...(factorial.interactionMaterial
+        ? [
+            {
+              title: `${capitalised(first)}s compared within each ${second} (Tukey within each)`,
+              columns: comparisonColumns,
+              rows: factorial.simpleEffects[0].flatMap((group) => comparisonRows(group.comparisons, group.within)),
+            },
+          ]
+        : []),
+      {
+        title: `${capitalised(first)}s compared, averaged over the ${second}s (Tukey)`,
+        columns: comparisonColumns,
+        rows: comparisonRows(factorial.mainEffects[0]),
+      },
+      {
+        title: `${capitalised(second)}s compared, averaged over the ${first}s (Tukey)`,
+        columns: comparisonColumns,
+        rows: comparisonRows(factorial.mainEffects[1]),
+      },
+    ],
+  };
 }
