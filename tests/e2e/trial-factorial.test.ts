@@ -39,6 +39,8 @@ describe("a trial crossing strains with fruiting methods, in the browser", () =>
     await page.getByRole("button", { name: "Save draft" }).click();
     await page.locator("#design-message").filter({ hasText: "Give the fruiting method at least two levels to compare." }).waitFor();
     expect(page.url()).toMatch(/\/trials\/new$/);
+    // What the coordinator typed is still there after the refusal.
+    expect(await page.getByLabel("Title").inputValue()).toBe("Slits or an opened top, for two oyster strains");
 
     await page.getByLabel("Bag opened at the top").check();
     const arms = page.getByTestId("crossed-arms").locator("tbody tr");

@@ -1,6 +1,6 @@
 "use client";
 
-import { useActionState, useMemo, useState } from "react";
+import { startTransition, useActionState, useMemo, useState } from "react";
 import { Button } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { Caution } from "@/components/ui/caution";
@@ -158,7 +158,13 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
 
   return (
     <form
-      action={formAction}
+      onSubmit={(event) => {
+        // Sent by hand rather than through the form's action: React resets a form after its action,
+        // which would empty the title, question and notes the coordinator typed when the server refuses the design.
+        event.preventDefault();
+        const data = new FormData(event.currentTarget, event.nativeEvent.submitter);
+        startTransition(() => formAction(data));
+      }}
       className="grid gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]"
       aria-describedby={state.status === "error" ? "design-message" : undefined}
     >
