@@ -13,7 +13,7 @@ import {
 import type { TrialDesignKind } from "./design-kind";
 import { analyseFactorialTrial, factorialDesignFromArms, type FactorialTrialAnalysis } from "./factorial";
 import { exclusionReasons, trialOutcomeRecords, type ClassifiedOutcomeRecord, type ExclusionReason } from "./outcome";
-import { trialSampleSize } from "./sample-size";
+import { crossingOf, trialSampleSize } from "./sample-size";
 
 /** One arm as a published report shows it: each figure only with the co-op's minimum number of farms behind it. */
 export interface PublishedArm {
@@ -304,7 +304,17 @@ export function trialReport(input: {
   const planned =
     smallestDifference && expectedSd && plannedFarms
       ? trialSampleSize(
-          { difference: smallestDifference, sd: expectedSd, plannedFarms, expectedLoss: expectedLoss ?? 0, arms: input.arms.length },
+          {
+            difference: smallestDifference,
+            sd: expectedSd,
+            plannedFarms,
+            expectedLoss: expectedLoss ?? 0,
+            arms: input.arms.length,
+            crossing: crossingOf(
+              input.design.designKind,
+              input.arms.map((arm) => ({ strainId: arm.strainId ?? arm.label, treatmentId: arm.treatmentId ?? null })),
+            ),
+          },
           [0.8],
         )
       : null;

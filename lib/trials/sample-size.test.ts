@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import jStat from "jstat";
-import { powerPairwiseBlocked } from "@/lib/stats";
-import { enrolmentWarnings, trialSampleSize } from "./sample-size";
+import { powerPairwiseBlocked, sampleSizeCrossedBlocked } from "@/lib/stats";
+import { crossingOf, enrolmentWarnings, trialSampleSize } from "./sample-size";
 
 describe("trial sample-size panel", () => {
   it("matches R power.t.test(delta = 1, sd = 1, power = 0.8 / 0.9) — docs/references.md", () => {
@@ -82,5 +82,33 @@ describe("warnings before a trial starts", () => {
   it("gives only the co-op's minimum when the design has no sample-size figures", () => {
     expect(enrolmentWarnings(null, { acceptedFarms: 5, blocksPerArm: 1, minimumFarms: 3 })).toEqual([]);
     expect(enrolmentWarnings(null, { acceptedFarms: 1, blocksPerArm: 1, minimumFarms: 3 })[0].message).toMatch(/^1 farm has accepted/);
+  });
+});
+
+describe("sample size of a trial crossing strains with fruiting methods", () => {
+  it("sizes the comparison of methods within a strain, and says what the comparison averaged over strains needs", () => {
+    const plan = { difference: 6, sd: 5, plannedFarms: 4, expectedLoss: 0, arms: 4, crossing: { methods: 2, strains: 2 } };
+    const panel = trialSampleSize(plan);
+    if (!panel.ok) throw new Error("expected a result");
+    const within = sampleSizeCrossedBlocked({ delta: 6, sd: 5, levels: 2, otherLevels: 2, farms: 4, comparison: "within" }).nPerGroup;
+    expect(panel.rows[0].exactPerArm).toBe(within);
+    expect(panel.pairs).toBe(1);
+    expect(panel.averagedPerArm).toBeLessThan(within);
+    // All pairs of 4 arms with Tukey would ask for more than the crossed analysis needs.
+    const allPairs = trialSampleSize({ ...plan, crossing: null });
+    if (!allPairs.ok) throw new Error("expected a result");
+    expect(allPairs.rows[0].exactPerArm).toBeGreaterThan(within);
+    expect(allPairs.averagedPerArm).toBeUndefined();
+  });
+
+  it("reads the crossing off the arms of a crossed trial only", () => {
+    const arms = [
+      { strainId: "s1", treatmentId: "m1" },
+      { strainId: "s1", treatmentId: "m2" },
+      { strainId: "s2", treatmentId: "m1" },
+      { strainId: "s2", treatmentId: "m2" },
+    ];
+    expect(crossingOf("strain_by_method", arms)).toEqual({ methods: 2, strains: 2 });
+    expect(crossingOf("one_factor", arms)).toBeNull();
   });
 });

@@ -1,4 +1,10 @@
-import { StatsInputError, powerPairwiseBlocked, sampleSizePairwiseBlocked } from "@/lib/stats";
+import {
+  StatsInputError,
+  powerCrossedBlocked,
+  powerPairwiseBlocked,
+  sampleSizeCrossedBlocked,
+  sampleSizePairwiseBlocked,
+} from "@/lib/stats";
 
 export interface SampleSizeInput {
   /** Smallest difference in biological efficiency worth detecting, in BE percentage points. */
@@ -9,6 +15,12 @@ export interface SampleSizeInput {
   /** Share of blocks expected to be lost (contamination, dropped), 0 ≤ loss < 1. */
   expectedLoss: number;
   arms: number;
+  /**
+   * For arms crossing strains with fruiting methods: how many of each. The size is then for
+   * comparing methods within one strain, as the report does when the best method depends on the
+   * strain; the comparison averaged over strains needs fewer (given as `averagedPerArm`).
+   */
+  crossing?: { methods: number; strains: number } | null;
 }
 
 export interface SampleSizeRow {
@@ -25,14 +37,17 @@ export type SampleSizePanel =
   | {
       ok: true;
       rows: SampleSizeRow[];
-      /** Pairs of arms the analysis compares, all with Tukey's adjustment (1 for two arms: no adjustment). */
+      /** Pairs of arms the analysis compares, all with Tukey's adjustment (1 for two arms: no adjustment); for a crossing, pairs of methods. */
       pairs: number;
+      /** For a crossing: blocks per arm (exact) the method comparison averaged over strains needs at the first power. */
+      averagedPerArm?: number;
     }
   | { ok: false; problems: Record<string, string> };
 
 /**
  * Blocks per arm so that each pair of arms is found different with the given power, as the trial
- * report will compare them: the model BE ~ arm + farm (farms as blocks, each costing one error
+ * report will compare them (for arms crossing strains with methods, each pair of methods within a
+ * strain: lib/stats sampleSizeCrossedBlocked, Tukey over the methods on the full crossed model): the model BE ~ arm + farm (farms as blocks, each costing one error
  * degree of freedom) with Tukey-adjusted comparisons of every pair of arms at the two-sided 5 %
  * level (lib/stats sampleSizePairwiseBlocked; for two arms on one farm, R's power.t.test). Then
  * made larger for the expected loss and rounded up so every farm runs the same whole number per arm.
@@ -47,13 +62,33 @@ export function trialSampleSize(input: SampleSizeInput, powers: readonly number[
   if (Object.keys(problems).length) return { ok: false, problems };
   try {
     const arms = Math.max(input.arms, 2);
+    const crossing = input.crossing && input.crossing.methods >= 2 && input.crossing.strains >= 2 ? input.crossing : null;
+    const crossed = (power: number, comparison: "within" | "averaged") =>
+      sampleSizeCrossedBlocked({
+        delta: input.difference,
+        sd: input.sd,
+        power,
+        levels: crossing!.methods,
+        otherLevels: crossing!.strains,
+        farms: input.plannedFarms,
+        comparison,
+      }).nPerGroup;
     const rows = powers.map((power) => {
-      const exact = sampleSizePairwiseBlocked({ delta: input.difference, sd: input.sd, power, arms, farms: input.plannedFarms }).nPerGroup;
+      const exact = crossing
+        ? crossed(power, "within")
+        : sampleSizePairwiseBlocked({ delta: input.difference, sd: input.sd, power, arms, farms: input.plannedFarms }).nPerGroup;
       const afterLoss = exact / (1 - input.expectedLoss);
       const perFarmPerArm = Math.ceil(afterLoss / input.plannedFarms - 1e-9);
       const perArmToMake = perFarmPerArm * input.plannedFarms;
       return { power, exactPerArm: exact, perArmToMake, perFarmPerArm, totalBlocks: perArmToMake * arms };
     });
+    if (crossing)
+      return {
+        ok: true,
+        rows,
+        pairs: (crossing.methods * (crossing.methods - 1)) / 2,
+        averagedPerArm: crossed(powers[0], "averaged"),
+      };
     return { ok: true, rows, pairs: (arms * (arms - 1)) / 2 };
   } catch (error) {
     if (error instanceof StatsInputError) return { ok: false, problems: { form: error.message } };
@@ -101,10 +136,21 @@ export function enrolmentWarnings(plan: SampleSizeInput | null, enrolment: Enrol
     const kept = blocksPerArm * (1 - plan.expectedLoss);
     const arms = Math.max(plan.arms, 2);
     // The error needs degrees of freedom left after arms and farms; below that no power can be given.
+    const crossing = plan.crossing && plan.crossing.methods >= 2 && plan.crossing.strains >= 2 ? plan.crossing : null;
     const power =
-      arms * kept - arms - acceptedFarms + 1 >= 1
-        ? powerPairwiseBlocked(kept, { delta: plan.difference, sd: plan.sd, arms, farms: acceptedFarms, alpha: 0.05 })
-        : null;
+      arms * kept - arms - acceptedFarms + 1 < 1
+        ? null
+        : crossing
+          ? powerCrossedBlocked(kept, {
+              delta: plan.difference,
+              sd: plan.sd,
+              levels: crossing.methods,
+              otherLevels: crossing.strains,
+              farms: acceptedFarms,
+              alpha: 0.05,
+              comparison: "within",
+            })
+          : powerPairwiseBlocked(kept, { delta: plan.difference, sd: plan.sd, arms, farms: acceptedFarms, alpha: 0.05 });
     warnings.push({
       kind: "fewer_blocks_than_planned",
       message:
@@ -116,4 +162,13 @@ export function enrolmentWarnings(plan: SampleSizeInput | null, enrolment: Enrol
     });
   }
   return warnings;
+}
+
+/** How many strains and fruiting methods a crossed trial's arms hold; null for a one-factor trial. */
+export function crossingOf(
+  designKind: string | undefined,
+  arms: readonly { strainId: string; treatmentId: string | null }[],
+): { methods: number; strains: number } | null {
+  if (designKind !== "strain_by_method") return null;
+  return { methods: new Set(arms.map((arm) => arm.treatmentId)).size, strains: new Set(arms.map((arm) => arm.strainId)).size };
 }

@@ -21,7 +21,7 @@ import {
   type TrialView,
 } from "@/lib/data/trials";
 import { hasResults, moveLabels, nextStatuses, remindersRun, trialStatusLabels, type TrialStatus } from "@/lib/trials/lifecycle";
-import { enrolmentWarnings, trialSampleSize, type SampleSizeInput } from "@/lib/trials/sample-size";
+import { crossingOf, enrolmentWarnings, trialSampleSize, type SampleSizeInput } from "@/lib/trials/sample-size";
 import { askToJoinTrialAction, inviteFarmsAction, moveTrialAction, respondToInvitationAction, sendReminderAction } from "../actions";
 import { ActionForm } from "@/components/forms/action-form";
 import { AnalysisRunsCard, RunChoice } from "../_components/analysis-runs";
@@ -420,6 +420,7 @@ function planOf(trial: TrialView): SampleSizeInput | null {
     plannedFarms: trial.plannedFarms,
     expectedLoss: trial.expectedLoss ?? 0,
     arms: trial.arms.length,
+    crossing: crossingOf(trial.designKind, trial.arms),
   };
 }
 

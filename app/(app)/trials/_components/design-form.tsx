@@ -92,8 +92,9 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
         plannedFarms: toNumber(farms),
         expectedLoss: toNumber(loss) / 100,
         arms: arms.length,
+        crossing: designKind === "strain_by_method" ? { methods: crossedMethods.length, strains: crossedStrains.length } : null,
       }),
-    [difference, sd, farms, loss, arms.length],
+    [difference, sd, farms, loss, arms.length, designKind, crossedMethods.length, crossedStrains.length],
   );
   const fruitingMethods = options.treatments.filter((treatment) => treatment.kind === "fruiting_method");
   const crossingProblems =
@@ -578,9 +579,11 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
               {panel.ok ? (
                 <table className="w-full text-sm">
                   <caption className="mb-2 text-left text-ink-soft">
-                    {panel.pairs > 1
-                      ? `Blocks to make so that each pair of arms can be told apart (two-sided 5 % level, adjusted for comparing all ${panel.pairs} pairs, Tukey; farms as blocks)`
-                      : "Blocks to make so that the two arms can be told apart (two-sided 5 % level; farms as blocks)"}
+                    {panel.averagedPerArm !== undefined
+                      ? `Blocks to make so that two fruiting methods can be told apart within one strain (two-sided 5 % level${panel.pairs > 1 ? `, adjusted for comparing all ${panel.pairs} pairs of methods, Tukey` : ""}; farms as blocks)`
+                      : panel.pairs > 1
+                        ? `Blocks to make so that each pair of arms can be told apart (two-sided 5 % level, adjusted for comparing all ${panel.pairs} pairs, Tukey; farms as blocks)`
+                        : "Blocks to make so that the two arms can be told apart (two-sided 5 % level; farms as blocks)"}
                   </caption>
                   <thead>
                     <tr className="text-left">
@@ -612,8 +615,8 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
                 <p className="mt-2 text-xs text-ink-soft">
                   The farm-blocked comparison needs {panel.rows[0].exactPerArm.toFixed(1)} blocks per arm for 80 % power; the figures allow
                   for the expected loss and give every farm the same whole number. The spread is between blocks of one arm on one farm.
-                  {designKind === "strain_by_method"
-                    ? " With strains crossed with methods, sizing every pair of arms is enough to compare methods within each strain, as the report does when the best method depends on the strain; a method's effect averaged over the strains then rests on more blocks still."
+                  {panel.averagedPerArm !== undefined
+                    ? ` Methods are compared within each strain when the best method depends on the strain; when it does not, they are compared averaged over the strains, which needs only ${panel.averagedPerArm.toFixed(1)} blocks per arm.`
                     : null}
                 </p>
               ) : null}
