@@ -438,7 +438,7 @@ describe("a strain trial from design to publication", () => {
     await moveTrial(coordinator, trialId, "published");
     const published = await getTrial(observer, trialId);
     expect(published.status).toBe("published");
-    expect(published.results?.analysis.answer).toMatch(/Arm B/);
+    expect(published.results?.analysis.answer).toMatch(/^Valley Wild \(arm B\) gave/);
     const { rows: people } = await inspector.query<{ email: string }>("select email from users where active");
     const mail = await caughtMail(new RegExp(`^Results of trial ${trial.code}`), people.length);
     expect(mail.flatMap((message) => message.recipients).sort()).toEqual(people.map((person) => person.email).sort());
