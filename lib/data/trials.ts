@@ -554,6 +554,17 @@ export async function moveTrial(
         throw new AppError("conflict", "A trial needs at least 2 arms before enrolment opens. Add an arm to the design.");
       if (trial.arms.filter((arm) => arm.isReference).length !== 1)
         throw new AppError("conflict", "Mark exactly one arm as the reference before enrolment opens.");
+      if (trial.designKind === "strain_by_method") {
+        // Saved drafts were checked; a strain or method edited in the registry since must not leave half a crossing open.
+        const problems = crossedArmsProblems(
+          trial.arms,
+          trial.arms.map((arm) => ({ id: arm.strainId, name: arm.strainName })),
+          trial.arms.flatMap((arm) =>
+            arm.treatmentId ? [{ id: arm.treatmentId, name: arm.treatmentName ?? "", kind: arm.treatmentKind ?? undefined }] : [],
+          ),
+        );
+        if (problems.length) throw new AppError("conflict", `${problems[0]} Edit the design before enrolment opens.`);
+      }
     }
     if (to === "running") {
       const accepted = await acceptedFarms(tx, trialId);

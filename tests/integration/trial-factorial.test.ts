@@ -101,6 +101,15 @@ describe("a trial crossing strains with fruiting methods", () => {
     ]);
   });
 
+  it("does not open enrolment on half a crossing, should the arms change after the draft was saved", async () => {
+    await inspector.query("update trial_arms set treatment_id = $1 where trial_id = $2 and label = 'D'", [methodIds[0], trialId]);
+    await expect(moveTrial(coordinator, trialId, "open")).rejects.toMatchObject({
+      code: "conflict",
+      message: expect.stringMatching(/^Two arms are both Valley Wild with Opened top \S+; each combination is one arm\./) as unknown,
+    });
+    await inspector.query("update trial_arms set treatment_id = $1 where trial_id = $2 and label = 'D'", [methodIds[1], trialId]);
+  });
+
   it("enrols four farms, whose blocks are analysed as a crossing when the trial closes", async () => {
     await moveTrial(coordinator, trialId, "open");
     await inviteFarms(

@@ -343,7 +343,8 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
                   ))}
                 </ul>
               ) : null}
-              <Errors name="arms" errors={armErrors} />
+              {/* The server's refusal, less what the live check above already says. */}
+              <Errors name="arms" errors={armErrors.filter((error) => !crossingProblems.includes(error))} />
             </div>
           ) : (
             <>
