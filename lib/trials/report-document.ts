@@ -282,6 +282,41 @@ export function trialReportRows(trial: ReportTrial): Record<string, string | num
       p_adjusted: pText(row.pAdjusted),
     });
   }
+  const factorial = trial.results.factorial;
+  if (factorial?.anova) {
+    const [first, second] = factorial.factors;
+    for (const cell of factorial.cellMeans)
+      rows.push({
+        ...base,
+        table: `mean BE (%) of each ${first} with each ${second}, farm-adjusted`,
+        arm: `${cell.levels[0]} with ${cell.levels[1]}`,
+        blocks: cell.blocks,
+        estimate: round(cell.estimate),
+        lower: round(cell.lower),
+        upper: round(cell.upper),
+      });
+    const comparisons = (table: string, list: FactorialComparison[], within = "") =>
+      list.map((row) => ({
+        ...base,
+        table,
+        arm: row.level,
+        compared_with: row.versus,
+        estimate: round(row.estimate),
+        lower: round(row.lower),
+        upper: round(row.upper),
+        p_adjusted: pText(row.pAdjusted),
+        note: within,
+      }));
+    rows.push(
+      ...comparisons(`${first} difference averaged over ${second}s (BE points, Tukey)`, factorial.mainEffects[0]),
+      ...comparisons(`${second} difference averaged over ${first}s (BE points, Tukey)`, factorial.mainEffects[1]),
+      ...(factorial.interactionMaterial
+        ? factorial.simpleEffects[0].flatMap((group) =>
+            comparisons(`${first} difference within one ${second} (BE points, Tukey)`, group.comparisons, `with ${group.within}`),
+          )
+        : []),
+    );
+  }
   for (const pooling of analysis.farmPooling) {
     const table = "farm by farm difference (BE points)";
     for (const farm of pooling.farms) {

@@ -3,7 +3,7 @@ import { seededRandom } from "@/lib/random";
 import { analyseFactorialTrial, factorialDesignFromArms } from "./factorial";
 import { trialOutcomeRecords } from "./outcome";
 import { trialReport } from "./report";
-import { trialReportDocument, type ReportTrial } from "./report-document";
+import { trialReportDocument, trialReportRows, type ReportTrial } from "./report-document";
 
 // Invented crossed trial: two strains × two fruiting methods on four farms; farm keys stand for farm ids.
 const arms = [
@@ -103,6 +103,12 @@ describe("the report of a trial crossing strains with fruiting methods", () => {
     ]);
     expect(section.tables[0].rows.map((row) => row[0])).toEqual(["Fruiting method", "Strain", "Fruiting method x strain", "Farm"]);
     expect(section.tables[1].rows[0].slice(0, 3)).toEqual(["Opened top", "Grey Morning", "20"]);
+    // The CSV carries the same figures, rounded to 0.1 as the page shows them.
+    const csv = trialReportRows(trial);
+    const slits = csv.find((row) => row.table === "fruiting method difference averaged over strains (BE points, Tukey)")!;
+    expect(slits).toMatchObject({ arm: "Horizontal slits", compared_with: "Opened top" });
+    expect(slits.estimate).toBe(Number(results.factorial!.mainEffects[0][0].estimate.toFixed(1)));
+    expect(csv.filter((row) => String(row.table).startsWith("mean BE (%) of each fruiting method"))).toHaveLength(4);
   });
 
   it("gives a one-factor trial no crossed analysis, and names its arms by strain and method", () => {
