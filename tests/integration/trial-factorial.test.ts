@@ -1,4 +1,7 @@
 import type { Pool } from "pg";
+import { createElement } from "react";
+import { renderToStaticMarkup } from "react-dom/server";
+import { FactorialResults } from "@/app/(app)/trials/_components/factorial-results";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase } from "@/db/client";
 import { loadMember, type Member } from "@/lib/data/members";
@@ -167,5 +170,12 @@ describe("a trial crossing strains with fruiting methods", () => {
     expect(answer).toContain("Valley Wild gave");
     expect(answer).toMatch(/did not clearly depend on the strain \(interaction p = 0\.\d{3}\)/);
     expect(answer).not.toMatch(/\barm\b/i);
+
+    // The results page's tables of the crossing, as the server renders them.
+    const html = renderToStaticMarkup(createElement(FactorialResults, { factorial }));
+    expect(html).toContain("Does the fruiting method matter, does the strain, and does one depend on the other?");
+    expect(html).toMatch(/<th scope="row"[^>]*>Fruiting method × strain<\/th>/);
+    expect(html.match(/16 blocks/g)).toHaveLength(4);
+    expect(html).toContain(`${factorial.mainEffects[0][0].estimate.toFixed(1)}<`);
   });
 });
