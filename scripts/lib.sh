@@ -117,11 +117,12 @@ start_mail_server() {
 # Builds the app into $NEXT_DIST_DIR (default .next) unless a build newer than every source is there.
 ensure_app_build() {
   local dist_dir="${NEXT_DIST_DIR:-.next}"
-  if [ -f "$dist_dir/BUILD_ID" ] && [ -z "$(find app components lib db auth.ts auth.config.ts proxy.ts next.config.ts package-lock.json public \
-    -newer "$dist_dir/BUILD_ID" -not -path 'db/migrations/*' -print -quit 2>/dev/null)" ]; then
+  # public/sw.js is written from the build (npm run build), so it is always newer than BUILD_ID.
+  if [ -f "$dist_dir/BUILD_ID" ] && [ -f public/sw.js ] && [ -z "$(find app components lib db auth.ts auth.config.ts proxy.ts next.config.ts serwist.config.js package-lock.json public \
+    -newer "$dist_dir/BUILD_ID" -not -path 'db/migrations/*' -not -path 'public/sw.js*' -print -quit 2>/dev/null)" ]; then
     say "The app build is up to date"
   else
     say "Building the app (about a minute)"
-    npx next build
+    npm run build
   fi
 }

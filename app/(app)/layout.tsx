@@ -3,6 +3,7 @@ import { QueryProvider } from "@/components/query-provider";
 import { currentMember } from "@/lib/auth/guard";
 import { roleLabels } from "@/lib/auth/permissions";
 import { navigationFor } from "@/lib/navigation";
+import { ServiceWorker } from "@/components/offline/service-worker";
 import { AppNavigation } from "./_components/app-navigation";
 
 export default async function SignedInLayout({ children }: { children: React.ReactNode }) {
@@ -15,6 +16,7 @@ export default async function SignedInLayout({ children }: { children: React.Rea
       <main id="main" className="mx-auto w-full max-w-6xl flex-1 px-4 py-6 sm:px-8 sm:py-10">
         <QueryProvider>{children}</QueryProvider>
       </main>
+      <ServiceWorker />
     </div>
   );
 }
