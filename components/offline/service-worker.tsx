@@ -24,3 +24,14 @@ export function keepThisPageOffline(): void {
     registration.active?.postMessage({ type: "CACHE_URLS", payload: { urlsToCache: [window.location.href] } }),
   );
 }
+
+/** On signing out: the kept harvest form (this member's blocks) is not for whoever uses the phone next. Their unsent entries stay, for them. */
+export async function forgetKeptPages(): Promise<void> {
+  if (!("caches" in window)) return;
+  try {
+    const names = await caches.keys();
+    await Promise.all(names.filter((name) => name.startsWith("harvest-page-v")).map((name) => caches.delete(name)));
+  } catch {
+    // Signing out goes on whatever the cache says.
+  }
+}

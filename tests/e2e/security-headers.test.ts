@@ -1,5 +1,5 @@
 import type { Pool } from "pg";
-import type { BrowserContext, Page } from "playwright-core";
+import { request, type BrowserContext, type Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { superuserPool } from "../integration/support/database";
 import { appUrl, openBrowser, screenshot } from "./support/browser";
@@ -214,5 +214,27 @@ describe("the Content Security Policy and security headers", () => {
     const script = /<script src="([^"]+\.js)"/.exec(html)?.[1];
     expect(script).toBeDefined();
     expectSecurityHeaders(await page.request.get(`${appUrl}${script}`), script!, false);
+  });
+
+  it("let the installable app's files through without a session, the offline worker under its own policy", async () => {
+    // A browser fetches the manifest without cookies; a redirect to sign in would make the app uninstallable.
+    const anonymous = await request.newContext();
+    try {
+      const manifest = await anonymous.get(`${appUrl}/manifest.webmanifest`, { maxRedirects: 0 });
+      expect(manifest.status()).toBe(200);
+      expect(((await manifest.json()) as { start_url?: string }).start_url).toBe("/blocks/harvest");
+      expectSecurityHeaders(manifest, "GET /manifest.webmanifest", false);
+      const icon = await anonymous.get(`${appUrl}/icons/icon-192.png`, { maxRedirects: 0 });
+      expect(icon.status()).toBe(200);
+      expectSecurityHeaders(icon, "GET /icons/icon-192.png", false);
+      const worker = await anonymous.get(`${appUrl}/sw.js`, { maxRedirects: 0 });
+      expect(worker.status()).toBe(200);
+      const policy = worker.headers()["content-security-policy"] ?? "";
+      expect(policy).toContain("default-src 'self'");
+      expect(policy).toContain("frame-ancestors 'none'");
+      expect(worker.headers()["x-content-type-options"]).toBe("nosniff");
+    } finally {
+      await anonymous.dispose();
+    }
   });
 });
