@@ -82,6 +82,8 @@ describe("the phone harvest form without a signal", () => {
     }
     expect(await queue(page).textContent()).toBe("Saved on this phone, not sent yet (3)");
     expect(await page.getByText("could not be shown").count()).toBe(0);
+    // The next flush counts the ones kept on the phone.
+    expect(await page.getByLabel("Flush").inputValue()).toBe(String(block.flushes + 4));
     await screenshot(page, "offline-2-three-flushes-waiting");
     expect(await storedFlushes()).toEqual([]);
 

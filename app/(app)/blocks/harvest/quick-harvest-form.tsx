@@ -141,7 +141,13 @@ export function QuickHarvestForm({
     return { status: "kept", message: `Flush ${fields.flush} of ${fields.blockCode}: ${fields.weight} ${fields.unit}.` };
   }, initial);
   const [blockCode, setBlockCode] = useState(initialBlock);
-  const suggested = targets.find((target) => target.code.toLowerCase() === blockCode.trim().toLowerCase())?.nextFlush;
+  const sameBlock = (code: string) => code.trim().toLowerCase() === blockCode.trim().toLowerCase();
+  const storedNext = targets.find((target) => sameBlock(target.code))?.nextFlush;
+  // Flushes kept on the phone count too, so a round of the grow room without a signal goes 1, 2, 3.
+  const keptFlushes = (kept ?? [])
+    .filter((entry) => !entry.refused && sameBlock(entry.fields.blockCode))
+    .map((entry) => Number(entry.fields.flush));
+  const suggested = storedNext ? Math.max(storedNext, ...keptFlushes.map((flush) => flush + 1)) : undefined;
   const [flush, setFlush] = useState<string>(suggested ? String(suggested) : "");
   const [flushTouched, setFlushTouched] = useState(false);
   const shownFlush = flushTouched ? flush : suggested ? String(suggested) : flush;
@@ -216,7 +222,7 @@ export function QuickHarvestForm({
           <p role="status">{state.message}</p>
         </Notice>
       ) : null}
-      {state.status === "kept" ? (
+      {state.status === "kept" && waiting.length > 0 ? (
         <Notice tone="caution" title="No signal: kept on this phone">
           <p>{state.message}</p>
         </Notice>
