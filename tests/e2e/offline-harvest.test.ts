@@ -67,9 +67,12 @@ describe("the phone harvest form without a signal", () => {
     await form.open();
     // The worker has taken over and keeps this page for opening without a signal.
     await page.waitForFunction(() => navigator.serviceWorker.controller !== null, undefined, { timeout: 30_000 });
-    await page.waitForFunction(async () => (await caches.match("/blocks/harvest", { ignoreSearch: true })) !== undefined, undefined, {
-      timeout: 30_000,
-    });
+    // Polled from here: waitForFunction would take the predicate's promise itself for a yes.
+    await expect
+      .poll(() => page.evaluate(async () => (await caches.match("/blocks/harvest", { ignoreSearch: true })) !== undefined), {
+        timeout: 30_000,
+      })
+      .toBe(true);
 
     await phone.setOffline(true);
     await page.reload();
