@@ -187,7 +187,8 @@ export function QuickHarvestForm({
     setFlush(entry.fields.flush);
     setFlushTouched(true);
     setWeight(entry.fields.weight);
-    if (units.some((choice) => choice === entry.fields.unit)) setUnitChoice(entry.fields.unit as Unit);
+    const keptUnit = units.find((choice) => choice === entry.fields.unit);
+    if (keptUnit) setUnitChoice(keptUnit);
     setDayChoice(entry.fields.harvestedOn);
     changed();
     await dropKept(entry.clientKey);
