@@ -187,8 +187,8 @@ export function QuickHarvestForm({
     setFlush(entry.fields.flush);
     setFlushTouched(true);
     setWeight(entry.fields.weight);
-    const keptUnit = units.find((choice) => choice === entry.fields.unit);
-    if (keptUnit) setUnitChoice(keptUnit);
+    const entryUnit = units.find((choice) => choice === entry.fields.unit);
+    if (entryUnit) setUnitChoice(entryUnit);
     setDayChoice(entry.fields.harvestedOn);
     changed();
     await dropKept(entry.clientKey);
