@@ -4,7 +4,8 @@
  * and the entry was lost. Now the form opens with the phone offline, three flushes saved offline
  * wait on the phone with their count shown, and when the signal returns each arrives exactly
  * once. An answer lost after the server stored the entry (as when the server is killed after it
- * committed) is sent again with the same key and still stored once.
+ * committed) is sent again with the same key and still stored once. An entry the server refuses
+ * (a flush stored already) waits as "Not saved" until the grower puts it back in the form.
  */
 import type { Pool } from "pg";
 import type { BrowserContext, Page } from "playwright-core";
@@ -123,6 +124,26 @@ describe("the phone harvest form without a signal", () => {
     await page.getByRole("button", { name: "Send now" }).click();
     await page.getByText("Sent 1 entry kept on this phone.").waitFor({ timeout: 30_000 });
     expect((await storedFlushes()).filter((row) => row.flush === block.flushes + 4)).toHaveLength(1);
+    await page.close();
+  });
+
+  it("an entry kept offline that the server refuses waits for the grower, who puts it back in the form", async () => {
+    const page = await phone.newPage();
+    await new QuickHarvestPage(page).open();
+    await phone.setOffline(true);
+    // Flush 1 of the block again: stored already, so the server will refuse it as a duplicate.
+    await recordFlush(page, block.flushes + 1);
+    await page.getByText("Saved on this phone, not sent yet (1)").waitFor();
+    await phone.setOffline(false);
+    const refused = page.getByRole("alert").filter({ hasText: `Not saved: flush ${block.flushes + 1} of ${block.code}` });
+    await refused.waitFor({ timeout: 30_000 });
+    expect(await queue(page).count()).toBe(0);
+    await screenshot(page, "offline-5-refused-entry-waits");
+    await refused.getByRole("button", { name: "Put back in the form" }).click();
+    await refused.waitFor({ state: "detached" });
+    expect(await page.getByLabel("Flush").inputValue()).toBe(String(block.flushes + 1));
+    expect(await page.getByLabel("Fresh weight").inputValue()).toBe("50");
+    expect((await storedFlushes()).filter((row) => row.flush === block.flushes + 1)).toHaveLength(1);
     await page.close();
   });
 });
