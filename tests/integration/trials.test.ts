@@ -24,6 +24,8 @@ import { seededRandom } from "@/lib/random";
 import { blockedAnova, biologicalEfficiency, wilsonInterval } from "@/lib/stats";
 import { runQueuedJobs, stopJobWorkers } from "@/lib/jobs/worker";
 import { permutedBlockList } from "@/lib/trials";
+import { addDays } from "@/lib/trials/timeline";
+import { todayUtc } from "@/lib/import/dates";
 import { inbox } from "../support/mailbox";
 import { superuserPool } from "./support/database";
 
@@ -101,6 +103,12 @@ describe("a strain trial from design to publication", () => {
       contaminatedHandling: "exclude",
       protocolNotes: "2.5 kg blocks of HWB-20.",
       enrolmentDeadline: null,
+      // A timeline whose due date has passed, so a farm with records missing is behind.
+      inoculationFrom: addDays(todayUtc(), -120),
+      inoculationTo: addDays(todayUtc(), -100),
+      fruitingFrom: addDays(todayUtc(), -80),
+      fruitingTo: addDays(todayUtc(), -20),
+      dataDue: addDays(todayUtc(), -1),
       smallestDifference: 10,
       expectedSd: 12,
       plannedFarms: 4,
@@ -242,6 +250,7 @@ describe("a strain trial from design to publication", () => {
     const behind = progress.filter((row) => row.behind);
     expect(behind.map((row) => row.farmId)).toEqual([managers[3].farmId]);
     expect(behind[0].due).toEqual(["flush 2 of 1 blocks"]);
+    expect(behind[0].behindWhy[0]).toMatch(/were due on .* still missing: flush 2 of 1 blocks/);
 
     const own = await getOwnProgress(managers[3], trial);
     expect(own).toMatchObject({ blocksMade: 12, flushesRecorded: [11, 10] });

@@ -17,6 +17,7 @@ import {
   listInvitableFarms,
   listTrialHistory,
   listTrialProgress,
+  timelineOf,
   type CloseReview,
   type TrialView,
 } from "@/lib/data/trials";
@@ -28,6 +29,8 @@ import { AnalysisRunsCard, RunChoice } from "../_components/analysis-runs";
 import { CloseReviewCard } from "../_components/close-review";
 import { ProtocolSummary } from "../_components/protocol-summary";
 import { StatusBadge } from "../_components/status-badge";
+import { TrialTimelineBar } from "../_components/trial-timeline";
+import { todayUtc } from "@/lib/import/dates";
 
 export const metadata: Metadata = { title: "Trial" };
 
@@ -65,6 +68,9 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
           {review ? <CloseReviewCard review={review} outcomeFlushes={trial.outcomeFlushes} /> : null}
           {coordinator && (trial.runs.length || hasResults(trial.status)) ? <AnalysisRunsCard trial={trial} /> : null}
           {coordinator && trial.status !== "draft" ? <CoordinatorFollowing trial={trial} member={member} /> : null}
+          <Card title="Timeline">
+            <TrialTimelineBar timeline={timelineOf(trial)} today={todayUtc()} />
+          </Card>
           <ProtocolSummary trial={trial} />
         </div>
         <div className="space-y-6">{coordinator ? <CoordinatorControls trial={trial} member={member} review={review} /> : null}</div>
@@ -231,6 +237,8 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
                     </th>
                   ))}
                   <th scope="col">Contaminated</th>
+                  <th scope="col">Against the timeline</th>
+                  <th scope="col">Last reminded</th>
                   <th scope="col">
                     <span className="sr-only">Reminder</span>
                   </th>
@@ -250,6 +258,18 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
                       <td key={index}>{count}</td>
                     ))}
                     <td>{row.progress.contaminated}</td>
+                    <td data-testid="behind">
+                      {row.behind ? `Behind: ${row.behindWhy.join("; ")}` : row.status === "accepted" ? "On time" : ""}
+                    </td>
+                    <td data-testid="last-reminded">
+                      {row.lastRemindedAt ? (
+                        <time dateTime={row.lastRemindedAt.toISOString()}>
+                          {row.lastRemindedAt.toISOString().slice(0, 16).replace("T", " ")} UTC
+                        </time>
+                      ) : (
+                        "Never"
+                      )}
+                    </td>
                     <td className="py-1">
                       {canRemind && row.behind ? (
                         row.remindersAllowed ? (
