@@ -110,6 +110,8 @@ describe("a trial's timeline and the coordinator's follow-up", () => {
     expect(await new AppShell(page).menuLabels()).not.toContain("Follow-up");
     await page.goto(`${appUrl}/coordinator`);
     await page.waitForURL(/\/forbidden/);
+    await page.goto(appUrl);
+    await new AppShell(page).waitUntilSignedIn();
     await new AppShell(page).signOut();
     expect(errors).toEqual([]);
   });

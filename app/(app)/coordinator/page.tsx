@@ -50,7 +50,7 @@ export default async function CoordinatorHomePage() {
         {home.running.map((trial) => (
           <Card key={trial.id} title={`${trial.code}: ${trial.title}`}>
             <TrialTimelineBar timeline={trial.timeline} today={home.today} />
-            <div className="mt-4 overflow-x-auto">
+            <div className="mt-4 overflow-x-auto" tabIndex={0} role="region" aria-label={`Farms of ${trial.code}`}>
               <table className="w-full min-w-[48rem] text-sm [&_td]:pr-3 [&_th]:pr-3" data-testid={`farm-status-${trial.code}`}>
                 <caption className="sr-only">Where each farm&apos;s records of {trial.code} stand</caption>
                 <thead>

@@ -23,6 +23,7 @@ import {
 } from "@/lib/data/trials";
 import { hasResults, moveLabels, nextStatuses, remindersRun, trialStatusLabels, type TrialStatus } from "@/lib/trials/lifecycle";
 import { trialSampleSize } from "@/lib/trials/sample-size";
+import { behindReasons } from "@/lib/trials/timeline";
 import { askToJoinTrialAction, inviteFarmsAction, moveTrialAction, respondToInvitationAction, sendReminderAction } from "../actions";
 import { ActionForm } from "@/components/forms/action-form";
 import { AnalysisRunsCard, RunChoice } from "../_components/analysis-runs";
@@ -220,7 +221,7 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
         {progress.length === 0 ? (
           <p className="text-sm text-ink-soft">No farm has been invited yet.</p>
         ) : (
-          <div className="overflow-x-auto">
+          <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Farms and their progress">
             <table className="w-full min-w-[44rem] text-sm [&_td]:pr-3 [&_th]:pr-3" data-testid="progress-table">
               <thead>
                 <tr className="text-left">
@@ -356,6 +357,7 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
   const progress = await getOwnProgress(member, trial);
   // Once the trial is closed nothing is due any more: no reminder comes, and later records are not in its analysis.
   const due = progress && remindersRun(trial.status) ? dueItems(progress) : [];
+  const behind = progress && remindersRun(trial.status) ? behindReasons(timelineOf(trial), progress, todayUtc()) : [];
   return (
     <Card title="Your farm's part">
       <p className="text-sm">
@@ -402,6 +404,13 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
             <dd className="text-lg font-semibold">{progress.contaminated}</dd>
           </div>
         </dl>
+      ) : null}
+      {behind.length ? (
+        <div className="mt-4" data-testid="own-behind">
+          <Notice tone="caution" title="Behind the trial's timeline">
+            <p>{behind.join("; ")}.</p>
+          </Notice>
+        </div>
       ) : null}
       <h3 className="mt-4 font-semibold">Still due</h3>
       {due.length ? (
