@@ -80,7 +80,10 @@ describe("a trial's timeline and the coordinator's follow-up", () => {
       `Data due: ${addDays(today, 5)} (in 5 days).`,
     ]);
     const progress = page.getByTestId("progress-table");
-    expect(await progress.getByTestId("behind").first().textContent()).toMatch(/^Behind: 6 listed blocks are not in the season log/);
+    expect(await progress.getByTestId("behind").allTextContents()).toEqual(["Behind", "Behind", "Behind"]);
+    expect(await page.getByTestId("behind-why").getByRole("listitem").first().textContent()).toBe(
+      `Fernbrook Farm: 6 listed blocks are not in the season log, and the inoculation window closed on ${addDays(today, -10)}`,
+    );
     expect(await progress.getByTestId("last-reminded").allTextContents()).toEqual(["Never", "Never", "Never"]);
     await screenshot(page, "trial-timeline");
     expect(await seriousAccessibilityProblems(page)).toEqual([]);

@@ -65,13 +65,13 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
       </div>
       <div className="grid gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="space-y-6">
+          <Card title="Timeline">
+            <TrialTimelineBar timeline={timelineOf(trial)} today={todayUtc()} />
+          </Card>
           {member.farmId ? <FarmSection trial={trial} member={member} /> : null}
           {review ? <CloseReviewCard review={review} outcomeFlushes={trial.outcomeFlushes} /> : null}
           {coordinator && (trial.runs.length || hasResults(trial.status)) ? <AnalysisRunsCard trial={trial} /> : null}
           {coordinator && trial.status !== "draft" ? <CoordinatorFollowing trial={trial} member={member} /> : null}
-          <Card title="Timeline">
-            <TrialTimelineBar timeline={timelineOf(trial)} today={todayUtc()} />
-          </Card>
           <ProtocolSummary trial={trial} />
         </div>
         <div className="space-y-6">{coordinator ? <CoordinatorControls trial={trial} member={member} review={review} /> : null}</div>
@@ -259,9 +259,7 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
                       <td key={index}>{count}</td>
                     ))}
                     <td>{row.progress.contaminated}</td>
-                    <td data-testid="behind">
-                      {row.behind ? `Behind: ${row.behindWhy.join("; ")}` : row.status === "accepted" ? "On time" : ""}
-                    </td>
+                    <td data-testid="behind">{row.behind ? "Behind" : row.status === "accepted" ? "On time" : ""}</td>
                     <td data-testid="last-reminded">
                       {row.lastRemindedAt ? (
                         <time dateTime={row.lastRemindedAt.toISOString()}>
@@ -291,6 +289,20 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
             </table>
           </div>
         )}
+        {progress.some((row) => row.behind) ? (
+          <div className="mt-4">
+            <h3 className="font-semibold">Behind the timeline</h3>
+            <ul className="list-disc pl-5 text-sm" data-testid="behind-why">
+              {progress
+                .filter((row) => row.behind)
+                .map((row) => (
+                  <li key={row.farmId}>
+                    {row.farmName}: {row.behindWhy.join("; ")}
+                  </li>
+                ))}
+            </ul>
+          </div>
+        ) : null}
       </Card>
     </>
   );
