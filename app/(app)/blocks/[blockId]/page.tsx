@@ -13,6 +13,7 @@ import { isAppError } from "@/lib/errors";
 import { seasonLogColumns } from "@/lib/import/schema";
 import { formatMass } from "@/lib/units";
 import { BlockCorrectionForm, HarvestCorrectionForm } from "./_components/correction-forms";
+import { ScrollFrame } from "@/components/ui/scroll-frame";
 
 export const metadata: Metadata = { title: "Block" };
 
@@ -93,7 +94,7 @@ export default async function BlockPage({
         ) : null}
         {block.contaminated ? <Caution which="spores" /> : null}
         <Card title="The block">
-          <dl className="grid gap-x-6 gap-y-2 text-sm sm:grid-cols-[12rem_1fr]">
+          <dl className="grid grid-cols-1 gap-x-6 gap-y-2 text-sm sm:grid-cols-[12rem_1fr]">
             {facts.map(([label, value]) => (
               <div key={label} className="contents">
                 <dt className="text-ink-soft">{label}</dt>
@@ -106,7 +107,7 @@ export default async function BlockPage({
           {block.harvests.length === 0 ? (
             <p className="text-ink-soft">No harvest yet.</p>
           ) : (
-            <div className="overflow-x-auto">
+            <ScrollFrame label={`Flushes of block ${block.code}`}>
               <table className="min-w-full text-sm">
                 <caption className="sr-only">Flushes of block {block.code}</caption>
                 <thead className="bg-oat-200 text-left">
@@ -169,7 +170,7 @@ export default async function BlockPage({
                   ))}
                 </tbody>
               </table>
-            </div>
+            </ScrollFrame>
           )}
         </Card>
         {correctingBlock || correctedHarvest ? (

@@ -75,7 +75,7 @@ export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
   return (
     <div className="space-y-6">
       <form
-        className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4"
+        className="grid grid-cols-1 gap-4 sm:grid-cols-2 lg:grid-cols-4"
         aria-label="Choose what to compare"
         onSubmit={(event) => event.preventDefault()}
       >

@@ -416,7 +416,7 @@ function MappingStep(props: {
           </div>
         ) : null}
         {decimalColumns.length > 0 ? (
-          <div className="grid gap-3 sm:grid-cols-2">
+          <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
             {decimalColumns.map((header, index) => (
               <div key={header} className="space-y-1">
                 <label htmlFor={`decimal-${index}`} className="block text-sm font-medium">
@@ -441,7 +441,7 @@ function MappingStep(props: {
             ))}
           </div>
         ) : null}
-        <div className="grid gap-3 sm:grid-cols-2">
+        <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
           {detected.mapping.columns.map((column) => {
             const id = `map-${column.position}`;
             return (
@@ -466,7 +466,7 @@ function MappingStep(props: {
             );
           })}
         </div>
-        <div className="grid gap-3 sm:grid-cols-2">
+        <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
           <div className="space-y-1">
             <label htmlFor="date-order" className="block text-sm font-medium">
               How are dates written?

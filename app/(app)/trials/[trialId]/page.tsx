@@ -28,6 +28,7 @@ import { AnalysisRunsCard, RunChoice } from "../_components/analysis-runs";
 import { CloseReviewCard } from "../_components/close-review";
 import { ProtocolSummary } from "../_components/protocol-summary";
 import { StatusBadge } from "../_components/status-badge";
+import { ScrollFrame } from "@/components/ui/scroll-frame";
 
 export const metadata: Metadata = { title: "Trial" };
 
@@ -59,7 +60,7 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
           </span>
         ) : null}
       </div>
-      <div className="grid gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
+      <div className="grid grid-cols-1 gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="space-y-6">
           {member.farmId ? <FarmSection trial={trial} member={member} /> : null}
           {review ? <CloseReviewCard review={review} outcomeFlushes={trial.outcomeFlushes} /> : null}
@@ -214,7 +215,7 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
         {progress.length === 0 ? (
           <p className="text-sm text-ink-soft">No farm has been invited yet.</p>
         ) : (
-          <div className="overflow-x-auto">
+          <ScrollFrame label="Farms and their progress">
             <table className="w-full min-w-[44rem] text-sm [&_td]:pr-3 [&_th]:pr-3" data-testid="progress-table">
               <thead>
                 <tr className="text-left">
@@ -268,7 +269,7 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
                 ))}
               </tbody>
             </table>
-          </div>
+          </ScrollFrame>
         )}
       </Card>
     </>
