@@ -28,12 +28,14 @@ export default async function MembersPage() {
   const { farms, people, invitations } = await listMembership(member);
   const farmName = new Map(farms.map((farm) => [farm.id, farm.name]));
   const activeFarms = farms.filter((farm) => farm.status === "active");
-  // The farm just admitted (the newest with nobody in it and nobody invited) is the one to invite a manager for.
-  const waitingForManager = activeFarms
-    .filter(
-      (farm) => !people.some((person) => person.farmId === farm.id) && !invitations.some((invitation) => invitation.farmId === farm.id),
-    )
-    .sort((a, b) => b.joinedAt.getTime() - a.joinedAt.getTime())[0];
+  // The farm admitted last, chosen in the invitation form while nobody is in it or invited to it yet.
+  const newestFarm = [...activeFarms].sort((a, b) => b.joinedAt.getTime() - a.joinedAt.getTime())[0];
+  const waitingForManager =
+    newestFarm &&
+    !people.some((person) => person.farmId === newestFarm.id) &&
+    !invitations.some((invitation) => invitation.farmId === newestFarm.id)
+      ? newestFarm
+      : undefined;
 
   return (
     <>
@@ -56,8 +58,8 @@ export default async function MembersPage() {
             They get an e-mail with a link that works once, for 7 days, to choose their password.
           </p>
           <ActionForm
-            // A newly admitted farm remounts the form with that farm chosen.
-            key={waitingForManager?.id ?? "none"}
+            // Admitting a farm remounts the form with that farm chosen; sending an invitation does not (its answer stays).
+            key={newestFarm?.id ?? "none"}
             action={inviteMemberAction}
             testId="invite-member"
             submitLabel="Send invitation"
