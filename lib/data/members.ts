@@ -9,7 +9,7 @@ import { AppError } from "@/lib/errors";
 import { enqueue } from "@/lib/jobs/queue";
 import { invitationMessage, passwordChangedMessage, passwordResetMessage, roleChangedMessage } from "@/lib/mail/messages/members";
 import { deactivationProblem, invitationProblem, roleChangeProblem, transferProblem, type Person } from "@/lib/members/roles";
-import type { DateStyle } from "@/lib/time/display";
+import { chosenDisplay, type DateStyle } from "@/lib/time/display";
 import { hashToken, isWellFormedToken, tokenExpiresAt, type TokenPurpose } from "@/lib/members/tokens";
 import { actor, recordAudit } from "./audit";
 import { queueMail, secretLink } from "./mail";
@@ -438,8 +438,13 @@ export async function issuePasswordReset(request: { email: string; ip: string | 
     if (!found) return;
     const link = secretLink({ for: "password-reset", userId: found.user_id });
     // The member's zone only when they chose one: a job knows no browser, so otherwise UTC, named as such.
-    const display = { timeZone: found.time_zone ?? "UTC", dateStyle: found.date_style };
-    await queueMail(tx, "password-reset", passwordResetMessage({ to: request.email, name: found.name, link: link.slot, expiresAt, display }), link);
+    const display = chosenDisplay({ timeZone: found.time_zone, dateStyle: found.date_style });
+    await queueMail(
+      tx,
+      "password-reset",
+      passwordResetMessage({ to: request.email, name: found.name, link: link.slot, expiresAt, display }),
+      link,
+    );
   });
 }
 

@@ -26,6 +26,14 @@ export interface TimeDisplay {
 /** For readers we know nothing about (an invitation's addressee, a job's log): UTC, written as such. */
 export const utcDisplay: TimeDisplay = { timeZone: "UTC", dateStyle: "iso" };
 
+/**
+ * For text made away from a browser (an e-mail, a message from the data layer): the zone the
+ * member chose, else UTC, which the formatter then names.
+ */
+export function chosenDisplay(member: { timeZone: string | null; dateStyle: DateStyle }): TimeDisplay {
+  return { timeZone: member.timeZone ?? "UTC", dateStyle: member.dateStyle };
+}
+
 let zoneNames: Set<string> | undefined;
 
 /** Every zone the settings page offers: the platform's list, plus UTC, which the list leaves out. */

@@ -45,7 +45,13 @@ export function invitationMessage(input: {
 }
 
 /** `display`: the member's own zone and date style when they chose one, else UTC (named as such). */
-export function passwordResetMessage(input: { to: string; name: string; link: string; expiresAt: Date; display: TimeDisplay }): OutgoingMessage {
+export function passwordResetMessage(input: {
+  to: string;
+  name: string;
+  link: string;
+  expiresAt: Date;
+  display: TimeDisplay;
+}): OutgoingMessage {
   return message(
     input.to,
     "Reset your Rhizomorph password",

@@ -13,6 +13,8 @@ import { isAppError } from "@/lib/errors";
 import { seasonLogColumns } from "@/lib/import/schema";
 import { formatMass } from "@/lib/units";
 import { BlockCorrectionForm, HarvestCorrectionForm } from "./_components/correction-forms";
+import { formatDateTime } from "@/lib/time/display";
+import { timeDisplayFor } from "@/lib/time/member-display";
 
 export const metadata: Metadata = { title: "Block" };
 
@@ -49,6 +51,7 @@ export default async function BlockPage({
     throw error;
   }
   const display = member.displayUnits;
+  const times = await timeDisplayFor(member);
   const canCorrect = can(member.role, "farm-data:correct");
   const defaultUnit = display === "imperial" ? "lb" : "g";
   // One correction form at a time: the block's values, or one harvest (its id in ?correct=).
@@ -222,7 +225,8 @@ export default async function BlockPage({
                   {change.flush !== null ? ` of flush ${change.flush}` : ""}: {shownValue(change.field, change.oldValue)} →{" "}
                   {shownValue(change.field, change.newValue)}
                   <span className="block text-ink-soft">
-                    {change.changedAt.slice(0, 16).replace("T", " ")} UTC{change.changedBy ? ` by ${change.changedBy}` : ""}
+                    {formatDateTime(change.changedAt, times)}
+                    {change.changedBy ? ` by ${change.changedBy}` : ""}
                     {change.fileName ? `, from ${change.fileName}` : ""}
                   </span>
                   {change.reason ? <span className="block">Why: {change.reason}</span> : null}
