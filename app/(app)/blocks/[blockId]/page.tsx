@@ -13,7 +13,7 @@ import { isAppError } from "@/lib/errors";
 import { seasonLogColumns } from "@/lib/import/schema";
 import { formatMass } from "@/lib/units";
 import { BlockCorrectionForm, HarvestCorrectionForm } from "./_components/correction-forms";
-import { formatDateTime } from "@/lib/time/display";
+import { formatDate, formatDateTime } from "@/lib/time/display";
 import { timeDisplayFor } from "@/lib/time/member-display";
 
 export const metadata: Metadata = { title: "Block" };
@@ -65,14 +65,17 @@ export default async function BlockPage({
   const facts = [
     ["Strain", block.strainCode],
     ["Substrate recipe", block.recipeCode ?? "not given"],
-    ["Inoculated", block.inoculatedOn ?? "not given"],
+    ["Inoculated", block.inoculatedOn ? formatDate(block.inoculatedOn, member.dateStyle) : "not given"],
     ["Wet block", mass(block.wetMassG)],
     ["Moisture", block.moisture === null ? "not given" : `${(block.moisture * 100).toFixed(1)} %`],
     ["Total fresh", block.flushes === 0 ? noHarvestYet : formatMass(block.totalFreshG, display)],
     ["Biological efficiency", block.flushes === 0 ? noHarvestYet : percent(block.biologicalEfficiency)],
     ["Spent block", mass(block.spentMassG)],
     ["Mass loss", percent(block.massLoss)],
-    ["Contaminated", block.contaminated ? `yes${block.contaminatedOn ? `, found ${block.contaminatedOn}` : ""}` : "no"],
+    [
+      "Contaminated",
+      block.contaminated ? `yes${block.contaminatedOn ? `, found ${formatDate(block.contaminatedOn, member.dateStyle)}` : ""}` : "no",
+    ],
     ["Trial", block.trial ?? "not in a trial"],
   ];
   return (
@@ -143,7 +146,9 @@ export default async function BlockPage({
                   {block.harvests.map((harvest) => (
                     <tr key={harvest.flush} className="border-t border-oat-200">
                       <td className="px-3 py-2">{harvest.flush}</td>
-                      <td className="px-3 py-2">{harvest.harvestedOn ?? "date not given"}</td>
+                      <td className="px-3 py-2">
+                        {harvest.harvestedOn ? formatDate(harvest.harvestedOn, member.dateStyle) : "date not given"}
+                      </td>
                       <td className="px-3 py-2">{formatMass(harvest.freshMassG, display)}</td>
                       <td className="px-3 py-2">{harvest.freshMassAsWritten ?? ""}</td>
                       <td className="px-3 py-2">{harvest.dryMassG === null ? "" : formatMass(harvest.dryMassG, display)}</td>

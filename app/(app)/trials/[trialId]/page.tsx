@@ -68,7 +68,7 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
           {review ? <CloseReviewCard review={review} outcomeFlushes={trial.outcomeFlushes} /> : null}
           {coordinator && (trial.runs.length || hasResults(trial.status)) ? <AnalysisRunsCard trial={trial} display={display} /> : null}
           {coordinator && trial.status !== "draft" ? <CoordinatorFollowing trial={trial} member={member} /> : null}
-          <ProtocolSummary trial={trial} />
+          <ProtocolSummary trial={trial} dateStyle={display.dateStyle} />
         </div>
         <div className="space-y-6">
           {coordinator ? <CoordinatorControls trial={trial} member={member} review={review} display={display} /> : null}

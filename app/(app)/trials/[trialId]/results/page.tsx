@@ -131,7 +131,7 @@ export default async function TrialResultsPage({
               <Report trial={trial} results={version.results} display={display} />
             </section>
           ))}
-          <ProtocolSummary trial={trial} />
+          <ProtocolSummary trial={trial} dateStyle={display.dateStyle} />
         </div>
       )}
     </>
