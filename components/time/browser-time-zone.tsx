@@ -15,7 +15,8 @@ export function BrowserTimeZone() {
       ?.slice(browserZoneCookie.length + 1);
     if (!zone || sent === encodeURIComponent(zone)) return;
     document.cookie = `${browserZoneCookie}=${encodeURIComponent(zone)}; path=/; max-age=31536000; samesite=lax`;
-    router.refresh();
+    // Without the cookie the server wrote UTC; only another zone needs the page drawn again.
+    if (sent !== undefined || (zone !== "UTC" && zone !== "Etc/UTC")) router.refresh();
   }, [router]);
   return null;
 }
