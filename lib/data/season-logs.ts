@@ -320,7 +320,7 @@ async function previewOf(member: Member, sha256: string, result: SeasonLogResult
   // Kept for the commit, which writes them as they are if the marker has not moved by then.
   const commitRows =
     outcome === "received"
-      ? keepCommitRows(stagingKey(choices, knownStrains, todayUtc()), marker, commitRowsOf(plan, storedBlockIds(planInput)))
+      ? await keepCommitRows(stagingKey(choices, knownStrains, todayUtc()), marker, commitRowsOf(plan, storedBlockIds(planInput)))
       : null;
   return { alreadyImportedAt, report, outcome, commitRows };
 }
@@ -469,7 +469,7 @@ async function keepReplacedRows(tx: Transaction, uploadId: string, kind: "block"
 async function writeRows(tx: Transaction, farmId: string, userId: string, uploadId: string, rows: CommitRows): Promise<void> {
   if (rows.blockCount > 0) {
     await tx.execute(sql.raw(stagedBlocks));
-    await copyInto(tx, "copy pg_temp.commit_blocks from stdin", [rows.blocks]);
+    await copyInto(tx, "copy pg_temp.commit_blocks from stdin", rows.blocks);
     if (rows.blockCount > rows.changedBlocks) {
       await tx.execute(sql`
         insert into blocks (id, farm_id, code, strain_id, substrate_recipe_id, fruiting_method_id, trial_arm_id, inoculated_on,
@@ -503,7 +503,7 @@ async function writeRows(tx: Transaction, farmId: string, userId: string, upload
 
   if (rows.harvestCount > 0) {
     await tx.execute(sql.raw(stagedHarvests));
-    await copyInto(tx, "copy pg_temp.commit_harvests from stdin", [rows.harvests]);
+    await copyInto(tx, "copy pg_temp.commit_harvests from stdin", rows.harvests);
     if (rows.harvestCount > rows.changedHarvests) {
       await tx.execute(sql`
         insert into harvests (id, farm_id, block_id, flush, harvested_on, fresh_mass_g, fresh_mass_as_written, fresh_mass_unit,
@@ -543,7 +543,7 @@ async function writeRows(tx: Transaction, farmId: string, userId: string, upload
 
   if (rows.changeCount > 0) {
     await tx.execute(sql.raw(stagedChanges));
-    await copyInto(tx, "copy pg_temp.commit_value_changes from stdin", [rows.changes]);
+    await copyInto(tx, "copy pg_temp.commit_value_changes from stdin", rows.changes);
     await tx.execute(sql`
       insert into value_changes (farm_id, block_id, flush, field, old_value, new_value, upload_id, changed_by)
       select ${farmId}::uuid, block_id, flush, field, old_value, new_value, ${uploadId}::uuid, ${userId}::uuid

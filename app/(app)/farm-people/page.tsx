@@ -30,7 +30,7 @@ export default async function FarmPeoplePage() {
           Your farm&apos;s data
         </ButtonLink>
       </PageHeader>
-      <div className="grid gap-6 lg:grid-cols-2">
+      <div className="grid grid-cols-1 gap-6 lg:grid-cols-2">
         <Card title="Invite a grower">
           <p className="mb-3 text-sm text-ink-soft">
             They get an e-mail with a link that works once, for 7 days, to choose their password.

@@ -18,6 +18,7 @@ import { ActionForm } from "@/components/forms/action-form";
 import { OpenInvitations } from "./_components/open-invitations";
 import { formatDay } from "@/lib/time/display";
 import { timeDisplayFor } from "@/lib/time/member-display";
+import { ScrollFrame } from "@/components/ui/scroll-frame";
 
 export const metadata: Metadata = { title: "Members" };
 
@@ -30,11 +31,17 @@ export default async function MembersPage() {
   const { farms, people, invitations } = await listMembership(member);
   const farmName = new Map(farms.map((farm) => [farm.id, farm.name]));
   const activeFarms = farms.filter((farm) => farm.status === "active");
+  // The farm just admitted (the newest with nobody in it and nobody invited) is the one to invite a manager for.
+  const waitingForManager = activeFarms
+    .filter(
+      (farm) => !people.some((person) => person.farmId === farm.id) && !invitations.some((invitation) => invitation.farmId === farm.id),
+    )
+    .sort((a, b) => b.joinedAt.getTime() - a.joinedAt.getTime())[0];
 
   return (
     <>
       <PageHeader title="Members" lead="Member farms, the people who use Rhizomorph, and the invitations still open." />
-      <div className="grid gap-6 lg:grid-cols-2">
+      <div className="grid grid-cols-1 gap-6 lg:grid-cols-2">
         <Card title="Admit a farm">
           <ActionForm
             action={admitFarmAction}
@@ -52,6 +59,8 @@ export default async function MembersPage() {
             They get an e-mail with a link that works once, for 7 days, to choose their password.
           </p>
           <ActionForm
+            // A newly admitted farm remounts the form with that farm chosen.
+            key={waitingForManager?.id ?? "none"}
             action={inviteMemberAction}
             testId="invite-member"
             submitLabel="Send invitation"
@@ -62,10 +71,12 @@ export default async function MembersPage() {
                 name: "role",
                 label: "Role",
                 options: invitableRoles("coordinator").map((role) => ({ value: role, label: roleLabels[role] })),
+                defaultValue: "farm_manager",
               },
               {
                 name: "farmId",
                 label: "Farm (for a farm manager)",
+                defaultValue: waitingForManager?.id ?? "",
                 options: [
                   { value: "", label: "No farm (co-op role)" },
                   ...activeFarms.map((farm) => ({ value: farm.id, label: farm.name })),
@@ -125,7 +136,7 @@ export default async function MembersPage() {
       )}
 
       <h2 className="mt-10 mb-3 text-xl font-semibold text-moss-800">People</h2>
-      <div className="overflow-x-auto rounded-lg border border-oat-300 bg-white">
+      <ScrollFrame label="People" className="rounded-lg border border-oat-300 bg-white">
         <table className="min-w-full text-sm">
           <caption className="sr-only">Everyone who can use Rhizomorph, with their role</caption>
           <thead className="bg-oat-200 text-left">
@@ -199,7 +210,7 @@ export default async function MembersPage() {
             })}
           </tbody>
         </table>
-      </div>
+      </ScrollFrame>
 
       <OpenInvitations
         display={display}

@@ -23,7 +23,7 @@ export default async function SettingsPage() {
         title="Settings"
         lead={`${account.name} · ${account.email} · ${roleLabels[member.role]}${member.farmName ? ` at ${member.farmName}` : ""}`}
       />
-      <div className="grid gap-6 lg:grid-cols-2">
+      <div className="grid grid-cols-1 gap-6 lg:grid-cols-2">
         <Card title="Display and e-mail">
           <ActionForm
             action={updatePreferencesAction}

@@ -34,7 +34,7 @@ export default async function TrialsPage() {
           </p>
         </Card>
       ) : (
-        <ul className="grid gap-4 md:grid-cols-2">
+        <ul className="grid grid-cols-1 gap-4 md:grid-cols-2">
           {rows.map((trial) => (
             <li key={trial.id}>
               <Card>

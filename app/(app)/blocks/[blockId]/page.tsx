@@ -15,6 +15,7 @@ import { formatMass } from "@/lib/units";
 import { BlockCorrectionForm, HarvestCorrectionForm } from "./_components/correction-forms";
 import { formatDate, formatDateTime } from "@/lib/time/display";
 import { timeDisplayFor } from "@/lib/time/member-display";
+import { ScrollFrame } from "@/components/ui/scroll-frame";
 
 export const metadata: Metadata = { title: "Block" };
 
@@ -99,7 +100,7 @@ export default async function BlockPage({
         ) : null}
         {block.contaminated ? <Caution which="spores" /> : null}
         <Card title="The block">
-          <dl className="grid gap-x-6 gap-y-2 text-sm sm:grid-cols-[12rem_1fr]">
+          <dl className="grid grid-cols-1 gap-x-6 gap-y-2 text-sm sm:grid-cols-[12rem_1fr]">
             {facts.map(([label, value]) => (
               <div key={label} className="contents">
                 <dt className="text-ink-soft">{label}</dt>
@@ -112,7 +113,7 @@ export default async function BlockPage({
           {block.harvests.length === 0 ? (
             <p className="text-ink-soft">No harvest yet.</p>
           ) : (
-            <div className="overflow-x-auto">
+            <ScrollFrame label={`Flushes of block ${block.code}`}>
               <table className="min-w-full text-sm">
                 <caption className="sr-only">Flushes of block {block.code}</caption>
                 <thead className="bg-oat-200 text-left">
@@ -177,7 +178,7 @@ export default async function BlockPage({
                   ))}
                 </tbody>
               </table>
-            </div>
+            </ScrollFrame>
           )}
         </Card>
         {correctingBlock || correctedHarvest ? (

@@ -100,7 +100,7 @@ export function MyFarmView() {
         {withCurves.length === 0 ? (
           <p className="text-ink-soft">Not enough finished blocks yet to draw a flush curve.</p>
         ) : (
-          <div className="grid gap-6 md:grid-cols-2">
+          <div className="grid grid-cols-1 gap-6 md:grid-cols-2">
             {withCurves.map((strain) => (
               <section key={strain.strainId} aria-label={`Flush curve for ${strain.strainName}`}>
                 <h3 className="mb-2 font-semibold text-moss-800">{strain.strainName}</h3>

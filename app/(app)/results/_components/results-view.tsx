@@ -7,7 +7,8 @@ import { StrainBoxplot } from "@/components/charts/strain-boxplot";
 import { Card } from "@/components/ui/card";
 import { DataTable } from "@/components/ui/data-table";
 import { Notice } from "@/components/ui/notice";
-import { flushWindowLabels, flushWindows, type FlushWindow, type Published, type StrainResult } from "@/lib/pooled";
+import { WordsExplained } from "@/components/ui/words-explained";
+import { flushWindowLabels, flushWindows, resultsInBrief, type FlushWindow, type Published, type StrainResult } from "@/lib/pooled";
 import type { ReleaseInfo } from "@/lib/data/pooled-releases";
 import { usePooledResults, type PooledResultsSelection } from "@/lib/queries/pooled-results";
 import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
@@ -76,7 +77,7 @@ export function ResultsView({ showsOwnFarm, display }: { showsOwnFarm: boolean; 
   return (
     <div className="space-y-6">
       <form
-        className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4"
+        className="grid grid-cols-1 gap-4 sm:grid-cols-2 lg:grid-cols-4"
         aria-label="Choose what to compare"
         onSubmit={(event) => event.preventDefault()}
       >
@@ -190,6 +191,18 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
 
   return (
     <>
+      <section aria-labelledby="in-brief" className="rounded-xl border-2 border-moss-600 bg-white p-5" data-testid="in-brief">
+        <h2 id="in-brief" className="text-lg font-semibold text-moss-800">
+          In brief
+        </h2>
+        <div className="mt-2 space-y-2 text-base">
+          {resultsInBrief(results).map((sentence) => (
+            <p key={sentence}>{sentence}</p>
+          ))}
+        </div>
+        <p className="mt-3 text-sm text-ink-soft">The tables and charts below are the evidence for it.</p>
+      </section>
+
       <Card title="Strains side by side">
         {published.length === 0 ? (
           <Notice title="Not enough data">
@@ -213,6 +226,7 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
           Figures are published only where at least {results.minimumFarms} farms contributed; means are adjusted for farm (each farm counts
           as a block) when two or more strains can be compared.
         </p>
+        <WordsExplained terms={["biological-efficiency", "interval", "farm-adjusted-mean", "withheld"]} />
       </Card>
 
       <Card title="Spread of block biological efficiency">
@@ -249,6 +263,7 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
               farm counts as a block, so strains are compared on the farms that grew them). Intervals and p-values allow for comparing every
               pair of strains (Tukey). The farm-by-farm comparison below shows how much farms disagree.
             </p>
+            <WordsExplained terms={["be-points", "farm-adjusted-mean", "tukey", "p-value"]} />
           </>
         ) : (
           <p className="text-ink-soft">Not enough data: {results.pairwise.message}.</p>
@@ -262,6 +277,11 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
               Each farm&apos;s difference against {results.heterogeneity.value.referenceStrainName} (the strain grown on most farms), pooled
               allowing the gain to differ by farm. I² is the share of the spread that comes from real differences between farms; τ is the
               typical farm-to-farm spread of the gain in BE points.
+            </p>
+            <p className="text-sm text-ink-soft">
+              The differences here are not the same figures as in &ldquo;Differences between strains&rdquo;: there one difference is fitted
+              for all farms together; here each farm&apos;s own difference is pooled and allowed to vary from farm to farm, so the estimate
+              moves a little and the interval is wider. When farms disagree, the wider interval here is the more cautious answer.
             </p>
             {results.heterogeneity.value.strains.map((strain) => (
               <section
@@ -281,6 +301,7 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
         ) : (
           <p className="text-ink-soft">Not enough data: {results.heterogeneity.message}.</p>
         )}
+        <WordsExplained terms={["reference-strain", "i-squared", "tau", "holm"]} />
       </Card>
     </>
   );

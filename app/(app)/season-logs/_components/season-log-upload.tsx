@@ -417,7 +417,7 @@ function MappingStep(props: {
           </div>
         ) : null}
         {decimalColumns.length > 0 ? (
-          <div className="grid gap-3 sm:grid-cols-2">
+          <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
             {decimalColumns.map((header, index) => (
               <div key={header} className="space-y-1">
                 <label htmlFor={`decimal-${index}`} className="block text-sm font-medium">
@@ -442,7 +442,7 @@ function MappingStep(props: {
             ))}
           </div>
         ) : null}
-        <div className="grid gap-3 sm:grid-cols-2">
+        <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
           {detected.mapping.columns.map((column) => {
             const id = `map-${column.position}`;
             return (
@@ -467,7 +467,7 @@ function MappingStep(props: {
             );
           })}
         </div>
-        <div className="grid gap-3 sm:grid-cols-2">
+        <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
           <div className="space-y-1">
             <label htmlFor="date-order" className="block text-sm font-medium">
               How are dates written?

@@ -30,6 +30,7 @@ import { ProtocolSummary } from "../_components/protocol-summary";
 import { StatusBadge } from "../_components/status-badge";
 import { formatDateTime, formatDay, type TimeDisplay } from "@/lib/time/display";
 import { timeDisplayFor } from "@/lib/time/member-display";
+import { ScrollFrame } from "@/components/ui/scroll-frame";
 
 export const metadata: Metadata = { title: "Trial" };
 
@@ -62,7 +63,7 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
           </span>
         ) : null}
       </div>
-      <div className="grid gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
+      <div className="grid grid-cols-1 gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="space-y-6">
           {member.farmId ? <FarmSection trial={trial} member={member} /> : null}
           {review ? <CloseReviewCard review={review} outcomeFlushes={trial.outcomeFlushes} /> : null}
@@ -220,7 +221,7 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
         {progress.length === 0 ? (
           <p className="text-sm text-ink-soft">No farm has been invited yet.</p>
         ) : (
-          <div className="overflow-x-auto">
+          <ScrollFrame label="Farms and their progress">
             <table className="w-full min-w-[44rem] text-sm [&_td]:pr-3 [&_th]:pr-3" data-testid="progress-table">
               <thead>
                 <tr className="text-left">
@@ -274,7 +275,7 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
                 ))}
               </tbody>
             </table>
-          </div>
+          </ScrollFrame>
         )}
       </Card>
     </>

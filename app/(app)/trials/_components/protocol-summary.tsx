@@ -8,7 +8,7 @@ export function ProtocolSummary({ trial, dateStyle }: { trial: TrialView; dateSt
   const humidity = trial.arms.some((arm) => arm.treatmentKind === "humidity");
   return (
     <Card title="Protocol as declared">
-      <dl className="grid gap-3 text-sm sm:grid-cols-2">
+      <dl className="grid grid-cols-1 gap-3 text-sm sm:grid-cols-2">
         <div>
           <dt className="text-ink-soft">Species</dt>
           <dd>{trial.speciesName}</dd>
