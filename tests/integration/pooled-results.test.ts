@@ -61,6 +61,8 @@ beforeAll(async () => {
     farmName: person.farm_id ? farm.name : null,
     active: true,
     displayUnits: "metric",
+    timeZone: null,
+    dateStyle: "iso",
     sessionVersion: 1,
   });
   observer = asMember(people.find((person) => person.role === "observer")!);

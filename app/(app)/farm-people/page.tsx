@@ -5,6 +5,7 @@ import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { roleLabels } from "@/lib/auth/permissions";
 import { listFarmPeople } from "@/lib/data/members";
+import { timeDisplayFor } from "@/lib/time/member-display";
 import { ActionForm } from "@/components/forms/action-form";
 import {
   cancelGrowerInvitationAction,
@@ -96,6 +97,7 @@ export default async function FarmPeoplePage() {
       </ul>
 
       <OpenInvitations
+        display={await timeDisplayFor(member)}
         invitations={invitations.map((invitation) => ({ ...invitation, details: "" }))}
         resendAction={resendGrowerInvitationAction}
         cancelAction={cancelGrowerInvitationAction}

@@ -16,15 +16,18 @@ import {
 } from "./actions";
 import { ActionForm } from "@/components/forms/action-form";
 import { OpenInvitations } from "./_components/open-invitations";
+import { formatDay } from "@/lib/time/display";
+import { timeDisplayFor } from "@/lib/time/member-display";
 import { ScrollFrame } from "@/components/ui/scroll-frame";
 
 export const metadata: Metadata = { title: "Members" };
 
 const farmStatusLabels = { active: "Active", suspended: "Suspended", removed: "Removed" } as const;
-const date = (value: Date) => value.toISOString().slice(0, 10);
 
 export default async function MembersPage() {
   const member = await requirePage("members:manage");
+  const display = await timeDisplayFor(member);
+  const date = (value: Date) => formatDay(value, display);
   const { farms, people, invitations } = await listMembership(member);
   const farmName = new Map(farms.map((farm) => [farm.id, farm.name]));
   const activeFarms = farms.filter((farm) => farm.status === "active");
@@ -212,6 +215,7 @@ export default async function MembersPage() {
       </ScrollFrame>
 
       <OpenInvitations
+        display={display}
         invitations={invitations.map((invitation) => ({
           ...invitation,
           details: [invitation.role ? roleLabels[invitation.role] : "", invitation.farmId ? (farmName.get(invitation.farmId) ?? "") : ""]

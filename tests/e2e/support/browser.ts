@@ -7,12 +7,14 @@ export const appUrl = process.env.APP_URL ?? "http://127.0.0.1:3100";
 export const screenshotDir = path.join(process.env.RHIZO_TEST_RESULTS ?? "test-results", "screenshots");
 
 /** Debian's Chromium, headless, with the background services that would call out switched off. */
-export async function openBrowser(viewport = { width: 1280, height: 900 }): Promise<BrowserContext> {
+/** `timezoneId`: the zone the browser reports (an IANA name); the machine's otherwise. */
+export async function openBrowser(viewport = { width: 1280, height: 900 }, timezoneId?: string): Promise<BrowserContext> {
   mkdirSync(screenshotDir, { recursive: true });
   return chromium.launchPersistentContext(mkdtempSync(path.join(tmpdir(), "rhizomorph-chromium-")), {
     executablePath: "/usr/bin/chromium",
     headless: true,
     viewport,
+    timezoneId,
     args: [
       "--no-sandbox",
       "--disable-gpu",

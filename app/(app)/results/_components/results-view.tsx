@@ -11,6 +11,7 @@ import { WordsExplained } from "@/components/ui/words-explained";
 import { flushWindowLabels, flushWindows, resultsInBrief, type FlushWindow, type Published, type StrainResult } from "@/lib/pooled";
 import type { ReleaseInfo } from "@/lib/data/pooled-releases";
 import { usePooledResults, type PooledResultsSelection } from "@/lib/queries/pooled-results";
+import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 
 type StrainRow = Record<"strain" | "farms" | "blocks" | "efficiency" | "contamination" | "firstHarvest" | "flushProfile", string>;
 type PairRow = Record<"comparison" | "difference" | "interval" | "p", string>;
@@ -66,7 +67,7 @@ const releaseColumns = (release: ReleaseInfo | null) =>
 
 const selectClass = "block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3 text-base";
 
-export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
+export function ResultsView({ showsOwnFarm, display }: { showsOwnFarm: boolean; display: TimeDisplay }) {
   const [selection, setSelection] = useState<PooledResultsSelection>({ window: "all" });
   const query = usePooledResults(selection);
   const page = query.data;
@@ -129,7 +130,9 @@ export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
         </label>
       </form>
 
-      {page ? <ReleaseLine release={page.release} schedule={page.releaseSchedule} minimumFarms={page.results?.minimumFarms} /> : null}
+      {page ? (
+        <ReleaseLine release={page.release} schedule={page.releaseSchedule} minimumFarms={page.results?.minimumFarms} display={display} />
+      ) : null}
 
       {query.isPending ? (
         <p role="status" className="rounded-lg border border-oat-300 bg-white p-4 text-ink-soft">
@@ -161,13 +164,13 @@ export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
 }
 
 /** Which release the page shows, and when the figures may next change. */
-function ReleaseLine({ release, schedule, minimumFarms }: { release: ReleaseInfo | null; schedule: string; minimumFarms?: number }) {
+function ReleaseLine(props: { release: ReleaseInfo | null; schedule: string; minimumFarms?: number; display: TimeDisplay }) {
+  const { release, schedule, minimumFarms, display } = props;
   if (!release) return null;
-  const cut = new Date(release.cutAt);
   return (
     <p className="text-sm text-ink-soft" data-testid="release-line">
       <span className="font-semibold text-ink">
-        Release {release.number}, published {cut.toISOString().slice(0, 10)} at {cut.toISOString().slice(11, 16)} UTC.
+        Release {release.number}, published {formatDateTime(release.cutAt, display)}.
       </span>{" "}
       These figures change only with a new release ({schedule}), and only by the data of at least {minimumFarms ?? 3} farms at a time, so no
       one can work out one farm&apos;s numbers by comparing two releases.

@@ -1,9 +1,10 @@
 import { Card } from "@/components/ui/card";
 import { Caution } from "@/components/ui/caution";
 import type { TrialView } from "@/lib/data/trials";
+import { formatDate, type DateStyle } from "@/lib/time/display";
 
 /** The design as declared: arms, outcome, protocol and planned size. */
-export function ProtocolSummary({ trial }: { trial: TrialView }) {
+export function ProtocolSummary({ trial, dateStyle }: { trial: TrialView; dateStyle: DateStyle }) {
   const humidity = trial.arms.some((arm) => arm.treatmentKind === "humidity");
   return (
     <Card title="Protocol as declared">
@@ -33,7 +34,7 @@ export function ProtocolSummary({ trial }: { trial: TrialView }) {
         {trial.enrolmentDeadline ? (
           <div>
             <dt className="text-ink-soft">Enrolment deadline</dt>
-            <dd>{trial.enrolmentDeadline}</dd>
+            <dd>{formatDate(trial.enrolmentDeadline, dateStyle)}</dd>
           </div>
         ) : null}
         {trial.smallestDifference && trial.expectedSd ? (
