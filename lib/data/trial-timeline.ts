@@ -19,7 +19,7 @@ import {
 } from "@/lib/trials/timeline";
 import { asMember, asNobody } from "./context";
 
-/** One farm taking part in a running trial, as app_trial_farm_status (0034) gives it: counts and dates, never a mass. */
+/** One farm taking part in a running trial, as app_trial_farm_status (0035) gives it: counts and dates, never a mass. */
 export interface FarmDataStatus {
   enrolmentId: string;
   trialId: string;

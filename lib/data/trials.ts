@@ -43,6 +43,10 @@ import { publishedSteps, roundTo, withinFarmSpread } from "@/lib/pooled";
 import { seededRandom } from "@/lib/random";
 import {
   assertMove,
+  canSeeTrial,
+  openingProblem,
+  publishingProblem,
+  startingProblem,
   blockCodePrefix,
   incompleteCounts,
   remindersRun,
@@ -116,6 +120,10 @@ export type StoredResults = StoredTrialResults;
 // Unsubscribe links are signed with the sessions' secret, which lib/env.ts never lets be empty.
 const optOutSecret = () => env("AUTH_SECRET");
 
+function refuseIf(problem: string | null): void {
+  if (problem) throw new AppError("conflict", problem);
+}
+
 function ruleError(error: unknown): never {
   if (error instanceof TrialRuleError) throw new AppError("conflict", error.message);
   throw error;
@@ -138,7 +146,7 @@ export async function listTrials(member: Member) {
       .from(trials)
       .innerJoin(species, eq(species.id, trials.speciesId))
       .orderBy(desc(trials.createdAt));
-    const visible = member.role === "coordinator" ? rows : rows.filter((row) => row.status !== "draft");
+    const visible = rows.filter((row) => canSeeTrial(member.role, row.status));
     if (!member.farmId) return visible.map((row) => ({ ...row, enrolmentStatus: null as string | null }));
     const enrolments = await tx.select({ trialId: trialEnrolments.trialId, status: trialEnrolments.status }).from(trialEnrolments);
     const byTrial = new Map(enrolments.map((enrolment) => [enrolment.trialId, enrolment.status as string]));
@@ -175,7 +183,7 @@ async function loadTrial(tx: Transaction, member: Member, trialId: string) {
     .from(trials)
     .innerJoin(species, eq(species.id, trials.speciesId))
     .where(eq(trials.id, trialId));
-  if (!trial || (trial.status === "draft" && member.role !== "coordinator")) {
+  if (!trial || !canSeeTrial(member.role, trial.status)) {
     throw new AppError("not_found", "There is no such trial, or it is still a draft. Go back to Trials and pick one from the list.");
   }
   const arms: TrialArmView[] = await tx
@@ -526,23 +534,9 @@ export async function moveTrial(
       ruleError(error);
     }
     const changes: Partial<typeof trials.$inferInsert> = { status: to };
-    if (to === "open") {
-      if (trial.arms.length < 2)
-        throw new AppError("conflict", "A trial needs at least 2 arms before enrolment opens. Add an arm to the design.");
-      if (trial.arms.filter((arm) => arm.isReference).length !== 1)
-        throw new AppError("conflict", "Mark exactly one arm as the reference before enrolment opens.");
-    }
+    if (to === "open") refuseIf(openingProblem(trial.arms));
     if (to === "running") {
-      const accepted = await acceptedFarms(tx, trialId);
-      const minimumFarms = await minimumFarmsOf(tx);
-      if (!accepted)
-        throw new AppError("conflict", "No farm has accepted yet. Invite farms and wait for at least one to accept before starting.");
-      // Below the minimum the report could show nothing, or one farm's own figures: refuse before any block is made.
-      if (accepted < minimumFarms)
-        throw new AppError(
-          "conflict",
-          `Only ${accepted} farm${accepted === 1 ? " has" : "s have"} accepted. A trial starts with at least ${minimumFarms} farms, the co-op's minimum, so that its report never shows one farm's figures. Invite more farms, or wait for them to accept.`,
-        );
+      refuseIf(startingProblem(await acceptedFarms(tx, trialId), await minimumFarmsOf(tx)));
       await tx
         .update(trialEnrolments)
         .set({ status: "dropped" })
@@ -571,7 +565,7 @@ export async function moveTrial(
         .from(trialAnalyses)
         .where(eq(trialAnalyses.trialId, trialId))
         .orderBy(desc(trialAnalyses.run));
-      if (!runs.length) throw new AppError("conflict", "The trial has no analysis yet; move it to Collecting results first.");
+      refuseIf(publishingProblem(runs.length));
       const chosen = options.analysisId ? runs.find((run) => run.id === options.analysisId) : runs[0];
       if (!chosen)
         throw new AppError("not_found", "That run of the analysis is not one of this trial's. Reload the trial page and pick again.");
@@ -1332,7 +1326,7 @@ export interface ClaimedReminder {
 }
 
 /**
- * Claims today's reminder for an enrolment (app_claim_trial_reminder, 0034): null when the farm
+ * Claims today's reminder for an enrolment (app_claim_trial_reminder, 0035): null when the farm
  * has had one today, stopped them, no longer takes part, or the trial is no longer running.
  */
 export async function claimReminder(

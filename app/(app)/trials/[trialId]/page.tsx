@@ -32,6 +32,9 @@ import { ProtocolSummary } from "../_components/protocol-summary";
 import { StatusBadge } from "../_components/status-badge";
 import { TrialTimelineBar } from "../_components/trial-timeline";
 import { todayUtc } from "@/lib/import/dates";
+import { formatDateTime, formatDay, type TimeDisplay } from "@/lib/time/display";
+import { timeDisplayFor } from "@/lib/time/member-display";
+import { ScrollFrame } from "@/components/ui/scroll-frame";
 
 export const metadata: Metadata = { title: "Trial" };
 
@@ -39,6 +42,7 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
   const member = await requirePage("trial:read");
   const { trialId } = await params;
   const trial = await trialOrNotFound(member, trialId);
+  const display = await timeDisplayFor(member);
   const coordinator = can(member.role, "trial:manage");
   const showResults = (coordinator && hasResults(trial.status)) || trial.status === "published";
   // Before closing, the coordinator reads what is still incomplete and confirms it in the close form.
@@ -58,23 +62,25 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
         {trial.versions.length ? (
           <span className="text-sm text-ink-soft" data-testid="version-in-force">
             {trial.versions[0].version === 1
-              ? `Results published ${trial.versions[0].publishedAt.toISOString().slice(0, 10)}`
-              : `Results amended ${trial.versions[0].publishedAt.toISOString().slice(0, 10)} (version ${trial.versions[0].version})`}
+              ? `Results published ${formatDay(trial.versions[0].publishedAt, display)}`
+              : `Results amended ${formatDay(trial.versions[0].publishedAt, display)} (version ${trial.versions[0].version})`}
           </span>
         ) : null}
       </div>
-      <div className="grid gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
+      <div className="grid grid-cols-1 gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="space-y-6">
           <Card title="Timeline">
             <TrialTimelineBar timeline={timelineOf(trial)} today={todayUtc()} />
           </Card>
           {member.farmId ? <FarmSection trial={trial} member={member} /> : null}
           {review ? <CloseReviewCard review={review} outcomeFlushes={trial.outcomeFlushes} /> : null}
-          {coordinator && (trial.runs.length || hasResults(trial.status)) ? <AnalysisRunsCard trial={trial} /> : null}
+          {coordinator && (trial.runs.length || hasResults(trial.status)) ? <AnalysisRunsCard trial={trial} display={display} /> : null}
           {coordinator && trial.status !== "draft" ? <CoordinatorFollowing trial={trial} member={member} /> : null}
-          <ProtocolSummary trial={trial} />
+          <ProtocolSummary trial={trial} dateStyle={display.dateStyle} />
         </div>
-        <div className="space-y-6">{coordinator ? <CoordinatorControls trial={trial} member={member} review={review} /> : null}</div>
+        <div className="space-y-6">
+          {coordinator ? <CoordinatorControls trial={trial} member={member} review={review} display={display} /> : null}
+        </div>
       </div>
     </>
   );
@@ -89,7 +95,8 @@ const answerLabels: Record<string, string> = {
   dropped: "Dropped out",
 };
 
-async function CoordinatorControls({ trial, member, review }: { trial: TrialView; member: Member; review: CloseReview | null }) {
+async function CoordinatorControls(props: { trial: TrialView; member: Member; review: CloseReview | null; display: TimeDisplay }) {
+  const { trial, member, review, display } = props;
   const [history, readiness] = await Promise.all([listTrialHistory(member, trial.id), getStartReadiness(member, trial.id)]);
   const moves = nextStatuses(trial.status);
   return (
@@ -134,7 +141,7 @@ async function CoordinatorControls({ trial, member, review }: { trial: TrialView
                 submitLabel={moveLabels[to]}
                 confirm="Publish the run you picked to every member and observer, and e-mail them? A published version cannot be changed; a correction is an amendment."
               >
-                <RunChoice runs={trial.runs} />
+                <RunChoice runs={trial.runs} display={display} />
               </ActionForm>
             ) : (
               <ActionForm
@@ -175,7 +182,7 @@ async function CoordinatorControls({ trial, member, review }: { trial: TrialView
               return (
                 <li key={index}>
                   <time dateTime={event.occurredAt.toISOString()} className="text-ink-soft">
-                    {event.occurredAt.toISOString().slice(0, 16).replace("T", " ")} UTC
+                    {formatDateTime(event.occurredAt, display)}
                   </time>{" "}
                   · {what} · {event.actorLabel}
                 </li>
@@ -221,7 +228,7 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
         {progress.length === 0 ? (
           <p className="text-sm text-ink-soft">No farm has been invited yet.</p>
         ) : (
-          <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Farms and their progress">
+          <ScrollFrame label="Farms and their progress">
             <table className="w-full min-w-[44rem] text-sm [&_td]:pr-3 [&_th]:pr-3" data-testid="progress-table">
               <thead>
                 <tr className="text-left">
@@ -287,7 +294,7 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
                 ))}
               </tbody>
             </table>
-          </div>
+          </ScrollFrame>
         )}
         {progress.some((row) => row.behind) ? (
           <div className="mt-4">

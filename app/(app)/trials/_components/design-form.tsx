@@ -115,7 +115,7 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
   return (
     <form
       action={formAction}
-      className="grid gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]"
+      className="grid grid-cols-1 gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]"
       aria-describedby={state.status === "error" ? "design-message" : undefined}
     >
       <input type="hidden" name="trialId" value={initial.trialId ?? ""} />
@@ -181,7 +181,7 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
             {arms.map((arm, index) => (
               <div
                 key={index}
-                className="grid gap-3 rounded-lg border border-oat-300 p-3 sm:grid-cols-[6rem_1fr_1fr]"
+                className="grid grid-cols-1 gap-3 rounded-lg border border-oat-300 p-3 sm:grid-cols-[6rem_1fr_1fr]"
                 data-testid="arm-row"
               >
                 <div className="space-y-1">
@@ -277,7 +277,7 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
         </Card>
 
         <Card title="Outcome, decided in advance">
-          <div className="grid gap-4 sm:grid-cols-2">
+          <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
             <Field
               label="Biological efficiency over flushes 1 to"
               name="outcomeFlushes"
