@@ -7,6 +7,14 @@ ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 cd "$ROOT"
 
 say() { printf '\033[1;32m▸\033[0m %s\n' "$*"; }
+# Runs a slow step after saying what it is and roughly how long it takes, then says how long it took.
+timed() {
+  local what="$1" started=$SECONDS
+  shift
+  say "$what"
+  "$@" || return
+  say "  done in $((SECONDS - started)) s"
+}
 fail() { printf '\033[1;31m✗ %s\033[0m\n' "$*" >&2; exit 1; }
 
 PG_PORT="${RHIZO_PG_PORT:-54329}"
@@ -81,8 +89,7 @@ ensure_dependencies() {
   if [ -f "$stamp" ] && [ "$(cat "$stamp")" = "$want" ]; then
     say "Dependencies already installed"
   else
-    say "Installing dependencies (npm ci)"
-    npm ci --no-audit --no-fund --loglevel=error
+    timed "Installing dependencies (npm ci, about a minute the first time)" npm ci --no-audit --no-fund --loglevel=error
     echo "$want" >"$stamp"
   fi
 }
@@ -122,7 +129,6 @@ ensure_app_build() {
     -newer "$dist_dir/BUILD_ID" -not -path 'db/migrations/*' -not -path 'public/sw.js*' -print -quit 2>/dev/null)" ]; then
     say "The app build is up to date"
   else
-    say "Building the app (about a minute)"
-    npm run build
+    timed "Building the app (next build and the service worker, two to four minutes on two cores)" npm run build
   fi
 }

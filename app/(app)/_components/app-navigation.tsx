@@ -63,6 +63,9 @@ export function AppNavigation({ items, memberName, roleLabel, farmName }: Props)
           <Link href="/cautions" className="mt-3 block text-oat-200 underline">
             Safety cautions
           </Link>
+          <Link href="/glossary" className="mt-1 block text-oat-200 underline">
+            Words used in the results
+          </Link>
           {/* Through Auth.js's own endpoint, where the proxy cannot renew the cookie being cleared;
               then a relative redirect, because Auth.js would name the host "localhost"; a full page
               load, so nothing the signed-out member's pages held stays in memory. */}
