@@ -73,7 +73,7 @@ export async function withFarmContext<T>(context: FarmContext, work: (tx: Transa
  * the farm's transaction, as rhizo_app, and rolls back with it. `chunks` are rows in COPY's text
  * format (lib/season-logs/copy-text.ts). Drizzle's session keeps that connection as `client`.
  */
-export async function copyInto(tx: Transaction, statement: string, chunks: Iterable<string>): Promise<void> {
+export async function copyInto(tx: Transaction, statement: string, chunks: Iterable<string | Uint8Array>): Promise<void> {
   const { client } = tx._.session as unknown as { client: PoolClient };
   await pipeline(Readable.from(chunks), client.query(copyFrom(statement)));
 }

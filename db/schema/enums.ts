@@ -1,5 +1,6 @@
 import { pgEnum } from "drizzle-orm/pg-core";
 import { memberRoles } from "../../lib/auth/permissions";
+import { dateStyleNames } from "../../lib/time/display";
 import { trialDesignKinds } from "../../lib/trials/design-kind";
 import { trialStatuses } from "../../lib/trials/lifecycle";
 
@@ -15,5 +16,6 @@ export const contaminatedHandling = pgEnum("contaminated_handling", ["exclude", 
 export const enrolmentStatus = pgEnum("enrolment_status", ["invited", "accepted", "declined", "dropped"]);
 export const uploadOutcome = pgEnum("upload_outcome", ["received", "rejected", "committed", "already_imported"]);
 export const displayUnits = pgEnum("display_units", ["metric", "imperial"]);
+export const dateStyle = pgEnum("date_style", dateStyleNames);
 export const tokenPurpose = pgEnum("token_purpose", ["invitation", "password_reset"]);
 export const mailOutcome = pgEnum("mail_outcome", ["queued", "sent", "retrying", "failed", "cancelled"]);

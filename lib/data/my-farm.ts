@@ -5,10 +5,12 @@ import { getCoopStrainBenchmarks } from "@/lib/data/pooled-results";
 import { AppError } from "@/lib/errors";
 import { summariseOwnFarm, type OwnBlock, type OwnStrainSummary } from "@/lib/pooled";
 import { asMember } from "./context";
+import type { DateStyle } from "@/lib/time/display";
 
 export interface MyFarmPage {
   farmName: string;
   displayUnits: "metric" | "imperial";
+  dateStyle: DateStyle;
   minimumFarms: number;
   seasonStartedOn: string;
   strains: OwnStrainSummary[];
@@ -56,6 +58,7 @@ export async function getMyFarm(member: Member): Promise<MyFarmPage> {
   return {
     farmName: member.farmName ?? "Your farm",
     displayUnits: member.displayUnits,
+    dateStyle: member.dateStyle,
     minimumFarms,
     seasonStartedOn,
     strains: summariseOwnFarm(blocks, byStrain, minimumFarms),

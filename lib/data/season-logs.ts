@@ -35,6 +35,7 @@ import { commitRowsOf, keepCommitRows, keptCommitRows, stagingKey, type CommitRo
 import { todayUtc } from "@/lib/import/dates";
 import type { Member } from "./members";
 import { asMember, farmOf } from "./context";
+import { chosenDisplay, formatDay } from "@/lib/time/display";
 
 export interface UploadSummary {
   id: string;
@@ -319,7 +320,7 @@ async function previewOf(member: Member, sha256: string, result: SeasonLogResult
   // Kept for the commit, which writes them as they are if the marker has not moved by then.
   const commitRows =
     outcome === "received"
-      ? keepCommitRows(stagingKey(choices, knownStrains, todayUtc()), marker, commitRowsOf(plan, storedBlockIds(planInput)))
+      ? await keepCommitRows(stagingKey(choices, knownStrains, todayUtc()), marker, commitRowsOf(plan, storedBlockIds(planInput)))
       : null;
   return { alreadyImportedAt, report, outcome, commitRows };
 }
@@ -468,7 +469,7 @@ async function keepReplacedRows(tx: Transaction, uploadId: string, kind: "block"
 async function writeRows(tx: Transaction, farmId: string, userId: string, uploadId: string, rows: CommitRows): Promise<void> {
   if (rows.blockCount > 0) {
     await tx.execute(sql.raw(stagedBlocks));
-    await copyInto(tx, "copy pg_temp.commit_blocks from stdin", [rows.blocks]);
+    await copyInto(tx, "copy pg_temp.commit_blocks from stdin", rows.blocks);
     if (rows.blockCount > rows.changedBlocks) {
       await tx.execute(sql`
         insert into blocks (id, farm_id, code, strain_id, substrate_recipe_id, fruiting_method_id, trial_arm_id, inoculated_on,
@@ -502,7 +503,7 @@ async function writeRows(tx: Transaction, farmId: string, userId: string, upload
 
   if (rows.harvestCount > 0) {
     await tx.execute(sql.raw(stagedHarvests));
-    await copyInto(tx, "copy pg_temp.commit_harvests from stdin", [rows.harvests]);
+    await copyInto(tx, "copy pg_temp.commit_harvests from stdin", rows.harvests);
     if (rows.harvestCount > rows.changedHarvests) {
       await tx.execute(sql`
         insert into harvests (id, farm_id, block_id, flush, harvested_on, fresh_mass_g, fresh_mass_as_written, fresh_mass_unit,
@@ -542,7 +543,7 @@ async function writeRows(tx: Transaction, farmId: string, userId: string, upload
 
   if (rows.changeCount > 0) {
     await tx.execute(sql.raw(stagedChanges));
-    await copyInto(tx, "copy pg_temp.commit_value_changes from stdin", [rows.changes]);
+    await copyInto(tx, "copy pg_temp.commit_value_changes from stdin", rows.changes);
     await tx.execute(sql`
       insert into value_changes (farm_id, block_id, flush, field, old_value, new_value, upload_id, changed_by)
       select ${farmId}::uuid, block_id, flush, field, old_value, new_value, ${uploadId}::uuid, ${userId}::uuid
@@ -567,7 +568,10 @@ export async function commitUpload(
   const farm = farmOf(member, "work with its season logs");
   const stored = await storedUpload(member, uploadId);
   if (stored.outcome === "committed")
-    throw new AppError("conflict", `This upload was committed on ${iso(stored.committedAt)?.slice(0, 10)}; nothing more to do.`);
+    throw new AppError(
+      "conflict",
+      `This upload was committed on ${stored.committedAt ? formatDay(stored.committedAt, chosenDisplay(member)) : "an earlier day"}; nothing more to do.`,
+    );
   const setup = await getImportSetup(member);
   const key = stagingKey(choices, setup.knownStrains, todayUtc());
   const receipt = await asMember(member, async (tx) => {
@@ -577,7 +581,7 @@ export async function commitUpload(
     if (alreadyImportedAt) {
       throw new AppError(
         "conflict",
-        `This file was already imported on ${iso(alreadyImportedAt)!.slice(0, 10)}; committing it again would change nothing.`,
+        `This file was already imported on ${formatDay(alreadyImportedAt, chosenDisplay(member))}; committing it again would change nothing.`,
       );
     }
     const [upload] = await tx.select({ commitRows: uploads.commitRows }).from(uploads).where(eq(uploads.id, uploadId));

@@ -17,6 +17,7 @@ import {
   trialAnalyses,
   trialPublications,
   trialReportFarms,
+  trialReminders,
   trials,
   users,
 } from "@/db/schema";
@@ -42,6 +43,10 @@ import { publishedSteps, roundTo, withinFarmSpread } from "@/lib/pooled";
 import { seededRandom } from "@/lib/random";
 import {
   assertMove,
+  canSeeTrial,
+  openingProblem,
+  publishingProblem,
+  startingProblem,
   blockCodePrefix,
   incompleteCounts,
   remindersRun,
@@ -60,6 +65,8 @@ import {
 import type { TrialDesignKind } from "@/lib/trials/design-kind";
 import { crossedArmsProblems } from "@/lib/trials/factorial";
 import { verifyOptOutToken } from "@/lib/trials/reminder-opt-out";
+import { trialSampleSize } from "@/lib/trials/sample-size";
+import { behindReasons, missingData, type TimelineProgress, type TrialTimeline } from "@/lib/trials/timeline";
 import {
   amendmentReasonProblem,
   analysisFingerprint,
@@ -89,6 +96,11 @@ export interface TrialDesignInput {
   contaminatedHandling: "exclude" | "count_as_zero";
   protocolNotes: string;
   enrolmentDeadline: string | null;
+  inoculationFrom: string | null;
+  inoculationTo: string | null;
+  fruitingFrom: string | null;
+  fruitingTo: string | null;
+  dataDue: string | null;
   smallestDifference: number | null;
   expectedSd: number | null;
   plannedFarms: number | null;
@@ -112,6 +124,10 @@ export type StoredResults = StoredTrialResults;
 // Unsubscribe links are signed with the sessions' secret, which lib/env.ts never lets be empty.
 const optOutSecret = () => env("AUTH_SECRET");
 
+function refuseIf(problem: string | null): void {
+  if (problem) throw new AppError("conflict", problem);
+}
+
 function ruleError(error: unknown): never {
   if (error instanceof TrialRuleError) throw new AppError("conflict", error.message);
   throw error;
@@ -134,7 +150,7 @@ export async function listTrials(member: Member) {
       .from(trials)
       .innerJoin(species, eq(species.id, trials.speciesId))
       .orderBy(desc(trials.createdAt));
-    const visible = member.role === "coordinator" ? rows : rows.filter((row) => row.status !== "draft");
+    const visible = rows.filter((row) => canSeeTrial(member.role, row.status));
     if (!member.farmId) return visible.map((row) => ({ ...row, enrolmentStatus: null as string | null }));
     const enrolments = await tx.select({ trialId: trialEnrolments.trialId, status: trialEnrolments.status }).from(trialEnrolments);
     const byTrial = new Map(enrolments.map((enrolment) => [enrolment.trialId, enrolment.status as string]));
@@ -157,6 +173,11 @@ async function loadTrial(tx: Transaction, member: Member, trialId: string) {
       contaminatedHandling: trials.contaminatedHandling,
       protocolNotes: trials.protocolNotes,
       enrolmentDeadline: trials.enrolmentDeadline,
+      inoculationFrom: trials.inoculationFrom,
+      inoculationTo: trials.inoculationTo,
+      fruitingFrom: trials.fruitingFrom,
+      fruitingTo: trials.fruitingTo,
+      dataDue: trials.dataDue,
       smallestDifference: trials.smallestDifference,
       expectedSd: trials.expectedSd,
       plannedFarms: trials.plannedFarms,
@@ -167,7 +188,7 @@ async function loadTrial(tx: Transaction, member: Member, trialId: string) {
     .from(trials)
     .innerJoin(species, eq(species.id, trials.speciesId))
     .where(eq(trials.id, trialId));
-  if (!trial || (trial.status === "draft" && member.role !== "coordinator")) {
+  if (!trial || !canSeeTrial(member.role, trial.status)) {
     throw new AppError("not_found", "There is no such trial, or it is still a draft. Go back to Trials and pick one from the list.");
   }
   const arms: TrialArmView[] = await tx
@@ -478,6 +499,11 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
       contaminatedHandling: input.contaminatedHandling,
       protocolNotes: input.protocolNotes,
       enrolmentDeadline: input.enrolmentDeadline,
+      inoculationFrom: input.inoculationFrom,
+      inoculationTo: input.inoculationTo,
+      fruitingFrom: input.fruitingFrom,
+      fruitingTo: input.fruitingTo,
+      dataDue: input.dataDue,
       smallestDifference: input.smallestDifference,
       expectedSd: input.expectedSd,
       plannedFarms: input.plannedFarms,
@@ -550,10 +576,7 @@ export async function moveTrial(
     }
     const changes: Partial<typeof trials.$inferInsert> = { status: to };
     if (to === "open") {
-      if (trial.arms.length < 2)
-        throw new AppError("conflict", "A trial needs at least 2 arms before enrolment opens. Add an arm to the design.");
-      if (trial.arms.filter((arm) => arm.isReference).length !== 1)
-        throw new AppError("conflict", "Mark exactly one arm as the reference before enrolment opens.");
+      refuseIf(openingProblem(trial.arms));
       if (trial.designKind === "strain_by_method") {
         // Saved drafts were checked; a strain or method edited in the registry since must not leave half a crossing open.
         const problems = crossedArmsProblems(
@@ -567,16 +590,7 @@ export async function moveTrial(
       }
     }
     if (to === "running") {
-      const accepted = await acceptedFarms(tx, trialId);
-      const minimumFarms = await minimumFarmsOf(tx);
-      if (!accepted)
-        throw new AppError("conflict", "No farm has accepted yet. Invite farms and wait for at least one to accept before starting.");
-      // Below the minimum the report could show nothing, or one farm's own figures: refuse before any block is made.
-      if (accepted < minimumFarms)
-        throw new AppError(
-          "conflict",
-          `Only ${accepted} farm${accepted === 1 ? " has" : "s have"} accepted. A trial starts with at least ${minimumFarms} farms, the co-op's minimum, so that its report never shows one farm's figures. Invite more farms, or wait for them to accept.`,
-        );
+      refuseIf(startingProblem(await acceptedFarms(tx, trialId), await minimumFarmsOf(tx)));
       await tx
         .update(trialEnrolments)
         .set({ status: "dropped" })
@@ -605,7 +619,7 @@ export async function moveTrial(
         .from(trialAnalyses)
         .where(eq(trialAnalyses.trialId, trialId))
         .orderBy(desc(trialAnalyses.run));
-      if (!runs.length) throw new AppError("conflict", "The trial has no analysis yet; move it to Collecting results first.");
+      refuseIf(publishingProblem(runs.length));
       const chosen = options.analysisId ? runs.find((run) => run.id === options.analysisId) : runs[0];
       if (!chosen)
         throw new AppError("not_found", "That run of the analysis is not one of this trial's. Reload the trial page and pick again.");
@@ -869,6 +883,20 @@ export async function listInvitableFarms(member: Member, trialId: string) {
   });
 }
 
+/** Blocks per arm the design asks of each farm: its sample size at 80 % power, or null when the design does not say. */
+function blocksPerArmWanted(trial: TrialBase): number | null {
+  const { smallestDifference, expectedSd, plannedFarms, expectedLoss } = trial;
+  if (smallestDifference === null || expectedSd === null || plannedFarms === null) return null;
+  const panel = trialSampleSize({
+    difference: smallestDifference,
+    sd: expectedSd,
+    plannedFarms,
+    expectedLoss: expectedLoss ?? 0,
+    arms: trial.arms.length,
+  });
+  return panel.ok ? panel.rows[0].perFarmPerArm : null;
+}
+
 export async function inviteFarms(member: Member, trialId: string, farmIds: string[]): Promise<number> {
   return asMember(member, async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
@@ -900,6 +928,8 @@ export async function inviteFarms(member: Member, trialId: string, farmIds: stri
         trial,
         farmName: farm.name,
         deadline: trial.enrolmentDeadline,
+        blocksPerArmWanted: blocksPerArmWanted(trial),
+        arms: trial.arms.length,
         enrolUrl: `${appUrl()}/trials/${trialId}`,
         optOutUrl: optOut.slot,
       });
@@ -1093,24 +1123,15 @@ export async function getTrialListSeasonLog(member: Member, trialId: string): Pr
 
 // ——— Following ———
 
-export interface FarmProgress {
-  blocksListed: number;
-  blocksMade: number;
-  fruiting: number;
-  contaminated: number;
-  /** Blocks with flush n recorded, for n = 1..k of the outcome. */
-  flushesRecorded: number[];
-}
+export type FarmProgress = TimelineProgress;
 
-export function dueItems(progress: FarmProgress): string[] {
-  const due: string[] = [];
-  if (progress.blocksMade < progress.blocksListed)
-    due.push(`${progress.blocksListed - progress.blocksMade} listed blocks not yet in the season log`);
-  const live = progress.blocksMade - progress.contaminated;
-  progress.flushesRecorded.forEach((recorded, index) => {
-    if (recorded < live) due.push(`flush ${index + 1} of ${live - recorded} blocks`);
-  });
-  return due;
+/** What is still missing from a farm's records (lib/trials/timeline.ts); being behind is a matter of the timeline. */
+export const dueItems = missingData;
+
+/** The trial's timeline dates, as lib/trials/timeline.ts reads them. */
+export function timelineOf(trial: TrialTimeline): TrialTimeline {
+  const { inoculationFrom, inoculationTo, fruitingFrom, fruitingTo, dataDue } = trial;
+  return { inoculationFrom, inoculationTo, fruitingFrom, fruitingTo, dataDue };
 }
 
 /** The farm's own progress, read under its own context. */
@@ -1161,8 +1182,11 @@ async function progressCounts(tx: Transaction, trial: TrialBase, farmId?: string
   }));
 }
 
-/** The coordinator's view: every enrolled farm with its counts, read through the analyst role. */
-export async function listTrialProgress(member: Member, trial: TrialBase) {
+/**
+ * The coordinator's view: every enrolled farm with its counts, read through the analyst role, what
+ * is still missing, why it is behind the timeline (if it is), and when it was last reminded.
+ */
+export async function listTrialProgress(member: Member, trial: TrialBase, today = todayUtc()) {
   const enrolled = await asMember(member, async (tx) => {
     const rows = await tx
       .select({
@@ -1177,7 +1201,18 @@ export async function listTrialProgress(member: Member, trial: TrialBase) {
       .innerJoin(farms, eq(farms.id, trialEnrolments.farmId))
       .where(eq(trialEnrolments.trialId, trial.id))
       .orderBy(asc(farms.name));
-    return rows;
+    const reminded = await tx
+      .select({
+        enrolmentId: trialReminders.enrolmentId,
+        lastRemindedAt: sql<Date>`max(${trialReminders.sentAt})`.mapWith(trialReminders.sentAt),
+      })
+      .from(trialReminders)
+      .where(eq(trialReminders.trialId, trial.id))
+      .groupBy(trialReminders.enrolmentId);
+    return rows.map((row) => ({
+      ...row,
+      lastRemindedAt: reminded.find((entry) => entry.enrolmentId === row.enrolmentId)?.lastRemindedAt ?? null,
+    }));
   });
   const counts = await withAnalystAccess((analyst) => progressCounts(analyst, trial));
   return enrolled.map((row) => {
@@ -1193,8 +1228,10 @@ export async function listTrialProgress(member: Member, trial: TrialBase) {
           }
         : emptyCounts(trial)),
     };
-    const due = row.status === "accepted" ? dueItems(progress) : [];
-    return { ...row, progress, due, behind: due.length > 0 };
+    const taking = row.status === "accepted";
+    const due = taking ? missingData(progress) : [];
+    const behindWhy = taking ? behindReasons(timelineOf(trial), progress, today) : [];
+    return { ...row, progress, due, behindWhy, behind: behindWhy.length > 0 };
   });
 }
 
@@ -1319,29 +1356,59 @@ export async function sendTrialReminder(member: Member, trialId: string, farmId:
   const farm = farmsProgress.find((row) => row.farmId === farmId);
   if (!farm || farm.status !== "accepted") throw new AppError("not_found", "That farm is not taking part in this trial.");
   if (!farm.remindersAllowed) throw new AppError("conflict", `${farm.farmName} has asked not to get reminders about this trial.`);
-  if (!farm.behind) throw new AppError("conflict", `${farm.farmName} has nothing due; no reminder sent.`);
+  if (!farm.behind) throw new AppError("conflict", `${farm.farmName} has nothing due yet against the trial's timeline; no reminder sent.`);
   return asMember(member, async (tx) => {
-    const managers = await tx
-      .select({ email: users.email })
-      .from(users)
-      .where(and(eq(users.farmId, farmId), eq(users.role, "farm_manager"), eq(users.active, true)));
+    // The same claim as the daily sweep's: one reminder a day per farm, and none once the trial is closed.
+    const claimed = await claimReminder(tx, farm.enrolmentId, "by-hand");
+    if (!claimed) throw new AppError("conflict", `${farm.farmName} has already had a reminder about this trial today; try again tomorrow.`);
     await recordAudit(tx, {
       ...actor(member),
       action: "trial.reminder_sent",
       subject: `${trial.code}: ${farm.farmName}`,
-      details: { trialId, farmId },
+      details: { trialId, farmId, kind: "by-hand" },
     });
-    const optOut = secretLink({ for: "reminders-opt-out", enrolmentId: farm.enrolmentId });
-    const mail = trialReminderMail({
-      trial,
-      farmName: farm.farmName,
-      due: farm.due,
-      progressUrl: `${appUrl()}/trials/${trialId}`,
-      optOutUrl: optOut.slot,
-    });
-    for (const manager of managers) await deliver(tx, "trial-reminder", manager.email, mail, optOut);
-    return managers.length;
+    return queueReminderMail(tx, { ...claimed, enrolmentId: farm.enrolmentId, items: farm.behindWhy });
   });
+}
+
+export interface ClaimedReminder {
+  trialId: string;
+  trialCode: string;
+  trialTitle: string;
+  farmName: string;
+  emails: string[];
+}
+
+/**
+ * Claims today's reminder for an enrolment (app_claim_trial_reminder, 0035): null when the farm
+ * has had one today, stopped them, no longer takes part, or the trial is no longer running.
+ */
+export async function claimReminder(
+  tx: Transaction,
+  enrolmentId: string,
+  kind: "before-due" | "behind" | "by-hand",
+): Promise<ClaimedReminder | null> {
+  const result = await tx.execute<{ trial_id: string; trial_code: string; trial_title: string; farm_name: string; emails: string[] }>(
+    sql`select * from app_claim_trial_reminder(${enrolmentId}::uuid, ${kind})`,
+  );
+  const row = result.rows[0];
+  return row
+    ? { trialId: row.trial_id, trialCode: row.trial_code, trialTitle: row.trial_title, farmName: row.farm_name, emails: row.emails }
+    : null;
+}
+
+/** The reminder e-mail to each of the farm's managers, in the claim's transaction; returns how many. */
+export async function queueReminderMail(tx: Transaction, reminder: ClaimedReminder & { enrolmentId: string; items: string[] }) {
+  const optOut = secretLink({ for: "reminders-opt-out", enrolmentId: reminder.enrolmentId });
+  const mail = trialReminderMail({
+    trial: { code: reminder.trialCode, title: reminder.trialTitle },
+    farmName: reminder.farmName,
+    due: reminder.items,
+    progressUrl: `${appUrl()}/trials/${reminder.trialId}`,
+    optOutUrl: optOut.slot,
+  });
+  for (const email of reminder.emails) await deliver(tx, "trial-reminder", email, mail, optOut);
+  return reminder.emails.length;
 }
 
 // ——— Unsubscribe ———

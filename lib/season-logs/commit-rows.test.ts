@@ -20,7 +20,8 @@ const block = (code: string, id: string | null): BlockWrite => ({
   spentMassG: null,
   spentMassAsWritten: null,
   spentMassUnit: null,
-  notes: "tab\there",
+  // A tab to escape, and characters of more than one byte: the kept texts are cut by byte lengths.
+  notes: "tab\there – grüne",
 });
 
 const harvest = (blockCode: string, flush: number, id: string | null, blockId: string | null): HarvestWrite => ({
@@ -49,8 +50,11 @@ const plan: CommitPlan = {
   issues: [],
 };
 
-const lines = (text: string) =>
-  text
+const textOf = (chunks: Iterable<string | Uint8Array>) =>
+  Array.from(chunks, (chunk) => (typeof chunk === "string" ? chunk : Buffer.from(chunk).toString("utf8"))).join("");
+
+const lines = (chunks: Iterable<string | Uint8Array>) =>
+  textOf(chunks)
     .trimEnd()
     .split("\n")
     .map((line) => line.split("\t"));
@@ -58,21 +62,27 @@ const lines = (text: string) =>
 describe("a plan's rows as the commit writes them", () => {
   let next = 0;
   const ids = () => `new-${++next}`;
-  const rows = commitRowsOf(plan, new Map([["UNTOUCHED-1", "stored-untouched-1"]]), ids);
+  // Each test reads the texts of a plan of its own: they are made as they are read, once.
+  const rowsOf = () => {
+    next = 0;
+    return commitRowsOf(plan, new Map([["UNTOUCHED-1", "stored-untouched-1"]]), ids);
+  };
 
   it("gives new rows their ids and keeps stored ones, in COPY text with its escapes", () => {
+    const rows = rowsOf();
     const blocks = lines(rows.blocks);
     expect(blocks.map((row) => row.slice(0, 3))).toEqual([
       ["t", "new-1", "NEW-1"],
       ["f", "stored-old-1", "OLD-1"],
     ]);
     // PostgreSQL documentation, COPY, "Text Format": a tab in a value is written as \t, null as \N.
-    expect(blocks[0].at(-1)).toBe("tab\\there");
+    expect(blocks[0].at(-1)).toBe("tab\\there – grüne");
     expect(blocks[0][4]).toBe("\\N");
     expect(rows).toMatchObject({ blockCount: 2, changedBlocks: 1, harvestCount: 3, changedHarvests: 1, changeCount: 1 });
   });
 
   it("gives a harvest of a new block that block's new id, and a change of an untouched block the stored block's", () => {
+    const rows = rowsOf();
     expect(lines(rows.harvests).map((row) => row.slice(0, 4))).toEqual([
       ["t", "new-2", "new-1", "1"],
       ["t", "new-3", "stored-old-1", "2"],
@@ -83,7 +93,7 @@ describe("a plan's rows as the commit writes them", () => {
 
   it("refuses a plan with a row of a block it does not know, rather than write it without one", () => {
     const orphan = { ...plan, changes: [{ ...plan.changes[0], blockCode: "NOWHERE" }] };
-    expect(() => commitRowsOf(orphan, new Map(), ids)).toThrow(/NOWHERE/);
+    expect(() => textOf(commitRowsOf(orphan, new Map(), ids).changes)).toThrow(/NOWHERE/);
   });
 
   it("lists the harvests chosen for removal and how many the file leaves out", () => {
@@ -96,9 +106,13 @@ describe("a plan's rows as the commit writes them", () => {
     expect(removing).toMatchObject({ removedHarvestIds: ["stored-h-9"], notInFileHarvests: 1 });
   });
 
-  it("is kept and given back only under the same key and marker", () => {
-    const kept = keepCommitRows("key", "7:abc", rows);
-    expect(keptCommitRows(kept, "key", "7:abc")).toEqual(rows);
+  it("is kept and given back only under the same key and marker", async () => {
+    const rows = rowsOf();
+    const [blocks, harvests, changes] = [textOf(rowsOf().blocks), textOf(rowsOf().harvests), textOf(rowsOf().changes)];
+    const kept = await keepCommitRows("key", "7:abc", rows);
+    const back = keptCommitRows(kept, "key", "7:abc");
+    expect(back && [textOf(back.blocks), textOf(back.harvests), textOf(back.changes)]).toEqual([blocks, harvests, changes]);
+    expect(back).toMatchObject({ blockCount: 2, changedBlocks: 1, harvestCount: 3, changeCount: 1, counts, removedHarvestIds: [] });
     expect(keptCommitRows(kept, "key", "8:abc")).toBeNull();
     expect(keptCommitRows(kept, "other key", "7:abc")).toBeNull();
     expect(keptCommitRows(null, "key", "7:abc")).toBeNull();

@@ -1,22 +1,28 @@
 import { randomFillSync, randomInt } from "node:crypto";
-import { gunzipSync, gzipSync } from "node:zlib";
+import { Readable } from "node:stream";
+import { pipeline } from "node:stream/promises";
+import { createGzip, gunzipSync } from "node:zlib";
 import { v7 as timeOrderedId } from "uuid";
 import type { RegisterEntryText } from "../import/registers";
 import { copyChunks } from "./copy-text";
 import type { BlockWrite, CommitPlan, HarvestWrite, PlanCounts, StoredHarvest } from "./plan";
 import type { ParseChoices } from "./report";
 
+/** A table's rows in COPY text, as chunks: made as they are read, so the whole text is never one string. */
+export type CopyText = Iterable<string | Uint8Array>;
+
 /**
  * A plan as the rows the commit writes: each table's rows in COPY's text format, new rows with
  * their ids already given, so a harvest of a new block carries that block's id. Made at upload,
  * it is kept with the upload (gzip) and, when neither the farm's data nor the registers changed
  * since, written as it is: the commit then neither reads the file again nor plans again.
+ * The texts of `commitRowsOf` are made as they are read, and can be read once.
  */
 export interface CommitRows {
   /** is_new, id, code, strain … notes: the columns of the commit's staging table for blocks. */
-  blocks: string;
-  harvests: string;
-  changes: string;
+  blocks: CopyText;
+  harvests: CopyText;
+  changes: CopyText;
   blockCount: number;
   changedBlocks: number;
   harvestCount: number;
@@ -50,8 +56,6 @@ export function idsInOrder(): () => string {
   };
 }
 
-const joined = (chunks: Iterable<string>) => Array.from(chunks).join("");
-
 /**
  * The plan's rows. `storedBlockIds` maps the farm's stored block codes to their ids: a value
  * change or a removed harvest of a block the plan leaves untouched still needs its block's id.
@@ -77,46 +81,46 @@ export function commitRowsOf(
   };
   const removedHarvests = plan.removedHarvests ?? [];
   return {
-    blocks: joined(
-      copyChunks(plan.blocks, (b) => [
-        newBlocks.has(b),
-        b.id ?? newBlocks.get(b),
-        b.code,
-        b.strainId,
-        b.substrateRecipeId,
-        b.fruitingMethodId,
-        b.trialArmId,
-        b.inoculatedOn,
-        b.wetMassG,
-        b.wetMassAsWritten,
-        b.wetMassUnit,
-        b.moisture,
-        b.contaminated,
-        b.contaminatedOn,
-        b.spentMassG,
-        b.spentMassAsWritten,
-        b.spentMassUnit,
-        b.notes,
-      ]),
-    ),
-    harvests: joined(
-      copyChunks(plan.harvests, (h) => [
-        newHarvests.has(h),
-        h.id ?? newHarvests.get(h),
-        blockIdOf(h.blockCode, h.blockId),
-        h.flush,
-        h.harvestedOn,
-        h.freshMassG,
-        h.freshMassAsWritten,
-        h.freshMassUnit,
-        h.dryMassG,
-        h.dryMassAsWritten,
-        h.dryMassUnit,
-      ]),
-    ),
-    changes: joined(
-      copyChunks(plan.changes, (change) => [blockIdOf(change.blockCode), change.flush, change.field, change.oldValue, change.newValue]),
-    ),
+    blocks: copyChunks(plan.blocks, (b) => [
+      newBlocks.has(b),
+      b.id ?? newBlocks.get(b),
+      b.code,
+      b.strainId,
+      b.substrateRecipeId,
+      b.fruitingMethodId,
+      b.trialArmId,
+      b.inoculatedOn,
+      b.wetMassG,
+      b.wetMassAsWritten,
+      b.wetMassUnit,
+      b.moisture,
+      b.contaminated,
+      b.contaminatedOn,
+      b.spentMassG,
+      b.spentMassAsWritten,
+      b.spentMassUnit,
+      b.notes,
+    ]),
+    harvests: copyChunks(plan.harvests, (h) => [
+      newHarvests.has(h),
+      h.id ?? newHarvests.get(h),
+      blockIdOf(h.blockCode, h.blockId),
+      h.flush,
+      h.harvestedOn,
+      h.freshMassG,
+      h.freshMassAsWritten,
+      h.freshMassUnit,
+      h.dryMassG,
+      h.dryMassAsWritten,
+      h.dryMassUnit,
+    ]),
+    changes: copyChunks(plan.changes, (change) => [
+      blockIdOf(change.blockCode),
+      change.flush,
+      change.field,
+      change.oldValue,
+      change.newValue,
+    ]),
     blockCount: plan.blocks.length,
     changedBlocks: plan.blocks.length - newBlocks.size,
     harvestCount: plan.harvests.length,
@@ -143,15 +147,31 @@ export function stagingKey(choices: ParseChoices, knownStrains: readonly (string
   ]);
 }
 
-/** What an upload keeps: the rows, and what they were planned against (see `commitRowsFor`). */
-interface Kept {
-  key: string;
-  marker: string;
-  rows: CommitRows;
-}
+type Counted = Omit<CommitRows, "blocks" | "harvests" | "changes">;
 
-export function keepCommitRows(key: string, marker: string, rows: CommitRows): Buffer {
-  return gzipSync(JSON.stringify({ key, marker, rows } satisfies Kept), { level: 1 });
+/**
+ * What an upload keeps, gzip: a first line with what the rows were planned against (see
+ * `keptCommitRows`), the three tables' COPY texts one after the other, and a last line with their
+ * lengths in bytes and the counts. Compressed as the rows are made, so three large uploads at
+ * once never hold their texts whole (tests/e2e/upload-memory.test.ts).
+ */
+export async function keepCommitRows(key: string, marker: string, rows: CommitRows): Promise<Buffer> {
+  const { blocks, harvests, changes, ...counted } = rows;
+  const lengths = [0, 0, 0];
+  function* text() {
+    yield `${JSON.stringify({ key, marker })}\n`;
+    for (const [section, chunks] of [blocks, harvests, changes].entries())
+      for (const chunk of chunks) {
+        lengths[section] += typeof chunk === "string" ? Buffer.byteLength(chunk) : chunk.byteLength;
+        yield chunk;
+      }
+    yield JSON.stringify({ lengths, ...counted } satisfies Counted & { lengths: number[] });
+  }
+  const compressed: Buffer[] = [];
+  await pipeline(Readable.from(text()), createGzip({ level: 1 }), async (gzipped: AsyncIterable<Buffer>) => {
+    for await (const chunk of gzipped) compressed.push(chunk);
+  });
+  return Buffer.concat(compressed);
 }
 
 /**
@@ -161,6 +181,13 @@ export function keepCommitRows(key: string, marker: string, rows: CommitRows): B
  */
 export function keptCommitRows(kept: Buffer | null, key: string, marker: string): CommitRows | null {
   if (!kept) return null;
-  const { key: keptKey, marker: keptMarker, rows } = JSON.parse(gunzipSync(kept).toString("utf8")) as Kept;
-  return keptKey === key && keptMarker === marker ? rows : null;
+  const text = gunzipSync(kept);
+  const headerEnd = text.indexOf(10);
+  const header = JSON.parse(text.subarray(0, headerEnd).toString("utf8")) as { key: string; marker: string };
+  if (header.key !== key || header.marker !== marker) return null;
+  const trailerStart = text.lastIndexOf(10) + 1;
+  const { lengths, ...counted } = JSON.parse(text.subarray(trailerStart).toString("utf8")) as Counted & { lengths: number[] };
+  let at = headerEnd + 1;
+  const [blocks, harvests, changes] = lengths.map((length) => [text.subarray(at, (at += length))]);
+  return { blocks, harvests, changes, ...counted };
 }

@@ -2,6 +2,7 @@ import { cautions } from "@/lib/cautions";
 import type { Difference } from "./analysis";
 import type { FactorialComparison, FactorialTrialAnalysis } from "./factorial";
 import type { StoredTrialResults } from "./report";
+import { formatDateTime, formatDay, utcDisplay, type TimeDisplay } from "@/lib/time/display";
 
 /** What a report export needs of a trial: the trial as the reader may see it (lib/data/trials.ts getTrial gives it). */
 export interface ReportTrial {
@@ -96,7 +97,8 @@ function differenceTable(rows: Difference[], farmAdjusted: boolean): ReportTable
  * Page 1: the answer, the arms and their adjusted means. Page 2: differences, farm by farm,
  * contamination, deviations, the protocol and the cautions.
  */
-export function trialReportDocument(trial: ReportTrial): TrialReportDocument {
+/** `display`: the reader's zone and date style (the download route passes them); UTC, named, otherwise. */
+export function trialReportDocument(trial: ReportTrial, display: TimeDisplay = utcDisplay): TrialReportDocument {
   const { analysis, deviations } = trial.results;
   const first: ReportSection[] = [
     {
@@ -236,9 +238,9 @@ export function trialReportDocument(trial: ReportTrial): TrialReportDocument {
 
   return {
     title: `${trial.code} — ${trial.title}`,
-    subtitle: `${trial.question}${trial.publishedAt ? ` Published ${trial.publishedAt.toISOString().slice(0, 10)}.` : ""}`,
+    subtitle: `${trial.question}${trial.publishedAt ? ` Published ${formatDay(trial.publishedAt, display)}.` : ""}`,
     pages: [first, second],
-    footer: `Analysed ${trial.results.analysedAt.slice(0, 16).replace("T", " ")} UTC. Rhizomorph records yields; it is not safety, food or health advice.`,
+    footer: `Analysed ${formatDateTime(trial.results.analysedAt, display)}. Rhizomorph records yields; it is not safety, food or health advice.`,
   };
 }
 

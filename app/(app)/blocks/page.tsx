@@ -32,7 +32,7 @@ export default async function BlocksPage() {
           Download as a season log (CSV)
         </a>
       </PageHeader>
-      <BlocksTable rows={rows} display={member.displayUnits} />
+      <BlocksTable rows={rows} display={member.displayUnits} dateStyle={member.dateStyle} />
     </>
   );
 }

@@ -2,9 +2,11 @@
 
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
+import { useMemo } from "react";
 import { DataTable } from "@/components/ui/data-table";
 import type { BlockRow } from "@/lib/data/blocks";
 import { formatMass, type MassDisplay } from "@/lib/units";
+import { formatDate, type DateStyle } from "@/lib/time/display";
 
 const noHarvestYet = "no harvest yet";
 
@@ -12,7 +14,7 @@ function percent(value: number | null): string {
   return value === null ? "" : `${value.toFixed(1)} %`;
 }
 
-function columnsFor(display: MassDisplay): ColumnDef<BlockRow, unknown>[] {
+function columnsFor(display: MassDisplay, dateStyle: DateStyle): ColumnDef<BlockRow, unknown>[] {
   return [
     {
       accessorKey: "code",
@@ -25,7 +27,13 @@ function columnsFor(display: MassDisplay): ColumnDef<BlockRow, unknown>[] {
     },
     { accessorKey: "strainCode", header: "Strain" },
     { accessorFn: (block) => block.recipeCode ?? "", id: "recipe", header: "Recipe" },
-    { accessorFn: (block) => block.inoculatedOn ?? "", id: "inoculated", header: "Inoculated" },
+    {
+      // Sorted and downloaded as YYYY-MM-DD; shown in the member's date style.
+      accessorFn: (block) => block.inoculatedOn ?? "",
+      id: "inoculated",
+      header: "Inoculated",
+      cell: ({ getValue }) => (getValue() ? formatDate(String(getValue()), dateStyle) : ""),
+    },
     {
       accessorFn: (block) => block.wetMassG,
       id: "wet",
@@ -62,11 +70,12 @@ function columnsFor(display: MassDisplay): ColumnDef<BlockRow, unknown>[] {
 }
 
 /** The farm's blocks, sortable and filterable; masses in the member's display units. */
-export function BlocksTable({ rows, display }: { rows: BlockRow[]; display: MassDisplay }) {
+export function BlocksTable({ rows, display, dateStyle }: { rows: BlockRow[]; display: MassDisplay; dateStyle: DateStyle }) {
+  const columns = useMemo(() => columnsFor(display, dateStyle), [display, dateStyle]);
   return (
     <DataTable
       caption="Blocks and harvests"
-      columns={columnsFor(display)}
+      columns={columns}
       rows={rows}
       emptyMessage="No blocks yet. Upload your season log, or ask the farm manager to."
       csvFileName="blocks-and-harvests.csv"

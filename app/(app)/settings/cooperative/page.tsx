@@ -5,6 +5,7 @@ import { requirePage } from "@/lib/auth/guard";
 import { getReleaseStatus } from "@/lib/data/pooled-releases";
 import { getCooperativeSettingsForEditing } from "@/lib/data/pooled-settings";
 import { getUploadRetentionDays } from "@/lib/data/upload-limits";
+import { timeDisplayFor } from "@/lib/time/member-display";
 import { ActionForm } from "@/components/forms/action-form";
 import { CooperativeSettingsForm } from "./_components/cooperative-settings-form";
 import { ReleasePanel } from "./_components/release-panel";
@@ -14,10 +15,11 @@ export const metadata: Metadata = { title: "Co-op settings" };
 
 export default async function CooperativeSettingsPage() {
   const member = await requirePage("settings:manage");
-  const [{ name, ...settings }, releases, retentionDays] = await Promise.all([
+  const [{ name, ...settings }, releases, retentionDays, display] = await Promise.all([
     getCooperativeSettingsForEditing(member),
     getReleaseStatus(member),
     getUploadRetentionDays(member),
+    timeDisplayFor(member),
   ]);
   return (
     <>
@@ -27,7 +29,7 @@ export default async function CooperativeSettingsPage() {
           <CooperativeSettingsForm settings={settings} />
         </Card>
         <Card title="Releases of the pooled figures">
-          <ReleasePanel status={releases} />
+          <ReleasePanel status={releases} display={display} />
         </Card>
         <Card title="Files of rejected uploads">
           <p className="mb-3 max-w-xl text-sm">

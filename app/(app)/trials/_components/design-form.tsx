@@ -37,6 +37,11 @@ export interface DesignValues {
   contaminatedHandling: "exclude" | "count_as_zero";
   protocolNotes: string;
   enrolmentDeadline: string;
+  inoculationFrom: string;
+  inoculationTo: string;
+  fruitingFrom: string;
+  fruitingTo: string;
+  dataDue: string;
   smallestDifference: string;
   expectedSd: string;
   plannedFarms: string;
@@ -166,7 +171,7 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
         const data = new FormData(event.currentTarget, event.nativeEvent.submitter);
         startTransition(() => formAction(data));
       }}
-      className="grid gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]"
+      className="grid grid-cols-1 gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]"
       aria-describedby={state.status === "error" ? "design-message" : undefined}
     >
       <input type="hidden" name="trialId" value={initial.trialId ?? ""} />
@@ -252,7 +257,7 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
           </fieldset>
           {designKind === "strain_by_method" ? (
             <div className="space-y-4" data-testid="crossed-design">
-              <div className="grid gap-4 sm:grid-cols-2">
+              <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
                 <fieldset className="space-y-1">
                   <legend className="mb-1 text-sm font-medium">Strains</legend>
                   {speciesStrains.length === 0 ? (
@@ -357,7 +362,7 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
                 {arms.map((arm, index) => (
                   <div
                     key={index}
-                    className="grid gap-3 rounded-lg border border-oat-300 p-3 sm:grid-cols-[6rem_1fr_1fr]"
+                    className="grid grid-cols-1 gap-3 rounded-lg border border-oat-300 p-3 sm:grid-cols-[6rem_1fr_1fr]"
                     data-testid="arm-row"
                   >
                     <div className="space-y-1">
@@ -455,7 +460,7 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
         </Card>
 
         <Card title="Outcome, decided in advance">
-          <div className="grid gap-4 sm:grid-cols-2">
+          <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
             <Field
               label="Biological efficiency over flushes 1 to"
               name="outcomeFlushes"
@@ -514,6 +519,44 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
               defaultValue={initial.enrolmentDeadline}
               errors={errors.enrolmentDeadline}
             />
+          </div>
+        </Card>
+
+        <Card title="Timeline">
+          <p className="mb-3 text-sm text-ink-soft">
+            Farms are followed against these dates only: a farm is behind when a window has closed without what it asks for, and gets a
+            reminder in the week before the data are due if something is still missing. Leave them empty and no farm is ever counted behind.
+          </p>
+          <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
+            <Field
+              label="Inoculation from"
+              name="inoculationFrom"
+              type="date"
+              defaultValue={initial.inoculationFrom}
+              errors={errors.inoculationFrom}
+            />
+            <Field
+              label="Inoculation to"
+              name="inoculationTo"
+              type="date"
+              defaultValue={initial.inoculationTo}
+              errors={errors.inoculationTo}
+            />
+            <Field
+              label="Fruiting expected from"
+              name="fruitingFrom"
+              type="date"
+              defaultValue={initial.fruitingFrom}
+              errors={errors.fruitingFrom}
+            />
+            <Field
+              label="Fruiting expected to"
+              name="fruitingTo"
+              type="date"
+              defaultValue={initial.fruitingTo}
+              errors={errors.fruitingTo}
+            />
+            <Field label="Data due" name="dataDue" type="date" defaultValue={initial.dataDue} errors={errors.dataDue} />
           </div>
         </Card>
         <div className="flex flex-wrap gap-3">
