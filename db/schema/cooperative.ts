@@ -1,7 +1,7 @@
 import { sql } from "drizzle-orm";
 import { bigserial, boolean, check, index, integer, pgTable, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 import type { ReleaseSchedule } from "../../lib/pooled/release-schedule";
-import { displayUnits, farmStatus, memberRole, tokenPurpose } from "./enums";
+import { dateStyle, displayUnits, farmStatus, memberRole, tokenPurpose } from "./enums";
 
 /** The single row of co-op-wide settings (id is always 1). */
 export const cooperativeSettings = pgTable(
@@ -63,6 +63,9 @@ export const users = pgTable(
     active: boolean("active").notNull().default(true),
     displayUnits: displayUnits("display_units").notNull().default("metric"),
     notifyReminders: boolean("notify_reminders").notNull().default(true),
+    /** An IANA zone name the member chose (lib/time/display.ts checks it); until then pages use the browser's zone. */
+    timeZone: text("time_zone"),
+    dateStyle: dateStyle("date_style").notNull().default("iso"),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
     lastSignInAt: timestamp("last_sign_in_at", { withTimezone: true }),
     /** Every session cookie carries the version it was issued under; raising it ends them all (a trigger raises it on a change of password, role, farm or active flag). */

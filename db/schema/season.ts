@@ -159,6 +159,8 @@ export const harvests = pgTable(
     // The warnings a grower read and saved anyway ("Save anyway" on the quick form), one a line; null when there were none.
     acceptedWarnings: text("accepted_warnings"),
     uploadId: uuid("upload_id").references(() => uploads.id, { onDelete: "set null" }),
+    // Made by the phone for each quick-form entry, so an entry sent again (offline queue, a lost answer) is stored once.
+    clientKey: uuid("client_key"),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
@@ -168,6 +170,7 @@ export const harvests = pgTable(
       "cascade",
     ),
     uniqueIndex("harvests_block_flush_unique").on(t.blockId, t.flush),
+    uniqueIndex("harvests_farm_client_key_unique").on(t.farmId, t.clientKey),
     index("harvests_farm_idx").on(t.farmId),
     check("harvests_flush_positive", sql`${t.flush} >= 1`),
     check("harvests_fresh_mass_not_negative", sql`${t.freshMassG} >= 0`),

@@ -246,7 +246,7 @@ export async function listHarvestTargets(member: Member): Promise<HarvestTarget[
 }
 
 export type RecordHarvestResult =
-  | { status: "saved"; blockId: string; blockCode: string; flush: number; freshGrams: number; asWritten: string }
+  | { status: "saved"; blockId: string; blockCode: string; flush: number; freshGrams: number; asWritten: string; again: boolean }
   | { status: "warnings"; warnings: HarvestProblem[] };
 
 /**
@@ -254,6 +254,8 @@ export type RecordHarvestResult =
  * (`checkQuickHarvest`). An error refuses it (`invalid_input`, a problem per field); warnings not
  * yet accepted return without saving, for the grower to correct or "save anyway", and the
  * warnings accepted are kept with the harvest. The block code matches whatever its capitals.
+ * An entry whose `clientKey` is stored already returns that harvest (`again`) and stores nothing:
+ * the phone sends it again whenever it did not hear the first answer.
  */
 export async function recordHarvest(
   member: Member,
@@ -263,7 +265,22 @@ export async function recordHarvest(
   const farm = farmOf(member, "see its blocks");
   return asMember(member, async (tx) => {
     // The same per-farm lock as a season-log commit, so a commit never plans around a flush recorded meanwhile.
+    // Under it, an entry sent again with its key finds the harvest the first sending stored.
     await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`season-log:${farm.farmId}`}, 0))`);
+    if (entry.clientKey) {
+      const [already] = await tx
+        .select({
+          blockId: harvests.blockId,
+          blockCode: blocks.code,
+          flush: harvests.flush,
+          freshGrams: harvests.freshMassG,
+          asWritten: harvests.freshMassAsWritten,
+        })
+        .from(harvests)
+        .innerJoin(blocks, eq(blocks.id, harvests.blockId))
+        .where(and(eq(harvests.farmId, farm.farmId), eq(harvests.clientKey, entry.clientKey)));
+      if (already) return { status: "saved", ...already, asWritten: already.asWritten ?? entry.weight, again: true };
+    }
     const typed = entry.blockCode.trim();
     const candidates = await tx
       .select({
@@ -308,6 +325,7 @@ export async function recordHarvest(
       freshMassAsWritten: asWritten,
       freshMassUnit: check.unit,
       acceptedWarnings: check.warnings.length > 0 ? check.warnings.map((warning) => warning.message).join("\n") : null,
+      clientKey: entry.clientKey ?? null,
     });
     await recordAudit(tx, {
       action: "harvest.recorded",
@@ -317,6 +335,6 @@ export async function recordHarvest(
       details: { blockId: block.id, flush: entry.flush, freshGrams, savedAnyway: check.warnings.map((warning) => warning.code) },
     });
     await queuePooledRefresh(tx, farm.farmId);
-    return { status: "saved", blockId: block.id, blockCode: block.code, flush: entry.flush, freshGrams, asWritten };
+    return { status: "saved", blockId: block.id, blockCode: block.code, flush: entry.flush, freshGrams, asWritten, again: false };
   });
 }

@@ -7,10 +7,12 @@ import { summariseOwnFarm, type OwnBlock, type OwnStrainSummary } from "@/lib/po
 import { seasonLabel } from "@/lib/seasons";
 import { asMember } from "./context";
 import { seasonStartIn } from "./seasons";
+import type { DateStyle } from "@/lib/time/display";
 
 export interface MyFarmPage {
   farmName: string;
   displayUnits: "metric" | "imperial";
+  dateStyle: DateStyle;
   minimumFarms: number;
   seasonStartedOn: string;
   /** The season shown (its starting year), or null for the last 365 days. */
@@ -73,6 +75,7 @@ export async function getMyFarm(member: Member, filter: { season?: number | null
   return {
     farmName: member.farmName ?? "Your farm",
     displayUnits: member.displayUnits,
+    dateStyle: member.dateStyle,
     minimumFarms,
     seasonStartedOn,
     season,

@@ -35,6 +35,7 @@ import { commitRowsOf, keepCommitRows, keptCommitRows, stagingKey, type CommitRo
 import { todayUtc } from "@/lib/import/dates";
 import type { Member } from "./members";
 import { asMember, farmOf } from "./context";
+import { chosenDisplay, formatDay } from "@/lib/time/display";
 
 export interface UploadSummary {
   id: string;
@@ -568,7 +569,10 @@ export async function commitUpload(
   const farm = farmOf(member, "work with its season logs");
   const stored = await storedUpload(member, uploadId);
   if (stored.outcome === "committed")
-    throw new AppError("conflict", `This upload was committed on ${iso(stored.committedAt)?.slice(0, 10)}; nothing more to do.`);
+    throw new AppError(
+      "conflict",
+      `This upload was committed on ${stored.committedAt ? formatDay(stored.committedAt, chosenDisplay(member)) : "an earlier day"}; nothing more to do.`,
+    );
   const setup = await getImportSetup(member);
   const key = stagingKey(choices, setup.knownStrains, todayUtc());
   const receipt = await asMember(member, async (tx) => {
@@ -578,7 +582,7 @@ export async function commitUpload(
     if (alreadyImportedAt) {
       throw new AppError(
         "conflict",
-        `This file was already imported on ${iso(alreadyImportedAt)!.slice(0, 10)}; committing it again would change nothing.`,
+        `This file was already imported on ${formatDay(alreadyImportedAt, chosenDisplay(member))}; committing it again would change nothing.`,
       );
     }
     const [upload] = await tx.select({ commitRows: uploads.commitRows }).from(uploads).where(eq(uploads.id, uploadId));

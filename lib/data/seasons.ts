@@ -20,7 +20,7 @@ export async function getSeasonStart(member: Member): Promise<SeasonStart> {
   return asMember(member, seasonStartIn);
 }
 
-/** The coordinator moves the day the season starts; every block's season follows at once (migration 0040). Audited. */
+/** The coordinator moves the day the season starts; every block's season follows at once (migration 0039). Audited. */
 export async function updateSeasonStart(member: Member, start: SeasonStart): Promise<void> {
   await asMember(member, async (tx) => {
     const before = await seasonStartIn(tx);
@@ -41,7 +41,7 @@ export async function updateSeasonStart(member: Member, start: SeasonStart): Pro
   });
 }
 
-/** A block's season in SQL: the one its season log named, else its inoculation date's (migration 0040). */
+/** A block's season in SQL: the one its season log named, else its inoculation date's (migration 0039). */
 export const blockSeasonYear = sql<number | null>`block_season_year(${blocks.inoculatedOn}, ${blocks.seasonYear})`;
 
 /** The seasons the member's farm has blocks in, newest first, with the co-op's season start to name them by. */

@@ -37,7 +37,7 @@ export default async function BlocksPage({ searchParams }: { searchParams: Promi
         </a>
       </PageHeader>
       <SeasonFilter path="/blocks" seasons={seasons} start={start} current={season} everything="All seasons" />
-      <BlocksTable rows={rows} display={member.displayUnits} seasonStart={start} />
+      <BlocksTable rows={rows} display={member.displayUnits} dateStyle={member.dateStyle} seasonStart={start} />
     </>
   );
 }

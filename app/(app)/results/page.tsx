@@ -3,6 +3,7 @@ import { Caution } from "@/components/ui/caution";
 import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { can } from "@/lib/auth/permissions";
+import { timeDisplayFor } from "@/lib/time/member-display";
 import { ResultsView } from "./_components/results-view";
 
 export const metadata: Metadata = { title: "Co-op results" };
@@ -19,7 +20,7 @@ export default async function ResultsPage() {
         <Caution which="pooledFigures" />
         <Caution which="foodAndHealth" />
       </div>
-      <ResultsView showsOwnFarm={can(member.role, "farm-data:read")} />
+      <ResultsView showsOwnFarm={can(member.role, "farm-data:read")} display={await timeDisplayFor(member)} />
     </>
   );
 }

@@ -2,10 +2,12 @@
 
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
+import { useMemo } from "react";
 import { DataTable } from "@/components/ui/data-table";
 import type { BlockRow } from "@/lib/data/blocks";
 import { seasonLabel, type SeasonStart } from "@/lib/seasons";
 import { formatMass, type MassDisplay } from "@/lib/units";
+import { formatDate, type DateStyle } from "@/lib/time/display";
 
 const noHarvestYet = "no harvest yet";
 
@@ -13,7 +15,7 @@ function percent(value: number | null): string {
   return value === null ? "" : `${value.toFixed(1)} %`;
 }
 
-function columnsFor(display: MassDisplay, seasonStart: SeasonStart): ColumnDef<BlockRow, unknown>[] {
+function columnsFor(display: MassDisplay, dateStyle: DateStyle, seasonStart: SeasonStart): ColumnDef<BlockRow, unknown>[] {
   return [
     {
       accessorKey: "code",
@@ -26,7 +28,13 @@ function columnsFor(display: MassDisplay, seasonStart: SeasonStart): ColumnDef<B
     },
     { accessorKey: "strainCode", header: "Strain" },
     { accessorFn: (block) => block.recipeCode ?? "", id: "recipe", header: "Recipe" },
-    { accessorFn: (block) => block.inoculatedOn ?? "", id: "inoculated", header: "Inoculated" },
+    {
+      // Sorted and downloaded as YYYY-MM-DD; shown in the member's date style.
+      accessorFn: (block) => block.inoculatedOn ?? "",
+      id: "inoculated",
+      header: "Inoculated",
+      cell: ({ getValue }) => (getValue() ? formatDate(String(getValue()), dateStyle) : ""),
+    },
     { accessorFn: (block) => (block.season === null ? "" : seasonLabel(block.season, seasonStart)), id: "season", header: "Season" },
     {
       accessorFn: (block) => block.wetMassG,
@@ -64,11 +72,22 @@ function columnsFor(display: MassDisplay, seasonStart: SeasonStart): ColumnDef<B
 }
 
 /** The farm's blocks, sortable and filterable; masses in the member's display units. */
-export function BlocksTable({ rows, display, seasonStart }: { rows: BlockRow[]; display: MassDisplay; seasonStart: SeasonStart }) {
+export function BlocksTable({
+  rows,
+  display,
+  dateStyle,
+  seasonStart,
+}: {
+  rows: BlockRow[];
+  display: MassDisplay;
+  dateStyle: DateStyle;
+  seasonStart: SeasonStart;
+}) {
+  const columns = useMemo(() => columnsFor(display, dateStyle, seasonStart), [display, dateStyle, seasonStart]);
   return (
     <DataTable
       caption="Blocks and harvests"
-      columns={columnsFor(display, seasonStart)}
+      columns={columns}
       rows={rows}
       emptyMessage="No blocks here yet. Upload your season log, or ask the farm manager to; or choose another season."
       csvFileName="blocks-and-harvests.csv"

@@ -8,6 +8,7 @@ import { Notice } from "@/components/ui/notice";
 import type { OwnStrainSummary } from "@/lib/pooled";
 import { useMyFarm } from "@/lib/queries/my-farm";
 import { formatMass } from "@/lib/units";
+import { formatDate } from "@/lib/time/display";
 
 type Row = Record<
   "strain" | "blocks" | "harvests" | "fresh" | "efficiency" | "percentile" | "contamination" | "massLoss" | "toCome",
@@ -94,7 +95,7 @@ export function MyFarmView({ season }: { season: number | null }) {
         <p className="mt-2 text-xs text-ink-soft">
           {page.seasonLabel
             ? `Blocks of season ${page.seasonLabel}: inoculated in it, or named in it by their season log. The co-op's figures cover every season.`
-            : `Blocks inoculated since ${page.seasonStartedOn}.`}{" "}
+            : `Blocks inoculated since ${formatDate(page.seasonStartedOn, page.dateStyle)}.`}{" "}
           Place in the co-op compares your mean with every co-op block of the strain, shown only where at least {page.minimumFarms} farms
           grew it. Still to come: the co-op&apos;s average flush profile applied to your active blocks, with 95 % prediction bounds.
         </p>
@@ -103,7 +104,7 @@ export function MyFarmView({ season }: { season: number | null }) {
         {withCurves.length === 0 ? (
           <p className="text-ink-soft">Not enough finished blocks yet to draw a flush curve.</p>
         ) : (
-          <div className="grid gap-6 md:grid-cols-2">
+          <div className="grid grid-cols-1 gap-6 md:grid-cols-2">
             {withCurves.map((strain) => (
               <section key={strain.strainId} aria-label={`Flush curve for ${strain.strainName}`}>
                 <h3 className="mb-2 font-semibold text-moss-800">{strain.strainName}</h3>

@@ -3,7 +3,9 @@
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
 import { DataTable } from "@/components/ui/data-table";
+import { useMemo } from "react";
 import type { UploadSummary } from "@/lib/data/season-logs";
+import { formatDateTime, formatDay, type TimeDisplay } from "@/lib/time/display";
 
 const outcomeWords: Record<UploadSummary["outcome"], string> = {
   received: "Checked, not committed",
@@ -12,12 +14,13 @@ const outcomeWords: Record<UploadSummary["outcome"], string> = {
   already_imported: "Same file as an earlier one",
 };
 
-const columns: ColumnDef<UploadSummary, unknown>[] = [
-  { accessorFn: (upload) => upload.uploadedAt.slice(0, 16).replace("T", " "), id: "uploadedAt", header: "Sent (UTC)" },
+// The stored instant sorts; the cell writes it in the member's zone and date style.
+const columnsFor = (display: TimeDisplay): ColumnDef<UploadSummary, unknown>[] => [
+  { accessorKey: "uploadedAt", header: "Sent", cell: ({ getValue }) => formatDateTime(String(getValue()), display) },
   { accessorKey: "fileName", header: "File" },
   { accessorKey: "rowCount", header: "Rows" },
   {
-    accessorFn: (upload) => (upload.undoneAt ? `Committed, undone ${upload.undoneAt.slice(0, 10)}` : outcomeWords[upload.outcome]),
+    accessorFn: (upload) => (upload.undoneAt ? `Committed, undone ${formatDay(upload.undoneAt, display)}` : outcomeWords[upload.outcome]),
     id: "outcome",
     header: "Outcome",
   },
@@ -50,7 +53,8 @@ const columns: ColumnDef<UploadSummary, unknown>[] = [
   },
 ];
 
-export function UploadHistory({ uploads }: { uploads: UploadSummary[] }) {
+export function UploadHistory({ uploads, display }: { uploads: UploadSummary[]; display: TimeDisplay }) {
+  const columns = useMemo(() => columnsFor(display), [display]);
   return (
     <DataTable
       caption="Past uploads"

@@ -7,6 +7,7 @@ import { getCooperativeSettingsForEditing } from "@/lib/data/pooled-settings";
 import { getSeasonStart } from "@/lib/data/seasons";
 import { getUploadRetentionDays } from "@/lib/data/upload-limits";
 import { monthOptions, seasonLabel, seasonOfDate, seasonStartLabel } from "@/lib/seasons";
+import { timeDisplayFor } from "@/lib/time/member-display";
 import { ActionForm } from "@/components/forms/action-form";
 import { CooperativeSettingsForm } from "./_components/cooperative-settings-form";
 import { ReleasePanel } from "./_components/release-panel";
@@ -17,11 +18,12 @@ export const metadata: Metadata = { title: "Co-op settings" };
 
 export default async function CooperativeSettingsPage() {
   const member = await requirePage("settings:manage");
-  const [{ name, ...settings }, releases, retentionDays, seasonStart] = await Promise.all([
+  const [{ name, ...settings }, releases, retentionDays, seasonStart, display] = await Promise.all([
     getCooperativeSettingsForEditing(member),
     getReleaseStatus(member),
     getUploadRetentionDays(member),
     getSeasonStart(member),
+    timeDisplayFor(member),
   ]);
   const today = new Date().toISOString().slice(0, 10);
   return (
@@ -32,7 +34,7 @@ export default async function CooperativeSettingsPage() {
           <CooperativeSettingsForm settings={settings} />
         </Card>
         <Card title="Releases of the pooled figures">
-          <ReleasePanel status={releases} />
+          <ReleasePanel status={releases} display={display} />
         </Card>
         <Card title="Seasons">
           <p className="mb-3 max-w-xl text-sm">
