@@ -4,7 +4,7 @@ import { sessionClaimsOf, sessionMaxAgeSeconds, type SessionClaims } from "@/lib
 import { env } from "@/lib/env";
 
 /** Paths anyone may open without signing in. */
-export const publicPaths = ["/sign-in", "/forbidden", "/accept-invitation", "/reset-password", "/cautions", "/unsubscribe"];
+export const publicPaths = ["/sign-in", "/forbidden", "/accept-invitation", "/reset-password", "/cautions", "/glossary", "/unsubscribe"];
 
 export function isPublicPath(pathname: string): boolean {
   return publicPaths.some((path) => pathname === path || pathname.startsWith(`${path}/`));

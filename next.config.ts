@@ -1,5 +1,5 @@
 import type { NextConfig } from "next";
-import { commonSecurityHeaders, resourceContentSecurityPolicy } from "./lib/http/security-headers";
+import { commonSecurityHeaders, resourceContentSecurityPolicy, serviceWorkerContentSecurityPolicy } from "./lib/http/security-headers";
 
 const nextConfig: NextConfig = {
   // Every response; pages get their Content Security Policy from proxy.ts, which does not run
@@ -8,10 +8,18 @@ const nextConfig: NextConfig = {
     const staticPolicy = [{ key: "Content-Security-Policy", value: resourceContentSecurityPolicy }];
     return Promise.resolve([
       { source: "/:path*", headers: commonSecurityHeaders() },
-      ...["/api/:path*", "/_next/static/:path*", "/_next/image/:path*", "/icon.svg", "/robots.txt"].map((source) => ({
-        source,
-        headers: staticPolicy,
-      })),
+      ...[
+        "/api/:path*",
+        "/_next/static/:path*",
+        "/_next/image/:path*",
+        "/icon.svg",
+        "/apple-icon.png",
+        "/icons/:path*",
+        "/manifest.webmanifest",
+        "/robots.txt",
+      ].map((source) => ({ source, headers: staticPolicy })),
+      // The service worker's own policy governs what it may fetch: the app itself, nothing else.
+      { source: "/sw.js", headers: [{ key: "Content-Security-Policy", value: serviceWorkerContentSecurityPolicy }] },
     ]);
   },
   // Several builds (the app, the test run) may share one checkout.

@@ -48,5 +48,6 @@ async function answer(request: NextRequest): Promise<NextResponse> {
 
 export const config = {
   // API routes and static files get their headers from next.config.ts.
-  matcher: ["/((?!api/|_next/static|_next/image|icon.svg|robots.txt).*)"],
+  // The manifest, the service worker and the icons load without a session (a browser fetches the manifest without cookies).
+  matcher: ["/((?!api/|_next/static|_next/image|icon.svg|apple-icon.png|icons/|manifest.webmanifest|sw.js|robots.txt).*)"],
 };

@@ -1,6 +1,7 @@
 import type { Metadata, Viewport } from "next";
 import localFont from "next/font/local";
 import { connection } from "next/server";
+import { BrowserTimeZone } from "@/components/time/browser-time-zone";
 import "./globals.css";
 
 const inter = localFont({
@@ -22,7 +23,10 @@ export default async function RootLayout({ children }: { children: React.ReactNo
   await connection();
   return (
     <html lang="en" className={inter.variable}>
-      <body className="min-h-screen font-sans antialiased">{children}</body>
+      <body className="min-h-screen font-sans antialiased">
+        <BrowserTimeZone />
+        {children}
+      </body>
     </html>
   );
 }

@@ -224,7 +224,7 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
         },
       ])
       .returning();
-    const [slitsAcross, slitsAlong] = await owner
+    const [slitsAcross, slitsAlong, topOpen] = await owner
       .insert(schema.treatments)
       .values([
         {
@@ -250,7 +250,7 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
       .returning();
 
     const coordinator = await owner.query.users.findFirst({ where: (users, { eq }) => eq(users.role, "coordinator") });
-    const [finishedTrial, enrollingTrial] = await owner
+    const [finishedTrial, enrollingTrial, crossedTrial] = await owner
       .insert(schema.trials)
       .values([
         {
@@ -262,6 +262,12 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
           outcomeFlushes: 2,
           contaminatedHandling: "exclude",
           protocolNotes: "2.5 kg blocks of HWB-20 at 62 % moisture, 5 % spawn by wet mass, fruited with slits across the bag.",
+          // The trial's blocks were inoculated on day 20 of the season (below).
+          inoculationFrom: addDays(today, -185),
+          inoculationTo: addDays(today, -175),
+          fruitingFrom: addDays(today, -160),
+          fruitingTo: addDays(today, -80),
+          dataDue: addDays(today, -50),
           smallestDifference: 10,
           expectedSd: 14,
           plannedFarms: 4,
@@ -278,10 +284,32 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
           contaminatedHandling: "count_as_zero",
           protocolNotes: "HE-01 on HWB-20, 2.5 kg blocks; humidity held at 90 % or more.",
           enrolmentDeadline: addDays(today, 21),
+          inoculationFrom: addDays(today, 28),
+          inoculationTo: addDays(today, 42),
+          fruitingFrom: addDays(today, 63),
+          fruitingTo: addDays(today, 120),
+          dataDue: addDays(today, 135),
           smallestDifference: 8,
           expectedSd: 12,
           plannedFarms: 5,
           expectedLoss: 0.08,
+          createdBy: coordinator?.id,
+        },
+        {
+          // A draft crossing two strains with two fruiting methods, for the coordinator to open (no blocks yet).
+          code: "T-2026-03",
+          title: "Slits or an opened top, for PO-01 and PO-02?",
+          question: "Do slits across the bag give more BE over two flushes than an opened top, and does the answer depend on the strain?",
+          speciesId: speciesByKey.get("oyster")!.row.id,
+          status: "draft",
+          designKind: "strain_by_method",
+          outcomeFlushes: 2,
+          contaminatedHandling: "exclude",
+          protocolNotes: "2.5 kg blocks of HWB-20 at 62 % moisture, 5 % spawn by wet mass.",
+          smallestDifference: 8,
+          expectedSd: 12,
+          plannedFarms: 4,
+          expectedLoss: 0.05,
           createdBy: coordinator?.id,
         },
       ])
@@ -308,6 +336,16 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
           position: 1,
         },
         { trialId: enrollingTrial.id, label: "Along", strainId: strainByCode.get("HE-01")!.id, treatmentId: slitsAlong.id, position: 2 },
+        ...(["PO-01", "PO-02"] as const).flatMap((strainCode, i) =>
+          [slitsAcross, topOpen].map((method, j) => ({
+            trialId: crossedTrial.id,
+            label: String.fromCharCode(65 + 2 * i + j),
+            strainId: strainByCode.get(strainCode)!.id,
+            treatmentId: method.id,
+            isReference: i === 0 && j === 0,
+            position: 2 * i + j + 1,
+          })),
+        ),
       ])
       .returning();
     const finishedArms = trialArms.slice(0, 3);

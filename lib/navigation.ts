@@ -8,6 +8,8 @@ export interface NavigationItem {
 
 /** The signed-in menu, in the order a member reads it; each entry shows only to roles that may open it. */
 export const navigationItems: NavigationItem[] = [
+  // First for the coordinator, so it is where they land.
+  { href: "/coordinator", label: "Follow-up", action: "trial:follow-all-farms" },
   { href: "/my-farm", label: "My farm", action: "farm-data:read" },
   { href: "/season-logs", label: "Season logs", action: "season-log:upload" },
   { href: "/blocks", label: "Blocks & harvests", action: "farm-data:read" },

@@ -99,6 +99,8 @@ async function prepareFarm(owner: Pool, name: string): Promise<Member> {
     farmName: name,
     active: true,
     displayUnits: "metric",
+    timeZone: null,
+    dateStyle: "iso",
     sessionVersion: 1,
   };
 }

@@ -7,6 +7,14 @@ ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 cd "$ROOT"
 
 say() { printf '\033[1;32m▸\033[0m %s\n' "$*"; }
+# Runs a slow step after saying what it is and roughly how long it takes, then says how long it took.
+timed() {
+  local what="$1" started=$SECONDS
+  shift
+  say "$what"
+  "$@" || return
+  say "  done in $((SECONDS - started)) s"
+}
 fail() { printf '\033[1;31m✗ %s\033[0m\n' "$*" >&2; exit 1; }
 
 PG_PORT="${RHIZO_PG_PORT:-54329}"
@@ -81,8 +89,7 @@ ensure_dependencies() {
   if [ -f "$stamp" ] && [ "$(cat "$stamp")" = "$want" ]; then
     say "Dependencies already installed"
   else
-    say "Installing dependencies (npm ci)"
-    npm ci --no-audit --no-fund --loglevel=error
+    timed "Installing dependencies (npm ci, about a minute the first time)" npm ci --no-audit --no-fund --loglevel=error
     echo "$want" >"$stamp"
   fi
 }
@@ -117,11 +124,11 @@ start_mail_server() {
 # Builds the app into $NEXT_DIST_DIR (default .next) unless a build newer than every source is there.
 ensure_app_build() {
   local dist_dir="${NEXT_DIST_DIR:-.next}"
-  if [ -f "$dist_dir/BUILD_ID" ] && [ -z "$(find app components lib db auth.ts auth.config.ts proxy.ts next.config.ts package-lock.json public \
-    -newer "$dist_dir/BUILD_ID" -not -path 'db/migrations/*' -print -quit 2>/dev/null)" ]; then
+  # public/sw.js is written from the build (npm run build), so it is always newer than BUILD_ID.
+  if [ -f "$dist_dir/BUILD_ID" ] && [ -f public/sw.js ] && [ -z "$(find app components lib db auth.ts auth.config.ts proxy.ts next.config.ts serwist.config.js package-lock.json public \
+    -newer "$dist_dir/BUILD_ID" -not -path 'db/migrations/*' -not -path 'public/sw.js*' -print -quit 2>/dev/null)" ]; then
     say "The app build is up to date"
   else
-    say "Building the app (about a minute)"
-    npx next build
+    timed "Building the app (next build and the service worker, two to four minutes on two cores)" npm run build
   fi
 }

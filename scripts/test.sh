@@ -82,7 +82,7 @@ fi
 
 if wants e2e; then
   say "Building the app for the browser tests"
-  if npx next build >"$RHIZO_TEST_RESULTS/next-build.log" 2>&1; then
+  if npm run build >"$RHIZO_TEST_RESULTS/next-build.log" 2>&1; then
     fresh_database
     # Before the browser tests' server starts: these start, kill and restart app processes of
     # their own, on copies of the fresh database.

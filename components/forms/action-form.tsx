@@ -1,6 +1,6 @@
 "use client";
 
-import { useActionState } from "react";
+import { useActionState, useId } from "react";
 import { Button } from "@/components/ui/button";
 import { Field } from "@/components/ui/field";
 import type { ActionState } from "@/lib/auth/guard";
@@ -50,8 +50,28 @@ export function ActionForm({
   /** Inputs the page lays out itself, between the fields and the button. */
   children?: React.ReactNode;
 }) {
-  const [state, formAction, pending] = useActionState<ActionState, FormData>(action, { status: "idle" });
+  // On an error the form shows what was typed again (React empties a form after its action runs);
+  // each answer remounts the fields, so their starting values are the ones just sent.
+  const [state, formAction, pending] = useActionState<ActionState & { typed?: Record<string, string>; answer?: number }, FormData>(
+    async (previous, formData) => {
+      const next = await action(previous, formData);
+      const typed = Object.fromEntries(
+        [...formData.entries()].filter((entry): entry is [string, string] => typeof entry[1] === "string" && !/password/i.test(entry[0])),
+      );
+      return {
+        ...next,
+        typed: next.status === "error" || next.status === "confirm" ? typed : undefined,
+        answer: (previous.answer ?? 0) + 1,
+      };
+    },
+    { status: "idle" },
+  );
   const errorsOf = (name: string) => state.fieldErrors?.[name];
+  const startOf = (field: FormFieldSpec) => state.typed?.[field.name] ?? field.defaultValue;
+  // Ids of this form's own: two forms on one page may have fields of the same name.
+  const formId = useId();
+  const idOf = (name: string) => `${testId ?? "form"}${formId}-${name}`;
+  const keyOf = (name: string) => `${name}-${state.answer ?? 0}`;
   // Errors for names that have no field here (hidden inputs, inputs passed as children) are listed under the message.
   const shown = new Set(fields.map((field) => field.name));
   const otherErrors = Object.entries(state.fieldErrors ?? {})
@@ -73,15 +93,15 @@ export function ActionForm({
       ))}
       {fields.map((field) =>
         field.options ? (
-          <div key={field.name} className="space-y-1">
-            <label htmlFor={`${testId ?? "form"}-${field.name}`} className="block text-sm font-medium text-ink">
+          <div key={keyOf(field.name)} className="space-y-1">
+            <label htmlFor={idOf(field.name)} className="block text-sm font-medium text-ink">
               {field.label}
             </label>
             <select
-              id={`${testId ?? "form"}-${field.name}`}
+              id={idOf(field.name)}
               name={field.name}
-              defaultValue={field.defaultValue}
-              aria-describedby={errorsOf(field.name)?.length ? `${testId ?? "form"}-${field.name}-errors` : undefined}
+              defaultValue={startOf(field)}
+              aria-describedby={errorsOf(field.name)?.length ? `${idOf(field.name)}-errors` : undefined}
               className={selectClass}
             >
               {field.options.map((option) => (
@@ -91,7 +111,7 @@ export function ActionForm({
               ))}
             </select>
             {errorsOf(field.name)?.length ? (
-              <ul id={`${testId ?? "form"}-${field.name}-errors`} className="text-sm text-danger-ink">
+              <ul id={`${idOf(field.name)}-errors`} className="text-sm text-danger-ink">
                 {errorsOf(field.name)?.map((error) => (
                   <li key={error}>{error}</li>
                 ))}
@@ -99,19 +119,26 @@ export function ActionForm({
             ) : null}
           </div>
         ) : field.type === "checkbox" ? (
-          <label key={field.name} className="flex min-h-11 items-center gap-3 text-sm">
-            <input type="checkbox" name={field.name} value="on" defaultChecked={field.defaultChecked} className="h-5 w-5" />
+          <label key={keyOf(field.name)} className="flex min-h-11 items-center gap-3 text-sm">
+            <input
+              type="checkbox"
+              name={field.name}
+              value="on"
+              defaultChecked={state.typed ? state.typed[field.name] === "on" : field.defaultChecked}
+              className="h-5 w-5"
+            />
             {field.label}
           </label>
         ) : (
           <Field
-            key={field.name}
+            key={keyOf(field.name)}
+            id={idOf(field.name)}
             label={field.label}
             name={field.name}
             type={field.type ?? "text"}
             hint={field.hint}
             autoComplete={field.autoComplete}
-            defaultValue={field.defaultValue}
+            defaultValue={field.type === "password" || field.type === "file" ? undefined : startOf(field)}
             errors={errorsOf(field.name)}
           />
         ),

@@ -13,6 +13,7 @@ import {
 } from "@tanstack/react-table";
 import { useState } from "react";
 import { toCsv } from "@/lib/csv";
+import { ScrollFrame } from "./scroll-frame";
 
 export interface DataTableProps<Row> {
   /** Accessible name of the table, also used for the CSV file name. */
@@ -116,7 +117,7 @@ export function DataTable<Row>({
           </button>
         ) : null}
       </div>
-      <div className="overflow-x-auto rounded-lg border border-oat-300 bg-white">
+      <ScrollFrame label={caption} className="rounded-lg border border-oat-300 bg-white">
         <table className="min-w-full text-sm">
           <caption className="sr-only">{caption}</caption>
           <thead className="bg-oat-200 text-left">
@@ -157,7 +158,7 @@ export function DataTable<Row>({
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollFrame>
       {table.getFilteredRowModel().rows.length === 0 ? <p className="text-sm text-ink-soft">No rows match “{filter}”.</p> : null}
       {pageCount > 1 ? (
         <nav aria-label={`${caption} pages`} className="flex items-center gap-3 text-sm">

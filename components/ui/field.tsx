@@ -2,20 +2,21 @@
 export function Field({
   label,
   name,
+  id = name,
   errors,
   hint,
   ...inputProps
-}: { label: string; name: string; errors?: string[]; hint?: string } & React.InputHTMLAttributes<HTMLInputElement>) {
-  const errorId = `${name}-errors`;
-  const hintId = `${name}-hint`;
+}: { label: string; name: string; id?: string; errors?: string[]; hint?: string } & React.InputHTMLAttributes<HTMLInputElement>) {
+  const errorId = `${id}-errors`;
+  const hintId = `${id}-hint`;
   const describedBy = [hint ? hintId : null, errors?.length ? errorId : null].filter(Boolean).join(" ") || undefined;
   return (
     <div className="space-y-1">
-      <label htmlFor={name} className="block text-sm font-medium text-ink">
+      <label htmlFor={id} className="block text-sm font-medium text-ink">
         {label}
       </label>
       <input
-        id={name}
+        id={id}
         name={name}
         aria-describedby={describedBy}
         aria-invalid={errors?.length ? true : undefined}

@@ -1,7 +1,7 @@
 import { sql } from "drizzle-orm";
 import { bigserial, boolean, check, index, integer, pgTable, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 import type { ReleaseSchedule } from "../../lib/pooled/release-schedule";
-import { displayUnits, farmStatus, memberRole, tokenPurpose } from "./enums";
+import { dateStyle, displayUnits, farmStatus, memberRole, tokenPurpose } from "./enums";
 
 /** The single row of co-op-wide settings (id is always 1). */
 export const cooperativeSettings = pgTable(
@@ -18,6 +18,9 @@ export const cooperativeSettings = pgTable(
     releaseHour: integer("release_hour").notNull().default(2),
     /** Days the file of a rejected season-log upload is kept before it is removed (the record and report stay). */
     rejectedUploadRetentionDays: integer("rejected_upload_retention_days").notNull().default(30),
+    /** The day the co-op's season starts (lib/seasons.ts); a block inoculated before it belongs to the season before. */
+    seasonStartMonth: integer("season_start_month").notNull().default(1),
+    seasonStartDay: integer("season_start_day").notNull().default(1),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [
@@ -27,6 +30,11 @@ export const cooperativeSettings = pgTable(
     check("release_schedule_known", sql`${t.releaseSchedule} in ('daily', 'weekly', 'manual')`),
     check("release_hour_of_day", sql`${t.releaseHour} between 0 and 23`),
     check("rejected_upload_retention_range", sql`${t.rejectedUploadRetentionDays} between 1 and 3650`),
+    // A day every year has: 29 February is refused, or the season would have no first day in most years.
+    check(
+      "season_start_every_year",
+      sql`${t.seasonStartMonth} between 1 and 12 and ${t.seasonStartDay} >= 1 and ${t.seasonStartDay} <= (case ${t.seasonStartMonth} when 2 then 28 when 4 then 30 when 6 then 30 when 9 then 30 when 11 then 30 else 31 end)`,
+    ),
   ],
 );
 
@@ -55,6 +63,9 @@ export const users = pgTable(
     active: boolean("active").notNull().default(true),
     displayUnits: displayUnits("display_units").notNull().default("metric"),
     notifyReminders: boolean("notify_reminders").notNull().default(true),
+    /** An IANA zone name the member chose (lib/time/display.ts checks it); until then pages use the browser's zone. */
+    timeZone: text("time_zone"),
+    dateStyle: dateStyle("date_style").notNull().default("iso"),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
     lastSignInAt: timestamp("last_sign_in_at", { withTimezone: true }),
     /** Every session cookie carries the version it was issued under; raising it ends them all (a trigger raises it on a change of password, role, farm or active flag). */

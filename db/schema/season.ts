@@ -107,6 +107,14 @@ export const blocks = pgTable(
     fruitingMethodId: uuid("fruiting_method_id").references(() => treatments.id),
     trialArmId: uuid("trial_arm_id").references(() => trialArms.id),
     inoculatedOn: date("inoculated_on"),
+    /**
+     * The season (its starting year) as the season log names it; null when the block follows its
+     * inoculation date. The season shown and filtered on is block_season_year(inoculated_on,
+     * season_year) in SQL (migration 0039), computed at read from the co-op's season start rather
+     * than stored on write: a coordinator who moves the start day then moves every farm's blocks
+     * at once, which a write could not do (row-level security keeps each farm's blocks to itself).
+     */
+    seasonYear: integer("season_year"),
     wetMassG: massColumns("wet_mass").grams,
     wetMassAsWritten: massColumns("wet_mass").asWritten,
     wetMassUnit: massColumns("wet_mass").unit,
@@ -129,6 +137,7 @@ export const blocks = pgTable(
     check("blocks_wet_mass_not_negative", sql`${t.wetMassG} >= 0`),
     check("blocks_spent_mass_not_negative", sql`${t.spentMassG} >= 0`),
     check("blocks_moisture_range", sql`${t.moisture} >= 0 and ${t.moisture} < 1`),
+    check("blocks_season_year_range", sql`${t.seasonYear} between 1970 and 2099`),
   ],
 );
 
@@ -150,6 +159,8 @@ export const harvests = pgTable(
     // The warnings a grower read and saved anyway ("Save anyway" on the quick form), one a line; null when there were none.
     acceptedWarnings: text("accepted_warnings"),
     uploadId: uuid("upload_id").references(() => uploads.id, { onDelete: "set null" }),
+    // Made by the phone for each quick-form entry, so an entry sent again (offline queue, a lost answer) is stored once.
+    clientKey: uuid("client_key"),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
@@ -159,6 +170,7 @@ export const harvests = pgTable(
       "cascade",
     ),
     uniqueIndex("harvests_block_flush_unique").on(t.blockId, t.flush),
+    uniqueIndex("harvests_farm_client_key_unique").on(t.farmId, t.clientKey),
     index("harvests_farm_idx").on(t.farmId),
     check("harvests_flush_positive", sql`${t.flush} >= 1`),
     check("harvests_fresh_mass_not_negative", sql`${t.freshMassG} >= 0`),

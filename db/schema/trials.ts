@@ -15,7 +15,7 @@ import {
   uuid,
 } from "drizzle-orm/pg-core";
 import { farms, users } from "./cooperative";
-import { contaminatedHandling, enrolmentStatus, trialStatus } from "./enums";
+import { contaminatedHandling, enrolmentStatus, trialDesignKind, trialStatus } from "./enums";
 import { species, strains, treatments } from "./registries";
 
 export const trials = pgTable(
@@ -29,10 +29,18 @@ export const trials = pgTable(
       .notNull()
       .references(() => species.id),
     status: trialStatus("status").notNull().default("draft"),
+    /** One factor, or strains crossed with fruiting methods: each arm's levels are its strain and its treatment. */
+    designKind: trialDesignKind("design_kind").notNull().default("one_factor"),
     outcomeFlushes: integer("outcome_flushes").notNull().default(2),
     contaminatedHandling: contaminatedHandling("contaminated_handling").notNull().default("exclude"),
     protocolNotes: text("protocol_notes").notNull().default(""),
     enrolmentDeadline: date("enrolment_deadline"),
+    // The timeline farms are followed against (lib/trials/timeline.ts): dates, inclusive.
+    inoculationFrom: date("inoculation_from"),
+    inoculationTo: date("inoculation_to"),
+    fruitingFrom: date("fruiting_from"),
+    fruitingTo: date("fruiting_to"),
+    dataDue: date("data_due"),
     smallestDifference: numeric("smallest_difference", { mode: "number" }),
     expectedSd: numeric("expected_sd", { mode: "number" }),
     plannedFarms: integer("planned_farms"),
@@ -47,6 +55,12 @@ export const trials = pgTable(
   (t) => [
     uniqueIndex("trials_code_unique").on(t.code),
     check("outcome_flushes_positive", sql`${t.outcomeFlushes} >= 1`),
+    check(
+      "trial_timeline_order",
+      sql`(${t.inoculationFrom} is null or ${t.inoculationTo} is null or ${t.inoculationFrom} <= ${t.inoculationTo})
+        and (${t.fruitingFrom} is null or ${t.fruitingTo} is null or ${t.fruitingFrom} <= ${t.fruitingTo})
+        and (${t.fruitingFrom} is null or ${t.dataDue} is null or ${t.fruitingFrom} < ${t.dataDue})`,
+    ),
     check("expected_loss_range", sql`${t.expectedLoss} is null or (${t.expectedLoss} >= 0 and ${t.expectedLoss} < 1)`),
   ],
 );
@@ -90,6 +104,38 @@ export const trialEnrolments = pgTable(
     uniqueIndex("trial_enrolments_farm_unique").on(t.trialId, t.farmId),
     index("trial_enrolments_farm_idx").on(t.farmId),
     check("blocks_per_arm_positive", sql`${t.blocksPerArm} is null or ${t.blocksPerArm} >= 1`),
+  ],
+);
+
+/**
+ * Every reminder a farm got about a trial, by the daily sweep or by the coordinator's hand: one a
+ * day per enrolment at most, which the unique key enforces even when two sweeps run at once.
+ */
+export const trialReminders = pgTable(
+  "trial_reminders",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    enrolmentId: uuid("enrolment_id")
+      .notNull()
+      .references(() => trialEnrolments.id, { onDelete: "cascade" }),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    /** The day (UTC) it went out: the key that allows one a day. */
+    remindedOn: date("reminded_on").notNull(),
+    sentAt: timestamp("sent_at", { withTimezone: true }).notNull().defaultNow(),
+    /** "before-due" and "behind" from the sweep, "by-hand" from the coordinator. */
+    kind: text("kind").notNull(),
+    // Who sent one by hand; no foreign key, as the audit log keeps an actor.
+    sentBy: uuid("sent_by"),
+  },
+  (t) => [
+    uniqueIndex("trial_reminders_one_a_day").on(t.enrolmentId, t.remindedOn),
+    index("trial_reminders_trial_idx").on(t.trialId),
+    check("trial_reminders_kind", sql`${t.kind} in ('before-due', 'behind', 'by-hand')`),
   ],
 );
 

@@ -14,6 +14,7 @@ import {
 } from "@/lib/season-logs/quick-harvest";
 import type { Member } from "./members";
 import { asMember, farmOf } from "./context";
+import { blockSeasonYear } from "./seasons";
 
 export interface BlockRow {
   id: string;
@@ -21,6 +22,8 @@ export interface BlockRow {
   strainCode: string;
   recipeCode: string | null;
   inoculatedOn: string | null;
+  /** The season (its starting year): the one its season log named, else its inoculation date's; null with neither. */
+  season: number | null;
   wetMassG: number | null;
   moisture: number | null;
   flushes: number;
@@ -76,6 +79,7 @@ const blockColumns = {
   strainCode: strains.code,
   recipeCode: substrateRecipes.code,
   inoculatedOn: blocks.inoculatedOn,
+  season: blockSeasonYear,
   wetMassG: blocks.wetMassG,
   moisture: blocks.moisture,
   contaminated: blocks.contaminated,
@@ -93,6 +97,7 @@ type BlockSelection = {
   strainCode: string;
   recipeCode: string | null;
   inoculatedOn: string | null;
+  season: number | null;
   wetMassG: number | null;
   moisture: number | null;
   contaminated: boolean;
@@ -108,6 +113,7 @@ function withFigures(row: BlockSelection): BlockRow & { spentMassG: number | nul
   const totalFreshG = Number(row.totalFreshG);
   return {
     ...row,
+    season: row.season === null ? null : Number(row.season),
     flushes: Number(row.flushes),
     totalFreshG,
     ...blockFigures({
@@ -120,8 +126,8 @@ function withFigures(row: BlockSelection): BlockRow & { spentMassG: number | nul
   };
 }
 
-/** The farm's blocks with flush count, total fresh weight, biological efficiency and mass loss. */
-export async function listBlocks(member: Member): Promise<BlockRow[]> {
+/** The farm's blocks with flush count, total fresh weight, biological efficiency and mass loss; of one season when asked. */
+export async function listBlocks(member: Member, filter: { season?: number | null } = {}): Promise<BlockRow[]> {
   const farm = farmOf(member, "see its blocks");
   const rows = await asMember(member, (tx) =>
     tx
@@ -131,7 +137,7 @@ export async function listBlocks(member: Member): Promise<BlockRow[]> {
       .leftJoin(substrateRecipes, eq(substrateRecipes.id, blocks.substrateRecipeId))
       .leftJoin(trialArms, eq(trialArms.id, blocks.trialArmId))
       .leftJoin(trials, eq(trials.id, trialArms.trialId))
-      .where(eq(blocks.farmId, farm.farmId))
+      .where(and(eq(blocks.farmId, farm.farmId), filter.season == null ? undefined : eq(blockSeasonYear, filter.season)))
       .orderBy(asc(blocks.code)),
   );
   return rows.map((row) => {
@@ -142,6 +148,7 @@ export async function listBlocks(member: Member): Promise<BlockRow[]> {
       strainCode: full.strainCode,
       recipeCode: full.recipeCode,
       inoculatedOn: full.inoculatedOn,
+      season: full.season,
       wetMassG: full.wetMassG,
       moisture: full.moisture,
       flushes: full.flushes,
@@ -239,7 +246,7 @@ export async function listHarvestTargets(member: Member): Promise<HarvestTarget[
 }
 
 export type RecordHarvestResult =
-  | { status: "saved"; blockId: string; blockCode: string; flush: number; freshGrams: number; asWritten: string }
+  | { status: "saved"; blockId: string; blockCode: string; flush: number; freshGrams: number; asWritten: string; again: boolean }
   | { status: "warnings"; warnings: HarvestProblem[] };
 
 /**
@@ -247,6 +254,8 @@ export type RecordHarvestResult =
  * (`checkQuickHarvest`). An error refuses it (`invalid_input`, a problem per field); warnings not
  * yet accepted return without saving, for the grower to correct or "save anyway", and the
  * warnings accepted are kept with the harvest. The block code matches whatever its capitals.
+ * An entry whose `clientKey` is stored already returns that harvest (`again`) and stores nothing:
+ * the phone sends it again whenever it did not hear the first answer.
  */
 export async function recordHarvest(
   member: Member,
@@ -256,7 +265,22 @@ export async function recordHarvest(
   const farm = farmOf(member, "see its blocks");
   return asMember(member, async (tx) => {
     // The same per-farm lock as a season-log commit, so a commit never plans around a flush recorded meanwhile.
+    // Under it, an entry sent again with its key finds the harvest the first sending stored.
     await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`season-log:${farm.farmId}`}, 0))`);
+    if (entry.clientKey) {
+      const [already] = await tx
+        .select({
+          blockId: harvests.blockId,
+          blockCode: blocks.code,
+          flush: harvests.flush,
+          freshGrams: harvests.freshMassG,
+          asWritten: harvests.freshMassAsWritten,
+        })
+        .from(harvests)
+        .innerJoin(blocks, eq(blocks.id, harvests.blockId))
+        .where(and(eq(harvests.farmId, farm.farmId), eq(harvests.clientKey, entry.clientKey)));
+      if (already) return { status: "saved", ...already, asWritten: already.asWritten ?? entry.weight, again: true };
+    }
     const typed = entry.blockCode.trim();
     const candidates = await tx
       .select({
@@ -301,6 +325,7 @@ export async function recordHarvest(
       freshMassAsWritten: asWritten,
       freshMassUnit: check.unit,
       acceptedWarnings: check.warnings.length > 0 ? check.warnings.map((warning) => warning.message).join("\n") : null,
+      clientKey: entry.clientKey ?? null,
     });
     await recordAudit(tx, {
       action: "harvest.recorded",
@@ -310,6 +335,6 @@ export async function recordHarvest(
       details: { blockId: block.id, flush: entry.flush, freshGrams, savedAnyway: check.warnings.map((warning) => warning.code) },
     });
     await queuePooledRefresh(tx, farm.farmId);
-    return { status: "saved", blockId: block.id, blockCode: block.code, flush: entry.flush, freshGrams, asWritten };
+    return { status: "saved", blockId: block.id, blockCode: block.code, flush: entry.flush, freshGrams, asWritten, again: false };
   });
 }

@@ -24,6 +24,7 @@ import type { UploadReport } from "@/lib/season-logs/report";
 import { planUndo, type CommitChange } from "@/lib/season-logs/undo";
 import type { Member } from "./members";
 import { asMember, farmOf, type FarmMemberContext } from "./context";
+import { chosenDisplay, formatDay } from "@/lib/time/display";
 
 /**
  * Corrections in the app and undoing a season-log commit. Each runs in one transaction through
@@ -280,7 +281,7 @@ export async function undoCommit(member: Member, entry: { uploadId: string; reas
     if (upload.undoneAt)
       throw new AppError(
         "conflict",
-        `This commit was already undone on ${upload.undoneAt.toISOString().slice(0, 10)}; nothing more to do.`,
+        `This commit was already undone on ${formatDay(upload.undoneAt, chosenDisplay(member))}; nothing more to do.`,
       );
     if (!upload.keptForUndo)
       throw new AppError(

@@ -19,7 +19,7 @@ import {
 import { toCsv } from "@/lib/csv";
 import { AppError } from "@/lib/errors";
 import { exportFiles, exportReadme, originalFileName, withdrawalConfirmed } from "@/lib/members/farm-export";
-import { recordAudit } from "./audit";
+import { actor, recordAudit } from "./audit";
 import type { Member } from "./members";
 import { queuePooledRefresh } from "./pooled-refresh";
 import { asMember, farmOf, type FarmMemberContext } from "./context";
@@ -127,8 +127,7 @@ export async function exportFarmData(member: Member): Promise<{ fileName: string
       }),
     );
     await recordAudit(tx, {
-      actorUserId: member.id,
-      actorLabel: member.name,
+      ...actor(member),
       farmId,
       action: "farm.data-exported",
       subject: farm?.name ?? "",
@@ -187,8 +186,7 @@ export async function withdrawFarmData(member: Member, typedConfirmation: string
       publishedTrialsNoted: noted.rows[0]?.trials ?? 0,
     };
     const entry = {
-      actorUserId: member.id,
-      actorLabel: member.name,
+      ...actor(member),
       action: "farm.withdrew-data" as const,
       subject: farm.name,
       details: { farmId, ...result },

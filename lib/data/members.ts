@@ -10,6 +10,7 @@ import { AppError } from "@/lib/errors";
 import { enqueue } from "@/lib/jobs/queue";
 import { invitationMessage, passwordChangedMessage, passwordResetMessage, roleChangedMessage } from "@/lib/mail/messages/members";
 import { deactivationProblem, invitationProblem, roleChangeProblem, transferProblem, type Person } from "@/lib/members/roles";
+import { chosenDisplay, type DateStyle } from "@/lib/time/display";
 import { hashToken, isWellFormedToken, tokenExpiresAt, type TokenPurpose } from "@/lib/members/tokens";
 import { actor, recordAudit } from "./audit";
 import { queueMail, secretLink } from "./mail";
@@ -24,6 +25,9 @@ export interface Member {
   farmName: string | null;
   active: boolean;
   displayUnits: "metric" | "imperial";
+  /** Null until the member chooses one: pages then use the browser's zone (lib/time/member-display.ts). */
+  timeZone: string | null;
+  dateStyle: DateStyle;
   /** Sessions issued under another version have ended (lib/auth/sessions.ts). */
   sessionVersion: number;
 }
@@ -40,6 +44,8 @@ export async function loadMember(userId: string): Promise<Member | null> {
         farmId: users.farmId,
         active: users.active,
         displayUnits: users.displayUnits,
+        timeZone: users.timeZone,
+        dateStyle: users.dateStyle,
         sessionVersion: users.sessionVersion,
       })
       .from(users)
@@ -422,7 +428,7 @@ export async function requestPasswordReset(email: string, ip: string | null): Pr
 export async function issuePasswordReset(request: { email: string; ip: string | null }): Promise<void> {
   const expiresAt = tokenExpiresAt("password_reset", new Date());
   await asNobody(async (tx) => {
-    const result = await tx.execute<{ user_id: string; name: string }>(
+    const result = await tx.execute<{ user_id: string; name: string; time_zone: string | null; date_style: DateStyle }>(
       sql`select * from app_create_password_reset(${request.email}, ${null}::text, ${expiresAt.toISOString()}::timestamptz)`,
     );
     const found = result.rows[0];
@@ -434,7 +440,14 @@ export async function issuePasswordReset(request: { email: string; ip: string | 
     });
     if (!found) return;
     const link = secretLink({ for: "password-reset", userId: found.user_id });
-    await queueMail(tx, "password-reset", passwordResetMessage({ to: request.email, name: found.name, link: link.slot, expiresAt }), link);
+    // The member's zone only when they chose one: a job knows no browser, so otherwise UTC, named as such.
+    const display = chosenDisplay({ timeZone: found.time_zone, dateStyle: found.date_style });
+    await queueMail(
+      tx,
+      "password-reset",
+      passwordResetMessage({ to: request.email, name: found.name, link: link.slot, expiresAt, display }),
+      link,
+    );
   });
 }
 
@@ -505,12 +518,21 @@ export interface AccountSettings {
   name: string;
   displayUnits: "metric" | "imperial";
   notifyReminders: boolean;
+  timeZone: string | null;
+  dateStyle: DateStyle;
 }
 
 export async function getAccountSettings(member: Member): Promise<AccountSettings> {
   return asMember(member, async (tx) => {
     const [row] = await tx
-      .select({ email: users.email, name: users.name, displayUnits: users.displayUnits, notifyReminders: users.notifyReminders })
+      .select({
+        email: users.email,
+        name: users.name,
+        displayUnits: users.displayUnits,
+        notifyReminders: users.notifyReminders,
+        timeZone: users.timeZone,
+        dateStyle: users.dateStyle,
+      })
       .from(users)
       .where(eq(users.id, member.id));
     if (!row) throw new AppError("not_found", "Your account was not found. Sign in again.");
@@ -520,7 +542,7 @@ export async function getAccountSettings(member: Member): Promise<AccountSetting
 
 export async function updatePreferences(
   member: Member,
-  input: { displayUnits: "metric" | "imperial"; notifyReminders: boolean },
+  input: { displayUnits: "metric" | "imperial"; notifyReminders: boolean; timeZone?: string | null; dateStyle?: DateStyle },
 ): Promise<void> {
   await asMember(member, async (tx) => {
     await tx.update(users).set(input).where(eq(users.id, member.id));

@@ -4,22 +4,36 @@ import { type Member } from "@/lib/data/members";
 import { getCoopStrainBenchmarks } from "@/lib/data/pooled-results";
 import { AppError } from "@/lib/errors";
 import { summariseOwnFarm, type OwnBlock, type OwnStrainSummary } from "@/lib/pooled";
+import { seasonLabel } from "@/lib/seasons";
 import { asMember } from "./context";
+import { seasonStartIn } from "./seasons";
+import type { DateStyle } from "@/lib/time/display";
 
 export interface MyFarmPage {
   farmName: string;
   displayUnits: "metric" | "imperial";
+  dateStyle: DateStyle;
   minimumFarms: number;
   seasonStartedOn: string;
+  /** The season shown (its starting year), or null for the last 365 days. */
+  season: number | null;
+  /** How the season is named ("2025/26"), or null. */
+  seasonLabel: string | null;
   strains: OwnStrainSummary[];
 }
 
-/** This season (blocks inoculated in the last 365 days, or with no date) of the member's own farm, beside the co-op. */
-export async function getMyFarm(member: Member): Promise<MyFarmPage> {
+/**
+ * The member's own farm beside the co-op: the blocks of one season when asked (the season their
+ * season log named, else their inoculation date's), otherwise the last 365 days (and blocks with no
+ * date). The co-op side is the newest release, every season together.
+ */
+export async function getMyFarm(member: Member, filter: { season?: number | null } = {}): Promise<MyFarmPage> {
+  const season = filter.season ?? null;
   if (!member.farmId)
     throw new AppError("forbidden", "My farm is for farm managers and growers; your role belongs to the co-op as a whole.");
   const seasonStartedOn = new Date(Date.now() - 365 * 86_400_000).toISOString().slice(0, 10);
-  const blocks = await asMember(member, async (tx) => {
+  const { blocks, start } = await asMember(member, async (tx) => {
+    const start = await seasonStartIn(tx);
     const result = await tx.execute<{
       id: string;
       strain_id: string;
@@ -38,8 +52,12 @@ export async function getMyFarm(member: Member): Promise<MyFarmPage> {
       from blocks b
       join strains s on s.id = b.strain_id
       join species sp on sp.id = s.species_id
-      where b.inoculated_on is null or b.inoculated_on >= ${seasonStartedOn}::date`);
-    return result.rows.map<OwnBlock>((row) => ({
+      where ${
+        season === null
+          ? sql`b.inoculated_on is null or b.inoculated_on >= ${seasonStartedOn}::date`
+          : sql`block_season_year(b.inoculated_on, b.season_year) = ${season}`
+      }`);
+    const blocks = result.rows.map<OwnBlock>((row) => ({
       id: row.id,
       strainId: row.strain_id,
       strainName: row.strain_name,
@@ -50,14 +68,18 @@ export async function getMyFarm(member: Member): Promise<MyFarmPage> {
       spentG: row.spent_g === null ? null : Number(row.spent_g),
       harvests: row.harvests ?? [],
     }));
+    return { blocks, start };
   });
   const strainIds = [...new Set(blocks.map((block) => block.strainId))];
   const { minimumFarms, byStrain } = await getCoopStrainBenchmarks(strainIds);
   return {
     farmName: member.farmName ?? "Your farm",
     displayUnits: member.displayUnits,
+    dateStyle: member.dateStyle,
     minimumFarms,
     seasonStartedOn,
+    season,
+    seasonLabel: season === null ? null : seasonLabel(season, start),
     strains: summariseOwnFarm(blocks, byStrain, minimumFarms),
   };
 }

@@ -9,7 +9,7 @@ import {
   pooledReleaseStrainRows,
   strains,
 } from "@/db/schema";
-import { recordAudit } from "@/lib/data/audit";
+import { actor, recordAudit } from "@/lib/data/audit";
 import { type Member } from "@/lib/data/members";
 import { getPooledUpdating } from "@/lib/data/pooled-refresh";
 import { AppError } from "@/lib/errors";
@@ -291,8 +291,7 @@ export async function cutReleaseNow(member: Member): Promise<ReleaseAttempt> {
       action: attempt.outcome === "cut" ? "pooled-release.cut" : "pooled-release.checked",
       subject: attempt.outcome === "cut" ? `Release ${attempt.release.number}` : "Co-op results",
       farmId: null,
-      actorUserId: member.id,
-      actorLabel: member.name,
+      ...actor(member),
       details:
         attempt.outcome === "cut"
           ? { release: attempt.release.number, figuresChanged: attempt.figuresChanged }

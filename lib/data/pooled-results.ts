@@ -1,9 +1,9 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
-import { asc, eq, sql } from "drizzle-orm";
+import { and, asc, desc, eq, sql } from "drizzle-orm";
 import { keptUntilChanged } from "@/db/change-feed";
 import { withAnalystAccess } from "@/db/client";
-import { cooperativeSettings, species, strains, substrateRecipes, treatments } from "@/db/schema";
+import { cooperativeSettings, pooledReleaseStrainRows, species, strains, substrateRecipes, treatments } from "@/db/schema";
 import { type Member } from "@/lib/data/members";
 import { latestRelease, releaseContents, type ReleaseInfo } from "@/lib/data/pooled-releases";
 import { AppError } from "@/lib/errors";
@@ -94,7 +94,18 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
   const analysed = await withAnalystAccess(async (tx) => {
     const [settings] = await tx.select().from(cooperativeSettings);
     const speciesList = await tx.select({ id: species.id, name: species.commonName }).from(species).orderBy(asc(species.commonName));
-    const speciesId = query.speciesId ?? speciesList[0]?.id ?? null;
+    const release = await latestRelease(tx);
+    // The page opens on the species with the most blocks in the release, not the first by name.
+    const mostBlocks = release
+      ? await tx
+          .select({ speciesId: pooledReleaseStrainRows.speciesId })
+          .from(pooledReleaseStrainRows)
+          .where(and(eq(pooledReleaseStrainRows.releaseNumber, release.number), eq(pooledReleaseStrainRows.flushWindow, "all")))
+          .groupBy(pooledReleaseStrainRows.speciesId)
+          .orderBy(desc(sql`sum(${pooledReleaseStrainRows.blocks})`))
+          .limit(1)
+      : [];
+    const speciesId = query.speciesId ?? mostBlocks[0]?.speciesId ?? speciesList[0]?.id ?? null;
     if (query.speciesId && !speciesList.some((entry) => entry.id === query.speciesId)) {
       throw new AppError("not_found", "That species is not in the co-op's list. Choose one from the list.");
     }
@@ -107,7 +118,6 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
       .from(treatments)
       .where(eq(treatments.kind, "fruiting_method"))
       .orderBy(asc(treatments.name));
-    const release = await latestRelease(tx);
     if (!speciesId || !release)
       return { settings, speciesList, recipes, methods, speciesId, release, rows: [], flushRows: [], strainList: [] };
     const strainList = await tx.select({ id: strains.id, name: strains.name }).from(strains).where(eq(strains.speciesId, speciesId));

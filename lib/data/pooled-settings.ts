@@ -1,7 +1,7 @@
 import "server-only";
 import { eq, sql } from "drizzle-orm";
 import { cooperativeSettings } from "@/db/schema";
-import { recordAudit } from "@/lib/data/audit";
+import { actor, recordAudit } from "@/lib/data/audit";
 import { type Member } from "@/lib/data/members";
 import { AppError, databaseRefusalOf } from "@/lib/errors";
 import type { CooperativeSettingsInput } from "@/lib/pooled";
@@ -48,8 +48,7 @@ export async function updateCooperativeSettings(member: Member, next: Cooperativ
       action: "cooperative-settings.updated",
       subject: "Co-op settings",
       farmId: null,
-      actorUserId: member.id,
-      actorLabel: member.name,
+      ...actor(member),
       details: { before, after: next },
     });
   });

@@ -6,7 +6,7 @@ import { AppError, databaseRefusalOf } from "@/lib/errors";
 import { RegisterMatcher } from "@/lib/import/registers";
 import { describeProblem, parseRegistryCsv, type RegistryKind, type RegistryRow } from "@/lib/members/registry-csv";
 import { suppressedMessage, type Published } from "@/lib/pooled";
-import { recordAudit } from "./audit";
+import { actor, recordAudit } from "./audit";
 import { type Member } from "./members";
 import { latestRelease, releaseContents } from "./pooled-releases";
 import { asMember } from "./context";
@@ -15,12 +15,25 @@ const tables = { species, strains, substrate_recipes: substrateRecipes, treatmen
 type Status = "proposed" | "active" | "retired";
 
 /**
- * Which strains any farm has blocks of, live (whether a strain may still be deleted): a yes or
- * no per strain, read by the analyst role because the coordinator cannot see farms' rows.
+ * Which registry entries records use, live, as a yes or no per entry: a used entry can be retired
+ * but not deleted, so the page offers Delete only where it can succeed. Blocks are read by the
+ * analyst role (the coordinator cannot see farms' rows), trial arms and strains as the coordinator.
  */
-async function strainsWithBlocks(): Promise<Set<string>> {
-  const rows = await withAnalystAccess((tx) => tx.selectDistinct({ strainId: blocks.strainId }).from(blocks));
-  return new Set(rows.map((row) => row.strainId));
+async function entriesInUse(tx: Transaction): Promise<Record<RegistryKind, Set<string>>> {
+  const used = await withAnalystAccess((analyst) =>
+    analyst
+      .selectDistinct({ strainId: blocks.strainId, recipeId: blocks.substrateRecipeId, methodId: blocks.fruitingMethodId })
+      .from(blocks),
+  );
+  const arms = await tx.select({ strainId: trialArms.strainId, treatmentId: trialArms.treatmentId }).from(trialArms);
+  const strainSpecies = await tx.selectDistinct({ speciesId: strains.speciesId }).from(strains);
+  const ids = (values: (string | null)[]) => new Set(values.filter((value): value is string => value !== null));
+  return {
+    species: ids(strainSpecies.map((row) => row.speciesId)),
+    strains: ids([...used.map((row) => row.strainId), ...arms.map((arm) => arm.strainId)]),
+    substrate_recipes: ids(used.map((row) => row.recipeId)),
+    treatments: ids([...used.map((row) => row.methodId), ...arms.map((arm) => arm.treatmentId)]),
+  };
 }
 
 /**
@@ -52,27 +65,28 @@ async function publishedBlocksPerStrain(): Promise<{ minimumFarms: number; byStr
 }
 
 export async function listRegistries(member: Member) {
-  // Whether any farm grows a strain matters only to the coordinator, who may delete unused ones.
-  const [inUse, published] = await Promise.all([
-    member.role === "coordinator" ? strainsWithBlocks() : Promise.resolve(new Set<string>()),
-    publishedBlocksPerStrain(),
-  ]);
+  const published = await publishedBlocksPerStrain();
   return asMember(member, async (tx) => {
+    // Whether an entry is used matters only to the coordinator, who may delete unused ones.
+    const inUse = member.role === "coordinator" ? await entriesInUse(tx) : null;
+    const used = (kind: RegistryKind, id: string) => inUse?.[kind].has(id) ?? false;
     const speciesRows = await tx.select().from(species).orderBy(asc(species.commonName));
     const speciesName = new Map(speciesRows.map((row) => [row.id, row.commonName]));
     const strainRows = await tx.select().from(strains).orderBy(asc(strains.code));
+    const recipeRows = await tx.select().from(substrateRecipes).orderBy(asc(substrateRecipes.code));
+    const treatmentRows = await tx.select().from(treatments).orderBy(asc(treatments.code));
     return {
-      species: speciesRows,
+      species: speciesRows.map((row) => ({ ...row, inUse: used("species", row.id) })),
       strains: strainRows.map((row) => {
         const count = published.byStrain.get(row.id);
         const blocks: Published<number> =
           count === undefined
             ? { status: "suppressed", message: suppressedMessage(published.minimumFarms) }
             : { status: "published", value: count };
-        return { ...row, speciesName: speciesName.get(row.speciesId) ?? "", blocks, inUse: inUse.has(row.id) };
+        return { ...row, speciesName: speciesName.get(row.speciesId) ?? "", blocks, inUse: used("strains", row.id) };
       }),
-      substrateRecipes: await tx.select().from(substrateRecipes).orderBy(asc(substrateRecipes.code)),
-      treatments: await tx.select().from(treatments).orderBy(asc(treatments.code)),
+      substrateRecipes: recipeRows.map((row) => ({ ...row, inUse: used("substrate_recipes", row.id) })),
+      treatments: treatmentRows.map((row) => ({ ...row, inUse: used("treatments", row.id) })),
     };
   });
 }
@@ -153,8 +167,7 @@ export async function createRegistryEntry(member: Member, row: RegistryRow): Pro
     await asMember(member, async (tx) => {
       const id = await insertEntry(tx, row, status, member.role === "coordinator" ? null : member.id, await speciesLookup(tx));
       await recordAudit(tx, {
-        actorUserId: member.id,
-        actorLabel: member.name,
+        ...actor(member),
         action: status === "active" ? "registry.added" : "registry.proposed",
         subject: "code" in row ? row.code : row.scientificName,
         details: { registry: row.kind, id },
@@ -184,22 +197,14 @@ export async function moveRegistryEntry(
   move: "approve" | "retire" | "reinstate" | "delete",
 ): Promise<void> {
   if (member.role !== "coordinator") throw new AppError("forbidden", "Only the coordinator approves, retires or deletes registry entries.");
-  const inUse = kind === "strains" && move === "delete" ? (await strainsWithBlocks()).has(id) : false;
   await asMember(member, async (tx) => {
     const table = tables[kind];
     const [entry] = await tx.select().from(table).where(eq(table.id, id));
     if (!entry) throw new AppError("not_found", "That entry is not in the registry. Reload the page.");
     const label = "code" in entry ? entry.code : entry.scientificName;
     if (move === "delete") {
-      if (kind === "strains") {
-        const [arm] = await tx.select({ id: trialArms.id }).from(trialArms).where(eq(trialArms.strainId, id)).limit(1);
-        if (inUse || arm) {
-          throw new AppError(
-            "conflict",
-            `${label} has data (${[inUse ? "recorded blocks" : "", arm ? "a trial arm" : ""].filter(Boolean).join(" and ")}): retire it instead, so past records keep their strain.`,
-          );
-        }
-      }
+      if ((await entriesInUse(tx))[kind].has(id))
+        throw new AppError("conflict", `${label} is used by recorded blocks or a trial: retire it instead, so past records keep it.`);
       try {
         await tx.delete(table).where(eq(table.id, id));
       } catch {
@@ -211,8 +216,7 @@ export async function moveRegistryEntry(
       if (changed.length === 0) throw new AppError("forbidden", "The registry entry could not be changed from your role.");
     }
     await recordAudit(tx, {
-      actorUserId: member.id,
-      actorLabel: member.name,
+      ...actor(member),
       action: registryMoves[move],
       subject: label,
       details: { registry: kind, id },
@@ -269,8 +273,7 @@ export async function importRegistryCsv(member: Member, kind: RegistryKind, text
       }
     }
     await recordAudit(tx, {
-      actorUserId: member.id,
-      actorLabel: member.name,
+      ...actor(member),
       action: "registry.imported",
       subject: kind,
       details: { rows: rows.length },

@@ -38,6 +38,7 @@ import { uploadHistoryDetails, uploadOutcomeWords, type UploadCheck } from "@/li
 import type { AuditDetail } from "@/lib/audit/sentences";
 import type { Member } from "./members";
 import { asMember, farmOf } from "./context";
+import { chosenDisplay, formatDay } from "@/lib/time/display";
 
 export interface UploadSummary {
   id: string;
@@ -176,6 +177,7 @@ async function loadPlanInput(tx: Transaction, farmId: string): Promise<Omit<Plan
       fruitingMethodId: blocks.fruitingMethodId,
       trialArmId: blocks.trialArmId,
       inoculatedOn: blocks.inoculatedOn,
+      seasonYear: blocks.seasonYear,
       wetMassG: blocks.wetMassG,
       moisture: blocks.moisture,
       contaminated: blocks.contaminated,
@@ -440,7 +442,7 @@ export async function recheckUpload(member: Member, uploadId: string, choices: P
 const stagedBlocks = `create temporary table commit_blocks (is_new boolean not null, id uuid not null, code text not null,
   strain_id uuid, substrate_recipe_id uuid, fruiting_method_id uuid, trial_arm_id uuid, inoculated_on date,
   wet_mass_g numeric, wet_mass_as_written text, wet_mass_unit text, moisture numeric, contaminated boolean, contaminated_on date,
-  spent_mass_g numeric, spent_mass_as_written text, spent_mass_unit text, notes text) on commit drop`;
+  spent_mass_g numeric, spent_mass_as_written text, spent_mass_unit text, notes text, season_year integer) on commit drop`;
 const stagedHarvests = `create temporary table commit_harvests (is_new boolean not null, id uuid not null, block_id uuid not null, flush integer,
   harvested_on date, fresh_mass_g numeric, fresh_mass_as_written text, fresh_mass_unit text,
   dry_mass_g numeric, dry_mass_as_written text, dry_mass_unit text) on commit drop`;
@@ -476,10 +478,10 @@ async function writeRows(tx: Transaction, farmId: string, userId: string, upload
       await tx.execute(sql`
         insert into blocks (id, farm_id, code, strain_id, substrate_recipe_id, fruiting_method_id, trial_arm_id, inoculated_on,
           wet_mass_g, wet_mass_as_written, wet_mass_unit, moisture, contaminated, contaminated_on,
-          spent_mass_g, spent_mass_as_written, spent_mass_unit, notes, last_upload_id)
+          spent_mass_g, spent_mass_as_written, spent_mass_unit, notes, season_year, last_upload_id)
         select id, ${farmId}::uuid, code, strain_id, substrate_recipe_id, fruiting_method_id, trial_arm_id, inoculated_on,
           wet_mass_g, wet_mass_as_written, wet_mass_unit, moisture, contaminated, contaminated_on,
-          spent_mass_g, spent_mass_as_written, spent_mass_unit, notes, ${uploadId}::uuid
+          spent_mass_g, spent_mass_as_written, spent_mass_unit, notes, season_year, ${uploadId}::uuid
         from pg_temp.commit_blocks where is_new`);
     }
     if (rows.changedBlocks > 0) {
@@ -496,7 +498,7 @@ async function writeRows(tx: Transaction, farmId: string, userId: string, upload
           wet_mass_as_written = coalesce(u.wet_mass_as_written, b.wet_mass_as_written), wet_mass_unit = coalesce(u.wet_mass_unit, b.wet_mass_unit),
           moisture = u.moisture, contaminated = u.contaminated, contaminated_on = u.contaminated_on, spent_mass_g = u.spent_mass_g,
           spent_mass_as_written = coalesce(u.spent_mass_as_written, b.spent_mass_as_written), spent_mass_unit = coalesce(u.spent_mass_unit, b.spent_mass_unit),
-          notes = u.notes, last_upload_id = ${uploadId}::uuid, updated_at = now()
+          notes = u.notes, season_year = u.season_year, last_upload_id = ${uploadId}::uuid, updated_at = now()
         from pg_temp.commit_blocks u
         where b.id = u.id and not u.is_new`);
       refuseIfChanged(updated.rowCount, rows.changedBlocks);
@@ -570,7 +572,10 @@ export async function commitUpload(
   const farm = farmOf(member, "work with its season logs");
   const stored = await storedUpload(member, uploadId);
   if (stored.outcome === "committed")
-    throw new AppError("conflict", `This upload was committed on ${iso(stored.committedAt)?.slice(0, 10)}; nothing more to do.`);
+    throw new AppError(
+      "conflict",
+      `This upload was committed on ${stored.committedAt ? formatDay(stored.committedAt, chosenDisplay(member)) : "an earlier day"}; nothing more to do.`,
+    );
   const setup = await getImportSetup(member);
   const key = stagingKey(choices, setup.knownStrains, todayUtc());
   const receipt = await asMember(member, async (tx) => {
@@ -580,7 +585,7 @@ export async function commitUpload(
     if (alreadyImportedAt) {
       throw new AppError(
         "conflict",
-        `This file was already imported on ${iso(alreadyImportedAt)!.slice(0, 10)}; committing it again would change nothing.`,
+        `This file was already imported on ${formatDay(alreadyImportedAt, chosenDisplay(member))}; committing it again would change nothing.`,
       );
     }
     const [upload] = await tx.select({ commitRows: uploads.commitRows }).from(uploads).where(eq(uploads.id, uploadId));
@@ -739,6 +744,7 @@ export async function getSeasonLogExport(member: Member): Promise<{ fileName: st
         trialCode: trials.code,
         armLabel: trialArms.label,
         inoculatedOn: blocks.inoculatedOn,
+        seasonYear: blocks.seasonYear,
         wetMassG: blocks.wetMassG,
         moisture: blocks.moisture,
         fruitingMethodCode: methods.code,

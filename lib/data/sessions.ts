@@ -4,7 +4,7 @@ import { keptUntilChanged } from "@/db/change-feed";
 import { type FarmContext } from "@/db/client";
 import { endedSessions, users } from "@/db/schema";
 import { sessionIsCurrent, type SessionClaims } from "@/lib/auth/sessions";
-import { recordAudit } from "./audit";
+import { actor, recordAudit } from "./audit";
 import { loadMemberForRequest, type Member } from "./members";
 import { selfContext, asMember, asSelf } from "./context";
 
@@ -25,8 +25,7 @@ export async function endEverySession(member: Member): Promise<void> {
       .set({ sessionVersion: sql`${users.sessionVersion} + 1` })
       .where(eq(users.id, member.id));
     await recordAudit(tx, {
-      actorUserId: member.id,
-      actorLabel: member.name,
+      ...actor(member),
       farmId: member.farmId,
       action: "sessions.ended-everywhere",
       subject: member.email,

@@ -17,6 +17,7 @@ import {
   trialAnalyses,
   trialPublications,
   trialReportFarms,
+  trialReminders,
   trials,
   users,
 } from "@/db/schema";
@@ -61,7 +62,11 @@ import {
   type TrialBlockRecord,
   type TrialStatus,
 } from "@/lib/trials";
+import type { TrialDesignKind } from "@/lib/trials/design-kind";
+import { crossedArmsProblems } from "@/lib/trials/factorial";
 import { verifyOptOutToken } from "@/lib/trials/reminder-opt-out";
+import { trialSampleSize } from "@/lib/trials/sample-size";
+import { behindReasons, missingData, type TimelineProgress, type TrialTimeline } from "@/lib/trials/timeline";
 import {
   amendmentReasonProblem,
   analysisFingerprint,
@@ -84,11 +89,18 @@ export interface TrialDesignInput {
   title: string;
   question: string;
   speciesId: string;
+  /** One factor (default), or the arms cross strains with fruiting methods, one arm per combination. */
+  designKind?: TrialDesignKind;
   arms: ArmInput[];
   outcomeFlushes: number;
   contaminatedHandling: "exclude" | "count_as_zero";
   protocolNotes: string;
   enrolmentDeadline: string | null;
+  inoculationFrom: string | null;
+  inoculationTo: string | null;
+  fruitingFrom: string | null;
+  fruitingTo: string | null;
+  dataDue: string | null;
   smallestDifference: number | null;
   expectedSd: number | null;
   plannedFarms: number | null;
@@ -154,12 +166,18 @@ async function loadTrial(tx: Transaction, member: Member, trialId: string) {
       title: trials.title,
       question: trials.question,
       status: trials.status,
+      designKind: trials.designKind,
       speciesId: trials.speciesId,
       speciesName: species.commonName,
       outcomeFlushes: trials.outcomeFlushes,
       contaminatedHandling: trials.contaminatedHandling,
       protocolNotes: trials.protocolNotes,
       enrolmentDeadline: trials.enrolmentDeadline,
+      inoculationFrom: trials.inoculationFrom,
+      inoculationTo: trials.inoculationTo,
+      fruitingFrom: trials.fruitingFrom,
+      fruitingTo: trials.fruitingTo,
+      dataDue: trials.dataDue,
       smallestDifference: trials.smallestDifference,
       expectedSd: trials.expectedSd,
       plannedFarms: trials.plannedFarms,
@@ -319,12 +337,21 @@ export async function getPublishedReport(member: Member, trialId: string): Promi
   return { ...trial, results: trial.results };
 }
 
-/** Whether enough farms have accepted to start the trial: the trial page warns the coordinator before they try. */
-export async function getStartReadiness(member: Member, trialId: string): Promise<{ accepted: number; minimumFarms: number }> {
-  return asMember(member, async (tx) => ({
-    accepted: await acceptedFarms(tx, trialId),
-    minimumFarms: await minimumFarmsOf(tx),
-  }));
+/**
+ * Whether enough farms have accepted to start the trial, and the blocks per arm they committed
+ * between them: the trial page warns the coordinator, against the co-op's minimum and the plan.
+ */
+export async function getStartReadiness(
+  member: Member,
+  trialId: string,
+): Promise<{ accepted: number; blocksPerArm: number; minimumFarms: number }> {
+  return asMember(member, async (tx) => {
+    const [{ blocksPerArm }] = await tx
+      .select({ blocksPerArm: sql<number>`coalesce(sum(${trialEnrolments.blocksPerArm}), 0)::int` })
+      .from(trialEnrolments)
+      .where(and(eq(trialEnrolments.trialId, trialId), eq(trialEnrolments.status, "accepted")));
+    return { accepted: await acceptedFarms(tx, trialId), blocksPerArm, minimumFarms: await minimumFarmsOf(tx) };
+  });
 }
 
 async function acceptedFarms(tx: Transaction, trialId: string): Promise<number> {
@@ -427,6 +454,32 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
           input.arms.map((arm) => arm.strainId),
         ),
       );
+    const designKind = input.designKind ?? "one_factor";
+    if (designKind === "strain_by_method") {
+      const treatmentIds = [...new Set(input.arms.flatMap((arm) => (arm.treatmentId ? [arm.treatmentId] : [])))];
+      const treatmentRows = treatmentIds.length
+        ? await tx
+            .select({ id: treatments.id, name: treatments.name, kind: treatments.kind })
+            .from(treatments)
+            .where(inArray(treatments.id, treatmentIds))
+        : [];
+      const strainNames = await tx
+        .select({ id: strains.id, name: strains.name })
+        .from(strains)
+        .where(
+          inArray(
+            strains.id,
+            input.arms.map((arm) => arm.strainId),
+          ),
+        );
+      const problems = crossedArmsProblems(input.arms, strainNames, treatmentRows);
+      if (problems.length)
+        throw new AppError(
+          "invalid_input",
+          problems[0],
+          problems.map((message) => ({ field: "arms", message })),
+        );
+    }
     input.arms.forEach((arm, index) => {
       const strain = strainRows.find((row) => row.id === arm.strainId);
       if (!strain)
@@ -442,10 +495,16 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
       title: input.title,
       question: input.question,
       speciesId: input.speciesId,
+      designKind,
       outcomeFlushes: input.outcomeFlushes,
       contaminatedHandling: input.contaminatedHandling,
       protocolNotes: input.protocolNotes,
       enrolmentDeadline: input.enrolmentDeadline,
+      inoculationFrom: input.inoculationFrom,
+      inoculationTo: input.inoculationTo,
+      fruitingFrom: input.fruitingFrom,
+      fruitingTo: input.fruitingTo,
+      dataDue: input.dataDue,
       smallestDifference: input.smallestDifference,
       expectedSd: input.expectedSd,
       plannedFarms: input.plannedFarms,
@@ -488,7 +547,7 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
       ...actor(member),
       action: input.trialId ? "trial.draft_saved" : "trial.created",
       subject: code,
-      details: { trialId: id, arms: input.arms.length },
+      details: { trialId: id, arms: input.arms.length, designKind },
     });
     return { id, code };
   });
@@ -517,7 +576,20 @@ export async function moveTrial(
       ruleError(error);
     }
     const changes: Partial<typeof trials.$inferInsert> = { status: to };
-    if (to === "open") refuseIf(openingProblem(trial.arms));
+    if (to === "open") {
+      refuseIf(openingProblem(trial.arms));
+      if (trial.designKind === "strain_by_method") {
+        // Saved drafts were checked; a strain or method edited in the registry since must not leave half a crossing open.
+        const problems = crossedArmsProblems(
+          trial.arms,
+          trial.arms.map((arm) => ({ id: arm.strainId, name: arm.strainName })),
+          trial.arms.flatMap((arm) =>
+            arm.treatmentId ? [{ id: arm.treatmentId, name: arm.treatmentName ?? "", kind: arm.treatmentKind ?? undefined }] : [],
+          ),
+        );
+        if (problems.length) throw new AppError("conflict", `${problems[0]} Edit the design before enrolment opens.`);
+      }
+    }
     if (to === "running") {
       refuseIf(startingProblem(await acceptedFarms(tx, trialId), await minimumFarmsOf(tx)));
       await tx
@@ -812,6 +884,20 @@ export async function listInvitableFarms(member: Member, trialId: string) {
   });
 }
 
+/** Blocks per arm the design asks of each farm: its sample size at 80 % power, or null when the design does not say. */
+function blocksPerArmWanted(trial: TrialBase): number | null {
+  const { smallestDifference, expectedSd, plannedFarms, expectedLoss } = trial;
+  if (smallestDifference === null || expectedSd === null || plannedFarms === null) return null;
+  const panel = trialSampleSize({
+    difference: smallestDifference,
+    sd: expectedSd,
+    plannedFarms,
+    expectedLoss: expectedLoss ?? 0,
+    arms: trial.arms.length,
+  });
+  return panel.ok ? panel.rows[0].perFarmPerArm : null;
+}
+
 export async function inviteFarms(member: Member, trialId: string, farmIds: string[]): Promise<number> {
   return asMember(member, async (tx) => {
     const trial = await loadTrial(tx, member, trialId);
@@ -843,6 +929,8 @@ export async function inviteFarms(member: Member, trialId: string, farmIds: stri
         trial,
         farmName: farm.name,
         deadline: trial.enrolmentDeadline,
+        blocksPerArmWanted: blocksPerArmWanted(trial),
+        arms: trial.arms.length,
         enrolUrl: `${appUrl()}/trials/${trialId}`,
         optOutUrl: optOut.slot,
       });
@@ -1036,24 +1124,15 @@ export async function getTrialListSeasonLog(member: Member, trialId: string): Pr
 
 // ——— Following ———
 
-export interface FarmProgress {
-  blocksListed: number;
-  blocksMade: number;
-  fruiting: number;
-  contaminated: number;
-  /** Blocks with flush n recorded, for n = 1..k of the outcome. */
-  flushesRecorded: number[];
-}
+export type FarmProgress = TimelineProgress;
 
-export function dueItems(progress: FarmProgress): string[] {
-  const due: string[] = [];
-  if (progress.blocksMade < progress.blocksListed)
-    due.push(`${progress.blocksListed - progress.blocksMade} listed blocks not yet in the season log`);
-  const live = progress.blocksMade - progress.contaminated;
-  progress.flushesRecorded.forEach((recorded, index) => {
-    if (recorded < live) due.push(`flush ${index + 1} of ${live - recorded} blocks`);
-  });
-  return due;
+/** What is still missing from a farm's records (lib/trials/timeline.ts); being behind is a matter of the timeline. */
+export const dueItems = missingData;
+
+/** The trial's timeline dates, as lib/trials/timeline.ts reads them. */
+export function timelineOf(trial: TrialTimeline): TrialTimeline {
+  const { inoculationFrom, inoculationTo, fruitingFrom, fruitingTo, dataDue } = trial;
+  return { inoculationFrom, inoculationTo, fruitingFrom, fruitingTo, dataDue };
 }
 
 /** The farm's own progress, read under its own context. */
@@ -1104,8 +1183,11 @@ async function progressCounts(tx: Transaction, trial: TrialBase, farmId?: string
   }));
 }
 
-/** The coordinator's view: every enrolled farm with its counts, read through the analyst role. */
-export async function listTrialProgress(member: Member, trial: TrialBase) {
+/**
+ * The coordinator's view: every enrolled farm with its counts, read through the analyst role, what
+ * is still missing, why it is behind the timeline (if it is), and when it was last reminded.
+ */
+export async function listTrialProgress(member: Member, trial: TrialBase, today = todayUtc()) {
   const enrolled = await asMember(member, async (tx) => {
     const rows = await tx
       .select({
@@ -1120,7 +1202,18 @@ export async function listTrialProgress(member: Member, trial: TrialBase) {
       .innerJoin(farms, eq(farms.id, trialEnrolments.farmId))
       .where(eq(trialEnrolments.trialId, trial.id))
       .orderBy(asc(farms.name));
-    return rows;
+    const reminded = await tx
+      .select({
+        enrolmentId: trialReminders.enrolmentId,
+        lastRemindedAt: sql<Date>`max(${trialReminders.sentAt})`.mapWith(trialReminders.sentAt),
+      })
+      .from(trialReminders)
+      .where(eq(trialReminders.trialId, trial.id))
+      .groupBy(trialReminders.enrolmentId);
+    return rows.map((row) => ({
+      ...row,
+      lastRemindedAt: reminded.find((entry) => entry.enrolmentId === row.enrolmentId)?.lastRemindedAt ?? null,
+    }));
   });
   const counts = await withAnalystAccess((analyst) => progressCounts(analyst, trial));
   return enrolled.map((row) => {
@@ -1136,8 +1229,10 @@ export async function listTrialProgress(member: Member, trial: TrialBase) {
           }
         : emptyCounts(trial)),
     };
-    const due = row.status === "accepted" ? dueItems(progress) : [];
-    return { ...row, progress, due, behind: due.length > 0 };
+    const taking = row.status === "accepted";
+    const due = taking ? missingData(progress) : [];
+    const behindWhy = taking ? behindReasons(timelineOf(trial), progress, today) : [];
+    return { ...row, progress, due, behindWhy, behind: behindWhy.length > 0 };
   });
 }
 
@@ -1262,29 +1357,59 @@ export async function sendTrialReminder(member: Member, trialId: string, farmId:
   const farm = farmsProgress.find((row) => row.farmId === farmId);
   if (!farm || farm.status !== "accepted") throw new AppError("not_found", "That farm is not taking part in this trial.");
   if (!farm.remindersAllowed) throw new AppError("conflict", `${farm.farmName} has asked not to get reminders about this trial.`);
-  if (!farm.behind) throw new AppError("conflict", `${farm.farmName} has nothing due; no reminder sent.`);
+  if (!farm.behind) throw new AppError("conflict", `${farm.farmName} has nothing due yet against the trial's timeline; no reminder sent.`);
   return asMember(member, async (tx) => {
-    const managers = await tx
-      .select({ email: users.email })
-      .from(users)
-      .where(and(eq(users.farmId, farmId), eq(users.role, "farm_manager"), eq(users.active, true)));
+    // The same claim as the daily sweep's: one reminder a day per farm, and none once the trial is closed.
+    const claimed = await claimReminder(tx, farm.enrolmentId, "by-hand");
+    if (!claimed) throw new AppError("conflict", `${farm.farmName} has already had a reminder about this trial today; try again tomorrow.`);
     await recordAudit(tx, {
       ...actor(member),
       action: "trial.reminder_sent",
       subject: `${trial.code}: ${farm.farmName}`,
-      details: { trialId, farmId },
+      details: { trialId, farmId, kind: "by-hand" },
     });
-    const optOut = secretLink({ for: "reminders-opt-out", enrolmentId: farm.enrolmentId });
-    const mail = trialReminderMail({
-      trial,
-      farmName: farm.farmName,
-      due: farm.due,
-      progressUrl: `${appUrl()}/trials/${trialId}`,
-      optOutUrl: optOut.slot,
-    });
-    for (const manager of managers) await deliver(tx, "trial-reminder", manager.email, mail, optOut);
-    return managers.length;
+    return queueReminderMail(tx, { ...claimed, enrolmentId: farm.enrolmentId, items: farm.behindWhy });
   });
+}
+
+export interface ClaimedReminder {
+  trialId: string;
+  trialCode: string;
+  trialTitle: string;
+  farmName: string;
+  emails: string[];
+}
+
+/**
+ * Claims today's reminder for an enrolment (app_claim_trial_reminder, 0035): null when the farm
+ * has had one today, stopped them, no longer takes part, or the trial is no longer running.
+ */
+export async function claimReminder(
+  tx: Transaction,
+  enrolmentId: string,
+  kind: "before-due" | "behind" | "by-hand",
+): Promise<ClaimedReminder | null> {
+  const result = await tx.execute<{ trial_id: string; trial_code: string; trial_title: string; farm_name: string; emails: string[] }>(
+    sql`select * from app_claim_trial_reminder(${enrolmentId}::uuid, ${kind})`,
+  );
+  const row = result.rows[0];
+  return row
+    ? { trialId: row.trial_id, trialCode: row.trial_code, trialTitle: row.trial_title, farmName: row.farm_name, emails: row.emails }
+    : null;
+}
+
+/** The reminder e-mail to each of the farm's managers, in the claim's transaction; returns how many. */
+export async function queueReminderMail(tx: Transaction, reminder: ClaimedReminder & { enrolmentId: string; items: string[] }) {
+  const optOut = secretLink({ for: "reminders-opt-out", enrolmentId: reminder.enrolmentId });
+  const mail = trialReminderMail({
+    trial: { code: reminder.trialCode, title: reminder.trialTitle },
+    farmName: reminder.farmName,
+    due: reminder.items,
+    progressUrl: `${appUrl()}/trials/${reminder.trialId}`,
+    optOutUrl: optOut.slot,
+  });
+  for (const email of reminder.emails) await deliver(tx, "trial-reminder", email, mail, optOut);
+  return reminder.emails.length;
 }
 
 // ——— Unsubscribe ———

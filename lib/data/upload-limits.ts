@@ -8,7 +8,7 @@ import { byteBudget } from "@/lib/async/byte-budget";
 import { AppError } from "@/lib/errors";
 import { storageFullMessage, tooManyUploadsMessage, uploadLimits } from "@/lib/season-logs/limits";
 import { largestUploadBytes } from "@/lib/season-logs/report";
-import { recordAudit } from "./audit";
+import { actor, recordAudit } from "./audit";
 import { type Member } from "./members";
 import { asMember, asNobody, farmOf } from "./context";
 
@@ -128,8 +128,7 @@ export async function updateUploadRetentionDays(member: Member, days: number): P
       action: "cooperative-settings.updated",
       subject: "Rejected upload files",
       farmId: null,
-      actorUserId: member.id,
-      actorLabel: member.name,
+      ...actor(member),
       details: { before: { rejectedUploadRetentionDays: before }, after: { rejectedUploadRetentionDays: days } },
     });
   });

@@ -59,6 +59,9 @@ export function pageContentSecurityPolicy(nonce: string, appUrl: string): string
     "img-src 'self' data: blob:",
     "font-src 'self'",
     "connect-src 'self'",
+    // The offline worker (app/sw.ts, built to /sw.js).
+    "worker-src 'self'",
+    "manifest-src 'self'",
     "object-src 'none'",
     "base-uri 'none'",
     "form-action 'self'",
@@ -69,3 +72,6 @@ export function pageContentSecurityPolicy(nonce: string, appUrl: string): string
 
 /** For what is not a page (JSON, files, static assets): nothing may run or frame it. */
 export const resourceContentSecurityPolicy = "default-src 'none'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'";
+
+/** The service worker's: it fetches and keeps the app's own pages and files, and runs nothing else. */
+export const serviceWorkerContentSecurityPolicy = "default-src 'self'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'";

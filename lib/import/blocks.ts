@@ -28,7 +28,8 @@ type BlockAttribute =
   | "fruitingMethod"
   | "contaminatedOn"
   | "spentGrams"
-  | "strainCode";
+  | "strainCode"
+  | "seasonYear";
 
 /** Position of each block attribute in `BlockState.source`. */
 export const slot: Readonly<Record<BlockAttribute, number>> = {
@@ -42,6 +43,7 @@ export const slot: Readonly<Record<BlockAttribute, number>> = {
   fruitingMethod: 7,
   contaminatedOn: 8,
   spentGrams: 9,
+  seasonYear: 10,
 };
 
 /** What the file says about one block so far, across its rows. */
@@ -107,6 +109,7 @@ const rowBlockAttributes: readonly BlockAttributeRule[] = [
   ),
   rule("fruitingMethod", "fruiting_method", "fruiting method"),
   rule("spentGrams", "spent_weight", "spent block weight", sameMass("spentGrams"), shownMass("spentAsWritten")),
+  rule("seasonYear", "season", "season"),
 ];
 const dateBlockAttributes: readonly BlockAttributeRule[] = [
   rule("inoculatedOn", "inoculated_on", "inoculation date"),
@@ -121,7 +124,7 @@ export function blockOf(state: ParseState, written: string, line: number, own: (
     block = {
       code,
       firstLine: line,
-      source: [-1, -1, -1, -1, -1, -1, -1, -1, -1, -1],
+      source: [-1, -1, -1, -1, -1, -1, -1, -1, -1, -1, -1],
       contaminated: null,
       contaminatedLine: 0,
       harvests: noHarvests,
@@ -285,6 +288,7 @@ export function blockAtFinish(state: ParseState, block: BlockState, record: Seas
     record.wetBlockAsWritten = records[source[slot.wetBlockGrams]].wetBlockAsWritten;
   }
   if (record.moisture === null && source[slot.moisture] !== -1) record.moisture = records[source[slot.moisture]].moisture;
+  if (record.seasonYear === null && source[slot.seasonYear] !== -1) record.seasonYear = records[source[slot.seasonYear]].seasonYear;
   if (record.fruitingMethod === null && source[slot.fruitingMethod] !== -1)
     record.fruitingMethod = records[source[slot.fruitingMethod]].fruitingMethod;
   if (record.contaminatedOn === null && source[slot.contaminatedOn] !== -1)

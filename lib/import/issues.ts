@@ -52,6 +52,7 @@ export const issueCodes = [
   "mixed_date_orders",
   "flush_missing",
   "flush_unreadable",
+  "season_unreadable",
   "fresh_weight_missing",
   "harvest_cell_without_harvest",
   // A block across its rows

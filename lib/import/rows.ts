@@ -1,6 +1,7 @@
 import { type DecimalMark, decimalEvidence, massNumberText, parseYesNo, readMass } from "../units";
 import { addFlush, blockOf, compareBlock } from "./blocks";
 import { type MassKind, implausibleMass, readMoistureCell } from "./cells";
+import { readSeason } from "../seasons";
 import { readDate } from "./dates";
 import { cellIssue, report, shorten } from "./issues";
 import { type ColumnDecimalEvidence, type MassValue, type ParseState, type RowValues, pendingBits } from "./state";
@@ -28,6 +29,7 @@ class ParsedRecord {
     this.trialCode = row.trialCode;
     this.arm = row.arm;
     this.inoculatedOn = row.inoculatedOn;
+    this.seasonYear = row.seasonYear;
     this.wetBlockGrams = row.wet === null ? null : row.wet.grams;
     this.wetBlockAsWritten = row.wet === null ? null : row.wet.written;
     this.moisture = row.moisture;
@@ -337,6 +339,18 @@ function checkRowShape(state: ParseState, cells: string[], line: number): void {
   }
 }
 
+function season(state: ParseState, cells: string[], line: number): number | null {
+  const column = state.layout.columns.season;
+  const text = cell(cells, column.index);
+  const reading = readSeason(text);
+  if (reading === null) return null;
+  if (!reading.ok) {
+    cellIssue(state.issues, line, column, reading.code, text, "error", reading.message);
+    return null;
+  }
+  return reading.seasonYear;
+}
+
 /**
  * Stage 4, read cells: one data row becomes one record in long form, or one record per filled
  * flush column in wide form (one block record when none is filled). Cells are read and
@@ -379,6 +393,7 @@ export function readDataRow(state: ParseState, cells: string[], line: number): v
   row.strainCode = strainCode;
   row.pending = 0;
   row.inoculatedOn = date(state, cells, columns.inoculated_on, line, pendingBits.inoculated);
+  row.seasonYear = season(state, cells, line);
   row.wet = mass(state, cells, columns.block_wet_weight, line, pendingBits.wet);
   row.moisture = moisture(state, cells, line);
   const contaminatedColumn = columns.contaminated;

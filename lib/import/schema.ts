@@ -1,5 +1,5 @@
 /** Version of the shared season-log schema that these columns describe. */
-export const seasonLogSchemaVersion = 1;
+export const seasonLogSchemaVersion = 2;
 
 export const seasonLogColumnNames = [
   "block_id",
@@ -8,6 +8,7 @@ export const seasonLogColumnNames = [
   "trial",
   "arm",
   "inoculated_on",
+  "season",
   "block_wet_weight",
   "substrate_moisture",
   "fruiting_method",
@@ -32,7 +33,7 @@ export interface SeasonLogColumn {
   examples: readonly string[];
   /** "always": every row; "harvest": every row that records a flush; "no": may stay blank. */
   required: "always" | "harvest" | "no";
-  kind: "text" | "date" | "mass" | "moisture" | "yes-no" | "flush";
+  kind: "text" | "date" | "mass" | "moisture" | "yes-no" | "flush" | "season";
   /** A block column describes the bag and repeats on each of its rows; a harvest column describes one flush. */
   describes: "block" | "harvest";
   /** Other headers that surely mean this column. Case, spaces and punctuation do not matter. */
@@ -131,6 +132,18 @@ export const seasonLogColumns: readonly SeasonLogColumn[] = [
       "spawn date",
     ],
     looseSynonyms: ["start date", "made on", "date made"],
+  },
+  {
+    name: "season",
+    title: "Season",
+    meaning:
+      "The season the block belongs to, if not the one its inoculation date falls in (the co-op's season start is on the Co-op settings page). Write the year the season starts, such as 2026; the two years it spans, such as 2026/27, mean the same. Leave blank to take the season from the inoculation date.",
+    examples: ["2026", "2025/26", ""],
+    required: "no",
+    kind: "season",
+    describes: "block",
+    synonyms: ["season", "growing season", "season year", "crop year"],
+    looseSynonyms: ["year", "campaign"],
   },
   {
     name: "block_wet_weight",
@@ -313,7 +326,7 @@ function csvField(value: string): string {
   return /[",\n\r]/.test(value) ? `"${value.replace(/"/g, '""')}"` : value;
 }
 
-/** A CSV template of schema version 1: the header and a few example rows. */
+/** A CSV template of the current schema version: the header and a few example rows. */
 export function seasonLogTemplateCsv(codes: TemplateCodes = inventedCodes): string {
   const lines = [seasonLogColumnNames.join(",")];
   for (const row of templateRows(codes)) {

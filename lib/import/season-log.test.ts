@@ -3,7 +3,7 @@ import { generateSeasonLog } from "./generate";
 import { createSeasonLogParser, parseMass, parseSeasonLog, seasonLogColumnNames, seasonLogColumns, seasonLogTemplateCsv } from "./index";
 
 describe("the published schema", () => {
-  it("lists the 17 columns of schema version 1 in order, each explained with examples", () => {
+  it("lists the 18 columns of schema version 2 in order, each explained with examples", () => {
     expect(seasonLogColumnNames).toEqual([
       "block_id",
       "strain",
@@ -11,6 +11,7 @@ describe("the published schema", () => {
       "trial",
       "arm",
       "inoculated_on",
+      "season",
       "block_wet_weight",
       "substrate_moisture",
       "fruiting_method",

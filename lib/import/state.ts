@@ -26,6 +26,7 @@ export interface RowValues {
   trialCode: string | null;
   arm: string | null;
   inoculatedOn: string | null;
+  seasonYear: number | null;
   wet: MassValue;
   moisture: number | null;
   fruitingMethod: string | null;
@@ -146,6 +147,7 @@ export function createParseState(options: SeasonLogOptions, today: string, strai
       trialCode: null,
       arm: null,
       inoculatedOn: null,
+      seasonYear: null,
       wet: null,
       moisture: null,
       fruitingMethod: null,

@@ -30,6 +30,8 @@ export interface SeasonRecord {
   arm: string | null;
   /** YYYY-MM-DD */
   inoculatedOn: string | null;
+  /** The season (its starting year) the file names for the block; null when it follows the inoculation date. */
+  seasonYear: number | null;
   wetBlockGrams: number | null;
   wetBlockAsWritten: MassAsWritten | null;
   /** Substrate moisture content, wet basis, as a fraction (0.62 for 62 %). */

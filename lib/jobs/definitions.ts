@@ -57,6 +57,14 @@ export const jobs = {
     backoff: true,
     expireInSeconds: 600,
   },
+  "trial-reminders": {
+    does: "remind the farms of running trials that their timeline says should hear today (one a day per farm at most)",
+    payload: z.object({}),
+    retryLimit: 3,
+    retryDelaySeconds: 300,
+    backoff: true,
+    expireInSeconds: 600,
+  },
   "password-reset": {
     does: "look up a reset request's address and, for an active member, queue the reset e-mail",
     payload: z.object({ email: z.string().max(320), ip: z.string().max(100).nullable() }),
@@ -94,4 +102,6 @@ export const scheduledJobs: ScheduledJob[] = [
   { job: "pooled-release", payload: {}, when: (settings) => (settings.releaseSchedule === "manual" ? null : { cron: "*/10 * * * *" }) },
   // Once a night, after the release hour's usual slot; the retention period itself is read when it runs.
   { job: "rejected-upload-files", payload: {}, when: () => ({ cron: "30 3 * * *" }) },
+  // Every morning (UTC), so a reminder arrives at the start of a working day in the co-op's region.
+  { job: "trial-reminders", payload: {}, when: () => ({ cron: "0 7 * * *" }) },
 ];

@@ -3,6 +3,7 @@ import { sendQueuedMail, type Attempt } from "@/lib/data/mail";
 import { issuePasswordReset } from "@/lib/data/members";
 import { refreshPooledStatistics } from "@/lib/data/pooled-refresh";
 import { cutReleaseIfDue } from "@/lib/data/pooled-releases";
+import { sweepTrialReminders } from "@/lib/data/trial-timeline";
 import { purgeRejectedUploadFiles } from "@/lib/data/upload-limits";
 import type { JobName, JobPayload } from "./definitions";
 
@@ -25,6 +26,9 @@ export const jobHandlers: { [Name in JobName]: JobHandler<Name> } = {
   },
   "rejected-upload-files": async () => {
     await purgeRejectedUploadFiles();
+  },
+  "trial-reminders": async () => {
+    await sweepTrialReminders();
   },
   "password-reset": (request) => issuePasswordReset(request),
 };

@@ -47,7 +47,7 @@ describe("a queued message's secret link", () => {
   it("works for the trial e-mails' opt-out link too", () => {
     const link = secretLink({ for: "reminders-opt-out", enrolmentId: tokenId });
     const mail = trialReminderMail({
-      trial: { code: "T-2026-03", title: "Winter oysters", question: "Which strain?" },
+      trial: { code: "T-2026-03", title: "Winter oysters" },
       farmName: "Fernbrook Farm",
       due: [],
       progressUrl: "https://app.example/trials/1",

@@ -57,3 +57,4 @@ export { withinFarmSpread } from "./within-farm";
 export { summariseOwnFarm, type OwnBlock, type OwnStrainSummary } from "./my-farm";
 export { ownBlocksForChart, type OwnStrainBlocks } from "./own-blocks";
 export { cooperativeSettingsSchema, lowestMinimumFarms, type CooperativeSettingsInput } from "./settings-schema";
+export { resultsInBrief } from "./in-brief";

@@ -4,6 +4,7 @@ import { pipeline } from "node:stream/promises";
 import { createGzip, gunzipSync } from "node:zlib";
 import { v7 as timeOrderedId } from "uuid";
 import type { RegisterEntryText } from "../import/registers";
+import { seasonLogSchemaVersion } from "../import/schema";
 import { copyChunks } from "./copy-text";
 import type { BlockWrite, CommitPlan, HarvestWrite, PlanCounts, StoredHarvest } from "./plan";
 import type { ParseChoices } from "./report";
@@ -100,6 +101,7 @@ export function commitRowsOf(
       b.spentMassAsWritten,
       b.spentMassUnit,
       b.notes,
+      b.seasonYear,
     ]),
     harvests: copyChunks(plan.harvests, (h) => [
       newHarvests.has(h),
@@ -144,6 +146,8 @@ export function stagingKey(choices: ParseChoices, knownStrains: readonly (string
     choices.sheet ?? null,
     knownStrains.map((strain) => (typeof strain === "string" ? strain : JSON.stringify([strain.code, strain.names ?? []]))).sort(),
     today,
+    // Rows kept under an earlier version of the columns have fewer cells than the staged table.
+    seasonLogSchemaVersion,
   ]);
 }
 

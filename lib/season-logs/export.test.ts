@@ -37,6 +37,8 @@ const blocks: ExportBlock[] = [
     trialCode: null,
     armLabel: null,
     inoculatedOn: "2026-02-20",
+    // Named in its season log: a block inoculated just before a 1 March start, counted with the new season.
+    seasonYear: 2026,
     wetMassG: 2500,
     moisture: 0.62,
     fruitingMethodCode: null,
@@ -73,7 +75,7 @@ describe("seasonLogExportCsv", () => {
 
   it("has the schema's columns with units in the headers, one row per flush, a block without harvest once", () => {
     expect(csv.split("\r\n")[0]).toBe(
-      "block_id,strain,substrate,trial,arm,inoculated_on,block_wet_weight (g),substrate_moisture (%),fruiting_method,flush,harvested_on,fresh_weight (g),dry_weight (g),contaminated,contaminated_on,spent_weight (g),notes",
+      "block_id,strain,substrate,trial,arm,inoculated_on,season,block_wet_weight (g),substrate_moisture (%),fruiting_method,flush,harvested_on,fresh_weight (g),dry_weight (g),contaminated,contaminated_on,spent_weight (g),notes",
     );
     expect(parsed.records.map((record) => [record.blockCode, record.flush])).toEqual([
       ["LP-12", 1],
@@ -90,7 +92,8 @@ describe("seasonLogExportCsv", () => {
     expect(first.freshGrams).toBeCloseTo(612.345, 6);
     expect(second.freshGrams).toBeCloseTo(twelveOz, 3);
     expect(first.notes).toBe(blocks[0].notes);
-    expect(bare).toMatchObject({ contaminated: true, contaminatedOn: "2026-03-10", trialCode: null, substrate: null });
+    expect(bare).toMatchObject({ contaminated: true, contaminatedOn: "2026-03-10", trialCode: null, substrate: null, seasonYear: 2026 });
+    expect(first.seasonYear).toBeNull();
   });
 
   it("changes nothing when uploaded over the blocks it was made from", () => {
@@ -102,6 +105,7 @@ describe("seasonLogExportCsv", () => {
       fruitingMethodId: block.fruitingMethodCode ? "m-slit" : null,
       trialArmId: block.trialCode ? "arm-a" : null,
       inoculatedOn: block.inoculatedOn,
+      seasonYear: block.seasonYear ?? null,
       wetMassG: block.wetMassG,
       moisture: block.moisture,
       contaminated: block.contaminated,
@@ -140,7 +144,7 @@ describe("trialListCsv", () => {
       { blockCode: "T01-1-01", trialCode: "T-2026-01", armLabel: "B", strainCode: "PO-02", fruitingMethodCode: "SLIT-ACROSS" },
       { blockCode: "T01-1-02", trialCode: "T-2026-01", armLabel: "A", strainCode: "PO-01", fruitingMethodCode: null },
     ]);
-    expect(csv.split("\r\n")[1]).toBe("T01-1-01,PO-02,,T-2026-01,B,,,,SLIT-ACROSS,,,,,,,,");
+    expect(csv.split("\r\n")[1]).toBe("T01-1-01,PO-02,,T-2026-01,B,,,,,SLIT-ACROSS,,,,,,,,");
     const parsed = parseSeasonLog(csv, { knownStrains: ["PO-01", "PO-02"], today: "2026-12-01" });
     expect(parsed.issues).toEqual([]);
     expect(

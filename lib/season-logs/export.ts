@@ -15,6 +15,8 @@ export interface ExportBlock {
   trialCode: string | null;
   armLabel: string | null;
   inoculatedOn: string | null;
+  /** The season the block's season log named, if any (a block without one follows its inoculation date). */
+  seasonYear?: number | null;
   wetMassG: number | null;
   moisture: number | null;
   fruitingMethodCode: string | null;
@@ -39,6 +41,7 @@ const columns = [
   { key: "trial", header: "trial" },
   { key: "arm", header: "arm" },
   { key: "inoculated_on", header: "inoculated_on" },
+  { key: "season", header: "season" },
   { key: "block_wet_weight", header: "block_wet_weight (g)" },
   { key: "substrate_moisture", header: "substrate_moisture (%)" },
   { key: "fruiting_method", header: "fruiting_method" },
@@ -81,6 +84,7 @@ function blockCells(block: ExportBlock): Record<string, string> {
     trial: block.trialCode ?? "",
     arm: block.armLabel ?? "",
     inoculated_on: block.inoculatedOn ?? "",
+    season: block.seasonYear == null ? "" : String(block.seasonYear),
     block_wet_weight: exportGrams(block.wetMassG),
     substrate_moisture: exportPercent(block.moisture),
     fruiting_method: block.fruitingMethodCode ?? "",

@@ -102,6 +102,20 @@ describe("planCommit", () => {
     expect(plan.changes).toEqual([]);
   });
 
+  it("stores the season a file names, keeps it under a blank cell and records a change of it", () => {
+    const seasonHeader = "block_id,strain,inoculated_on,season";
+    const named = planCommit(input({ records: records(["A-1,PO-01,2026-03-01,2025/26"], seasonHeader), storedBlocks: [storedA1] }));
+    expect(named.blocks.map((block) => block.seasonYear)).toEqual([2025]);
+    expect(named.changes).toEqual([{ blockCode: "A-1", flush: null, field: "season", oldValue: null, newValue: "2025" }]);
+    const stored = { ...storedA1, seasonYear: 2025 };
+    expect(
+      planCommit(input({ records: records(["A-1,PO-01,2026-03-01,"], seasonHeader), storedBlocks: [stored] })).counts.untouchedBlocks,
+    ).toBe(1);
+    expect(planCommit(input({ records: records(["A-1,PO-01,2026-03-01,2025"], seasonHeader), storedBlocks: [stored] })).changes).toEqual(
+      [],
+    );
+  });
+
   it("refuses a trial block whose strain differs from its arm's strain", () => {
     const plan = planCommit(
       input({

@@ -10,6 +10,8 @@ export interface StoredBlock {
   fruitingMethodId: string | null;
   trialArmId: string | null;
   inoculatedOn: string | null;
+  /** The season the season log named (its starting year); null or absent when it follows the inoculation date. */
+  seasonYear?: number | null;
   wetMassG: number | null;
   moisture: number | null;
   contaminated: boolean;
@@ -66,8 +68,9 @@ export interface PlanInput {
 }
 
 /** The block row a commit writes: the stored values and the masses as written; `id` is the stored block's, null for a new one. */
-export interface BlockWrite extends Omit<StoredBlock, "id"> {
+export interface BlockWrite extends Omit<StoredBlock, "id" | "seasonYear"> {
   id: string | null;
+  seasonYear: number | null;
   wetMassAsWritten: string | null;
   wetMassUnit: string | null;
   spentMassAsWritten: string | null;
@@ -335,6 +338,7 @@ export function planCommit(input: PlanInput): CommitPlan {
       fruitingMethodId: method?.id ?? stored?.fruitingMethodId ?? null,
       trialArmId: assignment?.armId ?? stored?.trialArmId ?? null,
       inoculatedOn: record.inoculatedOn ?? stored?.inoculatedOn ?? null,
+      seasonYear: record.seasonYear ?? stored?.seasonYear ?? null,
       wetMassG: record.wetBlockGrams ?? stored?.wetMassG ?? null,
       wetMassAsWritten: record.wetBlockAsWritten?.value ?? null,
       wetMassUnit: record.wetBlockAsWritten?.unit ?? null,
@@ -369,6 +373,7 @@ export function planCommit(input: PlanInput): CommitPlan {
     );
     if (stored.trialArmId !== write.trialArmId) compare("arm", stored.trialArmId, write.trialArmId);
     compare("inoculated_on", stored.inoculatedOn, write.inoculatedOn);
+    compare("season", shown(stored.seasonYear ?? null), shown(write.seasonYear));
     if (!sameNumber(stored.wetMassG, write.wetMassG, gramsTolerance))
       compare("block_wet_weight", shown(stored.wetMassG), shown(write.wetMassG));
     if (!sameNumber(stored.moisture, write.moisture, moistureTolerance))

@@ -31,6 +31,8 @@ export const recordHarvestSchema = z.object({
     .string()
     .regex(/^\d{4}-\d{2}-\d{2}$/, "Choose the day you picked the flush.")
     .refine((day) => !Number.isNaN(Date.parse(`${day}T00:00:00Z`)), "Choose a real day."),
+  // Made by the phone for this entry (a v4 uuid): sending it again finds the harvest stored the first time.
+  clientKey: z.uuid({ error: "Reload the page: this entry has no key of its own." }).optional(),
   // The warnings the grower read and chose to save anyway ("Save anyway"), by code; never an error.
   acceptWarnings: z
     .string()

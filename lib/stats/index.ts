@@ -22,6 +22,9 @@ export {
   sampleSizePairwiseBlocked,
   powerTwoMeans,
   powerPairwiseBlocked,
+  powerCrossedBlocked,
+  sampleSizeCrossedBlocked,
+  type CrossedDesign,
   type PairwiseDesign,
   type SampleSize,
 } from "./sample-size";

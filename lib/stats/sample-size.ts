@@ -125,6 +125,107 @@ export function sampleSizePairwiseBlocked(options: {
   return { nPerGroup, nPerGroupCeil: Math.ceil(nPerGroup - 1e-9) };
 }
 
+export type CrossedDesign = {
+  /** Smallest difference worth finding between two levels of the factor compared, in the outcome's unit. */
+  delta: number;
+  /** Spread between blocks of one combination on one farm, same unit. */
+  sd: number;
+  /** Levels of the factor compared (2 or more), e.g. fruiting methods: Tukey over these. */
+  levels: number;
+  /** Levels of the other factor (2 or more), e.g. strains: every combination is an arm. */
+  otherLevels: number;
+  /** Farms, the blocks of the analysis (1 or more). */
+  farms: number;
+  /** Two-sided significance level of each Tukey-adjusted comparison. */
+  alpha: number;
+  /**
+   * "averaged": two levels compared over all of the other factor's levels with equal weight (a
+   * main effect, when the interaction is not material); "within": compared within one level of
+   * the other factor (a simple effect, as the report gives when it is).
+   */
+  comparison: "averaged" | "within";
+};
+
+/**
+ * Power to find two levels of one factor different in a crossed trial analysed as outcome ~ a + b
+ * + a × b + farm with n blocks per combination: residual df = a·b·n − a·b − farms + 1, critical
+ * value q(1 − α; levels, df)/√2 (the t quantile for two levels), noncentrality δ/(σ·√(2/(n·m)))
+ * where m is the other factor's levels for a comparison averaged over them and 1 within one of
+ * them. With one level of the other factor it is powerPairwiseBlocked over `levels` arms.
+ */
+export function powerCrossedBlocked(n: number, design: CrossedDesign): number {
+  const cells = design.levels * design.otherLevels;
+  const df = cells * n - cells - design.farms + 1;
+  const critical =
+    design.levels === 2
+      ? studentTQuantile(1 - design.alpha / 2, df)
+      : studentizedRangeQuantile(1 - design.alpha, design.levels, df) / Math.SQRT2;
+  const replication = design.comparison === "averaged" ? design.otherLevels : 1;
+  const ncp = Math.sqrt((n * replication) / 2) * (Math.abs(design.delta) / design.sd);
+  return 1 - noncentralTLowerTail(critical, df, ncp);
+}
+
+/**
+ * Blocks per combination (arm) of a crossed trial so that two levels of the factor compared are
+ * found different with the given power (powerCrossedBlocked). Solved as sampleSizePairwiseBlocked
+ * is, with the same smallest size that leaves an error estimate.
+ */
+export function sampleSizeCrossedBlocked(options: Omit<CrossedDesign, "alpha"> & { power?: number; alpha?: number }): SampleSize {
+  const { power = 0.8, alpha = 0.05, ...rest } = options;
+  const design: CrossedDesign = { ...rest, alpha };
+  requireFinite(design.delta, "The difference to detect");
+  requireFinite(design.sd, "The standard deviation");
+  if (design.delta === 0) {
+    throw new StatsInputError("invalid_argument", "The difference to detect is 0; give the smallest difference worth finding.");
+  }
+  if (!(design.sd > 0)) {
+    throw new StatsInputError(
+      "invalid_argument",
+      `The standard deviation ${design.sd} must be above 0; use the spread seen between blocks.`,
+    );
+  }
+  if (!(alpha > 0 && alpha < 1)) {
+    throw new StatsInputError("invalid_level", `The significance level ${alpha} must be between 0 and 1, e.g. 0.05.`);
+  }
+  if (!(power > alpha && power < 1)) {
+    throw new StatsInputError("invalid_level", `The power ${power} must be above the significance level and below 1, e.g. 0.8.`);
+  }
+  for (const [count, what] of [
+    [design.levels, "levels of the factor compared"],
+    [design.otherLevels, "levels of the other factor"],
+  ] as const) {
+    if (!(Number.isInteger(count) && count >= 2)) {
+      throw new StatsInputError("invalid_argument", `The number of ${what} ${count} must be a whole number, 2 or more.`);
+    }
+  }
+  if (!(Number.isInteger(design.farms) && design.farms >= 1)) {
+    throw new StatsInputError("invalid_argument", `The number of farms ${design.farms} must be a whole number, 1 or more.`);
+  }
+  const cells = design.levels * design.otherLevels;
+  const residualDfAt = (n: number) => cells * n - cells - design.farms + 1;
+  const smallest = Math.max(2, ((design.levels > 2 ? 3 : 1) + cells + design.farms - 1) / cells);
+  if (powerCrossedBlocked(smallest, design) >= power) return { nPerGroup: smallest, nPerGroupCeil: Math.ceil(smallest - 1e-9) };
+  let nPerGroup: number;
+  if (design.levels === 2) {
+    nPerGroup = increasingRoot((n) => powerCrossedBlocked(n, design) - power, smallest);
+  } else {
+    // As sampleSizePairwiseBlocked: hold the Tukey critical value, solve, recompute it at the new df, repeat.
+    const replication = design.comparison === "averaged" ? design.otherLevels : 1;
+    const ncp = (n: number) => Math.sqrt((n * replication) / 2) * (Math.abs(design.delta) / design.sd);
+    let last = studentizedRangeQuantile(1 - alpha, design.levels, 1e6);
+    const critical = (n: number) => (last = studentizedRangeQuantile(1 - alpha, design.levels, residualDfAt(n), last)) / Math.SQRT2;
+    nPerGroup = Math.max(smallest, (2 * ((last / Math.SQRT2 + normalQuantile(power)) * (design.sd / design.delta)) ** 2) / replication);
+    for (let round = 0; round < 50; round++) {
+      const held = critical(nPerGroup);
+      const next = increasingRoot((n) => 1 - noncentralTLowerTail(held, residualDfAt(n), ncp(n)) - power, smallest);
+      const settled = Math.abs(next - nPerGroup) <= 1e-11 * next;
+      nPerGroup = next;
+      if (settled) break;
+    }
+  }
+  return { nPerGroup, nPerGroupCeil: Math.ceil(nPerGroup - 1e-9) };
+}
+
 /** The root above `from` of an increasing f that is negative at `from`: doubling for a bracket, then Brent. */
 function increasingRoot(f: (n: number) => number, from: number): number {
   let lower = from;

@@ -1,12 +1,13 @@
 import { describe, expect, it } from "vitest";
 import { seededRandom } from "@/lib/random";
 import { blockedAnova, metaAnalysis, wilsonInterval, describe as describeValues } from "@/lib/stats";
-import { analyseTrial, type OutcomeRecord } from "./analysis";
+import { analyseTrial, armName, type OutcomeRecord } from "./analysis";
 
+// Invented strains and methods; the answer names arms by them.
 const arms = [
-  { id: "b", label: "B", isReference: false },
-  { id: "a", label: "A", isReference: true },
-  { id: "c", label: "C", isReference: false },
+  { id: "b", label: "B", isReference: false, strainName: "Grey Morning", treatmentName: "Horizontal slits" },
+  { id: "a", label: "A", isReference: true, strainName: "Grey Morning", treatmentName: "Opened top" },
+  { id: "c", label: "C", isReference: false, strainName: "Valley Wild", treatmentName: null },
 ];
 
 function generated(farms: number, seed = "analysis"): OutcomeRecord[] {
@@ -56,7 +57,10 @@ describe("analyseTrial", () => {
     );
     expect(result.betweenArms).toHaveLength(1);
     expect(result.versusReference[0].lower).toBeGreaterThan(0);
-    expect(result.answer).toMatch(/^Arm B gave more than reference arm A/);
+    expect(result.answer).toMatch(
+      /^Grey Morning with horizontal slits \(arm B\) gave more than the reference, Grey Morning with opened top \(arm A\): \d+\.\d BE points more/,
+    );
+    expect(result.answer).toContain("Valley Wild (arm C) and the reference, Grey Morning with opened top (arm A) could not be told apart");
 
     const perFarm = ["farm 1", "farm 2", "farm 3", "farm 4"].map((farm) => {
       const b = describeValues(kept.filter((r) => r.farm === farm && r.armId === "b").map((r) => r.value));
@@ -71,6 +75,15 @@ describe("analyseTrial", () => {
     const contaminatedA = armA.filter((record) => record.contaminated).length;
     expect(result.arms[0].contamination.upper).toBe(wilsonInterval(contaminatedA, armA.length).upper);
     expect(result.blocksLeftOut).toBe(records.length - kept.length);
+  });
+
+  it("names an arm by its strain and treatment, keeping its letter in brackets", () => {
+    expect(armName({ label: "B", strainName: "Grey Morning", treatmentName: "Horizontal slits" })).toBe(
+      "Grey Morning with horizontal slits (arm B)",
+    );
+    // A name that starts with a code keeps its capitals; an arm known only by its letter is "arm A".
+    expect(armName({ label: "C", strainName: "PO-02", treatmentName: "CO2 below 800 ppm" })).toBe("PO-02 with CO2 below 800 ppm (arm C)");
+    expect(armName({ label: "A" })).toBe("arm A");
   });
 
   it("gives no pooled figure below the co-op's minimum number of farms", () => {

@@ -14,7 +14,29 @@ export interface TrialArmInfo {
   id: string;
   label: string;
   isReference: boolean;
+  /** What the arm is, for the answer's words: its strain and, if any, its treatment (fruiting method …). */
+  strainId?: string;
+  strainName?: string;
+  treatmentId?: string | null;
+  treatmentName?: string | null;
 }
+
+/**
+ * How the answer names an arm: by what it is, its letter in brackets for the block labels,
+ * "Grey Morning with horizontal slits (arm B)"; just "arm B" when nothing else is known.
+ */
+export function armName(arm: Pick<TrialArmInfo, "label" | "strainName" | "treatmentName">): string {
+  if (!arm.strainName) return `arm ${arm.label}`;
+  const treatment = arm.treatmentName ? ` with ${lowerFirst(arm.treatmentName)}` : "";
+  return `${arm.strainName}${treatment} (arm ${arm.label})`;
+}
+
+/** "Horizontal slits" reads "horizontal slits" inside a sentence; a code such as "PO-02" or "CO2 …" keeps its capitals. */
+export function lowerFirst(name: string): string {
+  return /^[A-Z][a-z]/.test(name) ? name[0].toLowerCase() + name.slice(1) : name;
+}
+
+const capitalised = (text: string) => text[0].toUpperCase() + text.slice(1);
 
 /** One block's contribution: its farm (as an opaque key), arm, outcome (null = left out) and contamination. */
 export interface OutcomeRecord {
@@ -167,7 +189,7 @@ export function analyseTrial(input: { arms: TrialArmInfo[]; records: OutcomeReco
     betweenArms,
     farmPooling,
     notes,
-    answer: plainAnswer(reference.label, versusReference, enoughFarms, farms.length, minimumFarms),
+    answer: plainAnswer(arms, reference.label, versusReference, enoughFarms, farms.length, minimumFarms),
   };
 }
 
@@ -208,8 +230,12 @@ function poolFarmDifferences(
   };
 }
 
-/** The plain-language answer from the differences against the reference arm. */
+/**
+ * The plain-language answer from the differences against the reference arm, each arm named by its
+ * strain and treatment (armName), so a reader need not look up what "arm B" was.
+ */
 export function plainAnswer(
+  arms: readonly TrialArmInfo[],
   reference: string,
   differences: Difference[],
   enoughFarms: boolean,
@@ -219,14 +245,20 @@ export function plainAnswer(
   if (!enoughFarms)
     return `No answer yet: ${farms} farm${farms === 1 ? "" : "s"} reported, and the co-op needs ${minimumFarms} before it pools.`;
   if (!differences.length) return "No answer: the arms could not be compared.";
+  const nameOf = (label: string) => {
+    const arm = arms.find((candidate) => candidate.label === label);
+    return arm ? armName(arm) : `arm ${label}`;
+  };
+  const referenceName = `the reference, ${nameOf(reference)}`;
   return differences
     .map((difference) => {
+      const name = capitalised(nameOf(difference.arm));
       const range = `${round1(difference.lower)} to ${round1(difference.upper)} BE points`;
       if (difference.lower > 0)
-        return `Arm ${difference.arm} gave more than reference arm ${reference}: ${round1(difference.estimate)} BE points more (95 % interval ${range}).`;
+        return `${name} gave more than ${referenceName}: ${round1(difference.estimate)} BE points more (95 % interval ${range}).`;
       if (difference.upper < 0)
-        return `Arm ${difference.arm} gave less than reference arm ${reference}: ${round1(-difference.estimate)} BE points less (95 % interval ${range}).`;
-      return `Arm ${difference.arm} and reference arm ${reference} could not be told apart: the difference was ${round1(difference.estimate)} BE points (95 % interval ${range}).`;
+        return `${name} gave less than ${referenceName}: ${round1(-difference.estimate)} BE points less (95 % interval ${range}).`;
+      return `${name} and ${referenceName} could not be told apart: the difference was ${round1(difference.estimate)} BE points (95 % interval ${range}).`;
     })
     .join(" ");
 }

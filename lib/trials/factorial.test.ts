@@ -2,7 +2,14 @@ import { describe, expect, it } from "vitest";
 import { seededRandom } from "@/lib/random";
 import { factorialAnova } from "@/lib/stats";
 import type { OutcomeRecord } from "./analysis";
-import { analyseFactorialTrial, factorialDesignFromArms, factorialDesignProblems, type FactorialDesign } from "./factorial";
+import {
+  analyseFactorialTrial,
+  crossedArms,
+  crossedArmsProblems,
+  factorialDesignFromArms,
+  factorialDesignProblems,
+  type FactorialDesign,
+} from "./factorial";
 
 // Fruiting method first: the trial's main question. Invented names (demo strains and methods).
 const design: FactorialDesign = {
@@ -80,6 +87,59 @@ describe("factorial designs", () => {
     ]);
     expect(crossed?.arms[0]).toEqual({ armId: "1", levels: ["s1", "m2"] });
     expect(factorialDesignFromArms([arm("1", "s1", "m1"), arm("2", "s2", "m2")], { name: "x", plural: "xs" })).toBeNull();
+  });
+});
+
+describe("arms declared as strains crossed with fruiting methods", () => {
+  const strains = [
+    { id: "grey", name: "Grey Morning" },
+    { id: "valley", name: "Valley Wild" },
+  ];
+  const methods = [
+    { id: "top", name: "Opened top", kind: "fruiting_method" },
+    { id: "slits", name: "Horizontal slits", kind: "fruiting_method" },
+    { id: "mist", name: "Misted room", kind: "humidity" },
+  ];
+
+  it("makes one arm per combination, labelled in order, the first the reference", () => {
+    const arms = crossedArms(["grey", "valley"], ["top", "slits"]);
+    expect(arms.map((arm) => [arm.label, arm.strainId, arm.treatmentId, arm.isReference])).toEqual([
+      ["A", "grey", "top", true],
+      ["B", "grey", "slits", false],
+      ["C", "valley", "top", false],
+      ["D", "valley", "slits", false],
+    ]);
+    expect(crossedArmsProblems(arms, strains, methods)).toEqual([]);
+  });
+
+  it("says, in the names the coordinator picked, what the crossing lacks", () => {
+    const arms = crossedArms(["grey", "valley"], ["top", "slits"]);
+    expect(crossedArmsProblems(arms.slice(0, 3), strains, methods)).toEqual([
+      "No arm is Valley Wild with Horizontal slits; a crossed trial needs every combination.",
+    ]);
+    expect(crossedArmsProblems([{ ...arms[0], treatmentId: null }, ...arms.slice(1)], strains, methods)).toEqual([
+      "Arm A: pick its fruiting method; in a crossed trial every arm is one strain with one method.",
+    ]);
+    expect(crossedArmsProblems([{ ...arms[0], treatmentId: "mist" }, ...arms.slice(1)], strains, methods)[0]).toBe(
+      "Arm A: Misted room is not a fruiting method; a crossed trial crosses strains with fruiting methods.",
+    );
+    expect(crossedArmsProblems(crossedArms(["grey"], ["top", "slits"]), strains, methods)).toEqual([
+      "Give the strain at least two levels to compare.",
+    ]);
+  });
+
+  it("lets the method lead the design, its names in lower case inside a sentence", () => {
+    const arms = crossedArms(["grey", "valley"], ["top", "slits"]).map((arm) => ({
+      id: arm.label,
+      isReference: arm.isReference,
+      strain: strains.find((strain) => strain.id === arm.strainId)!,
+      treatment: methods.find((method) => method.id === arm.treatmentId)!,
+    }));
+    const led = factorialDesignFromArms(arms, { name: "fruiting method", plural: "fruiting methods" }, { lead: "treatment" })!;
+    expect(led.factors.map((factor) => factor.name)).toEqual(["fruiting method", "strain"]);
+    expect(led.factors[0].levels[0]).toEqual({ id: "top", label: "Opened top", inSentence: "opened top" });
+    expect(led.factors[1].levels[0]).toEqual({ id: "grey", label: "Grey Morning" });
+    expect(led.arms[1]).toEqual({ armId: "B", levels: ["slits", "grey"] });
   });
 });
 

@@ -1,5 +1,5 @@
 import { StatsInputError, factorialAnova, type AnovaTerm, type FactorialObservation, type PairwiseComparison } from "@/lib/stats";
-import type { OutcomeRecord } from "./analysis";
+import { lowerFirst, type OutcomeRecord } from "./analysis";
 
 /** One level of a trial factor, e.g. the strain "Valley Wild" or the fruiting method "Horizontal slits". */
 export interface FactorLevel {
@@ -303,22 +303,85 @@ export function factorialDesignFromArms(
     treatment: { id: string; name: string } | null;
   }[],
   second: { name: string; plural: string },
+  options: { lead?: "strain" | "treatment" } = {},
 ): FactorialDesign | null {
   const paired = arms.flatMap((arm) => (arm.treatment ? [{ ...arm, treatment: arm.treatment }] : []));
   if (paired.length !== arms.length || paired.length === 0) return null;
   const reference = paired.find((arm) => arm.isReference) ?? paired[0];
-  const levels = (pick: (arm: (typeof paired)[number]) => { id: string; name: string }) => {
+  const levels = (pick: (arm: (typeof paired)[number]) => { id: string; name: string }, lower: boolean) => {
     const byId = new Map<string, FactorLevel>();
-    for (const arm of [reference, ...paired]) byId.set(pick(arm).id, { id: pick(arm).id, label: pick(arm).name });
+    for (const arm of [reference, ...paired]) {
+      const { id, name } = pick(arm);
+      byId.set(id, lower && lowerFirst(name) !== name ? { id, label: name, inSentence: lowerFirst(name) } : { id, label: name });
+    }
     return [...byId.values()];
   };
+  const strain: TrialFactor = { name: "strain", plural: "strains", levels: levels((arm) => arm.strain, false) };
+  // A method's name reads in lower case inside a sentence ("than opened top"); a strain's is a name and keeps its capitals.
+  const treatment: TrialFactor = { ...second, levels: levels((arm) => arm.treatment, true) };
+  const treatmentLeads = options.lead === "treatment";
   const design: FactorialDesign = {
-    factors: [
-      { name: "strain", plural: "strains", levels: levels((arm) => arm.strain) },
-      { ...second, levels: levels((arm) => arm.treatment) },
-    ],
-    arms: paired.map((arm) => ({ armId: arm.id, levels: [arm.strain.id, arm.treatment.id] })),
+    factors: treatmentLeads ? [treatment, strain] : [strain, treatment],
+    arms: paired.map((arm) => ({
+      armId: arm.id,
+      levels: treatmentLeads ? [arm.treatment.id, arm.strain.id] : [arm.strain.id, arm.treatment.id],
+    })),
   };
   const crossed = design.factors.every((factor) => factor.levels.length >= 2) && factorialDesignProblems(design).length === 0;
   return crossed ? design : null;
+}
+
+/**
+ * What is wrong with a trial's arms declared as strains crossed with fruiting methods, in words a
+ * coordinator can act on (factorialDesignProblems on the arms' strains and treatments): every arm
+ * needs a fruiting method, and every strain must meet every method in exactly one arm. `strains`
+ * and `treatments` give the names the messages use.
+ */
+export function crossedArmsProblems(
+  arms: readonly { label: string; strainId: string; treatmentId: string | null }[],
+  strains: readonly { id: string; name: string }[],
+  treatments: readonly { id: string; name: string; kind?: string }[],
+): string[] {
+  const problems: string[] = [];
+  for (const arm of arms) {
+    const treatment = treatments.find((candidate) => candidate.id === arm.treatmentId);
+    if (!treatment)
+      problems.push(`Arm ${arm.label}: pick its fruiting method; in a crossed trial every arm is one strain with one method.`);
+    else if (treatment.kind && treatment.kind !== "fruiting_method")
+      problems.push(`Arm ${arm.label}: ${treatment.name} is not a fruiting method; a crossed trial crosses strains with fruiting methods.`);
+  }
+  if (problems.length) return problems;
+  const levels = (ids: string[], names: readonly { id: string; name: string }[]) =>
+    [...new Set(ids)].map((id) => ({ id, label: names.find((candidate) => candidate.id === id)?.name ?? id }));
+  return factorialDesignProblems({
+    factors: [
+      {
+        name: "strain",
+        plural: "strains",
+        levels: levels(
+          arms.map((arm) => arm.strainId),
+          strains,
+        ),
+      },
+      {
+        name: "fruiting method",
+        plural: "fruiting methods",
+        levels: levels(
+          arms.map((arm) => arm.treatmentId!),
+          treatments,
+        ),
+      },
+    ],
+    arms: arms.map((arm) => ({ armId: arm.label, levels: [arm.strainId, arm.treatmentId!] })),
+  });
+}
+
+/** One arm per combination of the strains and methods picked, strains outer, labelled A, B, …; the first combination is the reference. */
+export function crossedArms(strainIds: readonly string[], treatmentIds: readonly string[]) {
+  return strainIds.flatMap((strainId, i) =>
+    treatmentIds.map((treatmentId, j) => {
+      const index = i * treatmentIds.length + j;
+      return { label: String.fromCharCode(65 + index), strainId, treatmentId, isReference: index === 0 };
+    }),
+  );
 }

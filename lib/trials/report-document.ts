@@ -1,6 +1,8 @@
 import { cautions } from "@/lib/cautions";
 import type { Difference } from "./analysis";
+import type { FactorialComparison, FactorialTrialAnalysis } from "./factorial";
 import type { StoredTrialResults } from "./report";
+import { formatDateTime, formatDay, utcDisplay, type TimeDisplay } from "@/lib/time/display";
 
 /** What a report export needs of a trial: the trial as the reader may see it (lib/data/trials.ts getTrial gives it). */
 export interface ReportTrial {
@@ -95,7 +97,8 @@ function differenceTable(rows: Difference[], farmAdjusted: boolean): ReportTable
  * Page 1: the answer, the arms and their adjusted means. Page 2: differences, farm by farm,
  * contamination, deviations, the protocol and the cautions.
  */
-export function trialReportDocument(trial: ReportTrial): TrialReportDocument {
+/** `display`: the reader's zone and date style (the download route passes them); UTC, named, otherwise. */
+export function trialReportDocument(trial: ReportTrial, display: TimeDisplay = utcDisplay): TrialReportDocument {
   const { analysis, deviations } = trial.results;
   const first: ReportSection[] = [
     {
@@ -142,6 +145,9 @@ export function trialReportDocument(trial: ReportTrial): TrialReportDocument {
       ],
     });
   }
+
+  const factorial = trial.results.factorial;
+  if (factorial?.anova) first.push(factorialSection(factorial, factorial.anova));
 
   const second: ReportSection[] = [];
   if (analysis.versusReference.length) {
@@ -232,9 +238,9 @@ export function trialReportDocument(trial: ReportTrial): TrialReportDocument {
 
   return {
     title: `${trial.code} — ${trial.title}`,
-    subtitle: `${trial.question}${trial.publishedAt ? ` Published ${trial.publishedAt.toISOString().slice(0, 10)}.` : ""}`,
+    subtitle: `${trial.question}${trial.publishedAt ? ` Published ${formatDay(trial.publishedAt, display)}.` : ""}`,
     pages: [first, second],
-    footer: `Analysed ${trial.results.analysedAt.slice(0, 16).replace("T", " ")} UTC. Rhizomorph records yields; it is not safety, food or health advice.`,
+    footer: `Analysed ${formatDateTime(trial.results.analysedAt, display)}. Rhizomorph records yields; it is not safety, food or health advice.`,
   };
 }
 
@@ -277,6 +283,41 @@ export function trialReportRows(trial: ReportTrial): Record<string, string | num
       upper: round(row.upper),
       p_adjusted: pText(row.pAdjusted),
     });
+  }
+  const factorial = trial.results.factorial;
+  if (factorial?.anova) {
+    const [first, second] = factorial.factors;
+    for (const cell of factorial.cellMeans)
+      rows.push({
+        ...base,
+        table: `mean BE (%) of each ${first} with each ${second}, farm-adjusted`,
+        arm: `${cell.levels[0]} with ${cell.levels[1]}`,
+        blocks: cell.blocks,
+        estimate: round(cell.estimate),
+        lower: round(cell.lower),
+        upper: round(cell.upper),
+      });
+    const comparisons = (table: string, list: FactorialComparison[], within = "") =>
+      list.map((row) => ({
+        ...base,
+        table,
+        arm: row.level,
+        compared_with: row.versus,
+        estimate: round(row.estimate),
+        lower: round(row.lower),
+        upper: round(row.upper),
+        p_adjusted: pText(row.pAdjusted),
+        note: within,
+      }));
+    rows.push(
+      ...comparisons(`${first} difference averaged over ${second}s (BE points, Tukey)`, factorial.mainEffects[0]),
+      ...comparisons(`${second} difference averaged over ${first}s (BE points, Tukey)`, factorial.mainEffects[1]),
+      ...(factorial.interactionMaterial
+        ? factorial.simpleEffects[0].flatMap((group) =>
+            comparisons(`${first} difference within one ${second} (BE points, Tukey)`, group.comparisons, `with ${group.within}`),
+          )
+        : []),
+    );
   }
   for (const pooling of analysis.farmPooling) {
     const table = "farm by farm difference (BE points)";
@@ -352,4 +393,69 @@ export function pdfSafeText(text: string): string {
       return typewritten[char] ?? "?";
     })
     .join("");
+}
+
+const capitalised = (text: string) => text[0].toUpperCase() + text.slice(1);
+
+/** A crossed trial's figures as the report page shows them: the terms, each combination's mean, the comparisons. */
+function factorialSection(factorial: FactorialTrialAnalysis, anova: NonNullable<FactorialTrialAnalysis["anova"]>): ReportSection {
+  const [first, second] = factorial.factors;
+  const comparisonRows = (rows: FactorialComparison[], within?: string) =>
+    rows.map((row) => [
+      `${within ? `With ${within}: ` : ""}${row.level} - ${row.versus}`,
+      fmt(row.estimate),
+      `${fmt(row.lower)} to ${fmt(row.upper)}`,
+      pText(row.pAdjusted),
+    ]);
+  const comparisonColumns = ["Difference", "BE points", "95 % interval", "p (adjusted)"];
+  return {
+    heading: `Does the ${first} matter, does the ${second}, and does one depend on the other?`,
+    paragraphs: [
+      `BE ~ ${first} + ${second} + ${first} x ${second} + farm, type II sums of squares. The interaction counts as material below p = ${fmt(factorial.interactionLevel, 2)}, decided before the trial.`,
+    ],
+    tables: [
+      {
+        title: "Terms of the model",
+        columns: ["Term", "df", "F", "p"],
+        rows: (
+          [
+            [capitalised(first), anova.first],
+            [capitalised(second), anova.second],
+            [`${capitalised(first)} x ${second}`, anova.interaction],
+            ["Farm", anova.farm],
+          ] as const
+        ).map(([name, term]) => [name, String(term.df), fmt(term.f, 2), pText(term.p)]),
+      },
+      {
+        title: `Farm-adjusted mean BE of each ${first} with each ${second}`,
+        columns: [capitalised(first), capitalised(second), "Blocks", "Mean BE", "95 % interval"],
+        rows: factorial.cellMeans.map((cell) => [
+          cell.levels[0],
+          cell.levels[1],
+          String(cell.blocks),
+          `${fmt(cell.estimate)} %`,
+          `${fmt(cell.lower)} - ${fmt(cell.upper)} %`,
+        ]),
+      },
+      ...(factorial.interactionMaterial
+        ? [
+            {
+              title: `${capitalised(first)}s compared within each ${second} (Tukey within each)`,
+              columns: comparisonColumns,
+              rows: factorial.simpleEffects[0].flatMap((group) => comparisonRows(group.comparisons, group.within)),
+            },
+          ]
+        : []),
+      {
+        title: `${capitalised(first)}s compared, averaged over the ${second}s (Tukey)`,
+        columns: comparisonColumns,
+        rows: comparisonRows(factorial.mainEffects[0]),
+      },
+      {
+        title: `${capitalised(second)}s compared, averaged over the ${first}s (Tukey)`,
+        columns: comparisonColumns,
+        rows: comparisonRows(factorial.mainEffects[1]),
+      },
+    ],
+  };
 }

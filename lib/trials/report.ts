@@ -10,8 +10,10 @@ import {
   type TrialAnalysis,
   type TrialArmInfo,
 } from "./analysis";
+import type { TrialDesignKind } from "./design-kind";
+import { analyseFactorialTrial, factorialDesignFromArms, type FactorialTrialAnalysis } from "./factorial";
 import { exclusionReasons, trialOutcomeRecords, type ClassifiedOutcomeRecord, type ExclusionReason } from "./outcome";
-import { trialSampleSize } from "./sample-size";
+import { crossingOf, trialSampleSize } from "./sample-size";
 
 /** One arm as a published report shows it: each figure only with the co-op's minimum number of farms behind it. */
 export interface PublishedArm {
@@ -149,7 +151,7 @@ export function discloseTrialAnalysis(
     notes: [...analysis.notes, ...withheldNote],
     answer:
       withheldArms.size && enough
-        ? plainAnswer(analysis.referenceArm, versusReference, enough, analysis.farmsContributing, minimumFarms)
+        ? plainAnswer(input.arms, analysis.referenceArm, versusReference, enough, analysis.farmsContributing, minimumFarms)
         : analysis.answer,
     perFarmRows,
   };
@@ -212,6 +214,12 @@ export interface PlannedAndAchieved {
 /** What is stored on the trial when it closes, and shown once published: only what the report may show. */
 export interface StoredTrialResults {
   analysis: PublishedTrialAnalysis;
+  /**
+   * For a trial crossing strains with fruiting methods: the two factors, their interaction and
+   * simple effects (lib/trials/factorial.ts); its answer is then `analysis.answer`. Absent for a
+   * one-factor trial and for results stored before trials could cross two factors.
+   */
+  factorial?: FactorialTrialAnalysis;
   /** Block counts are null where fewer than the minimum number of farms reported. */
   deviations: {
     farmsDropped: number;
@@ -270,23 +278,50 @@ export function trialReport(input: {
   blocksAssigned: number;
   /** Listed blocks per arm id, over every farm. */
   assignedByArm: Readonly<Record<string, number>>;
-  design: { smallestDifference: number | null; expectedSd: number | null; plannedFarms: number | null; expectedLoss: number | null };
+  design: {
+    designKind?: TrialDesignKind;
+    smallestDifference: number | null;
+    expectedSd: number | null;
+    plannedFarms: number | null;
+    expectedLoss: number | null;
+  };
   analysedAt: string;
 }): { results: StoredTrialResults; farms: TrialReportFarm[] } {
   const records = trialOutcomeRecords(input.blockRows, input.harvestRows, input.outcome);
   const analysis = analyseTrial({ arms: [...input.arms], records, minimumFarms: input.minimumFarms });
-  const { report, farms } = discloseTrialAnalysis(analysis, { ...input, records });
+  const disclosed = discloseTrialAnalysis(analysis, { ...input, records });
+  const { farms } = disclosed;
+  let report = disclosed.report;
+  const factorial =
+    input.design.designKind === "strain_by_method" ? factorialReport(input.arms, records, input.minimumFarms, report) : undefined;
+  if (factorial) {
+    // The crossing is the pre-declared analysis: its answer replaces the arm-by-arm one; what it could not do is said.
+    report = factorial.anova
+      ? { ...report, answer: factorial.answer }
+      : { ...report, notes: [...report.notes, ...factorial.notes.filter((note) => !report.notes.includes(note))] };
+  }
   const { smallestDifference, expectedSd, plannedFarms, expectedLoss } = input.design;
   const planned =
     smallestDifference && expectedSd && plannedFarms
       ? trialSampleSize(
-          { difference: smallestDifference, sd: expectedSd, plannedFarms, expectedLoss: expectedLoss ?? 0, arms: input.arms.length },
+          {
+            difference: smallestDifference,
+            sd: expectedSd,
+            plannedFarms,
+            expectedLoss: expectedLoss ?? 0,
+            arms: input.arms.length,
+            crossing: crossingOf(
+              input.design.designKind,
+              input.arms.map((arm) => ({ strainId: arm.strainId ?? arm.label, treatmentId: arm.treatmentId ?? null })),
+            ),
+          },
           [0.8],
         )
       : null;
   return {
     results: {
       analysis: report,
+      ...(factorial ? { factorial } : {}),
       deviations: {
         farmsDropped: input.enrolments.filter((enrolment) => enrolment.status === "dropped").length,
         farmsDeclined: input.enrolments.filter((enrolment) => enrolment.status === "declined").length,
@@ -306,4 +341,57 @@ export function trialReport(input: {
     },
     farms,
   };
+}
+
+/**
+ * The factorial analysis of a trial whose arms cross strains with fruiting methods, the method
+ * leading (the trial's main question is usually the method; the strain is the second factor). It
+ * publishes pooled figures only, and none when an arm's figures are withheld (run on fewer than the
+ * minimum number of farms): every main effect and cell mean would then carry that arm's few farms.
+ */
+function factorialReport(
+  arms: readonly TrialArmInfo[],
+  records: OutcomeRecord[],
+  minimumFarms: number,
+  published: PublishedTrialAnalysis,
+): FactorialTrialAnalysis {
+  const design = factorialDesignFromArms(
+    arms.map((arm) => ({
+      id: arm.id,
+      isReference: arm.isReference,
+      strain: { id: arm.strainId ?? arm.label, name: arm.strainName ?? `arm ${arm.label}` },
+      treatment: arm.treatmentId && arm.treatmentName ? { id: arm.treatmentId, name: arm.treatmentName } : null,
+    })),
+    { name: "fruiting method", plural: "fruiting methods" },
+    { lead: "treatment" },
+  );
+  const empty = (note: string, answer: string): FactorialTrialAnalysis => ({
+    factors: ["fruiting method", "strain"],
+    farmsContributing: published.farmsContributing,
+    minimumFarms,
+    enoughFarms: published.enoughFarms,
+    blocksAnalysed: 0,
+    blocksLeftOut: 0,
+    anova: null,
+    cellMeans: [],
+    mainEffects: [[], []],
+    simpleEffects: [[], []],
+    interactionMaterial: false,
+    interactionLevel: 0.1,
+    notes: [note],
+    answer,
+  });
+  if (!design)
+    return empty(
+      "The arms do not cross every strain with every fruiting method, one arm each, so the crossed analysis was not made.",
+      "No answer: the arms do not form a complete crossing of strains and fruiting methods.",
+    );
+  if (published.arms.some((arm) => arm.withheld) && published.enoughFarms)
+    return empty(
+      `Some arms ran on fewer than ${minimumFarms} farms, so the crossed analysis is not published.`,
+      "No answer: some arms ran on too few farms for the crossed analysis.",
+    );
+  const analysis = analyseFactorialTrial({ design, records, minimumFarms });
+  // Block counts of one farm are its own: none below the minimum, as for the arm-by-arm analysis.
+  return analysis.enoughFarms ? analysis : { ...analysis, blocksAnalysed: 0, blocksLeftOut: 0 };
 }

@@ -1,5 +1,7 @@
 import { describe, expect, it } from "vitest";
-import { trialSampleSize } from "./sample-size";
+import jStat from "jstat";
+import { powerPairwiseBlocked, sampleSizeCrossedBlocked } from "@/lib/stats";
+import { crossingOf, enrolmentWarnings, trialSampleSize } from "./sample-size";
 
 describe("trial sample-size panel", () => {
   it("matches R power.t.test(delta = 1, sd = 1, power = 0.8 / 0.9) — docs/references.md", () => {
@@ -48,5 +50,65 @@ describe("trial sample-size panel", () => {
     expect(panel.ok).toBe(false);
     if (panel.ok) return;
     expect(Object.keys(panel.problems).sort()).toEqual(["expectedLoss", "expectedSd", "plannedFarms", "smallestDifference"]);
+  });
+});
+
+describe("warnings before a trial starts", () => {
+  // The design form's plan: 10 BE points, SD 10, 4 farms, 5 % loss, 2 arms → 20 blocks per arm (test above, R-checked).
+  const plan = { difference: 10, sd: 10, plannedFarms: 4, expectedLoss: 0.05, arms: 2 };
+
+  it("says nothing when the farms and blocks the plan needs have been committed", () => {
+    expect(enrolmentWarnings(plan, { acceptedFarms: 4, blocksPerArm: 20, minimumFarms: 3 })).toEqual([]);
+  });
+
+  it("warns of too few farms, fewer than planned, and fewer blocks, with the power they give", () => {
+    const warnings = enrolmentWarnings(plan, { acceptedFarms: 2, blocksPerArm: 10, minimumFarms: 3 });
+    expect(warnings.map((warning) => warning.kind)).toEqual([
+      "below_minimum_farms",
+      "fewer_farms_than_planned",
+      "fewer_blocks_than_planned",
+    ]);
+    expect(warnings[0].message).toMatch(/^2 farms have accepted; a trial starts only with at least 3/);
+    expect(warnings[1].message).toBe("2 farms of the 4 planned have accepted.");
+    // The power of what is committed: 10 × 0.95 = 9.5 blocks per arm on 2 farms, df = 2·9.5 − 2 − 2 + 1 = 16,
+    // ncp = √(9.5/2)·10/10; checked against jstat's noncentral t (docs/references.md, "Enrolment short of the plan").
+    const power = powerPairwiseBlocked(9.5, { delta: 10, sd: 10, arms: 2, farms: 2, alpha: 0.05 });
+    const byJstat = 1 - jStat.noncentralt.cdf(jStat.studentt.inv(0.975, 16), 16, Math.sqrt(9.5 / 2));
+    expect(Math.abs(power - byJstat)).toBeLessThan(1e-7);
+    expect(warnings[2].message).toContain(`the plan needs 20 for 80 % power to find 10 BE points once 5 % are lost`);
+    expect(warnings[2].message).toContain(`the power is about ${Math.round(power * 100)} %`);
+  });
+
+  it("gives only the co-op's minimum when the design has no sample-size figures", () => {
+    expect(enrolmentWarnings(null, { acceptedFarms: 5, blocksPerArm: 1, minimumFarms: 3 })).toEqual([]);
+    expect(enrolmentWarnings(null, { acceptedFarms: 1, blocksPerArm: 1, minimumFarms: 3 })[0].message).toMatch(/^1 farm has accepted/);
+  });
+});
+
+describe("sample size of a trial crossing strains with fruiting methods", () => {
+  it("sizes the comparison of methods within a strain, and says what the comparison averaged over strains needs", () => {
+    const plan = { difference: 6, sd: 5, plannedFarms: 4, expectedLoss: 0, arms: 4, crossing: { methods: 2, strains: 2 } };
+    const panel = trialSampleSize(plan);
+    if (!panel.ok) throw new Error("expected a result");
+    const within = sampleSizeCrossedBlocked({ delta: 6, sd: 5, levels: 2, otherLevels: 2, farms: 4, comparison: "within" }).nPerGroup;
+    expect(panel.rows[0].exactPerArm).toBe(within);
+    expect(panel.pairs).toBe(1);
+    expect(panel.averagedPerArm).toBeLessThan(within);
+    // All pairs of 4 arms with Tukey would ask for more than the crossed analysis needs.
+    const allPairs = trialSampleSize({ ...plan, crossing: null });
+    if (!allPairs.ok) throw new Error("expected a result");
+    expect(allPairs.rows[0].exactPerArm).toBeGreaterThan(within);
+    expect(allPairs.averagedPerArm).toBeUndefined();
+  });
+
+  it("reads the crossing off the arms of a crossed trial only", () => {
+    const arms = [
+      { strainId: "s1", treatmentId: "m1" },
+      { strainId: "s1", treatmentId: "m2" },
+      { strainId: "s2", treatmentId: "m1" },
+      { strainId: "s2", treatmentId: "m2" },
+    ];
+    expect(crossingOf("strain_by_method", arms)).toEqual({ methods: 2, strains: 2 });
+    expect(crossingOf("one_factor", arms)).toBeNull();
   });
 });

@@ -1,5 +1,6 @@
 import { createHash } from "node:crypto";
 import { trialOutcomeRecords, type TrialBlockRow, type TrialOutcomeProtocol } from "./outcome";
+import { formatDay, utcDisplay, type TimeDisplay } from "@/lib/time/display";
 
 /**
  * What one run of a trial's analysis read: the inputs the coordinator sees beside each run, so two
@@ -124,8 +125,6 @@ export function amendmentReasonProblem(reason: string): string | null {
   return null;
 }
 
-const day = (date: Date) => date.toISOString().slice(0, 10);
-
 /**
  * The line above an amended report: "Amended on 2027-03-02: reason. The original analysis of
  * 2027-02-10 is below." `before` is the version it replaced (its run's date), shown below it.
@@ -133,7 +132,9 @@ const day = (date: Date) => date.toISOString().slice(0, 10);
 export function amendmentLine(
   amendment: { publishedAt: Date; reason: string | null },
   before: { version: number; ranAt: Date } | null,
+  display: TimeDisplay = utcDisplay,
 ): string {
+  const day = (date: Date) => formatDay(date, display);
   const reason = (amendment.reason ?? "").trim();
   const sentence = `Amended on ${day(amendment.publishedAt)}: ${reason}${/[.!?]$/.test(reason) ? "" : "."}`;
   if (!before) return sentence;

@@ -54,7 +54,7 @@ describe("admitting a farm and bringing in its people", () => {
     expect(errors).toEqual([]);
   });
 
-  it("lets the manager accept from the e-mailed link, sign in, and invite a grower", async () => {
+  it("lets the manager accept from the e-mailed link, signs them in at once, and lets them invite a grower", async () => {
     const page = await managerBrowser.newPage();
     const errors = collectPageErrors(page);
     const link = await linkMailedTo(managerEmail);
@@ -62,15 +62,15 @@ describe("admitting a farm and bringing in its people", () => {
     await accept.open(link);
     expect(await page.getByText(farmName).first().textContent()).toContain(farmName);
     await screenshot(page, "members-accept-invitation-phone");
-    expect(await accept.accept("Sofia Lindqvist", managerPassword)).toContain("Your password is set");
+    await accept.accept("Sofia Lindqvist", managerPassword);
+    // Signed in at once, on the start page: on a phone the menu (and the member's name in it) is folded away.
+    await page.waitForURL((url) => url.pathname === "/");
+    await page.getByRole("main").getByRole("heading", { level: 1 }).first().waitFor();
+    await screenshot(page, "members-accepted-start-page-phone");
 
     // The link works once.
     await accept.open(link);
     expect(await accept.refusal()).toContain("already been used");
-
-    await new SignInPage(page).signIn(managerEmail, managerPassword);
-    // On a phone the menu (and the member's name in it) is folded away: wait for the landing page instead.
-    await page.waitForURL((url) => !url.pathname.startsWith("/sign-in"));
     const farmPeople = new FarmPeoplePage(page);
     await farmPeople.open();
     expect(await farmPeople.inviteGrower(growerEmail)).toContain(`Invitation sent to ${growerEmail}`);

@@ -38,6 +38,7 @@ const matrix: Record<string, Action | "public"> = {
   "app/(app)/settings/actions.ts#signOutEverywhereAction": "account:manage",
   "app/(app)/settings/cooperative/actions.ts#updateCooperativeSettingsAction": "settings:manage",
   "app/(app)/settings/cooperative/actions.ts#cutReleaseNowAction": "settings:manage",
+  "app/(app)/settings/cooperative/season-actions.ts#updateSeasonStartAction": "settings:manage",
   "app/(app)/settings/cooperative/upload-retention-actions.ts#updateUploadRetentionAction": "settings:manage",
   "app/(app)/strains/actions.ts#addRegistryEntryAction": "registry:add",
   "app/(app)/strains/actions.ts#moveRegistryEntryAction": "registry:manage",

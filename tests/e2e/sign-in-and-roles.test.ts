@@ -8,7 +8,7 @@ const roles = [
   {
     role: "coordinator",
     email: "coordinator@aldervalley.example",
-    menu: ["Co-op results", "Trials", "Strains", "Members", "Activity log", "Outgoing mail", "Co-op settings", "Settings"],
+    menu: ["Follow-up", "Co-op results", "Trials", "Strains", "Members", "Activity log", "Outgoing mail", "Co-op settings", "Settings"],
     forbidden: "/season-logs",
   },
   {

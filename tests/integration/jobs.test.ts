@@ -325,11 +325,15 @@ describe("jobs scheduled from a co-op setting", () => {
       expect(await schedules()).toEqual([
         { name: "pooled-release", cron: "*/10 * * * *", timezone: "UTC" },
         { name: "rejected-upload-files", cron: "30 3 * * *", timezone: "UTC" },
+        { name: "trial-reminders", cron: "0 7 * * *", timezone: "UTC" },
       ]);
       await inspector.query("update cooperative_settings set release_schedule = 'manual'");
       await syncSchedules(otherProcess!);
       // Files of rejected uploads are removed every night whatever the release schedule.
-      expect(await schedules()).toEqual([{ name: "rejected-upload-files", cron: "30 3 * * *", timezone: "UTC" }]);
+      expect(await schedules()).toEqual([
+        { name: "rejected-upload-files", cron: "30 3 * * *", timezone: "UTC" },
+        { name: "trial-reminders", cron: "0 7 * * *", timezone: "UTC" },
+      ]);
     } finally {
       await inspector.query("update cooperative_settings set release_schedule = $1", [rows[0].schedule]);
       await syncSchedules(otherProcess!, []);

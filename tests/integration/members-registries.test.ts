@@ -72,6 +72,26 @@ describe("registries: proposals, approval, retirement", () => {
     await moveRegistryEntry(coordinator, "strains", used.id, "reinstate");
   });
 
+  it("marks every kind of entry that blocks or a trial use, so Delete is offered only where it can succeed, and refuses it anyway", async () => {
+    const registries = await listRegistries(coordinator);
+    const recipe = registries.substrateRecipes.find((entry) => entry.code === "HWB-20")!;
+    const method = registries.treatments.find((entry) => entry.code === "SLIT-ACROSS")!;
+    const oyster = registries.species.find((entry) => entry.commonName === "Oyster mushroom")!;
+    for (const [table, column, id] of [
+      ["blocks", "substrate_recipe_id", recipe.id],
+      ["blocks", "fruiting_method_id", method.id],
+      ["strains", "species_id", oyster.id],
+    ]) {
+      const { rows } = await inspector.query<{ n: number }>(`select count(*)::int as n from ${table} where ${column} = $1`, [id]);
+      expect(rows[0].n, `${table}.${column}`).toBeGreaterThan(0);
+    }
+    expect([recipe.inUse, method.inUse, oyster.inUse]).toEqual([true, true, true]);
+    await expect(moveRegistryEntry(coordinator, "substrate_recipes", recipe.id, "delete")).rejects.toThrow(/retire it instead/);
+    // A farm person is not told which entries other farms use.
+    const asFarm = await listRegistries(grower);
+    expect(asFarm.substrateRecipes.every((entry) => !entry.inUse)).toBe(true);
+  });
+
   it("imports a CSV list all at once, or not at all with the line of each problem", async () => {
     const good = `code,name,base,supplement,supplement_percent,target_moisture_percent,treatment\nOAK-${run},Oak and bran,Oak sawdust,Wheat bran,12,61,sterilised\nSTR-${run},Pasteurised straw,Wheat straw,,0,70,pasteurised\n`;
     expect(await importRegistryCsv(coordinator, "substrate_recipes", good)).toBe(2);

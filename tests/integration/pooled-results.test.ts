@@ -61,6 +61,8 @@ beforeAll(async () => {
     farmName: person.farm_id ? farm.name : null,
     active: true,
     displayUnits: "metric",
+    timeZone: null,
+    dateStyle: "iso",
     sessionVersion: 1,
   });
   observer = asMember(people.find((person) => person.role === "observer")!);
@@ -113,6 +115,17 @@ describe("pooled results on the demo co-op equal lib/stats on the same rows", ()
     const page = await getPooledResults(observer, { speciesId: oysterId, flushWindow: "all" });
     expect(page.release?.number).toBe(1);
     expect(page.results).toEqual(roundPooledResults(await exactFromRelease(oysterId, "all")));
+  });
+
+  it("opens on the species with the most blocks in the release, not the first by name", async () => {
+    const { rows } = await inspector.query<{ species_id: string }>(
+      `select species_id from pooled_release_strain_rows where release_number = 1 and flush_window = 'all'
+       group by species_id order by sum(blocks) desc limit 1`,
+    );
+    const { rows: first } = await inspector.query<{ id: string }>("select id from species order by common_name limit 1");
+    // The demo co-op grows more oyster than lion's mane, which comes first by name: the check can fail.
+    expect(rows[0].species_id).not.toBe(first[0].id);
+    expect((await getPooledResults(observer, { flushWindow: "all" })).speciesId).toBe(rows[0].species_id);
   });
 
   it("matches blocks, contamination, adjusted means, farm-adjusted Tukey comparisons, heterogeneity and the flush profile", async () => {

@@ -23,7 +23,9 @@ import { AppError } from "@/lib/errors";
 import { seededRandom } from "@/lib/random";
 import { blockedAnova, biologicalEfficiency, wilsonInterval } from "@/lib/stats";
 import { runQueuedJobs, stopJobWorkers } from "@/lib/jobs/worker";
-import { permutedBlockList } from "@/lib/trials";
+import { permutedBlockList, trialSampleSize } from "@/lib/trials";
+import { addDays } from "@/lib/trials/timeline";
+import { todayUtc } from "@/lib/import/dates";
 import { inbox } from "../support/mailbox";
 import { superuserPool } from "./support/database";
 
@@ -101,6 +103,12 @@ describe("a strain trial from design to publication", () => {
       contaminatedHandling: "exclude",
       protocolNotes: "2.5 kg blocks of HWB-20.",
       enrolmentDeadline: null,
+      // A timeline whose due date has passed, so a farm with records missing is behind.
+      inoculationFrom: addDays(todayUtc(), -120),
+      inoculationTo: addDays(todayUtc(), -100),
+      fruitingFrom: addDays(todayUtc(), -80),
+      fruitingTo: addDays(todayUtc(), -20),
+      dataDue: addDays(todayUtc(), -1),
       smallestDifference: 10,
       expectedSd: 12,
       plannedFarms: 4,
@@ -138,6 +146,11 @@ describe("a strain trial from design to publication", () => {
       expect(message.text).toMatch(new RegExp(`${process.env.APP_URL}/unsubscribe/[0-9a-f-]{36}\\.`));
       expect(message.html).toContain(`href="${process.env.APP_URL}/trials/${trialId}"`);
     }
+    // What the design form's sample-size panel gives at 80 % power, per farm and arm.
+    const panel = trialSampleSize({ difference: 10, sd: 12, plannedFarms: 4, expectedLoss: 0.05, arms: 3 }, [0.8]);
+    if (!panel.ok) throw new Error("the design's sample size did not compute");
+    const wanted = panel.rows[0].perFarmPerArm;
+    expect(mail[0].text).toContain(`The trial asks each farm for ${wanted} blocks per arm: 3 arms, so ${wanted * 3} blocks in all.`);
   });
 
   it("randomises each accepting farm by permuted blocks from a recorded seed, and confirms by e-mail", async () => {
@@ -242,6 +255,7 @@ describe("a strain trial from design to publication", () => {
     const behind = progress.filter((row) => row.behind);
     expect(behind.map((row) => row.farmId)).toEqual([managers[3].farmId]);
     expect(behind[0].due).toEqual(["flush 2 of 1 blocks"]);
+    expect(behind[0].behindWhy[0]).toMatch(/were due on .* still missing: flush 2 of 1 blocks/);
 
     const own = await getOwnProgress(managers[3], trial);
     expect(own).toMatchObject({ blocksMade: 12, flushesRecorded: [11, 10] });
@@ -414,7 +428,8 @@ describe("a strain trial from design to publication", () => {
       [trialId],
     );
     expect(closed[0].details.incomplete?.leftOut).toEqual({ contaminated: 4, lost: 1, unfinished: 2, no_harvest: 0 });
-    expect(results.analysis.answer).toMatch(/Arm B gave more than reference arm A/);
+    // Arms are named by their strains, the letter in brackets for the block labels.
+    expect(results.analysis.answer).toMatch(/^\S.* \(arm B\) gave more than the reference, .* \(arm A\): /);
     expect(JSON.stringify(results)).not.toContain(managers[0].farmId!);
   });
 
@@ -437,7 +452,7 @@ describe("a strain trial from design to publication", () => {
     await moveTrial(coordinator, trialId, "published");
     const published = await getTrial(observer, trialId);
     expect(published.status).toBe("published");
-    expect(published.results?.analysis.answer).toMatch(/Arm B/);
+    expect(published.results?.analysis.answer).toMatch(/^Valley Wild \(arm B\) gave/);
     const { rows: people } = await inspector.query<{ email: string }>("select email from users where active");
     const mail = await caughtMail(new RegExp(`^Results of trial ${trial.code}`), people.length);
     expect(mail.flatMap((message) => message.recipients).sort()).toEqual(people.map((person) => person.email).sort());

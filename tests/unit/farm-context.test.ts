@@ -33,6 +33,8 @@ const member = (fields: Partial<Member>): Member => ({
   farmName: "Farm One",
   active: true,
   displayUnits: "metric",
+  timeZone: null,
+  dateStyle: "iso",
   sessionVersion: 1,
   ...fields,
 });

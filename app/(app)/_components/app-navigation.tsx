@@ -4,6 +4,7 @@ import { signOut } from "next-auth/react";
 import Link from "next/link";
 import { usePathname } from "next/navigation";
 import { useState } from "react";
+import { forgetKeptPages } from "@/components/offline/service-worker";
 
 interface Props {
   items: { href: string; label: string }[];
@@ -62,13 +63,20 @@ export function AppNavigation({ items, memberName, roleLabel, farmName }: Props)
           <Link href="/cautions" className="mt-3 block text-oat-200 underline">
             Safety cautions
           </Link>
+          <Link href="/glossary" className="mt-1 block text-oat-200 underline">
+            Words used in the results
+          </Link>
           {/* Through Auth.js's own endpoint, where the proxy cannot renew the cookie being cleared;
               then a relative redirect, because Auth.js would name the host "localhost"; a full page
               load, so nothing the signed-out member's pages held stays in memory. */}
           <button
             type="button"
-            // eslint-disable-next-line @next/next/no-location-assign-relative-destination -- the full page load above
-            onClick={() => void signOut({ redirect: false }).then(() => window.location.assign("/sign-in?signedOut=1"))}
+            onClick={() =>
+              void forgetKeptPages()
+                .then(() => signOut({ redirect: false }))
+                // eslint-disable-next-line @next/next/no-location-assign-relative-destination -- the full page load above
+                .then(() => window.location.assign("/sign-in?signedOut=1"))
+            }
             className="mt-3 min-h-11 rounded-lg border border-oat-50/40 px-3 hover:bg-moss-700"
           >
             Sign out

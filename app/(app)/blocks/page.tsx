@@ -3,14 +3,18 @@ import { ButtonLink } from "@/components/ui/button";
 import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { can } from "@/lib/auth/permissions";
+import { SeasonFilter } from "@/components/ui/season-filter";
 import { listBlocks } from "@/lib/data/blocks";
+import { listFarmSeasons } from "@/lib/data/seasons";
+import { seasonFromSearchParam } from "@/lib/seasons";
 import { BlocksTable } from "./_components/blocks-table";
 
 export const metadata: Metadata = { title: "Blocks & harvests" };
 
-export default async function BlocksPage() {
+export default async function BlocksPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const member = await requirePage("farm-data:read");
-  const rows = await listBlocks(member);
+  const season = seasonFromSearchParam((await searchParams).season);
+  const [rows, { start, seasons }] = await Promise.all([listBlocks(member, { season }), listFarmSeasons(member)]);
   return (
     <>
       <PageHeader
@@ -32,7 +36,8 @@ export default async function BlocksPage() {
           Download as a season log (CSV)
         </a>
       </PageHeader>
-      <BlocksTable rows={rows} display={member.displayUnits} />
+      <SeasonFilter path="/blocks" seasons={seasons} start={start} current={season} everything="All seasons" />
+      <BlocksTable rows={rows} display={member.displayUnits} dateStyle={member.dateStyle} seasonStart={start} />
     </>
   );
 }

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
+import { timeDisplayFor } from "@/lib/time/member-display";
 import { auditListLimit, listAuditEvents } from "@/lib/data/audit";
 import { ActivityTable } from "../activity/_components/activity-table";
 
@@ -15,7 +16,12 @@ export default async function FarmActivityPage() {
         title="Activity log"
         lead={`What happened to ${member.farmName}'s records and people: uploads, corrections with old and new values, invitations, exports. Newest first; the latest ${auditListLimit} entries. Entries cannot be changed or deleted.`}
       />
-      <ActivityTable rows={rows} caption={`${member.farmName} activity log`} csvFileName="farm-activity.csv" />
+      <ActivityTable
+        rows={rows}
+        caption={`${member.farmName} activity log`}
+        csvFileName="farm-activity.csv"
+        display={await timeDisplayFor(member)}
+      />
     </>
   );
 }

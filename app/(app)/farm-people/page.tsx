@@ -5,6 +5,7 @@ import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { roleLabels } from "@/lib/auth/permissions";
 import { listFarmPeople } from "@/lib/data/members";
+import { timeDisplayFor } from "@/lib/time/member-display";
 import { ActionForm } from "@/components/forms/action-form";
 import {
   cancelGrowerInvitationAction,
@@ -29,7 +30,7 @@ export default async function FarmPeoplePage() {
           Your farm&apos;s data
         </ButtonLink>
       </PageHeader>
-      <div className="grid gap-6 lg:grid-cols-2">
+      <div className="grid grid-cols-1 gap-6 lg:grid-cols-2">
         <Card title="Invite a grower">
           <p className="mb-3 text-sm text-ink-soft">
             They get an e-mail with a link that works once, for 7 days, to choose their password.
@@ -96,6 +97,7 @@ export default async function FarmPeoplePage() {
       </ul>
 
       <OpenInvitations
+        display={await timeDisplayFor(member)}
         invitations={invitations.map((invitation) => ({ ...invitation, details: "" }))}
         resendAction={resendGrowerInvitationAction}
         cancelAction={cancelGrowerInvitationAction}

@@ -16,22 +16,34 @@ import {
 } from "./actions";
 import { ActionForm } from "@/components/forms/action-form";
 import { OpenInvitations } from "./_components/open-invitations";
+import { formatDay } from "@/lib/time/display";
+import { timeDisplayFor } from "@/lib/time/member-display";
+import { ScrollFrame } from "@/components/ui/scroll-frame";
 
 export const metadata: Metadata = { title: "Members" };
 
 const farmStatusLabels = { active: "Active", suspended: "Suspended", removed: "Removed" } as const;
-const date = (value: Date) => value.toISOString().slice(0, 10);
 
 export default async function MembersPage() {
   const member = await requirePage("members:manage");
+  const display = await timeDisplayFor(member);
+  const date = (value: Date) => formatDay(value, display);
   const { farms, people, invitations } = await listMembership(member);
   const farmName = new Map(farms.map((farm) => [farm.id, farm.name]));
   const activeFarms = farms.filter((farm) => farm.status === "active");
+  // The farm admitted last, chosen in the invitation form while nobody is in it or invited to it yet.
+  const newestFarm = [...activeFarms].sort((a, b) => b.joinedAt.getTime() - a.joinedAt.getTime())[0];
+  const waitingForManager =
+    newestFarm &&
+    !people.some((person) => person.farmId === newestFarm.id) &&
+    !invitations.some((invitation) => invitation.farmId === newestFarm.id)
+      ? newestFarm
+      : undefined;
 
   return (
     <>
       <PageHeader title="Members" lead="Member farms, the people who use Rhizomorph, and the invitations still open." />
-      <div className="grid gap-6 lg:grid-cols-2">
+      <div className="grid grid-cols-1 gap-6 lg:grid-cols-2">
         <Card title="Admit a farm">
           <ActionForm
             action={admitFarmAction}
@@ -49,6 +61,8 @@ export default async function MembersPage() {
             They get an e-mail with a link that works once, for 7 days, to choose their password.
           </p>
           <ActionForm
+            // Admitting a farm remounts the form with that farm chosen; sending an invitation does not (its answer stays).
+            key={newestFarm?.id ?? "none"}
             action={inviteMemberAction}
             testId="invite-member"
             submitLabel="Send invitation"
@@ -59,10 +73,12 @@ export default async function MembersPage() {
                 name: "role",
                 label: "Role",
                 options: invitableRoles("coordinator").map((role) => ({ value: role, label: roleLabels[role] })),
+                defaultValue: "farm_manager",
               },
               {
                 name: "farmId",
                 label: "Farm (for a farm manager)",
+                defaultValue: waitingForManager?.id ?? "",
                 options: [
                   { value: "", label: "No farm (co-op role)" },
                   ...activeFarms.map((farm) => ({ value: farm.id, label: farm.name })),
@@ -122,7 +138,7 @@ export default async function MembersPage() {
       )}
 
       <h2 className="mt-10 mb-3 text-xl font-semibold text-moss-800">People</h2>
-      <div className="overflow-x-auto rounded-lg border border-oat-300 bg-white">
+      <ScrollFrame label="People" className="rounded-lg border border-oat-300 bg-white">
         <table className="min-w-full text-sm">
           <caption className="sr-only">Everyone who can use Rhizomorph, with their role</caption>
           <thead className="bg-oat-200 text-left">
@@ -196,9 +212,10 @@ export default async function MembersPage() {
             })}
           </tbody>
         </table>
-      </div>
+      </ScrollFrame>
 
       <OpenInvitations
+        display={display}
         invitations={invitations.map((invitation) => ({
           ...invitation,
           details: [invitation.role ? roleLabels[invitation.role] : "", invitation.farmId ? (farmName.get(invitation.farmId) ?? "") : ""]

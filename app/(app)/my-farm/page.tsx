@@ -2,12 +2,17 @@ import type { Metadata } from "next";
 import { Caution } from "@/components/ui/caution";
 import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
+import { SeasonFilter } from "@/components/ui/season-filter";
+import { listFarmSeasons } from "@/lib/data/seasons";
+import { seasonFromSearchParam } from "@/lib/seasons";
 import { MyFarmView } from "./_components/my-farm-view";
 
 export const metadata: Metadata = { title: "My farm" };
 
-export default async function MyFarmPage() {
+export default async function MyFarmPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const member = await requirePage("farm-data:read");
+  const season = seasonFromSearchParam((await searchParams).season);
+  const { start, seasons } = await listFarmSeasons(member);
   return (
     <>
       <PageHeader
@@ -17,7 +22,8 @@ export default async function MyFarmPage() {
       <div className="mb-6">
         <Caution which="pooledFigures" />
       </div>
-      <MyFarmView />
+      <SeasonFilter path="/my-farm" seasons={seasons} start={start} current={season} everything="Last 12 months" />
+      <MyFarmView season={season} />
     </>
   );
 }

@@ -5,6 +5,7 @@ import { Caution } from "@/components/ui/caution";
 import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { listUploads } from "@/lib/data/season-logs";
+import { timeDisplayFor } from "@/lib/time/member-display";
 import { SeasonLogUpload } from "./_components/season-log-upload";
 import { UploadHistory } from "./_components/upload-history";
 
@@ -12,7 +13,7 @@ export const metadata: Metadata = { title: "Season logs" };
 
 export default async function SeasonLogsPage() {
   const member = await requirePage("season-log:upload");
-  const uploads = await listUploads(member);
+  const [uploads, display] = await Promise.all([listUploads(member), timeDisplayFor(member)]);
   return (
     <>
       <PageHeader
@@ -38,10 +39,10 @@ export default async function SeasonLogsPage() {
         </a>
       </PageHeader>
       <div className="space-y-8">
-        <SeasonLogUpload />
+        <SeasonLogUpload display={display} />
         <Caution which="spores" />
         <Card title="Past uploads">
-          <UploadHistory uploads={uploads} />
+          <UploadHistory uploads={uploads} display={display} />
         </Card>
       </div>
     </>

@@ -9,6 +9,7 @@ import { guardedAction } from "@/lib/auth/guard";
 import { newPasswordSchema } from "@/lib/auth/password";
 import { changePassword, updatePreferences } from "@/lib/data/members";
 import { endEverySession } from "@/lib/data/sessions";
+import { canonicalTimeZone, dateStyleNames } from "@/lib/time/display";
 
 const changePasswordSchema = z
   .object({
@@ -52,6 +53,17 @@ const preferencesSchema = z.object({
     .literal("on")
     .optional()
     .transform((value) => value === "on"),
+  // Empty: follow the browser's zone (lib/time/browser-zone.ts).
+  timeZone: z
+    .string()
+    .trim()
+    .transform((value, context) => {
+      if (value === "") return null;
+      const zone = canonicalTimeZone(value);
+      if (!zone) context.addIssue({ code: "custom", message: "Choose a time zone from the list, e.g. Europe/Berlin, or your browser's." });
+      return zone;
+    }),
+  dateStyle: z.enum(dateStyleNames, "Choose one of the ways of writing dates."),
 });
 
 export const updatePreferencesAction = guardedAction("account:manage", preferencesSchema, async (input, member) => {

@@ -7,6 +7,8 @@ import { can, roleLabels } from "@/lib/auth/permissions";
 import { getAccountSettings } from "@/lib/data/members";
 import { ActionForm } from "@/components/forms/action-form";
 import { newPasswordFields } from "@/components/forms/password-fields";
+import { dateStyles, dateStyleNames, timeZoneNames } from "@/lib/time/display";
+import { timeDisplayFor } from "@/lib/time/member-display";
 import { changePasswordAction, signOutEverywhereAction, updatePreferencesAction } from "./actions";
 
 export const metadata: Metadata = { title: "Settings" };
@@ -14,13 +16,14 @@ export const metadata: Metadata = { title: "Settings" };
 export default async function SettingsPage() {
   const member = await requirePage("account:manage");
   const account = await getAccountSettings(member);
+  const browserZone = (await timeDisplayFor({ timeZone: null, dateStyle: account.dateStyle })).timeZone;
   return (
     <>
       <PageHeader
         title="Settings"
         lead={`${account.name} · ${account.email} · ${roleLabels[member.role]}${member.farmName ? ` at ${member.farmName}` : ""}`}
       />
-      <div className="grid gap-6 lg:grid-cols-2">
+      <div className="grid grid-cols-1 gap-6 lg:grid-cols-2">
         <Card title="Display and e-mail">
           <ActionForm
             action={updatePreferencesAction}
@@ -35,6 +38,22 @@ export default async function SettingsPage() {
                   { value: "metric", label: "Metric (g, kg)" },
                   { value: "imperial", label: "Imperial (oz, lb)" },
                 ],
+              },
+              {
+                name: "timeZone",
+                label: "Show times in",
+                defaultValue: account.timeZone ?? "",
+                options: [
+                  { value: "", label: `This browser's time zone (${browserZone})` },
+                  ...timeZoneNames().map((zone) => ({ value: zone, label: zone.replaceAll("_", " ") })),
+                ],
+                hint: "E-mails use the zone chosen here; until you choose one they give times in UTC.",
+              },
+              {
+                name: "dateStyle",
+                label: "Write dates as",
+                defaultValue: account.dateStyle,
+                options: dateStyleNames.map((style) => ({ value: style, label: dateStyles[style] })),
               },
               {
                 name: "notifyReminders",

@@ -9,6 +9,7 @@ import { listRegistries } from "@/lib/data/registries";
 import { registryColumns, registryKinds, registryLabels, type RegistryKind } from "@/lib/members/registry-csv";
 import { ActionForm, type FormFieldSpec } from "@/components/forms/action-form";
 import { addRegistryEntryAction, importRegistryAction, moveRegistryEntryAction } from "./actions";
+import { ScrollFrame } from "@/components/ui/scroll-frame";
 
 export const metadata: Metadata = { title: "Strains" };
 
@@ -23,14 +24,14 @@ interface Entry {
   id: string;
   status: keyof typeof statusLabels;
   cells: string[];
-  /** A strain that farms have blocks of can be retired but not deleted. */
-  inUse?: boolean;
+  /** Used by recorded blocks or a trial: it can be retired but not deleted. */
+  inUse: boolean;
 }
 
 function RegistryTable({ kind, headers, entries, manage }: { kind: RegistryKind; headers: string[]; entries: Entry[]; manage: boolean }) {
   if (entries.length === 0) return <p className="text-ink-soft">Nothing in this registry yet.</p>;
   return (
-    <div className="overflow-x-auto rounded-lg border border-oat-300 bg-white">
+    <ScrollFrame label={registryLabels[kind]} className="rounded-lg border border-oat-300 bg-white">
       <table className="min-w-full text-sm">
         <caption className="sr-only">{registryLabels[kind]}</caption>
         <thead className="bg-oat-200 text-left">
@@ -80,7 +81,9 @@ function RegistryTable({ kind, headers, entries, manage }: { kind: RegistryKind;
                         variant="secondary"
                       />
                     ) : null}
-                    {!entry.inUse ? (
+                    {entry.inUse ? (
+                      <span className="self-center text-xs text-ink-soft">In use by blocks or a trial, so it cannot be deleted.</span>
+                    ) : (
                       <ActionForm
                         action={moveRegistryEntryAction}
                         inline
@@ -89,7 +92,7 @@ function RegistryTable({ kind, headers, entries, manage }: { kind: RegistryKind;
                         variant="danger"
                         confirm={`${entry.status === "proposed" ? "Turn down" : "Delete"} ${entry.cells[0]}?`}
                       />
-                    ) : null}
+                    )}
                   </div>
                 </td>
               ) : null}
@@ -97,7 +100,7 @@ function RegistryTable({ kind, headers, entries, manage }: { kind: RegistryKind;
           ))}
         </tbody>
       </table>
-    </div>
+    </ScrollFrame>
   );
 }
 
@@ -157,7 +160,12 @@ export default async function StrainsPage() {
     {
       kind: "species",
       headers: ["Common name", "Scientific name"],
-      entries: registries.species.map((row) => ({ id: row.id, status: row.status, cells: [row.commonName, row.scientificName] })),
+      entries: registries.species.map((row) => ({
+        id: row.id,
+        status: row.status,
+        inUse: row.inUse,
+        cells: [row.commonName, row.scientificName],
+      })),
     },
     {
       kind: "strains",
@@ -182,6 +190,7 @@ export default async function StrainsPage() {
       entries: registries.substrateRecipes.map((row) => ({
         id: row.id,
         status: row.status,
+        inUse: row.inUse,
         cells: [
           row.code,
           row.name,
@@ -198,6 +207,7 @@ export default async function StrainsPage() {
       entries: registries.treatments.map((row) => ({
         id: row.id,
         status: row.status,
+        inUse: row.inUse,
         cells: [row.code, row.name, kindLabels[row.kind], row.description],
       })),
     },
@@ -209,7 +219,7 @@ export default async function StrainsPage() {
         title="Strains"
         lead={
           manage
-            ? "The co-op's registries. Farms propose entries; you approve them. A strain with recorded blocks can be retired but not deleted, so past records keep their strain."
+            ? "The co-op's registries. Farms propose entries; you approve them. An entry that blocks or a trial use can be retired but not deleted, so past records keep it."
             : propose
               ? "The co-op's registries. Missing a strain, recipe or fruiting method? Propose it; the coordinator approves it."
               : "The co-op's registries of species, strains, substrate recipes and fruiting methods."

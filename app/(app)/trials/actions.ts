@@ -14,7 +14,9 @@ import {
   saveTrialDraft,
   sendTrialReminder,
 } from "@/lib/data/trials";
+import { trialDesignKinds } from "@/lib/trials/design-kind";
 import { trialStatuses } from "@/lib/trials/lifecycle";
+import { timelineProblems } from "@/lib/trials/timeline";
 
 const optionalNumber = (what: string, check: z.ZodNumber) =>
   z
@@ -38,58 +40,76 @@ const armSchema = z.object({
   isReference: z.boolean(),
 });
 
-const trialDesignSchema = z.object({
-  trialId: z
-    .union([z.uuid(), z.literal("")])
-    .optional()
-    .transform((value) => value || undefined),
-  title: z.string().trim().min(3, "Give the trial a title of at least 3 characters.").max(160, "Keep the title under 160 characters."),
-  question: z
-    .string()
-    .trim()
-    .min(10, "Write the question in one sentence, e.g. \u201cDoes PO-02 give more BE than PO-01 over two flushes?\u201d")
-    .max(400, "Keep the question to one sentence (under 400 characters)."),
-  speciesId: z.uuid("Pick the species the trial is about."),
-  arms: z
-    .string()
-    .transform((value, context) => {
-      try {
-        return JSON.parse(value) as unknown;
-      } catch {
-        context.addIssue({ code: "custom", message: "The arms could not be read; reload the page and try again." });
-        return z.NEVER;
-      }
-    })
-    .pipe(
-      z
-        .array(armSchema)
-        .min(2, "A trial compares at least 2 arms; add another arm.")
-        .max(8, "Keep a trial to 8 arms or fewer; each arm needs its own blocks on every farm.")
-        .refine((arms) => arms.filter((arm) => arm.isReference).length === 1, "Mark exactly one arm as the reference.")
-        .refine((arms) => new Set(arms.map((arm) => arm.label.toLowerCase())).size === arms.length, "Give each arm a different label."),
+const optionalDate = (what: string) =>
+  z.union([z.iso.date(`Give the ${what} as a date, e.g. 2027-03-01.`), z.literal("")]).transform((value) => value || null);
+
+const trialDesignSchema = z
+  .object({
+    trialId: z
+      .union([z.uuid(), z.literal("")])
+      .optional()
+      .transform((value) => value || undefined),
+    title: z.string().trim().min(3, "Give the trial a title of at least 3 characters.").max(160, "Keep the title under 160 characters."),
+    question: z
+      .string()
+      .trim()
+      .min(10, "Write the question in one sentence, e.g. \u201cDoes PO-02 give more BE than PO-01 over two flushes?\u201d")
+      .max(400, "Keep the question to one sentence (under 400 characters)."),
+    speciesId: z.uuid("Pick the species the trial is about."),
+    designKind: z
+      .enum(trialDesignKinds, "Say whether the arms compare one thing or cross strains with fruiting methods.")
+      .default("one_factor"),
+    arms: z
+      .string()
+      .transform((value, context) => {
+        try {
+          return JSON.parse(value) as unknown;
+        } catch {
+          context.addIssue({ code: "custom", message: "The arms could not be read; reload the page and try again." });
+          return z.NEVER;
+        }
+      })
+      .pipe(
+        z
+          .array(armSchema)
+          .min(2, "A trial compares at least 2 arms; add another arm.")
+          .max(8, "Keep a trial to 8 arms or fewer; each arm needs its own blocks on every farm.")
+          .refine((arms) => arms.filter((arm) => arm.isReference).length === 1, "Mark exactly one arm as the reference.")
+          .refine((arms) => new Set(arms.map((arm) => arm.label.toLowerCase())).size === arms.length, "Give each arm a different label."),
+      ),
+    outcomeFlushes: z.coerce
+      .number()
+      .int("Flushes must be a whole number.")
+      .min(1, "Count at least flush 1.")
+      .max(6, "Count at most 6 flushes."),
+    contaminatedHandling: z.enum(["exclude", "count_as_zero"], "Say whether contaminated blocks are left out or count as zero."),
+    protocolNotes: z.string().trim().max(4000, "Keep protocol notes under 4000 characters."),
+    enrolmentDeadline: z
+      .union([z.iso.date("Give the deadline as a date, e.g. 2027-01-15."), z.literal("")])
+      .transform((value) => value || null),
+    inoculationFrom: optionalDate("first day of inoculation"),
+    inoculationTo: optionalDate("last day of inoculation"),
+    fruitingFrom: optionalDate("first day fruiting is expected"),
+    fruitingTo: optionalDate("last day fruiting is expected"),
+    dataDue: optionalDate("date the data are due"),
+    smallestDifference: optionalNumber(
+      "Smallest difference",
+      z.number().gt(0, "must be above 0 BE points").lt(500, "must be below 500 BE points"),
     ),
-  outcomeFlushes: z.coerce
-    .number()
-    .int("Flushes must be a whole number.")
-    .min(1, "Count at least flush 1.")
-    .max(6, "Count at most 6 flushes."),
-  contaminatedHandling: z.enum(["exclude", "count_as_zero"], "Say whether contaminated blocks are left out or count as zero."),
-  protocolNotes: z.string().trim().max(4000, "Keep protocol notes under 4000 characters."),
-  enrolmentDeadline: z
-    .union([z.iso.date("Give the deadline as a date, e.g. 2027-01-15."), z.literal("")])
-    .transform((value) => value || null),
-  smallestDifference: optionalNumber(
-    "Smallest difference",
-    z.number().gt(0, "must be above 0 BE points").lt(500, "must be below 500 BE points"),
-  ),
-  expectedSd: optionalNumber("Spread between blocks", z.number().gt(0, "must be above 0 BE points").lt(500, "must be below 500 BE points")),
-  plannedFarms: optionalNumber(
-    "Planned farms",
-    z.number().int("must be a whole number").min(1, "must be 1 or more").max(100, "must be 100 or fewer"),
-  ),
-  expectedLossPercent: optionalNumber("Expected loss", z.number().min(0, "must be 0 % or more").lt(100, "must be below 100 %")),
-  intent: z.enum(["save", "save-and-view"]).default("save"),
-});
+    expectedSd: optionalNumber(
+      "Spread between blocks",
+      z.number().gt(0, "must be above 0 BE points").lt(500, "must be below 500 BE points"),
+    ),
+    plannedFarms: optionalNumber(
+      "Planned farms",
+      z.number().int("must be a whole number").min(1, "must be 1 or more").max(100, "must be 100 or fewer"),
+    ),
+    expectedLossPercent: optionalNumber("Expected loss", z.number().min(0, "must be 0 % or more").lt(100, "must be below 100 %")),
+    intent: z.enum(["save", "save-and-view"]).default("save"),
+  })
+  .superRefine((input, context) => {
+    for (const problem of timelineProblems(input)) context.addIssue({ code: "custom", path: [problem.field], message: problem.message });
+  });
 
 export const saveTrialDraftAction = guardedAction("trial:manage", trialDesignSchema, async (input, member) => {
   const { intent, expectedLossPercent, ...design } = input;

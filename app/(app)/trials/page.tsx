@@ -8,6 +8,7 @@ import { can } from "@/lib/auth/permissions";
 import { listTrials } from "@/lib/data/trials";
 import { trialStatusLabels } from "@/lib/trials/lifecycle";
 import { StatusBadge } from "./_components/status-badge";
+import { formatDate } from "@/lib/time/display";
 
 export const metadata: Metadata = { title: "Trials" };
 
@@ -33,7 +34,7 @@ export default async function TrialsPage() {
           </p>
         </Card>
       ) : (
-        <ul className="grid gap-4 md:grid-cols-2">
+        <ul className="grid grid-cols-1 gap-4 md:grid-cols-2">
           {rows.map((trial) => (
             <li key={trial.id}>
               <Card>
@@ -48,7 +49,9 @@ export default async function TrialsPage() {
                 </h2>
                 <p className="text-sm text-ink-soft">
                   {trial.speciesName}
-                  {trial.status === "open" && trial.enrolmentDeadline ? ` · answer by ${trial.enrolmentDeadline}` : ""}
+                  {trial.status === "open" && trial.enrolmentDeadline
+                    ? ` · answer by ${formatDate(trial.enrolmentDeadline, member.dateStyle)}`
+                    : ""}
                 </p>
                 {trial.enrolmentStatus ? (
                   <p className="mt-1 text-sm font-medium text-moss-700">{enrolmentLabels[trial.enrolmentStatus]}</p>

@@ -1,6 +1,8 @@
 "use server";
 
+import { redirect } from "next/navigation";
 import { z } from "zod";
+import { signIn } from "@/auth";
 import type { ActionState } from "@/lib/auth/guard";
 import { newPasswordSchema } from "@/lib/auth/password";
 import { redeemAccessToken } from "@/lib/data/members";
@@ -24,14 +26,19 @@ function problems(error: z.ZodError): ActionState {
   return { status: "error", message: "Some fields need attention.", fieldErrors };
 }
 
-/** Signed-out: the token itself is the authority, checked and used once in the database. */
+/**
+ * Signed-out: the token itself is the authority, checked and used once in the database. The new
+ * member is then signed in with the password just set and lands on their start page, as anyone
+ * who has just chosen a password expects.
+ */
 export async function acceptInvitationAction(_previous: ActionState, formData: FormData): Promise<ActionState> {
   const parsed = acceptSchema.safeParse(Object.fromEntries(formData));
   if (!parsed.success) return problems(parsed.error);
   const outcome = await redeemAccessToken(parsed.data.token, "invitation", { name: parsed.data.name, password: parsed.data.password });
   if (outcome.status !== "accepted" && outcome.status !== "reset")
     return { status: "error", message: tokenRefusal(outcome.status, "invitation") };
-  return { status: "ok", message: `Welcome. Your password is set: sign in as ${outcome.email}.` };
+  await signIn("credentials", { email: outcome.email, password: parsed.data.password, redirect: false });
+  redirect("/");
 }
 
 const resetSchema = z

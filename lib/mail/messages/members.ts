@@ -1,3 +1,4 @@
+import { formatDateTime, utcDisplay, type TimeDisplay } from "@/lib/time/display";
 import type { OutgoingMessage } from "../send";
 
 const roleWords: Record<string, string> = {
@@ -36,20 +37,27 @@ export function invitationMessage(input: {
     `You are invited to ${where} on Rhizomorph`,
     [
       `${input.inviterName} has invited you to join ${where} as ${roleWords[input.role] ?? input.role}.`,
-      `Open the link below to choose your password. It works once and until ${input.expiresAt.toUTCString()}.`,
+      `Open the link below to choose your password. It works once and until ${formatDateTime(input.expiresAt, utcDisplay)}.`,
       "If you did not expect this, ignore this message; nothing happens unless the link is opened.",
     ],
     { href: input.link, label: "Accept the invitation" },
   );
 }
 
-export function passwordResetMessage(input: { to: string; name: string; link: string; expiresAt: Date }): OutgoingMessage {
+/** `display`: the member's own zone and date style when they chose one, else UTC (named as such). */
+export function passwordResetMessage(input: {
+  to: string;
+  name: string;
+  link: string;
+  expiresAt: Date;
+  display: TimeDisplay;
+}): OutgoingMessage {
   return message(
     input.to,
     "Reset your Rhizomorph password",
     [
       `Hello ${input.name},`,
-      `Someone asked to reset the password for this address. Open the link below to choose a new one. It works once and until ${input.expiresAt.toUTCString()}.`,
+      `Someone asked to reset the password for this address. Open the link below to choose a new one. It works once and until ${formatDateTime(input.expiresAt, input.display)}.`,
       "If it was not you, ignore this message: your password stays as it is.",
     ],
     { href: input.link, label: "Choose a new password" },

@@ -9,6 +9,8 @@ describe("trial e-mails", () => {
       trial,
       farmName: "Fernbrook",
       deadline: "2026-12-20",
+      blocksPerArmWanted: null,
+      arms: 2,
       enrolUrl: "http://x/trials/1?a=1&b=2",
       optOutUrl: "http://x/unsubscribe/tok",
     });
@@ -17,6 +19,15 @@ describe("trial e-mails", () => {
     expect(mail.html).toContain('href="http://x/trials/1?a=1&amp;b=2"');
     expect(mail.html).toContain("Bran &lt;20 %&gt; &amp; more");
     expect(mail.html).not.toContain("<20 %>");
+  });
+
+  it("says how many blocks per arm the trial asks of each farm, and says nothing of it when the design does not", () => {
+    const invitation = (blocksPerArmWanted: number | null) =>
+      trialInvitationMail({ trial, farmName: "Fernbrook", deadline: null, blocksPerArmWanted, arms: 3, enrolUrl: "u", optOutUrl: "o" });
+    expect(invitation(6).text).toContain("The trial asks each farm for 6 blocks per arm: 3 arms, so 18 blocks in all.");
+    expect(invitation(6).html).toContain("6 blocks per arm");
+    expect(invitation(1).text).toContain("for 1 block per arm: 3 arms, so 3 blocks in all.");
+    expect(invitation(null).text).not.toContain("asks each farm");
   });
 
   it("sends results without an unsubscribe link, since they are not reminders", () => {

@@ -36,14 +36,23 @@ export function trialInvitationMail(input: {
   trial: TrialFacts;
   farmName: string;
   deadline: string | null;
+  /** What the design asks of each farm (its sample size), when the design says; and how many arms there are. */
+  blocksPerArmWanted: number | null;
+  arms: number;
   enrolUrl: string;
   optOutUrl: string;
 }): TrialMail {
+  const wanted = input.blocksPerArmWanted;
   return compose(
     `Invitation to trial ${input.trial.code}: ${input.trial.title}`,
     [
       `The co-op invites ${input.farmName} to take part in trial ${input.trial.code}, "${input.trial.title}".`,
       `The question: ${input.trial.question}`,
+      ...(wanted
+        ? [
+            `The trial asks each farm for ${wanted} block${wanted === 1 ? "" : "s"} per arm: ${input.arms} arms, so ${wanted * input.arms} blocks in all.`,
+          ]
+        : []),
       input.deadline
         ? `Please answer by ${input.deadline}: accept and say how many blocks per arm you can run, or decline.`
         : "Please accept and say how many blocks per arm you can run, or decline.",
@@ -74,7 +83,7 @@ export function enrolmentConfirmationMail(input: {
 }
 
 export function trialReminderMail(input: {
-  trial: TrialFacts;
+  trial: Pick<TrialFacts, "code" | "title">;
   farmName: string;
   due: string[];
   progressUrl: string;

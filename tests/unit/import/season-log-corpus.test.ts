@@ -29,6 +29,7 @@ const checkedFields = [
   "strainCode",
   "substrate",
   "inoculatedOn",
+  "seasonYear",
   "wetBlockGrams",
   "moisture",
   "flush",

@@ -2,22 +2,28 @@
 
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
+import { useMemo } from "react";
 import { DataTable } from "@/components/ui/data-table";
 import type { AuditRow } from "@/lib/data/audit";
-
-const when = (iso: string) => iso.replace("T", " ").slice(0, 16);
+import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 
 /** The particulars of a row, folded: the same words the filter searches and the CSV holds. */
-function detailsOf(row: AuditRow): { label: string; value: string }[] {
+function detailsOf(row: AuditRow, display: TimeDisplay): { label: string; value: string }[] {
   const repeated =
     row.times > 1
-      ? [{ label: "Happened", value: `${row.times} times in a row, from ${when(row.firstOccurredAt)} to ${when(row.occurredAt)} UTC` }]
+      ? [
+          {
+            label: "Happened",
+            value: `${row.times} times in a row, from ${formatDateTime(row.firstOccurredAt, display)} to ${formatDateTime(row.occurredAt, display)}`,
+          },
+        ]
       : [];
   return [...repeated, ...row.details];
 }
 
-const columns: ColumnDef<AuditRow, unknown>[] = [
-  { accessorFn: (row) => when(row.occurredAt), id: "when", header: "When (UTC)" },
+// The cell is written in the reader's zone; the CSV keeps the stored ISO 8601 instant, for machines.
+const columnsFor = (display: TimeDisplay): ColumnDef<AuditRow, unknown>[] => [
+  { accessorKey: "occurredAt", header: "When", cell: ({ getValue }) => formatDateTime(String(getValue()), display) },
   { accessorKey: "who", header: "Who" },
   {
     accessorFn: (row) => row.sentence,
@@ -45,14 +51,14 @@ const columns: ColumnDef<AuditRow, unknown>[] = [
   },
   {
     accessorFn: (row) =>
-      detailsOf(row)
+      detailsOf(row, display)
         .map((detail) => `${detail.label}: ${detail.value}`)
         .join("; "),
     id: "details",
     header: "Details",
     enableSorting: false,
     cell: ({ row }) => {
-      const details = detailsOf(row.original);
+      const details = detailsOf(row.original, display);
       if (details.length === 0) return null;
       return (
         <details>
@@ -75,7 +81,9 @@ const columns: ColumnDef<AuditRow, unknown>[] = [
 ];
 
 /** The activity log: who did what, in words; filter by any word, sort, hide columns, download what is shown as CSV. */
-export function ActivityTable({ rows, caption, csvFileName }: { rows: AuditRow[]; caption: string; csvFileName: string }) {
+export function ActivityTable(props: { rows: AuditRow[]; caption: string; csvFileName: string; display: TimeDisplay }) {
+  const { rows, caption, csvFileName, display } = props;
+  const columns = useMemo(() => columnsFor(display), [display]);
   return (
     <DataTable
       caption={caption}

@@ -9,10 +9,15 @@ import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { can } from "@/lib/auth/permissions";
 import { getBlock, type BlockDetail } from "@/lib/data/blocks";
+import { getSeasonStart } from "@/lib/data/seasons";
+import { seasonLabel } from "@/lib/seasons";
 import { isAppError } from "@/lib/errors";
 import { seasonLogColumns } from "@/lib/import/schema";
 import { formatMass } from "@/lib/units";
 import { BlockCorrectionForm, HarvestCorrectionForm } from "./_components/correction-forms";
+import { formatDate, formatDateTime } from "@/lib/time/display";
+import { timeDisplayFor } from "@/lib/time/member-display";
+import { ScrollFrame } from "@/components/ui/scroll-frame";
 
 export const metadata: Metadata = { title: "Block" };
 
@@ -42,6 +47,7 @@ export default async function BlockPage({
   const { blockId } = await params;
   const { correct, deleted } = await searchParams;
   let block: BlockDetail;
+  const seasonStart = await getSeasonStart(member);
   try {
     block = await getBlock(member, blockId);
   } catch (error) {
@@ -49,6 +55,7 @@ export default async function BlockPage({
     throw error;
   }
   const display = member.displayUnits;
+  const times = await timeDisplayFor(member);
   const canCorrect = can(member.role, "farm-data:correct");
   const defaultUnit = display === "imperial" ? "lb" : "g";
   // One correction form at a time: the block's values, or one harvest (its id in ?correct=).
@@ -62,14 +69,18 @@ export default async function BlockPage({
   const facts = [
     ["Strain", block.strainCode],
     ["Substrate recipe", block.recipeCode ?? "not given"],
-    ["Inoculated", block.inoculatedOn ?? "not given"],
+    ["Inoculated", block.inoculatedOn ? formatDate(block.inoculatedOn, member.dateStyle) : "not given"],
+    ["Season", block.season === null ? "none (no inoculation date or season given)" : seasonLabel(block.season, seasonStart)],
     ["Wet block", mass(block.wetMassG)],
     ["Moisture", block.moisture === null ? "not given" : `${(block.moisture * 100).toFixed(1)} %`],
     ["Total fresh", block.flushes === 0 ? noHarvestYet : formatMass(block.totalFreshG, display)],
     ["Biological efficiency", block.flushes === 0 ? noHarvestYet : percent(block.biologicalEfficiency)],
     ["Spent block", mass(block.spentMassG)],
     ["Mass loss", percent(block.massLoss)],
-    ["Contaminated", block.contaminated ? `yes${block.contaminatedOn ? `, found ${block.contaminatedOn}` : ""}` : "no"],
+    [
+      "Contaminated",
+      block.contaminated ? `yes${block.contaminatedOn ? `, found ${formatDate(block.contaminatedOn, member.dateStyle)}` : ""}` : "no",
+    ],
     ["Trial", block.trial ?? "not in a trial"],
   ];
   return (
@@ -93,7 +104,7 @@ export default async function BlockPage({
         ) : null}
         {block.contaminated ? <Caution which="spores" /> : null}
         <Card title="The block">
-          <dl className="grid gap-x-6 gap-y-2 text-sm sm:grid-cols-[12rem_1fr]">
+          <dl className="grid grid-cols-1 gap-x-6 gap-y-2 text-sm sm:grid-cols-[12rem_1fr]">
             {facts.map(([label, value]) => (
               <div key={label} className="contents">
                 <dt className="text-ink-soft">{label}</dt>
@@ -106,7 +117,7 @@ export default async function BlockPage({
           {block.harvests.length === 0 ? (
             <p className="text-ink-soft">No harvest yet.</p>
           ) : (
-            <div className="overflow-x-auto">
+            <ScrollFrame label={`Flushes of block ${block.code}`}>
               <table className="min-w-full text-sm">
                 <caption className="sr-only">Flushes of block {block.code}</caption>
                 <thead className="bg-oat-200 text-left">
@@ -140,7 +151,9 @@ export default async function BlockPage({
                   {block.harvests.map((harvest) => (
                     <tr key={harvest.flush} className="border-t border-oat-200">
                       <td className="px-3 py-2">{harvest.flush}</td>
-                      <td className="px-3 py-2">{harvest.harvestedOn ?? "date not given"}</td>
+                      <td className="px-3 py-2">
+                        {harvest.harvestedOn ? formatDate(harvest.harvestedOn, member.dateStyle) : "date not given"}
+                      </td>
                       <td className="px-3 py-2">{formatMass(harvest.freshMassG, display)}</td>
                       <td className="px-3 py-2">{harvest.freshMassAsWritten ?? ""}</td>
                       <td className="px-3 py-2">{harvest.dryMassG === null ? "" : formatMass(harvest.dryMassG, display)}</td>
@@ -169,7 +182,7 @@ export default async function BlockPage({
                   ))}
                 </tbody>
               </table>
-            </div>
+            </ScrollFrame>
           )}
         </Card>
         {correctingBlock || correctedHarvest ? (
@@ -222,7 +235,8 @@ export default async function BlockPage({
                   {change.flush !== null ? ` of flush ${change.flush}` : ""}: {shownValue(change.field, change.oldValue)} →{" "}
                   {shownValue(change.field, change.newValue)}
                   <span className="block text-ink-soft">
-                    {change.changedAt.slice(0, 16).replace("T", " ")} UTC{change.changedBy ? ` by ${change.changedBy}` : ""}
+                    {formatDateTime(change.changedAt, times)}
+                    {change.changedBy ? ` by ${change.changedBy}` : ""}
                     {change.fileName ? `, from ${change.fileName}` : ""}
                   </span>
                   {change.reason ? <span className="block">Why: {change.reason}</span> : null}

@@ -2,9 +2,12 @@
 
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
+import { useMemo } from "react";
 import { DataTable } from "@/components/ui/data-table";
 import type { BlockRow } from "@/lib/data/blocks";
+import { seasonLabel, type SeasonStart } from "@/lib/seasons";
 import { formatMass, type MassDisplay } from "@/lib/units";
+import { formatDate, type DateStyle } from "@/lib/time/display";
 
 const noHarvestYet = "no harvest yet";
 
@@ -12,7 +15,7 @@ function percent(value: number | null): string {
   return value === null ? "" : `${value.toFixed(1)} %`;
 }
 
-function columnsFor(display: MassDisplay): ColumnDef<BlockRow, unknown>[] {
+function columnsFor(display: MassDisplay, dateStyle: DateStyle, seasonStart: SeasonStart): ColumnDef<BlockRow, unknown>[] {
   return [
     {
       accessorKey: "code",
@@ -25,7 +28,14 @@ function columnsFor(display: MassDisplay): ColumnDef<BlockRow, unknown>[] {
     },
     { accessorKey: "strainCode", header: "Strain" },
     { accessorFn: (block) => block.recipeCode ?? "", id: "recipe", header: "Recipe" },
-    { accessorFn: (block) => block.inoculatedOn ?? "", id: "inoculated", header: "Inoculated" },
+    {
+      // Sorted and downloaded as YYYY-MM-DD; shown in the member's date style.
+      accessorFn: (block) => block.inoculatedOn ?? "",
+      id: "inoculated",
+      header: "Inoculated",
+      cell: ({ getValue }) => (getValue() ? formatDate(String(getValue()), dateStyle) : ""),
+    },
+    { accessorFn: (block) => (block.season === null ? "" : seasonLabel(block.season, seasonStart)), id: "season", header: "Season" },
     {
       accessorFn: (block) => block.wetMassG,
       id: "wet",
@@ -62,13 +72,24 @@ function columnsFor(display: MassDisplay): ColumnDef<BlockRow, unknown>[] {
 }
 
 /** The farm's blocks, sortable and filterable; masses in the member's display units. */
-export function BlocksTable({ rows, display }: { rows: BlockRow[]; display: MassDisplay }) {
+export function BlocksTable({
+  rows,
+  display,
+  dateStyle,
+  seasonStart,
+}: {
+  rows: BlockRow[];
+  display: MassDisplay;
+  dateStyle: DateStyle;
+  seasonStart: SeasonStart;
+}) {
+  const columns = useMemo(() => columnsFor(display, dateStyle, seasonStart), [display, dateStyle, seasonStart]);
   return (
     <DataTable
       caption="Blocks and harvests"
-      columns={columnsFor(display)}
+      columns={columns}
       rows={rows}
-      emptyMessage="No blocks yet. Upload your season log, or ask the farm manager to."
+      emptyMessage="No blocks here yet. Upload your season log, or ask the farm manager to; or choose another season."
       csvFileName="blocks-and-harvests.csv"
     />
   );

@@ -15,7 +15,12 @@ export default async function RecordHarvestPage({ searchParams }: { searchParams
     <>
       <PageHeader title="Record a harvest" lead="One flush of one block, straight from the grow room." />
       <div className="max-w-md space-y-6">
-        <QuickHarvestForm targets={targets} initialBlock={block ?? ""} defaultUnit={member.displayUnits === "imperial" ? "lb" : "g"} />
+        <QuickHarvestForm
+          memberId={member.id}
+          targets={targets}
+          initialBlock={block ?? ""}
+          defaultUnit={member.displayUnits === "imperial" ? "lb" : "g"}
+        />
         <Caution which="spores" />
       </div>
     </>

@@ -1,14 +1,52 @@
 "use client";
 
-import { startTransition, useActionState, useState, useSyncExternalStore } from "react";
+import { startTransition, useActionState, useCallback, useEffect, useState, useSyncExternalStore } from "react";
+import { v4 as uuidv4 } from "uuid";
+import { keepThisPageOffline } from "@/components/offline/service-worker";
 import { Button } from "@/components/ui/button";
 import { Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
 import type { ActionState } from "@/lib/auth/guard";
 import type { HarvestTarget } from "@/lib/data/blocks";
+import {
+  dropKept,
+  keepHarvest,
+  keptFor,
+  sendKept,
+  type HarvestFields,
+  type QueuedHarvest,
+  type SendAnswer,
+} from "@/lib/offline/harvest-queue";
 import { recordHarvestAction } from "./actions";
 
+/** The server's answer, or "kept": no answer came, so the entry waits on this phone. */
+type FormState = Omit<ActionState, "status"> & { status: ActionState["status"] | "kept" };
 const initial: ActionState = { status: "idle" };
+
+function fieldsOf(data: FormData): HarvestFields {
+  const text = (name: string) => {
+    const value = data.get(name);
+    return typeof value === "string" ? value : "";
+  };
+  const acceptWarnings = text("acceptWarnings");
+  return {
+    blockCode: text("blockCode"),
+    flush: text("flush"),
+    weight: text("weight"),
+    unit: text("unit"),
+    harvestedOn: text("harvestedOn"),
+    ...(acceptWarnings ? { acceptWarnings } : {}),
+  };
+}
+
+/** One sending of a kept entry: the action's answer, or "unreachable" when none came (no signal, server down). */
+async function sendOnce(data: FormData): Promise<SendAnswer> {
+  try {
+    return await recordHarvestAction(initial, data);
+  } catch {
+    return { status: "unreachable" };
+  }
+}
 const units = ["g", "kg", "lb", "oz"] as const;
 type Unit = (typeof units)[number];
 
@@ -45,17 +83,71 @@ function remember(unit: Unit, harvestedOn: string): void {
 
 /** Block code with suggestions, the next flush filled in, weight as written with a unit picker, and the day picked. */
 export function QuickHarvestForm({
+  memberId,
   targets,
   initialBlock,
   defaultUnit,
 }: {
+  memberId: string;
   targets: HarvestTarget[];
   initialBlock: string;
   defaultUnit: "g" | "lb";
 }) {
-  const [state, action, pending] = useActionState(recordHarvestAction, initial);
+  // This member's entries kept on the phone; null until IndexedDB has been read.
+  const [kept, setKept] = useState<QueuedHarvest[] | null>(null);
+  const [sentNote, setSentNote] = useState<string | null>(null);
+  const reload = useCallback(() => keptFor(memberId).then(setKept, () => setKept([])), [memberId]);
+  const sendWaiting = useCallback(async () => {
+    try {
+      const sent = await sendKept(memberId, sendOnce);
+      if (sent > 0) setSentNote(`Sent ${sent} ${sent === 1 ? "entry" : "entries"} kept on this phone.`);
+    } finally {
+      await reload();
+    }
+  }, [memberId, reload]);
+  // On every open and whenever the signal comes back.
+  useEffect(() => {
+    keepThisPageOffline();
+    void sendWaiting();
+    const online = () => void sendWaiting();
+    window.addEventListener("online", online);
+    return () => window.removeEventListener("online", online);
+  }, [sendWaiting]);
+
+  const [state, action, pending] = useActionState<FormState, FormData>(async (_previous, data) => {
+    if (navigator.onLine) {
+      try {
+        const answer = await recordHarvestAction(initial, data);
+        // A save that went through means there is a signal: send what waited for one.
+        if (answer.status === "ok") void sendWaiting();
+        return answer;
+      } catch {
+        // No answer (the signal dropped, or the server did): keep the entry with its key; if it was
+        // stored after all, sending it again finds it and stores nothing new.
+      }
+    }
+    const fields = fieldsOf(data);
+    const clientKey = data.get("clientKey");
+    try {
+      if (typeof clientKey !== "string") throw new Error("The entry has no key.");
+      await keepHarvest({ clientKey, memberId, keptAt: Date.now(), fields });
+    } catch {
+      return {
+        status: "error",
+        message: "Not saved: no signal, and this phone cannot keep entries (private browsing?). Write it down and save it later.",
+      };
+    }
+    await reload();
+    return { status: "kept", message: `Flush ${fields.flush} of ${fields.blockCode}: ${fields.weight} ${fields.unit}.` };
+  }, initial);
   const [blockCode, setBlockCode] = useState(initialBlock);
-  const suggested = targets.find((target) => target.code.toLowerCase() === blockCode.trim().toLowerCase())?.nextFlush;
+  const sameBlock = (code: string) => code.trim().toLowerCase() === blockCode.trim().toLowerCase();
+  const storedNext = targets.find((target) => sameBlock(target.code))?.nextFlush;
+  // Flushes kept on the phone count too, so a round of the grow room without a signal goes 1, 2, 3.
+  const keptFlushes = (kept ?? [])
+    .filter((entry) => !entry.refused && sameBlock(entry.fields.blockCode))
+    .map((entry) => Number(entry.fields.flush));
+  const suggested = storedNext ? Math.max(storedNext, ...keptFlushes.map((flush) => flush + 1)) : undefined;
   const [flush, setFlush] = useState<string>(suggested ? String(suggested) : "");
   const [flushTouched, setFlushTouched] = useState(false);
   const shownFlush = flushTouched ? flush : suggested ? String(suggested) : flush;
@@ -81,11 +173,31 @@ export function QuickHarvestForm({
   if (answered !== state) {
     setAnswered(state);
     setEdited(false);
-    if (state.status === "ok") {
+    if (state.status === "ok" || state.status === "kept") {
       setWeight("");
       setFlushTouched(false);
     }
   }
+  const waiting = (kept ?? []).filter((entry) => !entry.refused);
+  const refused = (kept ?? []).filter((entry) => entry.refused);
+
+  /** A refused entry goes back into the form to be corrected and saved again; it leaves the phone's list. */
+  const putBack = async (entry: QueuedHarvest) => {
+    setBlockCode(entry.fields.blockCode);
+    setFlush(entry.fields.flush);
+    setFlushTouched(true);
+    setWeight(entry.fields.weight);
+    const entryUnit = units.find((choice) => choice === entry.fields.unit);
+    if (entryUnit) setUnitChoice(entryUnit);
+    setDayChoice(entry.fields.harvestedOn);
+    changed();
+    await dropKept(entry.clientKey);
+    await reload();
+  };
+  const discard = async (entry: QueuedHarvest) => {
+    await dropKept(entry.clientKey);
+    await reload();
+  };
 
   const warnings = state.status === "confirm" && !edited ? (state.warnings ?? []) : [];
   const warningsFor = (field: string) => warnings.filter((warning) => warning.field === field).map((warning) => warning.message);
@@ -98,6 +210,9 @@ export function QuickHarvestForm({
         // and a reset puts the unit picker back on its first option while the entry keeps its unit.
         event.preventDefault();
         const data = new FormData(event.currentTarget, event.nativeEvent.submitter);
+        // Each entry's own key, made here: however often it is sent, it is stored once.
+        data.set("clientKey", uuidv4());
+        data.set("memberId", memberId);
         remember(unit, harvestedOn);
         startTransition(() => action(data));
       }}
@@ -108,6 +223,49 @@ export function QuickHarvestForm({
           <p role="status">{state.message}</p>
         </Notice>
       ) : null}
+      {state.status === "kept" && waiting.length > 0 ? (
+        <Notice tone="caution" title="No signal: kept on this phone">
+          <p>{state.message}</p>
+        </Notice>
+      ) : null}
+      {sentNote && waiting.length === 0 ? (
+        <Notice title="Sent">
+          <p>{sentNote}</p>
+        </Notice>
+      ) : null}
+      {waiting.length > 0 ? (
+        <Notice tone="caution">
+          <p role="status" data-testid="phone-queue" className="font-semibold">
+            Saved on this phone, not sent yet ({waiting.length})
+          </p>
+          <p>They are sent when the phone has a signal again, and whenever this page opens.</p>
+          <Button type="button" variant="secondary" onClick={() => void sendWaiting()}>
+            Send now
+          </Button>
+        </Notice>
+      ) : null}
+      {refused.map((entry) => (
+        <Notice
+          key={entry.clientKey}
+          tone="danger"
+          title={`Not saved: flush ${entry.fields.flush} of ${entry.fields.blockCode}, ${entry.fields.weight} ${entry.fields.unit}`}
+        >
+          <p>{entry.refused?.message}</p>
+          <ul className="list-disc pl-5">
+            {entry.refused?.reasons.map((reason) => (
+              <li key={reason}>{reason}</li>
+            ))}
+          </ul>
+          <div className="flex flex-wrap gap-2 pt-1">
+            <Button type="button" variant="secondary" onClick={() => void putBack(entry)}>
+              Put back in the form
+            </Button>
+            <Button type="button" variant="secondary" onClick={() => void discard(entry)}>
+              Discard
+            </Button>
+          </div>
+        </Notice>
+      ))}
       {state.status === "error" && state.message ? (
         <Notice tone="danger">
           <p>{state.message}</p>

@@ -18,7 +18,7 @@ export default async function FarmDataPage() {
         title="Your farm's data"
         lead={`Everything ${member.farmName} gave the co-op is yours: download it at any time, or withdraw it.`}
       />
-      <div className="grid gap-6 lg:grid-cols-2">
+      <div className="grid grid-cols-1 gap-6 lg:grid-cols-2">
         <Card title="Download everything">
           <p className="mb-3 text-sm">
             One zip file with your blocks, harvests, corrections and activity as spreadsheets (CSV), every season-log file you uploaded

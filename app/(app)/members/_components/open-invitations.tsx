@@ -1,5 +1,6 @@
 import type { ActionState } from "@/lib/auth/guard";
 import { ActionForm } from "@/components/forms/action-form";
+import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 
 type InvitationAction = (state: ActionState, formData: FormData) => Promise<ActionState>;
 
@@ -11,10 +12,12 @@ export function OpenInvitations({
   invitations,
   resendAction,
   cancelAction,
+  display,
 }: {
   invitations: { id: string; email: string; details: string; expiresAt: Date }[];
   resendAction: InvitationAction;
   cancelAction: InvitationAction;
+  display: TimeDisplay;
 }) {
   return (
     <>
@@ -30,7 +33,7 @@ export function OpenInvitations({
             >
               <span>
                 <span className="font-medium">{invitation.email}</span>
-                {invitation.details ? ` · ${invitation.details}` : ""} · link good until {invitation.expiresAt.toISOString().slice(0, 10)}
+                {invitation.details ? ` · ${invitation.details}` : ""} · link good until {formatDateTime(invitation.expiresAt, display)}
               </span>
               <span className="flex flex-wrap gap-2">
                 <ActionForm

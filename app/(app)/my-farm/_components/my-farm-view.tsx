@@ -8,6 +8,7 @@ import { Notice } from "@/components/ui/notice";
 import type { OwnStrainSummary } from "@/lib/pooled";
 import { useMyFarm } from "@/lib/queries/my-farm";
 import { formatMass } from "@/lib/units";
+import { formatDate } from "@/lib/time/display";
 
 type Row = Record<
   "strain" | "blocks" | "harvests" | "fresh" | "efficiency" | "percentile" | "contamination" | "massLoss" | "toCome",
@@ -52,8 +53,8 @@ function toRow(strain: OwnStrainSummary, units: "metric" | "imperial"): Row {
   };
 }
 
-export function MyFarmView() {
-  const query = useMyFarm();
+export function MyFarmView({ season }: { season: number | null }) {
+  const query = useMyFarm(season);
   if (query.isPending)
     return (
       <p role="status" className="rounded-lg border border-oat-300 bg-white p-4 text-ink-soft">
@@ -73,7 +74,7 @@ export function MyFarmView() {
   const page = query.data;
   if (page.strains.length === 0) {
     return (
-      <Notice title="No blocks this season yet">
+      <Notice title={season === null ? "No blocks this season yet" : "No blocks in this season"}>
         <p>Upload a season log to see your blocks, harvests and biological efficiency here, beside the co-op.</p>
       </Notice>
     );
@@ -81,7 +82,9 @@ export function MyFarmView() {
   const withCurves = page.strains.filter((strain) => strain.ownCumulative || strain.coopCumulative);
   return (
     <div className="space-y-6">
-      <Card title={`${page.farmName} this season, by strain`}>
+      <Card
+        title={page.seasonLabel ? `${page.farmName} in season ${page.seasonLabel}, by strain` : `${page.farmName} this season, by strain`}
+      >
         <DataTable
           caption="Your season by strain"
           columns={columns}
@@ -90,16 +93,18 @@ export function MyFarmView() {
           csvFileName="my-farm-by-strain.csv"
         />
         <p className="mt-2 text-xs text-ink-soft">
-          Blocks inoculated since {page.seasonStartedOn}. Place in the co-op compares your mean with every co-op block of the strain, shown
-          only where at least {page.minimumFarms} farms grew it. Still to come: the co-op&apos;s average flush profile applied to your
-          active blocks, with 95 % prediction bounds.
+          {page.seasonLabel
+            ? `Blocks of season ${page.seasonLabel}: inoculated in it, or named in it by their season log. The co-op's figures cover every season.`
+            : `Blocks inoculated since ${formatDate(page.seasonStartedOn, page.dateStyle)}.`}{" "}
+          Place in the co-op compares your mean with every co-op block of the strain, shown only where at least {page.minimumFarms} farms
+          grew it. Still to come: the co-op&apos;s average flush profile applied to your active blocks, with 95 % prediction bounds.
         </p>
       </Card>
       <Card title="Flush curves: share of a block's yield picked by each flush">
         {withCurves.length === 0 ? (
           <p className="text-ink-soft">Not enough finished blocks yet to draw a flush curve.</p>
         ) : (
-          <div className="grid gap-6 md:grid-cols-2">
+          <div className="grid grid-cols-1 gap-6 md:grid-cols-2">
             {withCurves.map((strain) => (
               <section key={strain.strainId} aria-label={`Flush curve for ${strain.strainName}`}>
                 <h3 className="mb-2 font-semibold text-moss-800">{strain.strainName}</h3>

@@ -1,7 +1,9 @@
 "use client";
 
 import type { ColumnDef } from "@tanstack/react-table";
+import { useMemo } from "react";
 import { DataTable } from "@/components/ui/data-table";
+import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 
 export interface OutgoingMailRow {
   queuedAt: string;
@@ -14,21 +16,25 @@ export interface OutgoingMailRow {
   problem: string;
 }
 
-const when = (value: unknown) => String(value).replace("T", " ").slice(0, 16);
-
-const columns: ColumnDef<OutgoingMailRow, unknown>[] = [
-  { accessorKey: "queuedAt", header: "Queued (UTC)", cell: ({ getValue }) => when(getValue()) },
+// Cells in the reader's zone; the CSV keeps the stored ISO 8601 instants, for machines.
+const columnsFor = (display: TimeDisplay): ColumnDef<OutgoingMailRow, unknown>[] => [
+  { accessorKey: "queuedAt", header: "Queued", cell: ({ getValue }) => formatDateTime(String(getValue()), display) },
   { accessorKey: "recipient", header: "To" },
   { accessorKey: "kind", header: "Kind" },
   { accessorKey: "subject", header: "Subject" },
   { accessorKey: "outcome", header: "Outcome" },
   { accessorKey: "attempts", header: "Attempts" },
-  { accessorKey: "lastAttemptAt", header: "Last attempt (UTC)", cell: ({ getValue }) => (getValue() ? when(getValue()) : "") },
+  {
+    accessorKey: "lastAttemptAt",
+    header: "Last attempt",
+    cell: ({ getValue }) => (getValue() ? formatDateTime(String(getValue()), display) : ""),
+  },
   { accessorKey: "problem", header: "Problem" },
 ];
 
 /** The record of what went out, one row per message: filter, sort, download as CSV. */
-export function OutgoingMailTable({ rows }: { rows: OutgoingMailRow[] }) {
+export function OutgoingMailTable({ rows, display }: { rows: OutgoingMailRow[]; display: TimeDisplay }) {
+  const columns = useMemo(() => columnsFor(display), [display]);
   return (
     <DataTable
       caption="Outgoing mail"

@@ -7,9 +7,11 @@ import { StrainBoxplot } from "@/components/charts/strain-boxplot";
 import { Card } from "@/components/ui/card";
 import { DataTable } from "@/components/ui/data-table";
 import { Notice } from "@/components/ui/notice";
-import { flushWindowLabels, flushWindows, type FlushWindow, type Published, type StrainResult } from "@/lib/pooled";
+import { WordsExplained } from "@/components/ui/words-explained";
+import { flushWindowLabels, flushWindows, resultsInBrief, type FlushWindow, type Published, type StrainResult } from "@/lib/pooled";
 import type { ReleaseInfo } from "@/lib/data/pooled-releases";
 import { usePooledResults, type PooledResultsSelection } from "@/lib/queries/pooled-results";
+import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 
 type StrainRow = Record<"strain" | "farms" | "blocks" | "efficiency" | "contamination" | "firstHarvest" | "flushProfile", string>;
 type PairRow = Record<"comparison" | "difference" | "interval" | "p", string>;
@@ -65,7 +67,7 @@ const releaseColumns = (release: ReleaseInfo | null) =>
 
 const selectClass = "block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3 text-base";
 
-export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
+export function ResultsView({ showsOwnFarm, display }: { showsOwnFarm: boolean; display: TimeDisplay }) {
   const [selection, setSelection] = useState<PooledResultsSelection>({ window: "all" });
   const query = usePooledResults(selection);
   const page = query.data;
@@ -75,7 +77,7 @@ export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
   return (
     <div className="space-y-6">
       <form
-        className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4"
+        className="grid grid-cols-1 gap-4 sm:grid-cols-2 lg:grid-cols-4"
         aria-label="Choose what to compare"
         onSubmit={(event) => event.preventDefault()}
       >
@@ -128,7 +130,9 @@ export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
         </label>
       </form>
 
-      {page ? <ReleaseLine release={page.release} schedule={page.releaseSchedule} minimumFarms={page.results?.minimumFarms} /> : null}
+      {page ? (
+        <ReleaseLine release={page.release} schedule={page.releaseSchedule} minimumFarms={page.results?.minimumFarms} display={display} />
+      ) : null}
 
       {query.isPending ? (
         <p role="status" className="rounded-lg border border-oat-300 bg-white p-4 text-ink-soft">
@@ -160,13 +164,13 @@ export function ResultsView({ showsOwnFarm }: { showsOwnFarm: boolean }) {
 }
 
 /** Which release the page shows, and when the figures may next change. */
-function ReleaseLine({ release, schedule, minimumFarms }: { release: ReleaseInfo | null; schedule: string; minimumFarms?: number }) {
+function ReleaseLine(props: { release: ReleaseInfo | null; schedule: string; minimumFarms?: number; display: TimeDisplay }) {
+  const { release, schedule, minimumFarms, display } = props;
   if (!release) return null;
-  const cut = new Date(release.cutAt);
   return (
     <p className="text-sm text-ink-soft" data-testid="release-line">
       <span className="font-semibold text-ink">
-        Release {release.number}, published {cut.toISOString().slice(0, 10)} at {cut.toISOString().slice(11, 16)} UTC.
+        Release {release.number}, published {formatDateTime(release.cutAt, display)}.
       </span>{" "}
       These figures change only with a new release ({schedule}), and only by the data of at least {minimumFarms ?? 3} farms at a time, so no
       one can work out one farm&apos;s numbers by comparing two releases.
@@ -187,6 +191,18 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
 
   return (
     <>
+      <section aria-labelledby="in-brief" className="rounded-xl border-2 border-moss-600 bg-white p-5" data-testid="in-brief">
+        <h2 id="in-brief" className="text-lg font-semibold text-moss-800">
+          In brief
+        </h2>
+        <div className="mt-2 space-y-2 text-base">
+          {resultsInBrief(results).map((sentence) => (
+            <p key={sentence}>{sentence}</p>
+          ))}
+        </div>
+        <p className="mt-3 text-sm text-ink-soft">The tables and charts below are the evidence for it.</p>
+      </section>
+
       <Card title="Strains side by side">
         {published.length === 0 ? (
           <Notice title="Not enough data">
@@ -210,6 +226,7 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
           Figures are published only where at least {results.minimumFarms} farms contributed; means are adjusted for farm (each farm counts
           as a block) when two or more strains can be compared.
         </p>
+        <WordsExplained terms={["biological-efficiency", "interval", "farm-adjusted-mean", "withheld"]} />
       </Card>
 
       <Card title="Spread of block biological efficiency">
@@ -246,6 +263,7 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
               farm counts as a block, so strains are compared on the farms that grew them). Intervals and p-values allow for comparing every
               pair of strains (Tukey). The farm-by-farm comparison below shows how much farms disagree.
             </p>
+            <WordsExplained terms={["be-points", "farm-adjusted-mean", "tukey", "p-value"]} />
           </>
         ) : (
           <p className="text-ink-soft">Not enough data: {results.pairwise.message}.</p>
@@ -259,6 +277,11 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
               Each farm&apos;s difference against {results.heterogeneity.value.referenceStrainName} (the strain grown on most farms), pooled
               allowing the gain to differ by farm. I² is the share of the spread that comes from real differences between farms; τ is the
               typical farm-to-farm spread of the gain in BE points.
+            </p>
+            <p className="text-sm text-ink-soft">
+              The differences here are not the same figures as in &ldquo;Differences between strains&rdquo;: there one difference is fitted
+              for all farms together; here each farm&apos;s own difference is pooled and allowed to vary from farm to farm, so the estimate
+              moves a little and the interval is wider. When farms disagree, the wider interval here is the more cautious answer.
             </p>
             {results.heterogeneity.value.strains.map((strain) => (
               <section
@@ -278,6 +301,7 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
         ) : (
           <p className="text-ink-soft">Not enough data: {results.heterogeneity.message}.</p>
         )}
+        <WordsExplained terms={["reference-strain", "i-squared", "tau", "holm"]} />
       </Card>
     </>
   );

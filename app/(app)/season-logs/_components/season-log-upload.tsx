@@ -11,6 +11,7 @@ import { routeMessage } from "@/lib/queries/fetch-json";
 import type { ParseChoices } from "@/lib/season-logs/report";
 import { IssueTable } from "./issue-table";
 import { PreviewOfChanges } from "./preview-of-changes";
+import { formatDateTime, formatDay, type TimeDisplay } from "@/lib/time/display";
 
 type Phase = "pick" | "sending" | "review" | "committing" | "done";
 type MassUnit = NonNullable<ParseChoices["defaultMassUnit"]>;
@@ -91,7 +92,7 @@ function needsMapping(view: UploadView): boolean {
 }
 
 /** Pick or drop a file → progress → mapping (when unsure) → review → commit → receipt. */
-export function SeasonLogUpload() {
+export function SeasonLogUpload({ display }: { display: TimeDisplay }) {
   const router = useRouter();
   const input = useRef<HTMLInputElement>(null);
   const [phase, setPhase] = useState<Phase>("pick");
@@ -254,8 +255,8 @@ export function SeasonLogUpload() {
           {view.alreadyImportedAt ? (
             <Notice title="Already imported">
               <p data-testid="already-imported">
-                This file was already imported on {view.alreadyImportedAt.slice(0, 10)}. Nothing will change; the copy you just sent is kept
-                in the list below.
+                This file was already imported on {formatDay(view.alreadyImportedAt, display)}. Nothing will change; the copy you just sent
+                is kept in the list below.
               </p>
             </Notice>
           ) : null}
@@ -340,7 +341,7 @@ export function SeasonLogUpload() {
         <Card title="Committed">
           <div data-testid="receipt" className="space-y-2 text-sm">
             <p>
-              {receipt.fileName} was committed on {receipt.committedAt.slice(0, 16).replace("T", " ")} UTC.
+              {receipt.fileName} was committed on {formatDateTime(receipt.committedAt, display)}.
             </p>
             <p>
               {receipt.counts.newBlocks} new blocks, {receipt.counts.changedBlocks} blocks changed, {receipt.counts.newHarvests} new
@@ -416,7 +417,7 @@ function MappingStep(props: {
           </div>
         ) : null}
         {decimalColumns.length > 0 ? (
-          <div className="grid gap-3 sm:grid-cols-2">
+          <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
             {decimalColumns.map((header, index) => (
               <div key={header} className="space-y-1">
                 <label htmlFor={`decimal-${index}`} className="block text-sm font-medium">
@@ -441,7 +442,7 @@ function MappingStep(props: {
             ))}
           </div>
         ) : null}
-        <div className="grid gap-3 sm:grid-cols-2">
+        <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
           {detected.mapping.columns.map((column) => {
             const id = `map-${column.position}`;
             return (
@@ -466,7 +467,7 @@ function MappingStep(props: {
             );
           })}
         </div>
-        <div className="grid gap-3 sm:grid-cols-2">
+        <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
           <div className="space-y-1">
             <label htmlFor="date-order" className="block text-sm font-medium">
               How are dates written?

@@ -2,11 +2,14 @@
 
 import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
+import { useMemo } from "react";
 import { DataTable } from "@/components/ui/data-table";
 import type { UploadHistoryRow } from "@/lib/data/season-logs";
+import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 
-const columns: ColumnDef<UploadHistoryRow, unknown>[] = [
-  { accessorFn: (upload) => upload.uploadedAt.slice(0, 16).replace("T", " "), id: "uploadedAt", header: "Sent (UTC)" },
+// The stored instant sorts; the cell writes it in the member's zone and date style.
+const columnsFor = (display: TimeDisplay): ColumnDef<UploadHistoryRow, unknown>[] => [
+  { accessorKey: "uploadedAt", header: "Sent", cell: ({ getValue }) => formatDateTime(String(getValue()), display) },
   { accessorKey: "fileName", header: "File" },
   { accessorKey: "sentBy", header: "Sent by" },
   { accessorKey: "rowCount", header: "Rows" },
@@ -62,7 +65,8 @@ const columns: ColumnDef<UploadHistoryRow, unknown>[] = [
 ];
 
 /** One row per upload, however often it was checked again: the checks are folded into its row. */
-export function UploadHistory({ uploads }: { uploads: UploadHistoryRow[] }) {
+export function UploadHistory({ uploads, display }: { uploads: UploadHistoryRow[]; display: TimeDisplay }) {
+  const columns = useMemo(() => columnsFor(display), [display]);
   return (
     <DataTable
       caption="Past uploads"

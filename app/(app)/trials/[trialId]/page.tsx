@@ -18,17 +18,24 @@ import {
   listInvitableFarms,
   listTrialHistory,
   listTrialProgress,
+  timelineOf,
   type CloseReview,
   type TrialView,
 } from "@/lib/data/trials";
 import { hasResults, moveLabels, nextStatuses, remindersRun, trialStatusLabels, type TrialStatus } from "@/lib/trials/lifecycle";
-import { trialSampleSize } from "@/lib/trials/sample-size";
+import { crossingOf, enrolmentWarnings, trialSampleSize, type SampleSizeInput } from "@/lib/trials/sample-size";
+import { behindReasons } from "@/lib/trials/timeline";
 import { askToJoinTrialAction, inviteFarmsAction, moveTrialAction, respondToInvitationAction, sendReminderAction } from "../actions";
 import { ActionForm } from "@/components/forms/action-form";
 import { AnalysisRunsCard, RunChoice } from "../_components/analysis-runs";
 import { CloseReviewCard } from "../_components/close-review";
 import { ProtocolSummary } from "../_components/protocol-summary";
 import { StatusBadge } from "../_components/status-badge";
+import { TrialTimelineBar } from "../_components/trial-timeline";
+import { todayUtc } from "@/lib/import/dates";
+import { formatDateTime, formatDay, type TimeDisplay } from "@/lib/time/display";
+import { timeDisplayFor } from "@/lib/time/member-display";
+import { ScrollFrame } from "@/components/ui/scroll-frame";
 
 export const metadata: Metadata = { title: "Trial" };
 
@@ -36,6 +43,7 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
   const member = await requirePage("trial:read");
   const { trialId } = await params;
   const trial = await trialOrNotFound(member, trialId);
+  const display = await timeDisplayFor(member);
   const coordinator = can(member.role, "trial:manage");
   const showResults = (coordinator && hasResults(trial.status)) || trial.status === "published";
   // Before closing, the coordinator reads what is still incomplete and confirms it in the close form.
@@ -55,20 +63,25 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
         {trial.versions.length ? (
           <span className="text-sm text-ink-soft" data-testid="version-in-force">
             {trial.versions[0].version === 1
-              ? `Results published ${trial.versions[0].publishedAt.toISOString().slice(0, 10)}`
-              : `Results amended ${trial.versions[0].publishedAt.toISOString().slice(0, 10)} (version ${trial.versions[0].version})`}
+              ? `Results published ${formatDay(trial.versions[0].publishedAt, display)}`
+              : `Results amended ${formatDay(trial.versions[0].publishedAt, display)} (version ${trial.versions[0].version})`}
           </span>
         ) : null}
       </div>
-      <div className="grid gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
+      <div className="grid grid-cols-1 gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="space-y-6">
+          <Card title="Timeline">
+            <TrialTimelineBar timeline={timelineOf(trial)} today={todayUtc()} />
+          </Card>
           {member.farmId ? <FarmSection trial={trial} member={member} /> : null}
           {review ? <CloseReviewCard review={review} outcomeFlushes={trial.outcomeFlushes} /> : null}
-          {coordinator && (trial.runs.length || hasResults(trial.status)) ? <AnalysisRunsCard trial={trial} /> : null}
+          {coordinator && (trial.runs.length || hasResults(trial.status)) ? <AnalysisRunsCard trial={trial} display={display} /> : null}
           {coordinator && trial.status !== "draft" ? <CoordinatorFollowing trial={trial} member={member} /> : null}
-          <ProtocolSummary trial={trial} />
+          <ProtocolSummary trial={trial} dateStyle={display.dateStyle} />
         </div>
-        <div className="space-y-6">{coordinator ? <CoordinatorControls trial={trial} member={member} review={review} /> : null}</div>
+        <div className="space-y-6">
+          {coordinator ? <CoordinatorControls trial={trial} member={member} review={review} display={display} /> : null}
+        </div>
       </div>
     </>
   );
@@ -83,7 +96,8 @@ const answerLabels: Record<string, string> = {
   dropped: "Dropped out",
 };
 
-async function CoordinatorControls({ trial, member, review }: { trial: TrialView; member: Member; review: CloseReview | null }) {
+async function CoordinatorControls(props: { trial: TrialView; member: Member; review: CloseReview | null; display: TimeDisplay }) {
+  const { trial, member, review, display } = props;
   const [history, readiness] = await Promise.all([listTrialHistory(member, trial.id), getStartReadiness(member, trial.id)]);
   const moves = nextStatuses(trial.status);
   return (
@@ -100,6 +114,7 @@ async function CoordinatorControls({ trial, member, review }: { trial: TrialView
             </Notice>
           </div>
         ) : null}
+        {trial.status === "open" || trial.status === "running" ? <EnrolmentShortfall trial={trial} readiness={readiness} /> : null}
         {moves.length === 0 ? (
           <p className="text-sm text-ink-soft">This trial is {trialStatusLabels[trial.status].toLowerCase()}; it does not move any more.</p>
         ) : null}
@@ -128,7 +143,7 @@ async function CoordinatorControls({ trial, member, review }: { trial: TrialView
                 submitLabel={moveLabels[to]}
                 confirm="Publish the run you picked to every member and observer, and e-mail them? A published version cannot be changed; a correction is an amendment."
               >
-                <RunChoice runs={trial.runs} />
+                <RunChoice runs={trial.runs} display={display} />
               </ActionForm>
             ) : (
               <ActionForm
@@ -170,7 +185,7 @@ async function CoordinatorControls({ trial, member, review }: { trial: TrialView
               return (
                 <li key={index}>
                   <time dateTime={event.occurredAt.toISOString()} className="text-ink-soft">
-                    {event.occurredAt.toISOString().slice(0, 16).replace("T", " ")} UTC
+                    {formatDateTime(event.occurredAt, display)}
                   </time>{" "}
                   · {what}
                 </li>
@@ -216,7 +231,7 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
         {progress.length === 0 ? (
           <p className="text-sm text-ink-soft">No farm has been invited yet.</p>
         ) : (
-          <div className="overflow-x-auto">
+          <ScrollFrame label="Farms and their progress">
             <table className="w-full min-w-[44rem] text-sm [&_td]:pr-3 [&_th]:pr-3" data-testid="progress-table">
               <thead>
                 <tr className="text-left">
@@ -233,6 +248,8 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
                     </th>
                   ))}
                   <th scope="col">Contaminated</th>
+                  <th scope="col">Against the timeline</th>
+                  <th scope="col">Last reminded</th>
                   <th scope="col">
                     <span className="sr-only">Reminder</span>
                   </th>
@@ -252,6 +269,16 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
                       <td key={index}>{count}</td>
                     ))}
                     <td>{row.progress.contaminated}</td>
+                    <td data-testid="behind">{row.behind ? "Behind" : row.status === "accepted" ? "On time" : ""}</td>
+                    <td data-testid="last-reminded">
+                      {row.lastRemindedAt ? (
+                        <time dateTime={row.lastRemindedAt.toISOString()}>
+                          {row.lastRemindedAt.toISOString().slice(0, 16).replace("T", " ")} UTC
+                        </time>
+                      ) : (
+                        "Never"
+                      )}
+                    </td>
                     <td className="py-1">
                       {canRemind && row.behind ? (
                         row.remindersAllowed ? (
@@ -270,8 +297,22 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
                 ))}
               </tbody>
             </table>
-          </div>
+          </ScrollFrame>
         )}
+        {progress.some((row) => row.behind) ? (
+          <div className="mt-4">
+            <h3 className="font-semibold">Behind the timeline</h3>
+            <ul className="list-disc pl-5 text-sm" data-testid="behind-why">
+              {progress
+                .filter((row) => row.behind)
+                .map((row) => (
+                  <li key={row.farmId}>
+                    {row.farmName}: {row.behindWhy.join("; ")}
+                  </li>
+                ))}
+            </ul>
+          </div>
+        ) : null}
       </Card>
     </>
   );
@@ -338,6 +379,7 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
   const progress = await getOwnProgress(member, trial);
   // Once the trial is closed nothing is due any more: no reminder comes, and later records are not in its analysis.
   const due = progress && remindersRun(trial.status) ? dueItems(progress) : [];
+  const behind = progress && remindersRun(trial.status) ? behindReasons(timelineOf(trial), progress, todayUtc()) : [];
   return (
     <Card title="Your farm's part">
       <p className="text-sm">
@@ -385,6 +427,13 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
           </div>
         </dl>
       ) : null}
+      {behind.length ? (
+        <div className="mt-4" data-testid="own-behind">
+          <Notice tone="caution" title="Behind the trial's timeline">
+            <p>{behind.join("; ")}.</p>
+          </Notice>
+        </div>
+      ) : null}
       <h3 className="mt-4 font-semibold">Still due</h3>
       {due.length ? (
         <ul className="list-disc pl-5 text-sm">
@@ -412,15 +461,49 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
   );
 }
 
-/** What the coordinator's plan asks of each farm at 80 % power, or 6 when the plan has no figures. */
-function suggestedBlocksPerArm(trial: TrialView): number {
-  if (!trial.smallestDifference || !trial.expectedSd || !trial.plannedFarms) return 6;
-  const panel = trialSampleSize({
+/** The design's sample-size figures, or null when the coordinator gave none. */
+function planOf(trial: TrialView): SampleSizeInput | null {
+  if (!trial.smallestDifference || !trial.expectedSd || !trial.plannedFarms) return null;
+  return {
     difference: trial.smallestDifference,
     sd: trial.expectedSd,
     plannedFarms: trial.plannedFarms,
     expectedLoss: trial.expectedLoss ?? 0,
     arms: trial.arms.length,
-  });
+    crossing: crossingOf(trial.designKind, trial.arms),
+  };
+}
+
+/** Fewer farms or blocks than the plan needs: said while farms can still be invited, and once running. */
+function EnrolmentShortfall({
+  trial,
+  readiness,
+}: {
+  trial: TrialView;
+  readiness: { accepted: number; blocksPerArm: number; minimumFarms: number };
+}) {
+  // The co-op's minimum has its own notice above; before anyone accepts there is nothing to compare yet.
+  const warnings = enrolmentWarnings(planOf(trial), {
+    acceptedFarms: readiness.accepted,
+    blocksPerArm: readiness.blocksPerArm,
+    minimumFarms: readiness.minimumFarms,
+  }).filter((warning) => warning.kind !== "below_minimum_farms");
+  if (!warnings.length || readiness.accepted === 0) return null;
+  return (
+    <div className="mb-3" data-testid="enrolment-short">
+      <Notice tone="caution" title="Short of the planned size">
+        {warnings.map((warning) => (
+          <p key={warning.kind}>{warning.message}</p>
+        ))}
+      </Notice>
+    </div>
+  );
+}
+
+/** What the coordinator's plan asks of each farm at 80 % power, or 6 when the plan has no figures. */
+function suggestedBlocksPerArm(trial: TrialView): number {
+  const plan = planOf(trial);
+  if (!plan) return 6;
+  const panel = trialSampleSize(plan);
   return panel.ok ? panel.rows[0].perFarmPerArm : 6;
 }

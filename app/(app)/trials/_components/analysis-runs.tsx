@@ -1,11 +1,10 @@
 import Link from "next/link";
 import { Card } from "@/components/ui/card";
 import type { AnalysisRunView, TrialView } from "@/lib/data/trials";
+import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 import { amendmentReasonMinimum } from "@/lib/trials/versions";
 import { amendAnalysisAction, runAnalysisAction } from "../actions";
 import { ActionForm } from "@/components/forms/action-form";
-
-const when = (date: Date) => `${date.toISOString().slice(0, 16).replace("T", " ")} UTC`;
 
 function standing(run: AnalysisRunView): string {
   if (!run.publication) return "Not published";
@@ -16,7 +15,8 @@ function standing(run: AnalysisRunView): string {
  * The coordinator's runs of the analysis: every run kept with when, who and what it read, which one
  * the results page shows, and the buttons to run again and, after publication, to amend.
  */
-export function AnalysisRunsCard({ trial }: { trial: TrialView }) {
+export function AnalysisRunsCard({ trial, display }: { trial: TrialView; display: TimeDisplay }) {
+  const when = (date: Date) => formatDateTime(date, display);
   const unpublished = trial.runs.filter((run) => !run.publication);
   return (
     <Card title="Runs of the analysis">
@@ -110,7 +110,7 @@ export function AnalysisRunsCard({ trial }: { trial: TrialView }) {
               submitLabel="Publish as an amendment"
               confirm="Publish this run as an amendment, above the version in force? Both stay readable, and neither can be changed afterwards."
             >
-              <RunChoice runs={unpublished} />
+              <RunChoice runs={unpublished} display={display} />
               <div className="space-y-1">
                 <label htmlFor="reason" className="block text-sm font-medium">
                   Why the published results are amended
@@ -140,7 +140,8 @@ export function AnalysisRunsCard({ trial }: { trial: TrialView }) {
 }
 
 /** Radio buttons for runs, the newest picked. */
-export function RunChoice({ runs }: { runs: AnalysisRunView[] }) {
+export function RunChoice({ runs, display }: { runs: AnalysisRunView[]; display: TimeDisplay }) {
+  const when = (date: Date) => formatDateTime(date, display);
   return (
     <fieldset className="space-y-1">
       <legend className="mb-1 text-sm font-medium">Which run</legend>

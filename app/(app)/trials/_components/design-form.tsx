@@ -1,12 +1,14 @@
 "use client";
 
-import { useActionState, useMemo, useState } from "react";
+import { startTransition, useActionState, useMemo, useState } from "react";
 import { Button } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { Caution } from "@/components/ui/caution";
 import { Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
 import type { ActionState } from "@/lib/auth/guard";
+import type { TrialDesignKind } from "@/lib/trials/design-kind";
+import { crossedArms, crossedArmsProblems } from "@/lib/trials/factorial";
 import { trialSampleSize } from "@/lib/trials/sample-size";
 import { saveTrialDraftAction } from "../actions";
 
@@ -29,11 +31,17 @@ export interface DesignValues {
   title: string;
   question: string;
   speciesId: string;
+  designKind: TrialDesignKind;
   arms: { label: string; strainId: string; treatmentId: string; isReference: boolean }[];
   outcomeFlushes: number;
   contaminatedHandling: "exclude" | "count_as_zero";
   protocolNotes: string;
   enrolmentDeadline: string;
+  inoculationFrom: string;
+  inoculationTo: string;
+  fruitingFrom: string;
+  fruitingTo: string;
+  dataDue: string;
   smallestDifference: string;
   expectedSd: string;
   plannedFarms: string;
@@ -61,6 +69,14 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
   const [state, formAction, pending] = useActionState<ActionState, FormData>(saveTrialDraftAction, { status: "idle" });
   const [speciesId, setSpeciesId] = useState(initial.speciesId);
   const [arms, setArms] = useState(initial.arms);
+  const [designKind, setDesignKind] = useState<TrialDesignKind>(initial.designKind);
+  // A crossed design is kept as the strains and methods picked; its arms follow from them.
+  const [crossedStrains, setCrossedStrains] = useState(() =>
+    initial.designKind === "strain_by_method" ? [...new Set(initial.arms.map((arm) => arm.strainId))] : [],
+  );
+  const [crossedMethods, setCrossedMethods] = useState(() =>
+    initial.designKind === "strain_by_method" ? [...new Set(initial.arms.map((arm) => arm.treatmentId))] : [],
+  );
   const [difference, setDifference] = useState(initial.smallestDifference);
   const [sd, setSd] = useState(initial.expectedSd);
   const [sdTouched, setSdTouched] = useState(initial.expectedSd !== "");
@@ -81,13 +97,52 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
         plannedFarms: toNumber(farms),
         expectedLoss: toNumber(loss) / 100,
         arms: arms.length,
+        crossing: designKind === "strain_by_method" ? { methods: crossedMethods.length, strains: crossedStrains.length } : null,
       }),
-    [difference, sd, farms, loss, arms.length],
+    [difference, sd, farms, loss, arms.length, designKind, crossedMethods.length, crossedStrains.length],
   );
+  const fruitingMethods = options.treatments.filter((treatment) => treatment.kind === "fruiting_method");
+  const crossingProblems =
+    designKind === "strain_by_method"
+      ? crossedArmsProblems(
+          arms.map((arm) => ({ ...arm, treatmentId: arm.treatmentId || null })),
+          options.strains.map((strain) => ({ id: strain.id, name: `${strain.code} ${strain.name}` })),
+          options.treatments,
+        )
+      : [];
+
+  function cross(strainIds: string[], methodIds: string[]) {
+    setCrossedStrains(strainIds);
+    setCrossedMethods(methodIds);
+    // Keep the reference on the same combination when it is still there.
+    const reference = arms.find((arm) => arm.isReference);
+    const made = crossedArms(strainIds, methodIds).map((arm) => ({ ...arm, treatmentId: arm.treatmentId ?? "" }));
+    const keep = made.findIndex((arm) => arm.strainId === reference?.strainId && arm.treatmentId === reference?.treatmentId);
+    setArms(keep > 0 ? made.map((arm, index) => ({ ...arm, isReference: index === keep })) : made);
+  }
+
+  function chooseDesignKind(kind: TrialDesignKind) {
+    setDesignKind(kind);
+    if (kind === "strain_by_method") {
+      const strainIds = [...new Set(arms.map((arm) => arm.strainId).filter(Boolean))];
+      const methodIds = [...new Set(arms.map((arm) => arm.treatmentId).filter((id) => fruitingMethods.some((method) => method.id === id)))];
+      cross(strainIds, methodIds);
+    }
+  }
+
+  const toggle = (list: string[], id: string, on: boolean) =>
+    on ? [...list.filter((item) => item !== id), id] : list.filter((item) => item !== id);
   const humidityArm = arms.some((arm) => options.treatments.find((treatment) => treatment.id === arm.treatmentId)?.kind === "humidity");
 
   function chooseSpecies(id: string) {
     setSpeciesId(id);
+    if (designKind === "strain_by_method") {
+      cross(
+        crossedStrains.filter((strainId) => options.strains.some((strain) => strain.id === strainId && strain.speciesId === id)),
+        crossedMethods,
+      );
+      return;
+    }
     setArms((current) =>
       current.map((arm) => ({
         ...arm,
@@ -109,12 +164,19 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
 
   return (
     <form
-      action={formAction}
-      className="grid gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]"
+      onSubmit={(event) => {
+        // Sent by hand rather than through the form's action: React resets a form after its action,
+        // which would empty the title, question and notes the coordinator typed when the server refuses the design.
+        event.preventDefault();
+        const data = new FormData(event.currentTarget, event.nativeEvent.submitter);
+        startTransition(() => formAction(data));
+      }}
+      className="grid grid-cols-1 gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]"
       aria-describedby={state.status === "error" ? "design-message" : undefined}
     >
       <input type="hidden" name="trialId" value={initial.trialId ?? ""} />
       <input type="hidden" name="arms" value={JSON.stringify(arms)} />
+      <input type="hidden" name="designKind" value={designKind} />
       <div className="space-y-6">
         {state.status !== "idle" && state.message ? (
           <Notice tone={state.status === "error" ? "danger" : "info"} id="design-message">
@@ -167,103 +229,229 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
         </Card>
 
         <Card title="Arms">
-          <p className="mb-3 text-sm text-ink-soft">
-            Each arm is a strain, or a strain with a treatment such as a fruiting method or humidity regime. Mark the one the others are
-            compared with as the reference.
-          </p>
-          <fieldset className="space-y-4" aria-describedby={armErrors.length ? "arms-errors" : undefined}>
-            <legend className="sr-only">Arms of the trial</legend>
-            {arms.map((arm, index) => (
-              <div
-                key={index}
-                className="grid gap-3 rounded-lg border border-oat-300 p-3 sm:grid-cols-[6rem_1fr_1fr]"
-                data-testid="arm-row"
-              >
-                <div className="space-y-1">
-                  <label htmlFor={`arm-${index}-label`} className="block text-sm font-medium">
-                    Label
-                  </label>
-                  <input
-                    id={`arm-${index}-label`}
-                    value={arm.label}
-                    onChange={(event) => updateArm(index, { label: event.target.value })}
-                    className={inputClass}
-                  />
-                </div>
-                <div className="space-y-1">
-                  <label htmlFor={`arm-${index}-strain`} className="block text-sm font-medium">
-                    Strain
-                  </label>
-                  <select
-                    id={`arm-${index}-strain`}
-                    value={arm.strainId}
-                    onChange={(event) => updateArm(index, { strainId: event.target.value })}
-                    className={inputClass}
-                  >
-                    <option value="">{speciesId ? "Pick a strain…" : "Pick the species first"}</option>
-                    {speciesStrains.map((strain) => (
-                      <option key={strain.id} value={strain.id}>
-                        {strain.code} — {strain.name}
-                      </option>
-                    ))}
-                  </select>
-                </div>
-                <div className="space-y-1">
-                  <label htmlFor={`arm-${index}-treatment`} className="block text-sm font-medium">
-                    Treatment (optional)
-                  </label>
-                  <select
-                    id={`arm-${index}-treatment`}
-                    value={arm.treatmentId}
-                    onChange={(event) => updateArm(index, { treatmentId: event.target.value })}
-                    className={inputClass}
-                  >
-                    <option value="">None</option>
-                    {options.treatments.map((treatment) => (
-                      <option key={treatment.id} value={treatment.id}>
-                        {treatment.name}
-                      </option>
-                    ))}
-                  </select>
-                </div>
-                <div className="flex flex-wrap items-center gap-4 sm:col-span-3">
-                  <label className="flex min-h-11 items-center gap-2 text-sm">
-                    <input
-                      type="radio"
-                      name="reference-arm"
-                      checked={arm.isReference}
-                      onChange={() => updateArm(index, { isReference: true })}
-                      className="h-5 w-5"
-                    />
-                    Reference arm
-                  </label>
-                  {arms.length > 2 ? (
-                    <Button
-                      type="button"
-                      variant="secondary"
-                      onClick={() => setArms((current) => current.filter((_, position) => position !== index))}
-                    >
-                      Remove arm {arm.label || index + 1}
-                    </Button>
-                  ) : null}
-                </div>
-              </div>
-            ))}
-            <Errors name="arms" errors={armErrors} />
-            <Button
-              type="button"
-              variant="secondary"
-              disabled={arms.length >= 8}
-              onClick={() =>
-                setArms((current) => [
-                  ...current,
-                  { label: String.fromCharCode(65 + current.length), strainId: "", treatmentId: "", isReference: false },
-                ])
-              }
-            >
-              Add an arm
-            </Button>
+          <fieldset className="mb-4 space-y-1" data-testid="design-kind">
+            <legend className="mb-1 text-sm font-medium text-ink">What the arms compare</legend>
+            <label className="flex min-h-11 items-start gap-3 text-sm">
+              <input
+                type="radio"
+                name="design-kind-choice"
+                checked={designKind === "one_factor"}
+                onChange={() => chooseDesignKind("one_factor")}
+                className="mt-0.5 h-5 w-5 shrink-0"
+              />
+              <span>One thing at a time: each arm is a strain, or a strain with a treatment, compared with the reference arm.</span>
+            </label>
+            <label className="flex min-h-11 items-start gap-3 text-sm">
+              <input
+                type="radio"
+                name="design-kind-choice"
+                checked={designKind === "strain_by_method"}
+                onChange={() => chooseDesignKind("strain_by_method")}
+                className="mt-0.5 h-5 w-5 shrink-0"
+              />
+              <span>
+                Strains crossed with fruiting methods: every strain picked is grown with every method picked, one arm each. The report then
+                says whether the method matters, whether the strain does, and whether the best method depends on the strain.
+              </span>
+            </label>
           </fieldset>
+          {designKind === "strain_by_method" ? (
+            <div className="space-y-4" data-testid="crossed-design">
+              <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
+                <fieldset className="space-y-1">
+                  <legend className="mb-1 text-sm font-medium">Strains</legend>
+                  {speciesStrains.length === 0 ? (
+                    <p className="text-sm text-ink-soft">{speciesId ? "This species has no active strain." : "Pick the species first."}</p>
+                  ) : null}
+                  {speciesStrains.map((strain) => (
+                    <label key={strain.id} className="flex min-h-11 items-center gap-3 text-sm">
+                      <input
+                        type="checkbox"
+                        checked={crossedStrains.includes(strain.id)}
+                        onChange={(event) => cross(toggle(crossedStrains, strain.id, event.target.checked), crossedMethods)}
+                        className="h-5 w-5"
+                      />
+                      {strain.code} — {strain.name}
+                    </label>
+                  ))}
+                </fieldset>
+                <fieldset className="space-y-1">
+                  <legend className="mb-1 text-sm font-medium">Fruiting methods</legend>
+                  {fruitingMethods.length === 0 ? (
+                    <p className="text-sm text-ink-soft">No fruiting method is in the registry yet; propose one first.</p>
+                  ) : null}
+                  {fruitingMethods.map((method) => (
+                    <label key={method.id} className="flex min-h-11 items-center gap-3 text-sm">
+                      <input
+                        type="checkbox"
+                        checked={crossedMethods.includes(method.id)}
+                        onChange={(event) => cross(crossedStrains, toggle(crossedMethods, method.id, event.target.checked))}
+                        className="h-5 w-5"
+                      />
+                      {method.name}
+                    </label>
+                  ))}
+                </fieldset>
+              </div>
+              {arms.length ? (
+                <table className="w-full text-sm" data-testid="crossed-arms">
+                  <caption className="mb-2 text-left text-ink-soft">
+                    {arms.length} arms, one per combination. The reference is the combination the others are compared with, e.g. your usual
+                    strain and method.
+                  </caption>
+                  <thead>
+                    <tr className="text-left">
+                      <th scope="col" className="py-1">
+                        Arm
+                      </th>
+                      <th scope="col">Strain</th>
+                      <th scope="col">Fruiting method</th>
+                      <th scope="col">Reference</th>
+                    </tr>
+                  </thead>
+                  <tbody>
+                    {arms.map((arm, index) => {
+                      const strain = options.strains.find((candidate) => candidate.id === arm.strainId);
+                      const method = options.treatments.find((candidate) => candidate.id === arm.treatmentId);
+                      return (
+                        <tr key={`${arm.strainId}-${arm.treatmentId}`} className="border-t border-oat-300" data-testid="arm-row">
+                          <th scope="row" className="py-2 text-left">
+                            {arm.label}
+                          </th>
+                          <td>{strain ? `${strain.code} — ${strain.name}` : "—"}</td>
+                          <td>{method?.name ?? "—"}</td>
+                          <td>
+                            <input
+                              type="radio"
+                              name="reference-arm"
+                              aria-label={`Arm ${arm.label} is the reference`}
+                              checked={arm.isReference}
+                              onChange={() => updateArm(index, { isReference: true })}
+                              className="h-5 w-5"
+                            />
+                          </td>
+                        </tr>
+                      );
+                    })}
+                  </tbody>
+                </table>
+              ) : null}
+              {arms.length > 8 ? (
+                <p className="text-sm text-danger-ink">
+                  {arms.length} combinations is more than the 8 arms a trial can have; pick fewer strains or methods.
+                </p>
+              ) : null}
+              {crossingProblems.length ? (
+                <ul className="text-sm text-ink-soft" data-testid="crossing-problems">
+                  {crossingProblems.map((problem) => (
+                    <li key={problem}>{problem}</li>
+                  ))}
+                </ul>
+              ) : null}
+              {/* The server's refusal, less what the live check above already says. */}
+              <Errors name="arms" errors={armErrors.filter((error) => !crossingProblems.includes(error))} />
+            </div>
+          ) : (
+            <>
+              <p className="mb-3 text-sm text-ink-soft">
+                Each arm is a strain, or a strain with a treatment such as a fruiting method or humidity regime. Mark the one the others are
+                compared with as the reference.
+              </p>
+              <fieldset className="space-y-4" aria-describedby={armErrors.length ? "arms-errors" : undefined}>
+                <legend className="sr-only">Arms of the trial</legend>
+                {arms.map((arm, index) => (
+                  <div
+                    key={index}
+                    className="grid grid-cols-1 gap-3 rounded-lg border border-oat-300 p-3 sm:grid-cols-[6rem_1fr_1fr]"
+                    data-testid="arm-row"
+                  >
+                    <div className="space-y-1">
+                      <label htmlFor={`arm-${index}-label`} className="block text-sm font-medium">
+                        Label
+                      </label>
+                      <input
+                        id={`arm-${index}-label`}
+                        value={arm.label}
+                        onChange={(event) => updateArm(index, { label: event.target.value })}
+                        className={inputClass}
+                      />
+                    </div>
+                    <div className="space-y-1">
+                      <label htmlFor={`arm-${index}-strain`} className="block text-sm font-medium">
+                        Strain
+                      </label>
+                      <select
+                        id={`arm-${index}-strain`}
+                        value={arm.strainId}
+                        onChange={(event) => updateArm(index, { strainId: event.target.value })}
+                        className={inputClass}
+                      >
+                        <option value="">{speciesId ? "Pick a strain…" : "Pick the species first"}</option>
+                        {speciesStrains.map((strain) => (
+                          <option key={strain.id} value={strain.id}>
+                            {strain.code} — {strain.name}
+                          </option>
+                        ))}
+                      </select>
+                    </div>
+                    <div className="space-y-1">
+                      <label htmlFor={`arm-${index}-treatment`} className="block text-sm font-medium">
+                        Treatment (optional)
+                      </label>
+                      <select
+                        id={`arm-${index}-treatment`}
+                        value={arm.treatmentId}
+                        onChange={(event) => updateArm(index, { treatmentId: event.target.value })}
+                        className={inputClass}
+                      >
+                        <option value="">None</option>
+                        {options.treatments.map((treatment) => (
+                          <option key={treatment.id} value={treatment.id}>
+                            {treatment.name}
+                          </option>
+                        ))}
+                      </select>
+                    </div>
+                    <div className="flex flex-wrap items-center gap-4 sm:col-span-3">
+                      <label className="flex min-h-11 items-center gap-2 text-sm">
+                        <input
+                          type="radio"
+                          name="reference-arm"
+                          checked={arm.isReference}
+                          onChange={() => updateArm(index, { isReference: true })}
+                          className="h-5 w-5"
+                        />
+                        Reference arm
+                      </label>
+                      {arms.length > 2 ? (
+                        <Button
+                          type="button"
+                          variant="secondary"
+                          onClick={() => setArms((current) => current.filter((_, position) => position !== index))}
+                        >
+                          Remove arm {arm.label || index + 1}
+                        </Button>
+                      ) : null}
+                    </div>
+                  </div>
+                ))}
+                <Errors name="arms" errors={armErrors} />
+                <Button
+                  type="button"
+                  variant="secondary"
+                  disabled={arms.length >= 8}
+                  onClick={() =>
+                    setArms((current) => [
+                      ...current,
+                      { label: String.fromCharCode(65 + current.length), strainId: "", treatmentId: "", isReference: false },
+                    ])
+                  }
+                >
+                  Add an arm
+                </Button>
+              </fieldset>
+            </>
+          )}
           {humidityArm ? (
             <div className="mt-4">
               <Caution which="humidifiers" />
@@ -272,7 +460,7 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
         </Card>
 
         <Card title="Outcome, decided in advance">
-          <div className="grid gap-4 sm:grid-cols-2">
+          <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
             <Field
               label="Biological efficiency over flushes 1 to"
               name="outcomeFlushes"
@@ -331,6 +519,44 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
               defaultValue={initial.enrolmentDeadline}
               errors={errors.enrolmentDeadline}
             />
+          </div>
+        </Card>
+
+        <Card title="Timeline">
+          <p className="mb-3 text-sm text-ink-soft">
+            Farms are followed against these dates only: a farm is behind when a window has closed without what it asks for, and gets a
+            reminder in the week before the data are due if something is still missing. Leave them empty and no farm is ever counted behind.
+          </p>
+          <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
+            <Field
+              label="Inoculation from"
+              name="inoculationFrom"
+              type="date"
+              defaultValue={initial.inoculationFrom}
+              errors={errors.inoculationFrom}
+            />
+            <Field
+              label="Inoculation to"
+              name="inoculationTo"
+              type="date"
+              defaultValue={initial.inoculationTo}
+              errors={errors.inoculationTo}
+            />
+            <Field
+              label="Fruiting expected from"
+              name="fruitingFrom"
+              type="date"
+              defaultValue={initial.fruitingFrom}
+              errors={errors.fruitingFrom}
+            />
+            <Field
+              label="Fruiting expected to"
+              name="fruitingTo"
+              type="date"
+              defaultValue={initial.fruitingTo}
+              errors={errors.fruitingTo}
+            />
+            <Field label="Data due" name="dataDue" type="date" defaultValue={initial.dataDue} errors={errors.dataDue} />
           </div>
         </Card>
         <div className="flex flex-wrap gap-3">
@@ -397,9 +623,11 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
               {panel.ok ? (
                 <table className="w-full text-sm">
                   <caption className="mb-2 text-left text-ink-soft">
-                    {panel.pairs > 1
-                      ? `Blocks to make so that each pair of arms can be told apart (two-sided 5 % level, adjusted for comparing all ${panel.pairs} pairs, Tukey; farms as blocks)`
-                      : "Blocks to make so that the two arms can be told apart (two-sided 5 % level; farms as blocks)"}
+                    {panel.averagedPerArm !== undefined
+                      ? `Blocks to make so that two fruiting methods can be told apart within one strain (two-sided 5 % level${panel.pairs > 1 ? `, adjusted for comparing all ${panel.pairs} pairs of methods, Tukey` : ""}; farms as blocks)`
+                      : panel.pairs > 1
+                        ? `Blocks to make so that each pair of arms can be told apart (two-sided 5 % level, adjusted for comparing all ${panel.pairs} pairs, Tukey; farms as blocks)`
+                        : "Blocks to make so that the two arms can be told apart (two-sided 5 % level; farms as blocks)"}
                   </caption>
                   <thead>
                     <tr className="text-left">
@@ -431,6 +659,9 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
                 <p className="mt-2 text-xs text-ink-soft">
                   The farm-blocked comparison needs {panel.rows[0].exactPerArm.toFixed(1)} blocks per arm for 80 % power; the figures allow
                   for the expected loss and give every farm the same whole number. The spread is between blocks of one arm on one farm.
+                  {panel.averagedPerArm !== undefined
+                    ? ` Methods are compared within each strain when the best method depends on the strain; when it does not, they are compared averaged over the strains, which needs only ${panel.averagedPerArm.toFixed(1)} blocks per arm.`
+                    : null}
                 </p>
               ) : null}
             </div>

@@ -1,16 +1,25 @@
 import { Card } from "@/components/ui/card";
 import { Caution } from "@/components/ui/caution";
 import type { TrialView } from "@/lib/data/trials";
+import { formatDate, type DateStyle } from "@/lib/time/display";
 
 /** The design as declared: arms, outcome, protocol and planned size. */
-export function ProtocolSummary({ trial }: { trial: TrialView }) {
+export function ProtocolSummary({ trial, dateStyle }: { trial: TrialView; dateStyle: DateStyle }) {
   const humidity = trial.arms.some((arm) => arm.treatmentKind === "humidity");
   return (
     <Card title="Protocol as declared">
-      <dl className="grid gap-3 text-sm sm:grid-cols-2">
+      <dl className="grid grid-cols-1 gap-3 text-sm sm:grid-cols-2">
         <div>
           <dt className="text-ink-soft">Species</dt>
           <dd>{trial.speciesName}</dd>
+        </div>
+        <div>
+          <dt className="text-ink-soft">Arms compare</dt>
+          <dd data-testid="design-kind-summary">
+            {trial.designKind === "strain_by_method"
+              ? "Strains crossed with fruiting methods, one arm per combination: the report tests the method, the strain and whether the best method depends on the strain (farms as blocks)."
+              : "One thing at a time: each arm against the reference arm (farms as blocks)."}
+          </dd>
         </div>
         <div>
           <dt className="text-ink-soft">Outcome</dt>
@@ -33,7 +42,7 @@ export function ProtocolSummary({ trial }: { trial: TrialView }) {
         {trial.enrolmentDeadline ? (
           <div>
             <dt className="text-ink-soft">Enrolment deadline</dt>
-            <dd>{trial.enrolmentDeadline}</dd>
+            <dd>{formatDate(trial.enrolmentDeadline, dateStyle)}</dd>
           </div>
         ) : null}
         {trial.smallestDifference && trial.expectedSd ? (

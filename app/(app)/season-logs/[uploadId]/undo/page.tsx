@@ -6,6 +6,8 @@ import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { getUploadView, type UploadView } from "@/lib/data/season-logs";
 import { isAppError } from "@/lib/errors";
+import { formatDateTime, formatDay } from "@/lib/time/display";
+import { timeDisplayFor } from "@/lib/time/member-display";
 import { UndoCommitForm } from "./undo-form";
 
 export const metadata: Metadata = { title: "Undo a commit" };
@@ -21,6 +23,7 @@ export default async function UndoCommitPage({ params }: { params: Promise<{ upl
     throw error;
   }
   const { upload } = view;
+  const display = await timeDisplayFor(member);
   const counts = view.report.preview.counts;
   return (
     <>
@@ -33,14 +36,14 @@ export default async function UndoCommitPage({ params }: { params: Promise<{ upl
         {upload.outcome !== "committed" ? (
           <p>This upload was not committed, so there is nothing to undo.</p>
         ) : upload.undoneAt ? (
-          <p>This commit was undone on {upload.undoneAt.slice(0, 10)}.</p>
+          <p>This commit was undone on {formatDay(upload.undoneAt, display)}.</p>
         ) : (
           <div className="space-y-4">
             <p>
-              Committed on {upload.committedAt?.slice(0, 16).replace("T", " ")} UTC. Undoing it removes the {counts.newBlocks} new blocks
-              and {counts.newHarvests} new harvests it added and puts back the {counts.changedBlocks + counts.changedHarvests} blocks and
-              harvests it changed, exactly as they were. Each value put back is kept in the blocks&apos; history with your reason; nothing
-              is deleted silently.
+              Committed on {upload.committedAt ? formatDateTime(upload.committedAt, display) : ""}. Undoing it removes the{" "}
+              {counts.newBlocks} new blocks and {counts.newHarvests} new harvests it added and puts back the{" "}
+              {counts.changedBlocks + counts.changedHarvests} blocks and harvests it changed, exactly as they were. Each value put back is
+              kept in the blocks&apos; history with your reason; nothing is deleted silently.
             </p>
             <p>
               If a later file or a correction has changed the same rows since, nothing is undone and you are told which rows: undo the later

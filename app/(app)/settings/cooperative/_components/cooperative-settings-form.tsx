@@ -51,7 +51,7 @@ export function CooperativeSettingsForm({ settings }: { settings: CooperativeSet
           <p className="text-sm text-danger-ink">{state.fieldErrors.showPerFarmEstimates.join(" ")}</p>
         ) : null}
       </div>
-      <div className="grid gap-4 sm:grid-cols-2">
+      <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
         <div className="space-y-1">
           <label htmlFor="releaseSchedule" className="block text-sm font-medium text-ink">
             When releases of the pooled figures are published

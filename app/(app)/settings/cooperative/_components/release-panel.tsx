@@ -1,10 +1,9 @@
 import { Notice } from "@/components/ui/notice";
 import type { ReleaseStatus } from "@/lib/data/pooled-releases";
 import { describeReleaseSchedule } from "@/lib/pooled";
+import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 import { ActionForm } from "@/components/forms/action-form";
 import { cutReleaseNowAction } from "../actions";
-
-const when = (iso: string) => `${iso.slice(0, 10)} at ${iso.slice(11, 16)} UTC`;
 
 const outcomeLabels: Record<string, string> = {
   cut: "a release was published",
@@ -13,8 +12,9 @@ const outcomeLabels: Record<string, string> = {
 };
 
 /** Releases of the pooled figures: which one is out, when the next is due, and what cutting one now would do, and why it would wait. */
-export function ReleasePanel({ status }: { status: ReleaseStatus }) {
+export function ReleasePanel({ status, display }: { status: ReleaseStatus; display: TimeDisplay }) {
   const { latest, now } = status;
+  const when = (iso: string) => formatDateTime(iso, display);
   return (
     <div className="space-y-4" data-testid="release-panel">
       <p>

@@ -10,6 +10,8 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import type { PublishedVersion, StoredResults, TrialView } from "@/lib/data/trials";
 import type { Difference } from "@/lib/trials/analysis";
+import { formatDateTime, formatDay, type TimeDisplay } from "@/lib/time/display";
+import { timeDisplayFor } from "@/lib/time/member-display";
 import { amendmentLine } from "@/lib/trials/versions";
 import { exclusionReasonLabel, exclusionReasons } from "@/lib/trials/outcome";
 import type { ArmDeviation, PlannedAndAchieved } from "@/lib/trials/report";
@@ -17,6 +19,7 @@ import { PrintButton } from "../../_components/print-button";
 import { ProtocolSummary } from "../../_components/protocol-summary";
 import { StatusBadge } from "../../_components/status-badge";
 import { ArmBoxplot, TrialForestChart } from "../../_components/trial-charts";
+import { FactorialResults } from "../../_components/factorial-results";
 
 export const metadata: Metadata = { title: "Trial results" };
 
@@ -35,6 +38,8 @@ export default async function TrialResultsPage({
   const { run } = await searchParams;
   // A run other than the one in force is for the coordinator; for anyone else getTrial offers published runs only.
   const trial = await trialOrNotFound(member, trialId, { run: run && /^\d{1,4}$/.test(run) ? Number(run) : undefined });
+  const display = await timeDisplayFor(member);
+  const day = (date: Date) => formatDay(date, display);
   const coordinator = can(member.role, "trial:manage");
   if (trial.status !== "published" && !(coordinator && trial.status === "collecting")) {
     notFound();
@@ -73,13 +78,13 @@ export default async function TrialResultsPage({
       <div className="mb-6 flex flex-wrap items-center gap-3">
         <span className="font-mono text-sm text-ink-soft">{trial.code}</span>
         <StatusBadge status={trial.status} />
-        {trial.publishedAt ? <span className="text-sm text-ink-soft">published {trial.publishedAt.toISOString().slice(0, 10)}</span> : null}
+        {trial.publishedAt ? <span className="text-sm text-ink-soft">published {day(trial.publishedAt)}</span> : null}
       </div>
       {trial.shownRun && !trial.shownRun.publication ? (
         <div className="no-print mb-6" data-testid="unpublished-run">
           <Notice tone="caution">
-            Run {trial.shownRun.run} of the analysis, made {trial.shownRun.ranAt.toISOString().slice(0, 16).replace("T", " ")} UTC. Only you
-            can see it until you publish it from the trial page.
+            Run {trial.shownRun.run} of the analysis, made {formatDateTime(trial.shownRun.ranAt, display)}. Only you can see it until you
+            publish it from the trial page.
           </Notice>
         </div>
       ) : shownVersion ? (
@@ -101,12 +106,14 @@ export default async function TrialResultsPage({
         <Notice>The analysis has not run yet.</Notice>
       ) : (
         <div className="space-y-10">
-          {shownVersion && shownVersion.version > 1 ? <AmendmentNotice version={shownVersion} before={earlier[0]} /> : null}
+          {shownVersion && shownVersion.version > 1 ? (
+            <AmendmentNotice version={shownVersion} before={earlier[0]} display={display} />
+          ) : null}
           <section
             aria-label={shownVersion ? `Version ${shownVersion.version}` : `Run ${trial.shownRun?.run ?? ""}`}
             data-testid="report-version"
           >
-            <Report trial={trial} results={results} />
+            <Report trial={trial} results={results} display={display} />
           </section>
           {earlier.map((version, index) => (
             <section
@@ -119,39 +126,39 @@ export default async function TrialResultsPage({
                 {version.version === 1 ? "The original analysis" : `Version ${version.version}`}, published {day(version.publishedAt)}
               </h2>
               <p className="mb-4 text-sm text-ink-soft">
-                {earlier[index + 1] ? <AmendmentLine version={version} before={earlier[index + 1]} /> : null}
+                {earlier[index + 1] ? <AmendmentLine version={version} before={earlier[index + 1]} display={display} /> : null}
                 Kept as it was published; the version above replaces it.
               </p>
-              <Report trial={trial} results={version.results} />
+              <Report trial={trial} results={version.results} display={display} />
             </section>
           ))}
-          <ProtocolSummary trial={trial} />
+          <ProtocolSummary trial={trial} dateStyle={display.dateStyle} />
         </div>
       )}
     </>
   );
 }
 
-const day = (date: Date) => date.toISOString().slice(0, 10);
-
 /** "Amended on …: reason. The original analysis of … is below." */
-function AmendmentLine({ version, before }: { version: PublishedVersion; before: PublishedVersion | undefined }) {
-  return <>{amendmentLine(version, before ? { version: before.version, ranAt: before.run.ranAt } : null)} </>;
+function AmendmentLine(props: { version: PublishedVersion; before: PublishedVersion | undefined; display: TimeDisplay }) {
+  const { version, before, display } = props;
+  return <>{amendmentLine(version, before ? { version: before.version, ranAt: before.run.ranAt } : null, display)} </>;
 }
 
-function AmendmentNotice({ version, before }: { version: PublishedVersion; before: PublishedVersion | undefined }) {
+function AmendmentNotice(props: { version: PublishedVersion; before: PublishedVersion | undefined; display: TimeDisplay }) {
+  const { version, before, display } = props;
   return (
     <div data-testid="amendment-notice">
       <Notice tone="caution" title={`Version ${version.version}: an amendment`}>
         <p>
-          <AmendmentLine version={version} before={before} />
+          <AmendmentLine version={version} before={before} display={display} />
         </p>
       </Notice>
     </div>
   );
 }
 
-function Report({ trial, results }: { trial: TrialView; results: StoredResults }) {
+function Report({ trial, results, display }: { trial: TrialView; results: StoredResults; display: TimeDisplay }) {
   return (
     <div className="space-y-6">
       <Card title="The answer">
@@ -173,6 +180,8 @@ function Report({ trial, results }: { trial: TrialView; results: StoredResults }
           </p>
         ))}
       </Card>
+
+      {results.factorial?.anova ? <FactorialResults factorial={results.factorial} /> : null}
 
       {results.analysis.anova ? (
         <Card title="Biological efficiency by arm, adjusted for farm">
@@ -318,7 +327,7 @@ function Report({ trial, results }: { trial: TrialView; results: StoredResults }
       </Card>
 
       <p className="text-xs text-ink-soft">
-        Analysed {results.analysedAt.slice(0, 16).replace("T", " ")} UTC.{" "}
+        Analysed {formatDateTime(results.analysedAt, display)}.{" "}
         {results.analysis.perFarmRows
           ? "Farms appear only under names drawn at random for this trial; only your own farm is marked, and only for you."
           : "The farm-by-farm charts show the pooled estimate and, for a farm taking part, its own farm only."}

@@ -1,0 +1,2 @@
+CREATE TYPE "public"."trial_design_kind" AS ENUM('one_factor', 'strain_by_method');--> statement-breakpoint
+ALTER TABLE "trials" ADD COLUMN "design_kind" "trial_design_kind" DEFAULT 'one_factor' NOT NULL;

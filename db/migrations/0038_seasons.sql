@@ -1,0 +1,5 @@
+ALTER TABLE "cooperative_settings" ADD COLUMN "season_start_month" integer DEFAULT 1 NOT NULL;--> statement-breakpoint
+ALTER TABLE "cooperative_settings" ADD COLUMN "season_start_day" integer DEFAULT 1 NOT NULL;--> statement-breakpoint
+ALTER TABLE "blocks" ADD COLUMN "season_year" integer;--> statement-breakpoint
+ALTER TABLE "cooperative_settings" ADD CONSTRAINT "season_start_every_year" CHECK ("cooperative_settings"."season_start_month" between 1 and 12 and "cooperative_settings"."season_start_day" >= 1 and "cooperative_settings"."season_start_day" <= (case "cooperative_settings"."season_start_month" when 2 then 28 when 4 then 30 when 6 then 30 when 9 then 30 when 11 then 30 else 31 end));--> statement-breakpoint
+ALTER TABLE "blocks" ADD CONSTRAINT "blocks_season_year_range" CHECK ("blocks"."season_year" between 1970 and 2099);
