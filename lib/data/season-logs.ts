@@ -1,4 +1,5 @@
 import "server-only";
+import type { UploadOutcome } from "@/lib/season-logs/outcomes";
 import { createHash } from "node:crypto";
 import { and, desc, eq, isNull, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
@@ -44,7 +45,7 @@ export interface UploadSummary {
   id: string;
   fileName: string;
   uploadedAt: string;
-  outcome: "received" | "rejected" | "committed" | "already_imported";
+  outcome: UploadOutcome;
   sizeBytes: number;
   rowCount: number;
   committedAt: string | null;

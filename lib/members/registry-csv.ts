@@ -1,4 +1,5 @@
 import Papa from "papaparse";
+import type { StrainSource } from "./lists";
 
 /** The four registries a co-op keeps, and the CSV columns each imports from. */
 export const registryKinds = ["species", "strains", "substrate_recipes", "treatments"] as const;
@@ -23,7 +24,7 @@ export const registryColumns: Record<RegistryKind, { required: string[]; optiona
 
 export type RegistryRow =
   | { kind: "species"; scientificName: string; commonName: string }
-  | { kind: "strains"; code: string; species: string; name: string; source: "culture_bank" | "wild_clone" | "own_isolate"; notes: string }
+  | { kind: "strains"; code: string; species: string; name: string; source: StrainSource; notes: string }
   | {
       kind: "substrate_recipes";
       code: string;
@@ -43,7 +44,7 @@ export interface CsvProblem {
   message: string;
 }
 
-const sourceWords: Record<string, "culture_bank" | "wild_clone" | "own_isolate"> = {
+const sourceWords: Record<string, StrainSource> = {
   culture_bank: "culture_bank",
   "culture bank": "culture_bank",
   "wild clone": "wild_clone",

@@ -4,9 +4,10 @@
  * or changed, and whether the commit stands.
  */
 import { count, listInWords, type AuditDetail } from "@/lib/audit/sentences";
+import type { UploadOutcome } from "./outcomes";
 import type { PlanCounts } from "./plan";
 
-export type UploadOutcome = "received" | "rejected" | "committed" | "already_imported";
+export type { UploadOutcome } from "./outcomes";
 
 export interface UploadCheck {
   rowCount: number;

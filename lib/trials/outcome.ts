@@ -1,6 +1,8 @@
 import { biologicalEfficiency } from "@/lib/stats";
 
-export type ContaminatedHandling = "exclude" | "count_as_zero";
+import type { ContaminatedHandling } from "./contaminated-handling";
+
+export type { ContaminatedHandling } from "./contaminated-handling";
 
 export interface TrialOutcomeProtocol {
   /** BE is counted over flushes 1..flushes. */

@@ -8,6 +8,7 @@ export {
   massUnitFromWord,
   parseMass,
   readMass,
+  displayUnitNames,
   type MassDisplay,
   type MassErrorCode,
   type MassOptions,

@@ -3,7 +3,9 @@ import { type DecimalMark, parseDecimalNumber } from "./number";
 export type MassUnit = "g" | "kg" | "lb" | "oz";
 /** The unit that applied to a mass as written: one unit, or pounds and ounces together. */
 export type MassUnitAsWritten = MassUnit | "lb+oz";
-export type MassDisplay = "metric" | "imperial";
+/** How a member reads masses (db enum display_units). */
+export const displayUnitNames = ["metric", "imperial"] as const;
+export type MassDisplay = (typeof displayUnitNames)[number];
 
 /** Grams in one avoirdupois pound, exact by definition (NIST Handbook 44, Appendix C; 1959 international yard and pound agreement). */
 export const GRAMS_PER_POUND = 453.59237;

@@ -13,6 +13,7 @@ import {
   resendInvitation,
   setFarmStatus,
 } from "@/lib/data/members";
+import { farmStatuses } from "@/lib/members/lists";
 
 const email = z.string().trim().toLowerCase().pipe(z.email("Enter an e-mail address such as name@farm.example."));
 
@@ -54,7 +55,7 @@ export const cancelInvitationAction = guardedAction("members:manage", invitation
   return { status: "ok", message: "Invitation cancelled: its link no longer works." };
 });
 
-const farmStatusSchema = z.object({ farmId: z.uuid(), status: z.enum(["active", "suspended", "removed"]) });
+const farmStatusSchema = z.object({ farmId: z.uuid(), status: z.enum(farmStatuses) });
 
 export const setFarmStatusAction = guardedAction("members:manage", farmStatusSchema, async (input, member) => {
   await setFarmStatus(member, input.farmId, input.status);

@@ -10,6 +10,7 @@ import { newPasswordSchema } from "@/lib/auth/password";
 import { changePassword, updatePreferences } from "@/lib/data/members";
 import { endEverySession } from "@/lib/data/sessions";
 import { canonicalTimeZone, dateStyleNames } from "@/lib/time/display";
+import { displayUnitNames } from "@/lib/units";
 
 const changePasswordSchema = z
   .object({
@@ -48,7 +49,7 @@ export const signOutEverywhereAction = guardedAction("account:manage", everywher
 });
 
 const preferencesSchema = z.object({
-  displayUnits: z.enum(["metric", "imperial"], "Choose metric or imperial."),
+  displayUnits: z.enum(displayUnitNames, "Choose metric or imperial."),
   notifyReminders: z
     .literal("on")
     .optional()

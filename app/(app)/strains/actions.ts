@@ -6,6 +6,7 @@ import { authorize, guardedAction, type ActionState } from "@/lib/auth/guard";
 import { createRegistryEntry, importRegistryCsv, moveRegistryEntry } from "@/lib/data/registries";
 import { isAppError } from "@/lib/errors";
 import { registryKinds } from "@/lib/members/registry-csv";
+import { strainSources, substrateTreatments, treatmentKinds } from "@/lib/members/lists";
 
 const text = (what: string, max = 120) => z.string().trim().min(1, `Fill in ${what}.`).max(max, `Keep ${what} under ${max} characters.`);
 const code = z
@@ -27,7 +28,7 @@ const entrySchema = z.discriminatedUnion("kind", [
     code,
     species: z.uuid("Choose the species."),
     name: text("the strain's name"),
-    source: z.enum(["culture_bank", "wild_clone", "own_isolate"], "Choose where the culture came from."),
+    source: z.enum(strainSources, "Choose where the culture came from."),
     notes: z.string().trim().max(500, "Keep notes under 500 characters.").default(""),
   }),
   z.object({
@@ -38,13 +39,13 @@ const entrySchema = z.discriminatedUnion("kind", [
     supplement: z.string().trim().max(120).default(""),
     supplementPercent: percent("the supplement", 100),
     targetMoisture: percent("the target moisture", 99).transform((value) => value / 100),
-    treatment: z.enum(["sterilised", "pasteurised"], "Choose sterilised or pasteurised."),
+    treatment: z.enum(substrateTreatments, "Choose sterilised or pasteurised."),
   }),
   z.object({
     kind: z.literal("treatments"),
     code,
     name: text("the name"),
-    treatmentKind: z.enum(["fruiting_method", "humidity", "other"], "Choose what kind of treatment."),
+    treatmentKind: z.enum(treatmentKinds, "Choose what kind of treatment."),
     description: z.string().trim().max(500).default(""),
   }),
 ]);

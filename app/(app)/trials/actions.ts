@@ -17,6 +17,7 @@ import {
 import { trialDesignKinds } from "@/lib/trials/design-kind";
 import { trialStatuses } from "@/lib/trials/lifecycle";
 import { timelineProblems } from "@/lib/trials/timeline";
+import { contaminatedHandlings } from "@/lib/trials/contaminated-handling";
 
 const optionalNumber = (what: string, check: z.ZodNumber) =>
   z
@@ -82,7 +83,7 @@ const trialDesignSchema = z
       .int("Flushes must be a whole number.")
       .min(1, "Count at least flush 1.")
       .max(6, "Count at most 6 flushes."),
-    contaminatedHandling: z.enum(["exclude", "count_as_zero"], "Say whether contaminated blocks are left out or count as zero."),
+    contaminatedHandling: z.enum(contaminatedHandlings, "Say whether contaminated blocks are left out or count as zero."),
     protocolNotes: z.string().trim().max(4000, "Keep protocol notes under 4000 characters."),
     enrolmentDeadline: z
       .union([z.iso.date("Give the deadline as a date, e.g. 2027-01-15."), z.literal("")])
