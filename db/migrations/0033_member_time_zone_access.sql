@@ -1,10 +1,10 @@
 -- A password-reset e-mail says until when its link works in the member's own zone and date style
 -- (users.time_zone, users.date_style; lib/time/display.ts), so the function that finds the member
--- also returns those. The body is 0002's; only the returned columns grew.
+-- also returns those. The body is 0002's, the search_path 0016's (pg_temp last); only the returned columns grew.
 DROP FUNCTION app_create_password_reset(text, text, timestamptz);--> statement-breakpoint
 CREATE FUNCTION app_create_password_reset(p_email text, p_token_hash text, p_expires_at timestamptz)
 RETURNS TABLE (user_id uuid, name text, time_zone text, date_style date_style)
-LANGUAGE plpgsql VOLATILE SECURITY DEFINER SET search_path = public AS $$
+LANGUAGE plpgsql VOLATILE SECURITY DEFINER SET search_path = pg_catalog, public, pg_temp AS $$
 #variable_conflict use_column
 DECLARE found_user users%ROWTYPE;
 BEGIN
