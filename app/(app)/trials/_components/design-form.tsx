@@ -65,6 +65,14 @@ function Errors({ name, errors }: { name: string; errors?: string[] }) {
 const toNumber = (value: string) => (value.trim() === "" ? Number.NaN : Number(value.replace(",", ".")));
 
 /** The coordinator's trial design, saved as a draft; the sample-size panel follows every keystroke. */
+const timelineFields = [
+  ["inoculationFrom", "Inoculation from"],
+  ["inoculationTo", "Inoculation to"],
+  ["fruitingFrom", "Fruiting expected from"],
+  ["fruitingTo", "Fruiting expected to"],
+  ["dataDue", "Data due"],
+] as const;
+
 export function DesignForm({ options, initial }: { options: DesignOptions; initial: DesignValues }) {
   const [state, formAction, pending] = useActionState<ActionState, FormData>(saveTrialDraftAction, { status: "idle" });
   const [speciesId, setSpeciesId] = useState(initial.speciesId);
@@ -528,35 +536,9 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
             reminder in the week before the data are due if something is still missing. Leave them empty and no farm is ever counted behind.
           </p>
           <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
-            <Field
-              label="Inoculation from"
-              name="inoculationFrom"
-              type="date"
-              defaultValue={initial.inoculationFrom}
-              errors={errors.inoculationFrom}
-            />
-            <Field
-              label="Inoculation to"
-              name="inoculationTo"
-              type="date"
-              defaultValue={initial.inoculationTo}
-              errors={errors.inoculationTo}
-            />
-            <Field
-              label="Fruiting expected from"
-              name="fruitingFrom"
-              type="date"
-              defaultValue={initial.fruitingFrom}
-              errors={errors.fruitingFrom}
-            />
-            <Field
-              label="Fruiting expected to"
-              name="fruitingTo"
-              type="date"
-              defaultValue={initial.fruitingTo}
-              errors={errors.fruitingTo}
-            />
-            <Field label="Data due" name="dataDue" type="date" defaultValue={initial.dataDue} errors={errors.dataDue} />
+            {timelineFields.map(([name, label]) => (
+              <Field key={name} label={label} name={name} type="date" defaultValue={initial[name]} errors={errors[name]} />
+            ))}
           </div>
         </Card>
         <div className="flex flex-wrap gap-3">

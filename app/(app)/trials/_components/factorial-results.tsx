@@ -5,20 +5,35 @@ const fmt = (value: number, digits = 1) => value.toFixed(digits);
 const pText = (p: number) => (p < 0.001 ? "< 0.001" : fmt(p, 3));
 const capitalised = (text: string) => text[0].toUpperCase() + text.slice(1);
 
+/** One row of a table of differences: "B − A", the difference, its interval and its adjusted p. */
+export function DifferenceRow({
+  label,
+  difference,
+  bold = false,
+}: {
+  label: string;
+  difference: { estimate: number; lower: number; upper: number; pAdjusted: number };
+  bold?: boolean;
+}) {
+  return (
+    <tr className="border-t border-oat-300">
+      <th scope="row" className={`py-2 text-left ${bold ? "" : "font-normal"}`}>
+        {label}
+      </th>
+      <td>{fmt(difference.estimate)}</td>
+      <td>
+        {fmt(difference.lower)} to {fmt(difference.upper)}
+      </td>
+      <td>{pText(difference.pAdjusted)}</td>
+    </tr>
+  );
+}
+
 function ComparisonRows({ rows }: { rows: FactorialComparison[] }) {
   return (
     <>
       {rows.map((row) => (
-        <tr key={`${row.levelId}-${row.versusId}`} className="border-t border-oat-300">
-          <th scope="row" className="py-2 text-left font-normal">
-            {row.level} − {row.versus}
-          </th>
-          <td>{fmt(row.estimate)}</td>
-          <td>
-            {fmt(row.lower)} to {fmt(row.upper)}
-          </td>
-          <td>{pText(row.pAdjusted)}</td>
-        </tr>
+        <DifferenceRow key={`${row.levelId}-${row.versusId}`} label={`${row.level} − ${row.versus}`} difference={row} />
       ))}
     </>
   );

@@ -19,7 +19,7 @@ import { PrintButton } from "../../_components/print-button";
 import { ProtocolSummary } from "../../_components/protocol-summary";
 import { StatusBadge } from "../../_components/status-badge";
 import { ArmBoxplot, TrialForestChart } from "../../_components/trial-charts";
-import { FactorialResults } from "../../_components/factorial-results";
+import { DifferenceRow, FactorialResults } from "../../_components/factorial-results";
 
 export const metadata: Metadata = { title: "Trial results" };
 
@@ -358,16 +358,7 @@ function DifferenceTable({ rows, farmAdjusted }: { rows: Difference[]; farmAdjus
         </thead>
         <tbody>
           {rows.map((row) => (
-            <tr key={`${row.arm}-${row.versus}`} className="border-t border-oat-300">
-              <th scope="row" className="py-2 text-left">
-                {row.arm} − {row.versus}
-              </th>
-              <td>{fmt(row.estimate)}</td>
-              <td>
-                {fmt(row.lower)} to {fmt(row.upper)}
-              </td>
-              <td>{pText(row.pAdjusted)}</td>
-            </tr>
+            <DifferenceRow key={`${row.arm}-${row.versus}`} label={`${row.arm} − ${row.versus}`} difference={row} bold />
           ))}
         </tbody>
       </table>
