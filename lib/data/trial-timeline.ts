@@ -5,7 +5,7 @@ import { trials } from "@/db/schema";
 import { can } from "@/lib/auth/permissions";
 import { recordAudit } from "@/lib/data/audit";
 import { type Member } from "@/lib/data/members";
-import { claimReminder, queueReminderMail } from "@/lib/data/trials";
+import { claimReminder, queueReminderMail, timelineColumns } from "@/lib/data/trials";
 import { AppError } from "@/lib/errors";
 import { todayUtc } from "@/lib/import/dates";
 import {
@@ -163,11 +163,7 @@ export async function getCoordinatorHome(member: Member, today = todayUtc()): Pr
         title: trials.title,
         status: trials.status,
         enrolmentDeadline: trials.enrolmentDeadline,
-        inoculationFrom: trials.inoculationFrom,
-        inoculationTo: trials.inoculationTo,
-        fruitingFrom: trials.fruitingFrom,
-        fruitingTo: trials.fruitingTo,
-        dataDue: trials.dataDue,
+        ...timelineColumns,
       })
       .from(trials)
       .where(inArray(trials.status, ["open", "running"]))

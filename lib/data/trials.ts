@@ -124,6 +124,15 @@ export type StoredResults = StoredTrialResults;
 // Unsubscribe links are signed with the sessions' secret, which lib/env.ts never lets be empty.
 const optOutSecret = () => env("AUTH_SECRET");
 
+/** A trial's timeline as it is read wherever a trial is (lib/trials/timeline.ts). */
+export const timelineColumns = {
+  inoculationFrom: trials.inoculationFrom,
+  inoculationTo: trials.inoculationTo,
+  fruitingFrom: trials.fruitingFrom,
+  fruitingTo: trials.fruitingTo,
+  dataDue: trials.dataDue,
+};
+
 function refuseIf(problem: string | null): void {
   if (problem) throw new AppError("conflict", problem);
 }
@@ -173,11 +182,7 @@ async function loadTrial(tx: Transaction, member: Member, trialId: string) {
       contaminatedHandling: trials.contaminatedHandling,
       protocolNotes: trials.protocolNotes,
       enrolmentDeadline: trials.enrolmentDeadline,
-      inoculationFrom: trials.inoculationFrom,
-      inoculationTo: trials.inoculationTo,
-      fruitingFrom: trials.fruitingFrom,
-      fruitingTo: trials.fruitingTo,
-      dataDue: trials.dataDue,
+      ...timelineColumns,
       smallestDifference: trials.smallestDifference,
       expectedSd: trials.expectedSd,
       plannedFarms: trials.plannedFarms,

@@ -4,6 +4,7 @@ import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
 import { useMemo } from "react";
 import { DataTable } from "@/components/ui/data-table";
+import { FoldedDetails } from "@/components/ui/folded-details";
 import type { AuditRow } from "@/lib/data/audit";
 import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 
@@ -61,20 +62,10 @@ const columnsFor = (display: TimeDisplay): ColumnDef<AuditRow, unknown>[] => [
       const details = detailsOf(row.original, display);
       if (details.length === 0) return null;
       return (
-        <details>
-          <summary className="min-h-11 cursor-pointer content-center font-semibold text-moss-700">
-            {details.length === 1 ? "1 detail" : `${details.length} details`}
-            {row.original.times > 1 ? ` (${row.original.times} times)` : ""}
-          </summary>
-          <dl className="mt-1 space-y-1">
-            {details.map((detail, index) => (
-              <div key={index}>
-                <dt className="font-semibold">{detail.label}</dt>
-                <dd className="break-words">{detail.value}</dd>
-              </div>
-            ))}
-          </dl>
-        </details>
+        <FoldedDetails
+          summary={`${details.length === 1 ? "1 detail" : `${details.length} details`}${row.original.times > 1 ? ` (${row.original.times} times)` : ""}`}
+          details={details}
+        />
       );
     },
   },

@@ -4,6 +4,7 @@ import type { ColumnDef } from "@tanstack/react-table";
 import Link from "next/link";
 import { useMemo } from "react";
 import { DataTable } from "@/components/ui/data-table";
+import { FoldedDetails } from "@/components/ui/folded-details";
 import type { UploadHistoryRow } from "@/lib/data/season-logs";
 import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 
@@ -20,19 +21,14 @@ const columnsFor = (display: TimeDisplay): ColumnDef<UploadHistoryRow, unknown>[
     header: "Checks",
     enableSorting: false,
     cell: ({ row }) => (
-      <details>
-        <summary className="min-h-11 cursor-pointer content-center font-semibold text-moss-700">
-          What the check found<span className="sr-only"> in {row.original.fileName}</span>
-        </summary>
-        <dl className="mt-1 max-w-md space-y-1">
-          {row.original.details.map((detail, index) => (
-            <div key={index}>
-              <dt className="font-semibold">{detail.label}</dt>
-              <dd className="break-words">{detail.value}</dd>
-            </div>
-          ))}
-        </dl>
-      </details>
+      <FoldedDetails
+        summary={
+          <>
+            What the check found<span className="sr-only"> in {row.original.fileName}</span>
+          </>
+        }
+        details={row.original.details}
+      />
     ),
   },
   {
