@@ -1,7 +1,7 @@
 import { NextResponse } from "next/server";
 import { guardedRoute } from "@/lib/auth/guard";
 import { createUpload, getImportSetup, listUploads, parseStored } from "@/lib/data/season-logs";
-import { withUploadSlot } from "@/lib/data/upload-limits";
+import { collectReadingGarbage, withUploadSlot } from "@/lib/data/upload-limits";
 import type { Member } from "@/lib/data/members";
 import { AppError } from "@/lib/errors";
 import { createSeasonLogParser } from "@/lib/import";
@@ -80,6 +80,7 @@ async function receive(member: Member, body: ReadableStream<Uint8Array>, declare
   if (spreadsheet === null) parser.write(content.subarray(0, size));
   const bytes = content.subarray(0, size);
   const result = spreadsheet ? await parseStored(bytes, setup, setup.remembered) : parser.end();
+  collectReadingGarbage(size);
   const view = await createUpload(member, { fileName, content: bytes, result, choices: setup.remembered });
   return NextResponse.json(view, { status: 201 });
 }

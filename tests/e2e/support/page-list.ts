@@ -64,11 +64,11 @@ export async function pageList(inspector: Pool, optOutLink: (enrolmentId: string
   };
 }
 
-/** The addresses in the signed-in member's menu, in its order. */
+/** The addresses in the signed-in member's menu, in its order (the public pages linked below it are visited signed out). */
 export async function menuOf(page: Page): Promise<string[]> {
   return page
     .getByRole("navigation", { name: "Main" })
-    .locator("a[href^='/']")
+    .locator("li a[href^='/']")
     .evaluateAll((links) => links.map((link) => link.getAttribute("href")!));
 }
 
