@@ -17,7 +17,8 @@ export function SignedInShell({ member, children }: { member: Member; children: 
         Skip to the page
       </a>
       <AppNavigation items={items} memberName={member.name} roleLabel={roleLabels[member.role]} farmName={member.farmName} />
-      <main id="main" className="mx-auto w-full max-w-6xl flex-1 px-4 py-6 sm:px-8 sm:py-10">
+      {/* min-w-0: beside the menu, a wide table scrolls in its frame instead of widening the page. */}
+      <main id="main" className="mx-auto w-full min-w-0 max-w-6xl flex-1 px-4 py-6 sm:px-8 sm:py-10">
         <QueryProvider>{children}</QueryProvider>
       </main>
     </div>
