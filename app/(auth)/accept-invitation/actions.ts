@@ -1,5 +1,6 @@
 "use server";
 
+import { AuthError } from "next-auth";
 import { redirect } from "next/navigation";
 import { z } from "zod";
 import { signIn } from "@/auth";
@@ -37,7 +38,13 @@ export async function acceptInvitationAction(_previous: ActionState, formData: F
   const outcome = await redeemAccessToken(parsed.data.token, "invitation", { name: parsed.data.name, password: parsed.data.password });
   if (outcome.status !== "accepted" && outcome.status !== "reset")
     return { status: "error", message: tokenRefusal(outcome.status, "invitation") };
-  await signIn("credentials", { email: outcome.email, password: parsed.data.password, redirect: false });
+  try {
+    await signIn("credentials", { email: outcome.email, password: parsed.data.password, redirect: false });
+  } catch (error) {
+    // The password is set either way; a sign-in refused now (too many tries from this network) is done by hand.
+    if (!(error instanceof AuthError)) throw error;
+    return { status: "ok", message: `Welcome. Your password is set: sign in as ${outcome.email}.` };
+  }
   redirect("/");
 }
 
