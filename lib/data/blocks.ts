@@ -20,6 +20,7 @@ export interface BlockRow {
   id: string;
   code: string;
   strainCode: string;
+  strainName: string;
   recipeCode: string | null;
   inoculatedOn: string | null;
   /** The season (its starting year): the one its season log named, else its inoculation date's; null with neither. */
@@ -77,6 +78,7 @@ const blockColumns = {
   id: blocks.id,
   code: blocks.code,
   strainCode: strains.code,
+  strainName: strains.name,
   recipeCode: substrateRecipes.code,
   inoculatedOn: blocks.inoculatedOn,
   season: blockSeasonYear,
@@ -95,6 +97,7 @@ type BlockSelection = {
   id: string;
   code: string;
   strainCode: string;
+  strainName: string;
   recipeCode: string | null;
   inoculatedOn: string | null;
   season: number | null;
@@ -146,6 +149,7 @@ export async function listBlocks(member: Member, filter: { season?: number | nul
       id: full.id,
       code: full.code,
       strainCode: full.strainCode,
+      strainName: full.strainName,
       recipeCode: full.recipeCode,
       inoculatedOn: full.inoculatedOn,
       season: full.season,

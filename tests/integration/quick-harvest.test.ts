@@ -143,6 +143,9 @@ describe("the quick harvest form refuses or questions what the importer would", 
   it("shows a block with no harvest yet without a biological efficiency", async () => {
     const row = (await listBlocks(asGrower)).find((block) => block.code === "QH-NEW")!;
     expect(row).toMatchObject({ flushes: 0, biologicalEfficiency: null });
+    // The strain's name comes with its code, as the register has it.
+    const { rows } = await inspector.query<{ name: string }>("select name from strains where code = $1", [row.strainCode]);
+    expect(row.strainName).toBe(rows[0].name);
   });
 
   it("asks before flush 3 with no flushes 1–2; saved anyway, the warning is kept with the harvest", async () => {

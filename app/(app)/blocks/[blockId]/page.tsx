@@ -67,7 +67,7 @@ export default async function BlockPage({
   const shownValue = (field: string, value: string | null) =>
     value === null ? "(blank)" : massFields.has(field) && Number.isFinite(Number(value)) ? formatMass(Number(value), display) : value;
   const facts = [
-    ["Strain", block.strainCode],
+    ["Strain", `${block.strainCode} · ${block.strainName}`],
     ["Substrate recipe", block.recipeCode ?? "not given"],
     ["Inoculated", block.inoculatedOn ? formatDate(block.inoculatedOn, member.dateStyle) : "not given"],
     ["Season", block.season === null ? "none (no inoculation date or season given)" : seasonLabel(block.season, seasonStart)],

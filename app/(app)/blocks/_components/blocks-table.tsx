@@ -26,7 +26,17 @@ function columnsFor(display: MassDisplay, dateStyle: DateStyle, seasonStart: Sea
         </Link>
       ),
     },
-    { accessorKey: "strainCode", header: "Strain" },
+    // The code as farms write it, the name beside it for whoever has not learnt the codes.
+    {
+      accessorFn: (block) => `${block.strainCode} ${block.strainName}`,
+      id: "strain",
+      header: "Strain",
+      cell: ({ row }) => (
+        <span>
+          {row.original.strainCode} <span className="text-ink-soft">{row.original.strainName}</span>
+        </span>
+      ),
+    },
     { accessorFn: (block) => block.recipeCode ?? "", id: "recipe", header: "Recipe" },
     {
       // Sorted and downloaded as YYYY-MM-DD; shown in the member's date style.
