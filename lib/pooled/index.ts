@@ -58,3 +58,4 @@ export { summariseOwnFarm, type OwnBlock, type OwnStrainSummary } from "./my-far
 export { ownBlocksForChart, type OwnStrainBlocks } from "./own-blocks";
 export { cooperativeSettingsSchema, lowestMinimumFarms, type CooperativeSettingsInput } from "./settings-schema";
 export { resultsInBrief } from "./in-brief";
+export { strainTableRow, type StrainTableRow } from "./strain-row";

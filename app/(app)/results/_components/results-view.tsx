@@ -8,36 +8,15 @@ import { Card } from "@/components/ui/card";
 import { DataTable } from "@/components/ui/data-table";
 import { Notice } from "@/components/ui/notice";
 import { WordsExplained } from "@/components/ui/words-explained";
-import { flushWindowLabels, flushWindows, resultsInBrief, type FlushWindow, type Published, type StrainResult } from "@/lib/pooled";
+import { flushWindowLabels, flushWindows, resultsInBrief, strainTableRow, type FlushWindow, type StrainTableRow } from "@/lib/pooled";
 import type { ReleaseInfo } from "@/lib/data/pooled-releases";
 import { usePooledResults, type PooledResultsSelection } from "@/lib/queries/pooled-results";
 import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 
-type StrainRow = Record<"strain" | "farms" | "blocks" | "efficiency" | "contamination" | "firstHarvest" | "flushProfile", string>;
+type StrainRow = StrainTableRow;
 type PairRow = Record<"comparison" | "difference" | "interval" | "p", string>;
 
-function show<T>(figure: Published<T>, format: (value: T) => string): string {
-  return figure.status === "published" ? format(figure.value) : figure.message;
-}
-
 const one = (value: number) => value.toFixed(1);
-
-function strainRow(result: StrainResult): StrainRow {
-  return {
-    strain: result.strainName,
-    farms: show(result.farms, String),
-    blocks: show(result.blocks, String),
-    efficiency: show(
-      result.efficiency,
-      (v) => `${one(v.estimate)} % (${one(v.lower)} to ${one(v.upper)})${v.adjustedForFarm ? "" : " not adjusted for farm"}`,
-    ),
-    contamination: show(result.contamination, (v) => `${v.estimate} % (${v.lower} to ${v.upper})`),
-    firstHarvest: show(result.firstHarvestDays, (v) => `${Math.round(v.mean)} days`),
-    flushProfile: show(result.flushProfile, (profile) =>
-      profile.map((share) => `${share.flush}: ${Math.round(share.meanShare * 100)} %`).join(", "),
-    ),
-  };
-}
 
 const strainColumns: ColumnDef<StrainRow, unknown>[] = [
   { id: "strain", header: "Strain", accessorKey: "strain" },
@@ -212,7 +191,7 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
         <DataTable
           caption="Strains side by side"
           columns={strainColumns}
-          rows={results.strains.map(strainRow)}
+          rows={results.strains.map(strainTableRow)}
           emptyMessage="No strains recorded."
           csvFileName={`co-op-strains-release-${page.release?.number}.csv`}
           csvConstants={releaseColumns(page.release)}
