@@ -1,3 +1,4 @@
+import { gzipSync } from "node:zlib";
 import { describe, expect, it } from "vitest";
 import { demoStrains } from "../import/generate";
 import { commitRowsOf, keepCommitRows, keptCommitRows, stagingKey } from "./commit-rows";
@@ -119,6 +120,8 @@ describe("a plan's rows as the commit writes them", () => {
     expect(keptCommitRows(kept, "key", "8:abc")).toBeNull();
     expect(keptCommitRows(kept, "other key", "7:abc")).toBeNull();
     expect(keptCommitRows(null, "key", "7:abc")).toBeNull();
+    // A copy kept in another shape (one JSON document, as an earlier version kept it) is planned again, not misread.
+    expect(keptCommitRows(gzipSync(JSON.stringify({ key: "key", marker: "7:abc", rows: {} })), "key", "7:abc")).toBeNull();
   });
 });
 

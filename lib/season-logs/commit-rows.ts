@@ -3,6 +3,7 @@ import { Readable } from "node:stream";
 import { pipeline } from "node:stream/promises";
 import { createGzip, gunzipSync } from "node:zlib";
 import { v7 as timeOrderedId } from "uuid";
+import { z } from "zod";
 import type { RegisterEntryText } from "../import/registers";
 import { seasonLogSchemaVersion } from "../import/schema";
 import { copyChunks } from "./copy-text";
@@ -178,6 +179,16 @@ export async function keepCommitRows(key: string, marker: string, rows: CommitRo
   return Buffer.concat(compressed);
 }
 
+const keptHeader = z.object({ key: z.string(), marker: z.string() });
+
+function safeJson(text: string): unknown {
+  try {
+    return JSON.parse(text);
+  } catch {
+    return null;
+  }
+}
+
 /**
  * The kept rows if they were planned under the same choices, registers and day (`key`, the
  * parse's staging key) against the same stored data (`marker`, lib/data's farm data marker);
@@ -187,8 +198,9 @@ export function keptCommitRows(kept: Buffer | null, key: string, marker: string)
   if (!kept) return null;
   const text = gunzipSync(kept);
   const headerEnd = text.indexOf(10);
-  const header = JSON.parse(text.subarray(0, headerEnd).toString("utf8")) as { key: string; marker: string };
-  if (header.key !== key || header.marker !== marker) return null;
+  // A copy in any other shape (one kept by an earlier version) is not read: the commit plans again.
+  const header = keptHeader.safeParse(headerEnd > 0 ? safeJson(text.subarray(0, headerEnd).toString("utf8")) : null);
+  if (!header.success || header.data.key !== key || header.data.marker !== marker) return null;
   const trailerStart = text.lastIndexOf(10) + 1;
   const { lengths, ...counted } = JSON.parse(text.subarray(trailerStart).toString("utf8")) as Counted & { lengths: number[] };
   let at = headerEnd + 1;
