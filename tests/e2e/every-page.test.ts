@@ -20,13 +20,19 @@ let inspector: Pool;
 let browser: BrowserContext;
 let pages: PageList;
 
-/** Opens a page, checks it at both widths and returns what was wrong, each problem prefixed with the address. */
-async function visit(page: Page, role: string, path: string): Promise<string[]> {
+/** What the page's console says about the Content Security Policy, until `stop` is called. */
+function policyConsoleErrors(page: Page): { consoleErrors: string[]; stop: () => void } {
   const consoleErrors: string[] = [];
   const listener = (message: { type(): string; text(): string }) => {
     if (message.type() === "error" && /Content Security Policy|Refused to/.test(message.text())) consoleErrors.push(message.text());
   };
   page.on("console", listener);
+  return { consoleErrors, stop: () => page.off("console", listener) };
+}
+
+/** Opens a page, checks it at both widths and returns what was wrong, each problem prefixed with the address. */
+async function visit(page: Page, role: string, path: string): Promise<string[]> {
+  const { consoleErrors, stop } = policyConsoleErrors(page);
   await page.setViewportSize({ width: 1366, height: 900 });
   const response = await page.goto(`${appUrl}${path}`, { waitUntil: "networkidle" });
   expect(response, path).not.toBeNull();
@@ -42,17 +48,13 @@ async function visit(page: Page, role: string, path: string): Promise<string[]> 
     problems.push(...(await pageLayoutProblems(page, { axe: width !== pageWidths[0] })).map((problem) => `${width}px: ${problem}`));
     await screenshot(page, screenshotName(role, path, width));
   }
-  page.off("console", listener);
+  stop();
   return [...problems, ...consoleErrors].map((problem) => `${path}: ${problem}`);
 }
 
 /** Clicks every menu link in turn, then each detail page's link from the page above it; returns what the policy reported. */
 async function clickThrough(page: Page, menu: string[], details: string[]): Promise<string[]> {
-  const consoleErrors: string[] = [];
-  const listener = (message: { type(): string; text(): string }) => {
-    if (message.type() === "error" && /Content Security Policy|Refused to/.test(message.text())) consoleErrors.push(message.text());
-  };
-  page.on("console", listener);
+  const { consoleErrors, stop } = policyConsoleErrors(page);
   const problems: string[] = [];
   const collect = async (where: string) => {
     const violations = await page.evaluate(() => (window as unknown as { cspViolations: string[] }).cspViolations.splice(0));
@@ -76,7 +78,7 @@ async function clickThrough(page: Page, menu: string[], details: string[]): Prom
     await page.waitForLoadState("networkidle");
     await collect(path);
   }
-  page.off("console", listener);
+  stop();
   return problems;
 }
 
