@@ -1,15 +1,21 @@
 /**
  * The demo co-op: an invented valley, five invented farms, one sign-in per role. Run by
- * npm start / npm test when the database is empty. Co-op-level rows go in as the owner;
- * each farm's own blocks and harvests go in through withFarmContext, as the app would.
+ * npm start / npm test when the database is empty. Co-op-level rows go in as the owner; each
+ * farm's blocks and harvests arrive as its season went: season logs written from the scenario,
+ * uploaded and committed through the app's own functions, and the last flushes by the phone form
+ * (db/seed-season-logs.ts); then every stamp moves to the working hour it stands for (db/seed-times.ts).
  */
-import { count, sql } from "drizzle-orm";
+import { count } from "drizzle-orm";
 import { drizzle } from "drizzle-orm/node-postgres";
 import { Pool } from "pg";
-import { closeDatabase, withAnalystAccess, withFarmContext } from "./client";
+import { closeDatabase, withFarmContext } from "./client";
 import * as schema from "./schema";
+import { type FarmSeason, type LogBlock, type Written, seedFarmSeasonLogs } from "./seed-season-logs";
+import { type Moment, demoDay, inTheValley, settleDemoTimes } from "./seed-times";
 import { publishDemoTrial } from "./seed-trials";
 import { hashPassword } from "@/lib/auth/password";
+import { loadMember } from "@/lib/data/members";
+import { refreshPooledStatistics } from "@/lib/data/pooled-refresh";
 import { cutSetupRelease } from "@/lib/data/pooled-releases";
 import { seededRandom, type Random } from "@/lib/random";
 
@@ -76,10 +82,10 @@ const flushShares = [0.5, 0.3, 0.14, 0.06];
 
 const gramsPer = { g: 1, kg: 1000, lb: 453.59237 } as const;
 
-function asWritten(grams: number, unit: keyof typeof gramsPer) {
+function asWritten(grams: number, unit: keyof typeof gramsPer): Written {
   const value = grams / gramsPer[unit];
   const text = unit === "g" ? value.toFixed(0) : value.toFixed(unit === "kg" ? 3 : 2);
-  return { grams: Number((Number(text) * gramsPer[unit]).toFixed(3)), asWritten: `${text} ${unit}`, unit };
+  return { grams: Number((Number(text) * gramsPer[unit]).toFixed(3)), text: `${text} ${unit}`, unit };
 }
 
 function addDays(isoDate: string, days: number): string {
@@ -88,20 +94,16 @@ function addDays(isoDate: string, days: number): string {
   return date.toISOString().slice(0, 10);
 }
 
-interface BlockPlan {
-  block: typeof schema.blocks.$inferInsert;
-  harvests: Omit<typeof schema.harvests.$inferInsert, "blockId" | "farmId">[];
-}
-
+/** One block of the scenario and all that will have happened to it by `today` (the draws' order is the scenario: keep it). */
 function planBlock(
   random: Random,
   code: string,
   farm: (typeof farmPlans)[number],
-  strain: { id: string; effect: number; species: (typeof speciesPlans)[number] },
-  ids: { farmId: string; recipeId: string; fruitingMethodId: string; trialArmId?: string },
+  strain: { code: string; effect: number; species: (typeof speciesPlans)[number] },
+  codes: { substrateCode: string; fruitingMethodCode: string; trial: LogBlock["trial"] },
   inoculatedOn: string,
   today: string,
-): BlockPlan {
+): LogBlock {
   const wet = asWritten(random.integer(2300, 2800), farm.unit);
   const moisture = Number((0.6 + random.next() * 0.05).toFixed(3));
   const dryGrams = wet.grams * (1 - moisture);
@@ -112,42 +114,35 @@ function planBlock(
   const shares = flushShares.slice(0, flushCount);
   const shareSum = shares.reduce((sum, share) => sum + share, 0);
 
-  const harvests: BlockPlan["harvests"] = [];
+  const harvests: LogBlock["harvests"] = [];
   let harvestedOn = addDays(inoculatedOn, strain.species.firstHarvestDays + random.integer(-3, 6));
   const lastFlush = contaminated ? random.integer(0, 1) : flushCount;
   for (let flush = 1; flush <= lastFlush && harvestedOn <= today; flush++) {
     const fresh = asWritten(Math.max(20, ((totalFresh * shares[flush - 1]) / shareSum) * random.normal(1, 0.08)), farm.unit);
-    harvests.push({ flush, harvestedOn, freshMassG: fresh.grams, freshMassAsWritten: fresh.asWritten, freshMassUnit: fresh.unit });
+    harvests.push({ flush, harvestedOn, fresh });
     harvestedOn = addDays(harvestedOn, random.integer(12, 18));
   }
   const finished = !contaminated && harvests.length === flushCount && harvestedOn <= today;
-  const picked = harvests.reduce((sum, harvest) => sum + harvest.freshMassG, 0);
-  // A spent block has lost what it fruited plus water and the carbon breathed out as CO2.
+  const picked = harvests.reduce((sum, harvest) => sum + harvest.fresh.grams, 0);
+  // A spent block has lost what it fruited plus water and the carbon breathed out as CO2; it is
+  // pulled and weighed when its next flush would have been due.
   const spent = finished ? asWritten(wet.grams - picked - wet.grams * (0.08 + random.next() * 0.1), farm.unit) : null;
   return {
-    block: {
-      farmId: ids.farmId,
-      code,
-      strainId: strain.id,
-      substrateRecipeId: ids.recipeId,
-      fruitingMethodId: ids.fruitingMethodId,
-      trialArmId: ids.trialArmId,
-      inoculatedOn,
-      wetMassG: wet.grams,
-      wetMassAsWritten: wet.asWritten,
-      wetMassUnit: wet.unit,
-      moisture,
-      contaminated,
-      contaminatedOn: contaminated ? addDays(inoculatedOn, random.integer(6, 20)) : null,
-      spentMassG: spent?.grams ?? null,
-      spentMassAsWritten: spent?.asWritten ?? null,
-      spentMassUnit: spent?.unit ?? null,
-    },
+    code,
+    strainCode: strain.code,
+    ...codes,
+    inoculatedOn,
+    wet,
+    moisture,
+    contaminatedOn: contaminated ? addDays(inoculatedOn, random.integer(6, 20)) : null,
+    spent,
+    spentOn: spent ? harvestedOn : null,
     harvests,
   };
 }
 
-export async function seedDemo(ownerUrl: string, today = new Date().toISOString().slice(0, 10)): Promise<void> {
+/** `today` is the scenario's last day: yesterday in the valley, so everything it did was at a working hour already past. */
+export async function seedDemo(ownerUrl: string, today = addDays(demoDay(new Date()), -1)): Promise<void> {
   const pool = new Pool({ connectionString: ownerUrl, max: 2 });
   const owner = drizzle(pool, { schema });
   try {
@@ -158,24 +153,55 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
     }
     const random = seededRandom("alder-valley-2026");
     const passwordHash = await hashPassword(demoPassword);
+    const seasonStart = addDays(today, -200);
+    // The co-op was set up in the winter before the season; farms joined over the weeks after.
+    const founded = addDays(seasonStart, -160);
+    const joinedAt = (index: number) => inTheValley(addDays(founded, 5 + 9 * index), 10 * 60 + 30 + 7 * index);
 
     await owner
       .insert(schema.cooperativeSettings)
       .values({ name: "Alder Valley Growers' Co-operative", region: "Alder Valley", minimumFarms: 3 });
     const farms = await owner
       .insert(schema.farms)
-      .values(farmPlans.map((farm) => ({ name: farm.name, region: farm.region, contactEmail: farm.manager.email })))
+      .values(
+        farmPlans.map((farm, index) => ({
+          name: farm.name,
+          region: farm.region,
+          contactEmail: farm.manager.email,
+          joinedAt: joinedAt(index),
+        })),
+      )
       .returning();
     await owner.insert(schema.users).values([
-      { email: demoSignIns[0].email, name: demoSignIns[0].name, role: "coordinator", passwordHash },
-      { email: demoSignIns[3].email, name: demoSignIns[3].name, role: "observer", passwordHash },
-      { email: demoSignIns[2].email, name: demoSignIns[2].name, role: "grower", farmId: farms[0].id, passwordHash },
+      {
+        email: demoSignIns[0].email,
+        name: demoSignIns[0].name,
+        role: "coordinator",
+        passwordHash,
+        createdAt: inTheValley(founded, 9 * 60),
+      },
+      {
+        email: demoSignIns[3].email,
+        name: demoSignIns[3].name,
+        role: "observer",
+        passwordHash,
+        createdAt: inTheValley(addDays(founded, 30), 11 * 60 + 15),
+      },
+      {
+        email: demoSignIns[2].email,
+        name: demoSignIns[2].name,
+        role: "grower",
+        farmId: farms[0].id,
+        passwordHash,
+        createdAt: inTheValley(addDays(seasonStart, -40), 8 * 60 + 45),
+      },
       ...farmPlans.map((farm, index) => ({
         email: farm.manager.email,
         name: farm.manager.name,
         role: "farm_manager" as const,
         farmId: farms[index].id,
         passwordHash,
+        createdAt: joinedAt(index),
       })),
     ]);
 
@@ -198,7 +224,7 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
     const strainByCode = new Map(
       strainPlans.map((plan, index) => [
         plan.code,
-        { id: strains[index].id, effect: plan.effect, species: speciesByKey.get(plan.species)!.plan },
+        { id: strains[index].id, code: plan.code, effect: plan.effect, species: speciesByKey.get(plan.species)!.plan },
       ]),
     );
     const [sawdustBran, sawdustSoy] = await owner
@@ -273,6 +299,7 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
           plannedFarms: 4,
           expectedLoss: 0.05,
           createdBy: coordinator?.id,
+          createdAt: inTheValley(addDays(seasonStart, -21), 10 * 60 + 40),
         },
         {
           code: "T-2026-02",
@@ -294,6 +321,7 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
           plannedFarms: 5,
           expectedLoss: 0.08,
           createdBy: coordinator?.id,
+          createdAt: inTheValley(addDays(today, -12), 9 * 60 + 50),
         },
         {
           // A draft crossing two strains with two fruiting methods, for the coordinator to open (no blocks yet).
@@ -311,6 +339,7 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
           plannedFarms: 4,
           expectedLoss: 0.05,
           createdBy: coordinator?.id,
+          createdAt: inTheValley(addDays(today, -4), 14 * 60 + 25),
         },
       ])
       .returning();
@@ -351,12 +380,13 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
     const finishedArms = trialArms.slice(0, 3);
     const trialStrainCodes = ["PO-01", "PO-02", "PO-03"] as const;
 
-    const seasonStart = addDays(today, -200);
+    const moments: Moment[] = [];
+    const seasons: FarmSeason[] = [];
     for (const [farmIndex, farm] of farmPlans.entries()) {
       const farmId = farms[farmIndex].id;
-      const manager = await owner.query.users.findFirst({ where: (users, { eq }) => eq(users.email, farm.manager.email) });
+      const managerRow = await owner.query.users.findFirst({ where: (users, { eq }) => eq(users.email, farm.manager.email) });
       const inTrial = farmIndex < 4;
-      await withFarmContext({ userId: manager!.id, farmId, role: "farm_manager" }, async (tx) => {
+      const blocks = await withFarmContext({ userId: managerRow!.id, farmId, role: "farm_manager" }, async (tx) => {
         if (inTrial) {
           const [enrolment] = await tx
             .insert(schema.trialEnrolments)
@@ -366,7 +396,8 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
               status: "accepted",
               blocksPerArm: 6,
               randomisationSeed: `T-2026-01/${farmIndex + 1}`,
-              respondedAt: new Date(),
+              invitedAt: inTheValley(addDays(seasonStart, -18), 10 * 60 + 5),
+              respondedAt: inTheValley(addDays(seasonStart, -16 + farmIndex), 13 * 60 + 20 * farmIndex),
             })
             .returning();
           const assignments = random.shuffle(Array.from({ length: 18 }, (_, index) => index % 3)).map((armIndex, sequence) => ({
@@ -381,21 +412,21 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
           await tx.insert(schema.trialBlockAssignments).values(assignments);
         }
 
-        const plans: BlockPlan[] = [];
+        const plans: LogBlock[] = [];
         let blockNumber = 0;
         for (const strain of strainPlans) {
           const blockCount = random.integer(6, 14);
           for (let index = 0; index < blockCount; index++) {
             blockNumber++;
             const inoculatedOn = addDays(seasonStart, random.integer(0, 170));
-            const recipeId = strain.species === "shiitake" ? sawdustSoy.id : sawdustBran.id;
+            const substrateCode = strain.species === "shiitake" ? sawdustSoy.code : sawdustBran.code;
             plans.push(
               planBlock(
                 random,
                 `${farm.name.slice(0, 2).toUpperCase()}-${String(blockNumber).padStart(3, "0")}`,
                 farm,
                 strainByCode.get(strain.code)!,
-                { farmId, recipeId, fruitingMethodId: slitsAcross.id },
+                { substrateCode, fruitingMethodCode: slitsAcross.code, trial: null },
                 inoculatedOn,
                 today,
               ),
@@ -412,30 +443,52 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
                 assignment.blockCode,
                 farm,
                 strainByCode.get(trialStrainCodes[arm])!,
-                { farmId, recipeId: sawdustBran.id, fruitingMethodId: slitsAcross.id, trialArmId: assignment.armId },
+                {
+                  substrateCode: sawdustBran.code,
+                  fruitingMethodCode: slitsAcross.code,
+                  trial: { code: finishedTrial.code, arm: finishedArms[arm].label },
+                },
                 addDays(seasonStart, 20),
                 today,
               ),
             );
           }
         }
-        const inserted = await tx
-          .insert(schema.blocks)
-          .values(plans.map((plan) => plan.block))
-          .returning({ id: schema.blocks.id });
-        const harvestRows = plans.flatMap((plan, index) =>
-          plan.harvests.map((harvest) => ({ ...harvest, blockId: inserted[index].id, farmId })),
-        );
-        if (harvestRows.length) await tx.insert(schema.harvests).values(harvestRows);
-        console.log(`  ${farm.name}: ${plans.length} blocks, ${harvestRows.length} harvests`);
+        return plans;
       });
+      const manager = (await loadMember(managerRow!.id))!;
+      const growerRow = await owner.query.users.findFirst({
+        where: (users, { and, eq }) => and(eq(users.farmId, farmId), eq(users.role, "grower")),
+      });
+      seasons.push({
+        farmId,
+        slug: farm.manager.email.split("@")[1].split(".")[0],
+        manager,
+        picker: growerRow ? (await loadMember(growerRow.id))! : manager,
+        blocks,
+        // A log after the spring's first flushes, one in high summer, one on the last day.
+        logDays: [addDays(seasonStart, 70 + 2 * farmIndex), addDays(seasonStart, 135 + 2 * farmIndex), today],
+        firstFileRejected: farmIndex === 1,
+        // Fernbrook's grower types each flush into the phone form as it is picked, since the summer log.
+        phoneFrom: growerRow ? addDays(seasonStart, 136 + 2 * farmIndex) : null,
+        random: seededRandom(`alder-valley-2026/times/${farmIndex + 1}`),
+      });
+    }
+    // Each farm's files go in turn, the farms side by side: they share nothing but the registers.
+    const sent = await Promise.all(seasons.map((season) => seedFarmSeasonLogs(season)));
+    for (const [index, { moments: made, summary }] of sent.entries()) {
+      moments.push(...made);
+      const { blocks } = seasons[index];
+      const harvestCount = blocks.reduce((sum, block) => sum + block.harvests.length, 0);
+      console.log(`  ${farmPlans[index].name}: ${blocks.length} blocks, ${harvestCount} harvests (${summary})`);
     }
     // The co-op's pooled statistics, as the analyst role computes them after each upload, and
     // their first release, so the demo's Co-op results have figures to show.
-    await withAnalystAccess((tx) => tx.execute(sql`select pooled_refresh_all()`));
+    for (const farm of farms) await refreshPooledStatistics(farm.id);
     const release = await cutSetupRelease();
     console.log(`  pooled figures: ${release.outcome === "cut" ? `release ${release.release.number}` : release.outcome}`);
-    await publishDemoTrial(owner, "T-2026-01", new Date(`${today}T09:00:00Z`));
+    moments.push(...(await publishDemoTrial(owner, "T-2026-01", inTheValley(addDays(today, -40), 14 * 60 + 10))));
+    await settleDemoTimes(owner, moments);
   } finally {
     await pool.end();
   }
