@@ -24,7 +24,7 @@ export interface Written {
   unit: "g" | "kg" | "lb";
 }
 
-export interface LogHarvest {
+interface LogHarvest {
   flush: number;
   harvestedOn: string;
   fresh: Written;
@@ -74,7 +74,7 @@ const columns = [
 ].map((name) => ({ key: name, header: name }));
 
 /** The farm's season log as it stood at the end of `asOf`: one row per flush picked by then, one for a block not yet fruiting. */
-export function seasonLogText(blocks: readonly LogBlock[], asOf: string, slips: readonly Slip[] = []): string {
+function seasonLogText(blocks: readonly LogBlock[], asOf: string, slips: readonly Slip[] = []): string {
   const rows: Record<string, string>[] = [];
   for (const block of blocks) {
     if (block.inoculatedOn > asOf) continue;
@@ -135,7 +135,6 @@ async function sendSeasonLog(member: Member, fileName: string, text: string) {
 }
 
 export interface FarmSeason {
-  farmId: string;
   /** Used in the files' names: "hollowoak". */
   slug: string;
   manager: Member;

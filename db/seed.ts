@@ -461,7 +461,6 @@ export async function seedDemo(ownerUrl: string, today = addDays(demoDay(new Dat
         where: (users, { and, eq }) => and(eq(users.farmId, farmId), eq(users.role, "grower")),
       });
       seasons.push({
-        farmId,
         slug: farm.manager.email.split("@")[1].split(".")[0],
         manager,
         picker: growerRow ? (await loadMember(growerRow.id))! : manager,
