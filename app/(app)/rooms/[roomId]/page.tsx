@@ -54,7 +54,8 @@ export default async function RoomPage({
         <ButtonLink href="/rooms" variant="secondary">
           All rooms
         </ButtonLink>
-        <ButtonLink href={`/rooms/${room.id}/climate`} variant="secondary">
+        {/* Not prefetched: until the climate page lands, a prefetch of it would log a 404. */}
+        <ButtonLink href={`/rooms/${room.id}/climate`} variant="secondary" prefetch={false}>
           Climate log
         </ButtonLink>
       </PageHeader>
