@@ -53,6 +53,9 @@ const stamped: Record<string, string[]> = {
   harvests: ["created_at", "updated_at"],
   value_changes: ["changed_at"],
   farm_import_preferences: ["updated_at"],
+  fruiting_rooms: ["created_at"],
+  room_regimes: ["created_at"],
+  block_room_moves: ["created_at"],
 };
 
 /**

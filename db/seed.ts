@@ -481,6 +481,8 @@ export async function seedDemo(ownerUrl: string, today = addDays(demoDay(new Dat
       const harvestCount = blocks.reduce((sum, block) => sum + block.harvests.length, 0);
       console.log(`  ${farmPlans[index].name}: ${blocks.length} blocks, ${harvestCount} harvests (${summary})`);
     }
+    // Rooms before the statistics, so the first release already compares climate regimes.
+    moments.push(...(await (await import("./seed-rooms")).seedDemoRooms(owner, today)));
     // The co-op's pooled statistics, as the analyst role computes them after each upload, and
     // their first release, so the demo's Co-op results have figures to show.
     for (const farm of farms) await refreshPooledStatistics(farm.id);
