@@ -16,6 +16,7 @@ import {
 import { uploadOutcomes } from "../../lib/season-logs/outcomes";
 import { displayUnitNames } from "../../lib/units/mass";
 import { mailOutcomes } from "../../lib/mail/outcomes";
+import { humidityModes, roomFreshAirs, roomKinds } from "../../lib/rooms/lists";
 
 export const memberRole = pgEnum("member_role", memberRoles);
 export const farmStatus = pgEnum("farm_status", farmStatuses);
@@ -32,3 +33,6 @@ export const displayUnits = pgEnum("display_units", displayUnitNames);
 export const dateStyle = pgEnum("date_style", dateStyleNames);
 export const tokenPurpose = pgEnum("token_purpose", tokenPurposes);
 export const mailOutcome = pgEnum("mail_outcome", mailOutcomes);
+export const roomKind = pgEnum("room_kind", roomKinds);
+export const roomFreshAir = pgEnum("room_fresh_air", roomFreshAirs);
+export const humidityMode = pgEnum("humidity_mode", humidityModes);

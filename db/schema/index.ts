@@ -7,3 +7,4 @@ export * from "./audit";
 export * from "./mail";
 export * from "./pooled";
 export * from "./releases";
+export * from "./rooms";

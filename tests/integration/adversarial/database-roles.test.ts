@@ -53,6 +53,18 @@ describe("the pooled-analysis role", () => {
       expect(await refusal(`select ${column} from harvests limit 1`), column).toMatch(/permission denied for table harvests/);
     }
     expect(await refusal("select * from blocks limit 1")).toMatch(/permission denied/);
+    // Rooms (0041): never a room's name, a note, who recorded it or which upload said so.
+    for (const column of ["name", "notes", "created_at"]) {
+      expect(await refusal(`select ${column} from fruiting_rooms limit 1`), column).toMatch(/permission denied for table fruiting_rooms/);
+    }
+    for (const column of ["notes", "created_by", "created_at"]) {
+      expect(await refusal(`select ${column} from room_regimes limit 1`), column).toMatch(/permission denied for table room_regimes/);
+    }
+    for (const column of ["upload_id", "created_by", "created_at"]) {
+      expect(await refusal(`select ${column} from block_room_moves limit 1`), column).toMatch(
+        /permission denied for table block_room_moves/,
+      );
+    }
     for (const table of ["uploads", "value_changes", "audit_events", "users", "access_tokens", "farm_import_preferences"]) {
       expect(await refusal(`select count(*) from ${table}`), table).toMatch(/permission denied/);
     }
