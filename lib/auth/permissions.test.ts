@@ -10,6 +10,7 @@ const expected: Record<Action, string[]> = {
   "registry:read": ["coordinator", "farm_manager", "grower", "observer"],
   "farm-data:read": ["farm_manager", "grower"],
   "season-log:upload": ["farm_manager", "grower"],
+  "climate-log:upload": ["farm_manager", "grower"],
   "harvest:record": ["farm_manager", "grower"],
   "farm-data:correct": ["farm_manager", "grower"],
   "registry:propose": ["farm_manager", "grower"],

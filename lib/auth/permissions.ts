@@ -24,6 +24,7 @@ export const permissions = {
 
   "farm-data:read": farmPeople,
   "season-log:upload": farmPeople,
+  "climate-log:upload": farmPeople,
   "harvest:record": farmPeople,
   // Editing or deleting a harvest, editing a block's values, undoing a season-log commit.
   "farm-data:correct": farmPeople,
