@@ -91,7 +91,9 @@ describe("gaps in the log", () => {
     expect(thinner.enough).toBe(false);
     expect(thinner.wetHoursPerDay).toBeNull();
     expect(summaryInWords(thinner)).toBe("The log covers 75 % of this window; figures need at least 80 %.");
-    expect(summariseWindow([], start, start + hour).coverage).toBe(0);
+    const none = summariseWindow([], start, start + hour);
+    expect(none.coverage).toBe(0);
+    expect(summaryInWords(none)).toBe("The room's log has no readings in this window.");
   });
 });
 

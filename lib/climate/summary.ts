@@ -188,6 +188,7 @@ function hours(value: number): string {
 
 /** The summary in a grower's words: "19 h a day above 90 % RH; driest 62 %; longest dry spell (under 85 % RH) 5 h; …". */
 export function summaryInWords(summary: WindowSummary): string {
+  if (summary.coverage === 0) return "The room's log has no readings in this window.";
   if (!summary.enough)
     return `The log covers ${Math.round(summary.coverage * 100)} % of this window; figures need at least ${minimumCoverage * 100} %.`;
   const parts: string[] = [];

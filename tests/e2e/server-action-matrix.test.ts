@@ -20,6 +20,7 @@ const matrix: Record<string, Action | "public"> = {
   "app/(app)/blocks/[blockId]/actions.ts#correctBlockAction": "farm-data:correct",
   "app/(app)/blocks/[blockId]/actions.ts#correctHarvestAction": "farm-data:correct",
   "app/(app)/season-logs/[uploadId]/undo/actions.ts#undoCommitAction": "farm-data:correct",
+  "app/(app)/rooms/[roomId]/climate/actions.ts#uploadClimateLogAction": "climate-log:upload",
   "app/(app)/farm-people/actions.ts#inviteGrowerAction": "farm-staff:manage",
   "app/(app)/farm-people/actions.ts#removeGrowerAction": "farm-staff:manage",
   "app/(app)/farm-people/actions.ts#transferManagerAction": "farm-staff:manage",
@@ -73,7 +74,7 @@ interface BuiltAction {
 }
 
 /** The build's own list of server actions, with the page each one is posted to. */
-function builtActions(ids: { trialId: string; blockId: string; uploadId: string }): BuiltAction[] {
+function builtActions(ids: { trialId: string; blockId: string; uploadId: string; roomId: string }): BuiltAction[] {
   const manifest = JSON.parse(
     readFileSync(path.join(process.env.NEXT_DIST_DIR ?? ".next", "server", "server-reference-manifest.json"), "utf8"),
   ) as {
@@ -87,7 +88,8 @@ function builtActions(ids: { trialId: string; blockId: string; uploadId: string 
       .replace(/\/page$/, "")
       .replace("[trialId]", ids.trialId)
       .replace("[blockId]", ids.blockId)
-      .replace("[uploadId]", ids.uploadId);
+      .replace("[uploadId]", ids.uploadId)
+      .replace("[roomId]", ids.roomId);
     return { id, key: `${entry.filename}#${entry.exportedName}`, page: page || "/" };
   });
 }
@@ -126,7 +128,9 @@ beforeAll(async () => {
   const blockId = (await inspector.query<{ id: string }>(`select id from blocks where farm_id = ${fernbrook} limit 1`)).rows[0].id;
   const uploadId =
     (await inspector.query<{ id: string }>(`select id from uploads where farm_id = ${fernbrook} limit 1`)).rows[0]?.id ?? blockId;
-  actions = builtActions({ trialId, blockId, uploadId });
+  const roomId =
+    (await inspector.query<{ id: string }>(`select id from fruiting_rooms where farm_id = ${fernbrook} limit 1`)).rows[0]?.id ?? blockId;
+  actions = builtActions({ trialId, blockId, uploadId, roomId });
 });
 
 afterAll(async () => {
