@@ -5,6 +5,7 @@
  * was in the room "from the start of fruiting" (a move without a date) has no known start: the
  * records say when the block was inoculated, not when it began to fruit, so no window is made up.
  */
+import { roomOn } from "../rooms/regimes";
 import { instantsAt } from "../time/wall-clock";
 
 export interface WindowMove {
@@ -30,17 +31,6 @@ export interface FlushWindow {
   startsWith: "previous harvest" | "move into the room" | null;
 }
 
-/** The move in force on a day: the latest dated one on or before it, else the undated one. */
-function moveOn(moves: readonly WindowMove[], isoDate: string): WindowMove | null {
-  let dated: WindowMove | null = null;
-  let fromStart: WindowMove | null = null;
-  for (const move of moves) {
-    if (move.movedOn === null) fromStart = move;
-    else if (move.movedOn <= isoDate && (dated === null || move.movedOn > (dated.movedOn ?? ""))) dated = move;
-  }
-  return dated ?? fromStart;
-}
-
 export function nextDay(isoDate: string): string {
   const day = new Date(`${isoDate}T00:00:00Z`);
   day.setUTCDate(day.getUTCDate() + 1);
@@ -55,7 +45,7 @@ export function flushWindows(roomId: string, blocks: readonly WindowBlock[]): Fl
       a.harvestedOn < b.harvestedOn ? -1 : a.harvestedOn > b.harvestedOn ? 1 : a.flush - b.flush,
     );
     harvests.forEach((harvest, index) => {
-      const move = moveOn(block.moves, harvest.harvestedOn);
+      const move = roomOn(block.moves, harvest.harvestedOn);
       if (move === null || move.roomId !== roomId) return;
       const previous = index > 0 ? harvests[index - 1].harvestedOn : null;
       const afterPrevious = previous === null ? null : nextDay(previous);

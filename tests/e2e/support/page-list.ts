@@ -30,7 +30,7 @@ export async function pageList(inspector: Pool, optOutLink: (enrolmentId: string
   const published = await one("select id from trials where status = 'published' order by code limit 1");
   const draft = await one("select id from trials where status = 'draft' order by code limit 1");
   const enrolment = await one("select id from trial_enrolments where farm_id = $1 order by id limit 1", [fernbrook]);
-  // A room's pages need a room: the demo co-op's first, while it has one.
+  // The demo's rooms (db/seed-rooms.ts); /rooms itself is in the menu.
   const room = await one("select id from fruiting_rooms where farm_id = $1 order by name limit 1", [fernbrook]);
   const farm = [
     "/blocks/harvest",
@@ -39,7 +39,8 @@ export async function pageList(inspector: Pool, optOutLink: (enrolmentId: string
     `/trials/${published}`,
     `/trials/${published}/results`,
     `/trials/${published}/labels`,
-    ...(room ? [`/rooms/${room}/climate`] : []),
+    `/rooms/${room}`,
+    `/rooms/${room}/climate`,
   ];
   return {
     publicPages: [
