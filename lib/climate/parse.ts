@@ -561,37 +561,35 @@ export function parseClimateLog(input: Uint8Array | string, options: ClimatePars
     chosen.push(next);
     previous = next;
   }
+  // Each row's instant: the chosen one in a file in time order, else its only one (null: refused above or here).
+  const instantOf = (candidate: Candidate, index: number): number | null =>
+    chronological ? (chosen[index] ?? null) : candidate.instants.length === 1 ? candidate.instants[0] : null;
   const readings: ClimateReading[] = [];
-  candidates.forEach((candidate, index) => {
-    if (candidate.instants.length === 0) return;
-    let takenAt: number;
-    if (chronological) takenAt = chosen[index] as number;
-    else if (candidate.instants.length === 1) takenAt = candidate.instants[0];
-    else {
-      refuse(
-        candidate.line,
-        "repeated_hour_out_of_order",
-        `Line ${candidate.line}: "${candidate.written}" happened twice in ${options.timeZone} (the clocks went back that night), and the file is not in time order, so which one is meant cannot be told. Sort the file by time as the logger wrote it, or remove the row.`,
-      );
-      return;
-    }
-    readings.push({ takenAt, ...candidate.values });
-  });
-
-  readings.sort((a, b) => a.takenAt - b.takenAt);
   const lineAt = new Map<number, number>();
   candidates.forEach((candidate, index) => {
-    const at = chronological ? chosen[index] : candidate.instants.length === 1 ? candidate.instants[0] : null;
-    if (at === null || at === undefined) return;
-    const earlier = lineAt.get(at);
-    if (earlier !== undefined)
+    const takenAt = instantOf(candidate, index);
+    if (takenAt === null) {
+      if (candidate.instants.length > 1)
+        refuse(
+          candidate.line,
+          "repeated_hour_out_of_order",
+          `Line ${candidate.line}: "${candidate.written}" happened twice in ${options.timeZone} (the clocks went back that night), and the file is not in time order, so which one is meant cannot be told. Sort the file by time as the logger wrote it, or remove the row.`,
+        );
+      return;
+    }
+    const earlier = lineAt.get(takenAt);
+    if (earlier !== undefined) {
       refuse(
         candidate.line,
         "same_time_twice",
         `Line ${candidate.line}: "${candidate.written}" is the same moment as line ${earlier}. Keep one of the two rows.`,
       );
-    else lineAt.set(at, candidate.line);
+      return;
+    }
+    lineAt.set(takenAt, candidate.line);
+    readings.push({ takenAt, ...candidate.values });
   });
+  readings.sort((a, b) => a.takenAt - b.takenAt);
 
   const shape = [
     describeDelimiter(delimiter),
