@@ -8,3 +8,4 @@ export * from "./mail";
 export * from "./pooled";
 export * from "./releases";
 export * from "./rooms";
+export * from "./climate";

@@ -48,6 +48,7 @@ export const auditActions = [
   "season-log.uploaded",
   "season-log.committed",
   "season-log.undone",
+  "climate-log.uploaded",
   "trial.created",
   "trial.draft_saved",
   "trial.status_changed",

@@ -22,7 +22,7 @@ const writers = ["lib", "db", "app", "scripts"]
 
 // The namespaces of the log's action names; a quoted word of this shape in a writer is an action it records.
 const actionLiteral =
-  /["'](sign-in(?:\.[a-z_-]+)?|(?:sessions|password|preferences|member|farm|cooperative-settings|registry|pooled-release|harvest|block|room|season-log|trial)\.[a-z_-]+)["']/g;
+  /["'](sign-in(?:\.[a-z_-]+)?|(?:sessions|password|preferences|member|farm|cooperative-settings|registry|pooled-release|harvest|block|room|season-log|climate-log|trial)\.[a-z_-]+)["']/g;
 const recorded = new Set(writers.flatMap(({ source }) => [...source.matchAll(actionLiteral)].map((match) => match[1])));
 
 describe("every recorded action has a sentence", () => {
@@ -71,6 +71,21 @@ describe("plurals and lists", () => {
     expect(listInWords(["a"])).toBe("a");
     expect(listInWords(["a", "b"])).toBe("a and b");
     expect(listInWords(["a", "b", "c"])).toBe("a, b and c");
+  });
+});
+
+describe("climate logs", () => {
+  it("says how many readings were stored and how many an earlier log already covered", () => {
+    const described = describeAuditEvent({
+      action: "climate-log.uploaded",
+      subject: "tub-may.csv",
+      actorLabel: "Tomas",
+      details: { roomId: "r1", roomName: "Tub 1", readings: 288, skippedReadings: 12, shape: "comma-separated", timeZone: "Europe/Berlin" },
+    });
+    expect(described.sentence).toBe(
+      "Tomas uploaded the climate log 'tub-may.csv' for the room 'Tub 1': 288 readings, leaving out 12 readings in times the room's earlier logs already cover.",
+    );
+    expect(described.link).toEqual({ href: "/rooms/r1/climate", label: "The room's climate" });
   });
 });
 

@@ -379,6 +379,19 @@ export const auditSentences: Record<AuditAction, Describe> = {
       link: uploadLink(details, subject),
     };
   },
+  "climate-log.uploaded": (who, subject, details) => {
+    const skipped = number(details.skippedReadings);
+    return {
+      sentence: `${who} uploaded the climate log '${subject}' for the room '${text(details.roomName)}': ${count(number(details.readings), "reading")}${
+        skipped ? `, leaving out ${count(skipped, "reading")} in times the room's earlier logs already cover` : ""
+      }.`,
+      details: [
+        { label: "Logger layout", value: text(details.shape) },
+        { label: "Logger's clock", value: text(details.timeZone) },
+      ],
+      link: text(details.roomId) ? { href: `/rooms/${text(details.roomId)}/climate`, label: "The room's climate" } : undefined,
+    };
+  },
   "season-log.committed": (who, subject, details) => {
     const parts = [
       count(number(details.newBlocks), "new block"),

@@ -10,6 +10,7 @@ const expected: Record<Action, string[]> = {
   "registry:read": ["coordinator", "farm_manager", "grower", "observer"],
   "farm-data:read": ["farm_manager", "grower"],
   "season-log:upload": ["farm_manager", "grower"],
+  "climate-log:upload": ["farm_manager", "grower"],
   "harvest:record": ["farm_manager", "grower"],
   // Issue #18: growers record rooms, regimes and moves; the manager alone renames or retires a room.
   "rooms:record": ["farm_manager", "grower"],

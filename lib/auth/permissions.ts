@@ -24,6 +24,7 @@ export const permissions = {
 
   "farm-data:read": farmPeople,
   "season-log:upload": farmPeople,
+  "climate-log:upload": farmPeople,
   "harvest:record": farmPeople,
   // Adding a room, a regime change, a block's move: recorded by whoever does the work, like a harvest.
   "rooms:record": farmPeople,

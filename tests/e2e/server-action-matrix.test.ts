@@ -25,6 +25,7 @@ const matrix: Record<string, Action | "public"> = {
   "app/(app)/rooms/actions.ts#editRoomAction": "rooms:manage",
   "app/(app)/rooms/actions.ts#retireRoomAction": "rooms:manage",
   "app/(app)/season-logs/[uploadId]/undo/actions.ts#undoCommitAction": "farm-data:correct",
+  "app/(app)/rooms/[roomId]/climate/actions.ts#uploadClimateLogAction": "climate-log:upload",
   "app/(app)/farm-people/actions.ts#inviteGrowerAction": "farm-staff:manage",
   "app/(app)/farm-people/actions.ts#removeGrowerAction": "farm-staff:manage",
   "app/(app)/farm-people/actions.ts#transferManagerAction": "farm-staff:manage",
@@ -78,7 +79,7 @@ interface BuiltAction {
 }
 
 /** The build's own list of server actions, with the page each one is posted to. */
-function builtActions(ids: { trialId: string; blockId: string; uploadId: string }): BuiltAction[] {
+function builtActions(ids: { trialId: string; blockId: string; uploadId: string; roomId: string }): BuiltAction[] {
   const manifest = JSON.parse(
     readFileSync(path.join(process.env.NEXT_DIST_DIR ?? ".next", "server", "server-reference-manifest.json"), "utf8"),
   ) as {
@@ -92,7 +93,8 @@ function builtActions(ids: { trialId: string; blockId: string; uploadId: string 
       .replace(/\/page$/, "")
       .replace("[trialId]", ids.trialId)
       .replace("[blockId]", ids.blockId)
-      .replace("[uploadId]", ids.uploadId);
+      .replace("[uploadId]", ids.uploadId)
+      .replace("[roomId]", ids.roomId);
     return { id, key: `${entry.filename}#${entry.exportedName}`, page: page || "/" };
   });
 }
@@ -131,7 +133,9 @@ beforeAll(async () => {
   const blockId = (await inspector.query<{ id: string }>(`select id from blocks where farm_id = ${fernbrook} limit 1`)).rows[0].id;
   const uploadId =
     (await inspector.query<{ id: string }>(`select id from uploads where farm_id = ${fernbrook} limit 1`)).rows[0]?.id ?? blockId;
-  actions = builtActions({ trialId, blockId, uploadId });
+  const roomId =
+    (await inspector.query<{ id: string }>(`select id from fruiting_rooms where farm_id = ${fernbrook} limit 1`)).rows[0]?.id ?? blockId;
+  actions = builtActions({ trialId, blockId, uploadId, roomId });
 });
 
 afterAll(async () => {

@@ -40,6 +40,7 @@ export async function pageList(inspector: Pool, optOutLink: (enrolmentId: string
     `/trials/${published}/results`,
     `/trials/${published}/labels`,
     `/rooms/${room}`,
+    `/rooms/${room}/climate`,
   ];
   return {
     publicPages: [
