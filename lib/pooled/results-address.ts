@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { earliestSeason, latestSeason, readSeason } from "@/lib/seasons";
+import { seasonInAddressSchema } from "@/lib/seasons";
 import { flushWindows, type FlushWindow } from "./types";
 
 /** What a Co-op results view is: every filter, as it stands in the page's address and in GET /api/results. */
@@ -30,21 +30,7 @@ export const resultsSelectionSchema = z.object({
     (value) => blankIsAbsent(value) ?? "all",
     z.enum(flushWindows, "The flushes counted in the address must be all, 1-2 or 1 (all flushes, the first two, or the first)."),
   ),
-  season: z.preprocess(
-    blankIsAbsent,
-    z
-      .string()
-      .transform((text, context) => {
-        const reading = readSeason(text);
-        if (reading?.ok) return reading.seasonYear;
-        context.addIssue({
-          code: "custom",
-          message: `The season in the address, "${text}", is not a season: write the year it starts, such as 2026, or the two years it spans, such as 2026/27 (${earliestSeason} to ${latestSeason}).`,
-        });
-        return z.NEVER;
-      })
-      .optional(),
-  ),
+  season: seasonInAddressSchema,
 });
 
 export type ResultsAddressReading =
