@@ -216,7 +216,7 @@ function ResultsBody({ page, results, showsOwnFarm }: { page: PooledResultsPage;
       </section>
 
       {page.season !== null && page.seasons ? (
-        <SeasonsCard breakdown={page.seasons} start={page.seasonStart} only={page.season} releaseNumber={page.release?.number} />
+        <SeasonsCard breakdown={page.seasons} start={page.seasonStart} only={page.season} release={page.release} />
       ) : null}
 
       <Card title="Strains side by side">
@@ -246,7 +246,7 @@ function ResultsBody({ page, results, showsOwnFarm }: { page: PooledResultsPage;
       </Card>
 
       {page.season === null && page.seasons ? (
-        <SeasonsCard breakdown={page.seasons} start={page.seasonStart} only={null} releaseNumber={page.release?.number} />
+        <SeasonsCard breakdown={page.seasons} start={page.seasonStart} only={null} release={page.release} />
       ) : null}
 
       <Card title="Spread of block biological efficiency">
@@ -331,8 +331,8 @@ function ResultsBody({ page, results, showsOwnFarm }: { page: PooledResultsPage;
  * Each strain's BE season by season (or in the chosen season), every recipe and fruiting method
  * together. A strain whose seasons are withheld says why once, in its first cell.
  */
-function SeasonsCard(props: { breakdown: SeasonBreakdown; start: SeasonStart; only: number | null; releaseNumber?: number }) {
-  const { breakdown, start, only, releaseNumber } = props;
+function SeasonsCard(props: { breakdown: SeasonBreakdown; start: SeasonStart; only: number | null; release: ReleaseInfo | null }) {
+  const { breakdown, start, only, release } = props;
   const seasons = only === null ? breakdown.seasons : [only];
   const title = only === null ? "BE season by season" : `BE in season ${seasonLabel(only, start)}`;
   const columns: ColumnDef<Record<string, string>, unknown>[] = [
@@ -362,7 +362,8 @@ function SeasonsCard(props: { breakdown: SeasonBreakdown; start: SeasonStart; on
         columns={columns}
         rows={rows}
         emptyMessage={`No strain has a BE published season by season yet: each needs at least ${breakdown.minimumFarms} farms in every season it was grown.`}
-        csvFileName={`co-op-be-by-season-release-${releaseNumber}.csv`}
+        csvFileName={`co-op-be-by-season-release-${release?.number}.csv`}
+        csvConstants={releaseColumns(release)}
       />
       <p className="mt-2 text-xs text-ink-soft">
         Mean BE of the season&apos;s blocks under the flushes counted above, every substrate recipe and fruiting method together, not
