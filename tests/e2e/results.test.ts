@@ -104,7 +104,7 @@ describe("Co-op results in the browser", () => {
 
     // BE season by season, then one season: the address keeps it and the page leads with that season.
     await page.getByRole("table", { name: "BE season by season" }).waitFor();
-    const seasons = await page.getByLabel("Season", { exact: true }).locator("option").allTextContents();
+    const seasons = await results.select("Season").locator("option").allTextContents();
     expect(seasons[0]).toBe("All seasons");
     expect(seasons.length).toBeGreaterThan(1);
     await results.chooseSeason(seasons[1]);

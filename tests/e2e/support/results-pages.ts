@@ -1,6 +1,16 @@
 import type { Page } from "playwright-core";
 import { appUrl } from "./browser";
 
+/** Each filter of the results form, by its label, and the name its select has in the form. */
+const filters = {
+  Species: "species",
+  "Substrate recipe": "recipe",
+  "Fruiting method": "method",
+  "Flushes counted": "window",
+  Season: "season",
+} as const;
+type Filter = keyof typeof filters;
+
 /** The Co-op results page, as a member uses it. Every choice is a new address, rendered by the server. */
 export class ResultsPage {
   constructor(readonly page: Page) {}
@@ -15,8 +25,13 @@ export class ResultsPage {
   }
 
   /** Picks an option of one of the filters and waits for the address, and with it the view, to change. */
-  private async choose(filter: string, label: string): Promise<void> {
-    const select = this.page.getByLabel(filter, { exact: true });
+  /** A filter's select (by name: a table's own search box may also have "season" in its label). */
+  select(filter: Filter) {
+    return this.page.getByRole("form", { name: "Choose what to compare" }).locator(`select[name=${filters[filter]}]`);
+  }
+
+  private async choose(filter: Filter, label: string): Promise<void> {
+    const select = this.select(filter);
     const current = await select.evaluate((element) => (element as HTMLSelectElement).selectedOptions[0]?.textContent ?? "");
     if (current === label) return;
     const before = this.page.url();
@@ -26,7 +41,7 @@ export class ResultsPage {
   }
 
   async chooseSpecies(name: RegExp): Promise<void> {
-    const options = await this.page.getByLabel("Species", { exact: true }).locator("option").allTextContents();
+    const options = await this.select("Species").locator("option").allTextContents();
     const label = options.find((option) => name.test(option));
     if (!label) throw new Error(`no species matching ${name} in ${options.join(", ")}`);
     await this.choose("Species", label);
@@ -43,10 +58,10 @@ export class ResultsPage {
   /** The option each filter shows, by the filter's label. */
   async chosen(): Promise<Record<string, string>> {
     const chosen: Record<string, string> = {};
-    for (const filter of ["Species", "Substrate recipe", "Fruiting method", "Flushes counted", "Season"]) {
-      chosen[filter] = await this.page
-        .getByLabel(filter, { exact: true })
-        .evaluate((element) => (element as HTMLSelectElement).selectedOptions[0]?.textContent ?? "");
+    for (const filter of Object.keys(filters) as Filter[]) {
+      chosen[filter] = await this.select(filter).evaluate(
+        (element) => (element as HTMLSelectElement).selectedOptions[0]?.textContent ?? "",
+      );
     }
     return chosen;
   }
