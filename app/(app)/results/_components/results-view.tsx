@@ -344,7 +344,17 @@ function SeasonsCard(props: { breakdown: SeasonBreakdown; start: SeasonStart; on
     })),
   ];
   const rows = breakdown.strains
-    .map((strain) => ({ ...strain, seasons: strain.seasons.filter((entry) => seasons.includes(entry.seasonYear)) }))
+    .map((strain) => ({
+      ...strain,
+      // A season no strain has published (one chosen in the address) still reads "withheld" on a withheld strain's row.
+      seasons: seasons.map(
+        (seasonYear) =>
+          strain.seasons.find((entry) => entry.seasonYear === seasonYear) ?? {
+            seasonYear,
+            efficiency: strain.withheld ? { status: "suppressed" as const, message: "withheld" } : null,
+          },
+      ),
+    }))
     .filter((strain) => strain.withheld !== null || strain.seasons.some((entry) => entry.efficiency !== null))
     .map(seasonTableRow);
   return (
