@@ -131,6 +131,29 @@ export function seasonFromSearchParam(value: string | string[] | undefined): num
   return reading?.ok ? reading.seasonYear : null;
 }
 
+/**
+ * A season in an address (?season=2026 or ?season=2026/27), checked: absent or blank is every
+ * season; anything else that is not a season is refused with what to write instead.
+ */
+export const seasonInAddressSchema = z.preprocess(
+  (value) => {
+    const single: unknown = Array.isArray(value) ? value[0] : value;
+    return single === "" || single === null ? undefined : single;
+  },
+  z
+    .string()
+    .transform((text, context) => {
+      const reading = readSeason(text);
+      if (reading?.ok) return reading.seasonYear;
+      context.addIssue({
+        code: "custom",
+        message: `The season in the address, "${text}", is not a season: write the year it starts, such as 2026, or the two years it spans, such as 2026/27 (${earliestSeason} to ${latestSeason}).`,
+      });
+      return z.NEVER;
+    })
+    .optional(),
+);
+
 /** The Co-op settings form for the season start: a month and a day every year has. */
 export const seasonStartSchema = z
   .object({

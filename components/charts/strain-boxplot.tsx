@@ -1,6 +1,7 @@
 "use client";
 
 import { ResponsiveBoxPlot, type BoxPlotCustomLayerProps } from "@nivo/boxplot";
+import { useSyncExternalStore } from "react";
 
 export interface StrainSpread {
   strain: string;
@@ -21,6 +22,8 @@ export interface OwnStrainDots {
  * Block biological efficiency per strain: box from the 25th to the 75th percentile, whiskers
  * to the 10th and 90th (so no single co-op block is drawn), with the viewer's own blocks as dots.
  */
+const noSubscription = () => () => {};
+
 export function StrainBoxplot({ spreads, ownBlocks }: { spreads: StrainSpread[]; ownBlocks: OwnStrainDots[] }) {
   // Five values per strain whose 0/25/50/75/100 % quantiles are exactly the published percentiles; a whisker not
   // published ends at its box.
@@ -55,31 +58,40 @@ export function StrainBoxplot({ spreads, ownBlocks }: { spreads: StrainSpread[];
       </g>
     );
   };
+  const inBrowser = useSyncExternalStore(
+    noSubscription,
+    () => true,
+    () => false,
+  );
   return (
     <figure className="space-y-2">
       <div className="h-80 w-full">
-        <ResponsiveBoxPlot<Datum>
-          data={data}
-          groupBy="strain"
-          value="efficiency"
-          groups={spreads.map((spread) => spread.strain)}
-          quantiles={[0, 0.25, 0.5, 0.75, 1]}
-          minValue={Math.max(0, Math.floor(Math.min(...values) - 5))}
-          maxValue={Math.ceil(Math.max(...values) + 5)}
-          margin={{ top: 16, right: 16, bottom: 48, left: 56 }}
-          padding={0.4}
-          colors={["#dce9e3"]}
-          borderColor="#2e5e4e"
-          borderWidth={2}
-          medianColor="#1b392f"
-          medianWidth={3}
-          whiskerColor="#2e5e4e"
-          axisLeft={{ legend: "Biological efficiency (%)", legendPosition: "middle", legendOffset: -44 }}
-          axisBottom={{ tickSize: 0, tickPadding: 8 }}
-          layers={["grid", "axes", "boxPlots", OwnBlocks]}
-          animate={false}
-          ariaLabel={`Spread of block biological efficiency per strain${points.length ? ", with your own blocks as dots" : ""}`}
-        />
+        {/* Drawn once in the browser: the chart's wrapper has a style attribute, which the Content
+            Security Policy refuses in server-rendered HTML (set from script, it is allowed). */}
+        {inBrowser ? (
+          <ResponsiveBoxPlot<Datum>
+            data={data}
+            groupBy="strain"
+            value="efficiency"
+            groups={spreads.map((spread) => spread.strain)}
+            quantiles={[0, 0.25, 0.5, 0.75, 1]}
+            minValue={Math.max(0, Math.floor(Math.min(...values) - 5))}
+            maxValue={Math.ceil(Math.max(...values) + 5)}
+            margin={{ top: 16, right: 16, bottom: 48, left: 56 }}
+            padding={0.4}
+            colors={["#dce9e3"]}
+            borderColor="#2e5e4e"
+            borderWidth={2}
+            medianColor="#1b392f"
+            medianWidth={3}
+            whiskerColor="#2e5e4e"
+            axisLeft={{ legend: "Biological efficiency (%)", legendPosition: "middle", legendOffset: -44 }}
+            axisBottom={{ tickSize: 0, tickPadding: 8 }}
+            layers={["grid", "axes", "boxPlots", OwnBlocks]}
+            animate={false}
+            ariaLabel={`Spread of block biological efficiency per strain${points.length ? ", with your own blocks as dots" : ""}`}
+          />
+        ) : null}
       </div>
       <figcaption className="text-sm text-ink-soft">
         Boxes: middle half of the co-op&apos;s blocks; whiskers: 10th to 90th percentile; line: median.

@@ -61,6 +61,34 @@ export const farmFlushStatistics = pgTable(
   (t) => [index("farm_flush_statistics_farm_idx").on(t.farmId), index("farm_flush_statistics_species_idx").on(t.speciesId)],
 );
 
+/**
+ * Per-farm sums of block BE by season, for "BE season by season": one row per farm × species ×
+ * strain × recipe × fruiting method × season × flush window (trial arms together). Written by the
+ * same refresh as farm_strain_statistics from the same blocks, so a cell's seasons add up to its
+ * BE there. Season null: the block has neither a season nor an inoculation date.
+ */
+export const farmSeasonStatistics = pgTable(
+  "farm_season_statistics",
+  {
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    speciesId: uuid("species_id").notNull(),
+    strainId: uuid("strain_id").notNull(),
+    substrateRecipeId: uuid("substrate_recipe_id"),
+    fruitingMethodId: uuid("fruiting_method_id"),
+    seasonYear: integer("season_year"),
+    flushWindow: text("flush_window").notNull(),
+    efficiencyBlocks: integer("efficiency_blocks").notNull(),
+    efficiencySum: doublePrecision("efficiency_sum").notNull(),
+    efficiencySquares: doublePrecision("efficiency_squares").notNull(),
+  },
+  (t) => [
+    index("farm_season_statistics_farm_idx").on(t.farmId),
+    check("farm_season_statistics_window", sql`${t.flushWindow} in ('all', '1-2', '1')`),
+  ],
+);
+
 /** Whether a farm's statistics are being recomputed: pending while requested > completed. */
 export const pooledRefreshState = pgTable("pooled_refresh_state", {
   farmId: uuid("farm_id")

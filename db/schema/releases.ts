@@ -69,6 +69,20 @@ export const pooledReleaseFlushRows = pgTable(
   (t) => [index("pooled_release_flush_rows_read_idx").on(t.releaseNumber, t.speciesId)],
 );
 
+/** A release's copy of farm_season_statistics: the per-season BE figures (lib/pooled/seasons.ts). */
+export const pooledReleaseSeasonRows = pgTable(
+  "pooled_release_season_rows",
+  {
+    ...releaseCellColumns(),
+    seasonYear: integer("season_year"),
+    flushWindow: text("flush_window").notNull(),
+    efficiencyBlocks: integer("efficiency_blocks").notNull(),
+    efficiencySum: doublePrecision("efficiency_sum").notNull(),
+    efficiencySquares: doublePrecision("efficiency_squares").notNull(),
+  },
+  (t) => [index("pooled_release_season_rows_read_idx").on(t.releaseNumber, t.speciesId, t.flushWindow)],
+);
+
 /** The scheduled job's last attempt (one row, id 1), so it tries once per slot and the coordinator sees what happened. */
 export const pooledReleaseSchedule = pgTable(
   "pooled_release_schedule",

@@ -6,6 +6,7 @@ import {
   pooledReleaseFlushRows,
   pooledReleases,
   pooledReleaseSchedule,
+  pooledReleaseSeasonRows,
   pooledReleaseStrainRows,
   strains,
 } from "@/db/schema";
@@ -24,6 +25,7 @@ import {
   type ReleaseFlushRow,
   type ReleasePlan,
   type ReleaseSchedule,
+  type ReleaseSeasonRow,
   type ReleaseStrainRow,
 } from "@/lib/pooled";
 import { asMember } from "./context";
@@ -64,7 +66,7 @@ export async function latestRelease(tx: Transaction): Promise<ReleaseInfo | null
 
 /** Every farm's live statistics, trial arms added together, read in one statement so one snapshot sees all of them. */
 async function liveContents(tx: Transaction): Promise<ReleaseContents> {
-  const result = await tx.execute<{ strain_rows: ReleaseStrainRow[]; flush_rows: ReleaseFlushRow[] }>(sql`
+  const result = await tx.execute<{ strain_rows: ReleaseStrainRow[]; flush_rows: ReleaseFlushRow[]; season_rows: ReleaseSeasonRow[] }>(sql`
     select
       (select coalesce(json_agg(s), '[]') from (
         select farm_id as "farmId", species_id as "speciesId", strain_id as "strainId", substrate_recipe_id as "substrateRecipeId",
@@ -78,9 +80,14 @@ async function liveContents(tx: Transaction): Promise<ReleaseContents> {
           sum(blocks_fruiting)::int as "blocksFruiting", sum(share_sum) as "shareSum", sum(share_squares) as "shareSquares",
           sum(cumulative_sum) as "cumulativeSum", sum(cumulative_squares) as "cumulativeSquares"
         from farm_flush_statistics
-        group by farm_id, species_id, strain_id, substrate_recipe_id, fruiting_method_id, flush) f) as flush_rows`);
+        group by farm_id, species_id, strain_id, substrate_recipe_id, fruiting_method_id, flush) f) as flush_rows,
+      (select coalesce(json_agg(z), '[]') from (
+        select farm_id as "farmId", species_id as "speciesId", strain_id as "strainId", substrate_recipe_id as "substrateRecipeId",
+          fruiting_method_id as "fruitingMethodId", season_year as "seasonYear", flush_window as "flushWindow",
+          efficiency_blocks as "efficiencyBlocks", efficiency_sum as "efficiencySum", efficiency_squares as "efficiencySquares"
+        from farm_season_statistics) z) as season_rows`);
   const [row] = result.rows;
-  return { strainRows: addTrialArms(row.strain_rows), flushRows: row.flush_rows };
+  return { strainRows: addTrialArms(row.strain_rows), flushRows: row.flush_rows, seasonRows: row.season_rows };
 }
 
 const strainColumns = {
@@ -115,6 +122,19 @@ const flushColumns = {
   cumulativeSquares: pooledReleaseFlushRows.cumulativeSquares,
 };
 
+const seasonColumns = {
+  farmId: pooledReleaseSeasonRows.farmId,
+  speciesId: pooledReleaseSeasonRows.speciesId,
+  strainId: pooledReleaseSeasonRows.strainId,
+  substrateRecipeId: pooledReleaseSeasonRows.substrateRecipeId,
+  fruitingMethodId: pooledReleaseSeasonRows.fruitingMethodId,
+  seasonYear: pooledReleaseSeasonRows.seasonYear,
+  flushWindow: pooledReleaseSeasonRows.flushWindow,
+  efficiencyBlocks: pooledReleaseSeasonRows.efficiencyBlocks,
+  efficiencySum: pooledReleaseSeasonRows.efficiencySum,
+  efficiencySquares: pooledReleaseSeasonRows.efficiencySquares,
+};
+
 /** A release's rows; `speciesId` and `flushWindow` narrow them to what one results page needs. */
 export async function releaseContents(
   tx: Transaction,
@@ -138,7 +158,16 @@ export async function releaseContents(
     .select(flushColumns)
     .from(pooledReleaseFlushRows)
     .where(sql.join(flushFilter, sql` and `));
-  return { strainRows, flushRows };
+  const seasonFilter = [
+    sql`${pooledReleaseSeasonRows.releaseNumber} = ${releaseNumber}`,
+    ...(only.speciesId ? [sql`${pooledReleaseSeasonRows.speciesId} = ${only.speciesId}`] : []),
+    ...(only.flushWindow ? [sql`${pooledReleaseSeasonRows.flushWindow} = ${only.flushWindow}`] : []),
+  ];
+  const seasonRows = (await tx
+    .select(seasonColumns)
+    .from(pooledReleaseSeasonRows)
+    .where(sql.join(seasonFilter, sql` and `))) as ReleaseSeasonRow[];
+  return { strainRows, flushRows, seasonRows };
 }
 
 const insertSlice = 5000;
@@ -186,6 +215,17 @@ async function writeRelease(
         "fruitingMethodId" uuid, flush int, "finishedBlocks" int, "blocksFruiting" int, "shareSum" float8, "shareSquares" float8,
         "cumulativeSum" float8, "cumulativeSquares" float8)`);
   }
+  for (let start = 0; start < plan.next.seasonRows.length; start += insertSlice) {
+    const slice = plan.next.seasonRows.slice(start, start + insertSlice);
+    await tx.execute(sql`
+      insert into pooled_release_season_rows (release_number, farm_id, species_id, strain_id, substrate_recipe_id, fruiting_method_id,
+        season_year, flush_window, efficiency_blocks, efficiency_sum, efficiency_squares)
+      select ${number}, r."farmId", r."speciesId", r."strainId", r."substrateRecipeId", r."fruitingMethodId", r."seasonYear",
+        r."flushWindow", r."efficiencyBlocks", r."efficiencySum", r."efficiencySquares"
+      from json_to_recordset(${JSON.stringify(slice)}::json) as r("farmId" uuid, "speciesId" uuid, "strainId" uuid, "substrateRecipeId" uuid,
+        "fruitingMethodId" uuid, "seasonYear" int, "flushWindow" text, "efficiencyBlocks" int, "efficiencySum" float8,
+        "efficiencySquares" float8)`);
+  }
   return { number: release.number, cutAt: release.cutAt.toISOString() };
 }
 
@@ -218,7 +258,7 @@ async function minimumFarmsNow(tx: Transaction): Promise<number> {
 async function planNext(tx: Transaction) {
   const minimumFarms = await minimumFarmsNow(tx);
   const previous = await latestRelease(tx);
-  const before = previous ? await releaseContents(tx, previous.number) : { strainRows: [], flushRows: [] };
+  const before = previous ? await releaseContents(tx, previous.number) : { strainRows: [], flushRows: [], seasonRows: [] };
   const plan = planRelease(before, await liveContents(tx), minimumFarms);
   return { plan, previous, minimumFarms, waiting: await waitingByStrain(tx, plan) };
 }

@@ -16,11 +16,15 @@ import {
   publishedSteps,
   roundPooledResults,
   roundTo,
+  seasonBySeason,
   type FlushWindow,
   type OwnStrainBlocks,
   type PooledFilters,
   type PooledResults,
+  type SeasonBreakdown,
 } from "@/lib/pooled";
+import { calendarYear, type SeasonStart } from "@/lib/seasons";
+import type { ResultsSelection } from "@/lib/pooled/results-address";
 import type { FlushProfile } from "@/lib/stats";
 import { seededRandom } from "@/lib/random";
 import { asMember } from "./context";
@@ -30,6 +34,19 @@ export interface PooledResultsQuery {
   substrateRecipeId?: string;
   fruitingMethodId?: string;
   flushWindow: FlushWindow;
+  /** A season's starting year: the page then leads with that season's BE (the other figures cover every season). */
+  season?: number;
+}
+
+/** The data layer's query for a view read from its address. */
+export function toResultsQuery(selection: ResultsSelection): PooledResultsQuery {
+  return {
+    speciesId: selection.species,
+    substrateRecipeId: selection.recipe,
+    fruitingMethodId: selection.method,
+    flushWindow: selection.window,
+    season: selection.season,
+  };
 }
 
 export interface PooledResultsPage {
@@ -42,6 +59,11 @@ export interface PooledResultsPage {
   flushWindow: FlushWindow;
   substrateRecipeId: string | null;
   fruitingMethodId: string | null;
+  season: number | null;
+  /** The co-op's season start, to name seasons ("2026/27"). */
+  seasonStart: SeasonStart;
+  /** Each strain's BE season by season, every recipe and fruiting method together (its own figure kind in a release). */
+  seasons: SeasonBreakdown | null;
   /** The release the figures come from (null before the first), and when the next one may come. */
   release: ReleaseInfo | null;
   releaseSchedule: string;
@@ -87,7 +109,13 @@ const keptPooledResults = keptUntilChanged("results page", "pooled-statistics", 
 
 /** What a results page depends on besides the database and the viewer (who is part of every key). */
 function resultsKey(query: PooledResultsQuery): string {
-  return JSON.stringify([query.speciesId ?? null, query.substrateRecipeId ?? null, query.fruitingMethodId ?? null, query.flushWindow]);
+  return JSON.stringify([
+    query.speciesId ?? null,
+    query.substrateRecipeId ?? null,
+    query.fruitingMethodId ?? null,
+    query.flushWindow,
+    query.season ?? null,
+  ]);
 }
 
 async function computePooledResults(member: Member, query: PooledResultsQuery): Promise<Omit<PooledResultsPage, "ownBlocks">> {
@@ -118,8 +146,14 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
       .from(treatments)
       .where(eq(treatments.kind, "fruiting_method"))
       .orderBy(asc(treatments.name));
+    if (query.substrateRecipeId && !recipes.some((entry) => entry.id === query.substrateRecipeId)) {
+      throw new AppError("not_found", "That substrate recipe is not in the co-op's register. Choose one from the list.");
+    }
+    if (query.fruitingMethodId && !methods.some((entry) => entry.id === query.fruitingMethodId)) {
+      throw new AppError("not_found", "That fruiting method is not in the co-op's register. Choose one from the list.");
+    }
     if (!speciesId || !release)
-      return { settings, speciesList, recipes, methods, speciesId, release, rows: [], flushRows: [], strainList: [] };
+      return { settings, speciesList, recipes, methods, speciesId, release, rows: [], flushRows: [], seasonRows: [], strainList: [] };
     const strainList = await tx.select({ id: strains.id, name: strains.name }).from(strains).where(eq(strains.speciesId, speciesId));
     const contents = await releaseContents(tx, release.number, { speciesId, flushWindow: query.flushWindow });
     return {
@@ -131,6 +165,7 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
       release,
       rows: contents.strainRows,
       flushRows: contents.flushRows,
+      seasonRows: contents.seasonRows,
       strainList,
     };
   });
@@ -162,6 +197,16 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
     flushWindow: query.flushWindow,
     substrateRecipeId: query.substrateRecipeId ?? null,
     fruitingMethodId: query.fruitingMethodId ?? null,
+    season: query.season ?? null,
+    seasonStart: analysed.settings ? { month: analysed.settings.seasonStartMonth, day: analysed.settings.seasonStartDay } : calendarYear,
+    seasons:
+      analysed.speciesId && analysed.release
+        ? seasonBySeason({
+            rows: analysed.seasonRows,
+            strains: analysed.strainList,
+            minimumFarms: analysed.settings?.minimumFarms ?? 3,
+          })
+        : null,
     release: analysed.release,
     releaseSchedule: describeReleaseSchedule(analysed.settings?.releaseSchedule ?? "daily", analysed.settings?.releaseHour ?? 2),
     results,

@@ -4,6 +4,7 @@ export {
   type FlushWindow,
   type FlushStatisticsRow,
   type PooledFilters,
+  type SeasonStatisticsRow,
   type StrainStatisticsRow,
 } from "./types";
 export { addSummaries, summaryMean, summaryVariance, type Summary } from "./sufficient";
@@ -43,8 +44,18 @@ export {
   type ReleaseFigureKind,
   type ReleaseFlushRow,
   type ReleasePlan,
+  type ReleaseSeasonRow,
   type ReleaseStrainRow,
 } from "./releases";
+export {
+  seasonBySeason,
+  seasonsAreSafe,
+  seasonsWithheldMessage,
+  seasonTableRow,
+  type SeasonBreakdown,
+  type SeasonEfficiency,
+  type StrainSeasons,
+} from "./seasons";
 export {
   describeReleaseSchedule,
   latestReleaseSlot,

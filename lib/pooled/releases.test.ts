@@ -1,6 +1,13 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { addTrialArms, planRelease, type ReleaseContents, type ReleaseFlushRow, type ReleaseStrainRow } from "./releases";
+import {
+  addTrialArms,
+  planRelease,
+  type ReleaseContents,
+  type ReleaseFlushRow,
+  type ReleaseSeasonRow,
+  type ReleaseStrainRow,
+} from "./releases";
 import { flushWindows } from "./types";
 
 // Invented figures: what matters is which farms' parts change between releases, not the values.
@@ -13,6 +20,8 @@ interface FarmCell {
   unfruited?: number;
   /** Blocks whose last flush is in: they feed the flush profile. */
   finished?: number;
+  /** The season of each fruited block, in the order of `efficiencies` (2025 when not given). */
+  seasons?: number[];
 }
 
 function contents(cells: FarmCell[]): ReleaseContents {
@@ -59,10 +68,32 @@ function contents(cells: FarmCell[]): ReleaseContents {
         }))
       : [],
   );
-  return { strainRows, flushRows };
+  const seasonRows: ReleaseSeasonRow[] = cells.flatMap((cell) =>
+    flushWindows.flatMap((flushWindow) => {
+      const share = flushWindow === "all" ? 1 : flushWindow === "1-2" ? 0.9 : 0.6;
+      const bySeason = new Map<number, number[]>();
+      cell.efficiencies.forEach((value, index) => {
+        const season = cell.seasons?.[index] ?? 2025;
+        bySeason.set(season, [...(bySeason.get(season) ?? []), value * share]);
+      });
+      return [...bySeason].map(([seasonYear, values]) => ({
+        farmId: cell.farm,
+        speciesId: "oyster",
+        strainId: "grey-morning",
+        substrateRecipeId: cell.recipe,
+        fruitingMethodId: "slits",
+        seasonYear,
+        flushWindow,
+        efficiencyBlocks: values.length,
+        efficiencySum: values.reduce((sum, value) => sum + value, 0),
+        efficiencySquares: values.reduce((sum, value) => sum + value * value, 0),
+      }));
+    }),
+  );
+  return { strainRows, flushRows, seasonRows };
 }
 
-const empty: ReleaseContents = { strainRows: [], flushRows: [] };
+const empty: ReleaseContents = { strainRows: [], flushRows: [], seasonRows: [] };
 const sortRows = <Row extends object>(rows: Row[]) => rows.map((row) => JSON.stringify(row, Object.keys(row).sort())).sort();
 
 /** Each farm's part of each figure, as the invariants below compare them. */
@@ -81,6 +112,8 @@ function parts(release: ReleaseContents): Map<string, Map<string, string>> {
       add(`${row.substrateRecipeId} BE ${row.flushWindow}`, row.farmId, [row.efficiencyBlocks, row.efficiencySum]);
   }
   for (const row of release.flushRows) add(`${row.substrateRecipeId} flushes`, row.farmId, [row.flush, row.shareSum]);
+  for (const row of release.seasonRows)
+    add(`${row.substrateRecipeId} seasons ${row.flushWindow}`, row.farmId, [row.seasonYear, row.efficiencyBlocks, row.efficiencySum]);
   return figures;
 }
 
@@ -116,6 +149,9 @@ describe("planning a release", () => {
       ["efficiency:all", 1],
       ["efficiency:1-2", 1],
       ["efficiency:1", 1],
+      ["seasons:all", 1],
+      ["seasons:1-2", 1],
+      ["seasons:1", 1],
     ]);
   });
 
@@ -124,7 +160,7 @@ describe("planning a release", () => {
     const live = contents(threeFarms.map((cell) => ({ ...cell, efficiencies: [...cell.efficiencies, 100] })));
     const plan = planRelease(first, live, 3);
     expect(plan.heldBack).toEqual([]);
-    expect(plan.figuresChanged).toBe(5);
+    expect(plan.figuresChanged).toBe(8);
     expect(sortRows(plan.next.strainRows)).toEqual(sortRows(live.strainRows));
   });
 
@@ -138,15 +174,40 @@ describe("planning a release", () => {
     const plan = planRelease(first, live, 3);
     // A's counts are unchanged; B and C added blocks, so the counts changed on two farms: held back too.
     expect(plan.heldBack.map((figure) => `${figure.kind}:${figure.farmsChanged}`).sort()).toEqual(
-      ["counts:2", "efficiency:1-2:1", "efficiency:1:1", "efficiency:all:1"].sort(),
+      ["counts:2", "efficiency:1-2:1", "efficiency:1:1", "efficiency:all:1", "seasons:all:1", "seasons:1-2:1", "seasons:1:1"].sort(),
     );
     expect(plan.figuresChanged).toBe(0);
+  });
+
+  it("moves a cell's seasons on when enough farms moved blocks between seasons and its BE did not change", () => {
+    const first = planRelease(empty, contents(threeFarms), 3).next;
+    const live = contents(threeFarms.map((cell) => ({ ...cell, seasons: [2025, 2026] })));
+    const plan = planRelease(first, live, 3);
+    expect(plan.heldBack).toEqual([]);
+    expect(plan.figuresChanged).toBe(3);
+    expect(sortRows(plan.next.seasonRows)).toEqual(sortRows(live.seasonRows));
+    expect(sortRows(plan.next.strainRows)).toEqual(sortRows(first.strainRows));
+  });
+
+  it("holds a cell's seasons back while its BE is held back, though enough farms changed the seasons", () => {
+    // One farm adds a harvest (BE changes on one farm: held back); three farms move a block to
+    // another season. Publishing the new seasons beside the old BE would give, as their
+    // difference, that one farm's new block.
+    const four = [...threeFarms, { farm: "D", recipe: "r1", efficiencies: [70, 75], finished: 2 }];
+    const first = planRelease(empty, contents(four), 3).next;
+    const live = contents(
+      four.map((cell) => (cell.farm === "A" ? { ...cell, efficiencies: [...cell.efficiencies, 111] } : { ...cell, seasons: [2025, 2026] })),
+    );
+    const plan = planRelease(first, live, 3);
+    expect(plan.heldBack.filter((figure) => figure.kind.startsWith("seasons")).map((figure) => figure.farmsChanged)).toEqual([4, 4, 4]);
+    expect(sortRows(plan.next.seasonRows)).toEqual(sortRows(first.seasonRows));
   });
 
   it("does not count float noise from a refresh summing in another order as a change", () => {
     const first = planRelease(empty, contents(threeFarms), 3).next;
     const noisy = contents(threeFarms);
     for (const row of noisy.strainRows) row.efficiencySum *= 1 + 1e-14;
+    for (const row of noisy.seasonRows) row.efficiencySum *= 1 + 1e-14;
     const plan = planRelease(first, noisy, 3);
     expect(plan.farmsChanged).toBe(0);
     expect(plan.heldBack).toEqual([]);
@@ -194,6 +255,7 @@ describe("planning a release", () => {
               unfruited: fc.integer({ min: 0, max: 2 }),
               finished: fc.integer({ min: 0, max: 2 }),
               level: fc.integer({ min: 60, max: 140 }),
+              lateSeason: fc.integer({ min: 0, max: 3 }),
             }),
             { maxLength: 10 },
           ),
@@ -212,6 +274,8 @@ describe("planning a release", () => {
                 efficiencies: Array.from({ length: entry.fruited }, (_, index) => entry.level + index),
                 unfruited: entry.unfruited,
                 finished: Math.min(entry.finished, entry.fruited),
+                // The last `lateSeason` fruited blocks belong to 2026, the rest to 2025.
+                seasons: Array.from({ length: entry.fruited }, (_, index) => (index >= entry.fruited - entry.lateSeason ? 2026 : 2025)),
               });
             }
             const next = planRelease(release, contents([...cells.values()]), minimumFarms).next;
@@ -223,6 +287,16 @@ describe("planning a release", () => {
               const now = after.get(figure) ?? new Map<string, string>();
               const changed = [...new Set([...old.keys(), ...now.keys()])].filter((farm) => old.get(farm) !== now.get(farm));
               expect(changed.length === 0 || changed.length >= minimumFarms).toBe(true);
+            }
+            // Every farm's seasons add up to its BE of the same cell and window in the same release.
+            for (const row of next.strainRows) {
+              const seasons = next.seasonRows.filter(
+                (season) =>
+                  season.farmId === row.farmId &&
+                  season.substrateRecipeId === row.substrateRecipeId &&
+                  season.flushWindow === row.flushWindow,
+              );
+              expect(seasons.reduce((sum, season) => sum + season.efficiencyBlocks, 0)).toBe(row.efficiencyBlocks);
             }
             release = next;
           }

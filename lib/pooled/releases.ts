@@ -1,4 +1,4 @@
-import { flushWindows, type FlushStatisticsRow, type FlushWindow, type StrainStatisticsRow } from "./types";
+import { flushWindows, type FlushStatisticsRow, type FlushWindow, type SeasonStatisticsRow, type StrainStatisticsRow } from "./types";
 
 /** A farm's sufficient statistics for one cell and flush window, as a release keeps them (trial arms added together). */
 export interface ReleaseStrainRow extends StrainStatisticsRow {
@@ -10,19 +10,37 @@ export interface ReleaseFlushRow extends FlushStatisticsRow {
   speciesId: string;
 }
 
+export interface ReleaseSeasonRow extends SeasonStatisticsRow {
+  speciesId: string;
+  flushWindow: FlushWindow;
+}
+
 /** Everything a release publishes from: every farm's rows, read only through the analyst role. */
 export interface ReleaseContents {
   strainRows: ReleaseStrainRow[];
   flushRows: ReleaseFlushRow[];
+  seasonRows: ReleaseSeasonRow[];
 }
 
 /**
  * The separately published figures of one cell (species × strain × recipe × fruiting method):
  * block and contamination counts, days to first harvest, BE in each flush window, the flush
  * profile. Each is checked on its own, as a farm can change one without the others (blocks
- * that have not fruited change the counts, a late flush changes BE over all flushes only).
+ * that have not fruited change the counts, a late flush changes BE over all flushes only). The
+ * cell's BE season by season ("seasons:<window>") is one figure per window: every season of the
+ * cell together, so its seasons always add up to the same release's BE of the window.
  */
-export const releaseFigureKinds = ["counts", "first-harvest", "efficiency:all", "efficiency:1-2", "efficiency:1", "flush-profile"] as const;
+export const releaseFigureKinds = [
+  "counts",
+  "first-harvest",
+  "efficiency:all",
+  "efficiency:1-2",
+  "efficiency:1",
+  "flush-profile",
+  "seasons:all",
+  "seasons:1-2",
+  "seasons:1",
+] as const;
 export type ReleaseFigureKind = (typeof releaseFigureKinds)[number];
 
 export const releaseFigureLabels: Record<ReleaseFigureKind, string> = {
@@ -32,6 +50,9 @@ export const releaseFigureLabels: Record<ReleaseFigureKind, string> = {
   "efficiency:1-2": "BE over flushes 1–2",
   "efficiency:1": "BE of the first flush",
   "flush-profile": "flush profile",
+  "seasons:all": "BE season by season over all flushes",
+  "seasons:1-2": "BE season by season over flushes 1–2",
+  "seasons:1": "BE season by season of the first flush",
 };
 
 export interface ReleaseCell {
@@ -139,12 +160,30 @@ function figuresOf(contents: ReleaseContents): Figures {
     ];
     put(figures, cellKey(rows[0]), "flush-profile", rows[0].farmId, vector);
   }
+  const seasons = new Map<string, ReleaseSeasonRow[]>();
+  for (const row of contents.seasonRows) {
+    const key = `${cellKey(row)}#${row.farmId}#${row.flushWindow}`;
+    seasons.set(key, [...(seasons.get(key) ?? []), row]);
+  }
+  for (const rows of seasons.values()) {
+    rows.sort((a, b) => (a.seasonYear ?? noSeason) - (b.seasonYear ?? noSeason));
+    // Blocks with a BE in any season first (whether the farm contributes), then season, n, Σ, Σ² per season.
+    const vector = [
+      rows.reduce((sum, row) => sum + row.efficiencyBlocks, 0),
+      ...rows.flatMap((row) => [row.seasonYear ?? noSeason, row.efficiencyBlocks, row.efficiencySum, row.efficiencySquares]),
+    ];
+    put(figures, cellKey(rows[0]), `seasons:${rows[0].flushWindow}`, rows[0].farmId, vector);
+  }
   return figures;
 }
+
+/** A block with neither a season nor an inoculation date, as a vector holds it. */
+const noSeason = -1;
 
 function contentsOf(figures: Figures): ReleaseContents {
   const strainRows: ReleaseStrainRow[] = [];
   const flushRows: ReleaseFlushRow[] = [];
+  const seasonRows: ReleaseSeasonRow[] = [];
   for (const [key, kinds] of figures) {
     const cell = cellOf(key);
     const farms = new Set([...kinds.values()].flatMap((byFarm) => [...byFarm.keys()]));
@@ -170,6 +209,21 @@ function contentsOf(figures: Figures): ReleaseContents {
           efficiencyBins: bins,
         });
       }
+      for (const window of flushWindows) {
+        const seasons = kinds.get(`seasons:${window}`)?.get(farmId);
+        if (!seasons || seasons[0] === 0) continue;
+        for (let index = 1; index < seasons.length; index += 4) {
+          seasonRows.push({
+            ...cell,
+            farmId,
+            flushWindow: window,
+            seasonYear: seasons[index] === noSeason ? null : seasons[index],
+            efficiencyBlocks: seasons[index + 1],
+            efficiencySum: seasons[index + 2],
+            efficiencySquares: seasons[index + 3],
+          });
+        }
+      }
       const profile = kinds.get("flush-profile")?.get(farmId);
       if (!profile || profile[0] === 0) continue;
       for (let index = 1; index < profile.length; index += 7) {
@@ -187,8 +241,15 @@ function contentsOf(figures: Figures): ReleaseContents {
       }
     }
   }
-  return { strainRows, flushRows };
+  return { strainRows, flushRows, seasonRows };
 }
+
+/** The BE figure a cell's season breakdown must move with, so that its seasons add up to the BE published beside it. */
+const seasonsFollow: Partial<Record<ReleaseFigureKind, ReleaseFigureKind>> = {
+  "seasons:all": "efficiency:all",
+  "seasons:1-2": "efficiency:1-2",
+  "seasons:1": "efficiency:1",
+};
 
 /**
  * Plans the next release from the last one and the live statistics, figure by figure (cell ×
@@ -202,6 +263,9 @@ function contentsOf(figures: Figures): ReleaseContents {
  *    farms have changed it.
  * By induction every figure in every release has either no farm or at least the minimum behind
  * it, and differs from the previous release by the data of no farm or of at least the minimum.
+ * 3. A cell's BE season by season is held back while the cell's BE of the same window is: the two
+ *    cover the same blocks, and a breakdown moved on beside a BE held back would publish, as
+ *    their difference, the change of the few farms that held the BE back.
  */
 export function planRelease(previous: ReleaseContents, live: ReleaseContents, minimumFarms: number): ReleasePlan {
   const before = figuresOf(previous);
@@ -211,6 +275,7 @@ export function planRelease(previous: ReleaseContents, live: ReleaseContents, mi
   const farmsChanged = new Set<string>();
   let figuresChanged = 0;
   for (const key of new Set([...before.keys(), ...now.keys()])) {
+    const heldKinds = new Set<ReleaseFigureKind>();
     for (const kind of releaseFigureKinds) {
       const old = before.get(key)?.get(kind) ?? new Map<string, Vector>();
       let candidate = now.get(key)?.get(kind) ?? new Map<string, Vector>();
@@ -220,8 +285,13 @@ export function planRelease(previous: ReleaseContents, live: ReleaseContents, mi
         (farmId) => !sameVector(old.get(farmId), candidate.get(farmId)),
       );
       for (const farmId of changed) farmsChanged.add(farmId);
-      const kept = changed.length === 0 || changed.length < minimumFarms ? old : candidate;
-      if (changed.length > 0 && changed.length < minimumFarms) heldBack.push({ ...cellOf(key), kind, farmsChanged: changed.length });
+      const follows = seasonsFollow[kind];
+      const held = changed.length > 0 && (changed.length < minimumFarms || (follows !== undefined && heldKinds.has(follows)));
+      const kept = changed.length === 0 || held ? old : candidate;
+      if (held) {
+        heldKinds.add(kind);
+        heldBack.push({ ...cellOf(key), kind, farmsChanged: changed.length });
+      }
       if (kept === candidate && changed.length > 0) figuresChanged++;
       for (const [farmId, vector] of kept) if (normal(vector).length > 0) put(next, key, kind, farmId, vector);
     }

@@ -40,6 +40,22 @@ export interface FlushStatisticsRow {
   cumulativeSquares: number;
 }
 
+/**
+ * One farm's sums of block BE in one season for one strain in one recipe × fruiting-method cell
+ * (trial arms together): the same blocks as the BE of StrainStatisticsRow, split by season. A
+ * null season: the block has neither a season nor an inoculation date.
+ */
+export interface SeasonStatisticsRow {
+  farmId: string;
+  strainId: string;
+  substrateRecipeId: string | null;
+  fruitingMethodId: string | null;
+  seasonYear: number | null;
+  efficiencyBlocks: number;
+  efficiencySum: number;
+  efficiencySquares: number;
+}
+
 /** What the viewer asked for; an absent recipe or fruiting method means "any". */
 export interface PooledFilters {
   substrateRecipeId?: string;

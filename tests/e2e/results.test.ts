@@ -73,6 +73,70 @@ describe("Co-op results in the browser", () => {
     await page.close();
   });
 
+  it("reopens a bookmarked view with every filter as it was, steps back through filter changes, and filters by season", async () => {
+    await browser.clearCookies();
+    const page = await browser.newPage();
+    const errors = collectPageErrors(page);
+    await new SignInPage(page).signIn("observer@extension.example");
+    await new AppShell(page).waitUntilSignedIn();
+    const results = new ResultsPage(page);
+    await results.open();
+    await results.chooseSpecies(/lion/i);
+    await results.chooseFlushes("Flushes 1–2");
+    const bookmark = new URL(page.url());
+    expect(bookmark.searchParams.get("window")).toBe("1-2");
+    expect(bookmark.searchParams.get("species")).toMatch(/^[0-9a-f-]{36}$/);
+    const view = { chosen: await results.chosen(), strains: await results.strainNames() };
+    expect(view.chosen["Species"]).toMatch(/lion/i);
+
+    // The bookmark, opened afresh in another tab, shows the same view.
+    const again = await browser.newPage();
+    const reopened = new ResultsPage(again);
+    await reopened.open(`${bookmark.pathname}${bookmark.search}`);
+    expect({ chosen: await reopened.chosen(), strains: await reopened.strainNames() }).toEqual(view);
+    await again.close();
+
+    // The back button undoes the last change only.
+    await page.goBack();
+    await page.waitForURL((url) => !url.searchParams.has("window"));
+    await results.waitForResults();
+    expect(await results.chosen()).toMatchObject({ Species: view.chosen["Species"], "Flushes counted": "All flushes" });
+
+    // BE season by season, then one season: the address keeps it and the page leads with that season.
+    await page.getByRole("table", { name: "BE season by season" }).waitFor();
+    const seasons = await results.select("Season").locator("option").allTextContents();
+    expect(seasons[0]).toBe("All seasons");
+    expect(seasons.length).toBeGreaterThan(1);
+    await results.chooseSeason(seasons[1]);
+    expect(new URL(page.url()).searchParams.get("season")).toMatch(/^\d{4}$/);
+    const seasonTable = page.getByRole("table", { name: `BE in season ${seasons[1]}` });
+    await seasonTable.waitFor();
+    expect(await seasonTable.locator("tbody tr").count()).toBeGreaterThan(0);
+    expect(await seasonTable.textContent()).toMatch(/\d+\.\d % \(/);
+    await screenshot(page, "results-observer-one-season");
+    expect(await seriousAccessibilityProblems(page)).toEqual([]);
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  it("says what is wrong with an address that names no view, instead of an error page", async () => {
+    await browser.clearCookies();
+    const page = await browser.newPage();
+    await new SignInPage(page).signIn("observer@extension.example");
+    await new AppShell(page).waitUntilSignedIn();
+    await page.goto(`${appUrl}/results?window=7&season=spring&species=00000000-0000-4000-8000-000000000000`);
+    const alert = page.getByRole("alert").filter({ hasText: "This address does not name a view of the results" });
+    await alert.waitFor();
+    expect(await alert.textContent()).toMatch(/flushes counted in the address must be all, 1-2 or 1/);
+    expect(await alert.textContent()).toMatch(/"spring", is not a season/);
+    await page.goto(`${appUrl}/results?species=00000000-0000-4000-8000-000000000000`);
+    await page.getByText("That species is not in the co-op's list").waitFor();
+    await page.getByRole("link", { name: "Open the results without filters" }).click();
+    await new ResultsPage(page).waitForResults();
+    await screenshot(page, "results-address-refused-then-opened");
+    await page.close();
+  });
+
   it("lets the coordinator raise the minimum and show anonymised farms, and the results follow", async () => {
     await browser.clearCookies();
     const page = await browser.newPage();

@@ -63,14 +63,18 @@ describe("a release of the pooled figures", () => {
       "delete from pooled_releases",
       "update pooled_release_strain_rows set efficiency_sum = 0",
       "delete from pooled_release_flush_rows",
+      "update pooled_release_season_rows set efficiency_sum = 0",
+      "delete from pooled_release_season_rows",
       "truncate pooled_release_strain_rows",
+      "truncate pooled_release_season_rows",
     ];
     // The superuser sees past row-level security, so only the refusing triggers stand in its way.
     for (const statement of statements) expect(await databaseRefusal(inspector.query(statement))).toMatch(/cannot be changed or removed/);
     // The owner is held by forced row-level security (no policy lets it see a release) and, for TRUNCATE, by the trigger.
     const owner = new Pool({ connectionString: ownerUrlFor(process.env.RHIZO_DATABASE ?? "postgres"), max: 1 });
     try {
-      for (const statement of statements.slice(0, 4)) expect((await owner.query(statement)).rowCount).toBe(0);
+      for (const statement of statements.filter((statement) => !statement.startsWith("truncate")))
+        expect((await owner.query(statement)).rowCount).toBe(0);
       expect(await databaseRefusal(owner.query("truncate pooled_release_flush_rows"))).toMatch(/cannot be changed or removed/);
     } finally {
       await owner.end();
@@ -89,7 +93,13 @@ describe("a release of the pooled figures", () => {
       { userId: observer.id, farmId: null, role: "observer" as const },
       { userId: coordinator.id, farmId: farmIds[0], role: "farm_manager" as const },
     ]) {
-      for (const table of ["pooled_releases", "pooled_release_strain_rows", "pooled_release_flush_rows", "pooled_release_schedule"]) {
+      for (const table of [
+        "pooled_releases",
+        "pooled_release_strain_rows",
+        "pooled_release_flush_rows",
+        "pooled_release_season_rows",
+        "pooled_release_schedule",
+      ]) {
         expect(await databaseRefusal(withFarmContext(context, (tx) => tx.execute(sql.raw(`select * from ${table} limit 1`))))).toMatch(
           /permission denied/,
         );

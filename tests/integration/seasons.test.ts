@@ -11,6 +11,7 @@ import { listBlocks } from "@/lib/data/blocks";
 import type { Member } from "@/lib/data/members";
 import { getMyFarm } from "@/lib/data/my-farm";
 import { commitUpload, createUpload, getImportSetup, parseStored } from "@/lib/data/season-logs";
+import { refreshPooledStatistics } from "@/lib/data/pooled-refresh";
 import { getSeasonStart, listFarmSeasons, updateSeasonStart } from "@/lib/data/seasons";
 import { isAppError } from "@/lib/errors";
 import { runQueuedJobs, stopJobWorkers } from "@/lib/jobs/worker";
@@ -86,6 +87,45 @@ describe("a block's season", () => {
       expect(seasonsOf(await listBlocks(asManager))).toEqual({ "SEA-EVE": 2026, "SEA-DAY": 2026, "SEA-NAMED": 2026, "SEA-UNDATED": null });
       await updateSeasonStart(asCoordinator, { month: 3, day: 2 });
       expect(seasonsOf(await listBlocks(asManager))).toMatchObject({ "SEA-DAY": 2025, "SEA-NAMED": 2026 });
+    } finally {
+      await updateSeasonStart(asCoordinator, { month: 3, day: 1 });
+    }
+  });
+
+  it("marks every farm's pooled statistics for a refresh when the season start moves, and the refresh sums BE by the new seasons", async () => {
+    const waiting = async () =>
+      (
+        await inspector.query<{ farm_id: string; requested: number; completed: number }>(
+          "select f.id as farm_id, coalesce(s.requested, 0) as requested, coalesce(s.completed, 0) as completed from farms f left join pooled_refresh_state s on s.farm_id = f.id",
+        )
+      ).rows;
+    await runQueuedJobs(["pooled-refresh"]);
+    const before = new Map((await waiting()).map((row) => [row.farm_id, row.requested]));
+    await updateSeasonStart(asCoordinator, { month: 1, day: 1 });
+    try {
+      for (const row of await waiting()) {
+        expect(row.requested, row.farm_id).toBe((before.get(row.farm_id) ?? 0) + 1);
+        expect(row.requested).toBeGreaterThan(row.completed);
+      }
+      await refreshPooledStatistics(asManager.farmId!);
+      // Season by season, the farm's blocks with a BE as block_season_year counts them under the new start.
+      const bySeason = async (statement: string) =>
+        Object.fromEntries(
+          (await inspector.query<{ season: number | null; blocks: number }>(statement, [asManager.farmId])).rows.map((row) => [
+            String(row.season),
+            Number(row.blocks),
+          ]),
+        );
+      const stored = await bySeason(
+        "select season_year as season, sum(efficiency_blocks) as blocks from farm_season_statistics where farm_id = $1 and flush_window = 'all' group by 1",
+      );
+      const counted = await bySeason(`
+        select block_season_year(b.inoculated_on, b.season_year) as season, count(*) as blocks from blocks b
+        where b.farm_id = $1 and not b.contaminated and b.wet_mass_g > 0 and b.moisture < 1
+          and exists (select 1 from harvests h where h.block_id = b.id)
+        group by 1`);
+      expect(stored).toEqual(counted);
+      expect(Object.keys(stored)).not.toContain("2025");
     } finally {
       await updateSeasonStart(asCoordinator, { month: 3, day: 1 });
     }

@@ -4,14 +4,16 @@ import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { SeasonFilter } from "@/components/ui/season-filter";
 import { listFarmSeasons } from "@/lib/data/seasons";
-import { seasonFromSearchParam } from "@/lib/seasons";
+import { Notice } from "@/components/ui/notice";
+import { seasonInAddressSchema } from "@/lib/seasons";
 import { MyFarmView } from "./_components/my-farm-view";
 
 export const metadata: Metadata = { title: "My farm" };
 
 export default async function MyFarmPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const member = await requirePage("farm-data:read");
-  const season = seasonFromSearchParam((await searchParams).season);
+  const reading = seasonInAddressSchema.safeParse((await searchParams).season);
+  const season = reading.success ? (reading.data ?? null) : null;
   const { start, seasons } = await listFarmSeasons(member);
   return (
     <>
@@ -23,7 +25,15 @@ export default async function MyFarmPage({ searchParams }: { searchParams: Promi
         <Caution which="pooledFigures" />
       </div>
       <SeasonFilter path="/my-farm" seasons={seasons} start={start} current={season} everything="Last 12 months" />
-      <MyFarmView season={season} />
+      {reading.success ? (
+        <MyFarmView season={season} />
+      ) : (
+        <Notice tone="danger" title="This address does not name a season">
+          {reading.error.issues.map((issue) => (
+            <p key={issue.message}>{issue.message} Choose a season above.</p>
+          ))}
+        </Notice>
+      )}
     </>
   );
 }

@@ -128,6 +128,140 @@ describe("an observer subtracting published pooled figures", () => {
   });
 });
 
+describe("an observer subtracting a season from every season together", () => {
+  const inSeason = (season: number, grams: number[], extra: Partial<FixtureBlock> = {}): FixtureBlock[] =>
+    harvested(grams).map((block) => ({ ...block, inoculatedOn: `${season}-03-10`, ...extra }));
+
+  /** (Σ all − Σ part) / (n all − n part), from two published means and their block counts: the rest's mean BE. */
+  const rest = (all: { estimate: number; blocks: number }, part: { estimate: number; blocks: number }) =>
+    (all.blocks * all.estimate - part.blocks * part.estimate) / (all.blocks - part.blocks);
+
+  it("cannot get a lone farm's BE from 'all seasons' minus the season the other farms grew in", async () => {
+    // Farms 1–3 grew the strain in 2025; farm 4 alone in 2026. Four farms stand behind the
+    // all-seasons BE, so it is published; 2025 has three. Before the guard, all seasons minus
+    // 2025 gave farm 4's mean BE.
+    const species = await fixture.species("Season oyster", ["Early Frost"]);
+    const [strain] = species.strainIds;
+    const farms = await Promise.all([1, 2, 3, 4].map((n) => fixture.farm(`Season farm ${n}`)));
+    for (const [index, farm] of farms.slice(0, 3).entries())
+      await fixture.blocks(
+        farm.id,
+        strain,
+        inSeason(
+          2025,
+          [780, 810, 840, 800].map((grams) => grams + 10 * index),
+        ),
+      );
+    const lone = inSeason(2026, [1190, 1230, 1260, 1215]);
+    await fixture.blocks(farms[3].id, strain, lone);
+    await publishPooledFigures(
+      inspector,
+      farms.map((farm) => farm.id),
+    );
+
+    const page = await getPooledResults(observer, { speciesId: species.id, flushWindow: "all" });
+    const all = page.results!.strains[0].efficiency;
+    if (all.status !== "published") throw new Error("the all-seasons BE should be published");
+    const row = page.seasons!.strains.find((strain) => strain.strainName.startsWith("Early Frost"));
+    // The strain's seasons are withheld, said once, and no season figure is published at all.
+    expect(row?.withheld).toMatch(/fewer than 3 farms/);
+    const published = row?.seasons.filter((season) => season.efficiency?.status === "published") ?? [];
+    expect(published).toEqual([]);
+    // And via the season filter, the same: nothing to subtract.
+    const filtered = await getPooledResults(observer, { speciesId: species.id, flushWindow: "all", season: 2025 });
+    expect(JSON.stringify(filtered.seasons)).not.toMatch(/"status":"published"/);
+    // Had 2025 been published, the subtraction would be farm 4's mean to within rounding:
+    const farmFourMean = mean(lone.map(fixtureEfficiency));
+    for (const season of published)
+      if (season.efficiency?.status === "published")
+        expect(Math.abs(rest(all.value, season.efficiency.value) - farmFourMean)).toBeGreaterThan(0.5);
+  });
+
+  it("cannot get a farm alone in a recipe within a season from that recipe's figure minus a season", async () => {
+    // Farms 1–3: recipe one in 2025. Farm 4: recipe one in 2026, beside farms 5–7 on recipe two in
+    // 2026. Every season has at least three farms and so does every recipe, yet "recipe one, all
+    // seasons" minus "2025" is farm 4's 2026 mean BE.
+    const species = await fixture.species("Season recipe oyster", ["Wet Bank"]);
+    const [strain] = species.strainIds;
+    const [recipeOne, recipeTwo] = [await fixture.recipe("Season recipe one"), await fixture.recipe("Season recipe two")];
+    const method = await fixture.method("Season slits");
+    const farms = await Promise.all([1, 2, 3, 4, 5, 6, 7].map((n) => fixture.farm(`Season recipe farm ${n}`)));
+    for (const [index, farm] of farms.slice(0, 3).entries())
+      await fixture.blocks(
+        farm.id,
+        strain,
+        inSeason(
+          2025,
+          [780, 810, 840, 800].map((grams) => grams + 10 * index),
+          { recipeId: recipeOne, methodId: method },
+        ),
+      );
+    const lone = inSeason(2026, [1190, 1230, 1260, 1215], { recipeId: recipeOne, methodId: method });
+    await fixture.blocks(farms[3].id, strain, lone);
+    for (const [index, farm] of farms.slice(4).entries())
+      await fixture.blocks(
+        farm.id,
+        strain,
+        inSeason(
+          2026,
+          [700, 720, 690].map((grams) => grams + 5 * index),
+          { recipeId: recipeTwo, methodId: method },
+        ),
+      );
+    await publishPooledFigures(
+      inspector,
+      farms.map((farm) => farm.id),
+    );
+
+    const onRecipeOne = (await getPooledResults(observer, { speciesId: species.id, substrateRecipeId: recipeOne, flushWindow: "all" }))
+      .results!.strains[0].efficiency;
+    // Rule 3 publishes the recipe filter: each recipe × fruiting-method cell has at least three farms.
+    if (onRecipeOne.status !== "published") throw new Error("the recipe-one BE should be published");
+    const seasons = (await getPooledResults(observer, { speciesId: species.id, flushWindow: "all" })).seasons!;
+    const row = seasons.strains.find((strain) => strain.strainName.startsWith("Wet Bank"));
+    expect(row?.withheld).toMatch(/fewer than 3 farms/);
+    const season2025 = row?.seasons.find((season) => season.seasonYear === 2025)?.efficiency;
+    const farmFourMean = mean(lone.map(fixtureEfficiency));
+    if (season2025?.status === "published") expect(Math.abs(rest(onRecipeOne.value, season2025.value) - farmFourMean)).toBeGreaterThan(0.5);
+    expect(season2025?.status).not.toBe("published");
+  });
+
+  it("publishes each season where every season of the strain has the minimum, equal to the mean of its blocks", async () => {
+    const species = await fixture.species("Season even oyster", ["Long Light"]);
+    const [strain] = species.strainIds;
+    const farms = await Promise.all([1, 2, 3, 4, 5, 6].map((n) => fixture.farm(`Season even farm ${n}`)));
+    const blocks = new Map<number, FixtureBlock[]>([
+      [2025, []],
+      [2026, []],
+    ]);
+    for (const [index, farm] of farms.entries()) {
+      const season = index < 3 ? 2025 : 2026;
+      const grown = inSeason(
+        season,
+        [760, 800, 830].map((grams) => grams + 20 * index),
+      );
+      blocks.get(season)!.push(...grown);
+      await fixture.blocks(farm.id, strain, grown);
+    }
+    await publishPooledFigures(
+      inspector,
+      farms.map((farm) => farm.id),
+    );
+    const row = (await getPooledResults(observer, { speciesId: species.id, flushWindow: "all" })).seasons!.strains.find((strain) =>
+      strain.strainName.startsWith("Long Light"),
+    );
+    expect(row?.withheld).toBeNull();
+    for (const season of [2025, 2026]) {
+      const figure = row?.seasons.find((entry) => entry.seasonYear === season)?.efficiency;
+      if (figure?.status !== "published") throw new Error(`season ${season} should be published`);
+      expect(figure.value.farms).toBe(3);
+      expect(figure.value.blocks).toBe(9);
+      // The mean of the season's blocks' BE (fixtureEfficiency: fresh ÷ dry substrate × 100), at the published 0.1 point.
+      expect(Math.abs(figure.value.estimate - mean(blocks.get(season)!.map(fixtureEfficiency)))).toBeLessThanOrEqual(0.05 + 1e-9);
+    }
+  });
+});
+
 describe("counts per strain", () => {
   it("does not show how many blocks a strain has where fewer than the minimum number of farms grow it", async () => {
     const species = await fixture.species("Counted oyster", ["Only Here"]);

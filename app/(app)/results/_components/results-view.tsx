@@ -1,16 +1,28 @@
 "use client";
 
 import type { ColumnDef } from "@tanstack/react-table";
-import { useState } from "react";
+import { useRouter } from "next/navigation";
+import { useTransition } from "react";
 import { ForestChart } from "@/components/charts/forest-chart";
 import { StrainBoxplot } from "@/components/charts/strain-boxplot";
 import { Card } from "@/components/ui/card";
 import { DataTable } from "@/components/ui/data-table";
 import { Notice } from "@/components/ui/notice";
 import { WordsExplained } from "@/components/ui/words-explained";
-import { flushWindowLabels, flushWindows, resultsInBrief, strainTableRow, type FlushWindow, type StrainTableRow } from "@/lib/pooled";
+import {
+  flushWindowLabels,
+  flushWindows,
+  resultsInBrief,
+  seasonTableRow,
+  strainTableRow,
+  type PooledResults,
+  type SeasonBreakdown,
+  type StrainTableRow,
+} from "@/lib/pooled";
+import type { PooledResultsPage } from "@/lib/data/pooled-results";
 import type { ReleaseInfo } from "@/lib/data/pooled-releases";
-import { usePooledResults, type PooledResultsSelection } from "@/lib/queries/pooled-results";
+import { resultsAddress, type ResultsSelection } from "@/lib/pooled/results-address";
+import { seasonLabel, type SeasonStart } from "@/lib/seasons";
 import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 
 type StrainRow = StrainTableRow;
@@ -46,24 +58,45 @@ const releaseColumns = (release: ReleaseInfo | null) =>
 
 const selectClass = "block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3 text-base";
 
-export function ResultsView({ showsOwnFarm, display }: { showsOwnFarm: boolean; display: TimeDisplay }) {
-  const [selection, setSelection] = useState<PooledResultsSelection>({ window: "all" });
-  const query = usePooledResults(selection);
-  const page = query.data;
-  const choose = (key: keyof PooledResultsSelection) => (event: React.ChangeEvent<HTMLSelectElement>) =>
-    setSelection((current) => ({ ...current, [key]: event.target.value || undefined }));
+export function ResultsView(props: { page: PooledResultsPage; selection: ResultsSelection; showsOwnFarm: boolean; display: TimeDisplay }) {
+  const { page, selection, showsOwnFarm, display } = props;
+  const router = useRouter();
+  const [pending, startTransition] = useTransition();
+  const address = resultsAddress("/results", selection);
+  // Each change is a new address: the server renders that view, and the back button steps back through the changes.
+  const choose = (event: React.ChangeEvent<HTMLSelectElement>) => {
+    const form = new FormData(event.currentTarget.form ?? undefined);
+    const text = (name: string) => {
+      const value = form.get(name);
+      return typeof value === "string" && value !== "" ? value : undefined;
+    };
+    const season = text("season");
+    const next: ResultsSelection = {
+      species: text("species"),
+      recipe: text("recipe"),
+      method: text("method"),
+      window: flushWindows.find((window) => window === text("window")) ?? "all",
+      season: season === undefined ? undefined : Number(season),
+    };
+    startTransition(() => router.push(resultsAddress("/results", next), { scroll: false }));
+  };
+  const seasonChoices = [...(page.seasons?.seasons ?? [])];
+  if (selection.season !== undefined && !seasonChoices.includes(selection.season)) seasonChoices.push(selection.season);
+  seasonChoices.sort((a, b) => b - a);
 
   return (
     <div className="space-y-6">
+      {/* Keyed by the address, so going back to an earlier address shows its choices again. */}
       <form
-        className="grid grid-cols-1 gap-4 sm:grid-cols-2 lg:grid-cols-4"
+        key={address}
+        className="grid grid-cols-1 gap-4 sm:grid-cols-2 lg:grid-cols-5"
         aria-label="Choose what to compare"
         onSubmit={(event) => event.preventDefault()}
       >
         <label className="text-sm font-medium">
           Species
-          <select name="species" className={selectClass} value={selection.species ?? page?.speciesId ?? ""} onChange={choose("species")}>
-            {(page?.options.species ?? []).map((option) => (
+          <select name="species" className={selectClass} defaultValue={selection.species ?? page.speciesId ?? ""} onChange={choose}>
+            {page.options.species.map((option) => (
               <option key={option.id} value={option.id}>
                 {option.name}
               </option>
@@ -72,9 +105,9 @@ export function ResultsView({ showsOwnFarm, display }: { showsOwnFarm: boolean; 
         </label>
         <label className="text-sm font-medium">
           Substrate recipe
-          <select name="recipe" className={selectClass} value={selection.recipe ?? ""} onChange={choose("recipe")}>
+          <select name="recipe" className={selectClass} defaultValue={selection.recipe ?? ""} onChange={choose}>
             <option value="">Any recipe</option>
-            {(page?.options.recipes ?? []).map((option) => (
+            {page.options.recipes.map((option) => (
               <option key={option.id} value={option.id}>
                 {option.name}
               </option>
@@ -83,9 +116,9 @@ export function ResultsView({ showsOwnFarm, display }: { showsOwnFarm: boolean; 
         </label>
         <label className="text-sm font-medium">
           Fruiting method
-          <select name="method" className={selectClass} value={selection.method ?? ""} onChange={choose("method")}>
+          <select name="method" className={selectClass} defaultValue={selection.method ?? ""} onChange={choose}>
             <option value="">Any fruiting method</option>
-            {(page?.options.fruitingMethods ?? []).map((option) => (
+            {page.options.fruitingMethods.map((option) => (
               <option key={option.id} value={option.id}>
                 {option.name}
               </option>
@@ -94,12 +127,7 @@ export function ResultsView({ showsOwnFarm, display }: { showsOwnFarm: boolean; 
         </label>
         <label className="text-sm font-medium">
           Flushes counted
-          <select
-            name="window"
-            className={selectClass}
-            value={selection.window}
-            onChange={(event) => setSelection((current) => ({ ...current, window: event.target.value as FlushWindow }))}
-          >
+          <select name="window" className={selectClass} defaultValue={selection.window} onChange={choose}>
             {flushWindows.map((window) => (
               <option key={window} value={window}>
                 {flushWindowLabels[window]}
@@ -107,37 +135,43 @@ export function ResultsView({ showsOwnFarm, display }: { showsOwnFarm: boolean; 
             ))}
           </select>
         </label>
+        <label className="text-sm font-medium">
+          Season
+          <select name="season" className={selectClass} defaultValue={selection.season ?? ""} onChange={choose}>
+            <option value="">All seasons</option>
+            {seasonChoices.map((season) => (
+              <option key={season} value={season}>
+                {seasonLabel(season, page.seasonStart)}
+              </option>
+            ))}
+          </select>
+        </label>
       </form>
 
-      {page ? (
-        <ReleaseLine release={page.release} schedule={page.releaseSchedule} minimumFarms={page.results?.minimumFarms} display={display} />
-      ) : null}
-
-      {query.isPending ? (
+      {pending ? (
         <p role="status" className="rounded-lg border border-oat-300 bg-white p-4 text-ink-soft">
           Loading the co-op&apos;s results…
         </p>
-      ) : query.isError ? (
-        <Notice tone="danger" title="The results could not be loaded">
-          <p>{query.error.message}</p>
-          <button type="button" className="min-h-11 font-semibold underline" onClick={() => void query.refetch()}>
-            Try again
-          </button>
-        </Notice>
-      ) : !page?.release ? (
-        <Notice title="No release yet">
-          <p>The co-op publishes its pooled figures as dated releases. The first one comes {page?.releaseSchedule}.</p>
-        </Notice>
-      ) : !page.results || page.results.strains.length === 0 ? (
-        <Notice title="Not enough data">
-          <p>
-            No member farm has recorded blocks of this species under these filters yet. Try another species, or &ldquo;Any&rdquo; recipe and
-            fruiting method.
-          </p>
-        </Notice>
-      ) : (
-        <ResultsBody page={page} showsOwnFarm={showsOwnFarm} />
-      )}
+      ) : null}
+
+      <ReleaseLine release={page.release} schedule={page.releaseSchedule} minimumFarms={page.results?.minimumFarms} display={display} />
+
+      <div aria-busy={pending} className={pending ? "space-y-6 opacity-60" : "space-y-6"}>
+        {!page.release ? (
+          <Notice title="No release yet">
+            <p>The co-op publishes its pooled figures as dated releases. The first one comes {page.releaseSchedule}.</p>
+          </Notice>
+        ) : !page.results || page.results.strains.length === 0 ? (
+          <Notice title="Not enough data">
+            <p>
+              No member farm has recorded blocks of this species under these filters yet. Try another species, or &ldquo;Any&rdquo; recipe
+              and fruiting method.
+            </p>
+          </Notice>
+        ) : (
+          <ResultsBody page={page} results={page.results} showsOwnFarm={showsOwnFarm} />
+        )}
+      </div>
     </div>
   );
 }
@@ -157,8 +191,7 @@ function ReleaseLine(props: { release: ReleaseInfo | null; schedule: string; min
   );
 }
 
-function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<typeof usePooledResults>["data"]>; showsOwnFarm: boolean }) {
-  const results = page.results!;
+function ResultsBody({ page, results, showsOwnFarm }: { page: PooledResultsPage; results: PooledResults; showsOwnFarm: boolean }) {
   const names = new Map(results.strains.map((strain) => [strain.strainId, strain.strainName]));
   const published = results.strains.filter((strain) => strain.efficiency.status === "published");
   const spreads = results.strains.flatMap((strain) =>
@@ -181,6 +214,10 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
         </div>
         <p className="mt-3 text-sm text-ink-soft">The tables and charts below are the evidence for it.</p>
       </section>
+
+      {page.season !== null && page.seasons ? (
+        <SeasonsCard breakdown={page.seasons} start={page.seasonStart} only={page.season} release={page.release} />
+      ) : null}
 
       <Card title="Strains side by side">
         {published.length === 0 ? (
@@ -207,6 +244,10 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
         </p>
         <WordsExplained terms={["biological-efficiency", "interval", "farm-adjusted-mean", "withheld"]} />
       </Card>
+
+      {page.season === null && page.seasons ? (
+        <SeasonsCard breakdown={page.seasons} start={page.seasonStart} only={null} release={page.release} />
+      ) : null}
 
       <Card title="Spread of block biological efficiency">
         {spreads.length ? (
@@ -283,5 +324,65 @@ function ResultsBody({ page, showsOwnFarm }: { page: NonNullable<ReturnType<type
         <WordsExplained terms={["reference-strain", "i-squared", "tau", "holm"]} />
       </Card>
     </>
+  );
+}
+
+/**
+ * Each strain's BE season by season (or in the chosen season), every recipe and fruiting method
+ * together. A strain whose seasons are withheld says why once, in its first cell.
+ */
+function SeasonsCard(props: { breakdown: SeasonBreakdown; start: SeasonStart; only: number | null; release: ReleaseInfo | null }) {
+  const { breakdown, start, only, release } = props;
+  const seasons = only === null ? breakdown.seasons : [only];
+  const title = only === null ? "BE season by season" : `BE in season ${seasonLabel(only, start)}`;
+  const columns: ColumnDef<Record<string, string>, unknown>[] = [
+    { id: "strain", header: "Strain", accessorKey: "strain" },
+    ...seasons.map((season) => ({
+      id: `season-${season}`,
+      header: `Season ${seasonLabel(season, start)}: mean BE (95 % interval), farms`,
+      accessorFn: (row: Record<string, string>) => row[`season-${season}`] ?? "no blocks with a BE",
+    })),
+  ];
+  const rows = breakdown.strains
+    .map((strain) => ({
+      ...strain,
+      // A season no strain has published (one chosen in the address) still reads "withheld" on a withheld strain's row.
+      seasons: seasons.map(
+        (seasonYear) =>
+          strain.seasons.find((entry) => entry.seasonYear === seasonYear) ?? {
+            seasonYear,
+            efficiency: strain.withheld ? { status: "suppressed" as const, message: "withheld" } : null,
+          },
+      ),
+    }))
+    .filter((strain) => strain.withheld !== null || strain.seasons.some((entry) => entry.efficiency !== null))
+    .map(seasonTableRow);
+  return (
+    <Card title={title}>
+      {only !== null && !breakdown.seasons.includes(only) ? (
+        <Notice title="No figure for this season">
+          <p>
+            No strain of this species has a published BE in season {seasonLabel(only, start)}: fewer than {breakdown.minimumFarms} farms had
+            a BE in it, or a strain&apos;s seasons are withheld. Choose another season, or all seasons.
+          </p>
+        </Notice>
+      ) : null}
+      <DataTable
+        caption={title}
+        columns={columns}
+        rows={rows}
+        emptyMessage={`No strain has a BE published season by season yet: each needs at least ${breakdown.minimumFarms} farms in every season it was grown.`}
+        csvFileName={`co-op-be-by-season-release-${release?.number}.csv`}
+        csvConstants={releaseColumns(release)}
+      />
+      <p className="mt-2 text-xs text-ink-soft">
+        Mean BE of the season&apos;s blocks under the flushes counted above, every substrate recipe and fruiting method together, not
+        adjusted for farm. A block&apos;s season is the one its season log names, else the season of its inoculation date. A strain&apos;s
+        seasons are shown only when every one of its seasons (and each recipe and fruiting method within a season) had at least{" "}
+        {breakdown.minimumFarms} farms with a BE, so no season can be worked out from the others and the all-seasons figure.
+        {only !== null ? " The other figures on this page cover every season together." : ""}
+      </p>
+      <WordsExplained terms={["biological-efficiency", "interval", "withheld"]} />
+    </Card>
   );
 }
