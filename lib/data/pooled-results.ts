@@ -10,16 +10,19 @@ import { AppError } from "@/lib/errors";
 import {
   addBins,
   buildPooledResults,
+  buildRegimeComparison,
   describeReleaseSchedule,
   ownBlocksForChart,
   pooledFlushProfile,
   publishedSteps,
   roundPooledResults,
+  roundRegimeComparison,
   roundTo,
   type FlushWindow,
   type OwnStrainBlocks,
   type PooledFilters,
   type PooledResults,
+  type RegimeComparison,
 } from "@/lib/pooled";
 import type { FlushProfile } from "@/lib/stats";
 import { seededRandom } from "@/lib/random";
@@ -46,6 +49,11 @@ export interface PooledResultsPage {
   release: ReleaseInfo | null;
   releaseSchedule: string;
   results: PooledResults | null;
+  /**
+   * Contamination and BE by climate regime for the species, with the room as the unit: whatever
+   * recipe, fruiting method or flush window is chosen (BE over all flushes).
+   */
+  regimes: RegimeComparison | null;
   /** The viewer's own blocks' biological efficiency by strain, for the boxplot overlay (farm people only). */
   ownBlocks: OwnStrainBlocks[];
 }
@@ -118,11 +126,32 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
       .from(treatments)
       .where(eq(treatments.kind, "fruiting_method"))
       .orderBy(asc(treatments.name));
+    const regimeKinds = await tx
+      .select({ id: treatments.id, name: treatments.name })
+      .from(treatments)
+      .where(eq(treatments.kind, "humidity"))
+      .orderBy(asc(treatments.name));
     if (!speciesId || !release)
-      return { settings, speciesList, recipes, methods, speciesId, release, rows: [], flushRows: [], strainList: [] };
+      return {
+        settings,
+        speciesList,
+        recipes,
+        methods,
+        speciesId,
+        release,
+        rows: [],
+        flushRows: [],
+        dryingRows: [],
+        regimeRows: [],
+        regimeKinds,
+        strainList: [],
+      };
     const strainList = await tx.select({ id: strains.id, name: strains.name }).from(strains).where(eq(strains.speciesId, speciesId));
     const contents = await releaseContents(tx, release.number, { speciesId, flushWindow: query.flushWindow });
     return {
+      dryingRows: contents.dryingRows,
+      regimeRows: contents.regimeRows,
+      regimeKinds,
       settings,
       speciesList,
       recipes,
@@ -145,6 +174,7 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
           buildPooledResults({
             rows: analysed.rows,
             flushRows: analysed.flushRows,
+            dryingRows: analysed.dryingRows,
             strains: analysed.strainList,
             filters,
             minimumFarms: analysed.settings?.minimumFarms ?? 3,
@@ -154,6 +184,11 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
             random: seededRandom(randomUUID()),
           }),
         )
+      : null;
+  const minimumFarms = analysed.settings?.minimumFarms ?? 3;
+  const regimes =
+    analysed.speciesId && analysed.release && analysed.regimeRows.length > 0
+      ? roundRegimeComparison(buildRegimeComparison({ rows: analysed.regimeRows, regimes: analysed.regimeKinds, minimumFarms }))
       : null;
 
   return {
@@ -165,6 +200,7 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
     release: analysed.release,
     releaseSchedule: describeReleaseSchedule(analysed.settings?.releaseSchedule ?? "daily", analysed.settings?.releaseHour ?? 2),
     results,
+    regimes,
   };
 }
 

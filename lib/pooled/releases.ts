@@ -1,4 +1,11 @@
-import { flushWindows, type FlushStatisticsRow, type FlushWindow, type StrainStatisticsRow } from "./types";
+import {
+  flushWindows,
+  type DryingStatisticsRow,
+  type FlushStatisticsRow,
+  type FlushWindow,
+  type RegimeStatisticsRow,
+  type StrainStatisticsRow,
+} from "./types";
 
 /** A farm's sufficient statistics for one cell and flush window, as a release keeps them (trial arms added together). */
 export interface ReleaseStrainRow extends StrainStatisticsRow {
@@ -10,19 +17,39 @@ export interface ReleaseFlushRow extends FlushStatisticsRow {
   speciesId: string;
 }
 
+export interface ReleaseDryingRow extends DryingStatisticsRow {
+  speciesId: string;
+}
+
 /** Everything a release publishes from: every farm's rows, read only through the analyst role. */
 export interface ReleaseContents {
   strainRows: ReleaseStrainRow[];
   flushRows: ReleaseFlushRow[];
+  dryingRows: ReleaseDryingRow[];
+  regimeRows: RegimeStatisticsRow[];
 }
+
+export const emptyReleaseContents: ReleaseContents = { strainRows: [], flushRows: [], dryingRows: [], regimeRows: [] };
 
 /**
  * The separately published figures of one cell (species × strain × recipe × fruiting method):
  * block and contamination counts, days to first harvest, BE in each flush window, the flush
- * profile. Each is checked on its own, as a farm can change one without the others (blocks
- * that have not fruited change the counts, a late flush changes BE over all flushes only).
+ * profile, the drying ratio. Each is checked on its own, as a farm can change one without the
+ * others (blocks that have not fruited change the counts, a late flush changes BE over all
+ * flushes only). A climate regime's cell is species × regime kind, with its own two figures:
+ * rooms and contamination, and room-mean BE.
  */
-export const releaseFigureKinds = ["counts", "first-harvest", "efficiency:all", "efficiency:1-2", "efficiency:1", "flush-profile"] as const;
+export const releaseFigureKinds = [
+  "counts",
+  "first-harvest",
+  "efficiency:all",
+  "efficiency:1-2",
+  "efficiency:1",
+  "flush-profile",
+  "drying",
+  "regime:contamination",
+  "regime:efficiency",
+] as const;
 export type ReleaseFigureKind = (typeof releaseFigureKinds)[number];
 
 export const releaseFigureLabels: Record<ReleaseFigureKind, string> = {
@@ -32,6 +59,9 @@ export const releaseFigureLabels: Record<ReleaseFigureKind, string> = {
   "efficiency:1-2": "BE over flushes 1–2",
   "efficiency:1": "BE of the first flush",
   "flush-profile": "flush profile",
+  drying: "drying ratio",
+  "regime:contamination": "rooms and contamination by climate regime",
+  "regime:efficiency": "room-mean BE by climate regime",
 };
 
 export interface ReleaseCell {
@@ -42,10 +72,9 @@ export interface ReleaseCell {
 }
 
 /** A figure whose change since the last release comes from too few farms: it keeps the last release's value. */
-export interface HeldBackFigure extends ReleaseCell {
-  kind: ReleaseFigureKind;
-  farmsChanged: number;
-}
+export type HeldBackFigure = { kind: ReleaseFigureKind; farmsChanged: number } & (
+  (ReleaseCell & { regimeKindId?: undefined }) | { speciesId: string; regimeKindId: string }
+);
 
 export interface ReleasePlan {
   /** What the new release would hold. */
@@ -81,6 +110,16 @@ function cellKey(row: ReleaseCell): string {
 function cellOf(key: string): ReleaseCell {
   const [speciesId, strainId, recipe, method] = key.split("|");
   return { speciesId, strainId, substrateRecipeId: recipe || null, fruitingMethodId: method || null };
+}
+
+// A regime's cell has no strain, recipe or method: its key cannot be mistaken for a strain cell's.
+const regimePrefix = "regime#";
+const regimeKey = (row: { speciesId: string; regimeKindId: string }) => `${regimePrefix}${row.speciesId}|${row.regimeKindId}`;
+
+function regimeCellOf(key: string): { speciesId: string; regimeKindId: string } | null {
+  if (!key.startsWith(regimePrefix)) return null;
+  const [speciesId, regimeKindId] = key.slice(regimePrefix.length).split("|");
+  return { speciesId, regimeKindId };
 }
 
 /** cell → figure kind → farm → vector */
@@ -139,16 +178,61 @@ function figuresOf(contents: ReleaseContents): Figures {
     ];
     put(figures, cellKey(rows[0]), "flush-profile", rows[0].farmId, vector);
   }
+  for (const row of contents.dryingRows)
+    put(figures, cellKey(row), "drying", row.farmId, [row.driedBlocks, row.ratioSum, row.ratioSquares]);
+  for (const row of contents.regimeRows) {
+    const key = regimeKey(row);
+    put(figures, key, "regime:contamination", row.farmId, [
+      row.rooms,
+      row.blocks,
+      row.blocksContaminated,
+      row.contaminationRoomSum,
+      row.contaminationRoomSquares,
+    ]);
+    put(figures, key, "regime:efficiency", row.farmId, [
+      row.efficiencyRooms,
+      row.efficiencyRoomSum,
+      row.efficiencyRoomSquares,
+      row.efficiencyBlocks,
+    ]);
+  }
   return figures;
 }
 
 function contentsOf(figures: Figures): ReleaseContents {
   const strainRows: ReleaseStrainRow[] = [];
   const flushRows: ReleaseFlushRow[] = [];
+  const dryingRows: ReleaseDryingRow[] = [];
+  const regimeRows: RegimeStatisticsRow[] = [];
   for (const [key, kinds] of figures) {
-    const cell = cellOf(key);
     const farms = new Set([...kinds.values()].flatMap((byFarm) => [...byFarm.keys()]));
+    const regime = regimeCellOf(key);
+    if (regime) {
+      for (const farmId of farms) {
+        const counts = kinds.get("regime:contamination")?.get(farmId) ?? [0, 0, 0, 0, 0];
+        const efficiency = kinds.get("regime:efficiency")?.get(farmId) ?? [0, 0, 0, 0];
+        regimeRows.push({
+          ...regime,
+          farmId,
+          rooms: counts[0],
+          blocks: counts[1],
+          blocksContaminated: counts[2],
+          contaminationRoomSum: counts[3],
+          contaminationRoomSquares: counts[4],
+          efficiencyRooms: efficiency[0],
+          efficiencyRoomSum: efficiency[1],
+          efficiencyRoomSquares: efficiency[2],
+          efficiencyBlocks: efficiency[3],
+        });
+      }
+      continue;
+    }
+    const cell = cellOf(key);
     for (const farmId of farms) {
+      const drying = kinds.get("drying")?.get(farmId);
+      if (drying && drying[0] > 0) {
+        dryingRows.push({ ...cell, farmId, driedBlocks: drying[0], ratioSum: drying[1], ratioSquares: drying[2] });
+      }
       const counts = kinds.get("counts")?.get(farmId) ?? [0, 0];
       const first = kinds.get("first-harvest")?.get(farmId) ?? [0, 0];
       for (const window of flushWindows) {
@@ -187,7 +271,7 @@ function contentsOf(figures: Figures): ReleaseContents {
       }
     }
   }
-  return { strainRows, flushRows };
+  return { strainRows, flushRows, dryingRows, regimeRows };
 }
 
 /**
@@ -221,7 +305,9 @@ export function planRelease(previous: ReleaseContents, live: ReleaseContents, mi
       );
       for (const farmId of changed) farmsChanged.add(farmId);
       const kept = changed.length === 0 || changed.length < minimumFarms ? old : candidate;
-      if (changed.length > 0 && changed.length < minimumFarms) heldBack.push({ ...cellOf(key), kind, farmsChanged: changed.length });
+      if (changed.length > 0 && changed.length < minimumFarms) {
+        heldBack.push({ ...(regimeCellOf(key) ?? cellOf(key)), kind, farmsChanged: changed.length });
+      }
       if (kept === candidate && changed.length > 0) figuresChanged++;
       for (const [farmId, vector] of kept) if (normal(vector).length > 0) put(next, key, kind, farmId, vector);
     }
