@@ -455,16 +455,11 @@ describe("the drying ratio", () => {
     const strain = buildPooledResults(input(strainRows, { dryingRows })).strains.find((s) => s.strainId === "a")!;
     const all = Object.values(ratios).flat();
     const expected = meanCI(all);
-    expect(strain.drying).toEqual({
-      status: "published",
-      value: {
-        estimate: expect.closeTo(expected.mean, 12),
-        lower: expect.closeTo(expected.lower, 12),
-        upper: expect.closeTo(expected.upper, 12),
-        farms: 3,
-        blocks: 9,
-      },
-    });
+    if (strain.drying.status !== "published") throw new Error(strain.drying.message);
+    expect(strain.drying.value).toMatchObject({ farms: 3, blocks: 9 });
+    expect(strain.drying.value.estimate).toBeCloseTo(expected.mean, 12);
+    expect(strain.drying.value.lower).toBeCloseTo(expected.lower, 12);
+    expect(strain.drying.value.upper).toBeCloseTo(expected.upper, 12);
     const twoFarms = buildPooledResults(input(strainRows, { dryingRows: dryingRows.slice(0, 2) })).strains[0];
     expect(twoFarms.drying).toEqual({ status: "suppressed", message: "fewer than 3 farms" });
     expect(buildPooledResults(input(strainRows)).strains[0].drying.status).toBe("suppressed");
@@ -474,7 +469,7 @@ describe("the drying ratio", () => {
     const dryingRows = [...Object.entries(ratios).map(([farm, values]) => drying(farm, values)), drying("f4", [0.12, 0.125], "recipe-2")];
     const rows = [...strainRows, row("f4", "a", [70, 72], { substrateRecipeId: "recipe-2" })];
     const recipeOne = buildPooledResults(input(rows, { dryingRows, filters: { substrateRecipeId: "recipe-1" } })).strains[0];
-    expect(recipeOne.drying).toEqual({ status: "suppressed", message: expect.stringMatching(/^withheld/) });
+    expect(recipeOne.drying.status === "suppressed" && recipeOne.drying.message).toMatch(/^withheld/);
     const any = buildPooledResults(input(rows, { dryingRows })).strains[0];
     expect(any.drying.status).toBe("published");
   });
