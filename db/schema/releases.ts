@@ -119,6 +119,14 @@ export const pooledReleaseRegimeRows = pgTable(
     efficiencyRoomSum: doublePrecision("efficiency_room_sum").notNull(),
     efficiencyRoomSquares: doublePrecision("efficiency_room_squares").notNull(),
     efficiencyBlocks: integer("efficiency_blocks").notNull(),
+    /**
+     * For the co-op's intraclass correlation (how alike blocks in one room are): over the BE blocks,
+     * Σy and Σy²; over rooms, Σ nᵢȳᵢ² and Σ nᵢ² (nᵢ blocks with a BE in room i, ȳᵢ its mean).
+     */
+    blockEfficiencySum: doublePrecision("block_efficiency_sum").notNull(),
+    blockEfficiencySquares: doublePrecision("block_efficiency_squares").notNull(),
+    roomWeightedSquares: doublePrecision("room_weighted_squares").notNull(),
+    roomSizeSquares: doublePrecision("room_size_squares").notNull(),
   },
   (t) => [index("pooled_release_regime_rows_read_idx").on(t.releaseNumber, t.speciesId)],
 );

@@ -196,6 +196,10 @@ const regimeColumns = {
   efficiencyRoomSum: pooledReleaseRegimeRows.efficiencyRoomSum,
   efficiencyRoomSquares: pooledReleaseRegimeRows.efficiencyRoomSquares,
   efficiencyBlocks: pooledReleaseRegimeRows.efficiencyBlocks,
+  blockEfficiencySum: pooledReleaseRegimeRows.blockEfficiencySum,
+  blockEfficiencySquares: pooledReleaseRegimeRows.blockEfficiencySquares,
+  roomWeightedSquares: pooledReleaseRegimeRows.roomWeightedSquares,
+  roomSizeSquares: pooledReleaseRegimeRows.roomSizeSquares,
 };
 
 /** A release's rows; `speciesId` and `flushWindow` narrow them to what one results page needs. */
@@ -293,12 +297,15 @@ async function writeRelease(
     const slice = plan.next.regimeRows.slice(start, start + insertSlice);
     await tx.execute(sql`
       insert into pooled_release_regime_rows (release_number, farm_id, species_id, regime_kind_id, rooms, blocks, blocks_contaminated,
-        contamination_room_sum, contamination_room_squares, efficiency_rooms, efficiency_room_sum, efficiency_room_squares, efficiency_blocks)
+        contamination_room_sum, contamination_room_squares, efficiency_rooms, efficiency_room_sum, efficiency_room_squares, efficiency_blocks,
+        block_efficiency_sum, block_efficiency_squares, room_weighted_squares, room_size_squares)
       select ${number}, r."farmId", r."speciesId", r."regimeKindId", r.rooms, r.blocks, r."blocksContaminated", r."contaminationRoomSum",
-        r."contaminationRoomSquares", r."efficiencyRooms", r."efficiencyRoomSum", r."efficiencyRoomSquares", r."efficiencyBlocks"
+        r."contaminationRoomSquares", r."efficiencyRooms", r."efficiencyRoomSum", r."efficiencyRoomSquares", r."efficiencyBlocks",
+        r."blockEfficiencySum", r."blockEfficiencySquares", r."roomWeightedSquares", r."roomSizeSquares"
       from json_to_recordset(${JSON.stringify(slice)}::json) as r("farmId" uuid, "speciesId" uuid, "regimeKindId" uuid, rooms int,
         blocks int, "blocksContaminated" int, "contaminationRoomSum" float8, "contaminationRoomSquares" float8, "efficiencyRooms" int,
-        "efficiencyRoomSum" float8, "efficiencyRoomSquares" float8, "efficiencyBlocks" int)`);
+        "efficiencyRoomSum" float8, "efficiencyRoomSquares" float8, "efficiencyBlocks" int, "blockEfficiencySum" float8,
+        "blockEfficiencySquares" float8, "roomWeightedSquares" float8, "roomSizeSquares" float8)`);
   }
   return { number: release.number, cutAt: release.cutAt.toISOString() };
 }

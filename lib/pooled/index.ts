@@ -35,7 +35,7 @@ export {
   type StrainResult,
 } from "./results";
 export { publishedSteps, roundPooledResults, roundRegimeComparison, roundTo } from "./rounding";
-export { buildRegimeComparison, type RegimeComparison, type RegimeDifference, type RegimeResult } from "./regime-results";
+export { buildRegimeComparison, pooledRoomIcc, type RegimeComparison, type RegimeDifference, type RegimeResult } from "./regime-results";
 export { matchingDay, regimeStatisticsRows, type RegimeBlock, type RegimeMove, type RoomRegime } from "./regimes";
 export {
   addTrialArms,

@@ -151,3 +151,43 @@ export function buildRegimeComparison(input: {
     : suppressed(modelProblem);
   return { minimumFarms, regimes, model };
 }
+
+/**
+ * The co-op's intraclass correlation of block BE within rooms, from the released per-farm sums:
+ * the one-way estimator of lib/stats `intraclassCorrelation` with rooms compared within each farm ×
+ * regime (so neither farm nor regime differences count as room clustering), computed from Σy, Σy²,
+ * Σ nᵢȳᵢ² and Σ nᵢ² alone. Published, to 0.01, only where at least the minimum number of farms have
+ * two or more rooms of one regime with a BE; otherwise null. Negative estimates count as 0, as for
+ * planning.
+ */
+export function pooledRoomIcc(
+  rows: readonly RegimeStatisticsRow[],
+  minimumFarms: number,
+): { icc: number; farms: number; rooms: number } | null {
+  let ssWithin = 0;
+  let ssBetween = 0;
+  let dfWithin = 0;
+  let dfBetween = 0;
+  let blocks = 0;
+  let squaredSizes = 0;
+  let rooms = 0;
+  const farms = new Set<string>();
+  for (const row of rows) {
+    if (row.efficiencyRooms < 2 || row.efficiencyBlocks === 0) continue;
+    farms.add(row.farmId);
+    ssWithin += Math.max(0, row.blockEfficiencySquares - row.roomWeightedSquares);
+    ssBetween += Math.max(0, row.roomWeightedSquares - (row.blockEfficiencySum * row.blockEfficiencySum) / row.efficiencyBlocks);
+    dfWithin += row.efficiencyBlocks - row.efficiencyRooms;
+    dfBetween += row.efficiencyRooms - 1;
+    blocks += row.efficiencyBlocks;
+    squaredSizes += row.roomSizeSquares / row.efficiencyBlocks;
+    rooms += row.efficiencyRooms;
+  }
+  if (farms.size < minimumFarms || dfBetween < 1 || dfWithin < 1) return null;
+  const msBetween = ssBetween / dfBetween;
+  const msWithin = ssWithin / dfWithin;
+  const m0 = (blocks - squaredSizes) / dfBetween;
+  const denominator = msBetween + (m0 - 1) * msWithin;
+  if (!(denominator > 0)) return null;
+  return { icc: Math.max(0, (msBetween - msWithin) / denominator), farms: farms.size, rooms };
+}

@@ -1,5 +1,7 @@
 import { describe, expect, it } from "vitest";
-import { buildRegimeComparison } from "./regime-results";
+import { seededRandom } from "@/lib/random";
+import { intraclassCorrelation } from "@/lib/stats";
+import { buildRegimeComparison, pooledRoomIcc } from "./regime-results";
 import { matchingDay, regimeStatisticsRows, type RegimeBlock, type RegimeMove, type RoomRegime } from "./regimes";
 
 // Yates (1935) oats, as in R MASS `oats` (Venables & Ripley, Modern Applied Statistics with S, 4th ed.,
@@ -182,5 +184,47 @@ describe("the day a block is matched to its room and regime", () => {
     ];
     expect(matchingDay({ ...block, contaminatedOn: null }, moves)).toBe("2026-02-03");
     expect(matchingDay({ ...block, contaminatedOn: null }, [moves[2]])).toBeNull();
+  });
+});
+
+describe("the co-op's intraclass correlation from released sums", () => {
+  it("equals lib/stats intraclassCorrelation on the blocks, rooms compared within farm and regime", () => {
+    const random = seededRandom("icc");
+    const blocks: RegimeBlock[] = [];
+    const moves: RegimeMove[] = [];
+    const regimes: RoomRegime[] = [];
+    const observations: { farm: string; room: string; y: number }[] = [];
+    for (const farm of ["f1", "f2", "f3", "f4"]) {
+      for (const regime of ["misted", "soaked"]) {
+        for (let room = 0; room < 3; room++) {
+          const roomId = `${farm} ${regime} ${room}`;
+          regimes.push({ roomId, startsOn: "2026-01-01", regimeKindId: regime });
+          const roomEffect = random.normal(0, 6);
+          // Rooms of unequal size, so m₀ is not the plain mean.
+          for (let index = 0; index < 3 + ((room + farm.length) % 4); index++) {
+            const y = 80 + (regime === "soaked" ? 5 : 0) + roomEffect + random.normal(0, 10);
+            const id = `${roomId} ${index}`;
+            blocks.push({
+              id,
+              farmId: farm,
+              speciesId: "oyster",
+              contaminated: false,
+              contaminatedOn: null,
+              dryG: 100,
+              freshG: y,
+              firstHarvestOn: "2026-03-01",
+            });
+            moves.push({ blockId: id, roomId, movedOn: null });
+            observations.push({ farm: `${farm}|${regime}`, room: roomId, y });
+          }
+        }
+      }
+    }
+    const fromSums = pooledRoomIcc(regimeStatisticsRows(blocks, moves, regimes), 3)!;
+    const fromBlocks = intraclassCorrelation(observations);
+    expect(fromSums.icc).toBeCloseTo(fromBlocks.forPlanning, 10);
+    expect(fromSums).toMatchObject({ farms: 4, rooms: 24 });
+    // Fewer farms with two rooms of a regime than the minimum: not published.
+    expect(pooledRoomIcc(regimeStatisticsRows(blocks, moves, regimes), 5)).toBeNull();
   });
 });

@@ -118,6 +118,10 @@ export function regimeStatisticsRows(
       efficiencyRoomSum: 0,
       efficiencyRoomSquares: 0,
       efficiencyBlocks: 0,
+      blockEfficiencySum: 0,
+      blockEfficiencySquares: 0,
+      roomWeightedSquares: 0,
+      roomSizeSquares: 0,
     };
     const rate = room.contaminated / room.blocks;
     row.rooms++;
@@ -130,7 +134,12 @@ export function regimeStatisticsRows(
       row.efficiencyRooms++;
       row.efficiencyRoomSum += mean;
       row.efficiencyRoomSquares += mean * mean;
-      row.efficiencyBlocks += room.efficiencies.length;
+      const n = room.efficiencies.length;
+      row.efficiencyBlocks += n;
+      row.blockEfficiencySum += n * mean;
+      row.blockEfficiencySquares += room.efficiencies.reduce((sum, value) => sum + value * value, 0);
+      row.roomWeightedSquares += n * mean * mean;
+      row.roomSizeSquares += n * n;
     }
     rows.set(key, row);
   }

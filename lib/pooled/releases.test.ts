@@ -264,6 +264,10 @@ describe("drying ratio and climate regime figures in a release", () => {
     efficiencyRoomSum: rooms * mean,
     efficiencyRoomSquares: rooms * mean * mean,
     efficiencyBlocks: 5 * rooms,
+    blockEfficiencySum: 5 * rooms * mean,
+    blockEfficiencySquares: 5 * rooms * (mean * mean + 4),
+    roomWeightedSquares: 5 * rooms * mean * mean,
+    roomSizeSquares: 25 * rooms,
   });
   const live = (dryingRows: ReturnType<typeof drying>[], regimeRows: ReturnType<typeof regime>[]): ReleaseContents => ({
     ...emptyReleaseContents,

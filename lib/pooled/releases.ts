@@ -194,6 +194,10 @@ function figuresOf(contents: ReleaseContents): Figures {
       row.efficiencyRoomSum,
       row.efficiencyRoomSquares,
       row.efficiencyBlocks,
+      row.blockEfficiencySum,
+      row.blockEfficiencySquares,
+      row.roomWeightedSquares,
+      row.roomSizeSquares,
     ]);
   }
   return figures;
@@ -210,7 +214,7 @@ function contentsOf(figures: Figures): ReleaseContents {
     if (regime) {
       for (const farmId of farms) {
         const counts = kinds.get("regime:contamination")?.get(farmId) ?? [0, 0, 0, 0, 0];
-        const efficiency = kinds.get("regime:efficiency")?.get(farmId) ?? [0, 0, 0, 0];
+        const efficiency = kinds.get("regime:efficiency")?.get(farmId) ?? [0, 0, 0, 0, 0, 0, 0, 0];
         regimeRows.push({
           ...regime,
           farmId,
@@ -223,6 +227,10 @@ function contentsOf(figures: Figures): ReleaseContents {
           efficiencyRoomSum: efficiency[1],
           efficiencyRoomSquares: efficiency[2],
           efficiencyBlocks: efficiency[3],
+          blockEfficiencySum: efficiency[4],
+          blockEfficiencySquares: efficiency[5],
+          roomWeightedSquares: efficiency[6],
+          roomSizeSquares: efficiency[7],
         });
       }
       continue;

@@ -73,6 +73,11 @@ export interface RegimeStatisticsRow {
   efficiencyRoomSum: number;
   efficiencyRoomSquares: number;
   efficiencyBlocks: number;
+  /** For the intraclass correlation: Σy, Σy² over the BE blocks; Σ nᵢȳᵢ² and Σ nᵢ² over the rooms. */
+  blockEfficiencySum: number;
+  blockEfficiencySquares: number;
+  roomWeightedSquares: number;
+  roomSizeSquares: number;
 }
 
 /** What the viewer asked for; an absent recipe or fruiting method means "any". */
