@@ -58,7 +58,10 @@ const trialDesignSchema = z
       .max(400, "Keep the question to one sentence (under 400 characters)."),
     speciesId: z.uuid("Pick the species the trial is about."),
     designKind: z
-      .enum(trialDesignKinds, "Say whether the arms compare one thing, cross strains with fruiting methods, or randomise rooms to climate regimes.")
+      .enum(
+        trialDesignKinds,
+        "Say whether the arms compare one thing, cross strains with fruiting methods, or randomise rooms to climate regimes.",
+      )
       .default("one_factor"),
     arms: z
       .string()
@@ -123,7 +126,11 @@ const trialDesignSchema = z
       context.addIssue({ code: "custom", path: ["blocksPerRoom"], message: "Give the number of blocks each room holds, e.g. 6." });
     }
     if (input.designKind === "rooms" && input.roomIcc === null) {
-      context.addIssue({ code: "custom", path: ["roomIcc"], message: "Give how alike blocks in one room are, from 0 to below 1, e.g. 0.1." });
+      context.addIssue({
+        code: "custom",
+        path: ["roomIcc"],
+        message: "Give how alike blocks in one room are, from 0 to below 1, e.g. 0.1.",
+      });
     }
   });
 

@@ -134,7 +134,12 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
   const fruitingMethods = options.treatments.filter((treatment) => treatment.kind === "fruiting_method");
   const climateRegimes = options.treatments.filter((treatment) => treatment.kind === "humidity");
   const roomProblems =
-    designKind === "rooms" ? roomArmsProblems(arms.map((arm) => ({ ...arm, treatmentId: arm.treatmentId || null })), options.treatments) : [];
+    designKind === "rooms"
+      ? roomArmsProblems(
+          arms.map((arm) => ({ ...arm, treatmentId: arm.treatmentId || null })),
+          options.treatments,
+        )
+      : [];
   const crossingProblems =
     designKind === "strain_by_method"
       ? crossedArmsProblems(
@@ -298,9 +303,9 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
                 className="mt-0.5 h-5 w-5 shrink-0"
               />
               <span>
-                Rooms randomised to climate regimes: each arm is a way of running a fruiting room. Each farm&apos;s rooms, not its blocks, are
-                drawn at random to the arms, and every block in a room is in that room&apos;s arm. The analysis compares room means with each
-                farm as a block.
+                Rooms randomised to climate regimes: each arm is a way of running a fruiting room. Each farm&apos;s rooms, not its blocks,
+                are drawn at random to the arms, and every block in a room is in that room&apos;s arm. The analysis compares room means with
+                each farm as a block.
               </span>
             </label>
           </fieldset>
@@ -683,13 +688,14 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
                   <>
                     <p className="mb-2 text-sm">
                       Design effect 1 + ({toNumber(blocksPerRoom)} − 1) × {toNumber(roomIcc)} ={" "}
-                      <span data-testid="design-effect">{roomPanel.designEffect.toFixed(2)}</span>: a room of {toNumber(blocksPerRoom)} blocks
-                      tells as much as {(toNumber(blocksPerRoom) / roomPanel.designEffect).toFixed(1)} separate blocks.
+                      <span data-testid="design-effect">{roomPanel.designEffect.toFixed(2)}</span>: a room of {toNumber(blocksPerRoom)}{" "}
+                      blocks tells as much as {(toNumber(blocksPerRoom) / roomPanel.designEffect).toFixed(1)} separate blocks.
                     </p>
                     <table className="w-full text-sm">
                       <caption className="mb-2 text-left text-ink-soft">
                         Rooms to randomise so that {roomPanel.pairs > 1 ? "each pair of regimes" : "the two regimes"} can be told apart on
-                        room means (two-sided 5 % level{roomPanel.pairs > 1 ? `, Tukey over ${roomPanel.pairs} pairs` : ""}; farms as blocks)
+                        room means (two-sided 5 % level{roomPanel.pairs > 1 ? `, Tukey over ${roomPanel.pairs} pairs` : ""}; farms as
+                        blocks)
                       </caption>
                       <thead>
                         <tr className="text-left">
@@ -715,9 +721,9 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
                       </tbody>
                     </table>
                     <p className="mt-2 text-xs text-ink-soft">
-                      The room-mean comparison needs {roomPanel.rows[0].exactRoomsPerArm.toFixed(1)} rooms per arm for 80 % power; randomising
-                      blocks instead would need {roomPanel.rows[0].blocksPerArmIfBlocksRandomised.toFixed(1)} blocks per arm, but a regime
-                      runs a whole room, so its blocks cannot be drawn one by one.
+                      The room-mean comparison needs {roomPanel.rows[0].exactRoomsPerArm.toFixed(1)} rooms per arm for 80 % power;
+                      randomising blocks instead would need {roomPanel.rows[0].blocksPerArmIfBlocksRandomised.toFixed(1)} blocks per arm,
+                      but a regime runs a whole room, so its blocks cannot be drawn one by one.
                     </p>
                   </>
                 ) : (
