@@ -100,7 +100,8 @@ async function main() {
     // A co-op kept from an earlier run has its releases too; the first release is timed again from none.
     // Releases refuse to be removed; the superuser switches the refusing triggers off in its own transaction.
     await superuser.query(`begin; set local session_replication_role = replica;
-      delete from pooled_release_strain_rows; delete from pooled_release_flush_rows; delete from pooled_releases; commit;`);
+      delete from pooled_release_strain_rows; delete from pooled_release_flush_rows; delete from pooled_release_drying_rows;
+      delete from pooled_release_regime_rows; delete from pooled_releases; commit;`);
   }
   // The baseline writes its sums into a temp table as the analyst; no role has TEMPORARY on a
   // real database (migration 0011), so only this scratch one grants it.

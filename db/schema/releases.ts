@@ -94,3 +94,53 @@ export const pooledReleaseSchedule = pgTable(
   },
   (t) => [check("pooled_release_schedule_single_row", sql`${t.id} = 1`)],
 );
+
+/**
+ * A release's drying ratio sums per farm cell (species × strain × recipe × fruiting method): blocks
+ * with a harvest weighed both fresh and dried, and Σ, Σ² of each block's dry ÷ fresh mass.
+ */
+export const pooledReleaseDryingRows = pgTable(
+  "pooled_release_drying_rows",
+  {
+    ...releaseCellColumns(),
+    driedBlocks: integer("dried_blocks").notNull(),
+    ratioSum: doublePrecision("ratio_sum").notNull(),
+    ratioSquares: doublePrecision("ratio_squares").notNull(),
+  },
+  (t) => [index("pooled_release_drying_rows_read_idx").on(t.releaseNumber, t.speciesId)],
+);
+
+/**
+ * A release's figures by climate regime kind per farm and species, with the room as the unit (a room
+ * while it ran that regime kind): rooms, blocks matched to them, and Σ, Σ² of the rooms' contamination
+ * rates and mean BE. No room id leaves the refresh; no foreign key to the register, as for strains.
+ */
+export const pooledReleaseRegimeRows = pgTable(
+  "pooled_release_regime_rows",
+  {
+    releaseNumber: integer("release_number")
+      .notNull()
+      .references(() => pooledReleases.number),
+    farmId: uuid("farm_id").notNull(),
+    speciesId: uuid("species_id").notNull(),
+    regimeKindId: uuid("regime_kind_id").notNull(),
+    rooms: integer("rooms").notNull(),
+    blocks: integer("blocks").notNull(),
+    blocksContaminated: integer("blocks_contaminated").notNull(),
+    contaminationRoomSum: doublePrecision("contamination_room_sum").notNull(),
+    contaminationRoomSquares: doublePrecision("contamination_room_squares").notNull(),
+    efficiencyRooms: integer("efficiency_rooms").notNull(),
+    efficiencyRoomSum: doublePrecision("efficiency_room_sum").notNull(),
+    efficiencyRoomSquares: doublePrecision("efficiency_room_squares").notNull(),
+    efficiencyBlocks: integer("efficiency_blocks").notNull(),
+    /**
+     * For the co-op's intraclass correlation (how alike blocks in one room are): over the BE blocks,
+     * Σy and Σy²; over rooms, Σ nᵢȳᵢ² and Σ nᵢ² (nᵢ blocks with a BE in room i, ȳᵢ its mean).
+     */
+    blockEfficiencySum: doublePrecision("block_efficiency_sum").notNull(),
+    blockEfficiencySquares: doublePrecision("block_efficiency_squares").notNull(),
+    roomWeightedSquares: doublePrecision("room_weighted_squares").notNull(),
+    roomSizeSquares: doublePrecision("room_size_squares").notNull(),
+  },
+  (t) => [index("pooled_release_regime_rows_read_idx").on(t.releaseNumber, t.speciesId)],
+);

@@ -45,6 +45,9 @@ export const trials = pgTable(
     expectedSd: numeric("expected_sd", { mode: "number" }),
     plannedFarms: integer("planned_farms"),
     expectedLoss: numeric("expected_loss", { mode: "number" }),
+    /** A room-level trial: the blocks each room holds, and the intraclass correlation the size was planned with. */
+    blocksPerRoom: integer("blocks_per_room"),
+    roomIcc: numeric("room_icc", { mode: "number" }),
     // Farms that withdrew their data after publication: the report keeps its figures and says so.
     withdrawalsAfterPublication: integer("withdrawals_after_publication").notNull().default(0),
     createdBy: uuid("created_by").references(() => users.id, { onDelete: "set null" }),
@@ -62,6 +65,8 @@ export const trials = pgTable(
         and (${t.fruitingFrom} is null or ${t.dataDue} is null or ${t.fruitingFrom} < ${t.dataDue})`,
     ),
     check("expected_loss_range", sql`${t.expectedLoss} is null or (${t.expectedLoss} >= 0 and ${t.expectedLoss} < 1)`),
+    check("blocks_per_room_positive", sql`${t.blocksPerRoom} is null or ${t.blocksPerRoom} >= 1`),
+    check("room_icc_range", sql`${t.roomIcc} is null or (${t.roomIcc} >= 0 and ${t.roomIcc} < 1)`),
   ],
 );
 

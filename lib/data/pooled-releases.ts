@@ -3,12 +3,15 @@ import { desc, eq, sql } from "drizzle-orm";
 import { withAnalystAccess, type Transaction } from "@/db/client";
 import {
   cooperativeSettings,
+  pooledReleaseDryingRows,
   pooledReleaseFlushRows,
+  pooledReleaseRegimeRows,
   pooledReleases,
   pooledReleaseSchedule,
   pooledReleaseSeasonRows,
   pooledReleaseStrainRows,
   strains,
+  treatments,
 } from "@/db/schema";
 import { actor, recordAudit } from "@/lib/data/audit";
 import { type Member } from "@/lib/data/members";
@@ -16,17 +19,24 @@ import { getPooledUpdating } from "@/lib/data/pooled-refresh";
 import { AppError } from "@/lib/errors";
 import {
   addTrialArms,
+  emptyReleaseContents,
   latestReleaseSlot,
   nextReleaseSlot,
   planRelease,
+  regimeStatisticsRows,
   releaseFigureLabels,
+  type RegimeBlock,
+  type RegimeMove,
+  type RegimeStatisticsRow,
   type ReleaseContents,
+  type ReleaseDryingRow,
   type ReleaseFigureKind,
   type ReleaseFlushRow,
   type ReleasePlan,
   type ReleaseSchedule,
   type ReleaseSeasonRow,
   type ReleaseStrainRow,
+  type RoomRegime,
 } from "@/lib/pooled";
 import { asMember } from "./context";
 
@@ -64,9 +74,22 @@ export async function latestRelease(tx: Transaction): Promise<ReleaseInfo | null
   return row ? { number: row.number, cutAt: row.cutAt.toISOString() } : null;
 }
 
-/** Every farm's live statistics, trial arms added together, read in one statement so one snapshot sees all of them. */
+/**
+ * Every farm's live statistics, trial arms added together, read in one statement so one snapshot
+ * sees all of them. The drying ratio and the figures by climate regime have no statistics table:
+ * they are made here, on the release path, from the columns the analyst may read (0041, 0047), the
+ * regimes' in lib/pooled (rooms and regimes matched by date there, with lib/rooms).
+ */
 async function liveContents(tx: Transaction): Promise<ReleaseContents> {
-  const result = await tx.execute<{ strain_rows: ReleaseStrainRow[]; flush_rows: ReleaseFlushRow[]; season_rows: ReleaseSeasonRow[] }>(sql`
+  const result = await tx.execute<{
+    strain_rows: ReleaseStrainRow[];
+    flush_rows: ReleaseFlushRow[];
+    season_rows: ReleaseSeasonRow[];
+    drying_rows: ReleaseDryingRow[];
+    regime_blocks: RegimeBlock[];
+    moves: RegimeMove[];
+    regimes: RoomRegime[];
+  }>(sql`
     select
       (select coalesce(json_agg(s), '[]') from (
         select farm_id as "farmId", species_id as "speciesId", strain_id as "strainId", substrate_recipe_id as "substrateRecipeId",
@@ -85,9 +108,45 @@ async function liveContents(tx: Transaction): Promise<ReleaseContents> {
         select farm_id as "farmId", species_id as "speciesId", strain_id as "strainId", substrate_recipe_id as "substrateRecipeId",
           fruiting_method_id as "fruitingMethodId", season_year as "seasonYear", flush_window as "flushWindow",
           efficiency_blocks as "efficiencyBlocks", efficiency_sum as "efficiencySum", efficiency_squares as "efficiencySquares"
-        from farm_season_statistics) z) as season_rows`);
+        from farm_season_statistics) z) as season_rows,
+      -- A block's drying ratio is its dried harvests' dry mass over their fresh mass; a harvest whose
+      -- dry mass exceeds its fresh mass cannot be right and is left out.
+      (select coalesce(json_agg(d), '[]') from (
+        select b.farm_id as "farmId", strain.species_id as "speciesId", b.strain_id as "strainId",
+          b.substrate_recipe_id as "substrateRecipeId", b.fruiting_method_id as "fruitingMethodId",
+          count(*)::int as "driedBlocks", sum(r.ratio) as "ratioSum", sum(r.ratio * r.ratio) as "ratioSquares"
+        from (
+          select block_id, sum(dry_mass_g)::float8 / sum(fresh_mass_g)::float8 as ratio from harvests
+          where dry_mass_g is not null and fresh_mass_g > 0 and dry_mass_g <= fresh_mass_g
+          group by block_id
+        ) r
+        join blocks b on b.id = r.block_id
+        join strains strain on strain.id = b.strain_id
+        group by 1, 2, 3, 4, 5) d) as drying_rows,
+      (select coalesce(json_agg(rb), '[]') from (
+        select b.id, b.farm_id as "farmId", strain.species_id as "speciesId", b.contaminated, b.contaminated_on::text as "contaminatedOn",
+          case when not b.contaminated and b.wet_mass_g > 0 and b.moisture < 1 then (b.wet_mass_g * (1 - b.moisture))::float8 end as "dryG",
+          h.fresh as "freshG", h.first_on::text as "firstHarvestOn"
+        from blocks b
+        join strains strain on strain.id = b.strain_id
+        left join (
+          select block_id, sum(fresh_mass_g)::float8 as fresh, min(harvested_on) as first_on from harvests
+          where block_id in (select block_id from block_room_moves)
+          group by block_id
+        ) h on h.block_id = b.id
+        where b.id in (select block_id from block_room_moves)) rb) as regime_blocks,
+      (select coalesce(json_agg(m), '[]') from (
+        select block_id as "blockId", room_id as "roomId", moved_on::text as "movedOn" from block_room_moves) m) as moves,
+      (select coalesce(json_agg(g), '[]') from (
+        select room_id as "roomId", starts_on::text as "startsOn", regime_kind_id as "regimeKindId" from room_regimes) g) as regimes`);
   const [row] = result.rows;
-  return { strainRows: addTrialArms(row.strain_rows), flushRows: row.flush_rows, seasonRows: row.season_rows };
+  return {
+    strainRows: addTrialArms(row.strain_rows),
+    flushRows: row.flush_rows,
+    seasonRows: row.season_rows,
+    dryingRows: row.drying_rows,
+    regimeRows: regimeStatisticsRows(row.regime_blocks, row.moves, row.regimes),
+  };
 }
 
 const strainColumns = {
@@ -135,6 +194,36 @@ const seasonColumns = {
   efficiencySquares: pooledReleaseSeasonRows.efficiencySquares,
 };
 
+const dryingColumns = {
+  farmId: pooledReleaseDryingRows.farmId,
+  speciesId: pooledReleaseDryingRows.speciesId,
+  strainId: pooledReleaseDryingRows.strainId,
+  substrateRecipeId: pooledReleaseDryingRows.substrateRecipeId,
+  fruitingMethodId: pooledReleaseDryingRows.fruitingMethodId,
+  driedBlocks: pooledReleaseDryingRows.driedBlocks,
+  ratioSum: pooledReleaseDryingRows.ratioSum,
+  ratioSquares: pooledReleaseDryingRows.ratioSquares,
+};
+
+const regimeColumns = {
+  farmId: pooledReleaseRegimeRows.farmId,
+  speciesId: pooledReleaseRegimeRows.speciesId,
+  regimeKindId: pooledReleaseRegimeRows.regimeKindId,
+  rooms: pooledReleaseRegimeRows.rooms,
+  blocks: pooledReleaseRegimeRows.blocks,
+  blocksContaminated: pooledReleaseRegimeRows.blocksContaminated,
+  contaminationRoomSum: pooledReleaseRegimeRows.contaminationRoomSum,
+  contaminationRoomSquares: pooledReleaseRegimeRows.contaminationRoomSquares,
+  efficiencyRooms: pooledReleaseRegimeRows.efficiencyRooms,
+  efficiencyRoomSum: pooledReleaseRegimeRows.efficiencyRoomSum,
+  efficiencyRoomSquares: pooledReleaseRegimeRows.efficiencyRoomSquares,
+  efficiencyBlocks: pooledReleaseRegimeRows.efficiencyBlocks,
+  blockEfficiencySum: pooledReleaseRegimeRows.blockEfficiencySum,
+  blockEfficiencySquares: pooledReleaseRegimeRows.blockEfficiencySquares,
+  roomWeightedSquares: pooledReleaseRegimeRows.roomWeightedSquares,
+  roomSizeSquares: pooledReleaseRegimeRows.roomSizeSquares,
+};
+
 /** A release's rows; `speciesId` and `flushWindow` narrow them to what one results page needs. */
 export async function releaseContents(
   tx: Transaction,
@@ -167,7 +256,17 @@ export async function releaseContents(
     .select(seasonColumns)
     .from(pooledReleaseSeasonRows)
     .where(sql.join(seasonFilter, sql` and `))) as ReleaseSeasonRow[];
-  return { strainRows, flushRows, seasonRows };
+  const bySpecies = <T extends typeof pooledReleaseDryingRows | typeof pooledReleaseRegimeRows>(table: T) =>
+    sql.join(
+      [sql`${table.releaseNumber} = ${releaseNumber}`, ...(only.speciesId ? [sql`${table.speciesId} = ${only.speciesId}`] : [])],
+      sql` and `,
+    );
+  const dryingRows = await tx.select(dryingColumns).from(pooledReleaseDryingRows).where(bySpecies(pooledReleaseDryingRows));
+  const regimeRows: RegimeStatisticsRow[] = await tx
+    .select(regimeColumns)
+    .from(pooledReleaseRegimeRows)
+    .where(bySpecies(pooledReleaseRegimeRows));
+  return { strainRows, flushRows, seasonRows, dryingRows, regimeRows };
 }
 
 const insertSlice = 5000;
@@ -226,23 +325,54 @@ async function writeRelease(
         "fruitingMethodId" uuid, "seasonYear" int, "flushWindow" text, "efficiencyBlocks" int, "efficiencySum" float8,
         "efficiencySquares" float8)`);
   }
+  for (let start = 0; start < plan.next.dryingRows.length; start += insertSlice) {
+    const slice = plan.next.dryingRows.slice(start, start + insertSlice);
+    await tx.execute(sql`
+      insert into pooled_release_drying_rows (release_number, farm_id, species_id, strain_id, substrate_recipe_id, fruiting_method_id,
+        dried_blocks, ratio_sum, ratio_squares)
+      select ${number}, r."farmId", r."speciesId", r."strainId", r."substrateRecipeId", r."fruitingMethodId", r."driedBlocks", r."ratioSum",
+        r."ratioSquares"
+      from json_to_recordset(${JSON.stringify(slice)}::json) as r("farmId" uuid, "speciesId" uuid, "strainId" uuid, "substrateRecipeId" uuid,
+        "fruitingMethodId" uuid, "driedBlocks" int, "ratioSum" float8, "ratioSquares" float8)`);
+  }
+  for (let start = 0; start < plan.next.regimeRows.length; start += insertSlice) {
+    const slice = plan.next.regimeRows.slice(start, start + insertSlice);
+    await tx.execute(sql`
+      insert into pooled_release_regime_rows (release_number, farm_id, species_id, regime_kind_id, rooms, blocks, blocks_contaminated,
+        contamination_room_sum, contamination_room_squares, efficiency_rooms, efficiency_room_sum, efficiency_room_squares, efficiency_blocks,
+        block_efficiency_sum, block_efficiency_squares, room_weighted_squares, room_size_squares)
+      select ${number}, r."farmId", r."speciesId", r."regimeKindId", r.rooms, r.blocks, r."blocksContaminated", r."contaminationRoomSum",
+        r."contaminationRoomSquares", r."efficiencyRooms", r."efficiencyRoomSum", r."efficiencyRoomSquares", r."efficiencyBlocks",
+        r."blockEfficiencySum", r."blockEfficiencySquares", r."roomWeightedSquares", r."roomSizeSquares"
+      from json_to_recordset(${JSON.stringify(slice)}::json) as r("farmId" uuid, "speciesId" uuid, "regimeKindId" uuid, rooms int,
+        blocks int, "blocksContaminated" int, "contaminationRoomSum" float8, "contaminationRoomSquares" float8, "efficiencyRooms" int,
+        "efficiencyRoomSum" float8, "efficiencyRoomSquares" float8, "efficiencyBlocks" int, "blockEfficiencySum" float8,
+        "blockEfficiencySquares" float8, "roomWeightedSquares" float8, "roomSizeSquares" float8)`);
+  }
   return { number: release.number, cutAt: release.cutAt.toISOString() };
 }
 
-/** What waits, by strain name: the coordinator sees which strains and how many farms are still needed, never which farms or cells. */
+/**
+ * What waits, by strain name (or climate regime, for the figures by regime): the coordinator sees
+ * which strains and how many farms are still needed, never which farms or cells.
+ */
 async function waitingByStrain(tx: Transaction, plan: ReleasePlan): Promise<WaitingFigures[]> {
   if (plan.heldBack.length === 0) return [];
   const names = new Map((await tx.select({ id: strains.id, name: strains.name }).from(strains)).map((row) => [row.id, row.name]));
+  const regimeNames = new Map(
+    (await tx.select({ id: treatments.id, name: treatments.name }).from(treatments)).map((row) => [row.id, `Climate regime ${row.name}`]),
+  );
   const byStrain = new Map<string, { kinds: Set<ReleaseFigureKind>; farmsChanged: number }>();
   for (const figure of plan.heldBack) {
-    const entry = byStrain.get(figure.strainId) ?? { kinds: new Set(), farmsChanged: 0 };
+    const key = figure.regimeKindId ?? figure.strainId;
+    const entry = byStrain.get(key) ?? { kinds: new Set(), farmsChanged: 0 };
     entry.kinds.add(figure.kind);
     entry.farmsChanged = Math.max(entry.farmsChanged, figure.farmsChanged);
-    byStrain.set(figure.strainId, entry);
+    byStrain.set(key, entry);
   }
   return [...byStrain]
     .map(([strainId, entry]) => ({
-      strainName: names.get(strainId) ?? "A strain no longer in the registry",
+      strainName: names.get(strainId) ?? regimeNames.get(strainId) ?? "A strain no longer in the registry",
       figures: [...entry.kinds].map((kind) => releaseFigureLabels[kind]),
       farmsChanged: entry.farmsChanged,
     }))
@@ -258,7 +388,7 @@ async function minimumFarmsNow(tx: Transaction): Promise<number> {
 async function planNext(tx: Transaction) {
   const minimumFarms = await minimumFarmsNow(tx);
   const previous = await latestRelease(tx);
-  const before = previous ? await releaseContents(tx, previous.number) : { strainRows: [], flushRows: [], seasonRows: [] };
+  const before = previous ? await releaseContents(tx, previous.number) : emptyReleaseContents;
   const plan = planRelease(before, await liveContents(tx), minimumFarms);
   return { plan, previous, minimumFarms, waiting: await waitingByStrain(tx, plan) };
 }

@@ -10,11 +10,13 @@ import { AppError } from "@/lib/errors";
 import {
   addBins,
   buildPooledResults,
+  buildRegimeComparison,
   describeReleaseSchedule,
   ownBlocksForChart,
   pooledFlushProfile,
   publishedSteps,
   roundPooledResults,
+  roundRegimeComparison,
   roundTo,
   seasonBySeason,
   type FlushWindow,
@@ -22,6 +24,7 @@ import {
   type PooledFilters,
   type PooledResults,
   type SeasonBreakdown,
+  type RegimeComparison,
 } from "@/lib/pooled";
 import { calendarYear, type SeasonStart } from "@/lib/seasons";
 import type { ResultsSelection } from "@/lib/pooled/results-address";
@@ -68,6 +71,11 @@ export interface PooledResultsPage {
   release: ReleaseInfo | null;
   releaseSchedule: string;
   results: PooledResults | null;
+  /**
+   * Contamination and BE by climate regime for the species, with the room as the unit: whatever
+   * recipe, fruiting method or flush window is chosen (BE over all flushes).
+   */
+  regimes: RegimeComparison | null;
   /** The viewer's own blocks' biological efficiency by strain, for the boxplot overlay (farm people only). */
   ownBlocks: OwnStrainBlocks[];
 }
@@ -146,6 +154,11 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
       .from(treatments)
       .where(eq(treatments.kind, "fruiting_method"))
       .orderBy(asc(treatments.name));
+    const regimeKinds = await tx
+      .select({ id: treatments.id, name: treatments.name })
+      .from(treatments)
+      .where(eq(treatments.kind, "humidity"))
+      .orderBy(asc(treatments.name));
     if (query.substrateRecipeId && !recipes.some((entry) => entry.id === query.substrateRecipeId)) {
       throw new AppError("not_found", "That substrate recipe is not in the co-op's register. Choose one from the list.");
     }
@@ -153,10 +166,27 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
       throw new AppError("not_found", "That fruiting method is not in the co-op's register. Choose one from the list.");
     }
     if (!speciesId || !release)
-      return { settings, speciesList, recipes, methods, speciesId, release, rows: [], flushRows: [], seasonRows: [], strainList: [] };
+      return {
+        settings,
+        speciesList,
+        recipes,
+        methods,
+        speciesId,
+        release,
+        rows: [],
+        flushRows: [],
+        seasonRows: [],
+        dryingRows: [],
+        regimeRows: [],
+        regimeKinds,
+        strainList: [],
+      };
     const strainList = await tx.select({ id: strains.id, name: strains.name }).from(strains).where(eq(strains.speciesId, speciesId));
     const contents = await releaseContents(tx, release.number, { speciesId, flushWindow: query.flushWindow });
     return {
+      dryingRows: contents.dryingRows,
+      regimeRows: contents.regimeRows,
+      regimeKinds,
       settings,
       speciesList,
       recipes,
@@ -180,6 +210,7 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
           buildPooledResults({
             rows: analysed.rows,
             flushRows: analysed.flushRows,
+            dryingRows: analysed.dryingRows,
             strains: analysed.strainList,
             filters,
             minimumFarms: analysed.settings?.minimumFarms ?? 3,
@@ -189,6 +220,11 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
             random: seededRandom(randomUUID()),
           }),
         )
+      : null;
+  const minimumFarms = analysed.settings?.minimumFarms ?? 3;
+  const regimes =
+    analysed.speciesId && analysed.release && analysed.regimeRows.length > 0
+      ? roundRegimeComparison(buildRegimeComparison({ rows: analysed.regimeRows, regimes: analysed.regimeKinds, minimumFarms }))
       : null;
 
   return {
@@ -210,6 +246,7 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
     release: analysed.release,
     releaseSchedule: describeReleaseSchedule(analysed.settings?.releaseSchedule ?? "daily", analysed.settings?.releaseHour ?? 2),
     results,
+    regimes,
   };
 }
 

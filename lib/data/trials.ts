@@ -39,7 +39,8 @@ import {
   type TrialMail,
 } from "@/lib/mail/messages/trials";
 import type { MailKind, SecretLink } from "@/lib/mail/queued-mail";
-import { publishedSteps, roundTo, withinFarmSpread } from "@/lib/pooled";
+import { pooledRoomIcc, publishedSteps, roundTo, withinFarmSpread } from "@/lib/pooled";
+import { roomArmsProblems } from "@/lib/trials/room-design";
 import { seededRandom } from "@/lib/random";
 import {
   assertMove,
@@ -105,6 +106,9 @@ export interface TrialDesignInput {
   expectedSd: number | null;
   plannedFarms: number | null;
   expectedLoss: number | null;
+  /** A room-level trial ("rooms"): the blocks each room holds and the intraclass correlation it was sized with. */
+  blocksPerRoom?: number | null;
+  roomIcc?: number | null;
 }
 
 export interface TrialArmView {
@@ -187,6 +191,8 @@ async function loadTrial(tx: Transaction, member: Member, trialId: string) {
       expectedSd: trials.expectedSd,
       plannedFarms: trials.plannedFarms,
       expectedLoss: trials.expectedLoss,
+      blocksPerRoom: trials.blocksPerRoom,
+      roomIcc: trials.roomIcc,
       publishedAt: trials.publishedAt,
       withdrawalsAfterPublication: trials.withdrawalsAfterPublication,
     })
@@ -436,6 +442,30 @@ export async function listBlockSpreadBySpecies(): Promise<{
   });
 }
 
+/**
+ * How alike blocks in one room are, per species, for a room-level trial's size: the co-op's
+ * intraclass correlation of block BE within rooms (rooms compared within each farm and regime),
+ * from the newest release's figures by climate regime, only where the co-op's minimum number of
+ * farms ran two or more rooms of a regime; to 0.01, as the form shows it.
+ */
+export async function listRoomIccBySpecies(): Promise<Record<string, { icc: number; farms: number; rooms: number }>> {
+  return withAnalystAccess(async (tx) => {
+    const minimumFarms = await minimumFarmsOf(tx);
+    const release = await latestRelease(tx);
+    if (!release) return {};
+    const rows = (await releaseContents(tx, release.number)).regimeRows;
+    const bySpecies: Record<string, { icc: number; farms: number; rooms: number }> = {};
+    for (const speciesId of new Set(rows.map((row) => row.speciesId))) {
+      const pooled = pooledRoomIcc(
+        rows.filter((row) => row.speciesId === speciesId),
+        minimumFarms,
+      );
+      if (pooled) bySpecies[speciesId] = { ...pooled, icc: roundTo(pooled.icc, 0.01) };
+    }
+    return bySpecies;
+  });
+}
+
 // ——— Design ———
 
 async function nextTrialCode(tx: Transaction): Promise<string> {
@@ -485,6 +515,19 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
           problems.map((message) => ({ field: "arms", message })),
         );
     }
+    if (designKind === "rooms") {
+      const treatmentIds = [...new Set(input.arms.flatMap((arm) => (arm.treatmentId ? [arm.treatmentId] : [])))];
+      const treatmentRows = treatmentIds.length
+        ? await tx.select({ id: treatments.id, kind: treatments.kind }).from(treatments).where(inArray(treatments.id, treatmentIds))
+        : [];
+      const problems = roomArmsProblems(input.arms, treatmentRows);
+      if (problems.length)
+        throw new AppError(
+          "invalid_input",
+          problems[0],
+          problems.map((message) => ({ field: "arms", message })),
+        );
+    }
     input.arms.forEach((arm, index) => {
       const strain = strainRows.find((row) => row.id === arm.strainId);
       if (!strain)
@@ -514,6 +557,8 @@ export async function saveTrialDraft(member: Member, input: TrialDesignInput): P
       expectedSd: input.expectedSd,
       plannedFarms: input.plannedFarms,
       expectedLoss: input.expectedLoss,
+      blocksPerRoom: designKind === "rooms" ? (input.blocksPerRoom ?? null) : null,
+      roomIcc: designKind === "rooms" ? (input.roomIcc ?? null) : null,
     };
     let id: string;
     let code: string;

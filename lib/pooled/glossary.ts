@@ -89,6 +89,30 @@ export const glossary = [
     plain:
       "A figure not published because fewer than the co-op's minimum number of farms contributed to it: with fewer, a reader could work out one farm's own numbers.",
   },
+  {
+    id: "drying-ratio",
+    term: "Drying ratio",
+    plain:
+      "The dry weight of dried mushrooms as a share of their fresh weight: 9 % means 1 kg picked fresh gives about 90 g dried. Counted for farms that weigh their harvests again after drying.",
+  },
+  {
+    id: "climate-regime",
+    term: "Climate regime",
+    plain:
+      "How a fruiting room's humidity and air were run: for example misted on and off all day, or soaked once a day and left to dry out. The co-op keeps a register of regime kinds so farms can be compared.",
+  },
+  {
+    id: "room-as-unit",
+    term: "The room as the unit",
+    plain:
+      "Blocks in one room share its air and its handling, so they are not separate pieces of evidence about a regime. Each room's own average is worked out first; the comparison then counts rooms, not blocks.",
+  },
+  {
+    id: "observational",
+    term: "Observational comparison",
+    plain:
+      "A comparison of what farms happened to do, not a trial: nobody assigned rooms to regimes at random, so rooms run one way may also differ in other ways (cleaning, strains, the grower's hand) that explain some or all of the difference.",
+  },
 ] as const satisfies readonly GlossaryTerm[];
 
 export type GlossaryId = (typeof glossary)[number]["id"];

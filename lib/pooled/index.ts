@@ -3,8 +3,10 @@ export {
   flushWindowLabels,
   type FlushWindow,
   type FlushStatisticsRow,
+  type DryingStatisticsRow,
   type PooledFilters,
   type SeasonStatisticsRow,
+  type RegimeStatisticsRow,
   type StrainStatisticsRow,
 } from "./types";
 export { addSummaries, summaryMean, summaryVariance, type Summary } from "./sufficient";
@@ -33,14 +35,18 @@ export {
   type Published,
   type StrainResult,
 } from "./results";
-export { publishedSteps, roundPooledResults, roundTo } from "./rounding";
+export { publishedSteps, roundPooledResults, roundRegimeComparison, roundTo } from "./rounding";
+export { buildRegimeComparison, pooledRoomIcc, type RegimeComparison, type RegimeDifference, type RegimeResult } from "./regime-results";
+export { matchingDay, regimeStatisticsRows, type RegimeBlock, type RegimeMove, type RoomRegime } from "./regimes";
 export {
   addTrialArms,
+  emptyReleaseContents,
   planRelease,
   releaseFigureKinds,
   releaseFigureLabels,
   type HeldBackFigure,
   type ReleaseContents,
+  type ReleaseDryingRow,
   type ReleaseFigureKind,
   type ReleaseFlushRow,
   type ReleasePlan,
@@ -69,4 +75,4 @@ export { summariseOwnFarm, type OwnBlock, type OwnStrainSummary } from "./my-far
 export { ownBlocksForChart, type OwnStrainBlocks } from "./own-blocks";
 export { cooperativeSettingsSchema, lowestMinimumFarms, type CooperativeSettingsInput } from "./settings-schema";
 export { resultsInBrief } from "./in-brief";
-export { strainTableRow, type StrainTableRow } from "./strain-row";
+export { dryingPercent, strainTableRow, type StrainTableRow } from "./strain-row";

@@ -1,6 +1,6 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { blockedAnova } from "@/lib/stats";
+import { blockedAnova, meanCI } from "@/lib/stats";
 import { seededRandom } from "@/lib/random";
 import { binQuantile, binsOf, percentileOf, publishablePercentile, publishableSpread } from "./bins";
 import { blockedModelFromCells } from "./cell-models";
@@ -432,5 +432,45 @@ describe("plain-language sentences and percentiles", () => {
     expect(publishablePercentile(blocks(21), 0.9)).toBe(96.5);
     expect(publishableSpread(blocks(8))).toBeNull();
     expect(publishableSpread(blocks(9))).toEqual([null, 64.5, 68.5, 72.5, null]);
+  });
+});
+
+describe("the drying ratio", () => {
+  // Invented blocks' dry ÷ fresh ratios; the interval is lib/stats meanCI over blocks (checked there
+  // against the NIST/SEMATECH e-Handbook 1.3.5.2).
+  const ratios: Record<string, number[]> = { f1: [0.091, 0.094, 0.088], f2: [0.102, 0.097], f3: [0.085, 0.09, 0.093, 0.089] };
+  const drying = (farmId: string, values: number[], recipe = "recipe-1") => ({
+    farmId,
+    strainId: "a",
+    substrateRecipeId: recipe,
+    fruitingMethodId: "method-1",
+    driedBlocks: values.length,
+    ratioSum: values.reduce((sum, value) => sum + value, 0),
+    ratioSquares: values.reduce((sum, value) => sum + value * value, 0),
+  });
+  const strainRows = ["f1", "f2", "f3", "f4"].map((farm) => row(farm, "a", [80, 85, 90]));
+
+  it("is the mean of blocks' ratios with a t interval, from farms that dry, where the minimum number of farms dried", () => {
+    const dryingRows = Object.entries(ratios).map(([farm, values]) => drying(farm, values));
+    const strain = buildPooledResults(input(strainRows, { dryingRows })).strains.find((s) => s.strainId === "a")!;
+    const all = Object.values(ratios).flat();
+    const expected = meanCI(all);
+    if (strain.drying.status !== "published") throw new Error(strain.drying.message);
+    expect(strain.drying.value).toMatchObject({ farms: 3, blocks: 9 });
+    expect(strain.drying.value.estimate).toBeCloseTo(expected.mean, 12);
+    expect(strain.drying.value.lower).toBeCloseTo(expected.lower, 12);
+    expect(strain.drying.value.upper).toBeCloseTo(expected.upper, 12);
+    const twoFarms = buildPooledResults(input(strainRows, { dryingRows: dryingRows.slice(0, 2) })).strains[0];
+    expect(twoFarms.drying).toEqual({ status: "suppressed", message: "fewer than 3 farms" });
+    expect(buildPooledResults(input(strainRows)).strains[0].drying.status).toBe("suppressed");
+  });
+
+  it("is withheld under a filter when another recipe has fewer than the minimum farms drying, so 'any' minus 'recipe 1' shows no farm", () => {
+    const dryingRows = [...Object.entries(ratios).map(([farm, values]) => drying(farm, values)), drying("f4", [0.12, 0.125], "recipe-2")];
+    const rows = [...strainRows, row("f4", "a", [70, 72], { substrateRecipeId: "recipe-2" })];
+    const recipeOne = buildPooledResults(input(rows, { dryingRows, filters: { substrateRecipeId: "recipe-1" } })).strains[0];
+    expect(recipeOne.drying.status === "suppressed" && recipeOne.drying.message).toMatch(/^withheld/);
+    const any = buildPooledResults(input(rows, { dryingRows })).strains[0];
+    expect(any.drying.status).toBe("published");
   });
 });

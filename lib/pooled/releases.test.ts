@@ -2,6 +2,7 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import {
   addTrialArms,
+  emptyReleaseContents,
   planRelease,
   type ReleaseContents,
   type ReleaseFlushRow,
@@ -90,10 +91,10 @@ function contents(cells: FarmCell[]): ReleaseContents {
       }));
     }),
   );
-  return { strainRows, flushRows, seasonRows };
+  return { strainRows, flushRows, seasonRows, dryingRows: [], regimeRows: [] };
 }
 
-const empty: ReleaseContents = { strainRows: [], flushRows: [], seasonRows: [] };
+const empty: ReleaseContents = emptyReleaseContents;
 const sortRows = <Row extends object>(rows: Row[]) => rows.map((row) => JSON.stringify(row, Object.keys(row).sort())).sort();
 
 /** Each farm's part of each figure, as the invariants below compare them. */
@@ -304,5 +305,75 @@ describe("planning a release", () => {
       ),
       { numRuns: 300 },
     );
+  });
+});
+
+describe("drying ratio and climate regime figures in a release", () => {
+  const drying = (farm: string, blocks: number, ratio: number) => ({
+    farmId: farm,
+    speciesId: "oyster",
+    strainId: "grey-morning",
+    substrateRecipeId: "r1",
+    fruitingMethodId: "slits",
+    driedBlocks: blocks,
+    ratioSum: blocks * ratio,
+    ratioSquares: blocks * ratio * ratio,
+  });
+  const regime = (farm: string, regimeKindId: string, rooms: number, mean: number) => ({
+    farmId: farm,
+    speciesId: "oyster",
+    regimeKindId,
+    rooms,
+    blocks: 6 * rooms,
+    blocksContaminated: rooms,
+    contaminationRoomSum: rooms / 6,
+    contaminationRoomSquares: rooms / 36,
+    efficiencyRooms: rooms,
+    efficiencyRoomSum: rooms * mean,
+    efficiencyRoomSquares: rooms * mean * mean,
+    efficiencyBlocks: 5 * rooms,
+    blockEfficiencySum: 5 * rooms * mean,
+    blockEfficiencySquares: 5 * rooms * (mean * mean + 4),
+    roomWeightedSquares: 5 * rooms * mean * mean,
+    roomSizeSquares: 25 * rooms,
+  });
+  const live = (dryingRows: ReturnType<typeof drying>[], regimeRows: ReturnType<typeof regime>[]): ReleaseContents => ({
+    ...emptyReleaseContents,
+    dryingRows,
+    regimeRows,
+  });
+
+  it("leaves out a drying ratio or a regime with fewer than the minimum farms and keeps those with enough", () => {
+    const plan = planRelease(
+      empty,
+      live(
+        [drying("A", 4, 0.09), drying("B", 3, 0.1), drying("C", 5, 0.11), { ...drying("D", 2, 0.08), strainId: "valley-wild" }],
+        [regime("A", "misted", 2, 80), regime("B", "misted", 1, 85), regime("C", "misted", 3, 70), regime("A", "soaked", 2, 90)],
+      ),
+      3,
+    );
+    expect(plan.next.dryingRows.map((row) => row.farmId).sort()).toEqual(["A", "B", "C"]);
+    expect(plan.next.regimeRows.map((row) => `${row.regimeKindId}:${row.farmId}`).sort()).toEqual(["misted:A", "misted:B", "misted:C"]);
+  });
+
+  it("holds a regime's figures back while one farm changed them, and publishes them when three did", () => {
+    const three = [regime("A", "misted", 2, 80), regime("B", "misted", 1, 85), regime("C", "misted", 3, 70)];
+    const first = planRelease(empty, live([], three), 3).next;
+    const oneLater = planRelease(first, live([], [regime("A", "misted", 3, 82), three[1], three[2]]), 3);
+    expect(oneLater.next.regimeRows).toEqual(first.regimeRows);
+    expect(oneLater.heldBack.map((figure) => `${figure.kind}:${figure.farmsChanged}:${figure.regimeKindId}`).sort()).toEqual([
+      "regime:contamination:1:misted",
+      "regime:efficiency:1:misted",
+    ]);
+    const allLater = live([], [regime("A", "misted", 3, 82), regime("B", "misted", 2, 86), regime("C", "misted", 4, 71)]);
+    expect(planRelease(first, allLater, 3).next.regimeRows).toEqual(allLater.regimeRows);
+  });
+
+  it("holds a strain's drying ratio back while one farm changed it", () => {
+    const three = [drying("A", 4, 0.09), drying("B", 3, 0.1), drying("C", 5, 0.11)];
+    const first = planRelease(empty, live(three, []), 3).next;
+    const plan = planRelease(first, live([drying("A", 5, 0.095), three[1], three[2]], []), 3);
+    expect(plan.next.dryingRows).toEqual(first.dryingRows);
+    expect(plan.heldBack.map((figure) => figure.kind)).toEqual(["drying"]);
   });
 });

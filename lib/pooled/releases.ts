@@ -1,4 +1,12 @@
-import { flushWindows, type FlushStatisticsRow, type FlushWindow, type SeasonStatisticsRow, type StrainStatisticsRow } from "./types";
+import {
+  flushWindows,
+  type DryingStatisticsRow,
+  type FlushStatisticsRow,
+  type FlushWindow,
+  type RegimeStatisticsRow,
+  type SeasonStatisticsRow,
+  type StrainStatisticsRow,
+} from "./types";
 
 /** A farm's sufficient statistics for one cell and flush window, as a release keeps them (trial arms added together). */
 export interface ReleaseStrainRow extends StrainStatisticsRow {
@@ -15,20 +23,30 @@ export interface ReleaseSeasonRow extends SeasonStatisticsRow {
   flushWindow: FlushWindow;
 }
 
+export interface ReleaseDryingRow extends DryingStatisticsRow {
+  speciesId: string;
+}
+
 /** Everything a release publishes from: every farm's rows, read only through the analyst role. */
 export interface ReleaseContents {
   strainRows: ReleaseStrainRow[];
   flushRows: ReleaseFlushRow[];
   seasonRows: ReleaseSeasonRow[];
+  dryingRows: ReleaseDryingRow[];
+  regimeRows: RegimeStatisticsRow[];
 }
+
+export const emptyReleaseContents: ReleaseContents = { strainRows: [], flushRows: [], seasonRows: [], dryingRows: [], regimeRows: [] };
 
 /**
  * The separately published figures of one cell (species × strain × recipe × fruiting method):
  * block and contamination counts, days to first harvest, BE in each flush window, the flush
- * profile. Each is checked on its own, as a farm can change one without the others (blocks
- * that have not fruited change the counts, a late flush changes BE over all flushes only). The
- * cell's BE season by season ("seasons:<window>") is one figure per window: every season of the
- * cell together, so its seasons always add up to the same release's BE of the window.
+ * profile, the drying ratio. Each is checked on its own, as a farm can change one without the
+ * others (blocks that have not fruited change the counts, a late flush changes BE over all
+ * flushes only). The cell's BE season by season ("seasons:<window>") is one figure per window:
+ * every season of the cell together, so its seasons always add up to the same release's BE of
+ * the window. A climate regime's cell is species × regime kind, with its own two figures: rooms
+ * and contamination, and room-mean BE.
  */
 export const releaseFigureKinds = [
   "counts",
@@ -40,6 +58,9 @@ export const releaseFigureKinds = [
   "seasons:all",
   "seasons:1-2",
   "seasons:1",
+  "drying",
+  "regime:contamination",
+  "regime:efficiency",
 ] as const;
 export type ReleaseFigureKind = (typeof releaseFigureKinds)[number];
 
@@ -53,6 +74,9 @@ export const releaseFigureLabels: Record<ReleaseFigureKind, string> = {
   "seasons:all": "BE season by season over all flushes",
   "seasons:1-2": "BE season by season over flushes 1–2",
   "seasons:1": "BE season by season of the first flush",
+  drying: "drying ratio",
+  "regime:contamination": "rooms and contamination by climate regime",
+  "regime:efficiency": "room-mean BE by climate regime",
 };
 
 export interface ReleaseCell {
@@ -63,10 +87,9 @@ export interface ReleaseCell {
 }
 
 /** A figure whose change since the last release comes from too few farms: it keeps the last release's value. */
-export interface HeldBackFigure extends ReleaseCell {
-  kind: ReleaseFigureKind;
-  farmsChanged: number;
-}
+export type HeldBackFigure = { kind: ReleaseFigureKind; farmsChanged: number } & (
+  (ReleaseCell & { regimeKindId?: undefined }) | { speciesId: string; regimeKindId: string }
+);
 
 export interface ReleasePlan {
   /** What the new release would hold. */
@@ -102,6 +125,16 @@ function cellKey(row: ReleaseCell): string {
 function cellOf(key: string): ReleaseCell {
   const [speciesId, strainId, recipe, method] = key.split("|");
   return { speciesId, strainId, substrateRecipeId: recipe || null, fruitingMethodId: method || null };
+}
+
+// A regime's cell has no strain, recipe or method: its key cannot be mistaken for a strain cell's.
+const regimePrefix = "regime#";
+const regimeKey = (row: { speciesId: string; regimeKindId: string }) => `${regimePrefix}${row.speciesId}|${row.regimeKindId}`;
+
+function regimeCellOf(key: string): { speciesId: string; regimeKindId: string } | null {
+  if (!key.startsWith(regimePrefix)) return null;
+  const [speciesId, regimeKindId] = key.slice(regimePrefix.length).split("|");
+  return { speciesId, regimeKindId };
 }
 
 /** cell → figure kind → farm → vector */
@@ -174,6 +207,28 @@ function figuresOf(contents: ReleaseContents): Figures {
     ];
     put(figures, cellKey(rows[0]), `seasons:${rows[0].flushWindow}`, rows[0].farmId, vector);
   }
+  for (const row of contents.dryingRows)
+    put(figures, cellKey(row), "drying", row.farmId, [row.driedBlocks, row.ratioSum, row.ratioSquares]);
+  for (const row of contents.regimeRows) {
+    const key = regimeKey(row);
+    put(figures, key, "regime:contamination", row.farmId, [
+      row.rooms,
+      row.blocks,
+      row.blocksContaminated,
+      row.contaminationRoomSum,
+      row.contaminationRoomSquares,
+    ]);
+    put(figures, key, "regime:efficiency", row.farmId, [
+      row.efficiencyRooms,
+      row.efficiencyRoomSum,
+      row.efficiencyRoomSquares,
+      row.efficiencyBlocks,
+      row.blockEfficiencySum,
+      row.blockEfficiencySquares,
+      row.roomWeightedSquares,
+      row.roomSizeSquares,
+    ]);
+  }
   return figures;
 }
 
@@ -184,10 +239,41 @@ function contentsOf(figures: Figures): ReleaseContents {
   const strainRows: ReleaseStrainRow[] = [];
   const flushRows: ReleaseFlushRow[] = [];
   const seasonRows: ReleaseSeasonRow[] = [];
+  const dryingRows: ReleaseDryingRow[] = [];
+  const regimeRows: RegimeStatisticsRow[] = [];
   for (const [key, kinds] of figures) {
-    const cell = cellOf(key);
     const farms = new Set([...kinds.values()].flatMap((byFarm) => [...byFarm.keys()]));
+    const regime = regimeCellOf(key);
+    if (regime) {
+      for (const farmId of farms) {
+        const counts = kinds.get("regime:contamination")?.get(farmId) ?? [0, 0, 0, 0, 0];
+        const efficiency = kinds.get("regime:efficiency")?.get(farmId) ?? [0, 0, 0, 0, 0, 0, 0, 0];
+        regimeRows.push({
+          ...regime,
+          farmId,
+          rooms: counts[0],
+          blocks: counts[1],
+          blocksContaminated: counts[2],
+          contaminationRoomSum: counts[3],
+          contaminationRoomSquares: counts[4],
+          efficiencyRooms: efficiency[0],
+          efficiencyRoomSum: efficiency[1],
+          efficiencyRoomSquares: efficiency[2],
+          efficiencyBlocks: efficiency[3],
+          blockEfficiencySum: efficiency[4],
+          blockEfficiencySquares: efficiency[5],
+          roomWeightedSquares: efficiency[6],
+          roomSizeSquares: efficiency[7],
+        });
+      }
+      continue;
+    }
+    const cell = cellOf(key);
     for (const farmId of farms) {
+      const drying = kinds.get("drying")?.get(farmId);
+      if (drying && drying[0] > 0) {
+        dryingRows.push({ ...cell, farmId, driedBlocks: drying[0], ratioSum: drying[1], ratioSquares: drying[2] });
+      }
       const counts = kinds.get("counts")?.get(farmId) ?? [0, 0];
       const first = kinds.get("first-harvest")?.get(farmId) ?? [0, 0];
       for (const window of flushWindows) {
@@ -241,7 +327,7 @@ function contentsOf(figures: Figures): ReleaseContents {
       }
     }
   }
-  return { strainRows, flushRows, seasonRows };
+  return { strainRows, flushRows, seasonRows, dryingRows, regimeRows };
 }
 
 /** The BE figure a cell's season breakdown must move with, so that its seasons add up to the BE published beside it. */
@@ -290,7 +376,7 @@ export function planRelease(previous: ReleaseContents, live: ReleaseContents, mi
       const kept = changed.length === 0 || held ? old : candidate;
       if (held) {
         heldKinds.add(kind);
-        heldBack.push({ ...cellOf(key), kind, farmsChanged: changed.length });
+        heldBack.push({ ...(regimeCellOf(key) ?? cellOf(key)), kind, farmsChanged: changed.length });
       }
       if (kept === candidate && changed.length > 0) figuresChanged++;
       for (const [farmId, vector] of kept) if (normal(vector).length > 0) put(next, key, kind, farmId, vector);

@@ -15,7 +15,7 @@ import {
 import { comparisonSentence, strainSentence } from "./sentences";
 import { blockedModelFromCells } from "./cell-models";
 import { addSummaries, emptySummary, summaryMean, summaryVariance } from "./sufficient";
-import type { FlushStatisticsRow, PooledFilters, StrainStatisticsRow } from "./types";
+import type { DryingStatisticsRow, FlushStatisticsRow, PooledFilters, StrainStatisticsRow } from "./types";
 
 /** A figure that is either published or replaced by the reason it is withheld. */
 export type Published<T> = { status: "published"; value: T } | { status: "suppressed"; message: string };
@@ -37,6 +37,8 @@ export interface StrainResult {
   flushProfile: Published<{ flush: number; meanShare: number; lower: number; upper: number; cumulativeShare: number }[]>;
   /** 10th, 25th, 50th, 75th and 90th percentiles of block BE, each with enough blocks beyond it to be no single block's value. */
   spread: Published<Spread>;
+  /** Mean of blocks' dry ÷ fresh mass (a fraction, 0.09 = 9 %), over blocks with a harvest weighed dried. */
+  drying: Published<Interval & { farms: number; blocks: number }>;
   sentence: string;
 }
 
@@ -81,6 +83,8 @@ export interface PooledResultsInput {
   /** Every row of the species for one flush window, unfiltered: the guard needs them all. */
   rows: readonly StrainStatisticsRow[];
   flushRows: readonly FlushStatisticsRow[];
+  /** Drying ratio sums of the species, unfiltered; none when no farm dries its harvests. */
+  dryingRows?: readonly DryingStatisticsRow[];
   strains: readonly { id: string; name: string }[];
   filters: PooledFilters;
   minimumFarms: number;
@@ -112,7 +116,8 @@ export function buildPooledResults(input: PooledResultsInput): PooledResults {
   const strainNames = new Map(input.strains.map((strain) => [strain.id, strain.name]));
 
   // Each kind of figure is guarded by the farms that contribute to it (see filterIsSafe).
-  const safety = new Map<string, Record<"counts" | "efficiency" | "firstHarvest" | "flushProfile", boolean>>();
+  const dryingRows = input.dryingRows ?? [];
+  const safety = new Map<string, Record<"counts" | "efficiency" | "firstHarvest" | "flushProfile" | "drying", boolean>>();
   for (const strainId of cells.keys()) {
     const strainRows = input.rows.filter((row) => row.strainId === strainId);
     const strainFlushRows = input.flushRows.filter((row) => row.strainId === strainId);
@@ -121,6 +126,12 @@ export function buildPooledResults(input: PooledResultsInput): PooledResults {
       efficiency: filterIsSafe(strainRows, filters, minimumFarms, (row) => row.efficiencyBlocks),
       firstHarvest: filterIsSafe(strainRows, filters, minimumFarms, (row) => row.firstHarvestBlocks),
       flushProfile: filterIsSafe(strainFlushRows, filters, minimumFarms, (row) => row.finishedBlocks),
+      drying: filterIsSafe(
+        dryingRows.filter((row) => row.strainId === strainId),
+        filters,
+        minimumFarms,
+        (row) => row.driedBlocks,
+      ),
     });
   }
 
@@ -222,6 +233,12 @@ export function buildPooledResults(input: PooledResultsInput): PooledResults {
             )
           : suppressed(flushReason ?? "not enough finished blocks yet"),
         spread,
+        drying: dryingFigure(
+          dryingRows.filter((row) => row.strainId === strainId && matchesFilters(row, filters)),
+          withhold,
+          few,
+          level,
+        ),
         sentence: "",
       };
       result.sentence = strainSentence(result, minimumFarms);
@@ -236,6 +253,28 @@ export function buildPooledResults(input: PooledResultsInput): PooledResults {
     pairwise: pairwiseDifferences(comparable, model, strainNames, minimumFarms),
     heterogeneity: heterogeneity(comparable, strainNames, input, level),
   };
+}
+
+/**
+ * The drying ratio of a strain: the mean over blocks of each block's dry ÷ fresh mass, with a t
+ * interval over blocks, published only where the minimum number of farms dried harvests of it.
+ */
+function dryingFigure(
+  rows: readonly DryingStatisticsRow[],
+  withhold: (kind: "drying", count: number) => string | null,
+  few: string,
+  level: number,
+): StrainResult["drying"] {
+  const farms = new Set(rows.filter((row) => row.driedBlocks > 0).map((row) => row.farmId)).size;
+  const reason = withhold("drying", farms);
+  if (reason) return suppressed(farms === 0 ? "no farm dries this strain's harvests yet" : reason);
+  const total = rows.reduce(
+    (sum, row) => addSummaries(sum, { n: row.driedBlocks, sum: row.ratioSum, squares: row.ratioSquares }),
+    emptySummary,
+  );
+  if (total.n < 2) return suppressed(few);
+  const interval = meanCIFromSummary({ n: total.n, mean: summaryMean(total), sd: Math.sqrt(summaryVariance(total)) }, level);
+  return published({ estimate: interval.mean, lower: interval.lower, upper: interval.upper, farms, blocks: total.n });
 }
 
 type StrainCells = [string, Map<string, FarmStrainCell>][];

@@ -1,3 +1,4 @@
+import type { RegimeComparison } from "./regime-results";
 import type { Published, PooledResults, StrainResult } from "./results";
 import { comparisonSentence, strainSentence } from "./sentences";
 
@@ -19,6 +20,8 @@ export const publishedSteps = {
   p: 0.001,
   /** I², percent. */
   i2Percent: 1,
+  /** Drying ratio (dry ÷ fresh, a fraction): a tenth of a percent. */
+  dryingRatio: 0.001,
 } as const;
 
 /** Rounds to a multiple of `step`, without the binary noise that would give 80.30000000000001. */
@@ -59,6 +62,12 @@ function roundStrain(strain: StrainResult, minimumFarms: number): StrainResult {
       })),
     ),
     spread: mapPublished(strain.spread, (spread) => spread.map((value) => (value === null ? null : be(value))) as typeof spread),
+    drying: mapPublished(strain.drying, (value) => ({
+      ...value,
+      estimate: roundTo(value.estimate, publishedSteps.dryingRatio),
+      lower: roundTo(value.lower, publishedSteps.dryingRatio),
+      upper: roundTo(value.upper, publishedSteps.dryingRatio),
+    })),
   };
   // The sentence repeats the rounded figures, so it reads the same as the table beside it.
   return { ...rounded, sentence: strainSentence(rounded, minimumFarms) };
@@ -122,6 +131,41 @@ export function roundPooledResults(results: PooledResults): PooledResults {
           forest: strain.forest.map((row) => ({ ...row, estimate: be(row.estimate), lower: be(row.lower), upper: be(row.upper) })),
         };
       }),
+    })),
+  };
+}
+
+/** The comparison by climate regime as published: BE to 0.1 point, contamination whole percent, F to 0.01, p to 0.001. */
+export function roundRegimeComparison(comparison: RegimeComparison): RegimeComparison {
+  const percent = (value: number) => roundTo(value, publishedSteps.contaminationPercent);
+  return {
+    ...comparison,
+    regimes: comparison.regimes.map((regime) => ({
+      ...regime,
+      contamination: mapPublished(regime.contamination, (value) => ({
+        estimate: percent(value.estimate),
+        lower: percent(value.lower),
+        upper: percent(value.upper),
+        meanRoomRate: percent(value.meanRoomRate),
+      })),
+      efficiency: mapPublished(regime.efficiency, (value) => ({
+        ...value,
+        estimate: be(value.estimate),
+        lower: be(value.lower),
+        upper: be(value.upper),
+      })),
+    })),
+    model: mapPublished(comparison.model, (value) => ({
+      ...value,
+      f: roundTo(value.f, 0.01),
+      p: roundTo(value.p, publishedSteps.p),
+      differences: value.differences.map((difference) => ({
+        ...difference,
+        estimate: be(difference.estimate),
+        lower: be(difference.lower),
+        upper: be(difference.upper),
+        pAdjusted: roundTo(difference.pAdjusted, publishedSteps.p),
+      })),
     })),
   };
 }

@@ -16,6 +16,7 @@ describe("a strain's row of the side-by-side table", () => {
       firstHarvestDays: withheld,
       flushProfile: withheld,
       spread: withheld,
+      drying: withheld,
       sentence: "",
     } satisfies StrainResult);
     const cells = Object.values(row);
@@ -38,9 +39,11 @@ describe("a strain's row of the side-by-side table", () => {
       firstHarvestDays: { status: "published", value: { mean: 30.6, blocks: 40 } },
       flushProfile: withheld,
       spread: withheld,
+      drying: { status: "published", value: { estimate: 0.094, lower: 0.089, upper: 0.099, farms: 4, blocks: 37 } },
       sentence: "",
     } satisfies StrainResult);
     expect(row).toMatchObject({
+      drying: "9.4 % (8.9 to 9.9)",
       farms: "5",
       efficiency: "61.2 % (57.5 to 65.0)",
       firstHarvest: "31 days",

@@ -1,11 +1,13 @@
 import type { Published, StrainResult } from "./results";
 
 export type StrainTableRow = Record<
-  "strain" | "farms" | "blocks" | "efficiency" | "contamination" | "firstHarvest" | "flushProfile",
+  "strain" | "farms" | "blocks" | "efficiency" | "contamination" | "firstHarvest" | "flushProfile" | "drying",
   string
 >;
 
 const one = (value: number) => value.toFixed(1);
+/** A drying ratio (a fraction) as the percent the page shows, to a tenth. */
+export const dryingPercent = (ratio: number) => (ratio * 100).toFixed(1);
 
 /**
  * A strain's row of "Strains side by side". A figure withheld says why once, in the first cell
@@ -32,5 +34,6 @@ export function strainTableRow(result: StrainResult): StrainTableRow {
     flushProfile: show(result.flushProfile, (profile) =>
       profile.map((share) => `${share.flush}: ${Math.round(share.meanShare * 100)} %`).join(", "),
     ),
+    drying: show(result.drying, (v) => `${dryingPercent(v.estimate)} % (${dryingPercent(v.lower)} to ${dryingPercent(v.upper)})`),
   };
 }

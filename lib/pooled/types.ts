@@ -56,6 +56,46 @@ export interface SeasonStatisticsRow {
   efficiencySquares: number;
 }
 
+/**
+ * One farm's drying ratio sums for one strain cell: blocks with a harvest weighed both fresh and
+ * dried, and Σ, Σ² of each such block's ratio (dry ÷ fresh, over its dried harvests).
+ */
+export interface DryingStatisticsRow {
+  farmId: string;
+  strainId: string;
+  substrateRecipeId: string | null;
+  fruitingMethodId: string | null;
+  driedBlocks: number;
+  ratioSum: number;
+  ratioSquares: number;
+}
+
+/**
+ * One farm's figures for one climate regime kind in one species, with the room as the unit: a
+ * "room" here is a fruiting room while it ran that regime. Counts are of blocks matched to such
+ * rooms; the sums are of each room's contamination rate (fraction) and each room's mean BE.
+ */
+export interface RegimeStatisticsRow {
+  farmId: string;
+  speciesId: string;
+  regimeKindId: string;
+  rooms: number;
+  blocks: number;
+  blocksContaminated: number;
+  contaminationRoomSum: number;
+  contaminationRoomSquares: number;
+  /** Rooms with at least one block with a BE, and the blocks behind their means. */
+  efficiencyRooms: number;
+  efficiencyRoomSum: number;
+  efficiencyRoomSquares: number;
+  efficiencyBlocks: number;
+  /** For the intraclass correlation: Σy, Σy² over the BE blocks; Σ nᵢȳᵢ² and Σ nᵢ² over the rooms. */
+  blockEfficiencySum: number;
+  blockEfficiencySquares: number;
+  roomWeightedSquares: number;
+  roomSizeSquares: number;
+}
+
 /** What the viewer asked for; an absent recipe or fruiting method means "any". */
 export interface PooledFilters {
   substrateRecipeId?: string;

@@ -21,16 +21,21 @@ async function memberByEmail(email: string): Promise<Member> {
 
 const releaseCount = async () => (await inspector.query<{ n: number }>("select count(*)::int as n from pooled_releases")).rows[0].n;
 
-/** Three fixture farms each add a block of the strain, so the next release may change its figures. */
+/**
+ * Three fixture farms each add a block of the strain, dried and fruited in the farm's room, so the
+ * next release may change its figures (the drying ratio and the regime's among them).
+ */
 async function threeFarmsUpload(strainId: string, farmIds: string[], grams: number) {
-  for (const farmId of farmIds) {
-    await fixture.blocks(farmId, strainId, [{ flushes: [grams, grams / 2] }]);
+  for (const [index, farmId] of farmIds.entries()) {
+    const [block] = await fixture.blocks(farmId, strainId, [{ flushes: [grams, grams / 2], dried: [grams / 10, grams / 20] }]);
+    await fixture.move(farmId, [block], roomIds[index]);
     await refreshPooledStatistics(farmId);
   }
 }
 
 let species: { id: string; strainIds: string[] };
 let farmIds: string[];
+let roomIds: string[];
 
 beforeAll(async () => {
   inspector = superuserPool();
@@ -43,6 +48,8 @@ beforeAll(async () => {
   await cutSetupRelease();
   species = await fixture.species("Release oyster", ["Tidewater"]);
   farmIds = (await Promise.all([1, 2, 3].map((n) => fixture.farm(`Release farm ${n}`)))).map((farm) => farm.id);
+  const soaked = await fixture.regimeKind("Soaked for releases");
+  roomIds = await Promise.all(farmIds.map((farmId) => fixture.room(farmId, [{ startsOn: "2026-01-01", regimeKindId: soaked }])));
   await threeFarmsUpload(species.strainIds[0], farmIds, 700);
   await cutReleaseNow(coordinator);
 });
@@ -67,14 +74,19 @@ describe("a release of the pooled figures", () => {
       "delete from pooled_release_season_rows",
       "truncate pooled_release_strain_rows",
       "truncate pooled_release_season_rows",
+      "update pooled_release_drying_rows set ratio_sum = 0",
+      "delete from pooled_release_regime_rows",
+      "truncate pooled_release_regime_rows",
+      "truncate pooled_release_drying_rows",
     ];
     // The superuser sees past row-level security, so only the refusing triggers stand in its way.
     for (const statement of statements) expect(await databaseRefusal(inspector.query(statement))).toMatch(/cannot be changed or removed/);
     // The owner is held by forced row-level security (no policy lets it see a release) and, for TRUNCATE, by the trigger.
     const owner = new Pool({ connectionString: ownerUrlFor(process.env.RHIZO_DATABASE ?? "postgres"), max: 1 });
     try {
-      for (const statement of statements.filter((statement) => !statement.startsWith("truncate")))
+      for (const statement of statements.filter((statement) => !statement.startsWith("truncate"))) {
         expect((await owner.query(statement)).rowCount).toBe(0);
+      }
       expect(await databaseRefusal(owner.query("truncate pooled_release_flush_rows"))).toMatch(/cannot be changed or removed/);
     } finally {
       await owner.end();
@@ -98,6 +110,8 @@ describe("a release of the pooled figures", () => {
         "pooled_release_strain_rows",
         "pooled_release_flush_rows",
         "pooled_release_season_rows",
+        "pooled_release_drying_rows",
+        "pooled_release_regime_rows",
         "pooled_release_schedule",
       ]) {
         expect(await databaseRefusal(withFarmContext(context, (tx) => tx.execute(sql.raw(`select * from ${table} limit 1`))))).toMatch(

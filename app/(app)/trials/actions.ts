@@ -58,7 +58,10 @@ const trialDesignSchema = z
       .max(400, "Keep the question to one sentence (under 400 characters)."),
     speciesId: z.uuid("Pick the species the trial is about."),
     designKind: z
-      .enum(trialDesignKinds, "Say whether the arms compare one thing or cross strains with fruiting methods.")
+      .enum(
+        trialDesignKinds,
+        "Say whether the arms compare one thing, cross strains with fruiting methods, or randomise rooms to climate regimes.",
+      )
       .default("one_factor"),
     arms: z
       .string()
@@ -106,10 +109,29 @@ const trialDesignSchema = z
       z.number().int("must be a whole number").min(1, "must be 1 or more").max(100, "must be 100 or fewer"),
     ),
     expectedLossPercent: optionalNumber("Expected loss", z.number().min(0, "must be 0 % or more").lt(100, "must be below 100 %")),
+    blocksPerRoom: optionalNumber(
+      "Blocks per room",
+      z.number().int("must be a whole number").min(1, "must be 1 or more").max(1000, "must be 1000 or fewer"),
+    )
+      .optional()
+      .transform((value) => value ?? null),
+    roomIcc: optionalNumber("How alike blocks in a room are", z.number().min(0, "must be 0 or more").lt(1, "must be below 1"))
+      .optional()
+      .transform((value) => value ?? null),
     intent: z.enum(["save", "save-and-view"]).default("save"),
   })
   .superRefine((input, context) => {
     for (const problem of timelineProblems(input)) context.addIssue({ code: "custom", path: [problem.field], message: problem.message });
+    if (input.designKind === "rooms" && input.blocksPerRoom === null) {
+      context.addIssue({ code: "custom", path: ["blocksPerRoom"], message: "Give the number of blocks each room holds, e.g. 6." });
+    }
+    if (input.designKind === "rooms" && input.roomIcc === null) {
+      context.addIssue({
+        code: "custom",
+        path: ["roomIcc"],
+        message: "Give how alike blocks in one room are, from 0 to below 1, e.g. 0.1.",
+      });
+    }
   });
 
 export const saveTrialDraftAction = guardedAction("trial:manage", trialDesignSchema, async (input, member) => {

@@ -286,3 +286,147 @@ describe("the co-op's minimum number of farms", () => {
     }
   });
 });
+
+describe("an observer subtracting the figures by climate regime (the room as the unit)", () => {
+  /** Blocks of one farm fruiting in a new room of the regime, all harvested on 2026-02-01. */
+  async function roomOf(farmId: string, strainId: string, regimeKindId: string, grams: number[], contaminated = 0) {
+    const room = await fixture.room(farmId, [{ startsOn: "2026-01-01", regimeKindId }]);
+    const blocks = await fixture.blocks(farmId, strainId, [
+      ...harvested(grams),
+      ...Array.from({ length: contaminated }, () => ({ contaminated: true, contaminatedOn: "2026-01-20" })),
+    ]);
+    await fixture.move(farmId, blocks, room);
+    return room;
+  }
+
+  it("publishes a regime only from the minimum number of farms, and never a farm's or a room's own figure", async () => {
+    const species = await fixture.species("Regime oyster", ["Damp Hollow"]);
+    const [strain] = species.strainIds;
+    const [misted, soaked] = [await fixture.regimeKind("Misted all day"), await fixture.regimeKind("Soaked once a day")];
+    const farms = await Promise.all([1, 2, 3].map((n) => fixture.farm(`Regime farm ${n}`)));
+    const rooms: string[] = [];
+    for (const [index, farm] of farms.entries()) {
+      rooms.push(await roomOf(farm.id, strain, misted, [800 + index, 820, 790], 1));
+      // Only two farms soak their rooms.
+      if (index < 2) rooms.push(await roomOf(farm.id, strain, soaked, [900 + index, 950, 930]));
+    }
+    await publishPooledFigures(
+      inspector,
+      farms.map((farm) => farm.id),
+    );
+    const page = await getPooledResults(observer, { speciesId: species.id, flushWindow: "all" });
+    const regimes = page.regimes!.regimes;
+    const mistedRow = regimes.find((regime) => regime.regimeKindId === misted)!;
+    expect(mistedRow.rooms).toEqual({ status: "published", value: 3 });
+    expect(mistedRow.farms).toEqual({ status: "published", value: 3 });
+    expect(mistedRow.contamination.status).toBe("published");
+    // Two farms soak: each would learn the other's rooms by subtracting its own, so the release
+    // holds nothing of that regime at all, and the page has no row for it.
+    expect(regimes.some((regime) => regime.regimeKindId === soaked)).toBe(false);
+    const { rows: released } = await inspector.query("select 1 from pooled_release_regime_rows where regime_kind_id = $1", [soaked]);
+    expect(released).toHaveLength(0);
+    expect(page.regimes!.model.status).toBe("suppressed");
+    // Published at the page's steps: contamination whole percent, BE to 0.1 point.
+    if (mistedRow.contamination.status !== "published" || mistedRow.efficiency.status !== "published") throw new Error("published");
+    expect(Number.isInteger(mistedRow.contamination.value.estimate)).toBe(true);
+    expect(String(mistedRow.efficiency.value.estimate).split(".")[1]?.length ?? 0).toBeLessThanOrEqual(1);
+    // No farm id, no room id, no block count per room leaves.
+    const json = JSON.stringify(page.regimes);
+    for (const id of [...farms.map((farm) => farm.id), ...rooms]) expect(json).not.toContain(id);
+  });
+
+  it("cannot get a farm's new room's mean BE from the same regime figure before and after that farm's upload", async () => {
+    const species = await fixture.species("Regime timing oyster", ["Wet Shelf"]);
+    const [strain] = species.strainIds;
+    const misted = await fixture.regimeKind("Misted on a timer");
+    const farms = await Promise.all([1, 2, 3, 4].map((n) => fixture.farm(`Regime timing farm ${n}`)));
+    for (const [index, farm] of farms.entries()) await roomOf(farm.id, strain, misted, [800 + 7 * index, 830, 815]);
+    await publishPooledFigures(
+      inspector,
+      farms.map((farm) => farm.id),
+    );
+    const regimeOf = async () =>
+      (await getPooledResults(observer, { speciesId: species.id, flushWindow: "all" })).regimes!.regimes.find(
+        (regime) => regime.regimeKindId === misted,
+      )!;
+    const before = await regimeOf();
+
+    // Farm 1 records a new room of the regime with blocks of its own.
+    const newRoom = [1010.4, 1042.8, 998.1];
+    await roomOf(farms[0].id, strain, misted, newRoom);
+    const attempt = await publishPooledFigures(inspector, [farms[0].id]);
+    expect(attempt.outcome).toBe("waiting");
+    const waiting = (await getReleaseStatus(coordinator)).now;
+    if (waiting.outcome !== "waiting") throw new Error("the release should wait");
+    expect(waiting.waiting.find((entry) => entry.strainName.includes("Misted on a timer"))).toMatchObject({
+      strainName: `Climate regime Misted on a timer ${fixture.run}`,
+      farmsChanged: 1,
+    });
+    const after = await regimeOf();
+    // The figures are those of the last release: the difference says nothing about the new room.
+    expect(after).toEqual(before);
+
+    // Once two more farms add rooms, the release goes out, and the step mixes three farms' new rooms.
+    await roomOf(farms[1].id, strain, misted, [700, 720, 710]);
+    await roomOf(farms[2].id, strain, misted, [760, 740, 750]);
+    expect((await publishPooledFigures(inspector, [farms[1].id, farms[2].id])).outcome).toBe("cut");
+    const later = await regimeOf();
+    expect(later.rooms).toEqual({ status: "published", value: 7 });
+    if (before.efficiency.status !== "published" || later.efficiency.status !== "published") throw new Error("published");
+    const revealed = 7 * later.efficiency.value.estimate - 4 * before.efficiency.value.estimate;
+    const newRoomMean = mean(newRoom.map((grams) => fixtureEfficiency(harvested([grams])[0])));
+    expect(Math.abs(revealed / 3 - newRoomMean)).toBeGreaterThan(0.5);
+  });
+});
+
+describe("an observer subtracting drying ratios", () => {
+  const dried = (grams: number[], ratio: number): FixtureBlock[] =>
+    harvested(grams).map((block) => ({ ...block, dried: block.flushes!.map((fresh) => fresh * ratio) }));
+
+  it("cannot get one farm's drying ratio from 'any recipe' minus one recipe, nor from two releases", async () => {
+    const species = await fixture.species("Drying oyster", ["Dry Creek"]);
+    const [strain] = species.strainIds;
+    const [recipeOne, recipeTwo] = [await fixture.recipe("Drying recipe one"), await fixture.recipe("Drying recipe two")];
+    const farms = await Promise.all([1, 2, 3, 4].map((n) => fixture.farm(`Drying farm ${n}`)));
+    for (const [index, farm] of farms.slice(0, 3).entries()) {
+      await fixture.blocks(
+        farm.id,
+        strain,
+        dried([800, 820, 810], 0.09 + index / 200).map((block) => ({ ...block, recipeId: recipeOne })),
+      );
+    }
+    // Farm 4 alone dries on recipe 2.
+    await fixture.blocks(
+      farms[3].id,
+      strain,
+      dried([780, 760], 0.125).map((block) => ({ ...block, recipeId: recipeTwo })),
+    );
+    await publishPooledFigures(
+      inspector,
+      farms.map((farm) => farm.id),
+    );
+    const drying = async (substrateRecipeId?: string) =>
+      (await getPooledResults(observer, { speciesId: species.id, flushWindow: "all", ...(substrateRecipeId ? { substrateRecipeId } : {}) }))
+        .results!.strains[0].drying;
+    const any = await drying();
+    const one = await drying(recipeOne);
+    let revealed: number | null = null;
+    if (any.status === "published" && one.status === "published" && any.value.blocks > one.value.blocks) {
+      revealed = (any.value.blocks * any.value.estimate - one.value.blocks * one.value.estimate) / (any.value.blocks - one.value.blocks);
+    }
+    // The measured risk: (any − recipe 1) would be farm 4's own ratio. Its lone cell never enters a release.
+    expect(any).toMatchObject({ status: "published", value: { farms: 3 } });
+    expect(revealed === null || Math.abs(revealed - 0.125) > 0.005).toBe(true);
+    const { rows: released } = await inspector.query("select 1 from pooled_release_drying_rows where farm_id = $1", [farms[3].id]);
+    expect(released).toHaveLength(0);
+
+    // Farm 1 dries one more block: the figure holds until the minimum number of farms changed it.
+    await fixture.blocks(
+      farms[0].id,
+      strain,
+      dried([900], 0.2).map((block) => ({ ...block, recipeId: recipeOne })),
+    );
+    expect((await publishPooledFigures(inspector, [farms[0].id])).outcome).toBe("waiting");
+    expect(await drying()).toEqual(any);
+  });
+});

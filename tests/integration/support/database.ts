@@ -62,7 +62,7 @@ export async function removeAllReleases(pool: Pool): Promise<void> {
     await client.query("begin");
     await client.query("set local session_replication_role = replica");
     await client.query(
-      "delete from pooled_release_strain_rows; delete from pooled_release_flush_rows; delete from pooled_release_season_rows; delete from pooled_releases; delete from pooled_release_schedule",
+      "delete from pooled_release_strain_rows; delete from pooled_release_flush_rows; delete from pooled_release_season_rows; delete from pooled_release_drying_rows; delete from pooled_release_regime_rows; delete from pooled_releases; delete from pooled_release_schedule",
     );
     await client.query("commit");
   } catch (error) {

@@ -10,12 +10,14 @@ import { DataTable } from "@/components/ui/data-table";
 import { Notice } from "@/components/ui/notice";
 import { WordsExplained } from "@/components/ui/words-explained";
 import {
+  dryingPercent,
   flushWindowLabels,
   flushWindows,
   resultsInBrief,
   seasonTableRow,
   strainTableRow,
   type PooledResults,
+  type RegimeComparison,
   type SeasonBreakdown,
   type StrainTableRow,
 } from "@/lib/pooled";
@@ -38,6 +40,18 @@ const strainColumns: ColumnDef<StrainRow, unknown>[] = [
   { id: "contamination", header: "Contamination (95 % interval)", accessorKey: "contamination" },
   { id: "firstHarvest", header: "Inoculation to first harvest", accessorKey: "firstHarvest" },
   { id: "flushProfile", header: "Share of yield by flush", accessorKey: "flushProfile" },
+  { id: "drying", header: "Drying ratio, dry ÷ fresh (95 % interval)", accessorKey: "drying" },
+];
+
+type RegimeRow = Record<"regime" | "farms" | "rooms" | "contamination" | "roomRate" | "efficiency", string>;
+
+const regimeColumns: ColumnDef<RegimeRow, unknown>[] = [
+  { id: "regime", header: "Climate regime", accessorKey: "regime" },
+  { id: "farms", header: "Farms", accessorKey: "farms" },
+  { id: "rooms", header: "Rooms", accessorKey: "rooms" },
+  { id: "roomRate", header: "Contamination, mean of the rooms' rates", accessorKey: "roomRate" },
+  { id: "contamination", header: "Contamination over all its rooms (95 % interval)", accessorKey: "contamination" },
+  { id: "efficiency", header: "BE of the rooms, farm-adjusted mean (95 % interval)", accessorKey: "efficiency" },
 ];
 
 const pairColumns: ColumnDef<PairRow, unknown>[] = [
@@ -323,6 +337,10 @@ function ResultsBody({ page, results, showsOwnFarm }: { page: PooledResultsPage;
         )}
         <WordsExplained terms={["reference-strain", "i-squared", "tau", "holm"]} />
       </Card>
+
+      <DryingCard results={results} />
+
+      <RegimesCard regimes={page.regimes} release={page.release} />
     </>
   );
 }
@@ -383,6 +401,119 @@ function SeasonsCard(props: { breakdown: SeasonBreakdown; start: SeasonStart; on
         {only !== null ? " The other figures on this page cover every season together." : ""}
       </p>
       <WordsExplained terms={["biological-efficiency", "interval", "withheld"]} />
+    </Card>
+  );
+}
+
+function DryingCard({ results }: { results: PooledResults }) {
+  const dried = results.strains.flatMap((strain) =>
+    strain.drying.status === "published" ? [{ name: strain.strainName, ...strain.drying.value }] : [],
+  );
+  return (
+    <Card title="Drying ratio">
+      <p className="text-sm">
+        For farms that dry their harvests and weigh them again: dried mushrooms as a share of their fresh weight, averaged over blocks. A
+        ratio of 9 % means 1 kg picked fresh gives about 90 g dried, so a farm can plan how much to pick for a dried order.
+      </p>
+      {dried.length ? (
+        <ul className="mt-3 list-disc space-y-1 pl-5 text-sm" data-testid="drying-ratios">
+          {dried.map((strain) => (
+            <li key={strain.name}>
+              {strain.name}: dried mushrooms weigh {dryingPercent(strain.estimate)} % of their fresh weight (95 % interval{" "}
+              {dryingPercent(strain.lower)} to {dryingPercent(strain.upper)}), from {strain.farms} farms and {strain.blocks} blocks.
+            </li>
+          ))}
+        </ul>
+      ) : (
+        <p className="mt-3 text-ink-soft">
+          Not enough data: fewer than {results.minimumFarms} farms dried harvests of any strain under these filters.
+        </p>
+      )}
+      <p className="mt-2 text-xs text-ink-soft">
+        Each block counts once (its dried harvests&apos; dry weight over their fresh weight); published only where at least{" "}
+        {results.minimumFarms} farms dried harvests of the strain, and to a tenth of a percent.
+      </p>
+      <WordsExplained terms={["drying-ratio", "interval", "withheld"]} />
+    </Card>
+  );
+}
+
+function RegimesCard({ regimes, release }: { regimes: RegimeComparison | null; release: ReleaseInfo | null }) {
+  return (
+    <Card title="Climate regimes: contamination and BE, room by room">
+      <Notice tone="caution" title="An observational comparison, not a trial">
+        <p>
+          These figures compare how farms chose to run their rooms. Rooms were not assigned to regimes at random, so other differences
+          between the farms and rooms (cleaning, strains, substrate, the grower&apos;s hand) may explain some or all of a difference here.
+          To find out whether a regime itself matters, run a room-level trial.
+        </p>
+      </Notice>
+      {regimes === null || regimes.regimes.length === 0 ? (
+        <p className="mt-3 text-ink-soft">
+          Not enough data: no member farm has recorded its blocks&apos; rooms and the rooms&apos; climate regimes for this species yet.
+        </p>
+      ) : (
+        <div className="mt-3 space-y-3">
+          <DataTable
+            caption="Climate regimes, with the room as the unit"
+            columns={regimeColumns}
+            rows={regimes.regimes.map((regime) => {
+              let reasonGiven = false;
+              const show = <T,>(
+                figure: { status: "published"; value: T } | { status: "suppressed"; message: string },
+                format: (value: T) => string,
+              ) => {
+                if (figure.status === "published") return format(figure.value);
+                if (reasonGiven) return "withheld";
+                reasonGiven = true;
+                return figure.message;
+              };
+              return {
+                regime: regime.regimeName,
+                farms: show(regime.farms, String),
+                rooms: show(regime.rooms, String),
+                roomRate: show(regime.contamination, (v) => `${v.meanRoomRate} %`),
+                contamination: show(regime.contamination, (v) => `${v.estimate} % (${v.lower} to ${v.upper})`),
+                efficiency: show(
+                  regime.efficiency,
+                  (v) => `${one(v.estimate)} % (${one(v.lower)} to ${one(v.upper)})${v.adjustedForFarm ? "" : " not adjusted for farm"}`,
+                ),
+              };
+            })}
+            emptyMessage="No climate regimes recorded."
+            csvFileName={`co-op-climate-regimes-release-${release?.number}.csv`}
+            csvConstants={releaseColumns(release)}
+          />
+          {regimes.model.status === "published" ? (
+            <div className="space-y-2 text-sm" data-testid="regime-model">
+              <p>
+                Room-mean BE ~ regime + farm: F = {regimes.model.value.f.toFixed(2)} on {regimes.model.value.dfRegime} and{" "}
+                {regimes.model.value.dfResidual} degrees of freedom, p{" "}
+                {regimes.model.value.p < 0.001 ? "< 0.001" : `= ${regimes.model.value.p.toFixed(3)}`}.
+              </p>
+              <ul className="list-disc space-y-1 pl-5">
+                {regimes.model.value.differences.map((difference) => (
+                  <li key={`${difference.regimeA}-${difference.regimeB}`}>
+                    {difference.regimeB} − {difference.regimeA}: {one(difference.estimate)} BE points (95 % interval {one(difference.lower)}{" "}
+                    to {one(difference.upper)}, Tukey; p {difference.pAdjusted < 0.001 ? "< 0.001" : difference.pAdjusted.toFixed(3)}).
+                  </li>
+                ))}
+              </ul>
+            </div>
+          ) : (
+            <p className="text-sm text-ink-soft">No comparison of BE between regimes: {regimes.model.message}.</p>
+          )}
+        </div>
+      )}
+      <p className="mt-2 text-xs text-ink-soft">
+        Each block is placed in the room it fruited in (on its first harvest; a block that never fruited on the day it was found
+        contaminated), and the room in the regime it ran that day. Each room&apos;s contamination rate and mean BE over all flushes come
+        first; the regimes are then compared on room means with each farm as a block, so rooms count, not blocks. Contamination over all of
+        a regime&apos;s rooms has a Wilson interval. No room and no farm is shown on its own: only counts of farms and rooms, means and
+        intervals, each published where at least {regimes?.minimumFarms ?? 3} farms contributed. The recipe, fruiting-method and flush
+        filters above do not apply here.
+      </p>
+      <WordsExplained terms={["climate-regime", "room-as-unit", "observational", "farm-adjusted-mean", "tukey", "withheld"]} />
     </Card>
   );
 }

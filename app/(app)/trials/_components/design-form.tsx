@@ -9,6 +9,7 @@ import { Notice } from "@/components/ui/notice";
 import type { ActionState } from "@/lib/auth/guard";
 import type { TrialDesignKind } from "@/lib/trials/design-kind";
 import { crossedArms, crossedArmsProblems } from "@/lib/trials/factorial";
+import { roomArmsProblems, roomTrialSampleSize } from "@/lib/trials/room-design";
 import { trialSampleSize } from "@/lib/trials/sample-size";
 import { saveTrialDraftAction } from "../actions";
 
@@ -22,6 +23,8 @@ export interface DesignOptions {
   strains: { id: string; code: string; name: string; speciesId: string }[];
   treatments: { id: string; name: string; kind: string }[];
   spreadBySpecies: Record<string, { sd: number; blocks: number; farms: number }>;
+  /** The co-op's own intraclass correlation of BE within rooms, per species, from the newest release. */
+  roomIccBySpecies: Record<string, { icc: number; farms: number; rooms: number }>;
   /** The co-op's minimum number of farms: a trial cannot start with fewer. */
   minimumFarms: number;
 }
@@ -46,6 +49,8 @@ export interface DesignValues {
   expectedSd: string;
   plannedFarms: string;
   expectedLossPercent: string;
+  blocksPerRoom: string;
+  roomIcc: string;
 }
 
 const inputClass =
@@ -90,6 +95,9 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
   const [sdTouched, setSdTouched] = useState(initial.expectedSd !== "");
   const [farms, setFarms] = useState(initial.plannedFarms);
   const [loss, setLoss] = useState(initial.expectedLossPercent);
+  const [blocksPerRoom, setBlocksPerRoom] = useState(initial.blocksPerRoom);
+  const [roomIcc, setRoomIcc] = useState(initial.roomIcc || (options.roomIccBySpecies[initial.speciesId]?.icc.toFixed(2) ?? ""));
+  const [iccTouched, setIccTouched] = useState(initial.roomIcc !== "");
   const errors = state.fieldErrors ?? {};
   const armErrors = Object.entries(errors)
     .filter(([field]) => field.startsWith("arms"))
@@ -109,7 +117,29 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
       }),
     [difference, sd, farms, loss, arms.length, designKind, crossedMethods.length, crossedStrains.length],
   );
+  const roomPanel = useMemo(
+    () =>
+      roomTrialSampleSize({
+        difference: toNumber(difference),
+        sd: toNumber(sd),
+        plannedFarms: toNumber(farms),
+        expectedLoss: toNumber(loss) / 100,
+        arms: arms.length,
+        blocksPerRoom: toNumber(blocksPerRoom),
+        icc: toNumber(roomIcc),
+      }),
+    [difference, sd, farms, loss, arms.length, blocksPerRoom, roomIcc],
+  );
+  const pooledIcc = options.roomIccBySpecies[speciesId];
   const fruitingMethods = options.treatments.filter((treatment) => treatment.kind === "fruiting_method");
+  const climateRegimes = options.treatments.filter((treatment) => treatment.kind === "humidity");
+  const roomProblems =
+    designKind === "rooms"
+      ? roomArmsProblems(
+          arms.map((arm) => ({ ...arm, treatmentId: arm.treatmentId || null })),
+          options.treatments,
+        )
+      : [];
   const crossingProblems =
     designKind === "strain_by_method"
       ? crossedArmsProblems(
@@ -159,6 +189,8 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
     );
     const prefill = options.spreadBySpecies[id];
     if (prefill && !sdTouched) setSd(prefill.sd.toFixed(1));
+    const iccPrefill = options.roomIccBySpecies[id];
+    if (iccPrefill && !iccTouched) setRoomIcc(iccPrefill.icc.toFixed(2));
   }
 
   function updateArm(index: number, change: Partial<DesignValues["arms"][number]>) {
@@ -260,6 +292,20 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
               <span>
                 Strains crossed with fruiting methods: every strain picked is grown with every method picked, one arm each. The report then
                 says whether the method matters, whether the strain does, and whether the best method depends on the strain.
+              </span>
+            </label>
+            <label className="flex min-h-11 items-start gap-3 text-sm">
+              <input
+                type="radio"
+                name="design-kind-choice"
+                checked={designKind === "rooms"}
+                onChange={() => chooseDesignKind("rooms")}
+                className="mt-0.5 h-5 w-5 shrink-0"
+              />
+              <span>
+                Rooms randomised to climate regimes: each arm is a way of running a fruiting room. Each farm&apos;s rooms, not its blocks,
+                are drawn at random to the arms, and every block in a room is in that room&apos;s arm. The analysis compares room means with
+                each farm as a block.
               </span>
             </label>
           </fieldset>
@@ -404,7 +450,7 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
                     </div>
                     <div className="space-y-1">
                       <label htmlFor={`arm-${index}-treatment`} className="block text-sm font-medium">
-                        Treatment (optional)
+                        {designKind === "rooms" ? "Climate regime" : "Treatment (optional)"}
                       </label>
                       <select
                         id={`arm-${index}-treatment`}
@@ -412,8 +458,8 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
                         onChange={(event) => updateArm(index, { treatmentId: event.target.value })}
                         className={inputClass}
                       >
-                        <option value="">None</option>
-                        {options.treatments.map((treatment) => (
+                        <option value="">{designKind === "rooms" ? "Pick a climate regime…" : "None"}</option>
+                        {(designKind === "rooms" ? climateRegimes : options.treatments).map((treatment) => (
                           <option key={treatment.id} value={treatment.id}>
                             {treatment.name}
                           </option>
@@ -443,7 +489,14 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
                     </div>
                   </div>
                 ))}
-                <Errors name="arms" errors={armErrors} />
+                {roomProblems.length ? (
+                  <ul className="text-sm text-ink-soft" data-testid="room-arm-problems">
+                    {roomProblems.map((problem) => (
+                      <li key={problem}>{problem}</li>
+                    ))}
+                  </ul>
+                ) : null}
+                <Errors name="arms" errors={armErrors.filter((error) => !roomProblems.includes(error))} />
                 <Button
                   type="button"
                   variant="secondary"
@@ -460,7 +513,7 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
               </fieldset>
             </>
           )}
-          {humidityArm ? (
+          {humidityArm || designKind === "rooms" ? (
             <div className="mt-4">
               <Caution which="humidifiers" />
             </div>
@@ -601,7 +654,84 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
               onChange={(event) => setLoss(event.target.value)}
               errors={errors.expectedLossPercent}
             />
-            <div aria-live="polite" data-testid="sample-size-panel">
+            {designKind === "rooms" ? (
+              <>
+                <Field
+                  label="Blocks each room holds"
+                  name="blocksPerRoom"
+                  inputMode="numeric"
+                  value={blocksPerRoom}
+                  onChange={(event) => setBlocksPerRoom(event.target.value)}
+                  errors={errors.blocksPerRoom}
+                />
+                <Field
+                  label="How alike blocks in one room are (intraclass correlation, 0 to 1)"
+                  name="roomIcc"
+                  inputMode="decimal"
+                  value={roomIcc}
+                  onChange={(event) => {
+                    setRoomIcc(event.target.value);
+                    setIccTouched(true);
+                  }}
+                  hint={
+                    pooledIcc
+                      ? `The co-op's own rooms of this species give ${pooledIcc.icc.toFixed(2)} (${pooledIcc.rooms} rooms on ${pooledIcc.farms} farms, within each farm and regime). 0 means a room's blocks vary as much as any; change it if you know better.`
+                      : "No pooled figure for this species yet: 0.05 to 0.2 is a cautious guess; 0 would mean a room's blocks vary as much as blocks anywhere."
+                  }
+                  errors={errors.roomIcc}
+                />
+              </>
+            ) : null}
+            {designKind === "rooms" ? (
+              <div aria-live="polite" data-testid="room-sample-size-panel">
+                {roomPanel.ok ? (
+                  <>
+                    <p className="mb-2 text-sm">
+                      Design effect 1 + ({toNumber(blocksPerRoom)} − 1) × {toNumber(roomIcc)} ={" "}
+                      <span data-testid="design-effect">{roomPanel.designEffect.toFixed(2)}</span>: a room of {toNumber(blocksPerRoom)}{" "}
+                      blocks tells as much as {(toNumber(blocksPerRoom) / roomPanel.designEffect).toFixed(1)} separate blocks.
+                    </p>
+                    <table className="w-full text-sm">
+                      <caption className="mb-2 text-left text-ink-soft">
+                        Rooms to randomise so that {roomPanel.pairs > 1 ? "each pair of regimes" : "the two regimes"} can be told apart on
+                        room means (two-sided 5 % level{roomPanel.pairs > 1 ? `, Tukey over ${roomPanel.pairs} pairs` : ""}; farms as
+                        blocks)
+                      </caption>
+                      <thead>
+                        <tr className="text-left">
+                          <th scope="col" className="py-1">
+                            Power
+                          </th>
+                          <th scope="col">Rooms per farm per arm</th>
+                          <th scope="col">Rooms per arm</th>
+                          <th scope="col">Blocks per arm</th>
+                        </tr>
+                      </thead>
+                      <tbody>
+                        {roomPanel.rows.map((row) => (
+                          <tr key={row.power} className="border-t border-oat-300" data-testid={`room-power-${Math.round(row.power * 100)}`}>
+                            <th scope="row" className="py-2 text-left">
+                              {Math.round(row.power * 100)} %
+                            </th>
+                            <td>{row.roomsPerFarmPerArm}</td>
+                            <td data-testid="rooms-per-arm">{row.roomsPerArm}</td>
+                            <td>{row.blocksPerArm}</td>
+                          </tr>
+                        ))}
+                      </tbody>
+                    </table>
+                    <p className="mt-2 text-xs text-ink-soft">
+                      The room-mean comparison needs {roomPanel.rows[0].exactRoomsPerArm.toFixed(1)} rooms per arm for 80 % power;
+                      randomising blocks instead would need {roomPanel.rows[0].blocksPerArmIfBlocksRandomised.toFixed(1)} blocks per arm,
+                      but a regime runs a whole room, so its blocks cannot be drawn one by one.
+                    </p>
+                  </>
+                ) : (
+                  <p className="text-sm text-ink-soft">{Object.values(roomPanel.problems)[0]}</p>
+                )}
+              </div>
+            ) : null}
+            <div aria-live="polite" data-testid="sample-size-panel" hidden={designKind === "rooms"}>
               {panel.ok ? (
                 <table className="w-full text-sm">
                   <caption className="mb-2 text-left text-ink-soft">

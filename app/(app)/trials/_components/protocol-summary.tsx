@@ -18,7 +18,9 @@ export function ProtocolSummary({ trial, dateStyle }: { trial: TrialView; dateSt
           <dd data-testid="design-kind-summary">
             {trial.designKind === "strain_by_method"
               ? "Strains crossed with fruiting methods, one arm per combination: the report tests the method, the strain and whether the best method depends on the strain (farms as blocks)."
-              : "One thing at a time: each arm against the reference arm (farms as blocks)."}
+              : trial.designKind === "rooms"
+                ? `Rooms randomised to climate regimes within each farm${trial.blocksPerRoom ? `, ${trial.blocksPerRoom} blocks a room` : ""}${trial.roomIcc !== null ? `, sized for an intraclass correlation of ${trial.roomIcc}` : ""}: every block of a room is in its room's arm, and the regimes are compared on room means with farms as blocks.`
+                : "One thing at a time: each arm against the reference arm (farms as blocks)."}
           </dd>
         </div>
         <div>

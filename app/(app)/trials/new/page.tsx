@@ -34,6 +34,8 @@ export default async function NewTrialPage() {
           expectedSd: "",
           plannedFarms: "4",
           expectedLossPercent: "5",
+          blocksPerRoom: "6",
+          roomIcc: "",
         }}
       />
     </>

@@ -13,7 +13,10 @@ export interface FixtureBlock {
   moisture?: number;
   /** Fresh grams per flush, flush 1 first; none = the block has not fruited yet. */
   flushes?: number[];
+  /** Grams of each flush after drying, where the farm dried it (same order as `flushes`). */
+  dried?: number[];
   contaminated?: boolean;
+  contaminatedOn?: string | null;
   spentG?: number | null;
   inoculatedOn?: string;
   recipeId?: string | null;
@@ -98,8 +101,8 @@ export class CoopFixture {
         rows: [made],
       } = await this.pool.query<{ id: string }>(
         `insert into blocks (farm_id, code, strain_id, substrate_recipe_id, fruiting_method_id, trial_arm_id, wet_mass_g, moisture,
-           inoculated_on, contaminated, spent_mass_g)
-         values ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11) returning id`,
+           inoculated_on, contaminated, spent_mass_g, contaminated_on)
+         values ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12) returning id`,
         [
           farmId,
           `FX-${this.blockNumber}`,
@@ -112,17 +115,62 @@ export class CoopFixture {
           block.inoculatedOn ?? "2026-01-05",
           block.contaminated ?? false,
           block.spentG ?? null,
+          block.contaminatedOn ?? null,
         ],
       );
       for (const [index, fresh] of (block.flushes ?? []).entries()) {
         await this.pool.query(
-          "insert into harvests (farm_id, block_id, flush, harvested_on, fresh_mass_g) values ($1, $2, $3, date '2026-02-01' + $4::int, $5)",
-          [farmId, made.id, index + 1, 14 * index, fresh],
+          `insert into harvests (farm_id, block_id, flush, harvested_on, fresh_mass_g, dry_mass_g)
+           values ($1, $2, $3, date '2026-02-01' + $4::int, $5, $6)`,
+          [farmId, made.id, index + 1, 14 * index, fresh, block.dried?.[index] ?? null],
         );
       }
       ids.push(made.id);
     }
     return ids;
+  }
+
+  /** A climate regime kind in the co-op's register (a treatment of kind "humidity"). */
+  async regimeKind(name: string): Promise<string> {
+    const {
+      rows: [kind],
+    } = await this.pool.query<{ id: string }>("insert into treatments (code, name, kind) values ($1, $2, 'humidity') returning id", [
+      `FXH-${this.run}-${this.methodIds.length}`,
+      `${name} ${this.run}`,
+    ]);
+    this.methodIds.push(kind.id);
+    return kind.id;
+  }
+
+  /** A fruiting room run under each regime from its date on; returns the room's id. */
+  async room(farmId: string, regimes: { startsOn: string; regimeKindId: string }[]): Promise<string> {
+    this.blockNumber++;
+    const {
+      rows: [room],
+    } = await this.pool.query<{ id: string }>(
+      "insert into fruiting_rooms (farm_id, name, kind, fresh_air) values ($1, $2, 'tent', 'fan_timer') returning id",
+      [farmId, `Tent ${this.blockNumber}`],
+    );
+    for (const regime of regimes) {
+      await this.pool.query(
+        `insert into room_regimes (farm_id, room_id, starts_on, regime_kind_id, humidity_mode, flood_starts_at, flood_hours)
+         values ($1, $2, $3, $4, 'flooding', '07:00', 2)`,
+        [farmId, room.id, regime.startsOn, regime.regimeKindId],
+      );
+    }
+    return room.id;
+  }
+
+  /** Puts blocks in a room from a day on (null: from the start of fruiting, as a season log says it). */
+  async move(farmId: string, blockIds: string[], roomId: string, movedOn: string | null = null): Promise<void> {
+    for (const blockId of blockIds) {
+      await this.pool.query("insert into block_room_moves (farm_id, block_id, room_id, moved_on) values ($1, $2, $3, $4)", [
+        farmId,
+        blockId,
+        roomId,
+        movedOn,
+      ]);
+    }
   }
 
   /** A trial already running, with the farms enrolled and accepted, for tests of what its report publishes. */

@@ -44,6 +44,8 @@ export default async function EditTrialPage({ params }: { params: Promise<{ tria
           expectedSd: text(trial.expectedSd),
           plannedFarms: text(trial.plannedFarms),
           expectedLossPercent: text(trial.expectedLoss, 100),
+          blocksPerRoom: trial.blocksPerRoom === null ? "" : String(trial.blocksPerRoom),
+          roomIcc: trial.roomIcc === null ? "" : String(trial.roomIcc),
         }}
       />
     </>
