@@ -428,6 +428,14 @@ export async function undoCommit(member: Member, entry: { uploadId: string; reas
         from season_log_replaced_rows s, jsonb_populate_record(null::${table}, s.before) r
         where s.upload_id = ${uploadId}::uuid and s.row_kind = ${kind} and t.id = s.row_id`);
     }
+    // A stored block's room from the start of fruiting: a move the commit added goes, one it replaced gets its room back.
+    await tx.execute(sql`
+      delete from block_room_moves m where m.upload_id = ${uploadId}::uuid and m.moved_on is null
+        and m.id not in (select row_id from season_log_replaced_rows where upload_id = ${uploadId}::uuid and row_kind = 'room_move')`);
+    await tx.execute(sql`
+      update block_room_moves t set room_id = r.room_id, upload_id = r.upload_id
+      from season_log_replaced_rows s, jsonb_populate_record(null::block_room_moves, s.before) r
+      where s.upload_id = ${uploadId}::uuid and s.row_kind = 'room_move' and t.id = s.row_id`);
     // Harvests the commit removed (the grower chose to remove what the file did not have) go back whole.
     await tx.execute(sql`
       insert into harvests select (jsonb_populate_record(null::harvests, s.before)).*
