@@ -200,6 +200,7 @@ export const seasonLogColumns: readonly SeasonLogColumn[] = [
     required: "no",
     kind: "text",
     describes: "block",
+    // Growers fruit in tubs, tents (a frame with a cover and shelves) and rooms (common practice).
     synonyms: ["fruiting room", "room", "fruiting tent", "tent", "fruiting chamber", "chamber", "grow room", "fruiting tub"],
     looseSynonyms: ["tub", "location", "where fruited"],
   },

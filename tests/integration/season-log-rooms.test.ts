@@ -93,7 +93,15 @@ async function moves(prefix: string): Promise<StoredMove[]> {
 
 describe("the fruiting_room column", () => {
   it("commits each block's room as its move from the start of fruiting, with the upload that said so", async () => {
-    const view = await upload(asFarmA, sheet([["RM-1", "Rm Tent 1"], ["RM-2", "rm tub BY the door"], ["RM-3", ""]]), "rooms-1.csv");
+    const view = await upload(
+      asFarmA,
+      sheet([
+        ["RM-1", "Rm Tent 1"],
+        ["RM-2", "rm tub BY the door"],
+        ["RM-3", ""],
+      ]),
+      "rooms-1.csv",
+    );
     expect(view.report.errorCount).toBe(0);
     expect(view.report.preview.rooms).toEqual({
       count: 2,
@@ -115,12 +123,24 @@ describe("the fruiting_room column", () => {
 
   it("changes nothing when the same rows come again, in the same file or another", async () => {
     const before = await moves("RM-");
-    const text = sheet([["RM-1", "Rm Tent 1"], ["RM-2", "rm tub BY the door"], ["RM-3", ""]]);
+    const text = sheet([
+      ["RM-1", "Rm Tent 1"],
+      ["RM-2", "rm tub BY the door"],
+      ["RM-3", ""],
+    ]);
     const same = await upload(asFarmA, text, "rooms-1-again.csv");
     expect(same.upload.outcome).toBe("already_imported");
     expect(same.canCommit).toBe(false);
     // Other capitals and another order: another file, the same rooms.
-    const other = await upload(asFarmA, sheet([["RM-2", "Rm Tub by the door"], ["RM-1", "RM TENT 1"], ["RM-3", ""]]), "rooms-1-b.csv");
+    const other = await upload(
+      asFarmA,
+      sheet([
+        ["RM-2", "Rm Tub by the door"],
+        ["RM-1", "RM TENT 1"],
+        ["RM-3", ""],
+      ]),
+      "rooms-1-b.csv",
+    );
     expect(other.report.preview.rooms?.blocks.map((entry) => entry.change)).toEqual(["same", "same"]);
     const receipt = await commitUpload(asFarmA, other.upload.id, {});
     expect(receipt.counts).toMatchObject({ newBlocks: 0, changedBlocks: 0, untouchedBlocks: 3 });
@@ -130,7 +150,15 @@ describe("the fruiting_room column", () => {
 
   it("updates the move from the start when the room changes, keeps the old room in history, and a blank cell keeps the room", async () => {
     const before = await moves("RM-");
-    const view = await upload(asFarmA, sheet([["RM-1", "Rm Tub by the door"], ["RM-2", ""], ["RM-3", "Rm Tent 1"]]), "rooms-2.csv");
+    const view = await upload(
+      asFarmA,
+      sheet([
+        ["RM-1", "Rm Tub by the door"],
+        ["RM-2", ""],
+        ["RM-3", "Rm Tent 1"],
+      ]),
+      "rooms-2.csv",
+    );
     expect(view.report.preview.rooms?.blocks).toEqual([
       { blockCode: "RM-1", room: "Rm Tub by the door", change: "changed" },
       { blockCode: "RM-3", room: "Rm Tent 1", change: "added" },
@@ -205,7 +233,9 @@ describe("the fruiting_room column", () => {
     await inspector.query("alter table harvests add constraint test_refuse_778 check (fresh_mass_g <> 778) not valid");
     const lines = [header];
     for (let block = 1; block <= 200; block++)
-      lines.push(`RM-K-${block},PO-01,2026-03-01,${block % 2 ? "Rm Tent 1" : "Rm Tub by the door"},1,2026-04-10,${block === 100 ? 778 : 400} g`);
+      lines.push(
+        `RM-K-${block},PO-01,2026-03-01,${block % 2 ? "Rm Tent 1" : "Rm Tub by the door"},1,2026-04-10,${block === 100 ? 778 : 400} g`,
+      );
     const view = await upload(asFarmA, `${lines.join("\r\n")}\r\n`, "rooms-large.csv");
     expect(view.canCommit).toBe(true);
     try {
