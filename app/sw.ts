@@ -11,7 +11,7 @@ declare global {
 declare const self: ServiceWorkerGlobalScope;
 
 /** Raise to drop every page this worker kept, e.g. when a kept page could no longer run with the new build. */
-const pagesVersion = 1;
+const pagesVersion = 2;
 
 const serwist = new Serwist({
   precacheEntries: self.__SW_MANIFEST,

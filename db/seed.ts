@@ -436,6 +436,7 @@ export async function seedDemo(ownerUrl: string, today = new Date().toISOString(
     const release = await cutSetupRelease();
     console.log(`  pooled figures: ${release.outcome === "cut" ? `release ${release.release.number}` : release.outcome}`);
     await publishDemoTrial(owner, "T-2026-01", new Date(`${today}T09:00:00Z`));
+    await (await import("./seed-rooms")).seedDemoRooms(owner, today);
   } finally {
     await pool.end();
   }

@@ -20,6 +20,14 @@ export const cautions = {
     title: "Carbon dioxide in closed rooms",
     text: "Growing mycelium and fruiting mushrooms give off carbon dioxide; a closed room can reach levels that cause headaches and, at worst, harm. Ventilate before going in, consider a CO2 monitor with an alarm, and follow local workplace exposure limits.",
   },
+  alcoholCleaning: {
+    title: "Cleaning with alcohol",
+    text: "Alcohol used to wipe down a room, tub or tent gives off flammable vapour that can build up in a small closed space. Ventilate while and after you clean, keep flames, heaters, sparks and switching electrics away until the vapour has cleared, store it closed and away from heat, and follow the product's label and your local fire rules.",
+  },
+  roomCleaning: {
+    title: "Mould and spores when cleaning a room",
+    text: "Scrubbing or dry-brushing mouldy surfaces, filters and trays puts mould and mushroom spores in the air. Wear a well-fitted respirator of the class your local occupational-health rules call for, and gloves and eye protection for cleaning products; wet surfaces before wiping rather than brushing them dry, bag what you remove, and never mix cleaning products (bleach with acids or ammonia gives toxic gas).",
+  },
   foodAndHealth: {
     title: "Selling food and health claims",
     text: "Selling fresh or dried mushrooms, and saying anything about their effect on health, is regulated. Follow your local food-safety, labelling and licensing rules. Nothing in Rhizomorph is medical or food-safety advice.",

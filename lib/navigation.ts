@@ -13,6 +13,7 @@ export const navigationItems: NavigationItem[] = [
   { href: "/my-farm", label: "My farm", action: "farm-data:read" },
   { href: "/season-logs", label: "Season logs", action: "season-log:upload" },
   { href: "/blocks", label: "Blocks & harvests", action: "farm-data:read" },
+  { href: "/rooms", label: "Rooms", action: "farm-data:read" },
   { href: "/results", label: "Co-op results", action: "pooled-results:read" },
   { href: "/trials", label: "Trials", action: "trial:read" },
   { href: "/strains", label: "Strains", action: "registry:read" },

@@ -8,7 +8,7 @@ import type { ActionState } from "@/lib/auth/guard";
 export interface FormFieldSpec {
   name: string;
   label: string;
-  type?: "text" | "email" | "password" | "checkbox" | "file" | "number";
+  type?: "text" | "email" | "password" | "checkbox" | "file" | "number" | "date" | "time";
   options?: { value: string; label: string }[];
   hint?: string;
   autoComplete?: string;

@@ -22,7 +22,7 @@ const writers = ["lib", "db", "app", "scripts"]
 
 // The namespaces of the log's action names; a quoted word of this shape in a writer is an action it records.
 const actionLiteral =
-  /["'](sign-in(?:\.[a-z_-]+)?|(?:sessions|password|preferences|member|farm|cooperative-settings|registry|pooled-release|harvest|block|season-log|trial)\.[a-z_-]+)["']/g;
+  /["'](sign-in(?:\.[a-z_-]+)?|(?:sessions|password|preferences|member|farm|cooperative-settings|registry|pooled-release|harvest|block|room|season-log|trial)\.[a-z_-]+)["']/g;
 const recorded = new Set(writers.flatMap(({ source }) => [...source.matchAll(actionLiteral)].map((match) => match[1])));
 
 describe("every recorded action has a sentence", () => {

@@ -101,6 +101,8 @@ const reason = (details: Record<string, unknown>): AuditDetail[] =>
 
 const blockLink = (details: Record<string, unknown>, code: string) =>
   text(details.blockId) ? { href: `/blocks/${text(details.blockId)}`, label: `Block ${code}` } : undefined;
+const roomLink = (details: Record<string, unknown>, name: string) =>
+  text(details.roomId) ? { href: `/rooms/${text(details.roomId)}`, label: `Room ${name}` } : undefined;
 const uploadLink = (details: Record<string, unknown>, fileName: string) =>
   text(details.uploadId) ? { href: `/api/season-logs/${text(details.uploadId)}/file`, label: `Download ${fileName}` } : undefined;
 const trialLink = (details: Record<string, unknown>, code: string) =>
@@ -326,6 +328,46 @@ export const auditSentences: Record<AuditAction, Describe> = {
       link: blockLink(details, subject),
     };
   },
+  "block.moved": (who, subject, details) => ({
+    sentence: text(details.movedOn)
+      ? `${who} recorded block ${subject} moved to ${text(details.roomName) || "a room"} on ${day(details.movedOn)}.`
+      : `${who} recorded block ${subject} in ${text(details.roomName) || "a room"} from the start of fruiting.`,
+    details: text(details.from)
+      ? [{ label: "Recorded on", value: text(details.from) === "harvest" ? "the phone harvest form" : text(details.from) }]
+      : [],
+    link: blockLink(details, subject),
+  }),
+  "room.added": (who, subject, details) => ({
+    sentence: `${who} added the fruiting room ${subject}.`,
+    details: [],
+    link: roomLink(details, subject),
+  }),
+  "room.changed": (who, subject, details) => {
+    const changes = Array.isArray(details.changes) ? details.changes.map(record) : [];
+    return {
+      sentence: `${who} changed the fruiting room ${subject}: ${count(changes.length, "value")} changed.`,
+      details: changes.map((change) => ({
+        label: text(change.label),
+        value: `${text(change.oldValue) || "(blank)"} → ${text(change.newValue) || "(blank)"}`,
+      })),
+      link: roomLink(details, subject),
+    };
+  },
+  "room.retired": (who, subject, details) => ({
+    sentence: `${who} retired the fruiting room ${subject} from ${day(details.retiredOn)}; its history stays.`,
+    details: [],
+    link: roomLink(details, subject),
+  }),
+  "room.reinstated": (who, subject, details) => ({
+    sentence: `${who} took the fruiting room ${subject} back into use.`,
+    details: [],
+    link: roomLink(details, subject),
+  }),
+  "room.regime-recorded": (who, subject, details) => ({
+    sentence: `${who} recorded how ${subject} is run from ${day(details.startsOn)}: ${text(details.words) || "a new climate regime"}.`,
+    details: text(details.regimeKind) ? [{ label: "Climate regime", value: text(details.regimeKind) }] : [],
+    link: roomLink(details, subject),
+  }),
 
   "season-log.uploaded": (who, subject, details) => {
     const found = [count(number(details.rows), "row"), count(number(details.errors), "error"), count(number(details.warnings), "warning")];

@@ -25,6 +25,8 @@ export const permissions = {
   "farm-data:read": farmPeople,
   "season-log:upload": farmPeople,
   "harvest:record": farmPeople,
+  // Adding a room, a regime change, a block's move: recorded by whoever does the work, like a harvest.
+  "rooms:record": farmPeople,
   // Editing or deleting a harvest, editing a block's values, undoing a season-log commit.
   "farm-data:correct": farmPeople,
   "registry:propose": farmPeople,
@@ -33,6 +35,8 @@ export const permissions = {
   "trial-list:download": farmPeople,
 
   "farm-data:export": ["farm_manager"],
+  // Renaming, resizing or retiring a room changes how the farm is set up, which is the manager's to decide.
+  "rooms:manage": ["farm_manager"],
   "farm:withdraw": ["farm_manager"],
   "farm-staff:manage": ["farm_manager"],
   "trial:enrol": ["farm_manager"],

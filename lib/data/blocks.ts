@@ -1,6 +1,6 @@
 import "server-only";
 import { and, asc, desc, eq, sql } from "drizzle-orm";
-import { blocks, harvests, strains, substrateRecipes, trialArms, trials, uploads, users, valueChanges } from "@/db/schema";
+import { blockRoomMoves, blocks, harvests, strains, substrateRecipes, trialArms, trials, uploads, users, valueChanges } from "@/db/schema";
 import { actor, recordAudit } from "@/lib/data/audit";
 import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
 import { AppError } from "@/lib/errors";
@@ -14,6 +14,7 @@ import {
 } from "@/lib/season-logs/quick-harvest";
 import type { Member } from "./members";
 import { asMember, farmOf } from "./context";
+import { recordRoomAtHarvest } from "./rooms";
 import { blockSeasonYear } from "./seasons";
 
 export interface BlockRow {
@@ -72,6 +73,8 @@ export interface BlockDetail extends BlockRow {
 export interface HarvestTarget {
   code: string;
   nextFlush: number;
+  /** The block's moves between rooms, so the form can show its room on the day picked (lib/rooms/regimes.ts roomOn). */
+  moves: { roomId: string; movedOn: string | null }[];
 }
 
 const blockColumns = {
@@ -239,14 +242,17 @@ export async function listHarvestTargets(member: Member): Promise<HarvestTarget[
       .select({
         code: blocks.code,
         flushes: sql<number[]>`coalesce(array_agg(${harvests.flush}) filter (where ${harvests.flush} is not null), '{}')`,
+        moves: sql<
+          { roomId: string; movedOn: string | null }[]
+        >`(select coalesce(json_agg(json_build_object('roomId', m.room_id, 'movedOn', m.moved_on)), '[]') from ${blockRoomMoves} m where m.block_id = ${blocks.id})`,
       })
       .from(blocks)
       .leftJoin(harvests, eq(harvests.blockId, blocks.id))
       .where(and(eq(blocks.farmId, farm.farmId), eq(blocks.contaminated, false)))
-      .groupBy(blocks.code)
+      .groupBy(blocks.code, blocks.id)
       .orderBy(asc(blocks.code)),
   );
-  return rows.map((row) => ({ code: row.code, nextFlush: nextFlush(row.flushes) }));
+  return rows.map((row) => ({ code: row.code, nextFlush: nextFlush(row.flushes), moves: row.moves }));
 }
 
 export type RecordHarvestResult =
@@ -331,6 +337,7 @@ export async function recordHarvest(
       acceptedWarnings: check.warnings.length > 0 ? check.warnings.map((warning) => warning.message).join("\n") : null,
       clientKey: entry.clientKey ?? null,
     });
+    if (entry.roomId) await recordRoomAtHarvest(tx, member, farm.farmId, block, entry.roomId, entry.harvestedOn);
     await recordAudit(tx, {
       action: "harvest.recorded",
       subject: `${block.code} flush ${entry.flush}`,

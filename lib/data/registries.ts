@@ -1,7 +1,7 @@
 import "server-only";
 import { asc, eq, inArray, sql } from "drizzle-orm";
 import { withAnalystAccess, type Transaction } from "@/db/client";
-import { blocks, cooperativeSettings, species, strains, substrateRecipes, treatments, trialArms } from "@/db/schema";
+import { blocks, cooperativeSettings, roomRegimes, species, strains, substrateRecipes, treatments, trialArms } from "@/db/schema";
 import { AppError, databaseRefusalOf } from "@/lib/errors";
 import { RegisterMatcher } from "@/lib/import/registers";
 import { describeProblem, parseRegistryCsv, type RegistryKind, type RegistryRow } from "@/lib/members/registry-csv";
@@ -16,7 +16,7 @@ type Status = "proposed" | "active" | "retired";
 
 /**
  * Which registry entries records use, live, as a yes or no per entry: a used entry can be retired
- * but not deleted, so the page offers Delete only where it can succeed. Blocks are read by the
+ * but not deleted, so the page offers Delete only where it can succeed. Blocks and room regimes are read by the
  * analyst role (the coordinator cannot see farms' rows), trial arms and strains as the coordinator.
  */
 async function entriesInUse(tx: Transaction): Promise<Record<RegistryKind, Set<string>>> {
@@ -25,6 +25,8 @@ async function entriesInUse(tx: Transaction): Promise<Record<RegistryKind, Set<s
       .selectDistinct({ strainId: blocks.strainId, recipeId: blocks.substrateRecipeId, methodId: blocks.fruitingMethodId })
       .from(blocks),
   );
+  // A climate regime kind named by a farm's room regime, read the same way (room_regimes.regime_kind_id, 0041).
+  const regimeKinds = await withAnalystAccess((analyst) => analyst.selectDistinct({ kindId: roomRegimes.regimeKindId }).from(roomRegimes));
   const arms = await tx.select({ strainId: trialArms.strainId, treatmentId: trialArms.treatmentId }).from(trialArms);
   const strainSpecies = await tx.selectDistinct({ speciesId: strains.speciesId }).from(strains);
   const ids = (values: (string | null)[]) => new Set(values.filter((value): value is string => value !== null));
@@ -32,7 +34,7 @@ async function entriesInUse(tx: Transaction): Promise<Record<RegistryKind, Set<s
     species: ids(strainSpecies.map((row) => row.speciesId)),
     strains: ids([...used.map((row) => row.strainId), ...arms.map((arm) => arm.strainId)]),
     substrate_recipes: ids(used.map((row) => row.recipeId)),
-    treatments: ids([...used.map((row) => row.methodId), ...arms.map((arm) => arm.treatmentId)]),
+    treatments: ids([...used.map((row) => row.methodId), ...arms.map((arm) => arm.treatmentId), ...regimeKinds.map((row) => row.kindId)]),
   };
 }
 

@@ -9,7 +9,7 @@ export const registryLabels: Record<RegistryKind, string> = {
   species: "Species",
   strains: "Strains",
   substrate_recipes: "Substrate recipes",
-  treatments: "Fruiting methods and other treatments",
+  treatments: "Fruiting methods, climate regimes and other treatments",
 };
 
 export const registryColumns: Record<RegistryKind, { required: string[]; optional: string[] }> = {

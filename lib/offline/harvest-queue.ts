@@ -14,6 +14,8 @@ export interface HarvestFields {
   weight: string;
   unit: string;
   harvestedOn: string;
+  /** "Room it is in now", when picked: the same field the server's schema reads (lib/season-logs/quick-harvest.ts). */
+  roomId?: string;
   acceptWarnings?: string;
 }
 

@@ -9,8 +9,19 @@ describe("recordHarvestSchema", () => {
       weight: "640",
       unit: "g",
       harvestedOn: "2026-05-02",
+      roomId: null,
       acceptWarnings: [],
     });
+  });
+
+  it("reads the room picker: left blank it names no room; a room is kept; anything else is refused with words", () => {
+    const entry = { blockCode: "FE-001", flush: "2", weight: "640", unit: "g", harvestedOn: "2026-05-02" };
+    const room = "7d0c3a52-4b8e-4c61-9f3e-2a7b9c1d5e60";
+    expect(recordHarvestSchema.parse({ ...entry, roomId: "" }).roomId).toBeNull();
+    expect(recordHarvestSchema.parse({ ...entry, roomId: room }).roomId).toBe(room);
+    expect(recordHarvestSchema.safeParse({ ...entry, roomId: "Tub 1" }).error?.issues[0].message).toBe(
+      "Pick the room from the list, or leave it as it is.",
+    );
   });
 
   it("reads the warnings accepted with 'Save anyway' as codes", () => {

@@ -12,6 +12,7 @@ import {
   missingFlushes,
 } from "../import/harvest-checks";
 import { formatMass, type MassUnitAsWritten } from "../units";
+import { roomPickSchema } from "../rooms/schemas";
 
 /** The quick harvest form, as a grower fills it in on a phone in the grow room. */
 export const recordHarvestSchema = z.object({
@@ -31,6 +32,8 @@ export const recordHarvestSchema = z.object({
     .string()
     .regex(/^\d{4}-\d{2}-\d{2}$/, "Choose the day you picked the flush.")
     .refine((day) => !Number.isNaN(Date.parse(`${day}T00:00:00Z`)), "Choose a real day."),
+  // "Room it is in now": a move dated the harvest day is recorded when it differs from the block's room that day.
+  roomId: roomPickSchema,
   // Made by the phone for this entry (a v4 uuid): sending it again finds the harvest stored the first time.
   clientKey: z.uuid({ error: "Reload the page: this entry has no key of its own." }).optional(),
   // The warnings the grower read and chose to save anyway ("Save anyway"), by code; never an error.
@@ -41,7 +44,7 @@ export const recordHarvestSchema = z.object({
     .transform((codes) => (codes ?? "").split(",").filter((code) => code !== "")),
 });
 
-export type QuickHarvestEntry = Omit<z.infer<typeof recordHarvestSchema>, "acceptWarnings">;
+export type QuickHarvestEntry = Omit<z.infer<typeof recordHarvestSchema>, "acceptWarnings" | "roomId"> & { roomId?: string | null };
 
 /** What is stored of the block a harvest is for, as the checks need it. */
 export interface StoredBlock {

@@ -111,6 +111,12 @@ export function formatDateTime(value: Date | string, display: TimeDisplay): stri
   return `${writeDate(parts.year, parts.month, parts.day, display.dateStyle)} ${parts.hour}:${parts.minute} ${parts.timeZoneName}`;
 }
 
+/** The calendar date (YYYY-MM-DD) an instant falls on in a zone: "today" on the member's own calendar. */
+export function calendarDateIn(value: Date | string, timeZone: string): string {
+  const parts = partsIn(toInstant(value), timeZone);
+  return `${parts.year}-${parts.month}-${parts.day}`;
+}
+
 /** The date an instant falls on in the member's zone (a commit undone "on 21/03/2026"). */
 export function formatDay(value: Date | string, display: TimeDisplay): string {
   const parts = partsIn(toInstant(value), display.timeZone);

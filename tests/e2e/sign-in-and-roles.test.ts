@@ -14,13 +14,24 @@ const roles = [
   {
     role: "farm-manager",
     email: "manager@fernbrook.example",
-    menu: ["My farm", "Season logs", "Blocks & harvests", "Co-op results", "Trials", "Strains", "Farm people", "Activity log", "Settings"],
+    menu: [
+      "My farm",
+      "Season logs",
+      "Blocks & harvests",
+      "Rooms",
+      "Co-op results",
+      "Trials",
+      "Strains",
+      "Farm people",
+      "Activity log",
+      "Settings",
+    ],
     forbidden: "/members",
   },
   {
     role: "grower",
     email: "grower@fernbrook.example",
-    menu: ["My farm", "Season logs", "Blocks & harvests", "Co-op results", "Trials", "Strains", "Settings"],
+    menu: ["My farm", "Season logs", "Blocks & harvests", "Rooms", "Co-op results", "Trials", "Strains", "Settings"],
     forbidden: "/farm-people",
   },
   {

@@ -18,7 +18,8 @@ const sectionCautions: Partial<Record<RegistryKind, CautionKey>> = { substrate_r
 
 const statusLabels = { proposed: "Waiting for approval", active: "In use", retired: "Retired" } as const;
 const sourceLabels = { culture_bank: "Culture bank", wild_clone: "Wild clone", own_isolate: "Own isolate" } as const;
-const kindLabels = { fruiting_method: "Fruiting method", humidity: "Humidity", other: "Other" } as const;
+// "humidity" entries are the co-op's climate regime kinds: how a fruiting room's humidity is run (issue #18).
+const kindLabels = { fruiting_method: "Fruiting method", humidity: "Climate regime", other: "Other" } as const;
 
 interface Entry {
   id: string;
@@ -151,7 +152,12 @@ export default async function StrainsPage() {
     treatments: [
       { name: "code", label: "Co-op code", hint: "e.g. SLIT-ACROSS" },
       { name: "name", label: "Name" },
-      { name: "treatmentKind", label: "Kind", options: Object.entries(kindLabels).map(([value, label]) => ({ value, label })) },
+      {
+        name: "treatmentKind",
+        label: "Kind",
+        options: Object.entries(kindLabels).map(([value, label]) => ({ value, label })),
+        hint: "A climate regime is a way of running a fruiting room's humidity, e.g. “Misted all day” or “Soaked once a day”; farms pick one when they record a room's regime.",
+      },
       { name: "description", label: "How it is done" },
     ],
   };
@@ -221,8 +227,8 @@ export default async function StrainsPage() {
           manage
             ? "The co-op's registries. Farms propose entries; you approve them. An entry that blocks or a trial use can be retired but not deleted, so past records keep it."
             : propose
-              ? "The co-op's registries. Missing a strain, recipe or fruiting method? Propose it; the coordinator approves it."
-              : "The co-op's registries of species, strains, substrate recipes and fruiting methods."
+              ? "The co-op's registries. Missing a strain, recipe, fruiting method or climate regime? Propose it; the coordinator approves it."
+              : "The co-op's registries of species, strains, substrate recipes, fruiting methods and climate regimes."
         }
       />
       <div className="space-y-10">
@@ -247,7 +253,7 @@ export default async function StrainsPage() {
                       ? "a strain"
                       : section.kind === "substrate_recipes"
                         ? "a substrate recipe"
-                        : "a treatment"}
+                        : "a fruiting method, climate regime or other treatment"}
                 </summary>
                 <div className="mt-3 max-w-lg">
                   <ActionForm

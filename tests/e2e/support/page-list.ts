@@ -30,6 +30,8 @@ export async function pageList(inspector: Pool, optOutLink: (enrolmentId: string
   const published = await one("select id from trials where status = 'published' order by code limit 1");
   const draft = await one("select id from trials where status = 'draft' order by code limit 1");
   const enrolment = await one("select id from trial_enrolments where farm_id = $1 order by id limit 1", [fernbrook]);
+  // The demo's rooms (db/seed-rooms.ts); /rooms itself is in the menu.
+  const room = await one("select id from fruiting_rooms where farm_id = $1 order by name limit 1", [fernbrook]);
   const farm = [
     "/blocks/harvest",
     `/blocks/${block}`,
@@ -37,6 +39,7 @@ export async function pageList(inspector: Pool, optOutLink: (enrolmentId: string
     `/trials/${published}`,
     `/trials/${published}/results`,
     `/trials/${published}/labels`,
+    `/rooms/${room}`,
   ];
   return {
     publicPages: [

@@ -5,6 +5,8 @@ import { redirect } from "next/navigation";
 import { z } from "zod";
 import { guardedAction } from "@/lib/auth/guard";
 import { correctBlock, correctHarvest, deleteHarvest } from "@/lib/data/corrections";
+import { moveBlock } from "@/lib/data/rooms";
+import { moveSchema } from "@/lib/rooms/schemas";
 import { blockCorrectionSchema, harvestCorrectionSchema, harvestRemovalSchema } from "@/lib/season-logs/corrections";
 
 const confirm = (warnings: { code: string; field: string; message: string }[]) => ({
@@ -49,4 +51,11 @@ export const correctHarvestAction = guardedAction("farm-data:correct", harvestFo
   if (result.status === "warnings") return confirm(result.warnings);
   revalidatePath("/blocks", "layout");
   return saved(result.changed);
+});
+
+export const moveBlockAction = guardedAction("rooms:record", moveSchema, async (input, member) => {
+  const { roomName } = await moveBlock(member, input);
+  revalidatePath("/blocks", "layout");
+  revalidatePath("/rooms", "layout");
+  return { status: "ok", message: `Saved: moved to ${roomName}${input.movedOn ? "" : " from the start of fruiting"}.` };
 });

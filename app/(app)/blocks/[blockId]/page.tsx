@@ -18,6 +18,10 @@ import { BlockCorrectionForm, HarvestCorrectionForm } from "./_components/correc
 import { formatDate, formatDateTime } from "@/lib/time/display";
 import { timeDisplayFor } from "@/lib/time/member-display";
 import { ScrollFrame } from "@/components/ui/scroll-frame";
+import { ActionForm } from "@/components/forms/action-form";
+import { getBlockRooms, listRoomChoices } from "@/lib/data/rooms";
+import { calendarDateIn } from "@/lib/time/display";
+import { moveBlockAction } from "./actions";
 
 export const metadata: Metadata = { title: "Block" };
 
@@ -56,6 +60,8 @@ export default async function BlockPage({
   }
   const display = member.displayUnits;
   const times = await timeDisplayFor(member);
+  const today = calendarDateIn(new Date(), times.timeZone);
+  const [rooms, roomChoices] = await Promise.all([getBlockRooms(member, block.id, today), listRoomChoices(member)]);
   const canCorrect = can(member.role, "farm-data:correct");
   const defaultUnit = display === "imperial" ? "lb" : "g";
   // One correction form at a time: the block's values, or one harvest (its id in ?correct=).
@@ -184,6 +190,64 @@ export default async function BlockPage({
               </table>
             </ScrollFrame>
           )}
+        </Card>
+        <Card title="Rooms">
+          {rooms.moves.length === 0 ? (
+            <p className="text-ink-soft">No room recorded for this block yet.</p>
+          ) : (
+            <ol className="space-y-1 text-sm" data-testid="block-rooms">
+              {rooms.moves.map((move) => (
+                <li key={move.id}>
+                  <span className="font-semibold">
+                    {move.movedOn ? `From ${formatDate(move.movedOn, member.dateStyle)}` : "From the start of fruiting"}:
+                  </span>{" "}
+                  <Link href={`/rooms/${move.roomId}`} className="underline">
+                    {move.roomName}
+                  </Link>
+                  {move.id === rooms.now?.id ? " (where it is today)" : ""}
+                  <span className="text-ink-soft">
+                    {move.fromSeasonLog ? ", from a season log" : move.recordedBy ? `, recorded by ${move.recordedBy}` : ""}
+                  </span>
+                </li>
+              ))}
+            </ol>
+          )}
+          {can(member.role, "rooms:record") ? (
+            roomChoices.length === 0 ? (
+              <p className="mt-3 text-sm text-ink-soft">
+                Add your rooms on{" "}
+                <Link href="/rooms" className="underline">
+                  Rooms
+                </Link>{" "}
+                to record where this block fruits.
+              </p>
+            ) : (
+              <div className="mt-4 max-w-lg">
+                <ActionForm
+                  action={moveBlockAction}
+                  testId="move-block"
+                  hidden={{ blockId: block.id }}
+                  fields={[
+                    {
+                      name: "roomId",
+                      label: "Moved to room",
+                      options: roomChoices.map((room) => ({ value: room.id, label: room.name })),
+                      defaultValue: rooms.now?.roomId,
+                    },
+                    {
+                      name: "movedOn",
+                      label: "on",
+                      type: "date",
+                      defaultValue: today,
+                      hint: "Leave it blank if the block has been there from the start of fruiting.",
+                    },
+                  ]}
+                  submitLabel="Save the move"
+                  variant="secondary"
+                />
+              </div>
+            )
+          ) : null}
         </Card>
         {correctingBlock || correctedHarvest ? (
           <div id="correction">

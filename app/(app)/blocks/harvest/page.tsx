@@ -3,13 +3,14 @@ import { Caution } from "@/components/ui/caution";
 import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { listHarvestTargets } from "@/lib/data/blocks";
+import { listRoomChoices } from "@/lib/data/rooms";
 import { QuickHarvestForm } from "./quick-harvest-form";
 
 export const metadata: Metadata = { title: "Record a harvest" };
 
 export default async function RecordHarvestPage({ searchParams }: { searchParams: Promise<{ block?: string }> }) {
   const member = await requirePage("harvest:record");
-  const targets = await listHarvestTargets(member);
+  const [targets, rooms] = await Promise.all([listHarvestTargets(member), listRoomChoices(member)]);
   const { block } = await searchParams;
   return (
     <>
@@ -18,6 +19,7 @@ export default async function RecordHarvestPage({ searchParams }: { searchParams
         <QuickHarvestForm
           memberId={member.id}
           targets={targets}
+          rooms={rooms}
           initialBlock={block ?? ""}
           defaultUnit={member.displayUnits === "imperial" ? "lb" : "g"}
         />

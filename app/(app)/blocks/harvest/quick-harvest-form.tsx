@@ -17,6 +17,7 @@ import {
   type QueuedHarvest,
   type SendAnswer,
 } from "@/lib/offline/harvest-queue";
+import { roomOn } from "@/lib/rooms/regimes";
 import { recordHarvestAction } from "./actions";
 
 /** The server's answer, or "kept": no answer came, so the entry waits on this phone. */
@@ -29,12 +30,14 @@ function fieldsOf(data: FormData): HarvestFields {
     return typeof value === "string" ? value : "";
   };
   const acceptWarnings = text("acceptWarnings");
+  const roomId = text("roomId");
   return {
     blockCode: text("blockCode"),
     flush: text("flush"),
     weight: text("weight"),
     unit: text("unit"),
     harvestedOn: text("harvestedOn"),
+    ...(roomId ? { roomId } : {}),
     ...(acceptWarnings ? { acceptWarnings } : {}),
   };
 }
@@ -85,11 +88,14 @@ function remember(unit: Unit, harvestedOn: string): void {
 export function QuickHarvestForm({
   memberId,
   targets,
+  rooms,
   initialBlock,
   defaultUnit,
 }: {
   memberId: string;
   targets: HarvestTarget[];
+  /** The farm's rooms in use, for "Room it is in now". */
+  rooms: { id: string; name: string }[];
   initialBlock: string;
   defaultUnit: "g" | "lb";
 }) {
@@ -167,6 +173,11 @@ export function QuickHarvestForm({
   const [dayChoice, setDayChoice] = useState<string | null>(null);
   const unit = unitChoice ?? keptUnit ?? defaultUnit;
   const harvestedOn = dayChoice ?? keptDay;
+  // The block's room on the day picked, until the grower picks another: a move is recorded only when they differ.
+  const [roomChoice, setRoomChoice] = useState<string | null>(null);
+  const blockMoves = targets.find((target) => sameBlock(target.code))?.moves ?? [];
+  const blockRoom = harvestedOn ? (roomOn(blockMoves, harvestedOn)?.roomId ?? "") : "";
+  const roomId = roomChoice ?? (rooms.some((room) => room.id === blockRoom) ? blockRoom : "");
   // Warnings stand for the entry they were given for: changing a field takes "Save anyway" away.
   const [edited, setEdited] = useState(false);
   const [answered, setAnswered] = useState(state);
@@ -176,6 +187,7 @@ export function QuickHarvestForm({
     if (state.status === "ok" || state.status === "kept") {
       setWeight("");
       setFlushTouched(false);
+      setRoomChoice(null);
     }
   }
   const waiting = (kept ?? []).filter((entry) => !entry.refused);
@@ -190,6 +202,7 @@ export function QuickHarvestForm({
     const entryUnit = units.find((choice) => choice === entry.fields.unit);
     if (entryUnit) setUnitChoice(entryUnit);
     setDayChoice(entry.fields.harvestedOn);
+    setRoomChoice(entry.fields.roomId ?? "");
     changed();
     await dropKept(entry.clientKey);
     await reload();
@@ -365,6 +378,41 @@ export function QuickHarvestForm({
         errors={state.fieldErrors?.harvestedOn}
       />
       <FieldWarnings name="harvestedOn" messages={warningsFor("harvestedOn")} />
+      {rooms.length > 0 ? (
+        <div className="space-y-1">
+          <label htmlFor="roomId" className="block text-sm font-medium">
+            Room it is in now (optional)
+          </label>
+          <select
+            id="roomId"
+            name="roomId"
+            value={roomId}
+            aria-describedby={state.fieldErrors?.roomId?.length ? "roomId-errors roomId-hint" : "roomId-hint"}
+            onChange={(event) => {
+              setRoomChoice(event.target.value);
+              changed();
+            }}
+            className="block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3 text-base"
+          >
+            <option value="">Not saying</option>
+            {rooms.map((room) => (
+              <option key={room.id} value={room.id}>
+                {room.name}
+              </option>
+            ))}
+          </select>
+          <p id="roomId-hint" className="text-xs text-ink-soft">
+            If the block is in another room than recorded, it is recorded as moved there on the day picked.
+          </p>
+          {state.fieldErrors?.roomId?.length ? (
+            <ul id="roomId-errors" className="text-sm text-danger-ink">
+              {state.fieldErrors.roomId.map((error) => (
+                <li key={error}>{error}</li>
+              ))}
+            </ul>
+          ) : null}
+        </div>
+      ) : null}
       {warnings.length > 0 ? (
         <Notice tone="caution" title="Not saved yet">
           <p>{state.message}</p>
