@@ -372,6 +372,16 @@ export async function undoCommit(member: Member, entry: { uploadId: string; reas
           sql`coalesce(${seasonLogReplacedRows.before}->>'upload_id', ${seasonLogReplacedRows.before}->>'last_upload_id') = ${uploadId}`,
         ),
       );
+    // A block's room from the start that the commit wrote and a move since replaced (the block page clears upload_id),
+    // or any move since on a block the commit added: refused like any later change, never overwritten.
+    const roomsChangedSince = await tx.execute<{ code: string }>(sql`
+      select b.code from value_changes v join blocks b on b.id = v.block_id
+        left join block_room_moves m on m.block_id = v.block_id and m.moved_on is null
+        where v.upload_id = ${uploadId}::uuid and v.field = 'fruiting_room' and m.upload_id is distinct from ${uploadId}::uuid
+      union
+      select b.code from block_room_moves m join blocks b on b.id = m.block_id
+        where b.last_upload_id = ${uploadId}::uuid and b.id not in ${replacedIds("block")} and m.upload_id is distinct from ${uploadId}::uuid
+      order by 1`);
     const changes: CommitChange[] = await tx
       .select({
         blockId: valueChanges.blockId,
@@ -412,6 +422,7 @@ export async function undoCommit(member: Member, entry: { uploadId: string; reas
         })),
         // Not a row it added, so counted apart from those: a conflict all the same.
         ...blockedReturns.rows.map((row) => ({ kind: "removed" as const, label: row.label })),
+        ...roomsChangedSince.rows.map((row) => ({ kind: "room" as const, label: `the fruiting room of block ${row.code}` })),
       ],
       changes,
     });

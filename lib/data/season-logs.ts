@@ -208,7 +208,7 @@ async function loadPlanInput(tx: Transaction, farmId: string): Promise<Omit<Plan
   const storedHarvests = harvestRows.map(({ blockId, ...harvest }) => ({ ...harvest, blockCode: codeOfBlock.get(blockId) ?? "" }));
   // The farm's own rooms (row-level security shows no other farm's), and each block's room from the start of fruiting.
   const rooms = await tx
-    .select({ id: fruitingRooms.id, name: fruitingRooms.name })
+    .select({ id: fruitingRooms.id, name: fruitingRooms.name, retiredOn: fruitingRooms.retiredOn })
     .from(fruitingRooms)
     .where(eq(fruitingRooms.farmId, farmId));
   const startRooms =
@@ -300,7 +300,7 @@ async function farmDataMarker(tx: Transaction, farmId: string): Promise<string> 
         from trial_block_assignments a join trial_arms r on r.id = a.arm_id join trials t on t.id = a.trial_id
         where a.farm_id = ${farmId}::uuid),
       -- The farm's rooms and each block's room from the start of fruiting: no trigger moves the data version for them.
-      (select string_agg(concat_ws('|', id, name), ',' order by id) from fruiting_rooms where farm_id = ${farmId}::uuid),
+      (select string_agg(concat_ws('|', id, name, retired_on), ',' order by id) from fruiting_rooms where farm_id = ${farmId}::uuid),
       (select string_agg(concat_ws('|', block_id, room_id), ',' order by block_id) from block_room_moves
         where farm_id = ${farmId}::uuid and moved_on is null))) as marker`);
   return result.rows[0].marker;

@@ -144,6 +144,8 @@ export function roomKey(name: string): string {
 export interface NamedRoom {
   id: string;
   name: string;
+  /** The day the room stopped being used (YYYY-MM-DD); null or absent while in use. */
+  retiredOn?: string | null;
 }
 
 // A message lists the farm's rooms; a farm with very many is told the first few and how many more.

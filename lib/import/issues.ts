@@ -76,6 +76,7 @@ export const issueCodes = [
   // Against the farm's own rooms (lib/import/cells.ts readRoomCell)
   "unknown_fruiting_room",
   "fruiting_room_ambiguous",
+  "fruiting_room_retired",
   "trial_strain_differs",
   "trial_fruiting_method_differs",
   "trial_differs",

@@ -173,6 +173,22 @@ describe("planCommit", () => {
       expect(plan.blocks[0].roomId).toBeNull();
     });
 
+    it("refuses a retired room for a block not already in it, as a move on the block's page does, and lets a file restate it", () => {
+      const withRetired = [...rooms, { id: "room-old", name: "Old tent", retiredOn: "2026-02-01" }];
+      const plan = planCommit(
+        input({ records: records(["A-1,PO-01,old tent,,"], roomHeader), storedBlocks: [storedA1], rooms: withRetired }),
+      );
+      expect(plan.issues.map((issue) => [issue.code, issue.value])).toEqual([["fruiting_room_retired", "old tent"]]);
+      expect(plan.issues[0].message).toContain("retired on 2026-02-01");
+      expect(plan.blocks).toEqual([]);
+      const already = { ...storedA1, roomId: "room-old" };
+      const restated = planCommit(
+        input({ records: records(["A-1,PO-01,Old tent,,"], roomHeader), storedBlocks: [already], rooms: withRetired }),
+      );
+      expect(restated.issues).toEqual([]);
+      expect(restated.counts.untouchedBlocks).toBe(1);
+    });
+
     it("is kept under a blank cell, untouched when the same, and a change of it is history", () => {
       const stored = { ...storedA1, roomId: "room-t1" };
       const blank = planCommit(input({ records: records(["A-1,PO-01,,,"], roomHeader), storedBlocks: [stored], rooms }));

@@ -344,7 +344,19 @@ export function planCommit(input: PlanInput): CommitPlan {
         severity: "error",
         message: `Line ${record.line}, block ${code}: ${room.message}`,
       });
-    const roomId = room !== null && "value" in room ? room.value.id : null;
+    const named = room !== null && "value" in room ? room.value : null;
+    // As for a move on the block's page: no block starts fruiting in a retired room, though a file may restate one it already did.
+    const retired = named !== null && named.retiredOn != null && stored?.roomId !== named.id;
+    if (named !== null && retired)
+      issues.push({
+        line: record.line,
+        code: "fruiting_room_retired",
+        column: "fruiting_room",
+        value: record.fruitingRoom ?? "",
+        severity: "error",
+        message: `Line ${record.line}, block ${code}: the room "${named.name}" was retired on ${named.retiredOn}, so no block can start fruiting in it. Write the room the block fruited in, put the room back in use on the Rooms page, or leave the cell blank.`,
+      });
+    const roomId = named !== null && !retired ? named.id : null;
     const assignment = assignmentByCode.size === 0 ? null : (assignmentByCode.get(key(code)) ?? null);
     if (assignment) issues.push(...againstTheList(record, assignment, strain, method, strains, methods));
     // The same words whether or not another farm lists this code: the farm learns nothing about other farms' lists.
@@ -382,10 +394,10 @@ export function planCommit(input: PlanInput): CommitPlan {
       notes: notes || stored?.notes || "",
       roomId: roomId ?? stored?.roomId ?? null,
     };
-    if (room !== null && "value" in room)
+    if (named !== null && !retired)
       blockRooms.push({
         blockCode: code,
-        room: room.value.name,
+        room: named.name,
         change: !stored ? "new" : !stored.roomId ? "added" : stored.roomId === roomId ? "same" : "changed",
       });
     if (!stored) {

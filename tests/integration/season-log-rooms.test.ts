@@ -185,6 +185,30 @@ describe("the fruiting_room column", () => {
     expect(await moves("RM-")).toEqual(before);
   });
 
+  it("refuses to undo a commit whose room a move on the block's page has replaced since, and changes nothing", async () => {
+    const view = await upload(
+      asFarmA,
+      sheet([
+        ["RM-1", "Rm Tub by the door"],
+        ["RM-2", ""],
+        ["RM-3", ""],
+      ]),
+      "rooms-3.csv",
+    );
+    await commitUpload(asFarmA, view.upload.id, {});
+    // As the block page records a move from the start: the room replaced, the upload's id cleared.
+    await inspector.query(
+      `update block_room_moves set room_id = $1, upload_id = null
+       where moved_on is null and block_id = (select id from blocks where farm_id = $2 and code = 'RM-1')`,
+      [room["Rm Tent 1"], farmA.id],
+    );
+    const before = await moves("RM-");
+    const error = await refusal(undoCommit(asFarmA, { uploadId: view.upload.id, reason: "wrong rooms" }));
+    expect(error.code).toBe("conflict");
+    expect(error.message).toContain("the fruiting room of block RM-1");
+    expect(await moves("RM-")).toEqual(before);
+  });
+
   it("matches a farm's own rooms only: another farm's room name is unknown, and its message names only the farm's own", async () => {
     const fromA = await upload(asFarmA, sheet([["RM-4", "Rm Farm B shed"]]), "rooms-b-name.csv");
     const issue = fromA.report.issues.find((entry) => entry.code === "unknown_fruiting_room");
