@@ -273,6 +273,16 @@ export function planCommit(input: PlanInput): CommitPlan {
   const roomNames = new Map(rooms.map((room) => [room.id, room.name]));
   const roomOf = (id: string | null | undefined) => (id ? (roomNames.get(id) ?? null) : null);
   const blockRooms: BlockRoom[] = [];
+  // A file names a handful of rooms on thousands of blocks: each text is matched once.
+  const roomReadings = new Map<string, ReturnType<typeof readRoomCell>>();
+  const readRoom = (text: string) => {
+    let reading = roomReadings.get(text);
+    if (reading === undefined) {
+      reading = readRoomCell(text, rooms);
+      roomReadings.set(text, reading);
+    }
+    return reading;
+  };
   const assignmentByCode = new Map(input.assignments.map((assignment) => [key(assignment.blockCode), assignment]));
   const storedHarvests = new Map(input.storedHarvests.map((harvest) => [`${harvest.blockCode}\u0000${harvest.flush}`, harvest]));
   const issues: SeasonLogIssue[] = [];
@@ -334,7 +344,7 @@ export function planCommit(input: PlanInput): CommitPlan {
         message: `Line ${record.line}: block ${code} has fruiting method "${record.fruitingMethod}", which is neither a code nor a name in the co-op's register.${methods.suggestion(record.fruitingMethod)} Use a fruiting method from the register, or leave the cell blank.`,
       });
     }
-    const room = record.fruitingRoom === null ? null : readRoomCell(record.fruitingRoom, rooms);
+    const room = record.fruitingRoom === null ? null : readRoom(record.fruitingRoom);
     if (room !== null && "code" in room)
       issues.push({
         line: record.line,
