@@ -222,7 +222,8 @@ export const seasonLogReplacedRows = pgTable(
       .notNull()
       .references(() => uploads.id, { onDelete: "cascade" }),
     // "removed_harvest": a stored harvest the file did not have, removed as the grower chose.
-    rowKind: text("row_kind", { enum: ["block", "harvest", "removed_harvest"] }).notNull(),
+    // "room_move": a block's move from the start of fruiting whose room the commit replaced (block_room_moves).
+    rowKind: text("row_kind", { enum: ["block", "harvest", "removed_harvest", "room_move"] }).notNull(),
     rowId: uuid("row_id").notNull(),
     before: jsonb("before").$type<Record<string, unknown>>().notNull(),
   },

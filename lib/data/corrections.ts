@@ -372,6 +372,16 @@ export async function undoCommit(member: Member, entry: { uploadId: string; reas
           sql`coalesce(${seasonLogReplacedRows.before}->>'upload_id', ${seasonLogReplacedRows.before}->>'last_upload_id') = ${uploadId}`,
         ),
       );
+    // A block's room from the start that the commit wrote and a move since replaced (the block page clears upload_id),
+    // or any move since on a block the commit added: refused like any later change, never overwritten.
+    const roomsChangedSince = await tx.execute<{ code: string }>(sql`
+      select b.code from value_changes v join blocks b on b.id = v.block_id
+        left join block_room_moves m on m.block_id = v.block_id and m.moved_on is null
+        where v.upload_id = ${uploadId}::uuid and v.field = 'fruiting_room' and m.upload_id is distinct from ${uploadId}::uuid
+      union
+      select b.code from block_room_moves m join blocks b on b.id = m.block_id
+        where b.last_upload_id = ${uploadId}::uuid and b.id not in ${replacedIds("block")} and m.upload_id is distinct from ${uploadId}::uuid
+      order by 1`);
     const changes: CommitChange[] = await tx
       .select({
         blockId: valueChanges.blockId,
@@ -412,6 +422,7 @@ export async function undoCommit(member: Member, entry: { uploadId: string; reas
         })),
         // Not a row it added, so counted apart from those: a conflict all the same.
         ...blockedReturns.rows.map((row) => ({ kind: "removed" as const, label: row.label })),
+        ...roomsChangedSince.rows.map((row) => ({ kind: "room" as const, label: `the fruiting room of block ${row.code}` })),
       ],
       changes,
     });
@@ -428,6 +439,14 @@ export async function undoCommit(member: Member, entry: { uploadId: string; reas
         from season_log_replaced_rows s, jsonb_populate_record(null::${table}, s.before) r
         where s.upload_id = ${uploadId}::uuid and s.row_kind = ${kind} and t.id = s.row_id`);
     }
+    // A stored block's room from the start of fruiting: a move the commit added goes, one it replaced gets its room back.
+    await tx.execute(sql`
+      delete from block_room_moves m where m.upload_id = ${uploadId}::uuid and m.moved_on is null
+        and m.id not in (select row_id from season_log_replaced_rows where upload_id = ${uploadId}::uuid and row_kind = 'room_move')`);
+    await tx.execute(sql`
+      update block_room_moves t set room_id = r.room_id, upload_id = r.upload_id
+      from season_log_replaced_rows s, jsonb_populate_record(null::block_room_moves, s.before) r
+      where s.upload_id = ${uploadId}::uuid and s.row_kind = 'room_move' and t.id = s.row_id`);
     // Harvests the commit removed (the grower chose to remove what the file did not have) go back whole.
     await tx.execute(sql`
       insert into harvests select (jsonb_populate_record(null::harvests, s.before)).*

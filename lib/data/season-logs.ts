@@ -5,8 +5,10 @@ import { and, desc, eq, isNull, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { copyInto, type Transaction } from "@/db/client";
 import {
+  blockRoomMoves,
   blocks,
   farmImportPreferences,
+  fruitingRooms,
   harvests,
   strains,
   substrateRecipes,
@@ -204,6 +206,19 @@ async function loadPlanInput(tx: Transaction, farmId: string): Promise<Omit<Plan
     .from(harvests)
     .where(eq(harvests.farmId, farmId));
   const storedHarvests = harvestRows.map(({ blockId, ...harvest }) => ({ ...harvest, blockCode: codeOfBlock.get(blockId) ?? "" }));
+  // The farm's own rooms (row-level security shows no other farm's), and each block's room from the start of fruiting.
+  const rooms = await tx
+    .select({ id: fruitingRooms.id, name: fruitingRooms.name, retiredOn: fruitingRooms.retiredOn })
+    .from(fruitingRooms)
+    .where(eq(fruitingRooms.farmId, farmId));
+  const startRooms =
+    rooms.length === 0
+      ? []
+      : await tx
+          .select({ blockId: blockRoomMoves.blockId, roomId: blockRoomMoves.roomId })
+          .from(blockRoomMoves)
+          .where(and(eq(blockRoomMoves.farmId, farmId), isNull(blockRoomMoves.movedOn)));
+  const roomOfBlock = new Map(startRooms.map((move) => [move.blockId, move.roomId]));
   // A file may name a register entry by its code or its name.
   const named = <T extends { name: string }>(rows: T[]) => rows.map(({ name, ...row }) => ({ ...row, names: [name] }));
   const strainRows = named(
@@ -247,12 +262,14 @@ async function loadPlanInput(tx: Transaction, farmId: string): Promise<Omit<Plan
     fruitingMethod: methodId && methodCode && methodName ? { id: methodId, code: methodCode, name: methodName } : null,
   }));
   return {
-    storedBlocks,
+    storedBlocks:
+      roomOfBlock.size === 0 ? storedBlocks : storedBlocks.map((block) => ({ ...block, roomId: roomOfBlock.get(block.id) ?? null })),
     storedHarvests,
     strains: strainRows,
     substrateRecipes: recipeRows,
     fruitingMethods: methodRows,
     assignments,
+    rooms,
   };
 }
 
@@ -281,7 +298,11 @@ async function farmDataMarker(tx: Transaction, farmId: string): Promise<string> 
       (select string_agg(concat_ws('|', id, code, name), ',' order by id) from treatments where status = 'active' and kind = 'fruiting_method'),
       (select string_agg(concat_ws('|', a.block_code, a.arm_id, r.label, r.strain_id, r.treatment_id, t.code, t.title), ',' order by a.block_code)
         from trial_block_assignments a join trial_arms r on r.id = a.arm_id join trials t on t.id = a.trial_id
-        where a.farm_id = ${farmId}::uuid))) as marker`);
+        where a.farm_id = ${farmId}::uuid),
+      -- The farm's rooms and each block's room from the start of fruiting: no trigger moves the data version for them.
+      (select string_agg(concat_ws('|', id, name, retired_on), ',' order by id) from fruiting_rooms where farm_id = ${farmId}::uuid),
+      (select string_agg(concat_ws('|', block_id, room_id), ',' order by block_id) from block_room_moves
+        where farm_id = ${farmId}::uuid and moved_on is null))) as marker`);
   return result.rows[0].marker;
 }
 
@@ -443,7 +464,7 @@ export async function recheckUpload(member: Member, uploadId: string, choices: P
 const stagedBlocks = `create temporary table commit_blocks (is_new boolean not null, id uuid not null, code text not null,
   strain_id uuid, substrate_recipe_id uuid, fruiting_method_id uuid, trial_arm_id uuid, inoculated_on date,
   wet_mass_g numeric, wet_mass_as_written text, wet_mass_unit text, moisture numeric, contaminated boolean, contaminated_on date,
-  spent_mass_g numeric, spent_mass_as_written text, spent_mass_unit text, notes text, season_year integer) on commit drop`;
+  spent_mass_g numeric, spent_mass_as_written text, spent_mass_unit text, notes text, season_year integer, room_id uuid) on commit drop`;
 const stagedHarvests = `create temporary table commit_harvests (is_new boolean not null, id uuid not null, block_id uuid not null, flush integer,
   harvested_on date, fresh_mass_g numeric, fresh_mass_as_written text, fresh_mass_unit text,
   dry_mass_g numeric, dry_mass_as_written text, dry_mass_unit text) on commit drop`;
@@ -459,10 +480,31 @@ function refuseIfChanged(updated: number | null, expected: number): void {
 }
 
 /** Copies the stored rows a commit is about to update or remove, whole, so undoing it puts them back exactly (lib/data/corrections.ts). */
-async function keepReplacedRows(tx: Transaction, uploadId: string, kind: "block" | "harvest" | "removed_harvest", rows: SQL) {
+async function keepReplacedRows(tx: Transaction, uploadId: string, kind: "block" | "harvest" | "removed_harvest" | "room_move", rows: SQL) {
   await tx.execute(sql`
     insert into season_log_replaced_rows (farm_id, upload_id, row_kind, row_id, before)
     select r.farm_id, ${uploadId}::uuid, ${kind}, r.id, to_jsonb(r) from (${rows}) r`);
+}
+
+/**
+ * Each staged block's room from the start of fruiting, as its move with no date: inserted for a
+ * block that has none, its room replaced where the file names another (the move it replaces is
+ * kept for the undo). The composite key (room_id, farm_id) refuses a room of another farm.
+ */
+async function writeStartRooms(tx: Transaction, farmId: string, userId: string, uploadId: string, storedBlocks: boolean) {
+  if (storedBlocks)
+    await keepReplacedRows(
+      tx,
+      uploadId,
+      "room_move",
+      sql`select m.* from block_room_moves m join pg_temp.commit_blocks u on u.id = m.block_id and not u.is_new
+        where m.moved_on is null and u.room_id is not null and m.room_id <> u.room_id`,
+    );
+  await tx.execute(sql`
+    insert into block_room_moves (farm_id, block_id, room_id, moved_on, upload_id, created_by)
+    select ${farmId}::uuid, id, room_id, null, ${uploadId}::uuid, ${userId}::uuid from pg_temp.commit_blocks where room_id is not null
+    on conflict on constraint block_room_moves_block_day_unique do update set room_id = excluded.room_id, upload_id = excluded.upload_id
+    where block_room_moves.room_id <> excluded.room_id`);
 }
 
 /**
@@ -504,6 +546,7 @@ async function writeRows(tx: Transaction, farmId: string, userId: string, upload
         where b.id = u.id and not u.is_new`);
       refuseIfChanged(updated.rowCount, rows.changedBlocks);
     }
+    if (rows.roomCount > 0) await writeStartRooms(tx, farmId, userId, uploadId, rows.changedBlocks > 0);
   }
 
   if (rows.harvestCount > 0) {
@@ -749,6 +792,7 @@ export async function getSeasonLogExport(member: Member): Promise<{ fileName: st
         wetMassG: blocks.wetMassG,
         moisture: blocks.moisture,
         fruitingMethodCode: methods.code,
+        roomName: fruitingRooms.name,
         contaminated: blocks.contaminated,
         contaminatedOn: blocks.contaminatedOn,
         spentMassG: blocks.spentMassG,
@@ -760,6 +804,9 @@ export async function getSeasonLogExport(member: Member): Promise<{ fileName: st
       .leftJoin(methods, eq(methods.id, blocks.fruitingMethodId))
       .leftJoin(trialArms, eq(trialArms.id, blocks.trialArmId))
       .leftJoin(trials, eq(trials.id, trialArms.trialId))
+      // The room from the start of fruiting is what the fruiting_room column says; a later dated move is not.
+      .leftJoin(blockRoomMoves, and(eq(blockRoomMoves.blockId, blocks.id), isNull(blockRoomMoves.movedOn)))
+      .leftJoin(fruitingRooms, eq(fruitingRooms.id, blockRoomMoves.roomId))
       .where(eq(blocks.farmId, farm.farmId))
       .orderBy(blocks.code);
     const harvestRows = await tx

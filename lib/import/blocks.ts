@@ -9,6 +9,7 @@ import {
   highestPlausibleEfficiency,
   missingFlushes,
 } from "./harvest-checks";
+import { roomKey } from "./cells";
 import { type IssueCode, cellIssue, shorten, writtenDate } from "./issues";
 import { flushWeightColumn, harvestDateColumn } from "./layout";
 import type { SeasonLogColumnName } from "./schema";
@@ -29,7 +30,8 @@ type BlockAttribute =
   | "contaminatedOn"
   | "spentGrams"
   | "strainCode"
-  | "seasonYear";
+  | "seasonYear"
+  | "fruitingRoom";
 
 /** Position of each block attribute in `BlockState.source`. */
 export const slot: Readonly<Record<BlockAttribute, number>> = {
@@ -44,6 +46,7 @@ export const slot: Readonly<Record<BlockAttribute, number>> = {
   contaminatedOn: 8,
   spentGrams: 9,
   seasonYear: 10,
+  fruitingRoom: 11,
 };
 
 /** What the file says about one block so far, across its rows. */
@@ -110,6 +113,8 @@ const rowBlockAttributes: readonly BlockAttributeRule[] = [
   rule("fruitingMethod", "fruiting_method", "fruiting method"),
   rule("spentGrams", "spent_weight", "spent block weight", sameMass("spentGrams"), shownMass("spentAsWritten")),
   rule("seasonYear", "season", "season"),
+  // "Tent 1" and "tent 1" name the same room (matched so against the farm's rooms by the planner).
+  rule("fruitingRoom", "fruiting_room", "fruiting room", (a, b) => roomKey(a.fruitingRoom as string) === roomKey(b.fruitingRoom as string)),
 ];
 const dateBlockAttributes: readonly BlockAttributeRule[] = [
   rule("inoculatedOn", "inoculated_on", "inoculation date"),
@@ -124,7 +129,7 @@ export function blockOf(state: ParseState, written: string, line: number, own: (
     block = {
       code,
       firstLine: line,
-      source: [-1, -1, -1, -1, -1, -1, -1, -1, -1, -1, -1],
+      source: [-1, -1, -1, -1, -1, -1, -1, -1, -1, -1, -1, -1],
       contaminated: null,
       contaminatedLine: 0,
       harvests: noHarvests,
@@ -289,6 +294,8 @@ export function blockAtFinish(state: ParseState, block: BlockState, record: Seas
   }
   if (record.moisture === null && source[slot.moisture] !== -1) record.moisture = records[source[slot.moisture]].moisture;
   if (record.seasonYear === null && source[slot.seasonYear] !== -1) record.seasonYear = records[source[slot.seasonYear]].seasonYear;
+  if (record.fruitingRoom === null && source[slot.fruitingRoom] !== -1)
+    record.fruitingRoom = records[source[slot.fruitingRoom]].fruitingRoom;
   if (record.fruitingMethod === null && source[slot.fruitingMethod] !== -1)
     record.fruitingMethod = records[source[slot.fruitingMethod]].fruitingMethod;
   if (record.contaminatedOn === null && source[slot.contaminatedOn] !== -1)

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { readDateCell, readMassCell, readMoistureCell, readNumberCell, readYesNoCell } from "./cells";
+import { readDateCell, readMassCell, readMoistureCell, readNumberCell, readRoomCell, readYesNoCell, roomKey } from "./cells";
 
 describe("the import's rules for one cell, for any way a value comes in", () => {
   it("reads a mass, keeps it as written, and refuses what the importer refuses, by code", () => {
@@ -38,5 +38,45 @@ describe("the import's rules for one cell, for any way a value comes in", () => 
     expect(readMoistureCell("62,5 %")).toEqual({ value: 0.625 });
     expect(readMoistureCell("62.500 %")).toEqual({ value: 0.625 });
     expect(readMoistureCell("162 %")).toMatchObject({ code: "moisture_out_of_range" });
+  });
+});
+
+describe("a fruiting-room cell, against the farm's own rooms", () => {
+  const rooms = [
+    { id: "r-1", name: "Tent 1" },
+    { id: "r-2", name: "Back room" },
+  ];
+
+  it("names a room whatever its capitals and spaces; a blank cell names none", () => {
+    for (const written of ["Tent 1", "tent1", " TENT  1 ", "tent\u00a01"])
+      expect(readRoomCell(written, rooms), written).toEqual({ value: rooms[0] });
+    expect(readRoomCell("backroom", rooms)).toEqual({ value: rooms[1] });
+    expect(roomKey("Back Room")).toBe(roomKey("backroom"));
+    expect(readRoomCell("", rooms)).toBeNull();
+    expect(readRoomCell("   ", rooms)).toBeNull();
+  });
+
+  it("never guesses: a near name, or punctuation the room's name lacks, is another room", () => {
+    for (const written of ["Tent 2", "Tent-1", "Tnet 1", "Tent"]) {
+      const reading = readRoomCell(written, rooms);
+      expect(reading, written).toMatchObject({ code: "unknown_fruiting_room" });
+      expect(reading && "message" in reading ? reading.message : "").toContain('"Back room", "Tent 1"');
+    }
+    expect(readRoomCell("Tent 1", [])).toMatchObject({
+      code: "unknown_fruiting_room",
+      message: expect.stringContaining("no rooms recorded yet") as unknown,
+    });
+  });
+
+  it("refuses a name two rooms share once capitals and spaces are ignored", () => {
+    const reading = readRoomCell("tent 1", [...rooms, { id: "r-3", name: "TENT 1" }]);
+    expect(reading).toMatchObject({ code: "fruiting_room_ambiguous" });
+    expect(reading && "message" in reading ? reading.message : "").toContain('"Tent 1", "TENT 1"');
+  });
+
+  it("lists a farm's first dozen rooms and how many more", () => {
+    const many = Array.from({ length: 15 }, (_, index) => ({ id: `r-${index}`, name: `Tub ${String(index + 10)}` }));
+    const reading = readRoomCell("Tent 1", many);
+    expect(reading && "message" in reading ? reading.message : "").toContain('"Tub 21" and 3 more');
   });
 });

@@ -134,3 +134,52 @@ export function readMoistureCell(text: string, decimal?: DecimalMark): CellReadi
   });
   return "error" in reading ? { code: reading.code, message: reading.error } : { value: reading.fraction };
 }
+
+/** A room's name as a season log's cell is matched to it: capitals and spaces do not matter ("Tent 1" is "tent1"). */
+export function roomKey(name: string): string {
+  return name.normalize("NFC").toLowerCase().replace(/\s+/g, "");
+}
+
+/** One of the farm's own fruiting rooms, as a cell may name it. */
+export interface NamedRoom {
+  id: string;
+  name: string;
+  /** The day the room stopped being used (YYYY-MM-DD); null or absent while in use. */
+  retiredOn?: string | null;
+}
+
+// A message lists the farm's rooms; a farm with very many is told the first few and how many more.
+const roomsListed = 12;
+
+function roomList(rooms: readonly NamedRoom[]): string {
+  const names = rooms.map((room) => `"${room.name}"`);
+  if (names.length <= roomsListed) return names.join(", ");
+  return `${names.slice(0, roomsListed).join(", ")} and ${names.length - roomsListed} more`;
+}
+
+/**
+ * A fruiting-room cell, matched by name to the farm's own rooms (`rooms`: only the farm's, as
+ * row-level security gives them). Null for a blank cell. A name no room has, or one two rooms
+ * share once capitals and spaces are ignored, is an error that says which rooms the farm has:
+ * a room is never made from a cell, and never guessed.
+ */
+export function readRoomCell(text: string, rooms: readonly NamedRoom[]): CellReading<NamedRoom> | null {
+  const written = text.trim();
+  if (written === "") return null;
+  const key = roomKey(written);
+  const matches = rooms.filter((room) => roomKey(room.name) === key);
+  if (matches.length === 1) return { value: matches[0] };
+  if (matches.length > 1)
+    return {
+      code: "fruiting_room_ambiguous",
+      message: `"${shorten(written)}" could be any of your farm's rooms ${roomList(matches)}, whose names differ only in capitals or spaces. Rename one of them on the Rooms page, then write the name of the one the block fruited in.`,
+    };
+  const kept =
+    rooms.length === 0
+      ? "Your farm has no rooms recorded yet."
+      : `Your farm's rooms are ${roomList([...rooms].sort((a, b) => a.name.localeCompare(b.name)))}.`;
+  return {
+    code: "unknown_fruiting_room",
+    message: `"${shorten(written)}" is not one of your farm's rooms. ${kept} Add the room on the Rooms page first (a room is never made from a season log), correct the name, or leave the cell blank.`,
+  };
+}

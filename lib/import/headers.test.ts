@@ -28,6 +28,18 @@ describe("mapHeaders", () => {
     expect(mapping.certain).toBe(true);
   });
 
+  it("knows the fruiting room by the trade's words, apart from the fruiting method", () => {
+    for (const header of ["Fruiting room", "Room", "TENT", "Grow room", "fruiting_chamber"]) {
+      expect(mapHeaders(["Block", "Strain", header, "Fruiting"]).used, header).toMatchObject({
+        [header]: "fruiting_room",
+        Fruiting: "fruiting_method",
+      });
+    }
+    const loose = mapHeaders(["Block", "Strain", "Tub"]);
+    expect(loose.used).toMatchObject({ Tub: "fruiting_room" });
+    expect(loose.uncertain).toEqual(["Tub"]);
+  });
+
   it("recognises wide-form flush columns and their dates", () => {
     const mapping = mapHeaders(["Bag", "Strain", "flush_1", "Flush 2 (oz)", "Flush 2 date", "3rd flush"]);
     expect(mapping.used).toMatchObject({

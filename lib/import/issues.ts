@@ -73,6 +73,10 @@ export const issueCodes = [
   // Against the co-op's registers and what the farm has stored (lib/season-logs/plan.ts)
   "unknown_substrate",
   "unknown_fruiting_method",
+  // Against the farm's own rooms (lib/import/cells.ts readRoomCell)
+  "unknown_fruiting_room",
+  "fruiting_room_ambiguous",
+  "fruiting_room_retired",
   "trial_strain_differs",
   "trial_fruiting_method_differs",
   "trial_differs",

@@ -34,6 +34,7 @@ class ParsedRecord {
     this.wetBlockAsWritten = row.wet === null ? null : row.wet.written;
     this.moisture = row.moisture;
     this.fruitingMethod = row.fruitingMethod;
+    this.fruitingRoom = row.fruitingRoom;
     this.flush = flush;
     this.harvestedOn = harvestedOn;
     this.freshGrams = fresh === null ? null : fresh.grams;
@@ -412,6 +413,7 @@ export function readDataRow(state: ParseState, cells: string[], line: number): v
   row.trialCode = optionalText(state, cells, columns.trial);
   row.arm = optionalText(state, cells, columns.arm);
   row.fruitingMethod = optionalText(state, cells, columns.fruiting_method);
+  row.fruitingRoom = optionalText(state, cells, columns.fruiting_room);
   const notesText = cell(cells, columns.notes.index);
   row.notes = notesText === "" ? null : ownCopy(notesText);
   row.pending = state.rowPending;

@@ -1,5 +1,5 @@
 /** Version of the shared season-log schema that these columns describe. */
-export const seasonLogSchemaVersion = 2;
+export const seasonLogSchemaVersion = 3;
 
 export const seasonLogColumnNames = [
   "block_id",
@@ -12,6 +12,7 @@ export const seasonLogColumnNames = [
   "block_wet_weight",
   "substrate_moisture",
   "fruiting_method",
+  "fruiting_room",
   "flush",
   "harvested_on",
   "fresh_weight",
@@ -189,6 +190,19 @@ export const seasonLogColumns: readonly SeasonLogColumn[] = [
     describes: "block",
     synonyms: ["fruiting method", "fruiting", "opening", "opening method", "bag opening", "cut"],
     looseSynonyms: ["method"],
+  },
+  {
+    name: "fruiting_room",
+    title: "Fruiting room",
+    meaning:
+      "Where the block fruited: the name of one of your farm's rooms (a tub, tent or room), as it is on the Rooms page. Capitals and spaces do not matter. A name your farm has no room for is an error: add the room on the Rooms page first. Leave blank to keep the room already recorded; a block carried to another room later is moved on its page.",
+    examples: ["Tent 1", "Tub A", ""],
+    required: "no",
+    kind: "text",
+    describes: "block",
+    // Growers fruit in tubs, tents (a frame with a cover and shelves) and rooms (common practice).
+    synonyms: ["fruiting room", "room", "fruiting tent", "tent", "fruiting chamber", "chamber", "grow room", "fruiting tub"],
+    looseSynonyms: ["tub", "location", "where fruited"],
   },
   {
     name: "flush",

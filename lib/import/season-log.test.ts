@@ -3,7 +3,7 @@ import { generateSeasonLog } from "./generate";
 import { createSeasonLogParser, parseMass, parseSeasonLog, seasonLogColumnNames, seasonLogColumns, seasonLogTemplateCsv } from "./index";
 
 describe("the published schema", () => {
-  it("lists the 18 columns of schema version 2 in order, each explained with examples", () => {
+  it("lists the 19 columns of schema version 3 in order, each explained with examples", () => {
     expect(seasonLogColumnNames).toEqual([
       "block_id",
       "strain",
@@ -15,6 +15,7 @@ describe("the published schema", () => {
       "block_wet_weight",
       "substrate_moisture",
       "fruiting_method",
+      "fruiting_room",
       "flush",
       "harvested_on",
       "fresh_weight",

@@ -30,6 +30,7 @@ export interface RowValues {
   wet: MassValue;
   moisture: number | null;
   fruitingMethod: string | null;
+  fruitingRoom: string | null;
   contaminated: boolean | null;
   contaminatedOn: string | null;
   spent: MassValue;
@@ -151,6 +152,7 @@ export function createParseState(options: SeasonLogOptions, today: string, strai
       wet: null,
       moisture: null,
       fruitingMethod: null,
+      fruitingRoom: null,
       contaminated: null,
       contaminatedOn: null,
       spent: null,

@@ -37,6 +37,8 @@ export interface SeasonRecord {
   /** Substrate moisture content, wet basis, as a fraction (0.62 for 62 %). */
   moisture: number | null;
   fruitingMethod: string | null;
+  /** The farm's room the block fruited in, as written (matched to the farm's rooms by the planner). */
+  fruitingRoom: string | null;
   flush: number | null;
   /** YYYY-MM-DD */
   harvestedOn: string | null;

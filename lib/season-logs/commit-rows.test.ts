@@ -4,7 +4,7 @@ import { demoStrains } from "../import/generate";
 import { commitRowsOf, keepCommitRows, keptCommitRows, stagingKey } from "./commit-rows";
 import type { BlockWrite, CommitPlan, HarvestWrite } from "./plan";
 
-const block = (code: string, id: string | null, seasonYear: number | null = null): BlockWrite => ({
+const block = (code: string, id: string | null, seasonYear: number | null = null, roomId: string | null = null): BlockWrite => ({
   id,
   code,
   strainId: "strain-1",
@@ -24,6 +24,7 @@ const block = (code: string, id: string | null, seasonYear: number | null = null
   // A tab to escape, and characters of more than one byte: the kept texts are cut by byte lengths.
   notes: "tab\there – grüne",
   seasonYear,
+  roomId,
 });
 
 const harvest = (blockCode: string, flush: number, id: string | null, blockId: string | null): HarvestWrite => ({
@@ -43,13 +44,14 @@ const harvest = (blockCode: string, flush: number, id: string | null, blockId: s
 const counts = { newBlocks: 1, changedBlocks: 1, untouchedBlocks: 1, newHarvests: 2, changedHarvests: 1, untouchedHarvests: 0 };
 
 const plan: CommitPlan = {
-  blocks: [block("NEW-1", null), block("OLD-1", "stored-old-1", 2025)],
+  blocks: [block("NEW-1", null, null, "room-tent-1"), block("OLD-1", "stored-old-1", 2025)],
   harvests: [harvest("NEW-1", 1, null, null), harvest("OLD-1", 2, null, "stored-old-1"), harvest("OLD-1", 1, "stored-h-1", "stored-old-1")],
   changes: [{ blockCode: "UNTOUCHED-1", flush: 1, field: "fresh_weight", oldValue: "1", newValue: null }],
   newBlockCodes: ["NEW-1"],
   counts,
   notInFile: { harvests: [], blocks: 0 },
   issues: [],
+  rooms: [{ blockCode: "NEW-1", room: "Tent 1", change: "new" }],
 };
 
 const textOf = (chunks: Iterable<string | Uint8Array>) =>
@@ -78,11 +80,12 @@ describe("a plan's rows as the commit writes them", () => {
       ["f", "stored-old-1", "OLD-1"],
     ]);
     // PostgreSQL documentation, COPY, "Text Format": a tab in a value is written as \t, null as \N.
-    expect(blocks[0].at(-2)).toBe("tab\\there – grüne");
-    // The season is the staged table's last column (lib/data/season-logs.ts stagedBlocks).
-    expect(blocks.map((row) => row.at(-1))).toEqual(["\\N", "2025"]);
+    expect(blocks[0].at(-3)).toBe("tab\\there – grüne");
+    // The season and the room are the staged table's last columns (lib/data/season-logs.ts stagedBlocks).
+    expect(blocks.map((row) => row.at(-2))).toEqual(["\\N", "2025"]);
+    expect(blocks.map((row) => row.at(-1))).toEqual(["room-tent-1", "\\N"]);
     expect(blocks[0][4]).toBe("\\N");
-    expect(rows).toMatchObject({ blockCount: 2, changedBlocks: 1, harvestCount: 3, changedHarvests: 1, changeCount: 1 });
+    expect(rows).toMatchObject({ blockCount: 2, changedBlocks: 1, harvestCount: 3, changedHarvests: 1, changeCount: 1, roomCount: 1 });
   });
 
   it("gives a harvest of a new block that block's new id, and a change of an untouched block the stored block's", () => {

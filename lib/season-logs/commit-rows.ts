@@ -30,6 +30,8 @@ export interface CommitRows {
   harvestCount: number;
   changedHarvests: number;
   changeCount: number;
+  /** Blocks with a fruiting room (staged room_id not null): none, and the commit writes no room moves. */
+  roomCount: number;
   /** Ids of the stored harvests the grower chose to remove (empty unless they did). */
   removedHarvestIds: string[];
   counts: PlanCounts;
@@ -103,6 +105,7 @@ export function commitRowsOf(
       b.spentMassUnit,
       b.notes,
       b.seasonYear,
+      b.roomId,
     ]),
     harvests: copyChunks(plan.harvests, (h) => [
       newHarvests.has(h),
@@ -129,6 +132,7 @@ export function commitRowsOf(
     harvestCount: plan.harvests.length,
     changedHarvests: plan.harvests.length - newHarvests.size,
     changeCount: plan.changes.length,
+    roomCount: plan.blocks.reduce((count, block) => (block.roomId === null ? count : count + 1), 0),
     removedHarvestIds: removedHarvests.map((harvest) => harvest.id),
     counts: plan.counts,
     notInFileHarvests: plan.notInFile.harvests.length,

@@ -13,6 +13,10 @@ const strains = [
 ];
 const substrateRecipes = [{ id: "r-hwb", code: "HWB-20" }];
 const fruitingMethods = [{ id: "m-slit", code: "SLIT-ACROSS" }];
+const rooms = [
+  { id: "room-tent-1", name: "Tent 1" },
+  { id: "room-tub", name: "Tub" },
+];
 
 const blocks: ExportBlock[] = [
   {
@@ -25,6 +29,8 @@ const blocks: ExportBlock[] = [
     wetMassG: fiveLb,
     moisture: 0.6234567,
     fruitingMethodCode: "SLIT-ACROSS",
+    // The farm's own name for the room, with a capital and a space, written back as it is kept.
+    roomName: "Tent 1",
     contaminated: false,
     contaminatedOn: null,
     spentMassG: 1250.5,
@@ -75,7 +81,7 @@ describe("seasonLogExportCsv", () => {
 
   it("has the schema's columns with units in the headers, one row per flush, a block without harvest once", () => {
     expect(csv.split("\r\n")[0]).toBe(
-      "block_id,strain,substrate,trial,arm,inoculated_on,season,block_wet_weight (g),substrate_moisture (%),fruiting_method,flush,harvested_on,fresh_weight (g),dry_weight (g),contaminated,contaminated_on,spent_weight (g),notes",
+      "block_id,strain,substrate,trial,arm,inoculated_on,season,block_wet_weight (g),substrate_moisture (%),fruiting_method,fruiting_room,flush,harvested_on,fresh_weight (g),dry_weight (g),contaminated,contaminated_on,spent_weight (g),notes",
     );
     expect(parsed.records.map((record) => [record.blockCode, record.flush])).toEqual([
       ["LP-12", 1],
@@ -94,6 +100,7 @@ describe("seasonLogExportCsv", () => {
     expect(first.notes).toBe(blocks[0].notes);
     expect(bare).toMatchObject({ contaminated: true, contaminatedOn: "2026-03-10", trialCode: null, substrate: null, seasonYear: 2026 });
     expect(first.seasonYear).toBeNull();
+    expect([first.fruitingRoom, second.fruitingRoom, bare.fruitingRoom]).toEqual(["Tent 1", "Tent 1", null]);
   });
 
   it("changes nothing when uploaded over the blocks it was made from", () => {
@@ -112,6 +119,7 @@ describe("seasonLogExportCsv", () => {
       contaminatedOn: block.contaminatedOn,
       spentMassG: block.spentMassG,
       notes: block.notes,
+      roomId: rooms.find((room) => room.name === block.roomName)?.id ?? null,
     });
     const plan = planCommit({
       records: parsed.records,
@@ -120,6 +128,7 @@ describe("seasonLogExportCsv", () => {
       strains,
       substrateRecipes,
       fruitingMethods,
+      rooms,
       assignments: [
         {
           blockCode: "LP-12",
@@ -144,7 +153,7 @@ describe("trialListCsv", () => {
       { blockCode: "T01-1-01", trialCode: "T-2026-01", armLabel: "B", strainCode: "PO-02", fruitingMethodCode: "SLIT-ACROSS" },
       { blockCode: "T01-1-02", trialCode: "T-2026-01", armLabel: "A", strainCode: "PO-01", fruitingMethodCode: null },
     ]);
-    expect(csv.split("\r\n")[1]).toBe("T01-1-01,PO-02,,T-2026-01,B,,,,,SLIT-ACROSS,,,,,,,,");
+    expect(csv.split("\r\n")[1]).toBe("T01-1-01,PO-02,,T-2026-01,B,,,,,SLIT-ACROSS,,,,,,,,,");
     const parsed = parseSeasonLog(csv, { knownStrains: ["PO-01", "PO-02"], today: "2026-12-01" });
     expect(parsed.issues).toEqual([]);
     expect(

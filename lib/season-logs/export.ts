@@ -20,6 +20,8 @@ export interface ExportBlock {
   wetMassG: number | null;
   moisture: number | null;
   fruitingMethodCode: string | null;
+  /** The name of the farm's room the block fruited in from the start (its move with no date), if any. */
+  roomName?: string | null;
   contaminated: boolean;
   contaminatedOn: string | null;
   spentMassG: number | null;
@@ -45,6 +47,7 @@ const columns = [
   { key: "block_wet_weight", header: "block_wet_weight (g)" },
   { key: "substrate_moisture", header: "substrate_moisture (%)" },
   { key: "fruiting_method", header: "fruiting_method" },
+  { key: "fruiting_room", header: "fruiting_room" },
   { key: "flush", header: "flush" },
   { key: "harvested_on", header: "harvested_on" },
   { key: "fresh_weight", header: "fresh_weight (g)" },
@@ -88,6 +91,7 @@ function blockCells(block: ExportBlock): Record<string, string> {
     block_wet_weight: exportGrams(block.wetMassG),
     substrate_moisture: exportPercent(block.moisture),
     fruiting_method: block.fruitingMethodCode ?? "",
+    fruiting_room: block.roomName ?? "",
     contaminated: block.contaminated ? "yes" : "no",
     contaminated_on: block.contaminatedOn ?? "",
     spent_weight: exportGrams(block.spentMassG),

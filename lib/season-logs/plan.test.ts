@@ -116,6 +116,97 @@ describe("planCommit", () => {
     );
   });
 
+  describe("the fruiting room", () => {
+    const roomHeader = "block_id,strain,fruiting_room,flush,fresh_weight";
+    const rooms = [
+      { id: "room-t1", name: "Tent 1" },
+      { id: "room-tub", name: "Tub by the door" },
+    ];
+
+    it("is matched to the farm's own rooms whatever the capitals and spaces, and listed for the review", () => {
+      const plan = planCommit(
+        input({
+          records: records(["A-1,PO-01,tent1,1,400 g", "A-2,PO-01,TUB  BY THE DOOR,,", "A-3,PO-01,,,"], roomHeader),
+          storedBlocks: [storedA1],
+          rooms,
+        }),
+      );
+      expect(plan.issues).toEqual([]);
+      expect(plan.blocks.map((block) => [block.code, block.roomId])).toEqual([
+        ["A-1", "room-t1"],
+        ["A-2", "room-tub"],
+        ["A-3", null],
+      ]);
+      // History keeps the room by the name the farm gives it, not as the cell spelt it.
+      expect(plan.changes).toEqual([{ blockCode: "A-1", flush: null, field: "fruiting_room", oldValue: null, newValue: "Tent 1" }]);
+      expect(plan.rooms).toEqual([
+        { blockCode: "A-1", room: "Tent 1", change: "added" },
+        { blockCode: "A-2", room: "Tub by the door", change: "new" },
+      ]);
+    });
+
+    it("is an error on the cell when the farm has no room of that name, naming the farm's rooms and the Rooms page", () => {
+      const plan = planCommit(input({ records: records(["A-1,PO-01,Tent 2,1,400 g"], roomHeader), rooms }));
+      expect(plan.issues).toHaveLength(1);
+      expect(plan.issues[0]).toMatchObject({
+        line: 2,
+        code: "unknown_fruiting_room",
+        column: "fruiting_room",
+        value: "Tent 2",
+        severity: "error",
+      });
+      expect(plan.issues[0].message).toMatch(/^Line 2, block A-1: "Tent 2" is not one of your farm's rooms/);
+      expect(plan.issues[0].message).toContain('"Tent 1", "Tub by the door"');
+      expect(plan.issues[0].message).toContain("Rooms page");
+      // Nothing is made or guessed: the block keeps no room.
+      expect(plan.blocks[0].roomId).toBeNull();
+      const none = planCommit(input({ records: records(["A-1,PO-01,Tent 1,1,400 g"], roomHeader) }));
+      expect(none.issues.map((issue) => issue.code)).toEqual(["unknown_fruiting_room"]);
+      expect(none.issues[0].message).toContain("no rooms recorded yet");
+    });
+
+    it("is an error when two of the farm's rooms differ only in capitals or spaces", () => {
+      const plan = planCommit(
+        input({ records: records(["A-1,PO-01,tent 1,1,400 g"], roomHeader), rooms: [...rooms, { id: "room-t1b", name: "TENT 1" }] }),
+      );
+      expect(plan.issues.map((issue) => issue.code)).toEqual(["fruiting_room_ambiguous"]);
+      expect(plan.blocks[0].roomId).toBeNull();
+    });
+
+    it("refuses a retired room for a block not already in it, as a move on the block's page does, and lets a file restate it", () => {
+      const withRetired = [...rooms, { id: "room-old", name: "Old tent", retiredOn: "2026-02-01" }];
+      const plan = planCommit(
+        input({ records: records(["A-1,PO-01,old tent,,"], roomHeader), storedBlocks: [storedA1], rooms: withRetired }),
+      );
+      expect(plan.issues.map((issue) => [issue.code, issue.value])).toEqual([["fruiting_room_retired", "old tent"]]);
+      expect(plan.issues[0].message).toContain("retired on 2026-02-01");
+      expect(plan.blocks).toEqual([]);
+      const already = { ...storedA1, roomId: "room-old" };
+      const restated = planCommit(
+        input({ records: records(["A-1,PO-01,Old tent,,"], roomHeader), storedBlocks: [already], rooms: withRetired }),
+      );
+      expect(restated.issues).toEqual([]);
+      expect(restated.counts.untouchedBlocks).toBe(1);
+    });
+
+    it("is kept under a blank cell, untouched when the same, and a change of it is history", () => {
+      const stored = { ...storedA1, roomId: "room-t1" };
+      const blank = planCommit(input({ records: records(["A-1,PO-01,,,"], roomHeader), storedBlocks: [stored], rooms }));
+      expect(blank.counts.untouchedBlocks).toBe(1);
+      expect(blank.rooms).toEqual([]);
+      const same = planCommit(input({ records: records(["A-1,PO-01,TENT 1,,"], roomHeader), storedBlocks: [stored], rooms }));
+      expect(same.counts.untouchedBlocks).toBe(1);
+      expect(same.rooms).toEqual([{ blockCode: "A-1", room: "Tent 1", change: "same" }]);
+      const moved = planCommit(input({ records: records(["A-1,PO-01,Tub by the door,,"], roomHeader), storedBlocks: [stored], rooms }));
+      expect(moved.counts.changedBlocks).toBe(1);
+      expect(moved.blocks[0].roomId).toBe("room-tub");
+      expect(moved.rooms).toEqual([{ blockCode: "A-1", room: "Tub by the door", change: "changed" }]);
+      expect(moved.changes).toEqual([
+        { blockCode: "A-1", flush: null, field: "fruiting_room", oldValue: "Tent 1", newValue: "Tub by the door" },
+      ]);
+    });
+  });
+
   it("refuses a trial block whose strain differs from its arm's strain", () => {
     const plan = planCommit(
       input({

@@ -1,4 +1,5 @@
 import type { IssueCode, SeasonLogIssue, SeasonRecord } from "../import";
+import { type NamedRoom, readRoomCell } from "../import/cells";
 import { RegisterMatcher, registerKey } from "../import/registers";
 
 /** A block as stored, in the shape the planner compares (masses in grams, dates YYYY-MM-DD). */
@@ -18,6 +19,8 @@ export interface StoredBlock {
   contaminatedOn: string | null;
   spentMassG: number | null;
   notes: string;
+  /** The room of the block's move "from the start of fruiting" (moved_on null); null or absent when none is recorded. */
+  roomId?: string | null;
 }
 
 export interface StoredHarvest {
@@ -65,12 +68,16 @@ export interface PlanInput {
   substrateRecipes: readonly RegistryEntry[];
   fruitingMethods: readonly RegistryEntry[];
   assignments: readonly TrialAssignment[];
+  /** The farm's own fruiting rooms (row-level security gives no other farm's): the fruiting_room column names one of them. */
+  rooms?: readonly NamedRoom[];
 }
 
 /** The block row a commit writes: the stored values and the masses as written; `id` is the stored block's, null for a new one. */
-export interface BlockWrite extends Omit<StoredBlock, "id" | "seasonYear"> {
+export interface BlockWrite extends Omit<StoredBlock, "id" | "seasonYear" | "roomId"> {
   id: string | null;
   seasonYear: number | null;
+  /** The room from the start of fruiting: the file's, else the one stored (a blank cell never erases it). */
+  roomId: string | null;
   wetMassAsWritten: string | null;
   wetMassUnit: string | null;
   spentMassAsWritten: string | null;
@@ -117,6 +124,15 @@ export interface CommitPlan {
   notInFile: NotInFile;
   /** Problems only the stored data and registries reveal (unknown substrate, trial strain mismatch …). */
   issues: SeasonLogIssue[];
+  /** Each block whose rows name a room of the farm, with that room's name as the farm keeps it (in the file's order). */
+  rooms: BlockRoom[];
+}
+
+/** A block's fruiting room as the file gives it, for the review: a new block's, one added to a stored block, a changed one, or the same as stored. */
+export interface BlockRoom {
+  blockCode: string;
+  room: string;
+  change: "new" | "added" | "changed" | "same";
 }
 
 const gramsTolerance = 0.001;
@@ -253,6 +269,20 @@ export function planCommit(input: PlanInput): CommitPlan {
   const recipes = new Register(input.substrateRecipes);
   const methods = new Register(input.fruitingMethods);
   const storedByCode = new Map(input.storedBlocks.map((block) => [block.code, block]));
+  const rooms = input.rooms ?? [];
+  const roomNames = new Map(rooms.map((room) => [room.id, room.name]));
+  const roomOf = (id: string | null | undefined) => (id ? (roomNames.get(id) ?? null) : null);
+  const blockRooms: BlockRoom[] = [];
+  // A file names a handful of rooms on thousands of blocks: each text is matched once.
+  const roomReadings = new Map<string, ReturnType<typeof readRoomCell>>();
+  const readRoom = (text: string) => {
+    let reading = roomReadings.get(text);
+    if (reading === undefined) {
+      reading = readRoomCell(text, rooms);
+      roomReadings.set(text, reading);
+    }
+    return reading;
+  };
   const assignmentByCode = new Map(input.assignments.map((assignment) => [key(assignment.blockCode), assignment]));
   const storedHarvests = new Map(input.storedHarvests.map((harvest) => [`${harvest.blockCode}\u0000${harvest.flush}`, harvest]));
   const issues: SeasonLogIssue[] = [];
@@ -314,6 +344,29 @@ export function planCommit(input: PlanInput): CommitPlan {
         message: `Line ${record.line}: block ${code} has fruiting method "${record.fruitingMethod}", which is neither a code nor a name in the co-op's register.${methods.suggestion(record.fruitingMethod)} Use a fruiting method from the register, or leave the cell blank.`,
       });
     }
+    const room = record.fruitingRoom === null ? null : readRoom(record.fruitingRoom);
+    if (room !== null && "code" in room)
+      issues.push({
+        line: record.line,
+        code: room.code,
+        column: "fruiting_room",
+        value: record.fruitingRoom ?? "",
+        severity: "error",
+        message: `Line ${record.line}, block ${code}: ${room.message}`,
+      });
+    const named = room !== null && "value" in room ? room.value : null;
+    // As for a move on the block's page: no block starts fruiting in a retired room, though a file may restate one it already did.
+    const retired = named !== null && named.retiredOn != null && stored?.roomId !== named.id;
+    if (named !== null && retired)
+      issues.push({
+        line: record.line,
+        code: "fruiting_room_retired",
+        column: "fruiting_room",
+        value: record.fruitingRoom ?? "",
+        severity: "error",
+        message: `Line ${record.line}, block ${code}: the room "${named.name}" was retired on ${named.retiredOn}, so no block can start fruiting in it. Write the room the block fruited in, put the room back in use on the Rooms page, or leave the cell blank.`,
+      });
+    const roomId = named !== null && !retired ? named.id : null;
     const assignment = assignmentByCode.size === 0 ? null : (assignmentByCode.get(key(code)) ?? null);
     if (assignment) issues.push(...againstTheList(record, assignment, strain, method, strains, methods));
     // The same words whether or not another farm lists this code: the farm learns nothing about other farms' lists.
@@ -349,7 +402,14 @@ export function planCommit(input: PlanInput): CommitPlan {
       spentMassAsWritten: record.spentAsWritten?.value ?? null,
       spentMassUnit: record.spentAsWritten?.unit ?? null,
       notes: notes || stored?.notes || "",
+      roomId: roomId ?? stored?.roomId ?? null,
     };
+    if (named !== null && !retired)
+      blockRooms.push({
+        blockCode: code,
+        room: named.name,
+        change: !stored ? "new" : !stored.roomId ? "added" : stored.roomId === roomId ? "same" : "changed",
+      });
     if (!stored) {
       counts.newBlocks++;
       blocks.push(write);
@@ -383,6 +443,8 @@ export function planCommit(input: PlanInput): CommitPlan {
     if (!sameNumber(stored.spentMassG, write.spentMassG, gramsTolerance))
       compare("spent_weight", shown(stored.spentMassG), shown(write.spentMassG));
     compare("notes", stored.notes || null, write.notes || null);
+    // Kept by name, as the farm calls the room: history reads as the grower wrote it.
+    if ((stored.roomId ?? null) !== write.roomId) compare("fruiting_room", roomOf(stored.roomId), roomOf(write.roomId));
     if (changes.length > before) {
       counts.changedBlocks++;
       blocks.push(write);
@@ -441,7 +503,7 @@ export function planCommit(input: PlanInput): CommitPlan {
     ),
     blocks: input.storedBlocks.filter((block) => !firstRecord.has(block.code)).length,
   };
-  return { blocks, harvests, changes, newBlockCodes, counts, issues, notInFile };
+  return { blocks, harvests, changes, newBlockCodes, counts, issues, notInFile, rooms: blockRooms };
 }
 
 /**

@@ -2,7 +2,7 @@ import { z } from "zod";
 import type { SeasonLogDetected, SeasonLogIssue, SeasonLogOptions } from "../import";
 import { toCsv } from "../csv";
 import type { RegisterEntryText } from "../import/registers";
-import type { CommitPlan, PlanCounts, ValueChange } from "./plan";
+import type { BlockRoom, CommitPlan, PlanCounts, ValueChange } from "./plan";
 
 /** The largest season log the upload accepts. */
 export const largestUploadBytes = 50 * 1024 * 1024;
@@ -40,6 +40,8 @@ export interface UploadPreview {
    * Missing from reports stored before it existed.
    */
   notInFile?: { phoneForm: number; otherFiles: number; harvests: { blockCode: string; flush: number }[]; blocks: number };
+  /** The fruiting room each block's rows name (the first few), and how many blocks name one. Missing from reports stored before the column. */
+  rooms?: { blocks: BlockRoom[]; count: number };
 }
 
 /** What the review step shows and what is kept with the upload. */
@@ -88,6 +90,7 @@ export function buildReport(input: {
         harvests: input.plan.notInFile.harvests.slice(0, mostPreviewItems).map(({ blockCode, flush }) => ({ blockCode, flush })),
         blocks: input.plan.notInFile.blocks,
       },
+      rooms: { blocks: input.plan.rooms.slice(0, mostPreviewItems), count: input.plan.rooms.length },
     },
     choices: input.choices,
   };

@@ -53,7 +53,7 @@ export interface UndoInput {
    * this commit's id; and ("removed") harvests the commit removed that cannot go back, a flush
    * having been recorded in their place since.
    */
-  rewrittenSince: readonly { kind: "block" | "harvest" | "removed"; label: string }[];
+  rewrittenSince: readonly { kind: "block" | "harvest" | "removed" | "room"; label: string }[];
   changes: readonly CommitChange[];
 }
 

@@ -1,30 +1,40 @@
 import { readFileSync } from "node:fs";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Pool } from "pg";
 import type { BrowserContext } from "playwright-core";
+import { superuserPool } from "../integration/support/database";
 import { collectPageErrors, openBrowser, screenshot } from "./support/browser";
 import { AppShell, SignInPage } from "./support/pages";
 import { BlocksPage, QuickHarvestPage, SeasonLogPage } from "./support/season-log-pages";
 
 // A sheet as a European-locale spreadsheet exports it: semicolons, decimal commas, day-first
-// dates, and a weight column headed in the farm's own words ("Picked (g)").
-const header = "Block;Strain;Substrate;Inoculated;Wet block (kg);Moisture;Flush;Harvested;Picked (g)";
+// dates, a weight column headed in the farm's own words ("Picked (g)"), and the tent each block fruited in.
+const header = "Block;Strain;Substrate;Inoculated;Wet block (kg);Moisture;Tent;Flush;Harvested;Picked (g)";
 const rows = (strainOfSecond: string) =>
   [
-    "E2E-01;PO-01;HWB-20;02.03.2026;2,5;62 %;1;14.04.2026;612,5",
-    "E2E-01;PO-01;HWB-20;02.03.2026;2,5;62 %;2;29.04.2026;380",
-    `E2E-02;${strainOfSecond};HWB-20;02.03.2026;2,4;62 %;1;15.04.2026;540,0`,
+    "E2E-01;PO-01;HWB-20;02.03.2026;2,5;62 %;E2E tent;1;14.04.2026;612,5",
+    "E2E-01;PO-01;HWB-20;02.03.2026;2,5;62 %;;2;29.04.2026;380",
+    `E2E-02;${strainOfSecond};HWB-20;02.03.2026;2,4;62 %;e2e TENT;1;15.04.2026;540,0`,
   ].join("\r\n");
 const withTypo = `${header}\r\n${rows("PO-1O")}\r\n`;
 const corrected = `${header}\r\n${rows("PO-01")}\r\n`;
 
 describe("a grower uploads a season log", () => {
   let browser: BrowserContext;
+  let inspector: Pool;
   beforeAll(async () => {
     browser = await openBrowser();
+    // The farm's tent, as the Rooms page would have recorded it: a season log only names rooms the farm has.
+    inspector = superuserPool();
+    await inspector.query(
+      `insert into fruiting_rooms (farm_id, name, kind, fresh_air) select id, 'E2E tent', 'tent', 'filter_holes' from farms where name = 'Fernbrook Farm'
+       on conflict do nothing`,
+    );
   });
   afterAll(async () => {
     await browser?.close();
+    await inspector?.end();
   });
 
   it("maps a column, sees an error, uploads the corrected file, commits and finds the blocks", async () => {
@@ -54,6 +64,8 @@ describe("a grower uploads a season log", () => {
     await logs.upload("fernbrook-season-corrected.csv", corrected);
     expect(await logs.summary()).toContain("0 errors");
     expect(await logs.previewCounts()).toMatch(/New blocks\s*2.*New harvests\s*3/);
+    // Each block's room, by the farm's own name for it, whatever the capitals in the file.
+    expect(await logs.previewRooms()).toMatch(/E2E-01\s*E2E tent.*E2E-02\s*E2E tent/);
     expect(await logs.commitButton().isEnabled()).toBe(true);
     await screenshot(page, "season-logs-4-review");
 

@@ -281,7 +281,7 @@ describe("undoing a season-log commit", () => {
     expect(await refreshesQueued()).toBe(queued + 1);
 
     const history = await inspector.query(
-      "select b.code, v.flush, v.field, v.old_value, v.new_value, v.reason from value_changes v join blocks b on b.id = v.block_id where v.reason like 'Undid%' order by v.id",
+      "select b.code, v.flush, v.field, v.old_value, v.new_value, v.reason from value_changes v join blocks b on b.id = v.block_id where v.reason like 'Undid the commit of corrections-%' order by v.id",
     );
     const reason = "Undid the commit of corrections-second.csv: sent last year's sheet";
     expect(history.rows).toEqual([

@@ -61,6 +61,11 @@ export class SeasonLogPage {
     return ((await this.page.getByTestId("preview-counts").textContent()) ?? "").replace(/\s+/g, " ");
   }
 
+  /** The review's table of each block's fruiting room, as one line of text. */
+  async previewRooms(): Promise<string> {
+    return ((await this.page.getByTestId("preview-rooms").textContent()) ?? "").replace(/\s+/g, " ");
+  }
+
   async startOver(): Promise<void> {
     await this.page.getByRole("button", { name: "Upload a corrected file" }).click();
     await this.page.locator("#season-log-file").waitFor({ state: "attached" });

@@ -30,6 +30,7 @@ const checkedFields = [
   "substrate",
   "inoculatedOn",
   "seasonYear",
+  "fruitingRoom",
   "wetBlockGrams",
   "moisture",
   "flush",

@@ -4,7 +4,7 @@ import type { ColumnDef } from "@tanstack/react-table";
 import { Card } from "@/components/ui/card";
 import { DataTable } from "@/components/ui/data-table";
 import { seasonLogColumns } from "@/lib/import/schema";
-import type { ValueChange } from "@/lib/season-logs/plan";
+import type { BlockRoom, ValueChange } from "@/lib/season-logs/plan";
 import type { UploadPreview } from "@/lib/season-logs/report";
 
 const titles = new Map<string, string>(seasonLogColumns.map((column) => [column.name, column.title]));
@@ -15,6 +15,19 @@ const columns: ColumnDef<ValueChange, unknown>[] = [
   { accessorFn: (change) => titles.get(change.field) ?? change.field, id: "field", header: "Value" },
   { accessorFn: (change) => change.oldValue ?? "(blank)", id: "old", header: "Stored now" },
   { accessorFn: (change) => change.newValue ?? "(blank)", id: "new", header: "After commit" },
+];
+
+const roomChangeWords: Record<BlockRoom["change"], string> = {
+  new: "new block",
+  added: "recorded for the block",
+  changed: "replaces the room recorded (kept in its history)",
+  same: "as recorded already",
+};
+
+const roomColumns: ColumnDef<BlockRoom, unknown>[] = [
+  { accessorKey: "blockCode", header: "Block" },
+  { accessorKey: "room", header: "Fruiting room" },
+  { accessorFn: (room) => roomChangeWords[room.change], id: "change", header: "On commit" },
 ];
 
 const plural = (count: number, one: string) => `${count} ${one}${count === 1 ? "" : "s"}`;
@@ -61,6 +74,14 @@ export function PreviewOfChanges({
         <div className="mt-4">
           <h3 className="mb-2 font-semibold">Values that would be replaced (the old ones are kept in each block’s history)</h3>
           <DataTable caption="Values that would be replaced" columns={columns} rows={preview.changes} emptyMessage="" pageSize={10} />
+        </div>
+      ) : null}
+      {preview.rooms && preview.rooms.count > 0 ? (
+        <div className="mt-4" data-testid="preview-rooms">
+          <h3 className="mb-2 font-semibold">
+            Fruiting rooms named in the file ({plural(preview.rooms.count, "block")}; a block left blank keeps its recorded room)
+          </h3>
+          <DataTable caption="Fruiting room per block" columns={roomColumns} rows={preview.rooms.blocks} emptyMessage="" pageSize={10} />
         </div>
       ) : null}
       {preview.notInFile && preview.notInFile.harvests.length > 0 ? (
