@@ -10,7 +10,6 @@ import { AppError } from "@/lib/errors";
 import {
   addBins,
   buildPooledResults,
-  describeReleaseSchedule,
   ownBlocksForChart,
   pooledFlushProfile,
   publishedSteps,
@@ -20,6 +19,8 @@ import {
   type OwnStrainBlocks,
   type PooledFilters,
   type PooledResults,
+  type ReleaseSchedule,
+  type ReleaseTime,
 } from "@/lib/pooled";
 import type { FlushProfile } from "@/lib/stats";
 import { seededRandom } from "@/lib/random";
@@ -44,7 +45,8 @@ export interface PooledResultsPage {
   fruitingMethodId: string | null;
   /** The release the figures come from (null before the first), and when the next one may come. */
   release: ReleaseInfo | null;
-  releaseSchedule: string;
+  /** When releases come: the page says it on the reader's clocks (describeReleaseSchedule). */
+  releaseSchedule: { schedule: ReleaseSchedule; at: ReleaseTime };
   results: PooledResults | null;
   /** The viewer's own blocks' biological efficiency by strain, for the boxplot overlay (farm people only). */
   ownBlocks: OwnStrainBlocks[];
@@ -163,7 +165,10 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
     substrateRecipeId: query.substrateRecipeId ?? null,
     fruitingMethodId: query.fruitingMethodId ?? null,
     release: analysed.release,
-    releaseSchedule: describeReleaseSchedule(analysed.settings?.releaseSchedule ?? "daily", analysed.settings?.releaseHour ?? 2),
+    releaseSchedule: {
+      schedule: analysed.settings?.releaseSchedule ?? "daily",
+      at: { hour: analysed.settings?.releaseHour ?? 2, timeZone: analysed.settings?.releaseTimeZone ?? "UTC" },
+    },
     results,
   };
 }

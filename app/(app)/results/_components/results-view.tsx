@@ -8,7 +8,15 @@ import { Card } from "@/components/ui/card";
 import { DataTable } from "@/components/ui/data-table";
 import { Notice } from "@/components/ui/notice";
 import { WordsExplained } from "@/components/ui/words-explained";
-import { flushWindowLabels, flushWindows, resultsInBrief, strainTableRow, type FlushWindow, type StrainTableRow } from "@/lib/pooled";
+import {
+  describeReleaseSchedule,
+  flushWindowLabels,
+  flushWindows,
+  resultsInBrief,
+  strainTableRow,
+  type FlushWindow,
+  type StrainTableRow,
+} from "@/lib/pooled";
 import type { ReleaseInfo } from "@/lib/data/pooled-releases";
 import { usePooledResults, type PooledResultsSelection } from "@/lib/queries/pooled-results";
 import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
@@ -50,6 +58,7 @@ export function ResultsView({ showsOwnFarm, display }: { showsOwnFarm: boolean; 
   const [selection, setSelection] = useState<PooledResultsSelection>({ window: "all" });
   const query = usePooledResults(selection);
   const page = query.data;
+  const scheduleSaid = page ? describeReleaseSchedule(page.releaseSchedule.schedule, page.releaseSchedule.at, display) : "";
   const choose = (key: keyof PooledResultsSelection) => (event: React.ChangeEvent<HTMLSelectElement>) =>
     setSelection((current) => ({ ...current, [key]: event.target.value || undefined }));
 
@@ -110,7 +119,7 @@ export function ResultsView({ showsOwnFarm, display }: { showsOwnFarm: boolean; 
       </form>
 
       {page ? (
-        <ReleaseLine release={page.release} schedule={page.releaseSchedule} minimumFarms={page.results?.minimumFarms} display={display} />
+        <ReleaseLine release={page.release} schedule={scheduleSaid} minimumFarms={page.results?.minimumFarms} display={display} />
       ) : null}
 
       {query.isPending ? (
@@ -126,7 +135,7 @@ export function ResultsView({ showsOwnFarm, display }: { showsOwnFarm: boolean; 
         </Notice>
       ) : !page?.release ? (
         <Notice title="No release yet">
-          <p>The co-op publishes its pooled figures as dated releases. The first one comes {page?.releaseSchedule}.</p>
+          <p>The co-op publishes its pooled figures as dated releases. The first one comes {scheduleSaid}.</p>
         </Notice>
       ) : !page.results || page.results.strains.length === 0 ? (
         <Notice title="Not enough data">

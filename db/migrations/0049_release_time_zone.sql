@@ -1,0 +1,1 @@
+ALTER TABLE "cooperative_settings" ADD COLUMN "release_time_zone" text DEFAULT 'UTC' NOT NULL;
