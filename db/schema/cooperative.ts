@@ -14,8 +14,10 @@ export const cooperativeSettings = pgTable(
     showPerFarmEstimates: boolean("show_per_farm_estimates").notNull().default(false),
     /** When the scheduled job cuts a release of the pooled figures: "daily", "weekly" (Mondays) or "manual" (coordinator only). */
     releaseSchedule: text("release_schedule").$type<ReleaseSchedule>().notNull().default("daily"),
-    /** The hour (UTC, 0–23) at which a scheduled release is due. */
+    /** The hour (0–23) at which a scheduled release is due, on the clocks of `releaseTimeZone`. */
     releaseHour: integer("release_hour").notNull().default(2),
+    /** The zone of that hour (an IANA name, or UTC): the zone of the coordinator who last saved the settings. */
+    releaseTimeZone: text("release_time_zone").notNull().default("UTC"),
     /** Days the file of a rejected season-log upload is kept before it is removed (the record and report stay). */
     rejectedUploadRetentionDays: integer("rejected_upload_retention_days").notNull().default(30),
     /** The day the co-op's season starts (lib/seasons.ts); a block inoculated before it belongs to the season before. */

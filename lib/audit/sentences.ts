@@ -123,7 +123,8 @@ const settingTitles: Record<string, { title: string; shown?: (value: unknown) =>
     title: "When releases are published",
     shown: (value) => releaseScheduleLabels[value as ReleaseSchedule] ?? text(value),
   },
-  releaseHour: { title: "Hour releases are cut (UTC)", shown: (value) => `${text(value)}:00` },
+  releaseHour: { title: "Hour releases are cut", shown: (value) => `${text(value)}:00` },
+  releaseTimeZone: { title: "On the clocks of", shown: (value) => text(value) },
   rejectedUploadRetentionDays: { title: "Days a rejected upload's file is kept" },
 };
 

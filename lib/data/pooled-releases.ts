@@ -35,6 +35,7 @@ import {
   type ReleasePlan,
   type ReleaseSchedule,
   type ReleaseSeasonRow,
+  type ReleaseTime,
   type ReleaseStrainRow,
   type RoomRegime,
 } from "@/lib/pooled";
@@ -423,14 +424,18 @@ export async function cutReleaseIfDue(now: Date = new Date()): Promise<ReleaseAt
   return withAnalystAccess(async (tx) => {
     await tx.execute(releaseLock);
     const [settings] = await tx
-      .select({ schedule: cooperativeSettings.releaseSchedule, hour: cooperativeSettings.releaseHour })
+      .select({
+        schedule: cooperativeSettings.releaseSchedule,
+        hour: cooperativeSettings.releaseHour,
+        timeZone: cooperativeSettings.releaseTimeZone,
+      })
       .from(cooperativeSettings);
     const schedule = settings?.schedule ?? "daily";
-    const hour = settings?.hour ?? 2;
-    const slot = latestReleaseSlot(now, schedule, hour);
+    const at: ReleaseTime = { hour: settings?.hour ?? 2, timeZone: settings?.timeZone ?? "UTC" };
+    const slot = latestReleaseSlot(now, schedule, at);
     const [state] = await tx.select({ lastAttemptAt: pooledReleaseSchedule.lastAttemptAt }).from(pooledReleaseSchedule);
     if (!slot || (state?.lastAttemptAt && state.lastAttemptAt >= slot)) {
-      return { outcome: "not_due", nextDueAt: nextReleaseSlot(now, schedule, hour)?.toISOString() ?? null };
+      return { outcome: "not_due", nextDueAt: nextReleaseSlot(now, schedule, at)?.toISOString() ?? null };
     }
     const attempt = await cutInTransaction(tx, "schedule");
     await tx
@@ -474,7 +479,8 @@ export async function cutReleaseNow(member: Member): Promise<ReleaseAttempt> {
 export interface ReleaseStatus {
   latest: ReleaseInfo | null;
   schedule: ReleaseSchedule;
-  hour: number;
+  /** The hour releases are cut and the zone whose clocks it is read on. */
+  at: ReleaseTime;
   nextDueAt: string | null;
   lastAttempt: { at: string; outcome: string } | null;
   /** What cutting now would do: the coordinator sees why a release waits and what it needs. */
@@ -489,17 +495,21 @@ export async function getReleaseStatus(member: Member, now: Date = new Date()): 
   const refreshesPending = await getPooledUpdating();
   return withAnalystAccess(async (tx) => {
     const [settings] = await tx
-      .select({ schedule: cooperativeSettings.releaseSchedule, hour: cooperativeSettings.releaseHour })
+      .select({
+        schedule: cooperativeSettings.releaseSchedule,
+        hour: cooperativeSettings.releaseHour,
+        timeZone: cooperativeSettings.releaseTimeZone,
+      })
       .from(cooperativeSettings);
     const schedule = settings?.schedule ?? "daily";
-    const hour = settings?.hour ?? 2;
+    const at: ReleaseTime = { hour: settings?.hour ?? 2, timeZone: settings?.timeZone ?? "UTC" };
     const [state] = await tx.select().from(pooledReleaseSchedule).where(eq(pooledReleaseSchedule.id, 1));
     const next = await planNext(tx);
     return {
       latest: next.previous,
       schedule,
-      hour,
-      nextDueAt: nextReleaseSlot(now, schedule, hour)?.toISOString() ?? null,
+      at,
+      nextDueAt: nextReleaseSlot(now, schedule, at)?.toISOString() ?? null,
       lastAttempt: state?.lastAttemptAt ? { at: state.lastAttemptAt.toISOString(), outcome: state.lastOutcome ?? "" } : null,
       now: outcomeOf(next, { number: (next.previous?.number ?? 0) + 1, cutAt: now.toISOString() }),
       refreshesPending,

@@ -11,7 +11,6 @@ import {
   addBins,
   buildPooledResults,
   buildRegimeComparison,
-  describeReleaseSchedule,
   ownBlocksForChart,
   pooledFlushProfile,
   publishedSteps,
@@ -25,6 +24,8 @@ import {
   type PooledResults,
   type SeasonBreakdown,
   type RegimeComparison,
+  type ReleaseSchedule,
+  type ReleaseTime,
 } from "@/lib/pooled";
 import { calendarYear, type SeasonStart } from "@/lib/seasons";
 import type { ResultsSelection } from "@/lib/pooled/results-address";
@@ -69,7 +70,8 @@ export interface PooledResultsPage {
   seasons: SeasonBreakdown | null;
   /** The release the figures come from (null before the first), and when the next one may come. */
   release: ReleaseInfo | null;
-  releaseSchedule: string;
+  /** When releases come: the page says it on the reader's clocks (describeReleaseSchedule). */
+  releaseSchedule: { schedule: ReleaseSchedule; at: ReleaseTime };
   results: PooledResults | null;
   /**
    * Contamination and BE by climate regime for the species, with the room as the unit: whatever
@@ -244,7 +246,10 @@ async function computePooledResults(member: Member, query: PooledResultsQuery): 
           })
         : null,
     release: analysed.release,
-    releaseSchedule: describeReleaseSchedule(analysed.settings?.releaseSchedule ?? "daily", analysed.settings?.releaseHour ?? 2),
+    releaseSchedule: {
+      schedule: analysed.settings?.releaseSchedule ?? "daily",
+      at: { hour: analysed.settings?.releaseHour ?? 2, timeZone: analysed.settings?.releaseTimeZone ?? "UTC" },
+    },
     results,
     regimes,
   };

@@ -4,6 +4,7 @@ import { cooperativeSettings } from "@/db/schema";
 import { actor, recordAudit } from "@/lib/data/audit";
 import { type Member } from "@/lib/data/members";
 import { AppError, databaseRefusalOf } from "@/lib/errors";
+import { canonicalTimeZone } from "@/lib/time/display";
 import type { CooperativeSettingsInput } from "@/lib/pooled";
 import { asMember } from "./context";
 
@@ -12,9 +13,13 @@ const settingsColumns = {
   showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates,
   releaseSchedule: cooperativeSettings.releaseSchedule,
   releaseHour: cooperativeSettings.releaseHour,
+  releaseTimeZone: cooperativeSettings.releaseTimeZone,
 };
 
-export async function getCooperativeSettingsForEditing(member: Member): Promise<CooperativeSettingsInput & { name: string }> {
+/** The settings as saved; `releaseTimeZone` is the zone whose clocks `releaseHour` is read on. */
+export type CooperativeSettings = CooperativeSettingsInput & { releaseTimeZone: string };
+
+export async function getCooperativeSettingsForEditing(member: Member): Promise<CooperativeSettings & { name: string }> {
   return asMember(member, async (tx) => {
     const [row] = await tx.select({ name: cooperativeSettings.name, ...settingsColumns }).from(cooperativeSettings);
     if (!row) throw new AppError("not_found", "The co-op has no settings row yet; run the set-up (npm start) first.");
@@ -24,9 +29,12 @@ export async function getCooperativeSettingsForEditing(member: Member): Promise<
 
 /**
  * Changes who counts as "enough farms", whether anonymised per-farm estimates are shown and when
- * releases are cut; audited. The database refuses a minimum below 3 whoever asks.
+ * releases are cut (the hour on the clocks of the zone the coordinator reads times in); audited.
+ * The database refuses a minimum below 3 whoever asks.
  */
-export async function updateCooperativeSettings(member: Member, next: CooperativeSettingsInput): Promise<void> {
+export async function updateCooperativeSettings(member: Member, next: CooperativeSettings): Promise<void> {
+  if (!canonicalTimeZone(next.releaseTimeZone))
+    throw new AppError("invalid_input", `"${next.releaseTimeZone.slice(0, 60)}" is not a time zone. Choose your zone on Settings first.`);
   await asMember(member, async (tx) => {
     const [before] = await tx.select(settingsColumns).from(cooperativeSettings);
     const updated = await tx

@@ -39,6 +39,57 @@ async function entriesInUse(tx: Transaction): Promise<Record<RegistryKind, Set<s
 }
 
 /**
+ * Whether records use this one entry, asked of its own register only: a species by its strains; a
+ * strain by blocks (through the analyst role, as above) or trial arms; a recipe by blocks; a
+ * fruiting method or treatment by blocks or trial arms. One "exists" each, never every register.
+ */
+async function entryInUse(tx: Transaction, kind: RegistryKind, id: string): Promise<boolean> {
+  const anyRow = async (query: Promise<unknown[]>) => (await query).length > 0;
+  const byBlocks = (column: typeof blocks.strainId | typeof blocks.substrateRecipeId | typeof blocks.fruitingMethodId) =>
+    withAnalystAccess((analyst) =>
+      anyRow(
+        analyst
+          .select({ one: sql`1` })
+          .from(blocks)
+          .where(eq(column, id))
+          .limit(1),
+      ),
+    );
+  switch (kind) {
+    case "species":
+      return anyRow(
+        tx
+          .select({ one: sql`1` })
+          .from(strains)
+          .where(eq(strains.speciesId, id))
+          .limit(1),
+      );
+    case "strains":
+      return (
+        (await anyRow(
+          tx
+            .select({ one: sql`1` })
+            .from(trialArms)
+            .where(eq(trialArms.strainId, id))
+            .limit(1),
+        )) || byBlocks(blocks.strainId)
+      );
+    case "substrate_recipes":
+      return byBlocks(blocks.substrateRecipeId);
+    case "treatments":
+      return (
+        (await anyRow(
+          tx
+            .select({ one: sql`1` })
+            .from(trialArms)
+            .where(eq(trialArms.treatmentId, id))
+            .limit(1),
+        )) || byBlocks(blocks.fruitingMethodId)
+      );
+  }
+}
+
+/**
  * How many blocks of each strain the newest release counts, published only where at least the
  * co-op's minimum number of farms have blocks of it, like every other count: a strain grown on
  * one farm would otherwise show that farm's block count to everyone.
@@ -205,7 +256,7 @@ export async function moveRegistryEntry(
     if (!entry) throw new AppError("not_found", "That entry is not in the registry. Reload the page.");
     const label = "code" in entry ? entry.code : entry.scientificName;
     if (move === "delete") {
-      if ((await entriesInUse(tx))[kind].has(id))
+      if (await entryInUse(tx, kind, id))
         throw new AppError("conflict", `${label} is used by recorded blocks or a trial: retire it instead, so past records keep it.`);
       try {
         await tx.delete(table).where(eq(table.id, id));

@@ -68,6 +68,7 @@ import { crossedArmsProblems } from "@/lib/trials/factorial";
 import { verifyOptOutToken } from "@/lib/trials/reminder-opt-out";
 import { trialSampleSize } from "@/lib/trials/sample-size";
 import { behindReasons, missingData, type TimelineProgress, type TrialTimeline } from "@/lib/trials/timeline";
+import { chosenDisplay, formatDate } from "@/lib/time/display";
 import {
   amendmentReasonProblem,
   analysisFingerprint,
@@ -968,23 +969,24 @@ export async function inviteFarms(member: Member, trialId: string, farmIds: stri
       .onConflictDoNothing()
       .returning({ id: trialEnrolments.id, farmId: trialEnrolments.farmId });
     const managers = await tx
-      .select({ email: users.email, farmId: users.farmId })
+      .select({ email: users.email, farmId: users.farmId, timeZone: users.timeZone, dateStyle: users.dateStyle })
       .from(users)
       .where(and(inArray(users.farmId, farmIds), eq(users.role, "farm_manager"), eq(users.active, true)));
     let sent = 0;
     for (const enrolment of created) {
       const farm = farmRows.find((row) => row.id === enrolment.farmId)!;
       const optOut = secretLink({ for: "reminders-opt-out", enrolmentId: enrolment.id });
-      const mail = trialInvitationMail({
-        trial,
-        farmName: farm.name,
-        deadline: trial.enrolmentDeadline,
-        blocksPerArmWanted: blocksPerArmWanted(trial),
-        arms: trial.arms.length,
-        enrolUrl: `${appUrl()}/trials/${trialId}`,
-        optOutUrl: optOut.slot,
-      });
       for (const manager of managers.filter((row) => row.farmId === farm.id)) {
+        // Each manager reads the answer-by date in their own zone and date style.
+        const mail = trialInvitationMail({
+          trial,
+          farmName: farm.name,
+          deadline: trial.enrolmentDeadline ? { date: trial.enrolmentDeadline, display: chosenDisplay(manager) } : null,
+          blocksPerArmWanted: blocksPerArmWanted(trial),
+          arms: trial.arms.length,
+          enrolUrl: `${appUrl()}/trials/${trialId}`,
+          optOutUrl: optOut.slot,
+        });
         await deliver(tx, "trial-invitation", manager.email, mail, optOut);
         sent += 1;
       }
@@ -1033,7 +1035,7 @@ export async function askToJoinTrial(member: Member, trialId: string): Promise<v
     if (trial.enrolmentDeadline && trial.enrolmentDeadline < new Date().toISOString().slice(0, 10))
       throw new AppError(
         "conflict",
-        `The enrolment deadline was ${trial.enrolmentDeadline}. Ask the coordinator whether your farm can still join.`,
+        `The enrolment deadline was ${formatDate(trial.enrolmentDeadline, member.dateStyle)}. Ask the coordinator whether your farm can still join.`,
       );
     const created = await tx
       .insert(trialEnrolments)
@@ -1070,7 +1072,7 @@ export async function respondToInvitation(
     if (answer.accept && trial.enrolmentDeadline && trial.enrolmentDeadline < todayUtc()) {
       throw new AppError(
         "conflict",
-        `The enrolment deadline was ${trial.enrolmentDeadline}. Ask the coordinator whether your farm can still join.`,
+        `The enrolment deadline was ${formatDate(trial.enrolmentDeadline, member.dateStyle)}. Ask the coordinator whether your farm can still join.`,
       );
     }
     if (!answer.accept) {

@@ -66,9 +66,11 @@ export {
   describeReleaseSchedule,
   latestReleaseSlot,
   nextReleaseSlot,
+  releaseHourIn,
   releaseScheduleLabels,
   releaseSchedules,
   type ReleaseSchedule,
+  type ReleaseTime,
 } from "./release-schedule";
 export { withinFarmSpread } from "./within-farm";
 export { summariseOwnFarm, type OwnBlock, type OwnStrainSummary } from "./my-farm";

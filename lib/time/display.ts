@@ -117,8 +117,47 @@ export function calendarDateIn(value: Date | string, timeZone: string): string {
   return `${parts.year}-${parts.month}-${parts.day}`;
 }
 
+/** "03:30 CEST": the time of day only, with the zone's name (a schedule's hour, said for the reader). */
+export function formatTime(value: Date | string, display: TimeDisplay): string {
+  const parts = partsIn(toInstant(value), display.timeZone);
+  return `${parts.hour}:${parts.minute} ${parts.timeZoneName}`;
+}
+
 /** The date an instant falls on in the member's zone (a commit undone "on 21/03/2026"). */
 export function formatDay(value: Date | string, display: TimeDisplay): string {
   const parts = partsIn(toInstant(value), display.timeZone);
   return writeDate(parts.year, parts.month, parts.day, display.dateStyle);
+}
+
+/** The calendar date (YYYY-MM-DD) an instant falls on in a zone. */
+export function dateIn(value: Date | string, timeZone: string): string {
+  const parts = partsIn(toInstant(value), timeZone);
+  return `${parts.year}-${parts.month}-${parts.day}`;
+}
+
+/** The hour of the day (0–23) an instant falls on in a zone. */
+export function hourIn(value: Date | string, timeZone: string): number {
+  return Number(partsIn(toInstant(value), timeZone).hour);
+}
+
+/**
+ * The instant a zone's clocks read `hour`:00 on a calendar date (a release cut "every night at 02:00"
+ * in the co-op's zone). The offsets are the tz database's, read through Intl a day before and a
+ * day after, so a summer-time change that day is followed: an hour the clocks repeat gives its
+ * first occurrence; an hour they skip (02:00 on the spring change in Europe) gives the instant
+ * the clocks jump forward over it, read afterwards as an hour later (03:00).
+ */
+export function instantAtHour(isoDate: string, hour: number, timeZone: string): Date {
+  const match = /^(\d{4})-(\d{2})-(\d{2})$/.exec(isoDate);
+  if (!match) throw new RangeError(`Not a YYYY-MM-DD date: ${isoDate}`);
+  const wall = Date.UTC(Number(match[1]), Number(match[2]) - 1, Number(match[3]), hour);
+  const offsetAt = (instant: number) => {
+    const parts = partsIn(new Date(instant), timeZone);
+    const read = Date.UTC(Number(parts.year), Number(parts.month) - 1, Number(parts.day), Number(parts.hour), Number(parts.minute));
+    return read - Math.floor(instant / 60_000) * 60_000;
+  };
+  const day = 86_400_000;
+  const candidates = [wall - offsetAt(wall - day), wall - offsetAt(wall + day)].sort((a, b) => a - b);
+  const reads = candidates.filter((instant) => instant + offsetAt(instant) === wall);
+  return new Date(reads[0] ?? candidates[1]);
 }

@@ -1,9 +1,11 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Pool } from "pg";
 import type { BrowserContext, Page } from "playwright-core";
 import { formatDateTime } from "@/lib/time/display";
 import { appUrl, collectPageErrors, openBrowser, screenshot } from "./support/browser";
 import { AppShell, SignInPage } from "./support/pages";
 import { SeasonLogPage } from "./support/season-log-pages";
+import { superuserPool } from "../integration/support/database";
 
 // The server runs in UTC; the browser says it is in Berlin. Expected times come from
 // lib/time/display.ts, whose offsets are the tz database's (checked in lib/time/display.test.ts).
@@ -74,6 +76,47 @@ describe("a member in Berlin reads times in their zone and date style", () => {
 
     // Back as the demo had it, for the tests after this one.
     await savePreferences(page, { dateStyle: "2026-03-21" });
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+});
+
+describe("the coordinator in Berlin sets the hour releases are cut", () => {
+  let browser: BrowserContext;
+  let inspector: Pool;
+  beforeAll(async () => {
+    browser = await openBrowser(undefined, berlin);
+    inspector = superuserPool();
+  });
+  afterAll(async () => {
+    await inspector?.query("update cooperative_settings set release_hour = 2, release_time_zone = 'UTC'");
+    await inspector?.end();
+    await browser?.close();
+  });
+
+  it("on Berlin's clocks: the form shows the stored UTC hour as Berlin's, and saves the hour with the zone", async () => {
+    const page = await browser.newPage();
+    const errors = collectPageErrors(page);
+    await new SignInPage(page).signIn("coordinator@aldervalley.example");
+    await new AppShell(page).waitUntilSignedIn();
+    await page.goto(`${appUrl}/settings/cooperative`);
+    const hour = page.getByLabel(`At (hour, ${berlin})`);
+    // The demo cuts at 02:00 UTC: 03:00 in Berlin in winter, 04:00 in summer (the tz database, read here through Intl).
+    const next = new Date();
+    next.setUTCHours(next.getUTCHours() >= 2 ? 26 : 2, 0, 0, 0);
+    const berlinHour = Number(new Intl.DateTimeFormat("en-GB", { timeZone: berlin, hour: "2-digit", hourCycle: "h23" }).format(next));
+    expect(Number(await hour.inputValue())).toBe(berlinHour);
+    await hour.fill("5");
+    await page.getByRole("button", { name: "Save co-op settings" }).click();
+    await page.getByText("Saved. Co-op results use the new settings from now on.").waitFor();
+    const { rows } = await inspector.query<{ release_hour: number; release_time_zone: string }>(
+      "select release_hour, release_time_zone from cooperative_settings",
+    );
+    expect(rows[0]).toEqual({ release_hour: 5, release_time_zone: berlin });
+    await page.reload();
+    expect(await page.getByLabel(`At (hour, ${berlin})`).inputValue()).toBe("5");
+    expect(await page.getByTestId("release-panel").textContent()).toMatch(/every night at 05:00 CES?T/);
+    await screenshot(page, "time-zones-5-release-hour");
     expect(errors).toEqual([]);
     await page.close();
   });

@@ -1,4 +1,4 @@
-import type { Pool } from "pg";
+import { Client, type Pool } from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase } from "@/db/client";
 import { loadMember, type Member } from "@/lib/data/members";
@@ -90,6 +90,64 @@ describe("registries: proposals, approval, retirement", () => {
     // A farm person is not told which entries other farms use.
     const asFarm = await listRegistries(grower);
     expect(asFarm.substrateRecipes.every((entry) => !entry.inUse)).toBe(true);
+  });
+
+  it("asks, when an entry is deleted, only whether that entry is used, and only of its own register", async () => {
+    // Before, deleting any entry read every block's strain, recipe and method, every trial arm and
+    // every strain's species. Each statement sent while deleting is seen here.
+    const statementsOf = async (work: () => Promise<unknown>) => {
+      const seen: { text: string; values: unknown[] }[] = [];
+      const clients = Client.prototype as unknown as { query: (...args: unknown[]) => unknown };
+      const original = clients.query;
+      clients.query = function (this: unknown, ...args: unknown[]) {
+        const query = args[0] as string | { text: string; values?: unknown[] };
+        seen.push(
+          typeof query === "string"
+            ? { text: query, values: (args[1] as unknown[]) ?? [] }
+            : { text: query.text, values: query.values ?? [] },
+        );
+        return original.apply(this, args);
+      };
+      try {
+        await work();
+      } finally {
+        clients.query = original;
+      }
+      return seen.filter((statement) => /\bfrom\b/i.test(statement.text));
+    };
+    const reads = (statements: { text: string }[], table: string) =>
+      statements.filter((statement) => statement.text.includes(`from "${table}"`));
+
+    await createRegistryEntry(coordinator, { kind: "species", scientificName: `Probus deletus ${run}`, commonName: `Deleted ${run}` });
+    await createRegistryEntry(coordinator, {
+      kind: "substrate_recipes",
+      code: `DEL${run}`, // not "-${run}": the CSV test below lists those
+      name: "Never used",
+      base: "Oak sawdust",
+      supplement: "",
+      supplementPercent: 0,
+      targetMoisture: 0.6,
+      treatment: "sterilised",
+    });
+    const registries = await listRegistries(coordinator);
+    const speciesEntry = registries.species.find((entry) => entry.commonName === `Deleted ${run}`)!;
+    const recipe = registries.substrateRecipes.find((entry) => entry.code === `DEL${run}`)!;
+
+    const forSpecies = await statementsOf(() => moveRegistryEntry(coordinator, "species", speciesEntry.id, "delete"));
+    expect(reads(forSpecies, "blocks")).toEqual([]);
+    expect(reads(forSpecies, "trial_arms")).toEqual([]);
+    const strainReads = reads(forSpecies, "strains");
+    expect(strainReads.length).toBeGreaterThan(0);
+    expect(strainReads.every((statement) => /"species_id" = \$1/.test(statement.text))).toBe(true);
+
+    const forRecipe = await statementsOf(() => moveRegistryEntry(coordinator, "substrate_recipes", recipe.id, "delete"));
+    expect(reads(forRecipe, "trial_arms")).toEqual([]);
+    expect(reads(forRecipe, "strains")).toEqual([]);
+    const blockReads = reads(forRecipe, "blocks");
+    expect(blockReads).toHaveLength(1);
+    expect(blockReads[0].text).toMatch(/"substrate_recipe_id" = \$1/);
+    expect((await inspector.query("select 1 from substrate_recipes where id = $1", [recipe.id])).rowCount).toBe(0);
+    expect((await inspector.query("select 1 from species where id = $1", [speciesEntry.id])).rowCount).toBe(0);
   });
 
   it("imports a CSV list all at once, or not at all with the line of each problem", async () => {

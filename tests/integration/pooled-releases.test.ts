@@ -184,4 +184,20 @@ describe("the scheduled release", () => {
     await inspector.query("update cooperative_settings set release_schedule = 'manual'");
     expect(await cutReleaseIfDue(new Date("2099-04-02T03:00:00Z"))).toEqual({ outcome: "not_due", nextDueAt: null });
   });
+
+  it("comes at the hour on the clocks of the zone it was set in, not at that hour in UTC", async () => {
+    // 02:00 in Tokyo (UTC+9 all year, tz database) is 17:00 UTC the day before.
+    await inspector.query("update cooperative_settings set release_schedule = 'daily', release_hour = 2, release_time_zone = 'Asia/Tokyo'");
+    await inspector.query("update pooled_release_schedule set last_attempt_at = $1", [new Date("2099-05-01T17:00:00Z")]);
+    try {
+      expect(await cutReleaseIfDue(new Date("2099-05-02T02:30:00Z"))).toEqual({
+        outcome: "not_due",
+        nextDueAt: "2099-05-02T17:00:00.000Z",
+      });
+      expect((await cutReleaseIfDue(new Date("2099-05-02T17:00:00Z"))).outcome).not.toBe("not_due");
+      expect((await getReleaseStatus(coordinator, new Date("2099-05-02T17:05:00Z"))).nextDueAt).toBe("2099-05-03T17:00:00.000Z");
+    } finally {
+      await inspector.query("update cooperative_settings set release_time_zone = 'UTC'");
+    }
+  });
 });

@@ -30,6 +30,7 @@ import { inbox } from "../support/mailbox";
 import { superuserPool } from "./support/database";
 
 let inspector: Pool;
+const deadline = addDays(todayUtc(), 30);
 let coordinator: Member;
 let observer: Member;
 let managers: Member[];
@@ -102,7 +103,7 @@ describe("a strain trial from design to publication", () => {
       outcomeFlushes: 2,
       contaminatedHandling: "exclude",
       protocolNotes: "2.5 kg blocks of HWB-20.",
-      enrolmentDeadline: null,
+      enrolmentDeadline: deadline,
       // A timeline whose due date has passed, so a farm with records missing is behind.
       inoculationFrom: addDays(todayUtc(), -120),
       inoculationTo: addDays(todayUtc(), -100),
@@ -132,6 +133,8 @@ describe("a strain trial from design to publication", () => {
   });
 
   it("invites farms by e-mail with a link to the trial and an unsubscribe link", async () => {
+    // One manager chose a zone and a date style; the others did not (UTC, named, and ISO dates).
+    await inspector.query("update users set time_zone = 'Asia/Tokyo', date_style = 'day-month-year' where id = $1", [managers[2].id]);
     const sent = await inviteFarms(
       coordinator,
       trialId,
@@ -151,6 +154,16 @@ describe("a strain trial from design to publication", () => {
     if (!panel.ok) throw new Error("the design's sample size did not compute");
     const wanted = panel.rows[0].perFarmPerArm;
     expect(mail[0].text).toContain(`The trial asks each farm for ${wanted} blocks per arm: 3 arms, so ${wanted * 3} blocks in all.`);
+    // Answers are taken through the deadline day in UTC. Tokyo is UTC+9 all year (tz database: no
+    // summer time since 1951), so that day ends at 09:00 the next day there.
+    const [year, month, day] = deadline.split("-");
+    const [nextYear, nextMonth, nextDay] = addDays(deadline, 1).split("-");
+    const textFor = (manager: Member) => mail.find((message) => message.recipients.includes(manager.email))!.text;
+    expect(textFor(managers[2])).toContain(
+      `Please answer by ${day}/${month}/${year} (answers are taken until ${nextDay}/${nextMonth}/${nextYear} 09:00 GMT+9)`,
+    );
+    expect(textFor(managers[0])).toContain(`Please answer by ${deadline} (answers are taken until ${addDays(deadline, 1)} 00:00 UTC)`);
+    await inspector.query("update users set time_zone = null, date_style = 'iso' where id = $1", [managers[2].id]);
   });
 
   it("randomises each accepting farm by permuted blocks from a recorded seed, and confirms by e-mail", async () => {

@@ -4,16 +4,19 @@ import { Card } from "@/components/ui/card";
 import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { getCoordinatorHome } from "@/lib/data/trial-timeline";
+import { formatDate, formatDateTime } from "@/lib/time/display";
+import { timeDisplayFor } from "@/lib/time/member-display";
 import { TrialTimelineBar } from "../trials/_components/trial-timeline";
 
 export const metadata: Metadata = { title: "Follow-up" };
 
-const dateTime = (value: Date | null) => (value ? `${value.toISOString().slice(0, 16).replace("T", " ")} UTC` : "none");
-
 /** The coordinator's landing page: what needs attention this week, and every running trial's farms in counts and dates. */
 export default async function CoordinatorHomePage() {
   const member = await requirePage("trial:follow-all-farms");
-  const home = await getCoordinatorHome(member);
+  const [home, display] = await Promise.all([getCoordinatorHome(member), timeDisplayFor(member)]);
+  // In the coordinator's zone and date style, as every page writes them.
+  const dateTime = (value: Date | null) => (value ? formatDateTime(value, display) : "none");
+  const date = (value: string | null) => (value ? formatDate(value, display.dateStyle) : "none");
   return (
     <>
       <PageHeader
@@ -31,7 +34,7 @@ export default async function CoordinatorHomePage() {
               {home.attention.map((item, index) => (
                 <li key={index}>
                   <time dateTime={item.date} className="font-mono text-ink-soft">
-                    {item.date}
+                    {date(item.date)}
                   </time>{" "}
                   <Link href={`/trials/${item.trialId}`} className="font-medium text-moss-700 underline">
                     {item.trialCode}
@@ -77,9 +80,9 @@ export default async function CoordinatorHomePage() {
                       <td>
                         {farm.progress.blocksMade} of {farm.progress.blocksListed}
                       </td>
-                      <td>{farm.lastInoculatedOn ?? "none"}</td>
+                      <td>{date(farm.lastInoculatedOn)}</td>
                       <td>{farm.harvests}</td>
-                      <td>{farm.lastHarvestedOn ?? "none"}</td>
+                      <td>{date(farm.lastHarvestedOn)}</td>
                       <td>{farm.uploads}</td>
                       <td>{dateTime(farm.lastUploadAt)}</td>
                       <td>

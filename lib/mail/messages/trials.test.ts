@@ -1,4 +1,5 @@
 import { describe, expect, it } from "vitest";
+import type { TimeDisplay } from "@/lib/time/display";
 import { resultsAmendedMail, resultsPublishedMail, trialInvitationMail } from "./trials";
 
 const trial = { code: "T-9", title: "Bran <20 %> & more", question: "Which is better?" };
@@ -8,7 +9,7 @@ describe("trial e-mails", () => {
     const mail = trialInvitationMail({
       trial,
       farmName: "Fernbrook",
-      deadline: "2026-12-20",
+      deadline: { date: "2026-12-20", display: { timeZone: "UTC", dateStyle: "iso" } },
       blocksPerArmWanted: null,
       arms: 2,
       enrolUrl: "http://x/trials/1?a=1&b=2",
@@ -28,6 +29,28 @@ describe("trial e-mails", () => {
     expect(invitation(6).html).toContain("6 blocks per arm");
     expect(invitation(1).text).toContain("for 1 block per arm: 3 arms, so 3 blocks in all.");
     expect(invitation(null).text).not.toContain("asks each farm");
+  });
+
+  it("gives the answer-by date in the reader's date style and its end in the reader's zone", () => {
+    const answerBy = (display: TimeDisplay) =>
+      trialInvitationMail({
+        trial,
+        farmName: "Fernbrook",
+        deadline: { date: "2026-12-10", display },
+        blocksPerArmWanted: null,
+        arms: 2,
+        enrolUrl: "u",
+        optOutUrl: "o",
+      }).text;
+    // Answers are taken through 10 December in UTC, i.e. until 11 December 00:00 UTC. Berlin is UTC+1 in
+    // December (CET), Auckland UTC+13 (NZDT): tz database, as ICU ships it.
+    expect(answerBy({ timeZone: "Europe/Berlin", dateStyle: "day-month-year-dots" })).toContain(
+      "Please answer by 10.12.2026 (answers are taken until 11.12.2026 01:00 CET)",
+    );
+    expect(answerBy({ timeZone: "Pacific/Auckland", dateStyle: "day-month-year" })).toContain(
+      "Please answer by 10/12/2026 (answers are taken until 11/12/2026 13:00 GMT+13)",
+    );
+    expect(answerBy({ timeZone: "UTC", dateStyle: "iso" })).toContain("until 2026-12-11 00:00 UTC");
   });
 
   it("sends results without an unsubscribe link, since they are not reminders", () => {

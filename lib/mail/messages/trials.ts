@@ -1,3 +1,5 @@
+import { formatDate, formatDateTime, type TimeDisplay } from "@/lib/time/display";
+
 /**
  * The trial e-mails, each with a plain-text and an HTML part. Farm messages end with a link
  * to stop reminders for that farm's enrolment.
@@ -32,10 +34,21 @@ ${optOutUrl ? `<p style="font-size:13px;color:#555"><a href="${escapeHtml(optOut
   return { subject, text, html };
 }
 
+/**
+ * "10/12/2026 (answers are taken until 11/12/2026 01:00 CET)": the deadline day in the reader's
+ * date style, and the moment it ends (the end of that day in UTC, as the app checks it) in their zone.
+ */
+function answerBy(deadline: { date: string; display: TimeDisplay }): string {
+  const ends = new Date(`${deadline.date}T00:00:00Z`);
+  ends.setUTCDate(ends.getUTCDate() + 1);
+  return `${formatDate(deadline.date, deadline.display.dateStyle)} (answers are taken until ${formatDateTime(ends, deadline.display)})`;
+}
+
 export function trialInvitationMail(input: {
   trial: TrialFacts;
   farmName: string;
-  deadline: string | null;
+  /** The last day answers are taken (YYYY-MM-DD; the app takes them until that day ends in UTC), and how the reader reads dates. */
+  deadline: { date: string; display: TimeDisplay } | null;
   /** What the design asks of each farm (its sample size), when the design says; and how many arms there are. */
   blocksPerArmWanted: number | null;
   arms: number;
@@ -54,7 +67,7 @@ export function trialInvitationMail(input: {
           ]
         : []),
       input.deadline
-        ? `Please answer by ${input.deadline}: accept and say how many blocks per arm you can run, or decline.`
+        ? `Please answer by ${answerBy(input.deadline)}: accept and say how many blocks per arm you can run, or decline.`
         : "Please accept and say how many blocks per arm you can run, or decline.",
     ],
     { label: "Read the protocol and answer", url: input.enrolUrl },

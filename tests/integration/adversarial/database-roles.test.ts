@@ -78,6 +78,36 @@ describe("the pooled-analysis role", () => {
     }
   });
 
+  it("reads no note or free text of the registers or trials, and nothing of farms or enrolments", async () => {
+    // Before 0048 it read every column of the registers and trials: a strain's notes and proposer, a trial's protocol notes.
+    const denied: [string, string][] = [
+      ["strains", "notes"],
+      ["strains", "proposed_by"],
+      ["strains", "code"],
+      ["species", "scientific_name"],
+      ["substrate_recipes", "base"],
+      ["substrate_recipes", "supplement"],
+      ["treatments", "description"],
+      ["trials", "protocol_notes"],
+      ["trials", "question"],
+      ["trial_arms", "label"],
+      ["trial_enrolments", "farm_id"],
+      ["farms", "id"],
+      ["farms", "status"],
+    ];
+    for (const [table, column] of denied) {
+      expect(await refusal(`select ${column} from ${table} limit 1`), `${table}.${column}`).toMatch(/permission denied/);
+    }
+    // What the pooled pages name stays readable.
+    const { rows } = await asAnalyst((client) =>
+      client.query<{ n: number }>(
+        `select (select count(*)::int from species where common_name <> '') + (select count(*)::int from strains where name <> '' and species_id is not null)
+              + (select count(*)::int from substrate_recipes where name <> '') + (select count(*)::int from treatments where kind = 'fruiting_method') as n`,
+      ),
+    );
+    expect(rows[0].n).toBeGreaterThan(4);
+  });
+
   it("still reads what pooled figures are made of", async () => {
     const { rows } = await asAnalyst((client) =>
       client.query<{ blocks: number; harvests: number }>(

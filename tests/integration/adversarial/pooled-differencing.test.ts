@@ -278,7 +278,13 @@ describe("the co-op's minimum number of farms", () => {
   it("cannot be set below 3, where each of two farms would learn the other's figures by subtracting its own", async () => {
     try {
       await expect(
-        updateCooperativeSettings(coordinator, { minimumFarms: 2, showPerFarmEstimates: false, releaseSchedule: "daily", releaseHour: 2 }),
+        updateCooperativeSettings(coordinator, {
+          minimumFarms: 2,
+          showPerFarmEstimates: false,
+          releaseSchedule: "daily",
+          releaseHour: 2,
+          releaseTimeZone: "UTC",
+        }),
       ).rejects.toThrow(/cannot be below 3/);
       expect(await databaseRefusal(inspector.query("update cooperative_settings set minimum_farms = 2"))).toMatch(/check constraint/);
     } finally {

@@ -145,6 +145,20 @@ describe("a copied session cookie", () => {
     expect(await works(copied)).toBe(false);
   });
 
+  it("stops working when the member is moved to another farm, whoever moves them (here psql)", async () => {
+    const { rows } = await inspector.query<{ id: string }>("insert into farms (name) values ($1) returning id", [
+      `Moved-to farm ${randomUUID().slice(0, 6)}`,
+    ]);
+    madeFarms.push(rows[0].id);
+    const grower = await person("grower", fernbrookId);
+    const copied = await signIn(grower);
+    expect(await works(copied)).toBe(true);
+    // The cookie names no farm; a session kept after a move would act for the new farm with the old sign-in.
+    await inspector.query("update users set farm_id = $2 where id = $1", [grower.id, rows[0].id]);
+    await vi.waitFor(async () => expect(await works(copied)).toBe(false), patiently);
+    expect((await memberForSession(await signIn(grower)))?.farmId).toBe(rows[0].id);
+  });
+
   it("stops working when someone changes the password outside the app (psql), once PostgreSQL tells the process", async () => {
     const member = await person("observer");
     const copied = await signIn(member);

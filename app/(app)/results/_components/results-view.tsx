@@ -10,6 +10,7 @@ import { DataTable } from "@/components/ui/data-table";
 import { Notice } from "@/components/ui/notice";
 import { WordsExplained } from "@/components/ui/words-explained";
 import {
+  describeReleaseSchedule,
   dryingPercent,
   flushWindowLabels,
   flushWindows,
@@ -77,6 +78,7 @@ export function ResultsView(props: { page: PooledResultsPage; selection: Results
   const router = useRouter();
   const [pending, startTransition] = useTransition();
   const address = resultsAddress("/results", selection);
+  const scheduleSaid = describeReleaseSchedule(page.releaseSchedule.schedule, page.releaseSchedule.at, display);
   // Each change is a new address: the server renders that view, and the back button steps back through the changes.
   const choose = (event: React.ChangeEvent<HTMLSelectElement>) => {
     const form = new FormData(event.currentTarget.form ?? undefined);
@@ -168,12 +170,12 @@ export function ResultsView(props: { page: PooledResultsPage; selection: Results
         </p>
       ) : null}
 
-      <ReleaseLine release={page.release} schedule={page.releaseSchedule} minimumFarms={page.results?.minimumFarms} display={display} />
+      <ReleaseLine release={page.release} schedule={scheduleSaid} minimumFarms={page.results?.minimumFarms} display={display} />
 
       <div aria-busy={pending} className={pending ? "space-y-6 opacity-60" : "space-y-6"}>
         {!page.release ? (
           <Notice title="No release yet">
-            <p>The co-op publishes its pooled figures as dated releases. The first one comes {page.releaseSchedule}.</p>
+            <p>The co-op publishes its pooled figures as dated releases. The first one comes {scheduleSaid}.</p>
           </Notice>
         ) : !page.results || page.results.strains.length === 0 ? (
           <Notice title="Not enough data">

@@ -6,9 +6,11 @@ import { guardedAction } from "@/lib/auth/guard";
 import { cutReleaseNow } from "@/lib/data/pooled-releases";
 import { updateCooperativeSettings } from "@/lib/data/pooled-settings";
 import { cooperativeSettingsSchema } from "@/lib/pooled";
+import { timeDisplayFor } from "@/lib/time/member-display";
 
 export const updateCooperativeSettingsAction = guardedAction("settings:manage", cooperativeSettingsSchema, async (input, member) => {
-  await updateCooperativeSettings(member, input);
+  // The hour is read on the clocks of the zone the coordinator reads every other time in.
+  await updateCooperativeSettings(member, { ...input, releaseTimeZone: (await timeDisplayFor(member)).timeZone });
   revalidatePath("/settings/cooperative");
   revalidatePath("/results");
   return { status: "ok", message: "Saved. Co-op results use the new settings from now on." };

@@ -6,6 +6,7 @@ import { getReleaseStatus } from "@/lib/data/pooled-releases";
 import { getCooperativeSettingsForEditing } from "@/lib/data/pooled-settings";
 import { getSeasonStart } from "@/lib/data/seasons";
 import { getUploadRetentionDays } from "@/lib/data/upload-limits";
+import { releaseHourIn } from "@/lib/pooled";
 import { monthOptions, seasonLabel, seasonOfDate, seasonStartLabel } from "@/lib/seasons";
 import { timeDisplayFor } from "@/lib/time/member-display";
 import { ActionForm } from "@/components/forms/action-form";
@@ -31,7 +32,13 @@ export default async function CooperativeSettingsPage() {
       <PageHeader title="Co-op settings" lead={`How ${name} publishes pooled results without exposing any one farm.`} />
       <div className="space-y-6">
         <Card>
-          <CooperativeSettingsForm settings={settings} />
+          <CooperativeSettingsForm
+            settings={{
+              ...settings,
+              releaseHour: releaseHourIn({ hour: settings.releaseHour, timeZone: settings.releaseTimeZone }, display.timeZone),
+            }}
+            timeZone={display.timeZone}
+          />
         </Card>
         <Card title="Releases of the pooled figures">
           <ReleasePanel status={releases} display={display} />

@@ -76,7 +76,7 @@ export default async function TrialPage({ params }: { params: Promise<{ trialId:
           {member.farmId ? <FarmSection trial={trial} member={member} /> : null}
           {review ? <CloseReviewCard review={review} outcomeFlushes={trial.outcomeFlushes} /> : null}
           {coordinator && (trial.runs.length || hasResults(trial.status)) ? <AnalysisRunsCard trial={trial} display={display} /> : null}
-          {coordinator && trial.status !== "draft" ? <CoordinatorFollowing trial={trial} member={member} /> : null}
+          {coordinator && trial.status !== "draft" ? <CoordinatorFollowing trial={trial} member={member} display={display} /> : null}
           <ProtocolSummary trial={trial} dateStyle={display.dateStyle} />
         </div>
         <div className="space-y-6">
@@ -198,7 +198,7 @@ async function CoordinatorControls(props: { trial: TrialView; member: Member; re
   );
 }
 
-async function CoordinatorFollowing({ trial, member }: { trial: TrialView; member: Member }) {
+async function CoordinatorFollowing({ trial, member, display }: { trial: TrialView; member: Member; display: TimeDisplay }) {
   const [progress, invitable] = await Promise.all([
     listTrialProgress(member, trial),
     trial.status === "open" ? listInvitableFarms(member, trial.id) : Promise.resolve([]),
@@ -272,9 +272,7 @@ async function CoordinatorFollowing({ trial, member }: { trial: TrialView; membe
                     <td data-testid="behind">{row.behind ? "Behind" : row.status === "accepted" ? "On time" : ""}</td>
                     <td data-testid="last-reminded">
                       {row.lastRemindedAt ? (
-                        <time dateTime={row.lastRemindedAt.toISOString()}>
-                          {row.lastRemindedAt.toISOString().slice(0, 16).replace("T", " ")} UTC
-                        </time>
+                        <time dateTime={row.lastRemindedAt.toISOString()}>{formatDateTime(row.lastRemindedAt, display)}</time>
                       ) : (
                         "Never"
                       )}

@@ -10,7 +10,8 @@ import { updateCooperativeSettingsAction } from "../actions";
 
 const selectClass = "block min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3 py-2 text-base text-ink";
 
-export function CooperativeSettingsForm({ settings }: { settings: CooperativeSettingsInput }) {
+/** `timeZone`: the coordinator's own, whose clocks the release hour is shown and saved on. */
+export function CooperativeSettingsForm({ settings, timeZone }: { settings: CooperativeSettingsInput; timeZone: string }) {
   const [state, formAction, pending] = useActionState<ActionState, FormData>(updateCooperativeSettingsAction, { status: "idle" });
   return (
     <form action={formAction} className="max-w-xl space-y-5">
@@ -76,7 +77,7 @@ export function CooperativeSettingsForm({ settings }: { settings: CooperativeSet
           ) : null}
         </div>
         <Field
-          label="At (hour, UTC)"
+          label={`At (hour, ${timeZone})`}
           name="releaseHour"
           type="number"
           inputMode="numeric"

@@ -25,7 +25,7 @@ export function ReleasePanel({ status, display }: { status: ReleaseStatus; displ
         ) : (
           "No release has been published yet."
         )}{" "}
-        Releases come {describeReleaseSchedule(status.schedule, status.hour)}
+        Releases come {describeReleaseSchedule(status.schedule, status.at, display)}
         {status.nextDueAt ? `; the next is due ${when(status.nextDueAt)}` : ""}.
         {status.lastAttempt
           ? ` The last scheduled attempt, ${when(status.lastAttempt.at)}: ${outcomeLabels[status.lastAttempt.outcome] ?? status.lastAttempt.outcome}.`
