@@ -37,6 +37,32 @@ function columnsFor(display: MassDisplay, dateStyle: DateStyle, seasonStart: Sea
         </span>
       ),
     },
+    {
+      accessorFn: (block) => block.biologicalEfficiency,
+      id: "be",
+      header: "BE %",
+      // Null after a harvest when the wet mass or the moisture is missing: BE needs the dry substrate mass.
+      cell: ({ row, getValue }) => (row.original.flushes === 0 ? noHarvestYet : percent(getValue() as number | null) || "no dry mass"),
+    },
+    {
+      accessorFn: (block) => block.state,
+      id: "state",
+      header: "State",
+      cell: ({ row }) => (
+        <span className={row.original.state === "contaminated" ? "font-semibold text-danger-ink" : ""}>{row.original.state}</span>
+      ),
+    },
+    {
+      // Sorted and downloaded as the flush and its YYYY-MM-DD day; shown in the member's date style.
+      accessorFn: (block) => (block.lastFlush ? `${block.lastFlush.flush} ${block.lastFlush.harvestedOn ?? ""}`.trim() : ""),
+      id: "lastFlush",
+      header: "Last flush",
+      cell: ({ row }) => {
+        const last = row.original.lastFlush;
+        if (!last) return "none yet";
+        return `${last.flush}, ${last.harvestedOn ? formatDate(last.harvestedOn, dateStyle) : "no date"}`;
+      },
+    },
     { accessorFn: (block) => block.recipeCode ?? "", id: "recipe", header: "Recipe" },
     {
       // Sorted and downloaded as YYYY-MM-DD; shown in the member's date style.
@@ -65,13 +91,6 @@ function columnsFor(display: MassDisplay, dateStyle: DateStyle, seasonStart: Sea
       cell: ({ row, getValue }) => (row.original.flushes === 0 ? noHarvestYet : formatMass(getValue() as number, display)),
     },
     {
-      accessorFn: (block) => block.biologicalEfficiency,
-      id: "be",
-      header: "BE %",
-      cell: ({ row, getValue }) => (row.original.flushes === 0 ? noHarvestYet : percent(getValue() as number | null)),
-    },
-    { accessorFn: (block) => (block.contaminated ? "yes" : "no"), id: "contaminated", header: "Contaminated" },
-    {
       accessorFn: (block) => block.massLoss,
       id: "massLoss",
       header: "Mass loss",
@@ -81,17 +100,22 @@ function columnsFor(display: MassDisplay, dateStyle: DateStyle, seasonStart: Sea
   ];
 }
 
-/** The farm's blocks, sortable and filterable; masses in the member's display units. */
+/** What a grower looks for first, shown at every width; the other columns are one tap away on a phone. */
+const firstColumns = ["code", "strain", "be", "state", "lastFlush"] as const;
+
+/** The farm's blocks, sortable; masses in the member's display units. The page searches them on the server. */
 export function BlocksTable({
   rows,
   display,
   dateStyle,
   seasonStart,
+  emptyMessage,
 }: {
   rows: BlockRow[];
   display: MassDisplay;
   dateStyle: DateStyle;
   seasonStart: SeasonStart;
+  emptyMessage: string;
 }) {
   const columns = useMemo(() => columnsFor(display, dateStyle, seasonStart), [display, dateStyle, seasonStart]);
   return (
@@ -99,8 +123,10 @@ export function BlocksTable({
       caption="Blocks and harvests"
       columns={columns}
       rows={rows}
-      emptyMessage="No blocks here yet. Upload your season log, or ask the farm manager to; or choose another season."
+      emptyMessage={emptyMessage}
       csvFileName="blocks-and-harvests.csv"
+      firstColumns={firstColumns}
+      filterable={false}
     />
   );
 }
