@@ -41,6 +41,7 @@ export interface BlockRow {
 }
 
 export interface BlockDetail extends BlockRow {
+  strainId: string;
   spentMassG: number | null;
   contaminatedOn: string | null;
   notes: string;
@@ -82,6 +83,7 @@ export interface HarvestTarget {
 const blockColumns = {
   id: blocks.id,
   code: blocks.code,
+  strainId: blocks.strainId,
   strainCode: strains.code,
   strainName: strains.name,
   recipeCode: substrateRecipes.code,
@@ -105,6 +107,7 @@ const blockColumns = {
 type BlockSelection = {
   id: string;
   code: string;
+  strainId: string;
   strainCode: string;
   strainName: string;
   recipeCode: string | null;
@@ -122,7 +125,9 @@ type BlockSelection = {
   lastFlush: { flush: number; harvestedOn: string | null } | null;
 };
 
-function withFigures(row: BlockSelection): BlockRow & { spentMassG: number | null; contaminatedOn: string | null; notes: string } {
+function withFigures(
+  row: BlockSelection,
+): BlockRow & { strainId: string; spentMassG: number | null; contaminatedOn: string | null; notes: string } {
   const totalFreshG = Number(row.totalFreshG);
   return {
     ...row,

@@ -245,3 +245,39 @@ export async function getCoopStrainBenchmarks(
     return { minimumFarms, byStrain };
   });
 }
+
+/** The co-op's share of yield by flush for one strain, as Co-op results publish it, or why it is withheld. */
+export type StrainFlushCurve =
+  { status: "published"; releaseNumber: number; shares: { flush: number; meanShare: number }[] } | { status: "withheld"; message: string };
+
+/**
+ * One strain's pooled flush profile (any recipe, any fruiting method, all flushes) from the newest
+ * release, under the same rule and at the same step as "Strains side by side": published only where
+ * at least the co-op's minimum number of farms have finished blocks of it. Never computed live.
+ */
+export async function getStrainFlushCurve(strainId: string): Promise<StrainFlushCurve> {
+  return withAnalystAccess(async (tx) => {
+    const [settings] = await tx.select({ minimumFarms: cooperativeSettings.minimumFarms }).from(cooperativeSettings);
+    const minimumFarms = settings?.minimumFarms ?? 3;
+    const release = await latestRelease(tx);
+    if (!release) return { status: "withheld", message: "The co-op has published no release of its pooled figures yet." };
+    const [strain] = await tx.select({ speciesId: strains.speciesId }).from(strains).where(eq(strains.id, strainId));
+    if (!strain) return { status: "withheld", message: "This strain is not in the co-op's register." };
+    const contents = await releaseContents(tx, release.number, { speciesId: strain.speciesId });
+    const flushRows = contents.flushRows.filter((row) => row.strainId === strainId);
+    const farms = new Set(flushRows.filter((row) => row.finishedBlocks > 0).map((row) => row.farmId)).size;
+    const why = `withheld in release ${release.number}`;
+    if (farms < minimumFarms)
+      return {
+        status: "withheld",
+        message: `The co-op's curve for this strain is ${why}: fewer than ${minimumFarms} farms have finished blocks of it (spent mass weighed), and a curve from fewer could show one farm's harvests.`,
+      };
+    const profile = pooledFlushProfile(flushRows);
+    if (!profile) return { status: "withheld", message: `The co-op's curve for this strain is ${why}: not enough finished blocks yet.` };
+    return {
+      status: "published",
+      releaseNumber: release.number,
+      shares: profile.map((share) => ({ flush: share.flush, meanShare: roundTo(share.meanShare, publishedSteps.flushShare) })),
+    };
+  });
+}

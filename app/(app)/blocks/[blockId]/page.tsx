@@ -18,6 +18,7 @@ import { BlockCorrectionForm, HarvestCorrectionForm } from "./_components/correc
 import { formatDate, formatDateTime } from "@/lib/time/display";
 import { timeDisplayFor } from "@/lib/time/member-display";
 import { ScrollFrame } from "@/components/ui/scroll-frame";
+import { FlushChart } from "@/components/blocks/flush-chart";
 
 export const metadata: Metadata = { title: "Block" };
 
@@ -185,6 +186,7 @@ export default async function BlockPage({
             </ScrollFrame>
           )}
         </Card>
+        <FlushChart block={block} display={display} />
         {correctingBlock || correctedHarvest ? (
           <div id="correction">
             <Card title={correctedHarvest ? `Correct flush ${correctedHarvest.flush}` : "Correct the block's values"}>
