@@ -18,6 +18,9 @@ import {
   roundTo,
   type FlushWindow,
   type OwnStrainBlocks,
+  ownLeftOutNotes,
+  type OwnLeftOutCounts,
+  type OwnLeftOutNote,
   type PooledFilters,
   type PooledResults,
 } from "@/lib/pooled";
@@ -48,6 +51,8 @@ export interface PooledResultsPage {
   results: PooledResults | null;
   /** The viewer's own blocks' biological efficiency by strain, for the boxplot overlay (farm people only). */
   ownBlocks: OwnStrainBlocks[];
+  /** What keeps the viewer's own blocks out of these figures and how to fix it (farm people only; their own counts). */
+  ownLeftOut: OwnLeftOutNote[];
 }
 
 /**
@@ -63,7 +68,43 @@ export async function getPooledResults(member: Member, query: PooledResultsQuery
     ...(query.fruitingMethodId ? { fruitingMethodId: query.fruitingMethodId } : {}),
   };
   const ownBlocks = member.farmId && page.speciesId ? await keptOwnBlocks(member, page.speciesId, query.flushWindow, filters) : [];
-  return { ...page, ownBlocks };
+  const ownLeftOut =
+    member.farmId && page.speciesId
+      ? ownLeftOutNotes(await countOwnLeftOut(member, page.speciesId), {
+          byFruitingMethod: Boolean(filters.fruitingMethodId),
+          byRecipe: Boolean(filters.substrateRecipeId),
+        })
+      : [];
+  return { ...page, ownBlocks, ownLeftOut };
+}
+
+/**
+ * The viewer's own blocks of a species, by strain, that lack what a pooled figure needs (through
+ * their own farm's context, so row-level security holds them to it). Strains with no gap are left out.
+ */
+export async function countOwnLeftOut(member: Member, speciesId: string | null): Promise<OwnLeftOutCounts[]> {
+  if (!member.farmId) return [];
+  return asMember(member, async (tx) => {
+    const result = await tx.execute<{ strain_name: string; no_dry_mass: number; no_fruiting_method: number; no_recipe: number }>(sql`
+      select s.name as strain_name,
+        count(*) filter (where not b.contaminated and (b.wet_mass_g is null or b.wet_mass_g <= 0 or b.moisture is null or b.moisture >= 1)
+          and exists (select 1 from harvests h where h.block_id = b.id))::int as no_dry_mass,
+        count(*) filter (where b.fruiting_method_id is null)::int as no_fruiting_method,
+        count(*) filter (where b.substrate_recipe_id is null)::int as no_recipe
+      from blocks b
+      join strains s on s.id = b.strain_id
+      where b.farm_id = ${member.farmId} and (${speciesId}::uuid is null or s.species_id = ${speciesId}::uuid)
+      group by s.id, s.name
+      order by s.name`);
+    return result.rows
+      .map((row) => ({
+        strainName: row.strain_name,
+        noDryMass: Number(row.no_dry_mass),
+        noFruitingMethod: Number(row.no_fruiting_method),
+        noRecipe: Number(row.no_recipe),
+      }))
+      .filter((row) => row.noDryMass + row.noFruitingMethod + row.noRecipe > 0);
+  });
 }
 
 /**
@@ -90,7 +131,10 @@ function resultsKey(query: PooledResultsQuery): string {
   return JSON.stringify([query.speciesId ?? null, query.substrateRecipeId ?? null, query.fruitingMethodId ?? null, query.flushWindow]);
 }
 
-async function computePooledResults(member: Member, query: PooledResultsQuery): Promise<Omit<PooledResultsPage, "ownBlocks">> {
+async function computePooledResults(
+  member: Member,
+  query: PooledResultsQuery,
+): Promise<Omit<PooledResultsPage, "ownBlocks" | "ownLeftOut">> {
   const analysed = await withAnalystAccess(async (tx) => {
     const [settings] = await tx.select().from(cooperativeSettings);
     const speciesList = await tx.select({ id: species.id, name: species.commonName }).from(species).orderBy(asc(species.commonName));

@@ -59,3 +59,4 @@ export { ownBlocksForChart, type OwnStrainBlocks } from "./own-blocks";
 export { cooperativeSettingsSchema, lowestMinimumFarms, type CooperativeSettingsInput } from "./settings-schema";
 export { resultsInBrief } from "./in-brief";
 export { strainTableRow, type StrainTableRow } from "./strain-row";
+export { ownLeftOutNotes, type OwnLeftOutCounts, type OwnLeftOutNote } from "./own-left-out";

@@ -15,7 +15,9 @@ describe("what keeps the viewer's own blocks out of a pooled figure", () => {
     expect(one.text).toContain("block_wet_weight and substrate_moisture");
     expect(one.fix.href).toBe("/blocks");
     const [twelve] = ownLeftOutNotes([{ ...strain, noDryMass: 12 }], anyFilter);
-    expect(twelve.text).toMatch(/^Your 12 blocks of Grey Morning with a harvest have no dry substrate mass \(.*\), so they have no BE and are not/);
+    expect(twelve.text).toMatch(
+      /^Your 12 blocks of Grey Morning with a harvest have no dry substrate mass \(.*\), so they have no BE and are not/,
+    );
   });
 
   it("names a missing fruiting method or recipe only under that filter", () => {

@@ -16,7 +16,7 @@ export interface OwnLeftOutNote {
   fix: { href: string; label: string };
 }
 
-const columnsPage = { href: "/season-logs/columns", label: "The season-log columns" };
+const columnsPage = { href: "/season-logs/columns", label: "See the season-log columns" };
 
 /**
  * What the viewer can fix in their own records so their blocks count: one sentence per strain and
@@ -32,8 +32,8 @@ export function ownLeftOutNotes(
     const yours = (n: number) => `Your ${count(n, "block")} of ${strain.strainName}`;
     if (strain.noDryMass > 0)
       notes.push({
-        text: `${yours(strain.noDryMass)} with a harvest ${agree(strain.noDryMass, "has", "have")} no dry substrate mass (a wet block weight and a moisture), so ${agree(strain.noDryMass, "it has no BE and is", "they have no BE and are")} not in the co-op's BE figures or your place among them. Add block_wet_weight and substrate_moisture to your season log and upload it again, or correct each block on its page (its BE reads “no dry mass” in Blocks & harvests).`,
-        fix: { href: "/blocks", label: "Blocks & harvests" },
+        text: `${yours(strain.noDryMass)} with a harvest ${agree(strain.noDryMass, "has", "have")} no dry substrate mass (a wet block weight and a moisture), so ${agree(strain.noDryMass, "it has no BE and is", "they have no BE and are")} not in the co-op's BE figures or your place among them. Add block_wet_weight and substrate_moisture to your season log and upload it again, or correct each block on its page: in Blocks & harvests their BE reads “no dry mass”.`,
+        fix: { href: "/blocks", label: "Open Blocks & harvests" },
       });
     if (view.byFruitingMethod && strain.noFruitingMethod > 0)
       notes.push({

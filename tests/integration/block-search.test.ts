@@ -9,7 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase } from "@/db/client";
 import { listBlocks } from "@/lib/data/blocks";
 import type { Member } from "@/lib/data/members";
-import { getPooledResults, getStrainFlushCurve } from "@/lib/data/pooled-results";
+import { countOwnLeftOut, getPooledResults, getStrainFlushCurve } from "@/lib/data/pooled-results";
 import { memberOf, superuserPool, twoDemoFarms, type DemoFarm } from "./support/database";
 
 let inspector: Pool;
@@ -20,6 +20,7 @@ let managerB: Member;
 const noted: { id: string; farmId: string; code: string }[] = [];
 const run = Date.now().toString(36);
 const strainCode = `ZZ-${run}`;
+const methodsTaken: [string, string | null][] = [];
 
 async function firstBlocks(farmId: string, how: number) {
   const { rows } = await inspector.query<{ id: string; code: string }>(
@@ -49,6 +50,8 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await inspector.query("update blocks set notes = '' where id = any($1)", [noted.map((block) => block.id)]);
+  for (const [id, methodId] of methodsTaken)
+    await inspector.query("update blocks set fruiting_method_id = $2 where id = $1", [id, methodId]);
   await inspector.query("delete from strains where code = $1", [strainCode]);
   await inspector.end();
   await closeDatabase();
@@ -114,5 +117,27 @@ describe("the co-op's curve on a block's page", () => {
     const curve = await getStrainFlushCurve(rows[0].id);
     expect(curve.status).toBe("withheld");
     if (curve.status === "withheld") expect(curve.message).toMatch(/fewer than \d farms have finished blocks/);
+  });
+});
+
+describe("what keeps a farm's own blocks out of a figure", () => {
+  it("counts the viewer's own blocks only, never another farm's", async () => {
+    // One block of each farm loses its fruiting method; each farm is told of its own alone.
+    const { rows: taken } = await inspector.query<{ id: string; fruiting_method_id: string | null }>(
+      "select id, fruiting_method_id from blocks where id = any($1)",
+      [[noted[0].id, noted[2].id]],
+    );
+    for (const row of taken) methodsTaken.push([row.id, row.fruiting_method_id]);
+    await inspector.query("update blocks set fruiting_method_id = null where id = any($1)", [taken.map((row) => row.id)]);
+    const expected = async (farmId: string) =>
+      (
+        await inspector.query<{ n: number }>("select count(*)::int as n from blocks where farm_id = $1 and fruiting_method_id is null", [
+          farmId,
+        ])
+      ).rows[0].n;
+    const total = (counts: Awaited<ReturnType<typeof countOwnLeftOut>>) => counts.reduce((sum, strain) => sum + strain.noFruitingMethod, 0);
+    expect(total(await countOwnLeftOut(managerA, null))).toBe(await expected(farmA.id));
+    expect(total(await countOwnLeftOut(managerB, null))).toBe(await expected(farmB.id));
+    expect(await expected(farmA.id)).toBeGreaterThan(0);
   });
 });

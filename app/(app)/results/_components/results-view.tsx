@@ -11,6 +11,7 @@ import { WordsExplained } from "@/components/ui/words-explained";
 import { flushWindowLabels, flushWindows, resultsInBrief, strainTableRow, type FlushWindow, type StrainTableRow } from "@/lib/pooled";
 import type { ReleaseInfo } from "@/lib/data/pooled-releases";
 import { usePooledResults, type PooledResultsSelection } from "@/lib/queries/pooled-results";
+import { OwnDataNotice } from "@/components/ui/own-data-notice";
 import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 
 type StrainRow = StrainTableRow;
@@ -109,6 +110,7 @@ export function ResultsView({ showsOwnFarm, display }: { showsOwnFarm: boolean; 
         </label>
       </form>
 
+      {page ? <OwnDataNotice notes={page.ownLeftOut} /> : null}
       {page ? (
         <ReleaseLine release={page.release} schedule={page.releaseSchedule} minimumFarms={page.results?.minimumFarms} display={display} />
       ) : null}
