@@ -6,6 +6,7 @@ import { z } from "zod";
 import { guardedAction } from "@/lib/auth/guard";
 import { correctBlock, correctHarvest, deleteHarvest } from "@/lib/data/corrections";
 import { blockCorrectionSchema, harvestCorrectionSchema, harvestRemovalSchema } from "@/lib/season-logs/corrections";
+import { count } from "@/lib/words";
 
 const confirm = (warnings: { code: string; field: string; message: string }[]) => ({
   status: "confirm" as const,
@@ -18,7 +19,7 @@ const saved = (changed: number) => ({
   message:
     changed === 0
       ? "Nothing changed: the values are as stored."
-      : `Saved ${changed} changed value${changed === 1 ? "" : "s"}, with your reason, in the history below.`,
+      : `Saved ${count(changed, "changed value")}, with your reason, in the history below.`,
 });
 
 export const correctBlockAction = guardedAction("farm-data:correct", blockCorrectionSchema, async (input, member) => {

@@ -6,6 +6,7 @@ import { DataTable } from "@/components/ui/data-table";
 import { seasonLogColumns } from "@/lib/import/schema";
 import type { ValueChange } from "@/lib/season-logs/plan";
 import type { UploadPreview } from "@/lib/season-logs/report";
+import { agree, count } from "@/lib/words";
 
 const titles = new Map<string, string>(seasonLogColumns.map((column) => [column.name, column.title]));
 
@@ -17,15 +18,13 @@ const columns: ColumnDef<ValueChange, unknown>[] = [
   { accessorFn: (change) => change.newValue ?? "(blank)", id: "new", header: "After commit" },
 ];
 
-const plural = (count: number, one: string) => `${count} ${one}${count === 1 ? "" : "s"}`;
-
 /** "8 harvests recorded with the phone form and 2 from other files are not in this file." */
 function notInFileWords(phoneForm: number, otherFiles: number): string {
   const parts = [
-    ...(phoneForm > 0 ? [`${plural(phoneForm, "harvest")} recorded with the phone form`] : []),
-    ...(otherFiles > 0 ? [`${phoneForm > 0 ? otherFiles : plural(otherFiles, "harvest")} from other files`] : []),
+    ...(phoneForm > 0 ? [`${count(phoneForm, "harvest")} recorded with the phone form`] : []),
+    ...(otherFiles > 0 ? [`${phoneForm > 0 ? otherFiles : count(otherFiles, "harvest")} from other files`] : []),
   ];
-  return `${parts.join(" and ")} ${phoneForm + otherFiles === 1 ? "is" : "are"} not in this file.`;
+  return `${parts.join(" and ")} ${agree(phoneForm + otherFiles, "is", "are")} not in this file.`;
 }
 
 /** What a commit would do to the farm's stored blocks and harvests, and what it would leave or remove that the file does not have. */
@@ -87,7 +86,7 @@ export function PreviewOfChanges({
       ) : null}
       {preview.notInFile && preview.notInFile.blocks > 0 ? (
         <p className="mt-4 text-sm text-ink-soft">
-          {plural(preview.notInFile.blocks, "stored block")} {preview.notInFile.blocks === 1 ? "is" : "are"} not in this file; committing
+          {count(preview.notInFile.blocks, "stored block")} {preview.notInFile.blocks === 1 ? "is" : "are"} not in this file; committing
           leaves {preview.notInFile.blocks === 1 ? "it" : "them"} as {preview.notInFile.blocks === 1 ? "it is" : "they are"}.
         </p>
       ) : null}

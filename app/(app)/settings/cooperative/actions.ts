@@ -6,6 +6,7 @@ import { guardedAction } from "@/lib/auth/guard";
 import { cutReleaseNow } from "@/lib/data/pooled-releases";
 import { updateCooperativeSettings } from "@/lib/data/pooled-settings";
 import { cooperativeSettingsSchema } from "@/lib/pooled";
+import { count } from "@/lib/words";
 
 export const updateCooperativeSettingsAction = guardedAction("settings:manage", cooperativeSettingsSchema, async (input, member) => {
   await updateCooperativeSettings(member, input);
@@ -23,7 +24,10 @@ export const cutReleaseNowAction = guardedAction("settings:manage", cutReleaseSc
   revalidatePath("/settings/cooperative");
   revalidatePath("/results");
   if (attempt.outcome === "cut") {
-    return { status: "ok", message: `Release ${attempt.release.number} is published: ${attempt.figuresChanged} figures took new values.` };
+    return {
+      status: "ok",
+      message: `Release ${attempt.release.number} is published: ${count(attempt.figuresChanged, "figure")} took new values.`,
+    };
   }
   if (attempt.outcome === "waiting") {
     return {
