@@ -51,7 +51,9 @@ export async function FlushChart({ block, display }: { block: BlockDetail; displ
           <p className="text-ink-soft">
             Co-op line: the mean share of yield by flush of every member farm&apos;s finished blocks of {block.strainName} (any recipe and
             fruiting method), release {curve.releaseNumber}, as in Co-op results.
-            {coopByLastFlush === undefined ? "" : ` By flush ${last.flush} those blocks had given ${coopByLastFlush} % of their yield.`}
+            {coopByLastFlush === undefined || coopByLastFlush >= 100
+              ? ""
+              : ` By flush ${last.flush} those blocks had given ${coopByLastFlush} % of their yield.`}
           </p>
         ) : (
           <p className="text-ink-soft" data-testid="coop-curve-withheld">

@@ -51,7 +51,8 @@ describe("blocks and a block's page, at both widths", () => {
     const page = await phone.newPage();
     const errors = collectPageErrors(page);
     await new SignInPage(page).signIn("grower@fernbrook.example");
-    await new AppShell(page).waitUntilSignedIn();
+    // On a phone the menu (and the member's name in it) is folded away.
+    await page.waitForURL((url) => !url.pathname.startsWith("/sign-in"));
     const blocks = new BlocksPage(page);
     await blocks.open();
     await page.getByRole("table", { name: "Blocks and harvests" }).waitFor();

@@ -42,7 +42,12 @@ function columnsFor(display: MassDisplay, dateStyle: DateStyle, seasonStart: Sea
       id: "be",
       header: "BE %",
       // Null after a harvest when the wet mass or the moisture is missing: BE needs the dry substrate mass.
-      cell: ({ row, getValue }) => (row.original.flushes === 0 ? noHarvestYet : percent(getValue() as number | null) || "no dry mass"),
+      cell: ({ row, getValue }) =>
+        row.original.flushes === 0 ? (
+          noHarvestYet
+        ) : (
+          <span className="whitespace-nowrap">{percent(getValue() as number | null) || "no dry mass"}</span>
+        ),
     },
     {
       accessorFn: (block) => block.state,
@@ -60,7 +65,14 @@ function columnsFor(display: MassDisplay, dateStyle: DateStyle, seasonStart: Sea
       cell: ({ row }) => {
         const last = row.original.lastFlush;
         if (!last) return "none yet";
-        return `${last.flush}, ${last.harvestedOn ? formatDate(last.harvestedOn, dateStyle) : "no date"}`;
+        return (
+          <>
+            <span className="block whitespace-nowrap">flush {last.flush}</span>
+            <span className="block whitespace-nowrap text-ink-soft">
+              {last.harvestedOn ? formatDate(last.harvestedOn, dateStyle) : "no date"}
+            </span>
+          </>
+        );
       },
     },
     { accessorFn: (block) => block.recipeCode ?? "", id: "recipe", header: "Recipe" },
