@@ -99,7 +99,7 @@ export function DataTable<Row>({
   // A later column is hidden below the md breakpoint by a class, not by the table's state, so the
   // server's page and the phone's agree and nothing jumps once the script runs.
   const widthClass = (columnId: string) =>
-    firstColumns && !allColumnsOnPhone && !firstColumns.includes(columnId) ? "hidden md:table-cell" : "";
+    firstColumns ? `px-2 md:px-3 ${!allColumnsOnPhone && !firstColumns.includes(columnId) ? "hidden md:table-cell" : ""}` : "px-3";
   return (
     <div className="space-y-3">
       <div className="flex flex-wrap items-end gap-3">
@@ -159,7 +159,7 @@ export function DataTable<Row>({
                       key={header.id}
                       scope="col"
                       aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}
-                      className={`px-3 py-2 font-semibold ${widthClass(header.column.id)}`}
+                      className={`py-2 font-semibold ${widthClass(header.column.id)}`}
                     >
                       {header.column.getCanSort() ? (
                         <button type="button" onClick={header.column.getToggleSortingHandler()} className="flex items-center gap-1">
@@ -179,7 +179,7 @@ export function DataTable<Row>({
             {table.getRowModel().rows.map((row) => (
               <tr key={row.id} className="border-t border-oat-200 even:bg-oat-50">
                 {row.getVisibleCells().map((cell) => (
-                  <td key={cell.id} className={`px-3 py-2 align-top ${widthClass(cell.column.id)}`}>
+                  <td key={cell.id} className={`py-2 align-top ${widthClass(cell.column.id)}`}>
                     {flexRender(cell.column.columnDef.cell, cell.getContext())}
                   </td>
                 ))}

@@ -19,7 +19,8 @@ let laptop: BrowserContext;
 let inspector: Pool;
 let block: { id: string; code: string };
 const note = `tray 4 by the humidifier ${Date.now().toString(36)}`;
-const firstHeaders = ["Block", "Strain", "BE %", "State", "Last flush"];
+// The state (fruiting, spent, contaminated) sits under the block code on a phone.
+const firstHeaders = ["Block", "Strain", "BE %", "Last flush"];
 
 const headerTexts = async (blocks: BlocksPage) =>
   (await blocks.page.locator("thead th:visible").allTextContents()).map((text) => text.replace(/[▲▼↕]/g, "").trim());
@@ -57,7 +58,11 @@ describe("blocks and a block's page, at both widths", () => {
     await blocks.open();
     await page.getByRole("table", { name: "Blocks and harvests" }).waitFor();
     expect(await headerTexts(blocks)).toEqual(firstHeaders);
+    const firstCells = await page.locator("tbody tr td:first-child").allInnerTexts();
+    expect(firstCells.every((text) => /\n(fruiting|spent|contaminated|no harvest yet)$/.test(text.trim()))).toBe(true);
     expect(await page.getByRole("columnheader", { name: /Recipe/ }).isVisible()).toBe(false);
+    // The first columns fit the phone's width: the table needs no sideways scrolling.
+    expect(await page.locator("table").evaluate((table) => table.scrollWidth <= (table.parentElement?.clientWidth ?? 0))).toBe(true);
     await screenshot(page, "blocks-390-first-columns");
 
     const more = page.getByRole("button", { name: /Show all columns/ });
@@ -65,7 +70,9 @@ describe("blocks and a block's page, at both widths", () => {
     await more.focus();
     await page.keyboard.press("Enter");
     await page.getByRole("columnheader", { name: /Recipe/ }).waitFor();
-    expect(await headerTexts(blocks)).toEqual(expect.arrayContaining([...firstHeaders, "Recipe", "Inoculated", "Season", "Mass loss"]));
+    expect(await headerTexts(blocks)).toEqual(
+      expect.arrayContaining([...firstHeaders, "State", "Recipe", "Inoculated", "Season", "Mass loss"]),
+    );
     expect(await page.getByRole("button", { name: "Show fewer columns" }).getAttribute("aria-pressed")).toBe("true");
     await screenshot(page, "blocks-390-all-columns");
     expect(await pageLayoutProblems(page)).toEqual([]);
@@ -99,7 +106,11 @@ describe("blocks and a block's page, at both widths", () => {
     await page.getByRole("table", { name: "Blocks and harvests" }).waitFor();
     expect(await page.getByRole("button", { name: /Show all columns/ }).isVisible()).toBe(false);
     expect(await headerTexts(blocks)).toEqual([
-      ...firstHeaders,
+      "Block",
+      "Strain",
+      "BE %",
+      "State",
+      "Last flush",
       "Recipe",
       "Inoculated",
       "Season",

@@ -96,10 +96,10 @@ export class BlocksPage {
       .waitFor();
   }
 
-  /** Block codes in the visible rows. */
+  /** Block codes in the visible rows (the links in the first column; a phone shows the state under each). */
   async blockCodes(): Promise<string[]> {
     const table = this.page.getByRole("table", { name: "Blocks and harvests" });
-    return (await table.locator("tbody tr td:first-child").allTextContents()).map((text) => text.trim());
+    return (await table.locator("tbody tr td:first-child a").allTextContents()).map((text) => text.trim());
   }
 }
 
