@@ -11,7 +11,7 @@ import {
   type SortingState,
   type VisibilityState,
 } from "@tanstack/react-table";
-import { useState } from "react";
+import { useId, useState } from "react";
 import { toCsv } from "@/lib/csv";
 import { ScrollFrame } from "./scroll-frame";
 
@@ -27,6 +27,13 @@ export interface DataTableProps<Row> {
   csvFileName?: string;
   /** Columns only the CSV has, the same on every row (e.g. which release the figures come from). */
   csvConstants?: { header: string; value: string }[];
+  /**
+   * Ids of the columns a phone shows first; the others appear on wider screens, or on a phone after
+   * one tap on "Show all columns". Without it every column shows at every width.
+   */
+  firstColumns?: readonly string[];
+  /** False where the page searches on the server instead (its own form), so there is one search box, not two. */
+  filterable?: boolean;
 }
 
 /** Sort, filter, hide columns, page through and export: the one table every list in the app uses. */
@@ -38,8 +45,12 @@ export function DataTable<Row>({
   pageSize = 25,
   csvFileName,
   csvConstants = [],
+  firstColumns,
+  filterable = true,
 }: DataTableProps<Row>) {
   const [sorting, setSorting] = useState<SortingState>([]);
+  const [allColumnsOnPhone, setAllColumnsOnPhone] = useState(false);
+  const tableId = useId();
   const [filter, setFilter] = useState("");
   const [columnVisibility, setColumnVisibility] = useState<VisibilityState>({});
   // TanStack Table's instance is not memoisable; the React Compiler skips this component, as it should.
@@ -84,18 +95,36 @@ export function DataTable<Row>({
   if (rows.length === 0) return <p className="rounded-lg border border-oat-300 bg-white p-4 text-ink-soft">{emptyMessage}</p>;
 
   const pageCount = table.getPageCount();
+  const laterColumns = firstColumns ? table.getVisibleLeafColumns().filter((column) => !firstColumns.includes(column.id)) : [];
+  // A later column is hidden below the md breakpoint by a class, not by the table's state, so the
+  // server's page and the phone's agree and nothing jumps once the script runs.
+  const widthClass = (columnId: string) =>
+    firstColumns ? `px-2 md:px-3 ${!allColumnsOnPhone && !firstColumns.includes(columnId) ? "hidden md:table-cell" : ""}` : "px-3";
   return (
     <div className="space-y-3">
       <div className="flex flex-wrap items-end gap-3">
-        <label className="text-sm">
-          <span className="block font-medium">Filter</span>
-          <input
-            value={filter}
-            onChange={(event) => setFilter(event.target.value)}
-            placeholder="Type to filter rows"
-            className="min-h-11 rounded-lg border border-oat-300 bg-white px-3"
-          />
-        </label>
+        {filterable ? (
+          <label className="text-sm">
+            <span className="block font-medium">Filter</span>
+            <input
+              value={filter}
+              onChange={(event) => setFilter(event.target.value)}
+              placeholder="Type to filter rows"
+              className="min-h-11 rounded-lg border border-oat-300 bg-white px-3"
+            />
+          </label>
+        ) : null}
+        {laterColumns.length > 0 ? (
+          <button
+            type="button"
+            aria-pressed={allColumnsOnPhone}
+            aria-controls={tableId}
+            onClick={() => setAllColumnsOnPhone((shown) => !shown)}
+            className="min-h-11 rounded-lg border border-moss-600 bg-white px-3 text-sm font-semibold text-moss-700 md:hidden"
+          >
+            {allColumnsOnPhone ? "Show fewer columns" : `Show all columns (${laterColumns.length} more)`}
+          </button>
+        ) : null}
         <details className="text-sm">
           <summary className="min-h-11 cursor-pointer content-center rounded-lg border border-oat-300 bg-white px-3">Columns</summary>
           <div className="absolute z-10 mt-1 space-y-1 rounded-lg border border-oat-300 bg-white p-3 shadow">
@@ -118,7 +147,7 @@ export function DataTable<Row>({
         ) : null}
       </div>
       <ScrollFrame label={caption} className="rounded-lg border border-oat-300 bg-white">
-        <table className="min-w-full text-sm">
+        <table id={tableId} className="min-w-full text-sm">
           <caption className="sr-only">{caption}</caption>
           <thead className="bg-oat-200 text-left">
             {table.getHeaderGroups().map((group) => (
@@ -130,7 +159,7 @@ export function DataTable<Row>({
                       key={header.id}
                       scope="col"
                       aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}
-                      className="px-3 py-2 font-semibold"
+                      className={`py-2 font-semibold ${widthClass(header.column.id)}`}
                     >
                       {header.column.getCanSort() ? (
                         <button type="button" onClick={header.column.getToggleSortingHandler()} className="flex items-center gap-1">
@@ -150,7 +179,7 @@ export function DataTable<Row>({
             {table.getRowModel().rows.map((row) => (
               <tr key={row.id} className="border-t border-oat-200 even:bg-oat-50">
                 {row.getVisibleCells().map((cell) => (
-                  <td key={cell.id} className="px-3 py-2 align-top">
+                  <td key={cell.id} className={`py-2 align-top ${widthClass(cell.column.id)}`}>
                     {flexRender(cell.column.columnDef.cell, cell.getContext())}
                   </td>
                 ))}
@@ -159,7 +188,9 @@ export function DataTable<Row>({
           </tbody>
         </table>
       </ScrollFrame>
-      {table.getFilteredRowModel().rows.length === 0 ? <p className="text-sm text-ink-soft">No rows match “{filter}”.</p> : null}
+      {filterable && table.getFilteredRowModel().rows.length === 0 ? (
+        <p className="text-sm text-ink-soft">No rows match “{filter}”.</p>
+      ) : null}
       {pageCount > 1 ? (
         <nav aria-label={`${caption} pages`} className="flex items-center gap-3 text-sm">
           <button

@@ -3,7 +3,7 @@ import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { auditActions } from "./actions";
 import { foldRepeats } from "./fold";
-import { count, describeAuditEvent, listInWords } from "./sentences";
+import { describeAuditEvent } from "./sentences";
 
 const root = path.resolve(import.meta.dirname, "../..");
 
@@ -55,22 +55,6 @@ describe("every recorded action has a sentence", () => {
     const described = describeAuditEvent({ action: "block.renamed", subject: "B-014", actorLabel: "Ana", details: { x: 1 } });
     expect(described.sentence).toBe("Ana made a change: B-014.");
     expect(described.sentence).not.toContain("block.renamed");
-  });
-});
-
-describe("plurals and lists", () => {
-  it("counts one, none and many", () => {
-    expect(count(1, "block")).toBe("1 block");
-    expect(count(3, "block")).toBe("3 blocks");
-    expect(count(0, "harvest")).toBe("0 harvests");
-    expect(count(2, "harvest removed", "harvests removed")).toBe("2 harvests removed");
-  });
-
-  it("joins a list with commas and a final and", () => {
-    expect(listInWords([])).toBe("");
-    expect(listInWords(["a"])).toBe("a");
-    expect(listInWords(["a", "b"])).toBe("a and b");
-    expect(listInWords(["a", "b", "c"])).toBe("a, b and c");
   });
 });
 

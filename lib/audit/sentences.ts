@@ -7,6 +7,7 @@ import { roleLabels, type MemberRole } from "@/lib/auth/permissions";
 import { releaseScheduleLabels, type ReleaseSchedule } from "@/lib/pooled/release-schedule";
 import { trialStatusLabels, type TrialStatus } from "@/lib/trials/lifecycle";
 import type { AuditAction } from "./actions";
+import { count, listInWords } from "@/lib/words";
 
 export interface AuditEventInput {
   action: string;
@@ -26,17 +27,6 @@ export interface AuditDescription {
   sentence: string;
   details: AuditDetail[];
   link?: { href: string; label: string };
-}
-
-/** "1 block", "3 blocks", "0 blocks". */
-export function count(n: number, one: string, many: string = `${one}s`): string {
-  return `${n} ${n === 1 ? one : many}`;
-}
-
-/** "a, b and c". */
-export function listInWords(items: readonly string[]): string {
-  if (items.length <= 1) return items.join("");
-  return `${items.slice(0, -1).join(", ")} and ${items.at(-1)}`;
 }
 
 /** Who the log names: the person's name as it was then, or that nobody was signed in. */

@@ -1,3 +1,4 @@
+import { count } from "@/lib/words";
 /**
  * How fast wrong passwords may be tried. Locking an account after a few failures lets anyone
  * who knows a member's e-mail lock them out; instead each (account, network address) pair, and
@@ -32,7 +33,7 @@ export function waitBeforeNextTry(rule: PaceRule, failures: number, sinceLastFai
 
 /** "12 seconds", "3 minutes": how long a person is asked to wait. */
 export function waitInWords(seconds: number): string {
-  if (seconds < 60) return `${seconds} second${seconds === 1 ? "" : "s"}`;
+  if (seconds < 60) return `${count(seconds, "second")}`;
   const minutes = Math.ceil(seconds / 60);
-  return `${minutes} minute${minutes === 1 ? "" : "s"}`;
+  return `${count(minutes, "minute")}`;
 }

@@ -1,10 +1,11 @@
 import "server-only";
-import { and, asc, desc, eq, sql } from "drizzle-orm";
+import { and, asc, desc, eq, ilike, or, sql } from "drizzle-orm";
 import { blockRoomMoves, blocks, harvests, strains, substrateRecipes, trialArms, trials, uploads, users, valueChanges } from "@/db/schema";
 import { actor, recordAudit } from "@/lib/data/audit";
 import { queuePooledRefresh } from "@/lib/data/pooled-refresh";
 import { AppError } from "@/lib/errors";
-import { blockFigures, nextFlush } from "@/lib/season-logs/block-figures";
+import { blockFigures, blockState, nextFlush, type BlockState } from "@/lib/season-logs/block-figures";
+import { containsPattern } from "@/lib/season-logs/block-search";
 import {
   checkQuickHarvest,
   latestToday,
@@ -34,9 +35,14 @@ export interface BlockRow {
   contaminated: boolean;
   massLoss: number | null;
   trial: string | null;
+  /** Contaminated, spent, fruiting or not harvested yet (see blockState). */
+  state: BlockState;
+  /** The highest flush recorded and the day it was picked (null with no harvest, or no date given). */
+  lastFlush: { flush: number; harvestedOn: string | null } | null;
 }
 
 export interface BlockDetail extends BlockRow {
+  strainId: string;
   spentMassG: number | null;
   contaminatedOn: string | null;
   notes: string;
@@ -80,6 +86,7 @@ export interface HarvestTarget {
 const blockColumns = {
   id: blocks.id,
   code: blocks.code,
+  strainId: blocks.strainId,
   strainCode: strains.code,
   strainName: strains.name,
   recipeCode: substrateRecipes.code,
@@ -94,11 +101,16 @@ const blockColumns = {
   trial: sql<string | null>`case when ${trials.code} is null then null else ${trials.code} || ' · arm ' || ${trialArms.label} end`,
   flushes: sql<number>`(select count(*)::int from ${harvests} h where h.block_id = ${blocks.id})`,
   totalFreshG: sql<number>`(select coalesce(sum(h.fresh_mass_g), 0)::float8 from ${harvests} h where h.block_id = ${blocks.id})`,
+  lastFlush: sql<{
+    flush: number;
+    harvestedOn: string | null;
+  } | null>`(select json_build_object('flush', h.flush, 'harvestedOn', h.harvested_on) from ${harvests} h where h.block_id = ${blocks.id} order by h.flush desc limit 1)`,
 };
 
 type BlockSelection = {
   id: string;
   code: string;
+  strainId: string;
   strainCode: string;
   strainName: string;
   recipeCode: string | null;
@@ -113,12 +125,16 @@ type BlockSelection = {
   trial: string | null;
   flushes: number;
   totalFreshG: number;
+  lastFlush: { flush: number; harvestedOn: string | null } | null;
 };
 
-function withFigures(row: BlockSelection): BlockRow & { spentMassG: number | null; contaminatedOn: string | null; notes: string } {
+function withFigures(
+  row: BlockSelection,
+): BlockRow & { strainId: string; spentMassG: number | null; contaminatedOn: string | null; notes: string } {
   const totalFreshG = Number(row.totalFreshG);
   return {
     ...row,
+    state: blockState({ contaminated: row.contaminated, spentMassG: row.spentMassG, flushes: Number(row.flushes) }),
     season: row.season === null ? null : Number(row.season),
     flushes: Number(row.flushes),
     totalFreshG,
@@ -132,8 +148,11 @@ function withFigures(row: BlockSelection): BlockRow & { spentMassG: number | nul
   };
 }
 
-/** The farm's blocks with flush count, total fresh weight, biological efficiency and mass loss; of one season when asked. */
-export async function listBlocks(member: Member, filter: { season?: number | null } = {}): Promise<BlockRow[]> {
+/**
+ * The farm's blocks with flush count, total fresh weight, biological efficiency and mass loss; of one
+ * season when asked, and those whose code or note holds the search (any capitals) when one is given.
+ */
+export async function listBlocks(member: Member, filter: { season?: number | null; search?: string | null } = {}): Promise<BlockRow[]> {
   const farm = farmOf(member, "see its blocks");
   const rows = await asMember(member, (tx) =>
     tx
@@ -143,7 +162,15 @@ export async function listBlocks(member: Member, filter: { season?: number | nul
       .leftJoin(substrateRecipes, eq(substrateRecipes.id, blocks.substrateRecipeId))
       .leftJoin(trialArms, eq(trialArms.id, blocks.trialArmId))
       .leftJoin(trials, eq(trials.id, trialArms.trialId))
-      .where(and(eq(blocks.farmId, farm.farmId), filter.season == null ? undefined : eq(blockSeasonYear, filter.season)))
+      .where(
+        and(
+          eq(blocks.farmId, farm.farmId),
+          filter.season == null ? undefined : eq(blockSeasonYear, filter.season),
+          filter.search
+            ? or(ilike(blocks.code, containsPattern(filter.search)), ilike(blocks.notes, containsPattern(filter.search)))
+            : undefined,
+        ),
+      )
       .orderBy(asc(blocks.code)),
   );
   return rows.map((row) => {
@@ -164,6 +191,8 @@ export async function listBlocks(member: Member, filter: { season?: number | nul
       contaminated: full.contaminated,
       massLoss: full.massLoss,
       trial: full.trial,
+      state: full.state,
+      lastFlush: full.lastFlush,
     };
   });
 }

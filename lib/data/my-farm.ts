@@ -3,7 +3,7 @@ import { sql } from "drizzle-orm";
 import { type Member } from "@/lib/data/members";
 import { getCoopStrainBenchmarks } from "@/lib/data/pooled-results";
 import { AppError } from "@/lib/errors";
-import { summariseOwnFarm, type OwnBlock, type OwnStrainSummary } from "@/lib/pooled";
+import { ownLeftOutNotes, summariseOwnFarm, type OwnBlock, type OwnLeftOutNote, type OwnStrainSummary } from "@/lib/pooled";
 import { seasonLabel } from "@/lib/seasons";
 import { asMember } from "./context";
 import { seasonStartIn } from "./seasons";
@@ -20,6 +20,8 @@ export interface MyFarmPage {
   /** How the season is named ("2025/26"), or null. */
   seasonLabel: string | null;
   strains: OwnStrainSummary[];
+  /** The farm's own blocks left out of its BE and place in the co-op, and how to fix that. */
+  ownLeftOut: OwnLeftOutNote[];
 }
 
 /**
@@ -72,6 +74,7 @@ export async function getMyFarm(member: Member, filter: { season?: number | null
   });
   const strainIds = [...new Set(blocks.map((block) => block.strainId))];
   const { minimumFarms, byStrain } = await getCoopStrainBenchmarks(strainIds);
+  const strains = summariseOwnFarm(blocks, byStrain, minimumFarms);
   return {
     farmName: member.farmName ?? "Your farm",
     displayUnits: member.displayUnits,
@@ -80,6 +83,10 @@ export async function getMyFarm(member: Member, filter: { season?: number | null
     seasonStartedOn,
     season,
     seasonLabel: season === null ? null : seasonLabel(season, start),
-    strains: summariseOwnFarm(blocks, byStrain, minimumFarms),
+    strains,
+    ownLeftOut: ownLeftOutNotes(
+      strains.map((strain) => ({ strainName: strain.strainName, noDryMass: strain.withoutDryMass, noFruitingMethod: 0, noRecipe: 0 })),
+      { byFruitingMethod: false, byRecipe: false },
+    ),
   };
 }

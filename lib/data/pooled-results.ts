@@ -20,6 +20,9 @@ import {
   seasonBySeason,
   type FlushWindow,
   type OwnStrainBlocks,
+  ownLeftOutNotes,
+  type OwnLeftOutCounts,
+  type OwnLeftOutNote,
   type PooledFilters,
   type PooledResults,
   type SeasonBreakdown,
@@ -80,6 +83,8 @@ export interface PooledResultsPage {
   regimes: RegimeComparison | null;
   /** The viewer's own blocks' biological efficiency by strain, for the boxplot overlay (farm people only). */
   ownBlocks: OwnStrainBlocks[];
+  /** What keeps the viewer's own blocks out of these figures and how to fix it (farm people only; their own counts). */
+  ownLeftOut: OwnLeftOutNote[];
 }
 
 /**
@@ -95,7 +100,43 @@ export async function getPooledResults(member: Member, query: PooledResultsQuery
     ...(query.fruitingMethodId ? { fruitingMethodId: query.fruitingMethodId } : {}),
   };
   const ownBlocks = member.farmId && page.speciesId ? await keptOwnBlocks(member, page.speciesId, query.flushWindow, filters) : [];
-  return { ...page, ownBlocks };
+  const ownLeftOut =
+    member.farmId && page.speciesId
+      ? ownLeftOutNotes(await countOwnLeftOut(member, page.speciesId), {
+          byFruitingMethod: Boolean(filters.fruitingMethodId),
+          byRecipe: Boolean(filters.substrateRecipeId),
+        })
+      : [];
+  return { ...page, ownBlocks, ownLeftOut };
+}
+
+/**
+ * The viewer's own blocks of a species, by strain, that lack what a pooled figure needs (through
+ * their own farm's context, so row-level security holds them to it). Strains with no gap are left out.
+ */
+export async function countOwnLeftOut(member: Member, speciesId: string | null): Promise<OwnLeftOutCounts[]> {
+  if (!member.farmId) return [];
+  return asMember(member, async (tx) => {
+    const result = await tx.execute<{ strain_name: string; no_dry_mass: number; no_fruiting_method: number; no_recipe: number }>(sql`
+      select s.name as strain_name,
+        count(*) filter (where not b.contaminated and (b.wet_mass_g is null or b.wet_mass_g <= 0 or b.moisture is null or b.moisture >= 1)
+          and exists (select 1 from harvests h where h.block_id = b.id))::int as no_dry_mass,
+        count(*) filter (where b.fruiting_method_id is null)::int as no_fruiting_method,
+        count(*) filter (where b.substrate_recipe_id is null)::int as no_recipe
+      from blocks b
+      join strains s on s.id = b.strain_id
+      where b.farm_id = ${member.farmId} and (${speciesId}::uuid is null or s.species_id = ${speciesId}::uuid)
+      group by s.id, s.name
+      order by s.name`);
+    return result.rows
+      .map((row) => ({
+        strainName: row.strain_name,
+        noDryMass: Number(row.no_dry_mass),
+        noFruitingMethod: Number(row.no_fruiting_method),
+        noRecipe: Number(row.no_recipe),
+      }))
+      .filter((row) => row.noDryMass + row.noFruitingMethod + row.noRecipe > 0);
+  });
 }
 
 /**
@@ -128,7 +169,10 @@ function resultsKey(query: PooledResultsQuery): string {
   ]);
 }
 
-async function computePooledResults(member: Member, query: PooledResultsQuery): Promise<Omit<PooledResultsPage, "ownBlocks">> {
+async function computePooledResults(
+  member: Member,
+  query: PooledResultsQuery,
+): Promise<Omit<PooledResultsPage, "ownBlocks" | "ownLeftOut">> {
   const analysed = await withAnalystAccess(async (tx) => {
     const [settings] = await tx.select().from(cooperativeSettings);
     const speciesList = await tx.select({ id: species.id, name: species.commonName }).from(species).orderBy(asc(species.commonName));
@@ -330,5 +374,41 @@ export async function getCoopStrainBenchmarks(
       });
     }
     return { minimumFarms, byStrain };
+  });
+}
+
+/** The co-op's share of yield by flush for one strain, as Co-op results publish it, or why it is withheld. */
+export type StrainFlushCurve =
+  { status: "published"; releaseNumber: number; shares: { flush: number; meanShare: number }[] } | { status: "withheld"; message: string };
+
+/**
+ * One strain's pooled flush profile (any recipe, any fruiting method, all flushes) from the newest
+ * release, under the same rule and at the same step as "Strains side by side": published only where
+ * at least the co-op's minimum number of farms have finished blocks of it. Never computed live.
+ */
+export async function getStrainFlushCurve(strainId: string): Promise<StrainFlushCurve> {
+  return withAnalystAccess(async (tx) => {
+    const [settings] = await tx.select({ minimumFarms: cooperativeSettings.minimumFarms }).from(cooperativeSettings);
+    const minimumFarms = settings?.minimumFarms ?? 3;
+    const release = await latestRelease(tx);
+    if (!release) return { status: "withheld", message: "The co-op has published no release of its pooled figures yet." };
+    const [strain] = await tx.select({ speciesId: strains.speciesId }).from(strains).where(eq(strains.id, strainId));
+    if (!strain) return { status: "withheld", message: "This strain is not in the co-op's register." };
+    const contents = await releaseContents(tx, release.number, { speciesId: strain.speciesId });
+    const flushRows = contents.flushRows.filter((row) => row.strainId === strainId);
+    const farms = new Set(flushRows.filter((row) => row.finishedBlocks > 0).map((row) => row.farmId)).size;
+    const why = `withheld in release ${release.number}`;
+    if (farms < minimumFarms)
+      return {
+        status: "withheld",
+        message: `The co-op's curve for this strain is ${why}: fewer than ${minimumFarms} farms have finished blocks of it (spent mass weighed), and a curve from fewer could show one farm's harvests.`,
+      };
+    const profile = pooledFlushProfile(flushRows);
+    if (!profile) return { status: "withheld", message: `The co-op's curve for this strain is ${why}: not enough finished blocks yet.` };
+    return {
+      status: "published",
+      releaseNumber: release.number,
+      shares: profile.map((share) => ({ flush: share.flush, meanShare: roundTo(share.meanShare, publishedSteps.flushShare) })),
+    };
   });
 }

@@ -10,6 +10,7 @@ import { actor, recordAudit } from "./audit";
 import { type Member } from "./members";
 import { latestRelease, releaseContents } from "./pooled-releases";
 import { asMember } from "./context";
+import { count } from "@/lib/words";
 
 const tables = { species, strains, substrate_recipes: substrateRecipes, treatments } as const;
 type Status = "proposed" | "active" | "retired";
@@ -282,11 +283,9 @@ export async function importRegistryCsv(member: Member, kind: RegistryKind, text
   if (member.role !== "coordinator") throw new AppError("forbidden", "Only the coordinator imports registry lists.");
   const { rows, problems } = parseRegistryCsv(kind, text);
   if (problems.length) {
-    throw new AppError(
-      "invalid_input",
-      `Nothing was imported: ${problems.length} problem${problems.length === 1 ? "" : "s"} to fix in the file.`,
-      [{ field: "file", message: problems.slice(0, 20).map(describeProblem).join(" · ") }],
-    );
+    throw new AppError("invalid_input", `Nothing was imported: ${count(problems.length, "problem")} to fix in the file.`, [
+      { field: "file", message: problems.slice(0, 20).map(describeProblem).join(" · ") },
+    ]);
   }
   return asMember(member, async (tx) => {
     const lookup = await speciesLookup(tx);

@@ -42,6 +42,7 @@ import type { AuditDetail } from "@/lib/audit/sentences";
 import type { Member } from "./members";
 import { asMember, farmOf } from "./context";
 import { chosenDisplay, formatDay } from "@/lib/time/display";
+import { count } from "@/lib/words";
 
 export interface UploadSummary {
   id: string;
@@ -696,7 +697,7 @@ async function planAgain(
     const first = report.issues.find((issue) => issue.severity === "error");
     throw new AppError(
       "invalid_input",
-      `The file still has ${report.errorCount} error${report.errorCount === 1 ? "" : "s"}, so nothing was saved. First: ${first?.message ?? ""} Correct the file or the mapping and check it again.`,
+      `The file still has ${count(report.errorCount, "error")}, so nothing was saved. First: ${first?.message ?? ""} Correct the file or the mapping and check it again.`,
     );
   }
   return { rows: commitRowsOf(plan, storedBlockIds(planInput)), report };

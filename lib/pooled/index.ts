@@ -78,3 +78,4 @@ export { ownBlocksForChart, type OwnStrainBlocks } from "./own-blocks";
 export { cooperativeSettingsSchema, lowestMinimumFarms, type CooperativeSettingsInput } from "./settings-schema";
 export { resultsInBrief } from "./in-brief";
 export { dryingPercent, strainTableRow, type StrainTableRow } from "./strain-row";
+export { ownLeftOutNotes, type OwnLeftOutCounts, type OwnLeftOutNote } from "./own-left-out";

@@ -23,6 +23,8 @@ export interface OwnStrainSummary {
   contaminationPercent: number;
   harvests: number;
   freshG: number;
+  /** Uncontaminated blocks that fruited but lack a wet block weight or moisture, so have no BE. */
+  withoutDryMass: number;
   /** Mean BE (%) of the farm's uncontaminated blocks that fruited and whose substrate was weighed. */
   meanEfficiency: number | null;
   /** Mean mass loss (%) of finished blocks (spent mass weighed). */
@@ -73,7 +75,15 @@ export function summariseOwnFarm(
       const contaminated = strainBlocks.filter((block) => block.contaminated).length;
 
       let percentile: OwnStrainSummary["percentile"] = { status: "suppressed", message: `fewer than ${minimumFarms} farms` };
-      if (meanEfficiency === null) percentile = { status: "suppressed", message: "no blocks with a biological efficiency yet" };
+      const withoutDryMass = strainBlocks.filter(
+        (block) => !block.contaminated && block.harvests.length > 0 && blockEfficiency(block) === null,
+      ).length;
+      if (meanEfficiency === null)
+        percentile = {
+          status: "suppressed",
+          message:
+            withoutDryMass > 0 ? "none: your blocks have no dry substrate mass (see above)" : "no blocks with a biological efficiency yet",
+        };
       else if (benchmark?.bins)
         percentile = { status: "published", value: publishedPercentile(percentileOf(benchmark.bins, meanEfficiency)) };
 
@@ -113,6 +123,7 @@ export function summariseOwnFarm(
         contaminated,
         contaminationPercent: (100 * contaminated) / strainBlocks.length,
         harvests: strainBlocks.reduce((sum, block) => sum + block.harvests.length, 0),
+        withoutDryMass,
         freshG: strainBlocks.reduce((sum, block) => sum + block.harvests.reduce((total, harvest) => total + harvest.freshG, 0), 0),
         meanEfficiency,
         meanMassLoss: mean(finished.filter((block) => block.wetG).map((block) => massLoss(block.wetG!, block.spentG!))),

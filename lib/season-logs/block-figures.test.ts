@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { blockFigures, nextFlush } from "./block-figures";
+import { blockFigures, blockState, nextFlush } from "./block-figures";
 
 describe("blockFigures", () => {
   it("gives biological efficiency as fresh mass over dry substrate mass, in percent", () => {
@@ -35,5 +35,16 @@ describe("nextFlush", () => {
   it("suggests the flush after the highest recorded, even with a gap", () => {
     expect(nextFlush([])).toBe(1);
     expect(nextFlush([1, 3])).toBe(4);
+  });
+});
+
+describe("where a block stands", () => {
+  // Trade words (common practice): a contaminated block is lost whatever else was weighed; a block whose
+  // spent mass is weighed has given its last flush; one picked at least once is fruiting.
+  it("says contaminated before anything else, then spent, then fruiting", () => {
+    expect(blockState({ contaminated: true, spentMassG: 2100, flushes: 2 })).toBe("contaminated");
+    expect(blockState({ contaminated: false, spentMassG: 2100, flushes: 3 })).toBe("spent");
+    expect(blockState({ contaminated: false, spentMassG: null, flushes: 1 })).toBe("fruiting");
+    expect(blockState({ contaminated: false, spentMassG: null, flushes: 0 })).toBe("no harvest yet");
   });
 });

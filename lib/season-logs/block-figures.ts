@@ -27,3 +27,15 @@ export function blockFigures(block: BlockFigureInput): { biologicalEfficiency: n
 export function nextFlush(recordedFlushes: readonly number[]): number {
   return recordedFlushes.reduce((highest, flush) => Math.max(highest, flush), 0) + 1;
 }
+
+export type BlockState = "contaminated" | "spent" | "fruiting" | "no harvest yet";
+
+/**
+ * Where a block stands, in the words a grower uses: lost to contamination; spent (its spent mass weighed,
+ * so it has given its last flush); fruiting (picked at least once); or not harvested yet.
+ */
+export function blockState(block: { contaminated: boolean; spentMassG: number | null; flushes: number }): BlockState {
+  if (block.contaminated) return "contaminated";
+  if (block.spentMassG !== null) return "spent";
+  return block.flushes > 0 ? "fruiting" : "no harvest yet";
+}

@@ -1,5 +1,6 @@
 import type { ChangedValue } from "./corrections";
 import { harvestRemovalChanges } from "./plan";
+import { count } from "@/lib/words";
 
 /**
  * What undoing a season-log commit must do, or why it cannot. A row the commit wrote is
@@ -91,8 +92,8 @@ export function planUndo(input: UndoInput): UndoPlan {
   if (gone.length > 0 || missingBlocks > 0 || missingHarvests > 0) {
     const parts = [
       ...(gone.length > 0 ? [listed(gone)] : []),
-      ...(missingBlocks > 0 ? [`${missingBlocks} block${missingBlocks === 1 ? "" : "s"} it added`] : []),
-      ...(missingHarvests > 0 ? [`${missingHarvests} harvest${missingHarvests === 1 ? "" : "s"} it added`] : []),
+      ...(missingBlocks > 0 ? [`${count(missingBlocks, "block")} it added`] : []),
+      ...(missingHarvests > 0 ? [`${count(missingHarvests, "harvest")} it added`] : []),
     ];
     conflicts.push(
       `Rewritten or deleted since this commit: ${parts.join("; ")}. What the commit wrote is no longer all there to take back.`,

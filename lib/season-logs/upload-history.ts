@@ -3,7 +3,8 @@
  * it: however often the file was checked again, the row says the last check, what it would change
  * or changed, and whether the commit stands.
  */
-import { count, listInWords, type AuditDetail } from "@/lib/audit/sentences";
+import type { AuditDetail } from "@/lib/audit/sentences";
+import { count, listInWords } from "@/lib/words";
 import type { UploadOutcome } from "./outcomes";
 import type { PlanCounts } from "./plan";
 

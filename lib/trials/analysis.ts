@@ -9,6 +9,7 @@ import {
   type Description,
   type ProportionInterval,
 } from "@/lib/stats";
+import { count } from "@/lib/words";
 
 export interface TrialArmInfo {
   id: string;
@@ -144,9 +145,7 @@ export function analyseTrial(input: { arms: TrialArmInfo[]; records: OutcomeReco
   const farmPooling: PooledDifference[] = [];
 
   if (!enoughFarms) {
-    notes.push(
-      `Only ${farms.length} farm${farms.length === 1 ? "" : "s"} reported outcomes; the co-op shows pooled figures only from ${minimumFarms} farms up.`,
-    );
+    notes.push(`Only ${count(farms.length, "farm")} reported outcomes; the co-op shows pooled figures only from ${minimumFarms} farms up.`);
   } else {
     try {
       // Rows in the arms' order (reference first), so the model's pairs come out as (earlier, later).
@@ -242,8 +241,7 @@ export function plainAnswer(
   farms: number,
   minimumFarms: number,
 ): string {
-  if (!enoughFarms)
-    return `No answer yet: ${farms} farm${farms === 1 ? "" : "s"} reported, and the co-op needs ${minimumFarms} before it pools.`;
+  if (!enoughFarms) return `No answer yet: ${count(farms, "farm")} reported, and the co-op needs ${minimumFarms} before it pools.`;
   if (!differences.length) return "No answer: the arms could not be compared.";
   const nameOf = (label: string) => {
     const arm = arms.find((candidate) => candidate.label === label);

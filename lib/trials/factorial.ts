@@ -1,5 +1,6 @@
 import { StatsInputError, factorialAnova, type AnovaTerm, type FactorialObservation, type PairwiseComparison } from "@/lib/stats";
 import { lowerFirst, type OutcomeRecord } from "./analysis";
+import { count } from "@/lib/words";
 
 /** One level of a trial factor, e.g. the strain "Valley Wild" or the fruiting method "Horizontal slits". */
 export interface FactorLevel {
@@ -155,12 +156,10 @@ export function analyseFactorialTrial(input: {
     return { ...empty, answer: "No answer: the arms do not form a complete crossing of the two factors." };
   }
   if (!enoughFarms) {
-    notes.push(
-      `Only ${farms} farm${farms === 1 ? "" : "s"} reported outcomes; the co-op shows pooled figures only from ${minimumFarms} farms up.`,
-    );
+    notes.push(`Only ${count(farms, "farm")} reported outcomes; the co-op shows pooled figures only from ${minimumFarms} farms up.`);
     return {
       ...empty,
-      answer: `No answer yet: ${farms} farm${farms === 1 ? "" : "s"} reported, and the co-op needs ${minimumFarms} before it pools.`,
+      answer: `No answer yet: ${count(farms, "farm")} reported, and the co-op needs ${minimumFarms} before it pools.`,
     };
   }
 

@@ -3,6 +3,7 @@ import type { Difference } from "./analysis";
 import type { FactorialComparison, FactorialTrialAnalysis } from "./factorial";
 import type { StoredTrialResults } from "./report";
 import { formatDateTime, formatDay, utcDisplay, type TimeDisplay } from "@/lib/time/display";
+import { agree, count } from "@/lib/words";
 
 /** What a report export needs of a trial: the trial as the reader may see it (lib/data/trials.ts getTrial gives it). */
 export interface ReportTrial {
@@ -65,7 +66,7 @@ function analysedLine(trial: ReportTrial): string {
   const counted =
     analysis.blocksAnalysed === null
       ? `Fewer than ${analysis.minimumFarms} farms reported, so no figure of this trial is published.`
-      : `${analysis.blocksAnalysed} blocks from ${analysis.farmsContributing} farms were analysed.`;
+      : `${count(analysis.blocksAnalysed, "block")} from ${count(analysis.farmsContributing, "farm")} ${agree(analysis.blocksAnalysed, "was", "were")} analysed.`;
   const method =
     analysis.differencesFrom === "arm + farm"
       ? "Differences are between farm-adjusted means (each farm counts as a block) and are adjusted for comparing every pair of arms (Tukey)."
@@ -208,7 +209,7 @@ export function trialReportDocument(trial: ReportTrial, display: TimeDisplay = u
   second.push({
     heading: "Deviations from the plan",
     paragraphs: [
-      `${deviations.farmsDropped} invited farm${deviations.farmsDropped === 1 ? "" : "s"} dropped out or never answered; ${deviations.farmsDeclined} declined.`,
+      `${count(deviations.farmsDropped, "invited farm")} dropped out or never answered; ${deviations.farmsDeclined} declined.`,
       ...(deviations.blocksMade !== null && deviations.blocksLeftOut !== null
         ? [
             `${deviations.blocksMade} of ${deviations.blocksAssigned} listed blocks reached a season log.`,

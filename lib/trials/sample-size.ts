@@ -5,6 +5,7 @@ import {
   sampleSizeCrossedBlocked,
   sampleSizePairwiseBlocked,
 } from "@/lib/stats";
+import { count } from "@/lib/words";
 
 export interface SampleSizeInput {
   /** Smallest difference in biological efficiency worth detecting, in BE percentage points. */
@@ -118,7 +119,7 @@ export interface EnrolmentWarning {
 export function enrolmentWarnings(plan: SampleSizeInput | null, enrolment: EnrolmentCheck): EnrolmentWarning[] {
   const warnings: EnrolmentWarning[] = [];
   const { acceptedFarms, blocksPerArm, minimumFarms } = enrolment;
-  const farmsWord = (n: number) => `${n} farm${n === 1 ? "" : "s"}`;
+  const farmsWord = (n: number) => `${count(n, "farm")}`;
   if (acceptedFarms < minimumFarms)
     warnings.push({
       kind: "below_minimum_farms",

@@ -1,3 +1,4 @@
+import { count } from "@/lib/words";
 /**
  * A trial's timeline: when blocks are inoculated, when fruiting is expected, when the data are
  * due. Farms are followed against it, and only against it: a farm is behind when a date has
@@ -93,7 +94,7 @@ export function missingData(progress: TimelineProgress): string[] {
     due.push(`${progress.blocksListed - progress.blocksMade} listed blocks not yet in the season log`);
   const live = progress.blocksMade - progress.contaminated;
   progress.flushesRecorded.forEach((recorded, index) => {
-    if (recorded < live) due.push(`flush ${index + 1} of ${live - recorded} blocks`);
+    if (recorded < live) due.push(`flush ${index + 1} of ${count(live - recorded, "block")}`);
   });
   return due;
 }

@@ -85,7 +85,7 @@ describe("a grower uploads a season log", () => {
 
     const blocks = new BlocksPage(page);
     await blocks.open();
-    await blocks.filter("E2E-");
+    await blocks.search("E2E-");
     expect(await blocks.blockCodes()).toEqual(["E2E-01", "E2E-02"]);
     await screenshot(page, "season-logs-6-blocks");
     expect(errors).toEqual([]);
@@ -124,7 +124,7 @@ describe("a grower uploads a season log", () => {
 
     const blocks = new BlocksPage(page);
     await blocks.open();
-    await blocks.filter("XL-");
+    await blocks.search("XL-");
     expect(await blocks.blockCodes()).toEqual(["XL-01", "XL-02"]);
     expect(errors).toEqual([]);
     await desk.close();
@@ -157,7 +157,7 @@ describe("a grower uploads a season log", () => {
 
       const blocks = new BlocksPage(page);
       await blocks.open();
-      await blocks.filter("E2E-02");
+      await blocks.search("E2E-02");
       await page.getByRole("link", { name: "E2E-02" }).click();
       const kept = page.getByTestId("accepted-warnings-4");
       await kept.waitFor();

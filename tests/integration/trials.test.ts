@@ -267,8 +267,8 @@ describe("a strain trial from design to publication", () => {
     }
     const behind = progress.filter((row) => row.behind);
     expect(behind.map((row) => row.farmId)).toEqual([managers[3].farmId]);
-    expect(behind[0].due).toEqual(["flush 2 of 1 blocks"]);
-    expect(behind[0].behindWhy[0]).toMatch(/were due on .* still missing: flush 2 of 1 blocks/);
+    expect(behind[0].due).toEqual(["flush 2 of 1 block"]);
+    expect(behind[0].behindWhy[0]).toMatch(/were due on .* still missing: flush 2 of 1 block/);
 
     const own = await getOwnProgress(managers[3], trial);
     expect(own).toMatchObject({ blocksMade: 12, flushesRecorded: [11, 10] });
@@ -276,7 +276,7 @@ describe("a strain trial from design to publication", () => {
     await sendTrialReminder(coordinator, trialId, managers[3].farmId!);
     const [reminder] = await caughtMail(new RegExp(`^Reminder: trial ${trial.code}`), 1);
     expect(reminder.recipients).toEqual([managers[3].email]);
-    expect(reminder.text).toContain("flush 2 of 1 blocks");
+    expect(reminder.text).toContain("flush 2 of 1 block");
     await expectConflict(sendTrialReminder(coordinator, trialId, managers[0].farmId!), /nothing due/);
   });
 

@@ -6,15 +6,20 @@ import { can } from "@/lib/auth/permissions";
 import { SeasonFilter } from "@/components/ui/season-filter";
 import { listBlocks } from "@/lib/data/blocks";
 import { listFarmSeasons } from "@/lib/data/seasons";
-import { seasonFromSearchParam } from "@/lib/seasons";
+import { blockSearchFromSearchParam, longestBlockSearch } from "@/lib/season-logs/block-search";
+import { seasonFromSearchParam, seasonLabel } from "@/lib/seasons";
+import { count } from "@/lib/words";
 import { BlocksTable } from "./_components/blocks-table";
 
 export const metadata: Metadata = { title: "Blocks & harvests" };
 
 export default async function BlocksPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const member = await requirePage("farm-data:read");
-  const season = seasonFromSearchParam((await searchParams).season);
-  const [rows, { start, seasons }] = await Promise.all([listBlocks(member, { season }), listFarmSeasons(member)]);
+  const query = await searchParams;
+  const season = seasonFromSearchParam(query.season);
+  const search = blockSearchFromSearchParam(query.q);
+  const [rows, { start, seasons }] = await Promise.all([listBlocks(member, { season, search }), listFarmSeasons(member)]);
+  const inSeason = season === null ? "" : ` in ${seasonLabel(season, start)}`;
   return (
     <>
       <PageHeader
@@ -36,8 +41,55 @@ export default async function BlocksPage({ searchParams }: { searchParams: Promi
           Download as a season log (CSV)
         </a>
       </PageHeader>
-      <SeasonFilter path="/blocks" seasons={seasons} start={start} current={season} everything="All seasons" />
-      <BlocksTable rows={rows} display={member.displayUnits} dateStyle={member.dateStyle} seasonStart={start} />
+      <SeasonFilter
+        path="/blocks"
+        seasons={seasons}
+        start={start}
+        current={season}
+        everything="All seasons"
+        params={{ q: search ?? undefined }}
+      />
+      {/* A plain GET form: the search lives in the address beside the season, so a view can be bookmarked.
+          The example is one of the farm's own codes, so it reads like what the grower writes. */}
+      <form method="get" action="/blocks" role="search" aria-label="Search blocks" className="mb-4 flex flex-wrap items-end gap-2 text-sm">
+        {season !== null ? <input type="hidden" name="season" value={season} /> : null}
+        <label className="grow sm:grow-0">
+          <span className="block font-medium">Block code or note</span>
+          <input
+            type="search"
+            name="q"
+            defaultValue={search ?? ""}
+            maxLength={longestBlockSearch}
+            placeholder={`e.g. ${rows[0]?.code ?? "B-001"} or shelf 2`}
+            className="min-h-11 w-full rounded-lg border border-oat-300 bg-white px-3 text-base sm:w-72"
+          />
+        </label>
+        <button type="submit" className="min-h-11 rounded-lg bg-moss-600 px-4 font-semibold text-white">
+          Search
+        </button>
+        {search !== null ? (
+          <ButtonLink href={season === null ? "/blocks" : `/blocks?season=${season}`} variant="secondary">
+            Clear the search
+          </ButtonLink>
+        ) : null}
+      </form>
+      {search !== null ? (
+        <p role="status" className="mb-3 text-sm text-ink-soft">
+          {count(rows.length, "block")}
+          {inSeason} with “{search}” in the code or the note.
+        </p>
+      ) : null}
+      <BlocksTable
+        rows={rows}
+        display={member.displayUnits}
+        dateStyle={member.dateStyle}
+        seasonStart={start}
+        emptyMessage={
+          search !== null
+            ? `No block${inSeason} has “${search}” in its code or note. Try part of the code, or another word from the note.`
+            : "No blocks here yet. Upload your season log, or ask the farm manager to; or choose another season."
+        }
+      />
     </>
   );
 }

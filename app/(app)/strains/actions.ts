@@ -7,6 +7,7 @@ import { createRegistryEntry, importRegistryCsv, moveRegistryEntry } from "@/lib
 import { isAppError } from "@/lib/errors";
 import { registryKinds } from "@/lib/members/registry-csv";
 import { strainSources, substrateTreatments, treatmentKinds } from "@/lib/members/lists";
+import { count } from "@/lib/words";
 
 const text = (what: string, max = 120) => z.string().trim().min(1, `Fill in ${what}.`).max(max, `Keep ${what} under ${max} characters.`);
 const code = z
@@ -93,9 +94,9 @@ export async function importRegistryAction(_previous: ActionState, formData: For
         message: "The file is over 1 MB; a registry list is much smaller. Check it is the right file.",
         fieldErrors: { file: ["Too large."] },
       };
-    const count = await importRegistryCsv(member, parsed.data.kind, await file.text());
+    const imported = await importRegistryCsv(member, parsed.data.kind, await file.text());
     revalidatePath("/strains");
-    return { status: "ok", message: `Imported ${count} entries.` };
+    return { status: "ok", message: `Imported ${count(imported, "entry", "entries")}.` };
   } catch (error) {
     if (isAppError(error))
       return {

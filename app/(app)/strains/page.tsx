@@ -134,7 +134,7 @@ export default async function StrainsPage() {
       { name: "notes", label: "Notes" },
     ],
     substrate_recipes: [
-      { name: "code", label: "Co-op code", hint: "e.g. HWB-20" },
+      { name: "code", label: "Co-op code", hint: "e.g. HWB-30 (the co-op has HWB-20)" },
       { name: "name", label: "Recipe name" },
       { name: "base", label: "Base", hint: "e.g. hardwood sawdust" },
       { name: "supplement", label: "Supplement", hint: "e.g. wheat bran" },
@@ -150,7 +150,7 @@ export default async function StrainsPage() {
       },
     ],
     treatments: [
-      { name: "code", label: "Co-op code", hint: "e.g. SLIT-ACROSS" },
+      { name: "code", label: "Co-op code", hint: "e.g. X-CUT" },
       { name: "name", label: "Name" },
       {
         name: "treatmentKind",

@@ -18,6 +18,7 @@ import { trialDesignKinds } from "@/lib/trials/design-kind";
 import { trialStatuses } from "@/lib/trials/lifecycle";
 import { timelineProblems } from "@/lib/trials/timeline";
 import { contaminatedHandlings } from "@/lib/trials/contaminated-handling";
+import { count } from "@/lib/words";
 
 const optionalNumber = (what: string, check: z.ZodNumber) =>
   z
@@ -198,7 +199,7 @@ export const inviteFarmsAction = guardedAction("trial:manage", z.looseObject({ t
   revalidatePath(`/trials/${input.trialId}`);
   return {
     status: "ok",
-    message: `Invited ${farmIds.length} farm${farmIds.length === 1 ? "" : "s"}; ${sent} e-mail${sent === 1 ? "" : "s"} sent.`,
+    message: `Invited ${count(farmIds.length, "farm")}; ${count(sent, "e-mail")} sent.`,
   };
 });
 
@@ -244,6 +245,6 @@ export const sendReminderAction = guardedAction(
   z.object({ trialId: z.uuid(), farmId: z.uuid() }),
   async ({ trialId, farmId }, member) => {
     const sent = await sendTrialReminder(member, trialId, farmId);
-    return { status: "ok", message: `Reminder sent to ${sent} farm manager${sent === 1 ? "" : "s"}.` };
+    return { status: "ok", message: `Reminder sent to ${count(sent, "farm manager")}.` };
   },
 );

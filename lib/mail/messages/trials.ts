@@ -1,4 +1,5 @@
 import { formatDate, formatDateTime, type TimeDisplay } from "@/lib/time/display";
+import { count } from "@/lib/words";
 
 /**
  * The trial e-mails, each with a plain-text and an HTML part. Farm messages end with a link
@@ -62,9 +63,7 @@ export function trialInvitationMail(input: {
       `The co-op invites ${input.farmName} to take part in trial ${input.trial.code}, "${input.trial.title}".`,
       `The question: ${input.trial.question}`,
       ...(wanted
-        ? [
-            `The trial asks each farm for ${wanted} block${wanted === 1 ? "" : "s"} per arm: ${input.arms} arms, so ${wanted * input.arms} blocks in all.`,
-          ]
+        ? [`The trial asks each farm for ${count(wanted, "block")} per arm: ${input.arms} arms, so ${wanted * input.arms} blocks in all.`]
         : []),
       input.deadline
         ? `Please answer by ${answerBy(input.deadline)}: accept and say how many blocks per arm you can run, or decline.`
@@ -87,7 +86,7 @@ export function enrolmentConfirmationMail(input: {
   return compose(
     `${input.farmName} is enrolled in trial ${input.trial.code}`,
     [
-      `${input.farmName} is enrolled in trial ${input.trial.code}, "${input.trial.title}", with ${input.blocksPerArm} blocks per arm (${total} blocks in all).`,
+      `${input.farmName} is enrolled in trial ${input.trial.code}, "${input.trial.title}", with ${count(input.blocksPerArm, "block")} per arm (${count(total, "block")} in all).`,
       "Your randomised list of block codes is ready. Print the label sheet, tape each label onto its bag, and use the block codes in your season log so the blocks attach to the trial.",
     ],
     { label: "Open your list and label sheet", url: input.listUrl },

@@ -88,14 +88,23 @@ export class BlocksPage {
     await this.page.getByRole("heading", { name: "Blocks & harvests", level: 1 }).waitFor();
   }
 
-  async filter(text: string): Promise<void> {
-    await this.page.getByLabel("Filter").fill(text);
+  /** Searches by block code or note on the server: the search lands in the address (?q=). */
+  async search(text: string): Promise<void> {
+    const form = this.page.getByRole("search", { name: "Search blocks" });
+    await form.getByLabel("Block code or note").fill(text);
+    await Promise.all([this.page.waitForURL(/[?&]q=/), form.getByRole("button", { name: "Search" }).click()]);
+    await this.page
+      .getByRole("status")
+      .filter({ hasText: "in the code or the note" })
+      .or(this.page.getByText(/in its code or note/))
+      .first()
+      .waitFor();
   }
 
-  /** Block codes in the visible rows. */
+  /** Block codes in the visible rows (the links in the first column; a phone shows the state under each). */
   async blockCodes(): Promise<string[]> {
     const table = this.page.getByRole("table", { name: "Blocks and harvests" });
-    return (await table.locator("tbody tr td:first-child").allTextContents()).map((text) => text.trim());
+    return (await table.locator("tbody tr td:first-child a").allTextContents()).map((text) => text.trim());
   }
 }
 

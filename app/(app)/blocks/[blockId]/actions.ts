@@ -8,6 +8,7 @@ import { correctBlock, correctHarvest, deleteHarvest } from "@/lib/data/correcti
 import { moveBlock } from "@/lib/data/rooms";
 import { moveSchema } from "@/lib/rooms/schemas";
 import { blockCorrectionSchema, harvestCorrectionSchema, harvestRemovalSchema } from "@/lib/season-logs/corrections";
+import { count } from "@/lib/words";
 
 const confirm = (warnings: { code: string; field: string; message: string }[]) => ({
   status: "confirm" as const,
@@ -20,7 +21,7 @@ const saved = (changed: number) => ({
   message:
     changed === 0
       ? "Nothing changed: the values are as stored."
-      : `Saved ${changed} changed value${changed === 1 ? "" : "s"}, with your reason, in the history below.`,
+      : `Saved ${count(changed, "changed value")}, with your reason, in the history below.`,
 });
 
 export const correctBlockAction = guardedAction("farm-data:correct", blockCorrectionSchema, async (input, member) => {

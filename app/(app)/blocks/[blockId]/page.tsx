@@ -22,6 +22,7 @@ import { ActionForm } from "@/components/forms/action-form";
 import { getBlockRooms, listRoomChoices } from "@/lib/data/rooms";
 import { calendarDateIn } from "@/lib/time/display";
 import { moveBlockAction } from "./actions";
+import { FlushChart } from "@/components/blocks/flush-chart";
 
 export const metadata: Metadata = { title: "Block" };
 
@@ -249,6 +250,7 @@ export default async function BlockPage({
             )
           ) : null}
         </Card>
+        <FlushChart block={block} display={display} />
         {correctingBlock || correctedHarvest ? (
           <div id="correction">
             <Card title={correctedHarvest ? `Correct flush ${correctedHarvest.flush}` : "Correct the block's values"}>

@@ -20,10 +20,18 @@ function columnsFor(display: MassDisplay, dateStyle: DateStyle, seasonStart: Sea
     {
       accessorKey: "code",
       header: "Block",
+      // On a phone the state sits under the code, so the first columns fit 390 px without scrolling sideways.
       cell: ({ row }) => (
-        <Link href={`/blocks/${row.original.id}`} className="inline-flex min-h-11 items-center font-semibold text-moss-700 underline">
-          {row.original.code}
-        </Link>
+        <>
+          <Link href={`/blocks/${row.original.id}`} className="inline-flex min-h-11 items-center font-semibold text-moss-700 underline">
+            {row.original.code}
+          </Link>
+          <span
+            className={`block text-xs md:hidden ${row.original.state === "contaminated" ? "font-semibold text-danger-ink" : "text-ink-soft"}`}
+          >
+            {row.original.state}
+          </span>
+        </>
       ),
     },
     // The code as farms write it, the name beside it for whoever has not learnt the codes.
@@ -33,9 +41,47 @@ function columnsFor(display: MassDisplay, dateStyle: DateStyle, seasonStart: Sea
       header: "Strain",
       cell: ({ row }) => (
         <span>
-          {row.original.strainCode} <span className="text-ink-soft">{row.original.strainName}</span>
+          {row.original.strainCode} <span className="block text-xs text-ink-soft md:inline md:text-sm">{row.original.strainName}</span>
         </span>
       ),
+    },
+    {
+      accessorFn: (block) => block.biologicalEfficiency,
+      id: "be",
+      header: "BE %",
+      // Null after a harvest when the wet mass or the moisture is missing: BE needs the dry substrate mass.
+      cell: ({ row, getValue }) =>
+        row.original.flushes === 0 ? (
+          noHarvestYet
+        ) : (
+          <span className="whitespace-nowrap">{percent(getValue() as number | null) || "no dry mass"}</span>
+        ),
+    },
+    {
+      accessorFn: (block) => block.state,
+      id: "state",
+      header: "State",
+      cell: ({ row }) => (
+        <span className={row.original.state === "contaminated" ? "font-semibold text-danger-ink" : ""}>{row.original.state}</span>
+      ),
+    },
+    {
+      // Sorted and downloaded as the flush and its YYYY-MM-DD day; shown in the member's date style.
+      accessorFn: (block) => (block.lastFlush ? `${block.lastFlush.flush} ${block.lastFlush.harvestedOn ?? ""}`.trim() : ""),
+      id: "lastFlush",
+      header: "Last flush",
+      cell: ({ row }) => {
+        const last = row.original.lastFlush;
+        if (!last) return "none yet";
+        return (
+          <>
+            <span className="block whitespace-nowrap">flush {last.flush}</span>
+            <span className="block whitespace-nowrap text-ink-soft">
+              {last.harvestedOn ? formatDate(last.harvestedOn, dateStyle) : "no date"}
+            </span>
+          </>
+        );
+      },
     },
     { accessorFn: (block) => block.recipeCode ?? "", id: "recipe", header: "Recipe" },
     {
@@ -65,13 +111,6 @@ function columnsFor(display: MassDisplay, dateStyle: DateStyle, seasonStart: Sea
       cell: ({ row, getValue }) => (row.original.flushes === 0 ? noHarvestYet : formatMass(getValue() as number, display)),
     },
     {
-      accessorFn: (block) => block.biologicalEfficiency,
-      id: "be",
-      header: "BE %",
-      cell: ({ row, getValue }) => (row.original.flushes === 0 ? noHarvestYet : percent(getValue() as number | null)),
-    },
-    { accessorFn: (block) => (block.contaminated ? "yes" : "no"), id: "contaminated", header: "Contaminated" },
-    {
       accessorFn: (block) => block.massLoss,
       id: "massLoss",
       header: "Mass loss",
@@ -81,17 +120,22 @@ function columnsFor(display: MassDisplay, dateStyle: DateStyle, seasonStart: Sea
   ];
 }
 
-/** The farm's blocks, sortable and filterable; masses in the member's display units. */
+/** What a grower looks for first (the state under the code), shown at every width; the other columns are one tap away on a phone. */
+const firstColumns = ["code", "strain", "be", "lastFlush"] as const;
+
+/** The farm's blocks, sortable; masses in the member's display units. The page searches them on the server. */
 export function BlocksTable({
   rows,
   display,
   dateStyle,
   seasonStart,
+  emptyMessage,
 }: {
   rows: BlockRow[];
   display: MassDisplay;
   dateStyle: DateStyle;
   seasonStart: SeasonStart;
+  emptyMessage: string;
 }) {
   const columns = useMemo(() => columnsFor(display, dateStyle, seasonStart), [display, dateStyle, seasonStart]);
   return (
@@ -99,8 +143,10 @@ export function BlocksTable({
       caption="Blocks and harvests"
       columns={columns}
       rows={rows}
-      emptyMessage="No blocks here yet. Upload your season log, or ask the farm manager to; or choose another season."
+      emptyMessage={emptyMessage}
       csvFileName="blocks-and-harvests.csv"
+      firstColumns={firstColumns}
+      filterable={false}
     />
   );
 }

@@ -19,6 +19,7 @@ import {
 } from "@/lib/offline/harvest-queue";
 import { roomOn } from "@/lib/rooms/regimes";
 import { recordHarvestAction } from "./actions";
+import { count } from "@/lib/words";
 
 /** The server's answer, or "kept": no answer came, so the entry waits on this phone. */
 type FormState = Omit<ActionState, "status"> & { status: ActionState["status"] | "kept" };
@@ -106,7 +107,7 @@ export function QuickHarvestForm({
   const sendWaiting = useCallback(async () => {
     try {
       const sent = await sendKept(memberId, sendOnce);
-      if (sent > 0) setSentNote(`Sent ${sent} ${sent === 1 ? "entry" : "entries"} kept on this phone.`);
+      if (sent > 0) setSentNote(`Sent ${count(sent, "entry", "entries")} kept on this phone.`);
     } finally {
       await reload();
     }

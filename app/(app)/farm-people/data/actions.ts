@@ -4,6 +4,7 @@ import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { guardedAction } from "@/lib/auth/guard";
 import { withdrawFarmData } from "@/lib/data/data-rights";
+import { agree, count } from "@/lib/words";
 
 const withdrawSchema = z.object({ confirmation: z.string().trim().min(1, "Type your farm's name to confirm.") });
 
@@ -12,9 +13,9 @@ export const withdrawFarmDataAction = guardedAction("farm:withdraw", withdrawSch
   revalidatePath("/", "layout");
   return {
     status: "ok",
-    message: `Withdrawn: ${removed.blocks} blocks, ${removed.harvests} harvests and ${removed.uploads} uploaded files were deleted, and the co-op's pooled results are being recomputed without them. ${
+    message: `Withdrawn: ${count(removed.blocks, "block")}, ${count(removed.harvests, "harvest")} and ${count(removed.uploads, "uploaded file")} were deleted, and the co-op's pooled results are being recomputed without them. ${
       removed.publishedTrialsNoted > 0
-        ? `${removed.publishedTrialsNoted} published trial report${removed.publishedTrialsNoted === 1 ? " keeps its figures and now says" : "s keep their figures and now say"} that a farm withdrew. `
+        ? `${count(removed.publishedTrialsNoted, "published trial report")} ${agree(removed.publishedTrialsNoted, "keeps its figures and now says", "keep their figures and now say")} that a farm withdrew. `
         : ""
     }The record of this withdrawal stays in the activity log.`,
   };

@@ -9,6 +9,7 @@ import type { OwnStrainSummary } from "@/lib/pooled";
 import { useMyFarm } from "@/lib/queries/my-farm";
 import { formatMass } from "@/lib/units";
 import { formatDate } from "@/lib/time/display";
+import { OwnDataNotice } from "@/components/ui/own-data-notice";
 
 type Row = Record<
   "strain" | "blocks" | "harvests" | "fresh" | "efficiency" | "percentile" | "contamination" | "massLoss" | "toCome",
@@ -41,7 +42,13 @@ function toRow(strain: OwnStrainSummary, units: "metric" | "imperial"): Row {
     harvests: String(strain.harvests),
     fresh: strain.harvests === 0 ? "no harvest yet" : formatMass(strain.freshG, units),
     efficiency:
-      strain.harvests === 0 ? "no harvest yet" : strain.meanEfficiency === null ? "none yet" : `${strain.meanEfficiency.toFixed(1)} %`,
+      strain.harvests === 0
+        ? "no harvest yet"
+        : strain.meanEfficiency === null
+          ? strain.withoutDryMass > 0
+            ? "none: no dry substrate mass (see above)"
+            : "none yet"
+          : `${strain.meanEfficiency.toFixed(1)} %`,
     percentile: strain.percentile.status === "published" ? placeInCoop(strain.percentile.value) : strain.percentile.message,
     contamination: `${strain.contaminated} of ${strain.blocks} (${strain.contaminationPercent.toFixed(0)} %)`,
     massLoss: strain.meanMassLoss === null ? "no spent blocks weighed" : `${strain.meanMassLoss.toFixed(1)} %`,
@@ -82,6 +89,7 @@ export function MyFarmView({ season }: { season: number | null }) {
   const withCurves = page.strains.filter((strain) => strain.ownCumulative || strain.coopCumulative);
   return (
     <div className="space-y-6">
+      <OwnDataNotice notes={page.ownLeftOut} />
       <Card
         title={page.seasonLabel ? `${page.farmName} in season ${page.seasonLabel}, by strain` : `${page.farmName} this season, by strain`}
       >

@@ -26,6 +26,7 @@ import type { PooledResultsPage } from "@/lib/data/pooled-results";
 import type { ReleaseInfo } from "@/lib/data/pooled-releases";
 import { resultsAddress, type ResultsSelection } from "@/lib/pooled/results-address";
 import { seasonLabel, type SeasonStart } from "@/lib/seasons";
+import { OwnDataNotice } from "@/components/ui/own-data-notice";
 import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 
 type StrainRow = StrainTableRow;
@@ -164,6 +165,7 @@ export function ResultsView(props: { page: PooledResultsPage; selection: Results
         </label>
       </form>
 
+      <OwnDataNotice notes={page.ownLeftOut} />
       {pending ? (
         <p role="status" className="rounded-lg border border-oat-300 bg-white p-4 text-ink-soft">
           Loading the co-op&apos;s results…

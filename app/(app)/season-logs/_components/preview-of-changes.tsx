@@ -6,6 +6,7 @@ import { DataTable } from "@/components/ui/data-table";
 import { seasonLogColumns } from "@/lib/import/schema";
 import type { BlockRoom, ValueChange } from "@/lib/season-logs/plan";
 import type { UploadPreview } from "@/lib/season-logs/report";
+import { agree, count } from "@/lib/words";
 
 const titles = new Map<string, string>(seasonLogColumns.map((column) => [column.name, column.title]));
 
@@ -30,15 +31,13 @@ const roomColumns: ColumnDef<BlockRoom, unknown>[] = [
   { accessorFn: (room) => roomChangeWords[room.change], id: "change", header: "On commit" },
 ];
 
-const plural = (count: number, one: string) => `${count} ${one}${count === 1 ? "" : "s"}`;
-
 /** "8 harvests recorded with the phone form and 2 from other files are not in this file." */
 function notInFileWords(phoneForm: number, otherFiles: number): string {
   const parts = [
-    ...(phoneForm > 0 ? [`${plural(phoneForm, "harvest")} recorded with the phone form`] : []),
-    ...(otherFiles > 0 ? [`${phoneForm > 0 ? otherFiles : plural(otherFiles, "harvest")} from other files`] : []),
+    ...(phoneForm > 0 ? [`${count(phoneForm, "harvest")} recorded with the phone form`] : []),
+    ...(otherFiles > 0 ? [`${phoneForm > 0 ? otherFiles : count(otherFiles, "harvest")} from other files`] : []),
   ];
-  return `${parts.join(" and ")} ${phoneForm + otherFiles === 1 ? "is" : "are"} not in this file.`;
+  return `${parts.join(" and ")} ${agree(phoneForm + otherFiles, "is", "are")} not in this file.`;
 }
 
 /** What a commit would do to the farm's stored blocks and harvests, and what it would leave or remove that the file does not have. */
@@ -79,7 +78,7 @@ export function PreviewOfChanges({
       {preview.rooms && preview.rooms.count > 0 ? (
         <div className="mt-4" data-testid="preview-rooms">
           <h3 className="mb-2 font-semibold">
-            Fruiting rooms named in the file ({plural(preview.rooms.count, "block")}; a block left blank keeps its recorded room)
+            Fruiting rooms named in the file ({count(preview.rooms.count, "block")}; a block left blank keeps its recorded room)
           </h3>
           <DataTable caption="Fruiting room per block" columns={roomColumns} rows={preview.rooms.blocks} emptyMessage="" pageSize={10} />
         </div>
@@ -108,7 +107,7 @@ export function PreviewOfChanges({
       ) : null}
       {preview.notInFile && preview.notInFile.blocks > 0 ? (
         <p className="mt-4 text-sm text-ink-soft">
-          {plural(preview.notInFile.blocks, "stored block")} {preview.notInFile.blocks === 1 ? "is" : "are"} not in this file; committing
+          {count(preview.notInFile.blocks, "stored block")} {preview.notInFile.blocks === 1 ? "is" : "are"} not in this file; committing
           leaves {preview.notInFile.blocks === 1 ? "it" : "them"} as {preview.notInFile.blocks === 1 ? "it is" : "they are"}.
         </p>
       ) : null}

@@ -12,6 +12,7 @@ import type { ParseChoices } from "@/lib/season-logs/report";
 import { IssueTable } from "./issue-table";
 import { PreviewOfChanges } from "./preview-of-changes";
 import { formatDateTime, formatDay, type TimeDisplay } from "@/lib/time/display";
+import { agree, count } from "@/lib/words";
 
 type Phase = "pick" | "sending" | "review" | "committing" | "done";
 type MassUnit = NonNullable<ParseChoices["defaultMassUnit"]>;
@@ -280,9 +281,8 @@ export function SeasonLogUpload({ display }: { display: TimeDisplay }) {
 
           <Card title="3. Review">
             <p className="mb-3 text-sm text-ink-soft" data-testid="review-summary">
-              {view.upload.fileName}: {view.report.rowCount} rows · {view.report.errorCount} error{view.report.errorCount === 1 ? "" : "s"}{" "}
-              · {view.report.warningCount} warning
-              {view.report.warningCount === 1 ? "" : "s"} ·{" "}
+              {view.upload.fileName}: {count(view.report.rowCount, "row")} · {count(view.report.errorCount, "error")} ·{" "}
+              {count(view.report.warningCount, "warning")} ·{" "}
               {view.report.detected.workbook ? (
                 <>
                   read from the sheet “{view.report.detected.workbook.sheet ?? "none"}” of the .{view.report.detected.workbook.kind} file,
@@ -306,8 +306,8 @@ export function SeasonLogUpload({ display }: { display: TimeDisplay }) {
             {view.report.errorCount > 0 ? (
               <Notice tone="danger" title="Fix these before committing">
                 <p>
-                  The file has {view.report.errorCount} error{view.report.errorCount === 1 ? "" : "s"}. Correct them in your spreadsheet and
-                  upload the corrected file, or change the mapping above and check again. Nothing is saved to your blocks until you commit.
+                  The file has {count(view.report.errorCount, "error")}. Correct them in your spreadsheet and upload the corrected file, or
+                  change the mapping above and check again. Nothing is saved to your blocks until you commit.
                 </p>
               </Notice>
             ) : null}
@@ -344,10 +344,13 @@ export function SeasonLogUpload({ display }: { display: TimeDisplay }) {
               {receipt.fileName} was committed on {formatDateTime(receipt.committedAt, display)}.
             </p>
             <p>
-              {receipt.counts.newBlocks} new blocks, {receipt.counts.changedBlocks} blocks changed, {receipt.counts.newHarvests} new
-              harvests, {receipt.counts.changedHarvests} harvests changed; {receipt.changedValues} replaced values kept in the blocks’
-              history.
-              {receipt.removedHarvests > 0 ? ` ${receipt.removedHarvests} harvests that were not in the file removed, as you chose.` : ""}
+              {count(receipt.counts.newBlocks, "new block")}, {count(receipt.counts.changedBlocks, "block changed", "blocks changed")},{" "}
+              {count(receipt.counts.newHarvests, "new harvest")},{" "}
+              {count(receipt.counts.changedHarvests, "harvest changed", "harvests changed")};{" "}
+              {count(receipt.changedValues, "replaced value")} kept in the blocks’ history.
+              {receipt.removedHarvests > 0
+                ? ` ${count(receipt.removedHarvests, "harvest")} that ${agree(receipt.removedHarvests, "was", "were")} not in the file removed, as you chose.`
+                : ""}
             </p>
           </div>
           <div className="mt-4 flex flex-wrap gap-3">

@@ -6,7 +6,8 @@ import { seasonLogColumns, seasonLogSchemaVersion } from "@/lib/import";
 
 export const metadata: Metadata = { title: "The shared season-log columns" };
 
-const requiredWords = { always: "Every row", harvest: "Every harvest row", no: "May stay blank" } as const;
+// One answer per column to "must I fill it in?", so no hint reads "Required: may stay blank".
+const requiredWords = { always: "Yes, on every row", harvest: "Yes, on every harvest row", no: "No, it may stay blank" } as const;
 
 export default async function SeasonLogColumnsPage() {
   await requirePage("registry:read");
@@ -65,7 +66,7 @@ export default async function SeasonLogColumnsPage() {
             </h2>
             <p className="mt-1">{column.meaning}</p>
             <dl className="mt-2 grid gap-1 text-sm sm:grid-cols-[10rem_1fr]">
-              <dt className="text-ink-soft">Required</dt>
+              <dt className="text-ink-soft">Must be filled in</dt>
               <dd>{requiredWords[column.required]}</dd>
               <dt className="text-ink-soft">Examples</dt>
               <dd>

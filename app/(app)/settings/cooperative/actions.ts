@@ -7,6 +7,7 @@ import { cutReleaseNow } from "@/lib/data/pooled-releases";
 import { updateCooperativeSettings } from "@/lib/data/pooled-settings";
 import { cooperativeSettingsSchema } from "@/lib/pooled";
 import { timeDisplayFor } from "@/lib/time/member-display";
+import { count } from "@/lib/words";
 
 export const updateCooperativeSettingsAction = guardedAction("settings:manage", cooperativeSettingsSchema, async (input, member) => {
   // The hour is read on the clocks of the zone the coordinator reads every other time in.
@@ -25,7 +26,10 @@ export const cutReleaseNowAction = guardedAction("settings:manage", cutReleaseSc
   revalidatePath("/settings/cooperative");
   revalidatePath("/results");
   if (attempt.outcome === "cut") {
-    return { status: "ok", message: `Release ${attempt.release.number} is published: ${attempt.figuresChanged} figures took new values.` };
+    return {
+      status: "ok",
+      message: `Release ${attempt.release.number} is published: ${count(attempt.figuresChanged, "figure")} took new values.`,
+    };
   }
   if (attempt.outcome === "waiting") {
     return {

@@ -36,6 +36,7 @@ import { todayUtc } from "@/lib/import/dates";
 import { formatDateTime, formatDay, type TimeDisplay } from "@/lib/time/display";
 import { timeDisplayFor } from "@/lib/time/member-display";
 import { ScrollFrame } from "@/components/ui/scroll-frame";
+import { agree, count } from "@/lib/words";
 
 export const metadata: Metadata = { title: "Trial" };
 
@@ -107,7 +108,7 @@ async function CoordinatorControls(props: { trial: TrialView; member: Member; re
           <div className="mb-3" data-testid="too-few-farms">
             <Notice tone="caution" title="Not enough farms to start">
               <p>
-                {readiness.accepted} of the {readiness.minimumFarms} farms a trial needs {readiness.accepted === 1 ? "has" : "have"}{" "}
+                {readiness.accepted} of the {readiness.minimumFarms} farms a trial needs {agree(readiness.accepted, "has", "have")}{" "}
                 accepted. It can start only once at least {readiness.minimumFarms} farms take part (the co-op&apos;s minimum), so that its
                 report never shows one farm&apos;s figures.
               </p>
@@ -130,7 +131,7 @@ async function CoordinatorControls(props: { trial: TrialView; member: Member; re
                 <label className="flex items-start gap-3 text-sm">
                   <input type="checkbox" name="reviewed" value={review.fingerprint} required className="mt-0.5 h-5 w-5 shrink-0" />
                   <span>
-                    I have read what is still incomplete. Close the trial and analyse what is in: {review.totals.wouldCount} blocks
+                    I have read what is still incomplete. Close the trial and analyse what is in: {count(review.totals.wouldCount, "block")}{" "}
                     compared, the rest left out and listed under &ldquo;Deviations from the plan&rdquo;.
                   </span>
                 </label>
@@ -381,7 +382,7 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
   return (
     <Card title="Your farm's part">
       <p className="text-sm">
-        {enrolment.blocksPerArm} blocks per arm. Randomised from seed{" "}
+        {enrolment.blocksPerArm === null ? "No number of blocks" : count(enrolment.blocksPerArm, "block")} per arm. Randomised from seed{" "}
         <code className="break-all font-mono text-xs">{enrolment.randomisationSeed}</code>, so the list can be checked.
         {enrolment.remindersAllowed ? "" : " You asked not to get reminders."}
       </p>

@@ -5,6 +5,7 @@ import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 import { amendmentReasonMinimum } from "@/lib/trials/versions";
 import { amendAnalysisAction, runAnalysisAction } from "../actions";
 import { ActionForm } from "@/components/forms/action-form";
+import { count } from "@/lib/words";
 
 function standing(run: AnalysisRunView): string {
   if (!run.publication) return "Not published";
@@ -149,7 +150,7 @@ export function RunChoice({ runs, display }: { runs: AnalysisRunView[]; display:
         <label key={run.id} className="flex min-h-11 items-center gap-3 text-sm">
           <input type="radio" name="analysisId" value={run.id} defaultChecked={index === 0} required className="h-5 w-5" />
           Run {run.run}, made {when(run.ranAt)}
-          {run.inputs ? ` (${run.inputs.compared} blocks compared)` : ""}
+          {run.inputs ? ` (${count(run.inputs.compared, "block")} compared)` : ""}
           {index === 0 ? ", the newest" : ""}
         </label>
       ))}

@@ -1,8 +1,7 @@
 import { Card } from "@/components/ui/card";
 import type { CloseReview } from "@/lib/data/trials";
 import { hasIncomplete } from "@/lib/trials/outcome";
-
-const plural = (count: number, one: string, many = `${one}s`) => `${count} ${count === 1 ? one : many}`;
+import { agree, count } from "@/lib/words";
 
 /** What closing now would leave incomplete, per farm and arm: counts of blocks only, never a mass. */
 export function CloseReviewCard({ review, outcomeFlushes }: { review: CloseReview; outcomeFlushes: number }) {
@@ -11,14 +10,14 @@ export function CloseReviewCard({ review, outcomeFlushes }: { review: CloseRevie
     <Card title="Before closing: what is still incomplete">
       <p className="mb-3 text-sm">
         Closing runs the pre-declared analysis (run 1); you can run it again as late records arrive, and publishing freezes the run you
-        pick. If the trial closed now, <strong>{plural(totals.wouldCount, "block")}</strong> would be compared and{" "}
+        pick. If the trial closed now, <strong>{count(totals.wouldCount, "block")}</strong> would be compared and{" "}
         <strong>
-          {plural(totals.leftOut.unfinished + totals.leftOut.lost + totals.leftOut.no_harvest + totals.leftOut.contaminated, "block")}
+          {count(totals.leftOut.unfinished + totals.leftOut.lost + totals.leftOut.no_harvest + totals.leftOut.contaminated, "block")}
         </strong>{" "}
         left out: {totals.leftOut.unfinished} unfinished (not yet through flush {outcomeFlushes} and not marked spent),{" "}
         {totals.leftOut.lost} lost (no wet mass or moisture), {totals.leftOut.no_harvest} without a harvest in flushes 1–{outcomeFlushes},{" "}
-        {totals.leftOut.contaminated} contaminated. {plural(totals.notInSeasonLog, "listed block")}{" "}
-        {totals.notInSeasonLog === 1 ? "is" : "are"} not in any season log yet.
+        {totals.leftOut.contaminated} contaminated. {count(totals.notInSeasonLog, "listed block")}{" "}
+        {agree(totals.notInSeasonLog, "is", "are")} not in any season log yet.
       </p>
       <p className="mb-3 text-sm text-ink-soft">Counts of blocks only; no farm&apos;s weights are shown here.</p>
       <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Incomplete blocks by farm and arm">

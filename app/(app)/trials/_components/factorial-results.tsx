@@ -1,5 +1,6 @@
 import { Card } from "@/components/ui/card";
 import type { FactorialComparison, FactorialTrialAnalysis } from "@/lib/trials/factorial";
+import { count } from "@/lib/words";
 
 const fmt = (value: number, digits = 1) => value.toFixed(digits);
 const pText = (p: number) => (p < 0.001 ? "< 0.001" : fmt(p, 3));
@@ -157,7 +158,7 @@ export function FactorialResults({ factorial }: { factorial: FactorialTrialAnaly
                             <span className="text-ink-soft">
                               ({fmt(cell.lower)} to {fmt(cell.upper)})
                             </span>
-                            <span className="block text-xs text-ink-soft">{cell.blocks} blocks</span>
+                            <span className="block text-xs text-ink-soft">{count(cell.blocks, "block")}</span>
                           </>
                         ) : (
                           "—"

@@ -5,6 +5,7 @@ import { z } from "zod";
 import { guardedAction } from "@/lib/auth/guard";
 import { undoCommit } from "@/lib/data/corrections";
 import { correctionReason } from "@/lib/season-logs/corrections";
+import { count } from "@/lib/words";
 
 const undoCommitSchema = z.object({ uploadId: z.string().max(100), reason: correctionReason });
 
@@ -12,7 +13,6 @@ export const undoCommitAction = guardedAction("farm-data:correct", undoCommitSch
   const receipt = await undoCommit(member, input);
   revalidatePath("/season-logs");
   revalidatePath("/blocks", "layout");
-  const count = (n: number, one: string) => `${n} ${one}${n === 1 ? "" : "s"}`;
   return {
     status: "ok",
     message: `Undone: ${receipt.fileName}. Removed ${count(receipt.removedBlocks, "block")} and ${count(receipt.removedHarvests, "harvest")} it added; put back ${count(receipt.restoredRows, "row")} it changed, as they were. The co-op's figures follow at their next release.`,

@@ -9,6 +9,7 @@ import { isAppError } from "@/lib/errors";
 import { formatDateTime, formatDay } from "@/lib/time/display";
 import { timeDisplayFor } from "@/lib/time/member-display";
 import { UndoCommitForm } from "./undo-form";
+import { count } from "@/lib/words";
 
 export const metadata: Metadata = { title: "Undo a commit" };
 
@@ -41,9 +42,9 @@ export default async function UndoCommitPage({ params }: { params: Promise<{ upl
           <div className="space-y-4">
             <p>
               Committed on {upload.committedAt ? formatDateTime(upload.committedAt, display) : ""}. Undoing it removes the{" "}
-              {counts.newBlocks} new blocks and {counts.newHarvests} new harvests it added and puts back the{" "}
-              {counts.changedBlocks + counts.changedHarvests} blocks and harvests it changed, exactly as they were. Each value put back is
-              kept in the blocks&apos; history with your reason; nothing is deleted silently.
+              {count(counts.newBlocks, "new block")} and {count(counts.newHarvests, "new harvest")} it added and puts back the{" "}
+              {count(counts.changedBlocks + counts.changedHarvests, "block or harvest", "blocks and harvests")} it changed, exactly as they
+              were. Each value put back is kept in the blocks&apos; history with your reason; nothing is deleted silently.
             </p>
             <p>
               If a later file or a correction has changed the same rows since, nothing is undone and you are told which rows: undo the later

@@ -4,6 +4,7 @@ import { describeReleaseSchedule } from "@/lib/pooled";
 import { formatDateTime, type TimeDisplay } from "@/lib/time/display";
 import { ActionForm } from "@/components/forms/action-form";
 import { cutReleaseNowAction } from "../actions";
+import { agree, count } from "@/lib/words";
 
 const outcomeLabels: Record<string, string> = {
   cut: "a release was published",
@@ -34,8 +35,7 @@ export function ReleasePanel({ status, display }: { status: ReleaseStatus; displ
       {now.outcome === "cut" ? (
         <Notice title="Ready to publish">
           <p>
-            A release now would give {now.figuresChanged} figure{now.figuresChanged === 1 ? "" : "s"} new values, from changes by{" "}
-            {now.farmsChanged} farms.
+            A release now would give {count(now.figuresChanged, "figure")} new values, from changes by {count(now.farmsChanged, "farm")}.
           </p>
         </Notice>
       ) : now.outcome === "unchanged" ? (
@@ -45,7 +45,7 @@ export function ReleasePanel({ status, display }: { status: ReleaseStatus; displ
       ) : (
         <Notice tone="caution" title="The next release waits">
           <p>
-            {now.farmsChanged} farm{now.farmsChanged === 1 ? " has" : "s have"} changed data since{" "}
+            {count(now.farmsChanged, "farm")} {agree(now.farmsChanged, "has", "have")} changed data since{" "}
             {latest ? `release ${latest.number}` : "the start"}. A figure takes a new value only when at least {now.minimumFarms} farms have
             changed it, so that comparing two releases never shows one farm&apos;s numbers.
           </p>
@@ -57,8 +57,8 @@ export function ReleasePanel({ status, display }: { status: ReleaseStatus; displ
           <ul className="mt-2 list-disc space-y-1 pl-5 text-sm" data-testid="waiting-figures">
             {now.waiting.map((entry) => (
               <li key={entry.strainName}>
-                {entry.strainName} ({entry.figures.join(", ")}): changes from {entry.farmsChanged} farm{entry.farmsChanged === 1 ? "" : "s"}{" "}
-                so far; needs {now.minimumFarms}.
+                {entry.strainName} ({entry.figures.join(", ")}): changes from {count(entry.farmsChanged, "farm")} so far; needs{" "}
+                {now.minimumFarms}.
               </li>
             ))}
           </ul>

@@ -20,6 +20,7 @@ import { ProtocolSummary } from "../../_components/protocol-summary";
 import { StatusBadge } from "../../_components/status-badge";
 import { ArmBoxplot, TrialForestChart } from "../../_components/trial-charts";
 import { DifferenceRow, FactorialResults } from "../../_components/factorial-results";
+import { agree, count } from "@/lib/words";
 
 export const metadata: Metadata = { title: "Trial results" };
 
@@ -168,7 +169,7 @@ function Report({ trial, results, display }: { trial: TrialView; results: Stored
         <p className="mt-2 text-sm text-ink-soft">
           {results.analysis.blocksAnalysed === null
             ? `Fewer than ${results.analysis.minimumFarms} farms reported, so no figure of this trial is published.`
-            : `${results.analysis.blocksAnalysed} blocks from ${results.analysis.farmsContributing} farms were analysed.`}{" "}
+            : `${count(results.analysis.blocksAnalysed, "block")} from ${count(results.analysis.farmsContributing, "farm")} ${agree(results.analysis.blocksAnalysed, "was", "were")} analysed.`}{" "}
           Intervals are 95 %.{" "}
           {results.analysis.differencesFrom === "arm + farm"
             ? "Differences are between farm-adjusted means (each farm counts as a block) and are adjusted for comparing every pair of arms (Tukey)."
@@ -294,8 +295,8 @@ function Report({ trial, results, display }: { trial: TrialView; results: Stored
       <Card title="Deviations from the plan">
         <ul className="list-disc space-y-1 pl-5 text-sm">
           <li>
-            {results.deviations.farmsDropped} invited farm{results.deviations.farmsDropped === 1 ? "" : "s"} dropped out or never answered;{" "}
-            {results.deviations.farmsDeclined} declined.
+            {count(results.deviations.farmsDropped, "invited farm")} dropped out or never answered; {results.deviations.farmsDeclined}{" "}
+            declined.
           </li>
           {results.deviations.plan ? <PlannedAndAchievedItem plan={results.deviations.plan} /> : null}
           {results.deviations.blocksMade !== null && results.deviations.blocksLeftOut !== null ? (
@@ -304,8 +305,8 @@ function Report({ trial, results, display }: { trial: TrialView; results: Stored
                 {results.deviations.blocksMade} of {results.deviations.blocksAssigned} listed blocks reached a season log.
               </li>
               <li>
-                {results.deviations.blocksLeftOut} block{results.deviations.blocksLeftOut === 1 ? " was" : "s were"} left out of the BE
-                comparison
+                {count(results.deviations.blocksLeftOut, "block")} {agree(results.deviations.blocksLeftOut, "was", "were")} left out of the
+                BE comparison
                 {results.deviations.byArm
                   ? ", by reason and arm below."
                   : " (contaminated, as declared, or without a wet mass or moisture)."}
@@ -369,11 +370,11 @@ function DifferenceTable({ rows, farmAdjusted }: { rows: Difference[]; farmAdjus
 function PlannedAndAchievedItem({ plan }: { plan: PlannedAndAchieved }) {
   return (
     <li data-testid="planned-achieved">
-      Planned: {plan.farmsPlanned === null ? "no number of farms given" : `${plan.farmsPlanned} farms`}
+      Planned: {plan.farmsPlanned === null ? "no number of farms given" : count(plan.farmsPlanned, "farm")}
       {plan.blocksPerArmNeeded !== null
         ? `, ${plan.blocksPerArmNeeded} blocks per arm compared for 80 % power (${plan.blocksPerArmToMake} to make, allowing for the expected loss)`
         : ", no sample size calculated"}
-      . Achieved: {plan.farmsTakingPart} farm{plan.farmsTakingPart === 1 ? "" : "s"} taking part
+      . Achieved: {count(plan.farmsTakingPart, "farm")} taking part
       {plan.farmsContributing !== null ? `, ${plan.farmsContributing} with blocks compared` : ""}; the blocks compared per arm are in the
       table below.
     </li>
