@@ -3,7 +3,7 @@ import {
   blockSeason,
   calendarYear,
   readSeason,
-  seasonFromSearchParam,
+  seasonInAddressSchema,
   seasonLabel,
   seasonOfDate,
   seasonStartProblem,
@@ -90,12 +90,15 @@ describe("a season as written", () => {
     expect(seasonLabel(2026, calendarYear)).toBe("2026");
   });
 
-  it("is read from an address, and anything else there means every season", () => {
-    expect(seasonFromSearchParam("2026")).toBe(2026);
-    expect(seasonFromSearchParam("2026/27")).toBe(2026);
-    expect(seasonFromSearchParam(["2025", "2026"])).toBe(2025);
-    expect(seasonFromSearchParam("all")).toBeNull();
-    expect(seasonFromSearchParam(undefined)).toBeNull();
+  it("is read from an address; blank is every season, anything else that is not a season is refused", () => {
+    expect(seasonInAddressSchema.parse("2026")).toBe(2026);
+    expect(seasonInAddressSchema.parse("2026/27")).toBe(2026);
+    expect(seasonInAddressSchema.parse(["2025", "2026"])).toBe(2025);
+    expect(seasonInAddressSchema.parse(undefined)).toBeUndefined();
+    expect(seasonInAddressSchema.parse("")).toBeUndefined();
+    const refused = seasonInAddressSchema.safeParse("all");
+    expect(refused.success).toBe(false);
+    expect(refused.error?.issues[0].message).toMatch(/"all", is not a season: write the year it starts/);
   });
 });
 

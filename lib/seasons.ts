@@ -123,14 +123,6 @@ export function readSeason(text: string): SeasonReading | null {
   return { ok: true, seasonYear: first };
 }
 
-/** A season in an address (?season=2026): the starting year, or null for every season. Anything else is ignored. */
-export function seasonFromSearchParam(value: string | string[] | undefined): number | null {
-  const text = Array.isArray(value) ? value[0] : value;
-  if (text === undefined) return null;
-  const reading = readSeason(text);
-  return reading?.ok ? reading.seasonYear : null;
-}
-
 /**
  * A season in an address (?season=2026 or ?season=2026/27), checked: absent or blank is every
  * season; anything else that is not a season is refused with what to write instead.

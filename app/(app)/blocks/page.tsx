@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import { ButtonLink } from "@/components/ui/button";
+import { Notice } from "@/components/ui/notice";
 import { PageHeader } from "@/components/ui/page-header";
 import { requirePage } from "@/lib/auth/guard";
 import { can } from "@/lib/auth/permissions";
@@ -7,7 +8,7 @@ import { SeasonFilter } from "@/components/ui/season-filter";
 import { listBlocks } from "@/lib/data/blocks";
 import { listFarmSeasons } from "@/lib/data/seasons";
 import { blockSearchFromSearchParam, longestBlockSearch } from "@/lib/season-logs/block-search";
-import { seasonFromSearchParam, seasonLabel } from "@/lib/seasons";
+import { seasonInAddressSchema, seasonLabel } from "@/lib/seasons";
 import { count } from "@/lib/words";
 import { BlocksTable } from "./_components/blocks-table";
 
@@ -16,7 +17,9 @@ export const metadata: Metadata = { title: "Blocks & harvests" };
 export default async function BlocksPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const member = await requirePage("farm-data:read");
   const query = await searchParams;
-  const season = seasonFromSearchParam(query.season);
+  // A season that is not one is said, not silently read as every season (the table would look complete).
+  const reading = seasonInAddressSchema.safeParse(query.season);
+  const season = reading.success ? (reading.data ?? null) : null;
   const search = blockSearchFromSearchParam(query.q);
   const [rows, { start, seasons }] = await Promise.all([listBlocks(member, { season, search }), listFarmSeasons(member)]);
   const inSeason = season === null ? "" : ` in ${seasonLabel(season, start)}`;
@@ -79,6 +82,13 @@ export default async function BlocksPage({ searchParams }: { searchParams: Promi
           {inSeason} with “{search}” in the code or the note.
         </p>
       ) : null}
+      {reading.success ? null : (
+        <Notice tone="danger" title="This address does not name a season">
+          {reading.error.issues.map((issue) => (
+            <p key={issue.message}>{issue.message} Choose a season above; the table shows every season until then.</p>
+          ))}
+        </Notice>
+      )}
       <BlocksTable
         rows={rows}
         display={member.displayUnits}
