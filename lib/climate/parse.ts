@@ -7,6 +7,7 @@ import type { DateEvidence } from "../import/state";
 import { type DecimalMark, decimalEvidence, parseDecimalNumber } from "../units";
 import { fahrenheitToCelsius } from "../units/temperature";
 import { instantsAt } from "../time/wall-clock";
+import { count } from "../words";
 
 /**
  * Reads the CSV a small temperature / humidity (and CO2) data logger exports. The season log's
@@ -598,7 +599,7 @@ export function parseClimateLog(input: Uint8Array | string, options: ClimatePars
     twelveHour ? "12-hour clock" : "24-hour clock",
     temperatureUnit === null ? null : `°${temperatureUnit}`,
     layout.co2 !== null ? "CO2" : null,
-    headerIndex > 0 ? `${headerIndex} line${headerIndex === 1 ? "" : "s"} above the header` : null,
+    headerIndex > 0 ? `${count(headerIndex, "line")} above the header` : null,
     encoding === "utf-16le" || encoding === "utf-16be" ? "UTF-16" : encoding === "utf-8-bom" ? "UTF-8 with BOM" : null,
   ]
     .filter((part) => part !== null)

@@ -5,6 +5,7 @@ import { redirect } from "next/navigation";
 import { guardedAction } from "@/lib/auth/guard";
 import { addRoom, editRoom, recordRegimeChange, setRoomRetirement } from "@/lib/data/rooms";
 import { regimeChangeSchema, roomEditSchema, roomRetirementSchema, roomSchema } from "@/lib/rooms/schemas";
+import { count } from "@/lib/words";
 
 export const addRoomAction = guardedAction("rooms:record", roomSchema, async (input, member) => {
   const { id } = await addRoom(member, input);
@@ -18,7 +19,7 @@ export const editRoomAction = guardedAction("rooms:manage", roomEditSchema, asyn
   revalidatePath("/rooms", "layout");
   return {
     status: "ok",
-    message: changed === 0 ? "Nothing changed: the room is as stored." : `Saved ${changed} changed value${changed === 1 ? "" : "s"}.`,
+    message: changed === 0 ? "Nothing changed: the room is as stored." : `Saved ${count(changed, "changed value")}.`,
   };
 });
 
