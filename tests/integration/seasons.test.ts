@@ -11,7 +11,7 @@ import { listBlocks } from "@/lib/data/blocks";
 import type { Member } from "@/lib/data/members";
 import { getMyFarm } from "@/lib/data/my-farm";
 import { commitUpload, createUpload, getImportSetup, parseStored } from "@/lib/data/season-logs";
-import { refreshPooledStatistics } from "@/lib/data/pooled-refresh";
+import { farmsAwaitingRefresh, refreshPooledStatistics } from "@/lib/data/pooled-refresh";
 import { getSeasonStart, listFarmSeasons, updateSeasonStart } from "@/lib/data/seasons";
 import { isAppError } from "@/lib/errors";
 import { runQueuedJobs, stopJobWorkers } from "@/lib/jobs/worker";
@@ -61,6 +61,9 @@ beforeAll(async () => {
 afterAll(async () => {
   await updateSeasonStart(asCoordinator, startBefore);
   await runQueuedJobs(["pooled-refresh"]);
+  // Moving the start marked every farm as waiting; the workers' sweep would refresh them, but none
+  // runs here, and a later file would see "results updating" for good.
+  for (const farmId of await farmsAwaitingRefresh()) await refreshPooledStatistics(farmId);
   await stopJobWorkers();
   await inspector.end();
   await closeDatabase();
