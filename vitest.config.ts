@@ -47,6 +47,8 @@ export default defineConfig({
           include: ["tests/e2e/**/*.test.ts"],
           environment: "node",
           fileParallelism: false,
+          // The page tour runs its roles side by side (describe.concurrent); two at once keep both cores busy.
+          maxConcurrency: 2,
           testTimeout: 120_000,
           hookTimeout: 180_000,
         },

@@ -17,8 +17,16 @@ import { expectSecurityHeaders, recordViolations } from "./support/security";
  */
 
 let inspector: Pool;
-let browser: BrowserContext;
 let pages: PageList;
+const browsers: BrowserContext[] = [];
+
+/** A browser of its own for each role, so the roles' tours run side by side (most of a visit is waiting for the network to settle). */
+async function ownBrowser(): Promise<Page> {
+  const browser = await openBrowser();
+  browsers.push(browser);
+  await browser.addInitScript(recordViolations);
+  return browser.pages()[0] ?? (await browser.newPage());
+}
 
 /** What the page's console says about the Content Security Policy, until `stop` is called. */
 function policyConsoleErrors(page: Page): { consoleErrors: string[]; stop: () => void } {
@@ -84,8 +92,6 @@ async function clickThrough(page: Page, menu: string[], details: string[]): Prom
 
 beforeAll(async () => {
   inspector = superuserPool();
-  browser = await openBrowser();
-  await browser.addInitScript(recordViolations);
   pages = await pageList(
     inspector,
     (enrolment) => `/unsubscribe/${encodeURIComponent(signOptOutToken(enrolment, process.env.AUTH_SECRET ?? ""))}`,
@@ -93,14 +99,14 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  await browser?.close();
+  await Promise.all(browsers.map((browser) => browser.close()));
   await inspector?.end();
 });
 
-describe("every page, as every role, at 390 and 1366 px", () => {
-  it("holds when signed out: the policy, the headers, axe, ids and width", async () => {
-    await browser.clearCookies();
-    const page = browser.pages()[0] ?? (await browser.newPage());
+// Concurrent: the e2e project's maxConcurrency bounds how many tours run at once on a 2-core machine.
+describe.concurrent("every page, as every role, at 390 and 1366 px", () => {
+  it("holds when signed out: the policy, the headers, axe, ids and width", { timeout: 360_000 }, async () => {
+    const page = await ownBrowser();
     const problems: string[] = [];
     for (const path of pages.publicPages) problems.push(...(await visit(page, "signed-out", path)));
     expect(problems).toEqual([]);
@@ -109,8 +115,7 @@ describe("every page, as every role, at 390 and 1366 px", () => {
   for (const { role, email } of rolesToVisit) {
     // Each page twice (two widths, axe once): minutes, not seconds, for a role with many pages.
     it(`holds for the ${role}: the menu's pages and the detail pages, opened and clicked`, { timeout: 360_000 }, async () => {
-      await browser.clearCookies();
-      const page = browser.pages()[0] ?? (await browser.newPage());
+      const page = await ownBrowser();
       await page.setViewportSize({ width: 1366, height: 900 });
       await new SignInPage(page).signIn(email);
       await new AppShell(page).waitUntilSignedIn();
