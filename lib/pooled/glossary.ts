@@ -108,6 +108,18 @@ export const glossary = [
       "Blocks in one room share its air and its handling, so they are not separate pieces of evidence about a regime. Each room's own average is worked out first; the comparison then counts rooms, not blocks.",
   },
   {
+    id: "design-effect",
+    term: "Design effect",
+    plain:
+      "How many times more blocks a trial needs when whole rooms, not single blocks, are given a treatment: 1 + (blocks per room − 1) × ICC. At 1.25, a room of 6 blocks tells as much as about 5 separate blocks.",
+  },
+  {
+    id: "intraclass-correlation",
+    term: "ICC (intraclass correlation)",
+    plain:
+      "How alike blocks in the same room are, from 0 (no more alike than any two blocks) to 1 (a room's blocks all give the same). The co-op's own rooms give an estimate; the more alike, the more rooms a trial needs.",
+  },
+  {
     id: "observational",
     term: "Observational comparison",
     plain:
