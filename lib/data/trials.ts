@@ -4,6 +4,7 @@ import { and, asc, desc, eq, inArray, like, sql } from "drizzle-orm";
 import { withAnalystAccess, type Transaction } from "@/db/client";
 import {
   auditEvents,
+  blockRoomMoves,
   blocks,
   cooperativeSettings,
   farms,
@@ -41,6 +42,7 @@ import {
 import type { MailKind, SecretLink } from "@/lib/mail/queued-mail";
 import { pooledRoomIcc, publishedSteps, roundTo, withinFarmSpread } from "@/lib/pooled";
 import { roomArmsProblems } from "@/lib/trials/room-design";
+import { trialBlockRooms } from "@/lib/trials/room-analysis";
 import { seededRandom } from "@/lib/random";
 import {
   assertMove,
@@ -748,7 +750,9 @@ async function storeAnalysisRun(
       .select({ minimumFarms: cooperativeSettings.minimumFarms, showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates })
       .from(cooperativeSettings);
     const { blockRows, harvestRows } = await trialBlockRows(analyst, armIds);
+    const blockRooms = trial.designKind === "rooms" ? await trialBlockRoomsOf(analyst, blockRows) : undefined;
     const inputs = {
+      ...(blockRooms ? { blockRooms } : {}),
       outcome,
       minimumFarms: settings?.minimumFarms ?? 3,
       showPerFarmEstimates: settings?.showPerFarmEstimates ?? false,
@@ -1341,6 +1345,21 @@ async function trialBlockRows(analyst: Transaction, armIds: string[]) {
         )
     : [];
   return { blockRows, harvestRows };
+}
+
+/** A room-level trial's blocks' fruiting rooms, by opaque room id (never a name), through the analyst's columns. */
+async function trialBlockRoomsOf(analyst: Transaction, blockRows: readonly { id: string }[]) {
+  if (!blockRows.length) return new Map<string, string | null>();
+  const ids = blockRows.map((row) => row.id);
+  const moves = await analyst
+    .select({ blockId: blockRoomMoves.blockId, roomId: blockRoomMoves.roomId, movedOn: blockRoomMoves.movedOn })
+    .from(blockRoomMoves)
+    .where(inArray(blockRoomMoves.blockId, ids));
+  const harvestDays = await analyst
+    .select({ blockId: harvests.blockId, harvestedOn: harvests.harvestedOn })
+    .from(harvests)
+    .where(inArray(harvests.blockId, ids));
+  return trialBlockRooms(moves, harvestDays);
 }
 
 async function closeReviewOf(tx: Transaction, trial: TrialBase): Promise<CloseReview> {
