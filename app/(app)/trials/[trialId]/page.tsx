@@ -409,8 +409,10 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
   return (
     <Card title="Your farm's part">
       <p className="text-sm">
-        {enrolment.blocksPerArm === null ? "No number of blocks" : count(enrolment.blocksPerArm, "block")} per arm. Randomised from seed{" "}
-        <code className="break-all font-mono text-xs">{enrolment.randomisationSeed}</code>, so the list can be checked.
+        {trial.designKind === "rooms"
+          ? "Your rooms were drawn to the arms, and each room's blocks listed with its arm."
+          : `${enrolment.blocksPerArm === null ? "No number of blocks" : count(enrolment.blocksPerArm, "block")} per arm.`}{" "}
+        Randomised from seed <code className="break-all font-mono text-xs">{enrolment.randomisationSeed}</code>, so the list can be checked.
         {enrolment.remindersAllowed ? "" : " You asked not to get reminders."}
       </p>
       {trial.designKind === "rooms" ? <RoomDrawTable draw={await listOwnRoomDraw(member, trial.id)} /> : null}
@@ -430,8 +432,9 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
       </div>
       {can(member.role, "trial-list:download") ? (
         <p className="mb-4 text-sm text-ink-soft">
-          The list comes in the season-log format with each block&apos;s strain, trial, arm and fruiting method filled in: add dates and
-          weights as you go and upload it on Season logs as it stands.
+          The list comes in the season-log format with each block&apos;s strain, trial, arm and fruiting method
+          {trial.designKind === "rooms" ? " (and its fruiting room)" : ""} filled in: add dates and weights as you go and upload it on
+          Season logs as it stands.
         </p>
       ) : null}
       {progress ? (
