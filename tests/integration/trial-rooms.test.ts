@@ -6,6 +6,7 @@ import { loadMember, type Member } from "@/lib/data/members";
 import {
   getCloseReview,
   getTrial,
+  getTrialListSeasonLog,
   inviteFarms,
   listOwnAssignments,
   listOwnRoomDraw,
@@ -133,6 +134,9 @@ describe("a room-level trial", () => {
       const list = await listOwnAssignments(farm.manager, trialId);
       expect(list).toHaveLength(12);
       for (const entry of list) expect(draw.find((room) => room.roomName === entry.roomName)?.armLabel).toBe(entry.armLabel);
+      // The list's season log places each block in its room, so an upload records where it fruits.
+      const { csv } = await getTrialListSeasonLog(farm.manager, trialId);
+      for (const entry of list) expect(csv).toMatch(new RegExp(`^${entry.blockCode},.*,${entry.roomName!},`, "m"));
     }
     const { rows: audit } = await inspector.query<{ details: unknown }>(
       "select details from audit_events where action = 'trial.enrolment_accepted' and details->>'trialId' = $1",
