@@ -3,6 +3,7 @@ import {
   boolean,
   check,
   date,
+  foreignKey,
   index,
   integer,
   jsonb,
@@ -17,6 +18,7 @@ import {
 import { farms, users } from "./cooperative";
 import { contaminatedHandling, enrolmentStatus, trialDesignKind, trialStatus } from "./enums";
 import { species, strains, treatments } from "./registries";
+import { fruitingRooms } from "./rooms";
 
 export const trials = pgTable(
   "trials",
@@ -164,10 +166,45 @@ export const trialBlockAssignments = pgTable(
     blockCode: text("block_code").notNull(),
     sequence: integer("sequence").notNull(),
     permutedBlock: integer("permuted_block").notNull(),
+    /** A room-level trial: the farm's room the block goes in, which was drawn to the block's arm (trial_room_assignments). */
+    roomId: uuid("room_id"),
   },
   (t) => [
     uniqueIndex("trial_block_assignments_code_unique").on(t.farmId, t.blockCode),
     index("trial_block_assignments_trial_idx").on(t.trialId),
+    // The tenant key: a listed block goes only in a room of its own farm.
+    foreignKey({ columns: [t.roomId, t.farmId], foreignColumns: [fruitingRooms.id, fruitingRooms.farmId] }).onDelete("cascade"),
+  ],
+);
+
+/**
+ * A room-level trial's draw of one farm's rooms to the arms (lib/trials/room-draw.ts), made when the
+ * farm accepts with the seed stored on its enrolment: the farm's own rows, as its rooms are.
+ */
+export const trialRoomAssignments = pgTable(
+  "trial_room_assignments",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    trialId: uuid("trial_id")
+      .notNull()
+      .references(() => trials.id, { onDelete: "cascade" }),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    enrolmentId: uuid("enrolment_id")
+      .notNull()
+      .references(() => trialEnrolments.id, { onDelete: "cascade" }),
+    roomId: uuid("room_id").notNull(),
+    armId: uuid("arm_id")
+      .notNull()
+      .references(() => trialArms.id, { onDelete: "cascade" }),
+    /** Position in the draw (1 …), so the list reads in the order drawn. */
+    sequence: integer("sequence").notNull(),
+  },
+  (t) => [
+    uniqueIndex("trial_room_assignments_room_unique").on(t.trialId, t.roomId),
+    index("trial_room_assignments_farm_idx").on(t.farmId),
+    foreignKey({ columns: [t.roomId, t.farmId], foreignColumns: [fruitingRooms.id, fruitingRooms.farmId] }).onDelete("cascade"),
   ],
 );
 

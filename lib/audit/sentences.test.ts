@@ -359,6 +359,14 @@ describe("trials and releases", () => {
         details: { trialId, blocksPerArm: 1, blocks: 3, seed: "s" },
       }).sentence,
     ).toBe("Noor enrolled the farm in trial OY-2026: 1 block per arm, 3 blocks in all.");
+    expect(
+      describeAuditEvent({
+        action: "trial.enrolment_accepted",
+        subject: "OY-2026",
+        actorLabel: "Noor",
+        details: { trialId, blocksPerArm: 6, blocks: 12, rooms: 4, seed: "s" },
+      }).sentence,
+    ).toBe("Noor enrolled the farm in trial OY-2026: 4 fruiting rooms drawn to the arms, 12 blocks in all.");
   });
 
   it("says a release's figures", () => {

@@ -481,10 +481,16 @@ export const auditSentences: Record<AuditAction, Describe> = {
     link: trialLink(details, subject),
   }),
   "trial.enrolment_accepted": (who, subject, details) => ({
-    sentence: `${who} enrolled the farm in trial ${subject}: ${count(number(details.blocksPerArm), "block")} per arm, ${count(
-      number(details.blocks),
-      "block",
-    )} in all.`,
+    sentence:
+      typeof details.rooms === "number"
+        ? `${who} enrolled the farm in trial ${subject}: ${count(details.rooms, "fruiting room")} drawn to the arms, ${count(
+            number(details.blocks),
+            "block",
+          )} in all.`
+        : `${who} enrolled the farm in trial ${subject}: ${count(number(details.blocksPerArm), "block")} per arm, ${count(
+            number(details.blocks),
+            "block",
+          )} in all.`,
     details: text(details.seed) ? [{ label: "Seed of the randomised list", value: text(details.seed) }] : [],
     link: trialLink(details, subject),
   }),

@@ -1,10 +1,12 @@
 import "server-only";
 import { createHash, randomBytes } from "node:crypto";
-import { and, asc, desc, eq, inArray, like, sql } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, isNull, like, sql } from "drizzle-orm";
 import { withAnalystAccess, type Transaction } from "@/db/client";
 import {
   auditEvents,
+  blockRoomMoves,
   blocks,
+  fruitingRooms,
   cooperativeSettings,
   farms,
   harvests,
@@ -14,6 +16,7 @@ import {
   trialArms,
   trialBlockAssignments,
   trialEnrolments,
+  trialRoomAssignments,
   trialAnalyses,
   trialPublications,
   trialReportFarms,
@@ -41,6 +44,8 @@ import {
 import type { MailKind, SecretLink } from "@/lib/mail/queued-mail";
 import { pooledRoomIcc, publishedSteps, roundTo, withinFarmSpread } from "@/lib/pooled";
 import { roomArmsProblems } from "@/lib/trials/room-design";
+import { trialBlockRooms } from "@/lib/trials/room-analysis";
+import { drawRoomsToArms, roomBlockList } from "@/lib/trials/room-draw";
 import { seededRandom } from "@/lib/random";
 import {
   assertMove,
@@ -59,6 +64,7 @@ import {
   trialReport,
   trialStatusLabels,
   type IncompleteCounts,
+  type ListEntry,
   type StoredTrialResults,
   type TrialBlockRecord,
   type TrialStatus,
@@ -748,7 +754,9 @@ async function storeAnalysisRun(
       .select({ minimumFarms: cooperativeSettings.minimumFarms, showPerFarmEstimates: cooperativeSettings.showPerFarmEstimates })
       .from(cooperativeSettings);
     const { blockRows, harvestRows } = await trialBlockRows(analyst, armIds);
+    const blockRooms = trial.designKind === "rooms" ? await trialBlockRoomsOf(analyst, blockRows) : undefined;
     const inputs = {
+      ...(blockRooms ? { blockRooms } : {}),
       outcome,
       minimumFarms: settings?.minimumFarms ?? 3,
       showPerFarmEstimates: settings?.showPerFarmEstimates ?? false,
@@ -1057,7 +1065,7 @@ export async function askToJoinTrial(member: Member, trialId: string): Promise<v
 export async function respondToInvitation(
   member: Member,
   trialId: string,
-  answer: { accept: boolean; blocksPerArm: number | null },
+  answer: { accept: boolean; blocksPerArm: number | null; roomIds?: readonly string[] },
 ): Promise<void> {
   if (!member.farmId) throw new AppError("forbidden", "Only a farm's manager can answer for the farm.");
   await asMember(member, async (tx) => {
@@ -1086,18 +1094,24 @@ export async function respondToInvitation(
       });
       return;
     }
-    const blocksPerArm = answer.blocksPerArm!;
     const seed = `${trial.code}/${randomBytes(12).toString("hex")}`;
-    const list = permutedBlockList({
-      seed,
-      armIds: trial.arms.map((arm) => arm.id),
-      blocksPerArm,
-      codePrefix: blockCodePrefix(trial.code, member.farmName ?? ""),
-    });
+    const codePrefix = blockCodePrefix(trial.code, member.farmName ?? "");
+    const drawn = trial.designKind === "rooms" ? await drawOwnRooms(tx, member, trial, seed, answer.roomIds ?? []) : null;
+    const list: (ListEntry & { roomId?: string })[] = drawn
+      ? roomBlockList(drawn, trial.blocksPerRoom ?? 1, codePrefix)
+      : permutedBlockList({ seed, armIds: trial.arms.map((arm) => arm.id), blocksPerArm: answer.blocksPerArm!, codePrefix });
+    // A room-level trial: the most blocks any arm gets, as its rooms were drawn (the arms differ by a room at most).
+    const blocksPerArm = drawn
+      ? Math.max(...trial.arms.map((arm) => list.filter((entry) => entry.armId === arm.id).length))
+      : answer.blocksPerArm!;
     await tx
       .update(trialEnrolments)
       .set({ status: "accepted", blocksPerArm, randomisationSeed: seed, respondedAt: new Date() })
       .where(eq(trialEnrolments.id, enrolment.id));
+    if (drawn)
+      await tx
+        .insert(trialRoomAssignments)
+        .values(drawn.map((entry) => ({ trialId, farmId: member.farmId!, enrolmentId: enrolment.id, ...entry })));
     await tx.insert(trialBlockAssignments).values(
       list.map((entry) => ({
         trialId,
@@ -1107,6 +1121,7 @@ export async function respondToInvitation(
         blockCode: entry.blockCode,
         sequence: entry.sequence,
         permutedBlock: entry.permutedBlock,
+        roomId: entry.roomId ?? null,
       })),
     );
     await recordAudit(tx, {
@@ -1114,7 +1129,8 @@ export async function respondToInvitation(
       farmId: member.farmId,
       action: "trial.enrolment_accepted",
       subject: trial.code,
-      details: { trialId, blocksPerArm, seed, blocks: list.length },
+      // Counts and the seed only: the farm's own audit log, but room names stay on the rooms' pages.
+      details: { trialId, blocksPerArm, seed, blocks: list.length, ...(drawn ? { rooms: drawn.length } : {}) },
     });
     const optOut = secretLink({ for: "reminders-opt-out", enrolmentId: enrolment.id });
     const mail = enrolmentConfirmationMail({
@@ -1127,6 +1143,52 @@ export async function respondToInvitation(
     });
     await deliver(tx, "trial-enrolment", member.email, mail, optOut);
   });
+}
+
+/**
+ * A room-level trial: the farm's own fruiting rooms it picked, checked (its own, not retired, at
+ * least one per arm) and drawn to the arms with the enrolment's seed (drawRoomsToArms).
+ */
+async function drawOwnRooms(tx: Transaction, member: Member, trial: TrialBase, seed: string, roomIds: readonly string[]) {
+  const picked = [...new Set(roomIds)];
+  const own = picked.length
+    ? await tx
+        .select({ id: fruitingRooms.id })
+        .from(fruitingRooms)
+        .where(and(inArray(fruitingRooms.id, picked), eq(fruitingRooms.farmId, member.farmId!), isNull(fruitingRooms.retiredOn)))
+    : [];
+  if (own.length !== picked.length)
+    throw new AppError("invalid_input", "Not enrolled: pick rooms of your own farm that are still in use.", [
+      { field: "roomIds", message: "One of the rooms picked is retired or not your farm's. Reload the page and pick again." },
+    ]);
+  try {
+    return drawRoomsToArms({ seed, armIds: trial.arms.map((arm) => arm.id), roomIds: picked });
+  } catch (error) {
+    if (error instanceof TrialRuleError) throw new AppError("invalid_input", error.message, [{ field: "roomIds", message: error.message }]);
+    throw error;
+  }
+}
+
+/** A room-level trial: the farm's own draw of its rooms to arms, in the order drawn, with each arm's regime. */
+export async function listOwnRoomDraw(member: Member, trialId: string) {
+  if (!member.farmId) return [];
+  return asMember(member, (tx) =>
+    tx
+      .select({
+        sequence: trialRoomAssignments.sequence,
+        roomName: fruitingRooms.name,
+        armLabel: trialArms.label,
+        strainName: strains.name,
+        regimeName: treatments.name,
+      })
+      .from(trialRoomAssignments)
+      .innerJoin(fruitingRooms, eq(fruitingRooms.id, trialRoomAssignments.roomId))
+      .innerJoin(trialArms, eq(trialArms.id, trialRoomAssignments.armId))
+      .innerJoin(strains, eq(strains.id, trialArms.strainId))
+      .leftJoin(treatments, eq(treatments.id, trialArms.treatmentId))
+      .where(and(eq(trialRoomAssignments.trialId, trialId), eq(trialRoomAssignments.farmId, member.farmId!)))
+      .orderBy(asc(trialRoomAssignments.sequence)),
+  );
 }
 
 /** The farm's own randomised list; row-level security returns nothing for another farm. */
@@ -1143,11 +1205,14 @@ export async function listOwnAssignments(member: Member, trialId: string) {
         treatmentName: treatments.name,
         treatmentCode: treatments.code,
         treatmentKind: treatments.kind,
+        roomName: fruitingRooms.name,
       })
       .from(trialBlockAssignments)
       .innerJoin(trialArms, eq(trialArms.id, trialBlockAssignments.armId))
       .innerJoin(strains, eq(strains.id, trialArms.strainId))
       .leftJoin(treatments, eq(treatments.id, trialArms.treatmentId))
+      // The farm's own room (row-level security of fruiting_rooms: nobody else reads its name).
+      .leftJoin(fruitingRooms, eq(fruitingRooms.id, trialBlockAssignments.roomId))
       .where(and(eq(trialBlockAssignments.trialId, trialId), member.farmId ? eq(trialBlockAssignments.farmId, member.farmId) : sql`false`))
       .orderBy(asc(trialBlockAssignments.sequence)),
   );
@@ -1169,6 +1234,7 @@ export async function getTrialListSeasonLog(member: Member, trialId: string): Pr
       strainCode: entry.strainCode,
       // The season log has a column for the fruiting method only; a humidity regime belongs to the room, not the block.
       fruitingMethodCode: entry.treatmentKind === "fruiting_method" ? entry.treatmentCode : null,
+      roomName: entry.roomName,
     })),
   );
   return { fileName: `${trial.code}-block-list.csv`, csv };
@@ -1341,6 +1407,21 @@ async function trialBlockRows(analyst: Transaction, armIds: string[]) {
         )
     : [];
   return { blockRows, harvestRows };
+}
+
+/** A room-level trial's blocks' fruiting rooms, by opaque room id (never a name), through the analyst's columns. */
+async function trialBlockRoomsOf(analyst: Transaction, blockRows: readonly { id: string }[]) {
+  if (!blockRows.length) return new Map<string, string | null>();
+  const ids = blockRows.map((row) => row.id);
+  const moves = await analyst
+    .select({ blockId: blockRoomMoves.blockId, roomId: blockRoomMoves.roomId, movedOn: blockRoomMoves.movedOn })
+    .from(blockRoomMoves)
+    .where(inArray(blockRoomMoves.blockId, ids));
+  const harvestDays = await analyst
+    .select({ blockId: harvests.blockId, harvestedOn: harvests.harvestedOn })
+    .from(harvests)
+    .where(inArray(harvests.blockId, ids));
+  return trialBlockRooms(moves, harvestDays);
 }
 
 async function closeReviewOf(tx: Transaction, trial: TrialBase): Promise<CloseReview> {

@@ -132,6 +132,8 @@ export interface ListedBlock {
   strainCode: string;
   /** The arm's fruiting method code; null when the arm fixes none. */
   fruitingMethodCode: string | null;
+  /** A room-level trial: the farm's room the block fruits in (its room was drawn to the block's arm). */
+  roomName?: string | null;
 }
 
 /**
@@ -145,6 +147,7 @@ export function trialListCsv(list: readonly ListedBlock[]): string {
     trial: entry.trialCode,
     arm: entry.armLabel,
     fruiting_method: entry.fruitingMethodCode ?? "",
+    fruiting_room: entry.roomName ?? "",
   }));
   return `${toCsv(rows, columns)}\r\n`;
 }

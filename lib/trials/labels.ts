@@ -21,6 +21,8 @@ export interface LabelEntry {
   strainCode: string;
   strainName: string;
   treatmentName: string | null;
+  /** A room-level trial: the farm's own room the block goes in. */
+  roomName?: string | null;
 }
 
 export interface Label extends LabelEntry {

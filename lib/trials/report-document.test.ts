@@ -145,3 +145,33 @@ describe("text for the PDF's built-in font", () => {
     expect(pdfSafeText("菌 strain")).toBe("? strain");
   });
 });
+
+describe("a room-level trial's report document", () => {
+  it("says the unit is the room, with rooms per arm and the room-mean F test, and no room's own mean", () => {
+    const trial = trialAs(null, false);
+    const rooms: NonNullable<StoredTrialResults["rooms"]> = {
+      unit: "room",
+      roomsPerArm: [
+        { label: "A", rooms: 6 },
+        { label: "B", rooms: 6 },
+      ],
+      iccObserved: 0.12,
+      anova: { arm: { df: 1, ss: 10, ms: 10, f: 4.5, p: 0.06 }, farm: { df: 2, ss: 4, ms: 2, f: 0.9, p: 0.4 }, residualDf: 8 },
+      adjustedMeans: [
+        { treatment: "A", estimate: 80, lower: 76, upper: 84 },
+        { treatment: "B", estimate: 85, lower: 81, upper: 89 },
+      ],
+      versusReference: [{ arm: "B", versus: "A", estimate: 5, se: 2, lower: -0.5, upper: 10.5, pAdjusted: 0.06 }],
+      betweenArms: [],
+      roomsAnalysed: 12,
+      notes: [],
+      answer: "B and the reference could not be told apart.",
+    };
+    const text = JSON.stringify(trialReportDocument({ ...trial, results: { ...trial.results, rooms } }).pages[0]);
+    expect(text).toContain("The unit of this trial is the fruiting room");
+    expect(text).toContain("Rooms analysed: arm A 6 rooms, arm B 6 rooms.");
+    expect(text).toContain("intraclass correlation of 0.12");
+    expect(text).toContain("F = 4.50 on 1 and 8 degrees of freedom (rooms)");
+    expect(JSON.stringify(trialReportDocument(trial).pages[0])).not.toContain("fruiting room");
+  });
+});

@@ -1,6 +1,7 @@
 import { cautions } from "@/lib/cautions";
 import type { Difference } from "./analysis";
 import type { FactorialComparison, FactorialTrialAnalysis } from "./factorial";
+import { roomUnitSentence, type PublishedRoomAnalysis } from "./room-analysis";
 import type { StoredTrialResults } from "./report";
 import { formatDateTime, formatDay, utcDisplay, type TimeDisplay } from "@/lib/time/display";
 import { agree, count } from "@/lib/words";
@@ -149,6 +150,8 @@ export function trialReportDocument(trial: ReportTrial, display: TimeDisplay = u
 
   const factorial = trial.results.factorial;
   if (factorial?.anova) first.push(factorialSection(factorial, factorial.anova));
+  const rooms = trial.results.rooms;
+  if (rooms) first.push(roomSection(rooms, analysis.referenceArm));
 
   const second: ReportSection[] = [];
   if (analysis.versusReference.length) {
@@ -397,6 +400,46 @@ export function pdfSafeText(text: string): string {
 }
 
 const capitalised = (text: string) => text[0].toUpperCase() + text.slice(1);
+
+/** A room-level trial's figures as the report page shows them (RoomResults): counts of rooms, never one room's mean. */
+function roomSection(rooms: PublishedRoomAnalysis, referenceArm: string): ReportSection {
+  const tables: ReportTable[] = [];
+  if (rooms.anova)
+    tables.push({
+      title: "Farm-adjusted mean of room means",
+      columns: ["Arm", "Rooms", "Mean BE", "95 % interval"],
+      rows: rooms.adjustedMeans.map((mean) => [
+        `${mean.treatment}${mean.treatment === referenceArm ? " (reference)" : ""}`,
+        String(rooms.roomsPerArm.find((arm) => arm.label === mean.treatment)?.rooms ?? "-"),
+        `${fmt(mean.estimate)} %`,
+        `${fmt(mean.lower)} - ${fmt(mean.upper)} %`,
+      ]),
+    });
+  if (rooms.versusReference.length)
+    tables.push({
+      title: "Differences between arms, rooms as the unit (Tukey)",
+      columns: ["Difference", "BE points", "95 % interval", "p (adjusted)"],
+      rows: [...rooms.versusReference, ...rooms.betweenArms].map((row) => [
+        `${row.arm} - ${row.versus}`,
+        fmt(row.estimate),
+        `${fmt(row.lower)} to ${fmt(row.upper)}`,
+        pText(row.pAdjusted),
+      ]),
+    });
+  return {
+    heading: "Biological efficiency by arm, rooms as the unit",
+    paragraphs: [
+      roomUnitSentence(rooms),
+      ...(rooms.anova
+        ? [
+            `F = ${fmt(rooms.anova.arm.f, 2)} on ${rooms.anova.arm.df} and ${rooms.anova.residualDf} degrees of freedom (rooms), p ${pText(rooms.anova.arm.p)}.`,
+          ]
+        : []),
+      ...rooms.notes,
+    ],
+    tables,
+  };
+}
 
 /** A crossed trial's figures as the report page shows them: the terms, each combination's mean, the comparisons. */
 function factorialSection(factorial: FactorialTrialAnalysis, anova: NonNullable<FactorialTrialAnalysis["anova"]>): ReportSection {

@@ -13,6 +13,7 @@ import {
 import type { TrialDesignKind } from "./design-kind";
 import { analyseFactorialTrial, factorialDesignFromArms, type FactorialTrialAnalysis } from "./factorial";
 import { exclusionReasons, trialOutcomeRecords, type ClassifiedOutcomeRecord, type ExclusionReason } from "./outcome";
+import { analyseRoomTrial, type PublishedRoomAnalysis } from "./room-analysis";
 import { crossingOf, trialSampleSize } from "./sample-size";
 
 /** One arm as a published report shows it: each figure only with the co-op's minimum number of farms behind it. */
@@ -220,6 +221,12 @@ export interface StoredTrialResults {
    * one-factor trial and for results stored before trials could cross two factors.
    */
   factorial?: FactorialTrialAnalysis;
+  /**
+   * For a trial whose rooms were drawn to climate regimes: the room-mean analysis (farm as block),
+   * rooms per arm and the observed ICC; its answer is then `analysis.answer`, and the block-level
+   * comparisons (which would count blocks sharing a room as independent) are not published.
+   */
+  rooms?: PublishedRoomAnalysis;
   /** Block counts are null where fewer than the minimum number of farms reported. */
   deviations: {
     farmsDropped: number;
@@ -270,6 +277,8 @@ export function trialReport(input: {
   arms: readonly TrialArmInfo[];
   blockRows: Parameters<typeof trialOutcomeRecords>[0];
   harvestRows: Parameters<typeof trialOutcomeRecords>[1];
+  /** For a room-level trial: each block's fruiting room (an opaque key), from trialBlockRooms. */
+  blockRooms?: ReadonlyMap<string, string | null>;
   outcome: Parameters<typeof trialOutcomeRecords>[2];
   minimumFarms: number;
   showPerFarmEstimates: boolean;
@@ -294,6 +303,27 @@ export function trialReport(input: {
   let report = disclosed.report;
   const factorial =
     input.design.designKind === "strain_by_method" ? factorialReport(input.arms, records, input.minimumFarms, report) : undefined;
+  // trialOutcomeRecords keeps the block rows that carry an arm, in their order.
+  const armedBlocks = input.blockRows.filter((row) => row.armId !== null);
+  const rooms =
+    input.design.designKind === "rooms"
+      ? analyseRoomTrial({
+          arms: input.arms,
+          records: records.map((record, i) => ({ ...record, room: input.blockRooms?.get(armedBlocks[i].id) ?? null })),
+          minimumFarms: input.minimumFarms,
+        })
+      : undefined;
+  if (rooms) {
+    // The room is the unit: block-level comparisons would treat blocks sharing a room's air as independent.
+    report = {
+      ...report,
+      anova: null,
+      versusReference: [],
+      betweenArms: [],
+      farmPooling: [],
+      answer: rooms.answer,
+    };
+  }
   if (factorial) {
     // The crossing is the pre-declared analysis: its answer replaces the arm-by-arm one; what it could not do is said.
     report = factorial.anova
@@ -322,6 +352,7 @@ export function trialReport(input: {
     results: {
       analysis: report,
       ...(factorial ? { factorial } : {}),
+      ...(rooms ? { rooms } : {}),
       deviations: {
         farmsDropped: input.enrolments.filter((enrolment) => enrolment.status === "dropped").length,
         farmsDeclined: input.enrolments.filter((enrolment) => enrolment.status === "declined").length,

@@ -33,6 +33,8 @@ export interface AnalysisInputs {
   assignedByArm: Readonly<Record<string, number>>;
   blockRows: readonly TrialBlockRow[];
   harvestRows: readonly { blockId: string; flush: number; freshMassG: number }[];
+  /** A room-level trial's blocks' fruiting rooms (trialBlockRooms): moving a block changes its room's mean. */
+  blockRooms?: ReadonlyMap<string, string | null>;
 }
 
 export function analysisInputCounts(inputs: AnalysisInputs): AnalysisInputCounts {
@@ -50,6 +52,7 @@ export function analysisInputCounts(inputs: AnalysisInputs): AnalysisInputCounts
           canonicalBlocks(
             inputs.blockRows.filter((row) => own.has(row.id)),
             inputs.harvestRows.filter((row) => own.has(row.blockId)),
+            inputs.blockRooms,
           ),
         );
       })
@@ -76,7 +79,11 @@ export function farmsChangedBetween(before: readonly string[], after: readonly s
 
 const sha = (value: unknown) => createHash("sha256").update(JSON.stringify(value)).digest("hex").slice(0, 32);
 
-function canonicalBlocks(blockRows: readonly TrialBlockRow[], harvestRows: AnalysisInputs["harvestRows"]) {
+function canonicalBlocks(
+  blockRows: readonly TrialBlockRow[],
+  harvestRows: AnalysisInputs["harvestRows"],
+  blockRooms?: AnalysisInputs["blockRooms"],
+) {
   const harvestsByBlock = new Map<string, [number, number][]>();
   for (const harvest of harvestRows)
     harvestsByBlock.set(harvest.blockId, [...(harvestsByBlock.get(harvest.blockId) ?? []), [harvest.flush, Number(harvest.freshMassG)]]);
@@ -92,6 +99,8 @@ function canonicalBlocks(blockRows: readonly TrialBlockRow[], harvestRows: Analy
       row.contaminated,
       numberOrNull(row.spentMassG),
       (harvestsByBlock.get(row.id) ?? []).sort((a, b) => a[0] - b[0] || a[1] - b[1]),
+      // Only for a room-level trial, so other trials' fingerprints stay as they were.
+      ...(blockRooms ? [blockRooms.get(row.id) ?? null] : []),
     ]);
 }
 
@@ -110,7 +119,7 @@ export function analysisFingerprint(inputs: AnalysisInputs): string {
     arms: [...inputs.arms].sort((a, b) => byText(a.id, b.id)).map((arm) => [arm.id, arm.label, arm.isReference]),
     enrolments: inputs.enrolments.map((enrolment) => enrolment.status).sort(byText),
     assigned: Object.entries(inputs.assignedByArm).sort(([a], [b]) => byText(a, b)),
-    blocks: canonicalBlocks(inputs.blockRows, inputs.harvestRows),
+    blocks: canonicalBlocks(inputs.blockRows, inputs.harvestRows, inputs.blockRooms),
   });
 }
 

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { BrowserContext, Page } from "playwright-core";
 import { collectPageErrors, openBrowser, screenshot, seriousAccessibilityProblems } from "./support/browser";
 import { AppShell, SignInPage } from "./support/pages";
-import { TrialDesignPage } from "./support/trial-pages";
+import { TrialDesignPage, TrialPage } from "./support/trial-pages";
 
 // The coordinator designs a trial whose unit is the room: each arm a climate regime, rooms drawn to
 // the arms within each farm, and the size in rooms from the design effect 1 + (m − 1)·ICC.
@@ -10,6 +10,7 @@ describe("a room-level trial, in the browser", () => {
   let browser: BrowserContext;
   let page: Page;
   let errors: string[];
+  let trialId: string;
 
   beforeAll(async () => {
     browser = await openBrowser();
@@ -58,11 +59,42 @@ describe("a room-level trial, in the browser", () => {
     await screenshot(page, "room-trial-design");
     expect(await seriousAccessibilityProblems(page)).toEqual([]);
 
-    await design.saveDraft();
+    trialId = await design.saveDraft();
     expect(await page.getByTestId("design-kind-summary").textContent()).toMatch(
       /^Rooms randomised to climate regimes within each farm, 6 blocks a room, sized for an intraclass correlation of 0.05/,
     );
     await screenshot(page, "room-trial-draft");
+    const trial = new TrialPage(page);
+    await trial.move("Open for enrolment", "Open for enrolment");
+    expect(await trial.invite("Fernbrook Farm")).toContain("e-mail");
+    await new AppShell(page).signOut();
+    expect(errors).toEqual([]);
+  });
+
+  it("lets a farm pick its own rooms, draws them to the arms and says which regime each room runs", async () => {
+    await new SignInPage(page).signIn("manager@fernbrook.example");
+    await new AppShell(page).waitUntilSignedIn();
+    const trial = new TrialPage(page);
+    await trial.open(trialId);
+    // Fernbrook's demo rooms (db/seed-rooms.ts): a tub and a tent, one for each of the two arms.
+    await page.getByRole("checkbox", { name: "Tub 1" }).check();
+    await page.getByRole("checkbox", { name: "Back tent" }).check();
+    await screenshot(page, "room-trial-pick-rooms");
+    expect(await seriousAccessibilityProblems(page)).toEqual([]);
+    await page.getByRole("button", { name: "Accept and draw our rooms" }).click();
+    const draw = page.getByTestId("room-draw");
+    await draw.waitFor();
+    const rows = await draw.locator("tbody tr").allTextContents();
+    expect(rows).toHaveLength(2);
+    expect(rows.join(" ")).toMatch(/Tub 1/);
+    expect(rows.join(" ")).toMatch(/Back tent/);
+    // One room to each arm, each with its arm's regime.
+    expect(rows.some((row) => /A \(Grey Morning\)Misted all day/.test(row))).toBe(true);
+    expect(rows.some((row) => /B \(Grey Morning\)Soaked once a day/.test(row))).toBe(true);
+    expect(await draw.textContent()).toMatch(/Run each room under its arm's climate regime/);
+    expect(await draw.getByText("Humidifiers and mains power").count()).toBeGreaterThan(0);
+    await screenshot(page, "room-trial-rooms-drawn");
+    expect(await seriousAccessibilityProblems(page)).toEqual([]);
     expect(errors).toEqual([]);
   });
 });

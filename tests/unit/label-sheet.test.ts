@@ -27,5 +27,33 @@ describe("the label sheet", () => {
       expect(label).toContain("<dt>Wet mass</dt>");
     }
     expect(html).not.toMatch(/<script|style=/);
+    expect(html).not.toContain("Room:");
+  });
+
+  it("says which room each block of a room-level trial goes in", async () => {
+    const entries = [
+      {
+        blockCode: "T-2026-04-FF-01",
+        armLabel: "A",
+        strainCode: "PO-1",
+        strainName: "Grey Morning",
+        treatmentName: "Misted all day",
+        roomName: "Back tent",
+      },
+      {
+        blockCode: "T-2026-04-FF-02",
+        armLabel: "B",
+        strainCode: "PO-1",
+        strainName: "Grey Morning",
+        treatmentName: "Soaked once a day",
+        roomName: "Tub 1",
+      },
+    ];
+    const html = renderToStaticMarkup(
+      createElement(LabelSheet, { labels: await labelsFor(entries, "https://coop.example"), trialCode: "T-2026-04" }),
+    );
+    const labels = html.split('class="label ').slice(1);
+    expect(labels[0]).toContain("Room: Back tent");
+    expect(labels[1]).toContain("Room: Tub 1");
   });
 });

@@ -211,14 +211,31 @@ export const askToJoinTrialAction = guardedAction("trial:enrol", z.object({ tria
 
 export const respondToInvitationAction = guardedAction(
   "trial:enrol",
+  // A room-level trial's form has one checkbox per fruiting room, named "room:<id>".
   z
-    .object({
+    .looseObject({
       trialId: z.uuid(),
       answer: z.enum(["accept", "decline"]),
       blocksPerArm: z.string().optional(),
+      roomDraw: z.literal("yes").optional(),
     })
     .transform((input, context) => {
-      if (input.answer === "decline") return { ...input, blocksPerArm: null };
+      const base = { trialId: input.trialId, answer: input.answer };
+      if (input.answer === "decline") return { ...base, blocksPerArm: null, roomIds: undefined };
+      if (input.roomDraw) {
+        const roomIds = Object.keys(input)
+          .filter((key) => key.startsWith("room:"))
+          .map((key) => key.slice("room:".length));
+        if (roomIds.some((id) => !z.uuid().safeParse(id).success) || !roomIds.length) {
+          context.addIssue({
+            code: "custom",
+            path: ["roomIds"],
+            message: "Pick the fruiting rooms that take part, at least one for each arm.",
+          });
+          return z.NEVER;
+        }
+        return { ...base, blocksPerArm: null, roomIds };
+      }
       const number = Number(input.blocksPerArm);
       if (!Number.isInteger(number) || number < 1 || number > 200) {
         context.addIssue({
@@ -228,10 +245,14 @@ export const respondToInvitationAction = guardedAction(
         });
         return z.NEVER;
       }
-      return { ...input, blocksPerArm: number };
+      return { ...base, blocksPerArm: number, roomIds: undefined };
     }),
   async (input, member) => {
-    await respondToInvitation(member, input.trialId, { accept: input.answer === "accept", blocksPerArm: input.blocksPerArm });
+    await respondToInvitation(member, input.trialId, {
+      accept: input.answer === "accept",
+      blocksPerArm: input.blocksPerArm,
+      roomIds: input.roomIds,
+    });
     revalidatePath(`/trials/${input.trialId}`);
     return {
       status: "ok",

@@ -15,6 +15,7 @@ import {
   getOwnEnrolment,
   getOwnProgress,
   getStartReadiness,
+  listOwnRoomDraw,
   listInvitableFarms,
   listTrialHistory,
   listTrialProgress,
@@ -29,6 +30,8 @@ import { askToJoinTrialAction, inviteFarmsAction, moveTrialAction, respondToInvi
 import { ActionForm } from "@/components/forms/action-form";
 import { AnalysisRunsCard, RunChoice } from "../_components/analysis-runs";
 import { CloseReviewCard } from "../_components/close-review";
+import { RoomDrawTable, RoomPickForm } from "../_components/room-enrolment";
+import { listRoomChoices } from "@/lib/data/rooms";
 import { ProtocolSummary } from "../_components/protocol-summary";
 import { StatusBadge } from "../_components/status-badge";
 import { TrialTimelineBar } from "../_components/trial-timeline";
@@ -336,6 +339,30 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
   if (enrolment.status === "invited") {
     if (trial.status !== "open") return <Notice>Enrolment closed before your farm answered.</Notice>;
     if (!can(member.role, "trial:enrol")) return <Notice>Your farm is invited; your farm manager answers for the farm.</Notice>;
+    if (trial.designKind === "rooms")
+      return (
+        <Card title="Your farm is invited">
+          <p className="mb-3 text-sm">
+            In this trial each arm is a climate regime run in whole fruiting rooms. Accepting commits your farm to run each room it picks
+            under the regime its arm is drawn to, and Rhizomorph gives you a list of block codes for each room.
+          </p>
+          <RoomPickForm
+            trialId={trial.id}
+            arms={trial.arms.length}
+            blocksPerRoom={trial.blocksPerRoom ?? null}
+            rooms={await listRoomChoices(member)}
+          />
+          <div className="mt-4">
+            <ActionForm
+              action={respondToInvitationAction}
+              hidden={{ trialId: trial.id, answer: "decline" }}
+              submitLabel="Decline"
+              variant="secondary"
+              confirm="Decline this trial for your farm?"
+            />
+          </div>
+        </Card>
+      );
     return (
       <Card title="Your farm is invited">
         <p className="mb-3 text-sm">
@@ -382,10 +409,13 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
   return (
     <Card title="Your farm's part">
       <p className="text-sm">
-        {enrolment.blocksPerArm === null ? "No number of blocks" : count(enrolment.blocksPerArm, "block")} per arm. Randomised from seed{" "}
-        <code className="break-all font-mono text-xs">{enrolment.randomisationSeed}</code>, so the list can be checked.
+        {trial.designKind === "rooms"
+          ? "Your rooms were drawn to the arms, and each room's blocks listed with its arm."
+          : `${enrolment.blocksPerArm === null ? "No number of blocks" : count(enrolment.blocksPerArm, "block")} per arm.`}{" "}
+        Randomised from seed <code className="break-all font-mono text-xs">{enrolment.randomisationSeed}</code>, so the list can be checked.
         {enrolment.remindersAllowed ? "" : " You asked not to get reminders."}
       </p>
+      {trial.designKind === "rooms" ? <RoomDrawTable draw={await listOwnRoomDraw(member, trial.id)} /> : null}
       <div className="my-4 flex flex-wrap gap-3">
         {can(member.role, "trial-list:download") ? (
           <>
@@ -402,8 +432,9 @@ async function FarmSection({ trial, member }: { trial: TrialView; member: Member
       </div>
       {can(member.role, "trial-list:download") ? (
         <p className="mb-4 text-sm text-ink-soft">
-          The list comes in the season-log format with each block&apos;s strain, trial, arm and fruiting method filled in: add dates and
-          weights as you go and upload it on Season logs as it stands.
+          The list comes in the season-log format with each block&apos;s strain, trial, arm and fruiting method
+          {trial.designKind === "rooms" ? " (and its fruiting room)" : ""} filled in: add dates and weights as you go and upload it on
+          Season logs as it stands.
         </p>
       ) : null}
       {progress ? (

@@ -23,6 +23,7 @@ export function LabelSheet({ labels, trialCode }: { labels: Label[]; trialCode: 
               <span className="font-semibold">Arm {label.armLabel}</span> · {label.strainCode} {label.strainName}
               {label.treatmentName ? ` · ${label.treatmentName}` : ""}
             </p>
+            {label.roomName ? <p className="text-base font-semibold">Room: {label.roomName}</p> : null}
             <p className="text-sm">Trial {trialCode}</p>
             <dl className="mt-2 space-y-2 text-sm">
               <div className="flex items-end gap-2">

@@ -20,6 +20,7 @@ import { ProtocolSummary } from "../../_components/protocol-summary";
 import { StatusBadge } from "../../_components/status-badge";
 import { ArmBoxplot, TrialForestChart } from "../../_components/trial-charts";
 import { DifferenceRow, FactorialResults } from "../../_components/factorial-results";
+import { RoomResults } from "../../_components/room-results";
 import { agree, count } from "@/lib/words";
 
 export const metadata: Metadata = { title: "Trial results" };
@@ -183,6 +184,7 @@ function Report({ trial, results, display }: { trial: TrialView; results: Stored
       </Card>
 
       {results.factorial?.anova ? <FactorialResults factorial={results.factorial} /> : null}
+      {results.rooms ? <RoomResults rooms={results.rooms} referenceArm={results.analysis.referenceArm} /> : null}
 
       {results.analysis.anova ? (
         <Card title="Biological efficiency by arm, adjusted for farm">
