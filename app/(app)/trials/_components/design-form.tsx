@@ -6,6 +6,7 @@ import { Card } from "@/components/ui/card";
 import { Caution } from "@/components/ui/caution";
 import { Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
+import { WordsExplained } from "@/components/ui/words-explained";
 import type { ActionState } from "@/lib/auth/guard";
 import type { TrialDesignKind } from "@/lib/trials/design-kind";
 import { crossedArms, crossedArmsProblems } from "@/lib/trials/factorial";
@@ -725,6 +726,7 @@ export function DesignForm({ options, initial }: { options: DesignOptions; initi
                       randomising blocks instead would need {roomPanel.rows[0].blocksPerArmIfBlocksRandomised.toFixed(1)} blocks per arm,
                       but a regime runs a whole room, so its blocks cannot be drawn one by one.
                     </p>
+                    <WordsExplained terms={["design-effect", "intraclass-correlation", "room-as-unit"]} />
                   </>
                 ) : (
                   <p className="text-sm text-ink-soft">{Object.values(roomPanel.problems)[0]}</p>
