@@ -4,8 +4,8 @@ import type { Transaction } from "@/db/client";
 import { blockRoomMoves, blocks, fruitingRooms, roomRegimes, treatments, users } from "@/db/schema";
 import { actor, recordAudit } from "@/lib/data/audit";
 import { AppError, databaseRefusalOf } from "@/lib/errors";
-import { roomFreshAirLabels, roomKindLabels, type HumidityMode, type RoomFreshAir, type RoomKind } from "@/lib/rooms/lists";
-import { regimeInWords, regimeOn, regimePeriods, roomOn } from "@/lib/rooms/regimes";
+import { roomFreshAirLabels, roomKindLabels, type RoomFreshAir, type RoomKind } from "@/lib/rooms/lists";
+import { regimeInWords, regimeOn, regimePeriods, roomOn, type RegimeSettings } from "@/lib/rooms/regimes";
 import type { MoveInput, RegimeChangeInput, RoomInput } from "@/lib/rooms/schemas";
 import type { Member } from "./members";
 import { asMember, farmOf } from "./context";
@@ -13,21 +13,13 @@ import { asMember, farmOf } from "./context";
 /** The same words for another farm's room as for one that does not exist. */
 export const noSuchRoom = "There is no such room on your farm. Pick it from Rooms.";
 
-export interface RoomRegime {
+export interface RoomRegime extends RegimeSettings {
   id: string;
   startsOn: string;
   /** The last day it was in force; null while it still is. */
   until: string | null;
   regimeKindId: string | null;
   regimeKind: string | null;
-  humidityMode: HumidityMode;
-  cycleOnMinutes: number | null;
-  cycleOffMinutes: number | null;
-  floodStartsAt: string | null;
-  floodHours: number | null;
-  airChangesPerHour: number | null;
-  temperatureSetC: number | null;
-  cleaningEveryDays: number | null;
   notes: string;
   recordedBy: string | null;
   words: string;

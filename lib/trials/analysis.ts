@@ -7,6 +7,7 @@ import {
   type AdjustedMean,
   type AnovaTerm,
   type Description,
+  type PairwiseComparison,
   type ProportionInterval,
 } from "@/lib/stats";
 import { count } from "@/lib/words";
@@ -59,6 +60,19 @@ export interface Difference {
   lower: number;
   upper: number;
   pAdjusted: number;
+}
+
+/** The model gives mean(earlier) − mean(later); each pair read as the later arm against the earlier one. */
+export function laterAgainstEarlier(comparisons: readonly PairwiseComparison[]): Difference[] {
+  return comparisons.map((pair) => ({
+    arm: pair.b,
+    versus: pair.a,
+    estimate: -pair.difference,
+    se: pair.se,
+    lower: -pair.upper,
+    upper: -pair.lower,
+    pAdjusted: pair.pAdjusted,
+  }));
 }
 
 export interface FarmDifference {
@@ -155,16 +169,7 @@ export function analyseTrial(input: { arms: TrialArmInfo[]; records: OutcomeReco
         inArmOrder.map((record) => ({ treatment: labelOf.get(record.armId)!, block: record.farm, y: record.value })),
       );
       anova = { arm: fit.treatment, farm: fit.block, adjustedMeans: fit.means };
-      // The model gives mean(earlier) − mean(later); read each pair as the later arm against the earlier one.
-      const pairs = fit.comparisons.map((pair) => ({
-        arm: pair.b,
-        versus: pair.a,
-        estimate: -pair.difference,
-        se: pair.se,
-        lower: -pair.upper,
-        upper: -pair.lower,
-        pAdjusted: pair.pAdjusted,
-      }));
+      const pairs = laterAgainstEarlier(fit.comparisons);
       versusReference = pairs.filter((pair) => pair.versus === reference.label);
       betweenArms = pairs.filter((pair) => pair.versus !== reference.label);
     } catch (error) {

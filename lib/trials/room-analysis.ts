@@ -2,7 +2,7 @@ import { roomOn } from "@/lib/rooms/regimes";
 import { StatsInputError, intraclassCorrelation, roomMeanAnalysis, type AnovaTerm } from "@/lib/stats";
 import { count } from "@/lib/words";
 
-import { plainAnswer, type Difference, type OutcomeRecord, type TrialArmInfo } from "./analysis";
+import { laterAgainstEarlier, plainAnswer, type Difference, type OutcomeRecord, type TrialArmInfo } from "./analysis";
 
 /** A block's move into a room, as block_room_moves holds it (null day = from the start of fruiting). */
 export interface TrialBlockMove {
@@ -148,18 +148,7 @@ export function analyseRoomTrial(input: {
     ).analysis;
     anova = { arm: fit.treatment, farm: fit.block, residualDf: fit.residual.df };
     adjustedMeans = fit.means.filter((mean) => shown(mean.treatment));
-    // The model gives mean(earlier) − mean(later); read each pair as the later arm against the earlier one, as analyseTrial does.
-    pairs = fit.comparisons
-      .map((pair) => ({
-        arm: pair.b,
-        versus: pair.a,
-        estimate: -pair.difference,
-        se: pair.se,
-        lower: -pair.upper,
-        upper: -pair.lower,
-        pAdjusted: pair.pAdjusted,
-      }))
-      .filter((pair) => shown(pair.arm) && shown(pair.versus));
+    pairs = laterAgainstEarlier(fit.comparisons).filter((pair) => shown(pair.arm) && shown(pair.versus));
   } catch (error) {
     if (!(error instanceof StatsInputError)) throw error;
     notes.push(`The room-mean analysis could not be fitted, so the arms are not compared: ${error.message}`);

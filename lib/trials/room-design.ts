@@ -1,4 +1,5 @@
 import { roomsPerArm, StatsInputError } from "@/lib/stats";
+import { sizingInputProblems } from "./sample-size";
 
 /**
  * A room-level trial: a climate regime applies to a whole fruiting room, so each farm's rooms, not
@@ -62,12 +63,7 @@ export type RoomSampleSizePanel =
  * every farm randomises the same whole number of rooms to each arm.
  */
 export function roomTrialSampleSize(input: RoomSampleSizeInput, powers: readonly number[] = [0.8, 0.9]): RoomSampleSizePanel {
-  const problems: Record<string, string> = {};
-  if (!(input.difference > 0)) problems.smallestDifference = "Give the smallest difference worth finding, in BE points, above 0 (e.g. 10).";
-  if (!(input.sd > 0)) problems.expectedSd = "Give the expected spread between blocks, in BE points, above 0 (e.g. 14).";
-  if (!Number.isInteger(input.plannedFarms) || input.plannedFarms < 1)
-    problems.plannedFarms = "Give the number of farms you plan to enrol, 1 or more.";
-  if (!(input.expectedLoss >= 0 && input.expectedLoss < 1)) problems.expectedLoss = "Give the expected loss as a percentage from 0 to 99.";
+  const problems = sizingInputProblems(input);
   if (!Number.isInteger(input.blocksPerRoom) || input.blocksPerRoom < 1)
     problems.blocksPerRoom = "Give the number of blocks each room holds, a whole number of 1 or more.";
   if (!(input.icc >= 0 && input.icc < 1))

@@ -53,13 +53,21 @@ export type SampleSizePanel =
  * level (lib/stats sampleSizePairwiseBlocked; for two arms on one farm, R's power.t.test). Then
  * made larger for the expected loss and rounded up so every farm runs the same whole number per arm.
  */
-export function trialSampleSize(input: SampleSizeInput, powers: readonly number[] = [0.8, 0.9]): SampleSizePanel {
+/** What is wrong with the inputs every trial's sizing shares, keyed by the design form's field names. */
+export function sizingInputProblems(
+  input: Pick<SampleSizeInput, "difference" | "sd" | "plannedFarms" | "expectedLoss">,
+): Record<string, string> {
   const problems: Record<string, string> = {};
   if (!(input.difference > 0)) problems.smallestDifference = "Give the smallest difference worth finding, in BE points, above 0 (e.g. 10).";
   if (!(input.sd > 0)) problems.expectedSd = "Give the expected spread between blocks, in BE points, above 0 (e.g. 14).";
   if (!Number.isInteger(input.plannedFarms) || input.plannedFarms < 1)
     problems.plannedFarms = "Give the number of farms you plan to enrol, 1 or more.";
   if (!(input.expectedLoss >= 0 && input.expectedLoss < 1)) problems.expectedLoss = "Give the expected loss as a percentage from 0 to 99.";
+  return problems;
+}
+
+export function trialSampleSize(input: SampleSizeInput, powers: readonly number[] = [0.8, 0.9]): SampleSizePanel {
+  const problems = sizingInputProblems(input);
   if (Object.keys(problems).length) return { ok: false, problems };
   try {
     const arms = Math.max(input.arms, 2);
