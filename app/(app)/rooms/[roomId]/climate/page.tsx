@@ -17,6 +17,7 @@ import { getRoomClimate, type RoomClimate } from "@/lib/data/climate";
 import { isAppError } from "@/lib/errors";
 import { formatDate, formatDateTime } from "@/lib/time/display";
 import { timeDisplayFor } from "@/lib/time/member-display";
+import { count } from "@/lib/words";
 import { uploadClimateLogAction } from "./actions";
 
 export const metadata: Metadata = { title: "Room climate" };
@@ -66,10 +67,17 @@ export default async function RoomClimatePage({ params }: { params: Promise<{ ro
             A flush&apos;s window runs from the day after the block&apos;s previous harvest (or the day it was moved into this room, if
             later) to the end of its harvest day, in {display.timeZone}. Wet means above {wetAbovePercent} % RH; a dry spell is an unbroken
             time under {dryBelowPercent} % RH; the mean temperature is weighted by time. No figures where the log covers less than 80 % of a
-            window.
+            window. A first flush of a block that was in this room from the start of fruiting has no window: the day fruiting began is not
+            recorded (record the day it was moved in on the block&apos;s page).
           </p>
           {windows.length === 0 ? (
             <p className="text-ink-soft">No flush has been picked from a block in this room yet.</p>
+          ) : readings.length === 0 ? (
+            // Without a log every window would only say so: one line instead of a table of the same words.
+            <p className="text-ink-soft">
+              {count(windows.length, "flush has", "flushes have")} been picked from blocks in this room. Upload the room&apos;s logger file
+              below to see the climate each one grew in.
+            </p>
           ) : (
             <ScrollFrame label="Climate per flush window">
               <table className="min-w-full text-sm">
@@ -106,7 +114,7 @@ export default async function RoomClimatePage({ params }: { params: Promise<{ ro
                       </td>
                       <td className="px-3 py-2">
                         {window.summary === null
-                          ? "No start known: the block was in this room from the start of fruiting, and the day fruiting began is not recorded. Record the day it was moved in."
+                          ? "No start known (the day fruiting began is not recorded)"
                           : summaryInWords(window.summary)}
                       </td>
                     </tr>
